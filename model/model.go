@@ -1,0 +1,272 @@
+// Package model is the channel model language of chanlint: it decodes
+// *.chan.hcl files into typed, validated values that keep their source
+// ranges, and builds the network graph (topological order, outlet,
+// headwaters, accumulated discharges). It computes no hydraulics and imports
+// no other package of the project.
+package model
+
+import "github.com/hashicorp/hcl/v2"
+
+// Units is the unit system of a model or a policy.
+type Units string
+
+const (
+	SI Units = "si" // metres, m³/s
+	US Units = "us" // feet, ft³/s
+)
+
+// Manning returns Manning's constant k in V = (k/n)·R^(2/3)·S^(1/2):
+// 1.0 for SI and 1.486 for US customary units.
+func (u Units) Manning() float64 {
+	if u == US {
+		return 1.486
+	}
+	return 1.0
+}
+
+// Gravity returns standard gravity, 9.80665 m/s² or 32.174 ft/s².
+func (u Units) Gravity() float64 {
+	if u == US {
+		return 32.174
+	}
+	return 9.80665
+}
+
+// Length is the symbol of the unit of length ("m" or "ft").
+func (u Units) Length() string {
+	if u == US {
+		return "ft"
+	}
+	return "m"
+}
+
+// Src is the source position of a decoded block: its header, its first
+// label (the name) and the value range of every attribute that was present.
+type Src struct {
+	DefRange   hcl.Range
+	LabelRange hcl.Range
+	Attrs      map[string]hcl.Range
+}
+
+// At returns the value range of attribute name, or the block's DefRange
+// when the attribute was not written.
+func (s Src) At(name string) hcl.Range {
+	if r, ok := s.Attrs[name]; ok {
+		return r
+	}
+	return s.DefRange
+}
+
+// Shape of a cross-section.
+type Shape string
+
+const (
+	Rectangle Shape = "rectangle"
+	Trapezoid Shape = "trapezoid"
+	Triangle  Shape = "triangle"
+	Circle    Shape = "circle"
+	Points    Shape = "points"
+)
+
+// Point is one [offset, elevation] pair of a points section.
+type Point struct {
+	Offset, Elevation float64
+}
+
+// Section is a named cross-section.
+type Section struct {
+	Src
+	Name        string
+	Shape       Shape
+	BottomWidth float64 // rectangle, trapezoid
+	SideSlope   float64 // trapezoid, triangle: horizontal per unit vertical
+	Diameter    float64 // circle
+	// Height is invert to top of bank or lining. For a circle it equals the
+	// diameter; for a points section, when not written, it is the lower of
+	// the two end points above the lowest point.
+	Height    float64
+	Points    []Point    // points: ordered by offset
+	Banks     [2]float64 // points: main channel between these offsets
+	Roughness [3]float64 // left overbank, main channel, right overbank; all three equal for prismatic shapes
+	Lining    string
+}
+
+// Closed reports whether the section is a closed conduit (a circle).
+func (s *Section) Closed() bool { return s.Shape == Circle }
+
+// Segment replaces the reach's section over part of the reach.
+type Segment struct {
+	Src
+	FromStation, ToStation float64
+	SectionName            string
+	Section                *Section
+}
+
+// Reach is one channel link between two nodes. Stations run downstream
+// from 0 at the upstream end to Length.
+type Reach struct {
+	Src
+	Index       int // position in Model.Reaches
+	Name        string
+	From, To    string // upstream and downstream node names
+	Length      float64
+	SectionName string
+	Section     *Section
+	// InvertUp and InvertDown are always set after Load: either as written
+	// (`invert`) or derived from `slope` and the elevation of the node below
+	// (the outlet node sits at elevation 0 unless a reach fixes it).
+	InvertUp, InvertDown float64
+	Slope                float64 // (InvertUp − InvertDown) / Length; may be 0 or negative
+	HasInvert            bool    // `invert` was written rather than `slope`
+	// MaxSpacing limits the distance between computed points (`max_spacing`);
+	// 0 means the solver's step control alone decides.
+	MaxSpacing float64
+	Segments   []*Segment // ordered by station, not overlapping
+
+	// Filled by the network pass.
+	Upstream   []*Reach // reaches that end at From, in model order
+	Downstream *Reach   // the reach that starts at To; nil for the outlet reach
+	Gate       *Gate    // at station 0, if any
+	Basins     []*Basin // ordered by station
+	Bends      []*Bend  // ordered by station
+}
+
+// SectionAt returns the section in force at a station: a segment's section
+// where from_station ≤ station ≤ to_station (the first such segment), else
+// the reach's own section.
+func (r *Reach) SectionAt(station float64) *Section {
+	for _, s := range r.Segments {
+		if station >= s.FromStation && station <= s.ToStation {
+			return s.Section
+		}
+	}
+	return r.Section
+}
+
+// InvertAt is the bed elevation at a station (linear between the ends).
+func (r *Reach) InvertAt(station float64) float64 {
+	if r.Length <= 0 {
+		return r.InvertUp
+	}
+	return r.InvertUp + (r.InvertDown-r.InvertUp)*station/r.Length
+}
+
+// Gate is a sluice gate at station 0 of a reach.
+type Gate struct {
+	Src
+	Name        string
+	ReachName   string
+	Reach       *Reach
+	Opening     float64
+	Contraction float64 // 0.61 when not written
+}
+
+// VenaContracta is the depth of the contracted jet below the gate.
+func (g *Gate) VenaContracta() float64 { return g.Contraction * g.Opening }
+
+// Basin is a hardened zone of a reach where a hydraulic jump is allowed.
+type Basin struct {
+	Src
+	Name                   string
+	ReachName              string
+	Reach                  *Reach
+	FromStation, ToStation float64
+}
+
+// Bend is a curve of a reach with its centreline radius.
+type Bend struct {
+	Src
+	Name                   string
+	ReachName              string
+	Reach                  *Reach
+	FromStation, ToStation float64
+	Radius                 float64
+}
+
+// OutletKind is the kind of downstream control of an event.
+type OutletKind string
+
+const (
+	OutletDepth     OutletKind = "depth"
+	OutletElevation OutletKind = "elevation"
+	OutletNormal    OutletKind = "normal"
+	OutletCritical  OutletKind = "critical"
+)
+
+// Outlet is the control at the single outlet node.
+type Outlet struct {
+	Kind  OutletKind
+	Value float64 // depth or elevation; unused for normal and critical
+	Range hcl.Range
+}
+
+// Inflow is discharge entering at the upstream end of a reach.
+type Inflow struct {
+	ReachName string
+	Reach     *Reach
+	Discharge float64
+	Range     hcl.Range // the key of the entry
+}
+
+// Entrance is a known depth at the upstream end of a headwater reach.
+type Entrance struct {
+	ReachName string
+	Reach     *Reach
+	Depth     float64
+	Range     hcl.Range
+}
+
+// Event is one steady-flow case.
+type Event struct {
+	Src
+	Name      string
+	Inflows   []Inflow // in source order
+	Outlet    Outlet
+	Entrances []Entrance // in source order
+	// Discharge is the flow each reach carries, indexed by Reach.Index:
+	// its own inflow plus everything that enters its From node.
+	Discharge []float64
+}
+
+// Exception is a documented design exception for one rule over a span.
+type Exception struct {
+	Src
+	Rule                   string
+	ReachName              string
+	Reach                  *Reach
+	FromStation, ToStation float64
+	Reason                 string
+}
+
+// Node is a junction, headwater or outlet point of the network.
+type Node struct {
+	Name string
+	In   []*Reach // reaches that end here, in model order
+	Out  *Reach   // the reach that starts here; nil at the outlet
+}
+
+// Network is the tree of reaches.
+type Network struct {
+	Nodes       []*Node  // in order of first appearance in the file
+	Order       []*Reach // topological: every reach after all reaches upstream of it
+	Outlet      *Node
+	OutletReach *Reach
+	Headwaters  []*Reach // reaches with nothing upstream, in model order
+}
+
+// Model is one decoded, validated *.chan.hcl file.
+type Model struct {
+	File       string // path as given to Load (forward slashes)
+	Source     []byte
+	Units      Units
+	UnitsRange hcl.Range
+	Title      string
+	Sections   []*Section // in source order
+	Reaches    []*Reach
+	Gates      []*Gate
+	Basins     []*Basin
+	Bends      []*Bend
+	Events     []*Event
+	Exceptions []*Exception
+	Network    *Network
+}

@@ -1,0 +1,60 @@
+// Package rules checks solved models against a policy. Each rule is a small
+// value (id, title, default severity, documentation, Check function) in its
+// own file; Check merges contiguous failing points into station spans,
+// applies design exceptions and sorts the findings. Rules read solved
+// results and settings; they never solve, read files or print.
+package rules
+
+import (
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+	"github.com/hashicorp/hcl/v2"
+)
+
+// Caution closes every output of chanlint.
+const Caution = "chanlint screens a model against the configured design criteria; " +
+	"it does not replace review and sealing by a licensed professional engineer under local codes."
+
+// Finding is one result of a rule.
+type Finding struct {
+	Rule     string
+	Severity policies.Severity
+	Message  string // measured value and limit in the model's units, and the remedy where it can be computed
+	File     string // model file, forward slashes, as given
+	Range    hcl.Range
+	Reach    string // "" when the finding is not about a reach
+	Event    string // "" when not about an event
+	// Station span; HasSpan is false for findings without one.
+	FromStation, ToStation float64
+	HasSpan                bool
+	// Worst measured value and the limit, in the model's units.
+	Value, Limit float64
+	HasValue     bool
+	Reference    string // the policy's reference
+	Excepted     bool
+	// The exception that covers this finding, when Excepted.
+	ExceptionReason string
+	ExceptionRange  hcl.Range
+}
+
+// Context is what a rule's Check reads.
+type Context struct {
+	Model  *model.Model
+	Result *solver.Result
+	Policy *policies.Policy
+	Config *policies.RuleConfig // nil for always-on rules without a block
+}
+
+// Rule is one check of the registry.
+type Rule struct {
+	ID       string
+	Title    string            // one line
+	Severity policies.Severity // default
+	// Doc: what it checks, the formula, the published basis, the usual
+	// remedies. `chanlint explain ID` prints Title and Doc.
+	Doc      string
+	AlwaysOn bool // model, solver, capacity
+	// Check reports findings through report; it never prints.
+	Check func(ctx *Context, report func(Finding))
+}

@@ -1,0 +1,159 @@
+// Package solver computes steady gradually-varied flow over a channel
+// network: section hydraulics, normal and critical depth, water-surface
+// profiles by the standard-step energy method with Manning friction,
+// supercritical, subcritical and mixed regimes with hydraulic jumps located
+// by specific force, sluice gates and junctions. It imports model and knows
+// nothing of rules or output. Numerical failure is a Note on the result,
+// never a panic and never a NaN.
+package solver
+
+import "github.com/chanlint/chanlint/model"
+
+// Regime of the flow at a computed point.
+type Regime string
+
+const (
+	Subcritical   Regime = "subcritical"
+	Supercritical Regime = "supercritical"
+	Critical      Regime = "critical"
+)
+
+// SlopeClass of a reach (or of a span of it, by its bed slope against the
+// normal and critical depths of its discharge).
+type SlopeClass string
+
+const (
+	Mild       SlopeClass = "mild"
+	Steep      SlopeClass = "steep"
+	CriticalSl SlopeClass = "critical"
+	Horizontal SlopeClass = "horizontal"
+	Adverse    SlopeClass = "adverse"
+)
+
+// JumpType by upstream Froude number (Peterka 1958).
+type JumpType string
+
+const (
+	Undular     JumpType = "undular"     // 1 – 1.7
+	Weak        JumpType = "weak"        // 1.7 – 2.5
+	Oscillating JumpType = "oscillating" // 2.5 – 4.5
+	Steady      JumpType = "steady"      // 4.5 – 9
+	Strong      JumpType = "strong"      // > 9
+)
+
+// Point is one computed cross-section of a water-surface profile.
+type Point struct {
+	Station       float64
+	Invert        float64
+	Depth         float64
+	WSE           float64 // water-surface elevation = Invert + Depth
+	Velocity      float64 // mean velocity Q/A
+	Froude        float64
+	Energy        float64 // energy grade elevation = WSE + αV²/2g
+	CriticalDepth float64
+	NormalDepth   float64 // valid only when HasNormal
+	HasNormal     bool    // false on horizontal and adverse slopes
+	Regime        Regime
+
+	// Details the rules read.
+	Section         *model.Section
+	Area            float64
+	TopWidth        float64
+	HydraulicRadius float64
+	FrictionSlope   float64
+	Alpha           float64 // energy coefficient (1 for prismatic shapes)
+	Full            bool    // a closed conduit flowing full at this point
+}
+
+// Jump is a hydraulic jump: toe at Station, end at Station+Length.
+type Jump struct {
+	Station         float64 // toe
+	UpstreamDepth   float64 // supercritical sequent depth y1
+	DownstreamDepth float64 // subcritical sequent depth y2
+	Froude          float64 // upstream Froude number F1
+	Length          float64 // Peterka's curve
+	Type            JumpType
+	EnergyLoss      float64 // E1 − E2
+}
+
+// End is the station where the jump ends (toe plus its length).
+func (j Jump) End() float64 { return j.Station + j.Length }
+
+// NoteKind says why the solver records a note.
+type NoteKind string
+
+const (
+	// NoteCriticalFallback: the energy equation had no solution between two
+	// points and critical depth was taken.
+	NoteCriticalFallback NoteKind = "critical_fallback"
+	// NoteNoConvergence: the iteration did not close within tolerance.
+	NoteNoConvergence NoteKind = "no_convergence"
+	// NoteControl: a boundary condition could not act as given (for
+	// example an outlet depth that cannot control a supercritical reach,
+	// or a supercritical junction).
+	NoteControl NoteKind = "control"
+)
+
+// Note records a numerical fallback or a control that could not act.
+type Note struct {
+	Kind    NoteKind
+	Station float64
+	Message string
+}
+
+// ProfileSpan is a computed span of one gradually-varied-flow profile type
+// (M1, M2, M3, S1, S2, S3, C1, C3, H2, H3, A2, A3).
+type ProfileSpan struct {
+	Type                   string
+	FromStation, ToStation float64
+}
+
+// ReachResult is the solved flow in one reach for one event.
+type ReachResult struct {
+	Reach      *model.Reach
+	Discharge  float64
+	SlopeClass SlopeClass
+	Profiles   []ProfileSpan // ordered by station
+	Points     []Point       // ordered by station (non-decreasing)
+	Jumps      []Jump        // ordered by station
+	Notes      []Note        // ordered by station
+}
+
+// ProfileTypes lists the distinct profile types in station order of first
+// appearance, as `solve --format json` prints them.
+func (r *ReachResult) ProfileTypes() []string {
+	var out []string
+	seen := map[string]bool{}
+	for _, p := range r.Profiles {
+		if !seen[p.Type] {
+			seen[p.Type] = true
+			out = append(out, p.Type)
+		}
+	}
+	return out
+}
+
+// EventResult is the solution of one event.
+type EventResult struct {
+	Event   *model.Event
+	Reaches []*ReachResult // in model order (Model.Reaches)
+}
+
+// Result is the solution of every event of a model.
+type Result struct {
+	Model  *model.Model
+	Events []*EventResult // in model order
+}
+
+// Options tune the solver. The zero value gives the defaults.
+type Options struct {
+	// Tolerance is the closure of the energy equation on the water surface,
+	// in the model's length unit; 0 means the solver's documented default.
+	// Accuracy comes from step control, not from this closure alone.
+	Tolerance float64
+	// MaxPoints bounds the computed points of one event (0: 1,000,000);
+	// exceeding it ends Solve with ErrTooManyPoints.
+	MaxPoints int
+	// Events restricts solving to the named events (nil: all).
+	Events []string
+}
