@@ -1,0 +1,195 @@
+package baseline
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
+	"github.com/hashicorp/hcl/v2"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// finding builds a finding at a line; the numbers are fixture values, not
+// checks of any computation.
+func finding(rule, reach, event string, from, to float64, line int, msg string) rules.Finding {
+	return rules.Finding{
+		Rule: rule, Severity: policies.Error, Message: msg,
+		File:  "models/alder.chan.hcl",
+		Range: hcl.Range{Filename: "models/alder.chan.hcl", Start: hcl.Pos{Line: line, Column: 1}, End: hcl.Pos{Line: line, Column: 9}},
+		Reach: reach, Event: event, FromStation: from, ToStation: to, HasSpan: true,
+		Value: 0.18, Limit: 0.30, HasValue: true,
+	}
+}
+
+func sample() []rules.Finding {
+	return []rules.Finding{
+		finding("freeboard", "main", "q100", 120, 180, 12, "freeboard 0.18 m is below the required 0.30 m"),
+		finding("max_velocity", "chute", "q100", 0, 45.25, 30, "velocity 6.2 m/s exceeds 4.5 m/s for riprap"),
+		// Two identical findings (same key): need two entries.
+		finding("froude_band", "main", "q10", 300, 380, 40, "Froude number 0.95 inside the avoided band 0.86–1.13"),
+		finding("froude_band", "main", "q10", 300, 380, 40, "Froude number 0.95 inside the avoided band 0.86–1.13"),
+		{Rule: "model", Severity: policies.Error, File: "models/alder.chan.hcl", Message: "unknown section \"lined\"",
+			Range: hcl.Range{Start: hcl.Pos{Line: 3, Column: 5}}},
+	}
+}
+
+func roundTrip(t *testing.T, fs []rules.Finding) *Baseline {
+	t.Helper()
+	var buf bytes.Buffer
+	require.NoError(t, Write(&buf, fs))
+	p := filepath.Join(t.TempDir(), "chanlint-baseline.json")
+	require.NoError(t, os.WriteFile(p, buf.Bytes(), 0o644))
+	b, err := Read(p)
+	require.NoError(t, err)
+	return b
+}
+
+func TestRoundTripAllKnown(t *testing.T) {
+	fs := sample()
+	b := roundTrip(t, fs)
+	fresh, known := b.Filter(fs)
+	assert.Empty(t, fresh)
+	assert.Equal(t, len(fs), known)
+}
+
+func TestShiftedLinesStillKnown(t *testing.T) {
+	fs := sample()
+	b := roundTrip(t, fs)
+	shifted := sample()
+	for i := range shifted {
+		shifted[i].Range.Start.Line += 7
+		shifted[i].Range.End.Line += 7
+		shifted[i].Range.Start.Column += 2
+	}
+	fresh, known := b.Filter(shifted)
+	assert.Empty(t, fresh)
+	assert.Equal(t, len(fs), known)
+}
+
+func TestChangedValueInMessageStillKnown(t *testing.T) {
+	b := roundTrip(t, sample())
+	f := sample()[0]
+	f.Message = "freeboard 0.17 m is below the required 0.30 m"
+	f.Value = 0.17
+	fresh, known := b.Filter([]rules.Finding{f})
+	assert.Empty(t, fresh)
+	assert.Equal(t, 1, known)
+}
+
+func TestNewViolationIsFresh(t *testing.T) {
+	b := roundTrip(t, sample())
+	fs := append(sample(), finding("jump_containment", "chute", "q100", 49.5, 55, 50, "jump not contained"))
+	fresh, known := b.Filter(fs)
+	require.Len(t, fresh, 1)
+	assert.Equal(t, "jump_containment", fresh[0].Rule)
+	assert.Equal(t, len(fs)-1, known)
+}
+
+func TestChangedSpanIsFresh(t *testing.T) {
+	b := roundTrip(t, sample())
+	fs := sample()
+	fs[0].ToStation = 200 // the failing span grew
+	fresh, known := b.Filter(fs)
+	require.Len(t, fresh, 1)
+	assert.Equal(t, 200.0, fresh[0].ToStation)
+	assert.Equal(t, len(fs)-1, known)
+}
+
+func TestSpanRoundingAbsorbsNoise(t *testing.T) {
+	b := roundTrip(t, sample())
+	fs := sample()
+	fs[1].ToStation = 45.2500001 // re-solve noise far below 0.1
+	fresh, _ := b.Filter(fs)
+	assert.Empty(t, fresh)
+}
+
+func TestMultiset(t *testing.T) {
+	one := sample()[:3] // only one of the two identical froude_band findings
+	b := roundTrip(t, one)
+	fresh, known := b.Filter(sample())
+	require.Len(t, fresh, 2, "the second identical finding and the model finding")
+	assert.Equal(t, "froude_band", fresh[0].Rule)
+	assert.Equal(t, "model", fresh[1].Rule)
+	assert.Equal(t, 3, known)
+	// Filter does not consume the baseline.
+	_, again := b.Filter(sample())
+	assert.Equal(t, 3, again)
+}
+
+func TestOtherReachEventOrFileIsFresh(t *testing.T) {
+	b := roundTrip(t, sample())
+	for _, mut := range []func(*rules.Finding){
+		func(f *rules.Finding) { f.Reach = "west-ditch" },
+		func(f *rules.Finding) { f.Event = "q10" },
+		func(f *rules.Finding) { f.File = "models/birch.chan.hcl" },
+		func(f *rules.Finding) { f.Rule = "min_velocity" },
+		func(f *rules.Finding) { f.Message = "water surface above the lining" },
+	} {
+		f := sample()[0]
+		mut(&f)
+		fresh, known := b.Filter([]rules.Finding{f})
+		assert.Len(t, fresh, 1)
+		assert.Zero(t, known)
+	}
+}
+
+func TestPathSpellings(t *testing.T) {
+	b := roundTrip(t, sample()[:1])
+	f := sample()[0]
+	f.File = "./models/../models/alder.chan.hcl"
+	_, known := b.Filter([]rules.Finding{f})
+	assert.Equal(t, 1, known)
+}
+
+func TestWriteDeterministic(t *testing.T) {
+	fs := sample()
+	rev := make([]rules.Finding, len(fs))
+	for i := range fs {
+		rev[len(fs)-1-i] = fs[i]
+	}
+	var a, b bytes.Buffer
+	require.NoError(t, Write(&a, fs))
+	require.NoError(t, Write(&b, rev))
+	assert.Equal(t, a.String(), b.String())
+	assert.Contains(t, a.String(), `"version": 1`)
+	assert.Contains(t, a.String(), `"line": 12`, "the line is kept as information")
+}
+
+func TestNormalizeMessage(t *testing.T) {
+	// Source: common practice (no published source) — number-free message
+	// identity, as the module's own contract defines it.
+	assert.Equal(t, "freeboard # m is below #", normalizeMessage("Freeboard  0.18 m is below 1.2e-3"))
+	assert.Equal(t, "v=# ft/s", normalizeMessage("V=1,250.5 ft/s"))
+}
+
+func TestRoundStation(t *testing.T) {
+	// Source: common practice (no published source) — decimal rounding.
+	assert.Equal(t, 45.3, RoundStation(45.25))
+	assert.Equal(t, 0.3, RoundStation(0.1+0.2))
+	assert.Equal(t, 0.0, RoundStation(-0.01))
+	assert.False(t, RoundStation(-0.01) != 0 || 1/RoundStation(-0.01) < 0, "no negative zero")
+}
+
+func TestReadErrors(t *testing.T) {
+	dir := t.TempDir()
+	cases := map[string]string{
+		"notjson":  "{",
+		"version":  `{"version": 7, "entries": []}`,
+		"norule":   `{"version": 1, "entries": [{"file": "a.chan.hcl", "fingerprint": "ab"}]}`,
+		"halfspan": `{"version": 1, "entries": [{"rule": "x", "file": "a.chan.hcl", "fingerprint": "ab", "from_station": 1}]}`,
+		"nofile":   "",
+	}
+	for name, body := range cases {
+		p := filepath.Join(dir, name+".json")
+		if name != "nofile" {
+			require.NoError(t, os.WriteFile(p, []byte(body), 0o644))
+		}
+		_, err := Read(p)
+		require.Error(t, err, name)
+		assert.Contains(t, err.Error(), "baseline", name)
+	}
+}
