@@ -1,0 +1,258 @@
+package sarifout
+
+import (
+	"bytes"
+	"encoding/json"
+	"flag"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
+	"github.com/hashicorp/hcl/v2"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
+	"github.com/owenrumney/go-sarif/v3/pkg/report/v210/sarif"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+var update = flag.Bool("update", false, "rewrite the golden SARIF logs in testdata")
+
+const root = "/srv/drainage" // an absolute root so the golden logs do not depend on the machine
+
+// src is an invented demo model. The reach label holds a family emoji: one
+// grapheme cluster for HCL, 5 code points, 8 UTF-16 code units.
+var src = []byte("units = \"si\"\n" +
+	"title = \"Alder Flats outfall\"\n" +
+	"reach \"a\U0001F469\u200D\U0001F469\u200D\U0001F467b\" { length = 5 }\n" +
+	"exception \"freeboard\" { reason = \"Reviewed with the <drainage> authority & \\\"county\\\"\" }\n")
+
+const file = root + "/models/alder.chan.hcl"
+
+// ranges parses src with HCL itself so the ranges are the ones the model
+// package produces.
+func ranges(t *testing.T) (title, length, label, exc hcl.Range) {
+	t.Helper()
+	f, diags := hclsyntax.ParseConfig(src, file, hcl.InitialPos)
+	require.False(t, diags.HasErrors(), diags.Error())
+	body := f.Body.(*hclsyntax.Body)
+	title = body.Attributes["title"].Expr.Range()
+	var reach, ex *hclsyntax.Block
+	for _, b := range body.Blocks {
+		switch b.Type {
+		case "reach":
+			reach = b
+		case "exception":
+			ex = b
+		}
+	}
+	length = reach.Body.Attributes["length"].Expr.Range()
+	label = reach.LabelRanges[0]
+	exc = ex.DefRange()
+	return
+}
+
+func registry() []*rules.Rule {
+	return []*rules.Rule{
+		{ID: "capacity", Title: "Water surface within the section", Severity: policies.Error, AlwaysOn: true,
+			Doc: "Reports points where the water surface rises above the section height.\n\nRaise the lining or enlarge the section."},
+		{ID: "freeboard", Title: "Freeboard above the water surface", Severity: policies.Error,
+			Doc: "Checks top of bank minus water surface against the larger of a minimum and a fraction of the depth."},
+		{ID: "froude_band", Title: "Froude number outside unstable bands", Severity: policies.Warning,
+			Doc: "Near-critical flow (Froude 0.89–1.13) forms unstable waves (Brown & Clyde, HEC-11, 1989)."},
+		{ID: "model", Title: "Model file is valid", Severity: policies.Error, AlwaysOn: true, Doc: "The file could not be decoded."},
+	}
+}
+
+func findings(t *testing.T) []rules.Finding {
+	_, length, label, exc := ranges(t)
+	rel := "models/birch lane.chan.hcl"
+	return []rules.Finding{
+		{Rule: "freeboard", Severity: policies.Error, Message: "freeboard 0.18 m is below the required 0.30 m",
+			File: file, Range: length, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q100",
+			FromStation: 1.5, ToStation: 4.25, HasSpan: true, Value: 0.18, Limit: 0.30, HasValue: true,
+			Reference: "County Drainage Criteria Manual, ch. 5",
+			Excepted:  true, ExceptionReason: "Reviewed with the <drainage> authority & \"county\"", ExceptionRange: exc},
+		{Rule: "froude_band", Severity: policies.Info, Message: "Froude number 0.95 in the avoided band 0.89–1.13",
+			File: file, Range: label, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q10",
+			FromStation: 0, ToStation: 5, HasSpan: true, Value: 0.95, Limit: 0.89, HasValue: true},
+		{Rule: "solver", Severity: policies.Warning, Message: "critical depth taken at station 3.0",
+			File: file, Range: length, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q10",
+			FromStation: 3, ToStation: 3, HasSpan: true},
+		// A model finding in another file with no source given: HCL columns kept.
+		{Rule: "model", Severity: policies.Error, Message: `unknown section "lined"`, File: "/srv/drainage/models/birch lane.chan.hcl",
+			Range: hcl.Range{Filename: rel, Start: hcl.Pos{Line: 4, Column: 13, Byte: 60}, End: hcl.Pos{Line: 4, Column: 20, Byte: 67}}},
+	}
+}
+
+func input(t *testing.T, fs []rules.Finding) Input {
+	return Input{Findings: fs, Rules: registry(), Root: root, Sources: map[string][]byte{file: src}, ToolVersion: "0.1.0"}
+}
+
+func render(t *testing.T, in Input) []byte {
+	t.Helper()
+	var buf bytes.Buffer
+	require.NoError(t, Write(&buf, in))
+	return buf.Bytes()
+}
+
+func golden(t *testing.T, name string, got []byte) {
+	t.Helper()
+	p := filepath.Join("testdata", name)
+	if *update {
+		require.NoError(t, os.WriteFile(p, got, 0o644))
+	}
+	want, err := os.ReadFile(p)
+	require.NoError(t, err, "run go test -update to create %s", p)
+	assert.Equal(t, string(want), string(got), "golden %s differs; inspect, then go test -update", p)
+}
+
+// validate checks the written bytes, not only the Go value, against the
+// SARIF 2.1.0 schema the library embeds.
+func validate(t *testing.T, out []byte) *sarif.Report {
+	t.Helper()
+	rep, err := sarif.FromBytes(out)
+	require.NoError(t, err)
+	require.NoError(t, rep.Validate())
+	return rep
+}
+
+func TestEmptyLog(t *testing.T) {
+	out := render(t, input(t, nil))
+	rep := validate(t, out)
+	require.Len(t, rep.Runs, 1)
+	assert.Empty(t, rep.Runs[0].Results)
+	assert.Contains(t, string(out), `"results": []`, "GitHub needs the results array even when empty")
+	assert.Len(t, rep.Runs[0].Tool.Driver.Rules, 4)
+	golden(t, "empty.sarif", out)
+}
+
+func TestFindingsLog(t *testing.T) {
+	out := render(t, input(t, findings(t)))
+	rep := validate(t, out)
+	golden(t, "findings.sarif", out)
+
+	run := rep.Runs[0]
+	require.Equal(t, "2.1.0", rep.Version)
+	require.Equal(t, ColumnKind, *run.ColumnKind)
+	require.Len(t, run.Results, 4)
+	// "solver" is not in the registry given: added so its ruleIndex is valid.
+	require.Len(t, run.Tool.Driver.Rules, 5)
+	for _, r := range run.Results {
+		idx := r.RuleIndex
+		require.True(t, idx >= 0 && idx < len(run.Tool.Driver.Rules))
+		assert.Equal(t, *r.RuleID, *run.Tool.Driver.Rules[idx].ID)
+		require.Len(t, r.Locations, 1)
+		al := r.Locations[0].PhysicalLocation.ArtifactLocation
+		assert.Equal(t, BaseID, *al.URIBaseID)
+		assert.Equal(t, *run.Artifacts[al.Index].Location.URI, *al.URI)
+	}
+	assert.Equal(t, "models/alder.chan.hcl", *run.Results[0].Locations[0].PhysicalLocation.ArtifactLocation.URI)
+	assert.Equal(t, "models/birch%20lane.chan.hcl", *run.Results[3].Locations[0].PhysicalLocation.ArtifactLocation.URI)
+	assert.Equal(t, "file:///srv/drainage/", *run.OriginalUriBaseIds[BaseID].URI)
+
+	// Levels: info becomes note.
+	assert.Equal(t, "error", run.Results[0].Level)
+	assert.Equal(t, "note", run.Results[1].Level)
+	assert.Equal(t, "warning", run.Results[2].Level)
+
+	// Suppression of the excepted finding, with the reason verbatim.
+	require.Len(t, run.Results[0].Suppressions, 1)
+	s := run.Results[0].Suppressions[0]
+	assert.Equal(t, "inSource", *s.Kind)
+	assert.Equal(t, `Reviewed with the <drainage> authority & "county"`, *s.Justification)
+	assert.Equal(t, 4, *s.Location.PhysicalLocation.Region.StartLine)
+	assert.Empty(t, run.Results[1].Suppressions)
+
+	// Properties.
+	p := run.Results[0].Properties.Properties
+	assert.Equal(t, "q100", p["event"])
+	assert.InDelta(t, 4.25, p["to_station"], 0) // copied, not computed
+	assert.InDelta(t, 0.30, p["limit"], 0)
+
+	// Caution as an invocation notification.
+	require.Len(t, run.Invocations, 1)
+	assert.True(t, *run.Invocations[0].ExecutionSuccessful)
+	require.Len(t, run.Invocations[0].ToolExecutionNotifications, 1)
+	assert.Equal(t, rules.Caution, *run.Invocations[0].ToolExecutionNotifications[0].Message.Text)
+}
+
+func TestColumnsFromBytes(t *testing.T) {
+	out := render(t, input(t, findings(t)))
+	rep := validate(t, out)
+	_, length, _, _ := ranges(t)
+	// HCL counts the emoji as one column.
+	// Source: Unicode UAX #29 (grapheme clusters) and UTF-16 (RFC 2781),
+	// counted by hand: `reach "a` is 8 units, the emoji 3×2 surrogate
+	// units + 2 joiners = 8, `b" { length = ` 14, so "5" is at UTF-16
+	// column 8+8+14+1 = 31 while HCL's grapheme column is 8+1+14+1 = 24.
+	require.Equal(t, 24, length.Start.Column)
+	reg := rep.Runs[0].Results[0].Locations[0].PhysicalLocation.Region
+	assert.Equal(t, 3, *reg.StartLine)
+	assert.Equal(t, 31, *reg.StartColumn)
+	assert.Equal(t, 32, *reg.EndColumn, "end column is exclusive in both HCL and SARIF")
+	assert.Equal(t, length.Start.Byte, reg.ByteOffset)
+	assert.Equal(t, 1, *reg.ByteLength)
+	// Character offset: line 1 (13) + line 2 (30) + 30 units on line 3.
+	assert.Equal(t, 13+30+30, reg.CharOffset)
+	// No source given for the second file: HCL columns as they are, no offsets.
+	reg = rep.Runs[0].Results[3].Locations[0].PhysicalLocation.Region
+	assert.Equal(t, 13, *reg.StartColumn)
+	assert.Equal(t, 20, *reg.EndColumn)
+	assert.Equal(t, -1, reg.ByteOffset)
+}
+
+func fp(t *testing.T, out []byte, i int) string {
+	rep := validate(t, out)
+	return rep.Runs[0].Results[i].PartialFingerprints[FingerprintKey]
+}
+
+func TestFingerprintsIgnoreLines(t *testing.T) {
+	base := findings(t)
+	moved := findings(t)
+	for i := range moved {
+		moved[i].Range.Start.Line += 10
+		moved[i].Range.End.Line += 10
+	}
+	a, b := render(t, input(t, base)), render(t, input(t, moved))
+	for i := range base {
+		assert.Equal(t, fp(t, a, i), fp(t, b, i))
+	}
+	changed := findings(t)
+	changed[0].ToStation = 4.5
+	c := render(t, input(t, changed))
+	assert.NotEqual(t, fp(t, a, 0), fp(t, c, 0), "a span that changes is another finding")
+	assert.Equal(t, fp(t, a, 1), fp(t, c, 1))
+}
+
+func TestDuplicateFindingsGetDistinctFingerprints(t *testing.T) {
+	f := findings(t)[1]
+	out := render(t, input(t, []rules.Finding{f, f}))
+	assert.NotEqual(t, fp(t, out, 0), fp(t, out, 1))
+}
+
+func TestDeterministicAndFinite(t *testing.T) {
+	a := render(t, input(t, findings(t)))
+	b := render(t, input(t, findings(t)))
+	assert.Equal(t, a, b)
+	var v any
+	require.NoError(t, json.Unmarshal(a, &v))
+}
+
+func TestRelativeRootAndOutside(t *testing.T) {
+	in := input(t, []rules.Finding{{Rule: "model", Severity: policies.Error, Message: "x", File: "/elsewhere/c.chan.hcl",
+		Range: hcl.Range{Start: hcl.Pos{Line: 1, Column: 1}, End: hcl.Pos{Line: 1, Column: 2, Byte: 1}}}})
+	rep := validate(t, render(t, in))
+	al := rep.Runs[0].Results[0].Locations[0].PhysicalLocation.ArtifactLocation
+	assert.Equal(t, "file:///elsewhere/c.chan.hcl", *al.URI)
+	assert.Nil(t, al.URIBaseID)
+
+	in.Root = ""
+	in.Findings[0].File = "models/c.chan.hcl"
+	rep = validate(t, render(t, in))
+	al = rep.Runs[0].Results[0].Locations[0].PhysicalLocation.ArtifactLocation
+	assert.Equal(t, "models/c.chan.hcl", *al.URI)
+	assert.Equal(t, BaseID, *al.URIBaseID)
+	assert.Nil(t, rep.Runs[0].OriginalUriBaseIds[BaseID].URI)
+}
