@@ -1,0 +1,299 @@
+package model
+
+import (
+	"fmt"
+	"math"
+	"regexp"
+	"strings"
+
+	"github.com/hashicorp/hcl/v2"
+)
+
+// maxBedSlope is the steepest bed (rise over run) accepted: at a slope of
+// 1 (45°) the gradually-varied-flow equations, which take the depth as
+// vertical and the pressure as hydrostatic, no longer describe the flow;
+// such a fall is a drop structure, not a channel. Source: common practice
+// (no published source).
+const maxBedSlope = 1.0
+
+func schema(names ...string) *hcl.BodySchema {
+	s := &hcl.BodySchema{}
+	for _, n := range names {
+		s.Attributes = append(s.Attributes, hcl.AttributeSchema{Name: n})
+	}
+	return s
+}
+
+var (
+	reachSchema = func() *hcl.BodySchema {
+		s := schema("from", "to", "length", "section", "slope", "invert", "max_spacing")
+		s.Blocks = []hcl.BlockHeaderSchema{{Type: "segment"}}
+		return s
+	}()
+	segmentSchema   = schema("from_station", "to_station", "section")
+	gateSchema      = schema("reach", "opening", "contraction")
+	basinSchema     = schema("reach", "from_station", "to_station")
+	bendSchema      = schema("reach", "from_station", "to_station", "radius")
+	eventSchema     = schema("inflow", "outlet", "entrance")
+	exceptionSchema = schema("reach", "from_station", "to_station", "reason")
+)
+
+// DefaultContraction is the contraction coefficient of a vertical sluice
+// gate in free flow used when a gate does not give one. Source: Henry
+// (1950); Henderson, Open Channel Flow (1966), §6.2 (from memory).
+const DefaultContraction = 0.61
+
+func (d *decoder) reach(b *hcl.Block) *Reach {
+	r := &Reach{Src: newSrc(b), Name: d.blockName(b)}
+	a, content := d.attrs(b, reachSchema, &r.Src)
+	a.require(b.Body, "from", "to", "length", "section")
+	r.From, _ = a.name("from")
+	r.To, _ = a.name("to")
+	r.SectionName, _ = a.name("section")
+	unit := " " + d.m.Units.Length()
+	r.Length, _ = a.positive("length", unit)
+	switch {
+	case a.has("slope") && a.has("invert"):
+		d.errorf(a.m["invert"].NameRange, "Both slope and invert",
+			"%s gives both slope and invert; keep one: slope for a bed fixed by the node below, invert for fixed elevations.", a.what)
+	case a.has("slope"):
+		if s, ok := a.number("slope"); ok {
+			if math.Abs(s) >= maxBedSlope {
+				d.errorf(a.m["slope"].Expr.Range(), "Bed slope too steep",
+					"slope of %s is %g; a slope is rise over run (e.g. 0.002), and %g or more is a drop, not a channel.", a.what, s, maxBedSlope)
+			}
+			r.Slope = s
+		}
+	case a.has("invert"):
+		if p, ok := d.pair(a.m["invert"].Expr, "invert of "+a.what, "[upstream elevation, downstream elevation]"); ok {
+			r.InvertUp, r.InvertDown, r.HasInvert = p[0], p[1], true
+			if r.Length > 0 {
+				r.Slope = (p[0] - p[1]) / r.Length
+				if math.Abs(r.Slope) >= maxBedSlope {
+					d.errorf(a.m["invert"].Expr.Range(), "Bed slope too steep",
+						"invert of %s falls %g over a length of %g, a slope of %.3g; %g or more is a drop, not a channel. Check the elevations and the length.",
+						a.what, p[0]-p[1], r.Length, r.Slope, maxBedSlope)
+				}
+			}
+		}
+	default:
+		d.errorf(b.Body.MissingItemRange(), "Missing bed slope",
+			"%s needs slope (rise over run, e.g. 0.002) or invert = [upstream elevation, downstream elevation].", a.what)
+	}
+	if a.has("max_spacing") {
+		r.MaxSpacing, _ = a.positive("max_spacing", unit)
+	}
+	if len(content.Blocks) > MaxSegments {
+		d.errorf(content.Blocks[MaxSegments].DefRange, "Too many segments",
+			"%s has %d segment blocks; at most %d are accepted.", a.what, len(content.Blocks), MaxSegments)
+	}
+	for i, sb := range content.Blocks {
+		if i == MaxSegments {
+			break
+		}
+		r.Segments = append(r.Segments, d.segment(sb, r.Name))
+	}
+	return r
+}
+
+func (d *decoder) segment(b *hcl.Block, reach string) *Segment {
+	s := &Segment{Src: newSrc(b)}
+	a, _ := d.attrs(b, segmentSchema, &s.Src)
+	a.what = fmt.Sprintf("a segment of reach %q", reach)
+	a.require(b.Body, "section")
+	_, s.FromStation, s.ToStation = a.stations(b.Body)
+	s.SectionName, _ = a.name("section")
+	return s
+}
+
+func (d *decoder) gate(b *hcl.Block) *Gate {
+	g := &Gate{Src: newSrc(b), Name: d.blockName(b), Contraction: DefaultContraction}
+	a, _ := d.attrs(b, gateSchema, &g.Src)
+	a.require(b.Body, "reach", "opening")
+	g.ReachName, _ = a.name("reach")
+	g.Opening, _ = a.positive("opening", " "+d.m.Units.Length())
+	if c, ok := a.number("contraction"); ok {
+		if c <= 0 || c > 1 {
+			d.errorf(a.m["contraction"].Expr.Range(), "Contraction out of range",
+				"contraction of %s is %g; the vena contracta is thinner than the opening, so it must lie in (0, 1] (about %g for a vertical gate).", a.what, c, DefaultContraction)
+		} else {
+			g.Contraction = c
+		}
+	}
+	return g
+}
+
+// span decodes reach, from_station and to_station, shared by basins, bends
+// and exceptions.
+func (a attrSet) span(body hcl.Body) (reach string, from, to float64) {
+	a.require(body, "reach")
+	reach, _ = a.name("reach")
+	_, from, to = a.stations(body)
+	return reach, from, to
+}
+
+// stations decodes from_station and to_station; ok is false unless both
+// are valid and from < to.
+func (a attrSet) stations(body hcl.Body) (ok bool, from, to float64) {
+	a.require(body, "from_station", "to_station")
+	from, fok := a.station("from_station")
+	to, tok := a.station("to_station")
+	if fok && tok && from >= to {
+		a.d.errorf(a.m["to_station"].Expr.Range(), "Empty station range",
+			"to_station (%g) of %s must be greater than from_station (%g).", to, a.what, from)
+		return false, from, to
+	}
+	return fok && tok, from, to
+}
+
+func (d *decoder) basin(b *hcl.Block) *Basin {
+	bs := &Basin{Src: newSrc(b), Name: d.blockName(b)}
+	a, _ := d.attrs(b, basinSchema, &bs.Src)
+	bs.ReachName, bs.FromStation, bs.ToStation = a.span(b.Body)
+	return bs
+}
+
+func (d *decoder) bend(b *hcl.Block) *Bend {
+	bn := &Bend{Src: newSrc(b), Name: d.blockName(b)}
+	a, _ := d.attrs(b, bendSchema, &bn.Src)
+	bn.ReachName, bn.FromStation, bn.ToStation = a.span(b.Body)
+	a.require(b.Body, "radius")
+	bn.Radius, _ = a.positive("radius", " "+d.m.Units.Length())
+	return bn
+}
+
+var ruleID = regexp.MustCompile(`^[a-z][a-z0-9_]*$`)
+
+func (d *decoder) exception(b *hcl.Block) *Exception {
+	e := &Exception{Src: newSrc(b)}
+	if len(b.Labels) > 0 {
+		e.Rule = b.Labels[0]
+		if !ruleID.MatchString(e.Rule) {
+			d.errorf(b.LabelRanges[0], "Invalid rule id",
+				"%q is not a rule id; write the id of the rule being excepted, e.g. exception \"froude_band\".", e.Rule)
+		}
+	}
+	a, _ := d.attrs(b, exceptionSchema, &e.Src)
+	e.ReachName, e.FromStation, e.ToStation = a.span(b.Body)
+	a.require(b.Body, "reason")
+	if reason, ok := a.text("reason"); ok {
+		if strings.TrimSpace(reason) == "" {
+			d.errorf(a.m["reason"].Expr.Range(), "Empty reason",
+				"A design exception must say why it is acceptable and who reviewed it; write the reason.")
+		}
+		e.Reason = reason
+	}
+	return e
+}
+
+var outletKeys = []string{"depth", "elevation", "condition"}
+
+func (d *decoder) event(b *hcl.Block) *Event {
+	ev := &Event{Src: newSrc(b), Name: d.blockName(b)}
+	a, _ := d.attrs(b, eventSchema, &ev.Src)
+	a.require(b.Body, "inflow", "outlet")
+	unit := d.m.Units.Length()
+	if at, ok := a.m["inflow"]; ok {
+		entries, _ := d.object(at.Expr, "inflow of "+a.what, `{ "main" = 12.5 }`)
+		for _, e := range entries {
+			q, ok := d.number(e.Value, fmt.Sprintf("inflow to %q in %s", e.Key, a.what))
+			if !ok {
+				continue
+			}
+			if q <= 0 {
+				d.errorf(e.Value.Range(), "Discharge must be positive",
+					"inflow to %q in %s is %g; give a positive discharge in %s³/s, or remove the entry.", e.Key, a.what, q, unit)
+				continue
+			}
+			ev.Inflows = append(ev.Inflows, Inflow{ReachName: e.Key, Discharge: q, Range: e.KeyRange})
+		}
+		if len(entries) == 0 && !hasErrorAt(d.diags, at.Expr.Range()) {
+			d.errorf(at.Expr.Range(), "No inflow", "%s has no inflow; name at least one reach and its discharge, e.g. { \"main\" = 12.5 }.", a.what)
+		}
+	}
+	if at, ok := a.m["outlet"]; ok {
+		d.outlet(ev, a, at)
+	}
+	if at, ok := a.m["entrance"]; ok {
+		entries, _ := d.object(at.Expr, "entrance of "+a.what, `{ "chute" = 0.4 }`)
+		for _, e := range entries {
+			y, ok := d.number(e.Value, fmt.Sprintf("entrance depth of %q in %s", e.Key, a.what))
+			if !ok {
+				continue
+			}
+			if y <= 0 {
+				d.errorf(e.Value.Range(), "Depth must be positive",
+					"entrance depth of %q in %s is %g; give the known depth in %s at the upstream end, or remove the entry.", e.Key, a.what, y, unit)
+				continue
+			}
+			ev.Entrances = append(ev.Entrances, Entrance{ReachName: e.Key, Depth: y, Range: e.KeyRange})
+		}
+	}
+	return ev
+}
+
+func hasErrorAt(diags hcl.Diagnostics, rng hcl.Range) bool {
+	for _, d := range diags {
+		if d.Severity == hcl.DiagError && d.Subject != nil && d.Subject.Start.Byte >= rng.Start.Byte && d.Subject.End.Byte <= rng.End.Byte {
+			return true
+		}
+	}
+	return false
+}
+
+func (d *decoder) outlet(ev *Event, a attrSet, at *hcl.Attribute) {
+	ev.Outlet.Range = at.Expr.Range()
+	entries, ok := d.object(at.Expr, "outlet of "+a.what, `{ depth = 1.5 }`)
+	if !ok {
+		return
+	}
+	var chosen []entry
+	for _, e := range entries {
+		switch e.Key {
+		case "depth", "elevation", "condition":
+			chosen = append(chosen, e)
+		default:
+			d.errorf(e.KeyRange, "Unknown outlet control",
+				"%q is not an outlet control; use depth, elevation or condition = \"normal\" | \"critical\".%s", e.Key, suggest(e.Key, outletKeys))
+			return
+		}
+	}
+	switch len(chosen) {
+	case 0:
+		d.errorf(at.Expr.Range(), "No outlet control",
+			"The outlet of %s needs one control: depth = ..., elevation = ... or condition = \"normal\" | \"critical\".", a.what)
+		return
+	case 1:
+	default:
+		d.errorf(chosen[1].KeyRange, "More than one outlet control",
+			"The outlet of %s gives both %s and %s; keep exactly one.", a.what, chosen[0].Key, chosen[1].Key)
+		return
+	}
+	e := chosen[0]
+	ev.Outlet.Range = e.Value.Range()
+	switch e.Key {
+	case "depth":
+		if y, ok := d.number(e.Value, "outlet depth of "+a.what); ok {
+			if y <= 0 {
+				d.errorf(e.Value.Range(), "Depth must be positive",
+					"outlet depth of %s is %g; give the tailwater depth above the outlet invert in %s.", a.what, y, d.m.Units.Length())
+				return
+			}
+			ev.Outlet.Kind, ev.Outlet.Value = OutletDepth, y
+		}
+	case "elevation":
+		if z, ok := d.number(e.Value, "outlet elevation of "+a.what); ok {
+			ev.Outlet.Kind, ev.Outlet.Value = OutletElevation, z
+		}
+	case "condition":
+		if c, ok := d.text(e.Value, "outlet condition of "+a.what); ok {
+			switch OutletKind(c) {
+			case OutletNormal, OutletCritical:
+				ev.Outlet.Kind = OutletKind(c)
+			default:
+				d.errorf(e.Value.Range(), "Unknown outlet condition",
+					"condition must be \"normal\" or \"critical\", not %q.%s", c, suggest(c, []string{"normal", "critical"}))
+			}
+		}
+	}
+}

@@ -1,0 +1,309 @@
+package model
+
+import (
+	"fmt"
+	"math"
+	"strings"
+	"unicode"
+
+	"github.com/hashicorp/hcl/v2"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
+	"github.com/zclconf/go-cty/cty"
+)
+
+// MaxMagnitude bounds every number of a model: a value whose magnitude is
+// larger is rejected before any arithmetic can overflow downstream.
+const MaxMagnitude = 1e9
+
+// diagnoser accumulates the diagnostics of one file.
+type diagnoser struct {
+	diags hcl.Diagnostics
+}
+
+func (d *diagnoser) add(sev hcl.DiagnosticSeverity, rng hcl.Range, summary, detail string, args ...any) {
+	r := rng
+	d.diags = append(d.diags, &hcl.Diagnostic{
+		Severity: sev,
+		Summary:  summary,
+		Detail:   fmt.Sprintf(detail, args...),
+		Subject:  &r,
+	})
+}
+
+func (d *diagnoser) errorf(rng hcl.Range, summary, detail string, args ...any) {
+	d.add(hcl.DiagError, rng, summary, detail, args...)
+}
+
+func (d *diagnoser) warnf(rng hcl.Range, summary, detail string, args ...any) {
+	d.add(hcl.DiagWarning, rng, summary, detail, args...)
+}
+
+// literalOnly reports a diagnostic for every construct of expr that a model
+// may not use. A model is untrusted input: only literal values, lists,
+// objects, quoted strings without interpolation and plain arithmetic are
+// accepted. Function calls, variables, for expressions, conditionals,
+// splats and indexing are rejected, so that evaluation is bounded by the
+// size of the source and reads nothing from outside the file.
+func (d *diagnoser) literalOnly(expr hcl.Expression) bool {
+	ok := true
+	var walk func(e hclsyntax.Expression)
+	walk = func(e hclsyntax.Expression) {
+		switch e := e.(type) {
+		case *hclsyntax.LiteralValueExpr:
+		case *hclsyntax.TemplateExpr:
+			for _, p := range e.Parts {
+				walk(p)
+			}
+		case *hclsyntax.TemplateWrapExpr:
+			walk(e.Wrapped)
+		case *hclsyntax.TupleConsExpr:
+			for _, x := range e.Exprs {
+				walk(x)
+			}
+		case *hclsyntax.ObjectConsExpr:
+			for _, it := range e.Items {
+				walk(it.KeyExpr)
+				walk(it.ValueExpr)
+			}
+		case *hclsyntax.ObjectConsKeyExpr:
+			if !e.ForceNonLiteral && hcl.ExprAsKeyword(e.Wrapped) != "" {
+				return // a bare name used as a key is a literal string
+			}
+			walk(e.Wrapped)
+		case *hclsyntax.UnaryOpExpr:
+			walk(e.Val)
+		case *hclsyntax.BinaryOpExpr:
+			walk(e.LHS)
+			walk(e.RHS)
+		case *hclsyntax.ParenthesesExpr:
+			walk(e.Expression)
+		case *hclsyntax.ScopeTraversalExpr:
+			ok = false
+			d.errorf(e.Range(), "Variables not allowed",
+				"A model holds literal values only; %q is a name, not a value. Quote it if it is text (\"%s\") or write the number.",
+				traversalName(e.Traversal), traversalName(e.Traversal))
+		case *hclsyntax.FunctionCallExpr:
+			ok = false
+			d.errorf(e.NameRange, "Function calls not allowed",
+				"A model is untrusted input and no functions are evaluated in it; write the value of %s(...) as a literal.", e.Name)
+		default:
+			ok = false
+			d.errorf(e.Range(), "Expression not allowed",
+				"A model holds literal values, lists, objects and plain arithmetic only; write the value itself instead of this expression.")
+		}
+	}
+	if se, isSyntax := expr.(hclsyntax.Expression); isSyntax {
+		walk(se)
+	}
+	return ok
+}
+
+func traversalName(t hcl.Traversal) string {
+	var b strings.Builder
+	for i, step := range t {
+		switch s := step.(type) {
+		case hcl.TraverseRoot:
+			b.WriteString(s.Name)
+		case hcl.TraverseAttr:
+			b.WriteString("." + s.Name)
+		default:
+			if i == 0 {
+				b.WriteString("?")
+			}
+		}
+	}
+	return b.String()
+}
+
+// value evaluates a literal expression with no evaluation context.
+func (d *diagnoser) value(expr hcl.Expression) (cty.Value, bool) {
+	if !d.literalOnly(expr) {
+		return cty.NilVal, false
+	}
+	v, diags := expr.Value(nil)
+	d.diags = append(d.diags, diags...)
+	if diags.HasErrors() {
+		return cty.NilVal, false
+	}
+	if v.IsNull() {
+		d.errorf(expr.Range(), "Missing value", "null is not a value here; write the value or remove the line.")
+		return cty.NilVal, false
+	}
+	if !v.IsWhollyKnown() {
+		d.errorf(expr.Range(), "Unknown value", "The value could not be determined; write it as a literal.")
+		return cty.NilVal, false
+	}
+	return v, true
+}
+
+// number decodes a finite number of bounded magnitude; what names it in
+// messages (e.g. `length of reach "main"`).
+func (d *diagnoser) number(expr hcl.Expression, what string) (float64, bool) {
+	v, ok := d.value(expr)
+	if !ok {
+		return 0, false
+	}
+	return d.numberValue(v, expr.Range(), what)
+}
+
+func (d *diagnoser) numberValue(v cty.Value, rng hcl.Range, what string) (float64, bool) {
+	if v.Type() != cty.Number {
+		d.errorf(rng, "Number required", "%s must be a number, not %s; write it without quotes.", what, typeName(v.Type()))
+		return 0, false
+	}
+	f, _ := v.AsBigFloat().Float64()
+	if math.IsNaN(f) || math.IsInf(f, 0) || math.Abs(f) > MaxMagnitude {
+		d.errorf(rng, "Number too large", "%s is beyond ±%g; check the units and the decimal point.", what, MaxMagnitude)
+		return 0, false
+	}
+	return f, true
+}
+
+// text decodes a string.
+func (d *diagnoser) text(expr hcl.Expression, what string) (string, bool) {
+	v, ok := d.value(expr)
+	if !ok {
+		return "", false
+	}
+	if v.Type() != cty.String {
+		d.errorf(expr.Range(), "String required", "%s must be a quoted string, not %s.", what, typeName(v.Type()))
+		return "", false
+	}
+	return v.AsString(), true
+}
+
+// name decodes a string that names an object and rejects empty names and
+// control characters (names are printed in every report).
+func (d *diagnoser) name(expr hcl.Expression, what string) (string, bool) {
+	s, ok := d.text(expr, what)
+	if !ok {
+		return "", false
+	}
+	return s, d.checkName(s, expr.Range(), what)
+}
+
+func (d *diagnoser) checkName(s string, rng hcl.Range, what string) bool {
+	if strings.TrimSpace(s) == "" {
+		d.errorf(rng, "Empty name", "%s must not be empty; write a name such as \"main\".", what)
+		return false
+	}
+	for _, r := range s {
+		if unicode.IsControl(r) {
+			d.errorf(rng, "Invalid name", "%s contains a control character; use letters, digits, spaces, '-' or '_'.", what)
+			return false
+		}
+	}
+	return true
+}
+
+// list splits a static list expression into its elements.
+func (d *diagnoser) list(expr hcl.Expression, what, example string) ([]hcl.Expression, bool) {
+	if !d.literalOnly(expr) {
+		return nil, false
+	}
+	items, diags := hcl.ExprList(expr)
+	if diags.HasErrors() {
+		d.errorf(expr.Range(), "List required", "%s must be a list written in brackets, e.g. %s.", what, example)
+		return nil, false
+	}
+	return items, true
+}
+
+// object splits a static object expression into its key/value pairs; keys
+// are decoded as strings and returned with their ranges.
+type entry struct {
+	Key      string
+	KeyRange hcl.Range
+	Value    hcl.Expression
+}
+
+func (d *diagnoser) object(expr hcl.Expression, what, example string) ([]entry, bool) {
+	if !d.literalOnly(expr) {
+		return nil, false
+	}
+	pairs, diags := hcl.ExprMap(expr)
+	if diags.HasErrors() {
+		d.errorf(expr.Range(), "Object required", "%s must be an object written in braces, e.g. %s.", what, example)
+		return nil, false
+	}
+	out := make([]entry, 0, len(pairs))
+	ok := true
+	seen := map[string]hcl.Range{}
+	for _, p := range pairs {
+		k, kok := d.text(p.Key, "a key of "+what)
+		if !kok {
+			ok = false
+			continue
+		}
+		if first, dup := seen[k]; dup {
+			d.errorf(p.Key.Range(), "Duplicate key", "%q appears twice in %s (first at line %d); keep one entry.", k, what, first.Start.Line)
+			ok = false
+			continue
+		}
+		seen[k] = p.Key.Range()
+		out = append(out, entry{Key: k, KeyRange: p.Key.Range(), Value: p.Value})
+	}
+	return out, ok
+}
+
+func typeName(t cty.Type) string {
+	switch {
+	case t == cty.String:
+		return "a string"
+	case t == cty.Number:
+		return "a number"
+	case t == cty.Bool:
+		return "true/false"
+	case t.IsTupleType() || t.IsListType() || t.IsSetType():
+		return "a list"
+	case t.IsObjectType() || t.IsMapType():
+		return "an object"
+	}
+	return t.FriendlyName()
+}
+
+// suggest returns ` Did you mean "x"?` for the closest candidate within a
+// small edit distance, or "".
+func suggest(got string, candidates []string) string {
+	best, bestD := "", 3
+	if len(got) <= 3 {
+		bestD = 2
+	}
+	for _, c := range candidates {
+		if dist := editDistance(got, c); dist < bestD {
+			best, bestD = c, dist
+		}
+	}
+	if best == "" {
+		return ""
+	}
+	return fmt.Sprintf(" Did you mean %q?", best)
+}
+
+// editDistance is the Levenshtein distance between a and b, by runes.
+func editDistance(a, b string) int {
+	ra, rb := []rune(a), []rune(b)
+	if len(ra) > 64 || len(rb) > 64 {
+		if a == b {
+			return 0
+		}
+		return 64
+	}
+	prev := make([]int, len(rb)+1)
+	cur := make([]int, len(rb)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(ra); i++ {
+		cur[0] = i
+		for j := 1; j <= len(rb); j++ {
+			cost := 1
+			if ra[i-1] == rb[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(rb)]
+}

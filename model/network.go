@@ -1,0 +1,248 @@
+package model
+
+import (
+	"fmt"
+	"strings"
+)
+
+// network builds the tree of reaches: nodes, the single outlet, the
+// topological order, headwaters, and the invert elevations.
+//
+// Invert rule: a reach with `invert` keeps the elevations written. A reach
+// with `slope` ends at the elevation of its `to` node, which is the upstream
+// invert of the reach leaving that node, or 0 at the outlet node; its
+// upstream invert is that plus slope × length. Elevations are therefore
+// derived from the outlet upwards, and a reach with `invert` fixes the datum
+// for everything above it that uses `slope`. A reach with `invert` may end
+// above or below the next reach's upstream invert (a drop or a step at the
+// node).
+func (d *decoder) network() {
+	m := d.m
+	net := &Network{}
+	nodes := map[string]*Node{}
+	node := func(name string) *Node {
+		n, ok := nodes[name]
+		if !ok {
+			n = &Node{Name: name}
+			nodes[name] = n
+			net.Nodes = append(net.Nodes, n)
+		}
+		return n
+	}
+	for _, r := range m.Reaches {
+		if r.From == "" || r.To == "" {
+			continue
+		}
+		if r.From == r.To {
+			d.errorf(r.At("to"), "Reach ends where it starts",
+				"reach %q runs from node %q to the same node; give it a different downstream node.", r.Name, r.To)
+			continue
+		}
+		f, t := node(r.From), node(r.To)
+		if f.Out != nil {
+			d.errorf(r.At("from"), "Two reaches leave one node",
+				"reach %q and reach %q (line %d) both start at node %q; the network must be a tree in which water leaves each node by one reach. Rename one start node or join the reaches downstream.",
+				r.Name, f.Out.Name, f.Out.DefRange.Start.Line, r.From)
+			continue
+		}
+		f.Out = r
+		t.In = append(t.In, r)
+	}
+	if d.diags.HasErrors() {
+		return
+	}
+	for _, r := range m.Reaches {
+		r.Upstream = nodes[r.From].In
+		r.Downstream = nodes[r.To].Out
+	}
+	if d.cycles() {
+		return
+	}
+	var outlets []*Node
+	for _, n := range net.Nodes {
+		if n.Out == nil {
+			outlets = append(outlets, n)
+		}
+	}
+	if len(outlets) > 1 {
+		list := make([]string, len(outlets))
+		for i, n := range outlets {
+			list[i] = fmt.Sprintf("%q", n.Name)
+		}
+		d.errorf(outlets[1].In[0].At("to"), "More than one outlet",
+			"Nodes %s have no reach leaving them, so the network falls apart into %d separate parts. Connect the parts so that all water leaves through one outlet node, or put each part in its own model.",
+			strings.Join(list, ", "), len(outlets))
+		return
+	}
+	net.Outlet = outlets[0]
+	if in := net.Outlet.In; len(in) > 1 {
+		d.errorf(in[1].At("to"), "Several reaches end at the outlet",
+			"reach %q and reach %q both end at outlet node %q; the outlet control applies to one reach. End them at a junction node and add one reach from there to the outlet.",
+			in[0].Name, in[1].Name, net.Outlet.Name)
+		return
+	}
+	net.OutletReach = net.Outlet.In[0]
+	net.Order = postOrder(net.OutletReach, len(m.Reaches))
+	for _, r := range m.Reaches {
+		if len(r.Upstream) == 0 {
+			net.Headwaters = append(net.Headwaters, r)
+		}
+	}
+	for i := len(net.Order) - 1; i >= 0; i-- {
+		r := net.Order[i]
+		if r.HasInvert {
+			continue
+		}
+		r.InvertDown = 0
+		if r.Downstream != nil {
+			r.InvertDown = r.Downstream.InvertUp
+		}
+		r.InvertUp = r.InvertDown + r.Slope*r.Length
+	}
+	m.Network = net
+}
+
+// cycles reports every loop of reaches once, at the `to` of the loop's
+// first reach in file order. With at most one reach leaving each node, the
+// reaches downstream of any reach form a single chain, so a loop is found by
+// following that chain.
+func (d *decoder) cycles() bool {
+	const (
+		unseen = iota
+		onPath
+		done
+	)
+	state := make([]int, len(d.m.Reaches))
+	found := false
+	for _, start := range d.m.Reaches {
+		var path []*Reach
+		r := start
+		for r != nil && state[r.Index] == unseen {
+			state[r.Index] = onPath
+			path = append(path, r)
+			r = r.Downstream
+		}
+		if r != nil && state[r.Index] == onPath {
+			i := 0
+			for path[i] != r {
+				i++
+			}
+			loop := path[i:]
+			first := loop[0]
+			for _, x := range loop {
+				if x.Index < first.Index {
+					first = x
+				}
+			}
+			names := make([]string, 0, len(loop)+1)
+			for _, x := range loop {
+				names = append(names, fmt.Sprintf("%q", x.Name))
+			}
+			names = append(names, names[0])
+			d.errorf(first.At("to"), "Reaches form a loop",
+				"Following the flow, reaches %s come back to where they started; a channel network must be a tree. Change the to node of one of them.",
+				strings.Join(names, " → "))
+			found = true
+		}
+		for _, x := range path {
+			state[x.Index] = done
+		}
+	}
+	return found
+}
+
+// postOrder lists the reaches upstream of (and including) last so that each
+// comes after every reach upstream of it; siblings keep file order.
+func postOrder(last *Reach, n int) []*Reach {
+	order := make([]*Reach, 0, n)
+	type frame struct {
+		r    *Reach
+		next int
+	}
+	stack := []frame{{r: last}}
+	for len(stack) > 0 {
+		top := &stack[len(stack)-1]
+		if top.next < len(top.r.Upstream) {
+			up := top.r.Upstream[top.next]
+			top.next++
+			stack = append(stack, frame{r: up})
+			continue
+		}
+		order = append(order, top.r)
+		stack = stack[:len(stack)-1]
+	}
+	return order
+}
+
+// events resolves the reaches named by each event, checks entrances and
+// outlet controls against the network, and accumulates discharges.
+func (d *decoder) events() {
+	m := d.m
+	net := m.Network
+	for _, ev := range m.Events {
+		what := fmt.Sprintf("event %q", ev.Name)
+		own := make([]float64, len(m.Reaches))
+		resolved := len(ev.Inflows) > 0
+		for i := range ev.Inflows {
+			in := &ev.Inflows[i]
+			in.Reach = d.lookupReach(in.ReachName, in.Range, "The inflow of "+what)
+			if in.Reach == nil {
+				resolved = false
+				continue
+			}
+			own[in.Reach.Index] += in.Discharge
+		}
+		for i := range ev.Entrances {
+			en := &ev.Entrances[i]
+			en.Reach = d.lookupReach(en.ReachName, en.Range, "The entrance of "+what)
+			if en.Reach == nil {
+				continue
+			}
+			if up := en.Reach.Upstream; len(up) > 0 {
+				d.errorf(en.Range, "Entrance on a reach with inflow from upstream",
+					"reach %q receives the flow of reach %q, so its upstream depth comes from the junction; an entrance depth applies to headwater reaches only. Remove the entry.",
+					en.ReachName, up[0].Name)
+			} else if g := en.Reach.Gate; g != nil {
+				d.warnf(en.Range, "Entrance depth below a gate",
+					"reach %q starts at gate %q, which controls the depth there; this entrance depth is not used. Remove it.", en.ReachName, g.Name)
+			}
+		}
+		d.outletControl(ev, net.OutletReach, what)
+		if !resolved {
+			continue
+		}
+		ev.Discharge = make([]float64, len(m.Reaches))
+		for _, r := range net.Order {
+			q := own[r.Index]
+			for _, u := range r.Upstream {
+				q += ev.Discharge[u.Index]
+			}
+			ev.Discharge[r.Index] = q
+		}
+		for _, r := range m.Reaches {
+			dry := ev.Discharge[r.Index] == 0
+			if dry && (r.Downstream == nil || ev.Discharge[r.Downstream.Index] > 0) {
+				d.errorf(ev.At("inflow"), "Reach receives no discharge",
+					"In %s no water reaches reach %q; add an inflow to %q or to a reach upstream of it.", what, r.Name, r.Name)
+			}
+		}
+	}
+}
+
+// outletControl checks an event's outlet control against the outlet reach.
+func (d *decoder) outletControl(ev *Event, out *Reach, what string) {
+	switch ev.Outlet.Kind {
+	case OutletElevation:
+		if ev.Outlet.Value <= out.InvertDown {
+			d.errorf(ev.Outlet.Range, "Outlet level at or below the invert",
+				"The outlet elevation of %s is %g, not above the downstream invert %g of reach %q; give a water-surface elevation above the invert, or a depth.",
+				what, ev.Outlet.Value, out.InvertDown, out.Name)
+		}
+	case OutletNormal:
+		if out.Slope <= 0 {
+			d.errorf(ev.Outlet.Range, "No normal depth at the outlet",
+				"Outlet reach %q has a bed slope of %g, and normal depth exists only on a falling bed; use a depth, an elevation or condition = \"critical\".",
+				out.Name, out.Slope)
+		}
+	}
+}

@@ -1,0 +1,366 @@
+package model
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+
+	"github.com/hashicorp/hcl/v2"
+	"github.com/hashicorp/hcl/v2/hclparse"
+)
+
+// Suffix is the file name suffix of a channel model.
+const Suffix = ".chan.hcl"
+
+// Limits for untrusted input. A model beyond any of them is rejected with a
+// diagnostic before anything is computed.
+const (
+	MaxFileSize  = 4 << 20 // bytes
+	MaxSections  = 2000
+	MaxReaches   = 10000
+	MaxPoints    = 5000 // per points section
+	MaxEvents    = 200
+	MaxSegments  = 1000  // per reach
+	MaxStructure = 10000 // gates, basins, bends and exceptions, each
+	MaxNesting   = 64    // brackets, braces and parentheses
+)
+
+// Load reads a model file (at most MaxFileSize bytes) and decodes it with
+// Parse.
+func Load(filename string) (*Model, hcl.Diagnostics) {
+	src, diags := ReadFile(filename)
+	if diags.HasErrors() {
+		return nil, diags
+	}
+	return Parse(filename, src)
+}
+
+// ReadFile reads a model file with the size limit of Load. Callers that
+// render diagnostics with source snippets use it with Parse to keep the
+// bytes of a file that fails to decode.
+func ReadFile(filename string) ([]byte, hcl.Diagnostics) {
+	start := hcl.Range{Filename: filepath.ToSlash(filename), Start: hcl.InitialPos, End: hcl.InitialPos}
+	var d diagnoser
+	f, err := os.Open(filename)
+	if err != nil {
+		detail := err.Error()
+		if errors.Is(err, fs.ErrNotExist) {
+			detail = "The file does not exist; check the path."
+		} else if errors.Is(err, fs.ErrPermission) {
+			detail = "Permission denied; check the file's permissions."
+		}
+		d.errorf(start, "Cannot read model", "%s", detail)
+		return nil, d.diags
+	}
+	defer f.Close()
+	if st, err := f.Stat(); err == nil && st.IsDir() {
+		d.errorf(start, "Cannot read model", "%s is a directory, not a %s file.", filename, Suffix)
+		return nil, d.diags
+	}
+	src, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
+	if err != nil {
+		d.errorf(start, "Cannot read model", "%s", err.Error())
+		return nil, d.diags
+	}
+	if len(src) > MaxFileSize {
+		d.errorf(start, "Model file too large", "The file is larger than %d MiB; split the network into smaller models.", MaxFileSize>>20)
+		return nil, d.diags
+	}
+	return src, nil
+}
+
+// Parse decodes and validates one model. The model is nil whenever the
+// diagnostics hold an error; every problem of the file is reported in one
+// call. Warnings may accompany a valid model.
+func Parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
+	filename = filepath.ToSlash(filename)
+	start := hcl.Range{Filename: filename, Start: hcl.InitialPos, End: hcl.InitialPos}
+	var d diagnoser
+	if len(src) > MaxFileSize {
+		d.errorf(start, "Model file too large", "The file is larger than %d MiB; split the network into smaller models.", MaxFileSize>>20)
+		return nil, d.diags
+	}
+	if pos, deep := nestingTooDeep(src); deep {
+		p := posAt(src, pos)
+		d.errorf(hcl.Range{Filename: filename, Start: p, End: p}, "Too deeply nested",
+			"Brackets, braces and parentheses nest more than %d deep here; a model needs only a few levels.", MaxNesting)
+		return nil, d.diags
+	}
+	file, diags := hclparse.NewParser().ParseHCL(src, filename)
+	if diags.HasErrors() {
+		return nil, diags
+	}
+	d.diags = diags
+	m := &Model{File: filename, Source: src}
+	dec := &decoder{diagnoser: &d, m: m}
+	// Decoding and reference checks run together so that one run reports
+	// both kinds of problem; the graph needs a clean file.
+	dec.root(file.Body)
+	dec.resolve()
+	if d.diags.HasErrors() {
+		return nil, d.diags
+	}
+	dec.network()
+	if d.diags.HasErrors() {
+		return nil, d.diags
+	}
+	dec.events()
+	if d.diags.HasErrors() {
+		return nil, d.diags
+	}
+	return m, d.diags
+}
+
+// nestingTooDeep scans src for bracket nesting beyond MaxNesting outside
+// strings and comments, so that the parser's recursion stays bounded.
+func nestingTooDeep(src []byte) (int, bool) {
+	depth := 0
+	for i := 0; i < len(src); i++ {
+		switch c := src[i]; c {
+		case '"':
+			for i++; i < len(src) && src[i] != '"' && src[i] != '\n'; i++ {
+				if src[i] == '\\' {
+					i++
+				}
+			}
+		case '#':
+			for i < len(src) && src[i] != '\n' {
+				i++
+			}
+		case '/':
+			if i+1 < len(src) && src[i+1] == '/' {
+				for i < len(src) && src[i] != '\n' {
+					i++
+				}
+			} else if i+1 < len(src) && src[i+1] == '*' {
+				for i += 2; i+1 < len(src) && !(src[i] == '*' && src[i+1] == '/'); i++ {
+				}
+				i++
+			}
+		case '[', '{', '(':
+			depth++
+			if depth > MaxNesting {
+				return i, true
+			}
+		case ']', '}', ')':
+			if depth > 0 {
+				depth--
+			}
+		}
+	}
+	return 0, false
+}
+
+// posAt converts a byte offset to a position (columns count bytes, which is
+// exact for the ASCII punctuation this is used on).
+func posAt(src []byte, off int) hcl.Pos {
+	p := hcl.Pos{Line: 1, Column: 1, Byte: off}
+	for _, c := range src[:off] {
+		if c == '\n' {
+			p.Line++
+			p.Column = 1
+		} else if c&0xC0 != 0x80 {
+			p.Column++
+		}
+	}
+	return p
+}
+
+// decoder turns the HCL body into the model, then resolves references and
+// builds the network.
+type decoder struct {
+	*diagnoser
+	m *Model
+
+	sections map[string]*Section
+	reaches  map[string]*Reach
+}
+
+var rootSchema = &hcl.BodySchema{
+	Attributes: []hcl.AttributeSchema{
+		{Name: "units", Required: true},
+		{Name: "title"},
+	},
+	Blocks: []hcl.BlockHeaderSchema{
+		{Type: "section", LabelNames: []string{"name"}},
+		{Type: "reach", LabelNames: []string{"name"}},
+		{Type: "gate", LabelNames: []string{"name"}},
+		{Type: "basin", LabelNames: []string{"name"}},
+		{Type: "bend", LabelNames: []string{"name"}},
+		{Type: "event", LabelNames: []string{"name"}},
+		{Type: "exception", LabelNames: []string{"rule"}},
+	},
+}
+
+// blockLimits caps the number of blocks of each type.
+var blockLimits = map[string]int{
+	"section": MaxSections, "reach": MaxReaches, "event": MaxEvents,
+	"gate": MaxStructure, "basin": MaxStructure, "bend": MaxStructure, "exception": MaxStructure,
+}
+
+func (d *decoder) root(body hcl.Body) {
+	content, diags := body.Content(rootSchema)
+	d.diags = append(d.diags, diags...)
+	m := d.m
+	if a, ok := content.Attributes["units"]; ok {
+		m.UnitsRange = a.Expr.Range()
+		if s, ok := d.text(a.Expr, "units"); ok {
+			switch Units(s) {
+			case SI, US:
+				m.Units = Units(s)
+			default:
+				d.errorf(a.Expr.Range(), "Unknown units",
+					"units must be \"si\" (metres, m³/s) or \"us\" (feet, ft³/s), not %q.", s)
+			}
+		}
+	}
+	if a, ok := content.Attributes["title"]; ok {
+		m.Title, _ = d.text(a.Expr, "title")
+	}
+	count := map[string]int{}
+	for _, b := range content.Blocks {
+		count[b.Type]++
+		if limit := blockLimits[b.Type]; count[b.Type] > limit {
+			if count[b.Type] == limit+1 {
+				d.errorf(b.DefRange, "Too many blocks",
+					"A model may hold at most %d %s blocks; split the network into several models.", limit, b.Type)
+			}
+			continue
+		}
+		switch b.Type {
+		case "section":
+			if s := d.section(b); s != nil {
+				m.Sections = append(m.Sections, s)
+			}
+		case "reach":
+			if r := d.reach(b); r != nil {
+				r.Index = len(m.Reaches)
+				m.Reaches = append(m.Reaches, r)
+			}
+		case "gate":
+			m.Gates = append(m.Gates, d.gate(b))
+		case "basin":
+			m.Basins = append(m.Basins, d.basin(b))
+		case "bend":
+			m.Bends = append(m.Bends, d.bend(b))
+		case "event":
+			m.Events = append(m.Events, d.event(b))
+		case "exception":
+			m.Exceptions = append(m.Exceptions, d.exception(b))
+		}
+	}
+	if count["reach"] == 0 {
+		d.errorf(body.MissingItemRange(), "No reach", "A model needs at least one reach block; add one, e.g. reach \"main\" { from = \"a\" ... }.")
+	}
+	if count["event"] == 0 {
+		d.errorf(body.MissingItemRange(), "No event", "A model needs at least one event block with the inflows and the outlet control; add one.")
+	}
+}
+
+// newSrc starts the Src of a block.
+func newSrc(b *hcl.Block) Src {
+	s := Src{DefRange: b.DefRange, LabelRange: b.DefRange, Attrs: map[string]hcl.Range{}}
+	if len(b.LabelRanges) > 0 {
+		s.LabelRange = b.LabelRanges[0]
+	}
+	return s
+}
+
+// blockName returns the first label of b, checked.
+func (d *decoder) blockName(b *hcl.Block) string {
+	if len(b.Labels) == 0 {
+		return ""
+	}
+	d.checkName(b.Labels[0], b.LabelRanges[0], fmt.Sprintf("The name of a %s", b.Type))
+	return b.Labels[0]
+}
+
+// attrSet wraps the attributes of one block for typed access; every read
+// attribute's value range goes into src.Attrs.
+type attrSet struct {
+	d    *decoder
+	m    hcl.Attributes
+	src  *Src
+	what string // e.g. `reach "main"`
+}
+
+func (d *decoder) attrs(b *hcl.Block, schema *hcl.BodySchema, src *Src) (attrSet, *hcl.BodyContent) {
+	content, diags := b.Body.Content(schema)
+	d.diags = append(d.diags, diags...)
+	for name, a := range content.Attributes {
+		src.Attrs[name] = a.Expr.Range()
+	}
+	what := b.Type
+	if len(b.Labels) > 0 {
+		what = fmt.Sprintf("%s %q", b.Type, b.Labels[0])
+	}
+	return attrSet{d: d, m: content.Attributes, src: src, what: what}, content
+}
+
+func (a attrSet) has(name string) bool { _, ok := a.m[name]; return ok }
+
+func (a attrSet) number(name string) (float64, bool) {
+	at, ok := a.m[name]
+	if !ok {
+		return 0, false
+	}
+	return a.d.number(at.Expr, fmt.Sprintf("%s of %s", name, a.what))
+}
+
+func (a attrSet) text(name string) (string, bool) {
+	at, ok := a.m[name]
+	if !ok {
+		return "", false
+	}
+	return a.d.text(at.Expr, fmt.Sprintf("%s of %s", name, a.what))
+}
+
+func (a attrSet) name(name string) (string, bool) {
+	at, ok := a.m[name]
+	if !ok {
+		return "", false
+	}
+	return a.d.name(at.Expr, fmt.Sprintf("%s of %s", name, a.what))
+}
+
+// positive decodes a number that must be > 0.
+func (a attrSet) positive(name, unit string) (float64, bool) {
+	v, ok := a.number(name)
+	if !ok {
+		return 0, false
+	}
+	if v <= 0 {
+		a.d.errorf(a.m[name].Expr.Range(), "Value must be positive",
+			"%s of %s is %g; it must be greater than 0%s.", name, a.what, v, unit)
+		return 0, false
+	}
+	return v, true
+}
+
+// station decodes a station that must be ≥ 0 (the upper bound, the reach
+// length, is checked when references are resolved).
+func (a attrSet) station(name string) (float64, bool) {
+	v, ok := a.number(name)
+	if !ok {
+		return 0, false
+	}
+	if v < 0 {
+		a.d.errorf(a.m[name].Expr.Range(), "Station outside the reach",
+			"%s of %s is %g; stations run from 0 at the upstream end of the reach to its length.", name, a.what, v)
+		return 0, false
+	}
+	return v, true
+}
+
+// missing reports required attributes that were not written.
+func (a attrSet) require(body hcl.Body, names ...string) {
+	for _, n := range names {
+		if !a.has(n) {
+			a.d.errorf(body.MissingItemRange(), "Missing required argument",
+				"%s needs %s; add it to the block.", a.what, n)
+		}
+	}
+}

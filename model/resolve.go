@@ -1,0 +1,165 @@
+package model
+
+import (
+	"cmp"
+	"fmt"
+	"slices"
+
+	"github.com/hashicorp/hcl/v2"
+)
+
+// index registers named objects of one kind and reports duplicates at the
+// second name, mentioning the line of the first.
+func index[T any](d *decoder, kind string, items []T, name func(T) (string, hcl.Range)) map[string]T {
+	m := make(map[string]T, len(items))
+	first := map[string]hcl.Range{}
+	for _, it := range items {
+		n, rng := name(it)
+		if n == "" {
+			continue
+		}
+		if f, dup := first[n]; dup {
+			d.errorf(rng, "Duplicate name",
+				"A %s named %q is already defined at line %d; rename one of them.", kind, n, f.Start.Line)
+			continue
+		}
+		first[n] = rng
+		m[n] = it
+	}
+	return m
+}
+
+func names[T any](m map[string]T) []string {
+	out := make([]string, 0, len(m))
+	for k := range m {
+		out = append(out, k)
+	}
+	slices.Sort(out)
+	return out
+}
+
+// lookupReach resolves a reach reference at rng.
+func (d *decoder) lookupReach(name string, rng hcl.Range, what string) *Reach {
+	if name == "" {
+		return nil
+	}
+	r, ok := d.reaches[name]
+	if !ok {
+		d.errorf(rng, "Unknown reach", "%s names reach %q, which is not defined; use one of the reach names of this file.%s",
+			what, name, suggest(name, names(d.reaches)))
+	}
+	return r
+}
+
+// checkSpan checks that a station range lies on the reach.
+func (d *decoder) checkSpan(r *Reach, src Src, from, to float64, what string) bool {
+	if r == nil || r.Length <= 0 {
+		return false
+	}
+	ok := true
+	for _, s := range []struct {
+		attr string
+		v    float64
+	}{{"from_station", from}, {"to_station", to}} {
+		if s.v > r.Length {
+			d.errorf(src.At(s.attr), "Station outside the reach",
+				"%s of %s is %g, beyond the end of reach %q (length %g); stations run from 0 to the reach length.",
+				s.attr, what, s.v, r.Name, r.Length)
+			ok = false
+		}
+	}
+	return ok && from < to
+}
+
+func byStation[T any](items []T, from func(T) float64) {
+	slices.SortStableFunc(items, func(a, b T) int { return cmp.Compare(from(a), from(b)) })
+}
+
+// resolve checks names and references and attaches gates, basins, bends and
+// segments to their reaches.
+func (d *decoder) resolve() {
+	m := d.m
+	d.sections = index(d, "section", m.Sections, func(s *Section) (string, hcl.Range) { return s.Name, s.LabelRange })
+	d.reaches = index(d, "reach", m.Reaches, func(r *Reach) (string, hcl.Range) { return r.Name, r.LabelRange })
+	index(d, "gate", m.Gates, func(g *Gate) (string, hcl.Range) { return g.Name, g.LabelRange })
+	index(d, "basin", m.Basins, func(b *Basin) (string, hcl.Range) { return b.Name, b.LabelRange })
+	index(d, "bend", m.Bends, func(b *Bend) (string, hcl.Range) { return b.Name, b.LabelRange })
+	index(d, "event", m.Events, func(e *Event) (string, hcl.Range) { return e.Name, e.LabelRange })
+
+	section := func(name string, rng hcl.Range, what string) *Section {
+		s, ok := d.sections[name]
+		if !ok && name != "" {
+			d.errorf(rng, "Unknown section", "%s uses section %q, which is not defined; define it or use one of the section names of this file.%s",
+				what, name, suggest(name, names(d.sections)))
+		}
+		return s
+	}
+	for _, r := range m.Reaches {
+		what := fmt.Sprintf("reach %q", r.Name)
+		r.Section = section(r.SectionName, r.At("section"), what)
+		for _, s := range r.Segments {
+			sw := fmt.Sprintf("a segment of reach %q", r.Name)
+			s.Section = section(s.SectionName, s.At("section"), sw)
+			d.checkSpan(r, s.Src, s.FromStation, s.ToStation, sw)
+		}
+		byStation(r.Segments, func(s *Segment) float64 { return s.FromStation })
+		for i := 1; i < len(r.Segments); i++ {
+			prev, s := r.Segments[i-1], r.Segments[i]
+			if s.FromStation < prev.ToStation {
+				d.errorf(s.At("from_station"), "Overlapping segments",
+					"This segment of reach %q starts at station %g, inside the segment of line %d (stations %g to %g); make them meet end to end.",
+					r.Name, s.FromStation, prev.DefRange.Start.Line, prev.FromStation, prev.ToStation)
+			}
+		}
+	}
+	for _, g := range m.Gates {
+		g.Reach = d.lookupReach(g.ReachName, g.At("reach"), fmt.Sprintf("gate %q", g.Name))
+		if g.Reach == nil {
+			continue
+		}
+		if prev := g.Reach.Gate; prev != nil {
+			d.errorf(g.At("reach"), "More than one gate on a reach",
+				"Reach %q already has gate %q (line %d) at its upstream end; a reach takes one gate. Split the reach at the second gate.",
+				g.ReachName, prev.Name, prev.DefRange.Start.Line)
+			continue
+		}
+		g.Reach.Gate = g
+	}
+	for _, b := range m.Basins {
+		what := fmt.Sprintf("basin %q", b.Name)
+		b.Reach = d.lookupReach(b.ReachName, b.At("reach"), what)
+		if d.checkSpan(b.Reach, b.Src, b.FromStation, b.ToStation, what) {
+			b.Reach.Basins = append(b.Reach.Basins, b)
+		}
+	}
+	for _, b := range m.Bends {
+		what := fmt.Sprintf("bend %q", b.Name)
+		b.Reach = d.lookupReach(b.ReachName, b.At("reach"), what)
+		if d.checkSpan(b.Reach, b.Src, b.FromStation, b.ToStation, what) {
+			b.Reach.Bends = append(b.Reach.Bends, b)
+		}
+	}
+	for _, e := range m.Exceptions {
+		what := fmt.Sprintf("exception %q", e.Rule)
+		e.Reach = d.lookupReach(e.ReachName, e.At("reach"), what)
+		d.checkSpan(e.Reach, e.Src, e.FromStation, e.ToStation, what)
+	}
+	for _, r := range m.Reaches {
+		byStation(r.Basins, func(b *Basin) float64 { return b.FromStation })
+		byStation(r.Bends, func(b *Bend) float64 { return b.FromStation })
+		for i := 1; i < len(r.Basins); i++ {
+			if prev, b := r.Basins[i-1], r.Basins[i]; b.FromStation < prev.ToStation {
+				d.warnf(b.At("from_station"), "Overlapping basins",
+					"Basin %q overlaps basin %q (line %d) on reach %q; they are treated as one hardened zone. Merge them into one block.",
+					b.Name, prev.Name, prev.DefRange.Start.Line, r.Name)
+			}
+		}
+		for i := 1; i < len(r.Bends); i++ {
+			if prev, b := r.Bends[i-1], r.Bends[i]; b.FromStation < prev.ToStation {
+				d.errorf(b.At("from_station"), "Overlapping bends",
+					"Bend %q overlaps bend %q (line %d) on reach %q; a station has one centreline radius. Make the bends meet end to end.",
+					b.Name, prev.Name, prev.DefRange.Start.Line, r.Name)
+			}
+		}
+	}
+}

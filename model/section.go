@@ -1,0 +1,301 @@
+package model
+
+import (
+	"fmt"
+	"slices"
+	"strings"
+
+	"github.com/hashicorp/hcl/v2"
+)
+
+// Plausible range of Manning's n. Published tables run from about 0.010
+// (smooth glass, planed timber) to about 0.15–0.20 (floodplains in dense
+// brush or timber); Source: Chow, Open-Channel Hydraulics (1959), Table 5-6
+// (from memory). Above maxRoughness the value is almost certainly a unit or
+// percentage slip and is an error; below minRoughness it is smoother than
+// any lining and draws a warning.
+const (
+	maxRoughness = 0.3
+	minRoughness = 0.008
+)
+
+var sectionSchema = &hcl.BodySchema{Attributes: []hcl.AttributeSchema{
+	{Name: "shape"}, {Name: "bottom_width"}, {Name: "side_slope"}, {Name: "height"},
+	{Name: "diameter"}, {Name: "roughness"}, {Name: "lining"}, {Name: "points"}, {Name: "banks"},
+}}
+
+// shapeAttrs lists, per shape, the attributes it requires and those it
+// accepts besides them. Every shape accepts `shape` and `lining`.
+var shapeAttrs = map[Shape]struct{ required, optional []string }{
+	Rectangle: {required: []string{"bottom_width", "height", "roughness"}},
+	Trapezoid: {required: []string{"bottom_width", "side_slope", "height", "roughness"}},
+	Triangle:  {required: []string{"side_slope", "height", "roughness"}},
+	Circle:    {required: []string{"diameter", "roughness"}},
+	Points:    {required: []string{"points", "roughness"}, optional: []string{"banks", "height"}},
+}
+
+var shapeNames = []string{string(Rectangle), string(Trapezoid), string(Triangle), string(Circle), string(Points)}
+
+func (d *decoder) section(b *hcl.Block) *Section {
+	s := &Section{Src: newSrc(b), Name: d.blockName(b)}
+	a, _ := d.attrs(b, sectionSchema, &s.Src)
+	if !a.has("shape") {
+		a.require(b.Body, "shape")
+		return s
+	}
+	shape, ok := a.text("shape")
+	if !ok {
+		return s
+	}
+	s.Shape = Shape(shape)
+	spec, known := shapeAttrs[s.Shape]
+	if !known {
+		d.errorf(a.m["shape"].Expr.Range(), "Unknown section shape",
+			"shape must be one of %s, not %q.%s", strings.Join(shapeNames, ", "), shape, suggest(shape, shapeNames))
+		return s
+	}
+	allowed := map[string]bool{"shape": true, "lining": true}
+	for _, n := range spec.required {
+		allowed[n] = true
+	}
+	for _, n := range spec.optional {
+		allowed[n] = true
+	}
+	for _, n := range inSourceOrder(a.m) {
+		if !allowed[n] {
+			hint := "remove it"
+			if s.Shape == Circle && n == "height" {
+				hint = "a circle's height is its diameter; remove it"
+			}
+			d.errorf(a.m[n].NameRange, "Argument not used by this shape",
+				"%s is not used by a %s section; %s.", n, s.Shape, hint)
+		}
+	}
+	a.require(b.Body, spec.required...)
+	if a.has("lining") {
+		s.Lining, _ = a.text("lining")
+	}
+	unit := " " + d.m.Units.Length()
+	switch s.Shape {
+	case Rectangle, Trapezoid:
+		s.BottomWidth, _ = a.positive("bottom_width", unit)
+		s.Height, _ = a.positive("height", unit)
+		if s.Shape == Trapezoid {
+			s.SideSlope, _ = a.sideSlope(false)
+		}
+	case Triangle:
+		s.SideSlope, _ = a.sideSlope(true)
+		s.Height, _ = a.positive("height", unit)
+	case Circle:
+		s.Diameter, _ = a.positive("diameter", unit)
+		s.Height = s.Diameter
+	case Points:
+		d.points(s, a)
+	}
+	if s.Shape != Points {
+		if n, ok := a.roughness(a.m["roughness"]); ok {
+			s.Roughness = [3]float64{n, n, n}
+		}
+	}
+	return s
+}
+
+// sideSlope decodes side_slope (horizontal per unit vertical). A trapezoid
+// accepts 0 (vertical walls); a triangle needs a positive slope.
+func (a attrSet) sideSlope(positive bool) (float64, bool) {
+	v, ok := a.number("side_slope")
+	if !ok {
+		return 0, false
+	}
+	rng := a.m["side_slope"].Expr.Range()
+	switch {
+	case positive && v <= 0:
+		a.d.errorf(rng, "Value must be positive",
+			"side_slope of %s is %g; a triangle needs a positive side slope (horizontal run per unit rise).", a.what, v)
+		return 0, false
+	case v < 0:
+		a.d.errorf(rng, "Negative side slope",
+			"side_slope of %s is %g; it is the horizontal run per unit rise and must be 0 or more.", a.what, v)
+		return 0, false
+	}
+	return v, true
+}
+
+// roughness decodes one Manning's n.
+func (a attrSet) roughness(at *hcl.Attribute) (float64, bool) {
+	if at == nil {
+		return 0, false
+	}
+	return a.manning(at.Expr)
+}
+
+func (a attrSet) manning(expr hcl.Expression) (float64, bool) {
+	n, ok := a.d.number(expr, "roughness of "+a.what)
+	if !ok {
+		return 0, false
+	}
+	switch {
+	case n <= 0:
+		a.d.errorf(expr.Range(), "Value must be positive",
+			"roughness of %s is %g; Manning's n must be greater than 0 (concrete is about 0.013–0.015).", a.what, n)
+		return 0, false
+	case n > maxRoughness:
+		a.d.errorf(expr.Range(), "Implausible roughness",
+			"roughness of %s is %g; Manning's n above %g is outside published tables. Write n itself, not a percentage or another coefficient.", a.what, n, maxRoughness)
+		return 0, false
+	case n < minRoughness:
+		a.d.warnf(expr.Range(), "Unusually low roughness",
+			"roughness of %s is %g; Manning's n below %g is smoother than any channel lining. Check the value.", a.what, n, minRoughness)
+	}
+	return n, true
+}
+
+// points decodes a points section: the [offset, elevation] list, banks,
+// roughness (one n or three: left overbank, main channel, right overbank)
+// and the optional height.
+//
+// Offsets must not decrease from one point to the next; two consecutive
+// points may share an offset (a vertical wall), three may not. The height
+// defaults to the lower of the two end elevations minus the lowest
+// elevation. Banks default to the first and last offsets, i.e. the whole
+// section is main channel.
+func (d *decoder) points(s *Section, a attrSet) {
+	at, ok := a.m["points"]
+	if !ok {
+		return
+	}
+	const example = "[[0, 2.0], [5, 0.0], [10, 2.0]]"
+	what := "points of " + a.what
+	items, ok := d.list(at.Expr, what, example)
+	if !ok {
+		return
+	}
+	if len(items) > MaxPoints {
+		d.errorf(at.Expr.Range(), "Too many points", "%s has %d points; at most %d are accepted.", what, len(items), MaxPoints)
+		return
+	}
+	if len(items) < 3 {
+		d.errorf(at.Expr.Range(), "Too few points", "%s has %d point(s); a cross-section needs at least 3 [offset, elevation] pairs.", what, len(items))
+		return
+	}
+	pts := make([]Point, 0, len(items))
+	good := true
+	for i, it := range items {
+		pair, ok := d.pair(it, fmt.Sprintf("point %d of %s", i+1, a.what), "[offset, elevation]")
+		if !ok {
+			good = false
+			continue
+		}
+		pts = append(pts, Point{Offset: pair[0], Elevation: pair[1]})
+		if !good || i == 0 {
+			continue
+		}
+		prev := pts[i-1].Offset
+		switch {
+		case pair[0] < prev:
+			d.errorf(it.Range(), "Offsets out of order",
+				"point %d of %s has offset %g, less than the %g before it; list the points from left to right.", i+1, a.what, pair[0], prev)
+			good = false
+		case pair[0] == prev && i >= 2 && pts[i-2].Offset == prev:
+			d.errorf(it.Range(), "Three points at one offset",
+				"point %d of %s is the third at offset %g; a vertical wall needs two points, remove the middle one.", i+1, a.what, prev)
+			good = false
+		}
+	}
+	if !good {
+		return
+	}
+	s.Points = pts
+	first, last := pts[0], pts[len(pts)-1]
+	if last.Offset <= first.Offset {
+		d.errorf(at.Expr.Range(), "Section has no width", "%s all lie at one offset; spread them across the channel.", what)
+		return
+	}
+	low := first.Elevation
+	for _, p := range pts {
+		low = min(low, p.Elevation)
+	}
+	if a.has("height") {
+		s.Height, _ = a.positive("height", " "+d.m.Units.Length())
+	} else {
+		s.Height = min(first.Elevation, last.Elevation) - low
+		if s.Height <= 0 {
+			d.errorf(at.Expr.Range(), "Section holds no water",
+				"The lowest point of %s is at an end, so the section has no depth below its lower end; add points that rise at both ends, or write height.", a.what)
+		}
+	}
+	s.Banks = [2]float64{first.Offset, last.Offset}
+	if bk, ok := a.m["banks"]; ok {
+		if pair, ok := d.pair(bk.Expr, "banks of "+a.what, "[left offset, right offset]"); ok {
+			switch {
+			case pair[0] < first.Offset || pair[1] > last.Offset:
+				d.errorf(bk.Expr.Range(), "Bank outside the section",
+					"banks of %s are [%g, %g]; both must lie within the point offsets %g to %g.", a.what, pair[0], pair[1], first.Offset, last.Offset)
+			case pair[0] >= pair[1]:
+				d.errorf(bk.Expr.Range(), "Banks out of order",
+					"banks of %s are [%g, %g]; write the left bank offset first, smaller than the right.", a.what, pair[0], pair[1])
+			default:
+				s.Banks = [2]float64{pair[0], pair[1]}
+			}
+		}
+	}
+	if r, ok := a.m["roughness"]; ok {
+		d.zoneRoughness(s, a, r)
+	}
+}
+
+// zoneRoughness decodes the roughness of a points section: one number for
+// the whole section or [left overbank, main channel, right overbank].
+func (d *decoder) zoneRoughness(s *Section, a attrSet, r *hcl.Attribute) {
+	if _, isList := hcl.ExprList(r.Expr); isList.HasErrors() {
+		if n, ok := a.manning(r.Expr); ok {
+			s.Roughness = [3]float64{n, n, n}
+		}
+		return
+	}
+	items, ok := d.list(r.Expr, "roughness of "+a.what, "[0.06, 0.035, 0.06]")
+	if !ok {
+		return
+	}
+	if len(items) != 3 {
+		d.errorf(r.Expr.Range(), "Three roughness values required",
+			"roughness of %s has %d values; write one n, or three: [left overbank, main channel, right overbank].", a.what, len(items))
+		return
+	}
+	for i, it := range items {
+		if n, ok := a.manning(it); ok {
+			s.Roughness[i] = n
+		}
+	}
+}
+
+// pair decodes a two-number list such as [offset, elevation].
+func (d *diagnoser) pair(expr hcl.Expression, what, form string) ([2]float64, bool) {
+	items, ok := d.list(expr, what, form)
+	if !ok {
+		return [2]float64{}, false
+	}
+	if len(items) != 2 {
+		d.errorf(expr.Range(), "Two numbers required", "%s must be %s, two numbers; it has %d.", what, form, len(items))
+		return [2]float64{}, false
+	}
+	var out [2]float64
+	for i, it := range items {
+		v, ok := d.number(it, what)
+		if !ok {
+			return out, false
+		}
+		out[i] = v
+	}
+	return out, true
+}
+
+// inSourceOrder returns the attribute names in the order they were written.
+func inSourceOrder(m hcl.Attributes) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	slices.SortFunc(keys, func(x, y string) int { return m[x].Range.Start.Byte - m[y].Range.Start.Byte })
+	return keys
+}
