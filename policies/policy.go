@@ -31,17 +31,22 @@ func (s Severity) Rank() int {
 }
 
 // ByLining is a limit that may depend on a section's lining word.
-// A bare number in the policy sets Default only.
+// A bare number in the policy sets Default only. A lining written as
+// `null` in the policy has no limit (NoLimit), whatever the default.
 type ByLining struct {
 	Values     map[string]float64 // lining word → limit
 	Default    float64
 	HasDefault bool
+	NoLimit    map[string]bool // lining words exempt from the limit
 }
 
 // For returns the limit for a lining and whether one applies.
 func (b ByLining) For(lining string) (float64, bool) {
 	if v, ok := b.Values[lining]; ok {
 		return v, true
+	}
+	if b.NoLimit[lining] {
+		return 0, false
 	}
 	return b.Default, b.HasDefault
 }
@@ -61,6 +66,9 @@ type RuleConfig struct {
 	Events   []string // nil: every event
 	File     string   // policy file (or "pack:NAME") the block came from
 	DefRange hcl.Range
+	// Attrs holds the value range of every attribute written in the block,
+	// by attribute name, so a report can point at the limit it applied.
+	Attrs map[string]hcl.Range
 
 	Minimum  float64  // freeboard.minimum, superelevation.minimum (length)
 	Fraction float64  // freeboard.fraction (of flow depth)

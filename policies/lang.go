@@ -1,0 +1,596 @@
+package policies
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/hashicorp/hcl/v2"
+	"github.com/zclconf/go-cty/cty"
+)
+
+// ruleSpec describes one configurable rule block of the policy language.
+type ruleSpec struct {
+	id       string
+	severity Severity // default severity
+	settings []string // attributes beyond severity, events and enabled
+}
+
+// ruleSpecs lists the configurable rules, sorted by id.
+var ruleSpecs = []ruleSpec{
+	{"freeboard", Error, []string{"minimum", "fraction"}},
+	{"froude_band", Warning, []string{"avoid"}},
+	{"jump_containment", Error, nil},
+	{"jump_type", Warning, []string{"avoid"}},
+	{"max_velocity", Error, []string{"limit"}},
+	{"min_velocity", Warning, []string{"limit"}},
+	{"shear_stress", Error, []string{"limit"}},
+	{"superelevation", Error, []string{"subcritical_coefficient", "supercritical_coefficient", "minimum"}},
+}
+
+// alwaysOn are the rules that run whatever the policy says.
+var alwaysOn = []string{"capacity", "model", "solver"}
+
+// Default bend-superelevation coefficients C in Δy = C·V²·T/(g·rc):
+// 0.5 for tranquil (subcritical) flow and 1.0 for rapid (supercritical)
+// flow in a simple circular curve. Source: U.S. Army Corps of Engineers,
+// EM 1110-2-1601, Hydraulic Design of Flood Control Channels (from memory).
+const (
+	DefaultSubcriticalCoefficient   = 0.5
+	DefaultSupercriticalCoefficient = 1.0
+)
+
+// MaxExtendsDepth bounds the length of an `extends` chain.
+const MaxExtendsDepth = 16
+
+func specFor(id string) *ruleSpec {
+	for i := range ruleSpecs {
+		if ruleSpecs[i].id == id {
+			return &ruleSpecs[i]
+		}
+	}
+	return nil
+}
+
+// Configurable returns the ids of the rules the policy language accepts as
+// blocks, sorted.
+func Configurable() []string {
+	ids := make([]string, len(ruleSpecs))
+	for i, s := range ruleSpecs {
+		ids[i] = s.id
+	}
+	return ids
+}
+
+// DefaultSeverity is the severity of a configurable rule when its block
+// does not set one; "" for an id that is not configurable.
+func DefaultSeverity(rule string) Severity {
+	if s := specFor(rule); s != nil {
+		return s.severity
+	}
+	return ""
+}
+
+var policyFileSchema = &hcl.BodySchema{
+	Blocks: []hcl.BlockHeaderSchema{{Type: "policy", LabelNames: []string{"name"}}},
+}
+
+var policyBodySchema = func() *hcl.BodySchema {
+	s := &hcl.BodySchema{Attributes: []hcl.AttributeSchema{
+		{Name: "units", Required: true},
+		{Name: "reference"},
+		{Name: "exceptions"},
+		{Name: "extends"},
+	}}
+	for _, r := range ruleSpecs {
+		s.Blocks = append(s.Blocks, hcl.BlockHeaderSchema{Type: r.id})
+	}
+	// Accepted by the schema only to say why they cannot be configured.
+	for _, id := range alwaysOn {
+		s.Blocks = append(s.Blocks, hcl.BlockHeaderSchema{Type: id})
+	}
+	return s
+}()
+
+func ruleSchema(spec *ruleSpec) *hcl.BodySchema {
+	s := &hcl.BodySchema{Attributes: []hcl.AttributeSchema{
+		{Name: "severity"}, {Name: "events"}, {Name: "enabled"},
+	}}
+	for _, a := range spec.settings {
+		s.Attributes = append(s.Attributes, hcl.AttributeSchema{Name: a})
+	}
+	return s
+}
+
+// own is what one policy file says by itself, before `extends`.
+type own struct {
+	policy        *Policy
+	extends       string
+	extendsRange  hcl.Range
+	hasExtends    bool
+	hasReference  bool
+	hasExceptions bool
+	disabled      map[string]bool // rule blocks written with enabled = false
+}
+
+// decoder accumulates the diagnostics of one file.
+type decoder struct {
+	diags hcl.Diagnostics
+}
+
+func (d *decoder) errorf(rng hcl.Range, summary, format string, args ...any) {
+	d.diags = append(d.diags, &hcl.Diagnostic{
+		Severity: hcl.DiagError,
+		Summary:  summary,
+		Detail:   fmt.Sprintf(format, args...),
+		Subject:  rng.Ptr(),
+	})
+}
+
+func (d *decoder) warnf(rng hcl.Range, summary, format string, args ...any) {
+	d.diags = append(d.diags, &hcl.Diagnostic{
+		Severity: hcl.DiagWarning,
+		Summary:  summary,
+		Detail:   fmt.Sprintf(format, args...),
+		Subject:  rng.Ptr(),
+	})
+}
+
+// decodeFile decodes the single policy block of a parsed file. Expressions
+// are evaluated without an EvalContext: no variables, no functions.
+func (d *decoder) decodeFile(file *hcl.File, name string) *own {
+	content, diags := file.Body.Content(policyFileSchema)
+	d.diags = append(d.diags, diags...)
+	if len(content.Blocks) == 0 {
+		if !diags.HasErrors() {
+			d.errorf(file.Body.MissingItemRange(), "Missing policy block",
+				`A policy file holds one block: policy "NAME" { units = "si" ... }.`)
+		}
+		return nil
+	}
+	for _, extra := range content.Blocks[1:] {
+		d.errorf(extra.DefRange, "More than one policy block",
+			"A policy file holds exactly one policy block; the first is at line %d. Put each policy in its own file and join them with extends.",
+			content.Blocks[0].DefRange.Start.Line)
+	}
+	return d.decodePolicy(content.Blocks[0], name)
+}
+
+func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
+	o := &own{policy: &Policy{
+		Name:       block.Labels[0],
+		Exceptions: "report",
+		File:       name,
+		Rules:      map[string]*RuleConfig{},
+		DefRange:   block.DefRange,
+	}, disabled: map[string]bool{}}
+	if strings.TrimSpace(o.policy.Name) == "" {
+		d.errorf(block.LabelRanges[0], "Empty policy name", "Give the policy a name, e.g. policy \"county-drainage\".")
+	}
+	content, diags := block.Body.Content(policyBodySchema)
+	d.diags = append(d.diags, diags...)
+
+	if a := content.Attributes["units"]; a != nil {
+		if s, ok := d.enum(a, "units", []string{string(model.SI), string(model.US)}); ok {
+			o.policy.Units = model.Units(s)
+		}
+	}
+	if a := content.Attributes["reference"]; a != nil {
+		if s, ok := d.str(a); ok {
+			o.policy.Reference = s
+			o.hasReference = true
+		}
+	}
+	if a := content.Attributes["exceptions"]; a != nil {
+		if s, ok := d.enum(a, "exceptions", []string{"report", "deny"}); ok {
+			o.policy.Exceptions = s
+			o.hasExceptions = true
+		}
+	}
+	if a := content.Attributes["extends"]; a != nil {
+		if s, ok := d.str(a); ok {
+			if strings.TrimSpace(s) == "" {
+				d.errorf(a.Expr.Range(), "Empty extends", "Name a built-in pack (%s) or a policy file path relative to this file.", strings.Join(PackNames(), ", "))
+			} else {
+				o.extends, o.hasExtends = s, true
+			}
+		}
+		o.extendsRange = a.Expr.Range()
+	}
+
+	first := map[string]*hcl.Block{}
+	for _, b := range content.Blocks {
+		spec := specFor(b.Type)
+		if spec == nil {
+			d.errorf(b.DefRange, "Rule is always on",
+				"The %q rule always runs and cannot be configured or switched off; remove this block.", b.Type)
+			continue
+		}
+		rc, enabled := d.decodeRule(spec, b, name) // a duplicate too, for its own problems
+		if prev := first[b.Type]; prev != nil {
+			d.errorf(b.DefRange, "Duplicate rule block",
+				"The %s rule is already configured at line %d; a policy file configures each rule once.", b.Type, prev.DefRange.Start.Line)
+			continue
+		}
+		first[b.Type] = b
+		if enabled {
+			o.policy.Rules[b.Type] = rc
+		} else {
+			o.disabled[b.Type] = true
+		}
+	}
+	return o
+}
+
+// decodeRule decodes one rule block; enabled is false for enabled = false.
+func (d *decoder) decodeRule(spec *ruleSpec, block *hcl.Block, file string) (rc *RuleConfig, enabled bool) {
+	content, diags := block.Body.Content(ruleSchema(spec))
+	d.diags = append(d.diags, diags...)
+	rc = &RuleConfig{
+		Rule:                     spec.id,
+		Severity:                 spec.severity,
+		File:                     file,
+		DefRange:                 block.DefRange,
+		Attrs:                    map[string]hcl.Range{},
+		SubcriticalCoefficient:   DefaultSubcriticalCoefficient,
+		SupercriticalCoefficient: DefaultSupercriticalCoefficient,
+	}
+	enabled = true
+	for name, a := range content.Attributes {
+		rc.Attrs[name] = a.Expr.Range()
+	}
+	if a := content.Attributes["enabled"]; a != nil {
+		v, ok := d.value(a, cty.Bool, "true or false")
+		if ok {
+			enabled = v.True()
+		}
+	}
+	if a := content.Attributes["severity"]; a != nil {
+		if s, ok := d.enum(a, "severity", []string{string(Error), string(Warning), string(Info)}); ok {
+			rc.Severity = Severity(s)
+		}
+	}
+	if a := content.Attributes["events"]; a != nil {
+		rc.Events = d.events(a)
+	}
+	has := func(n string) bool { return content.Attributes[n] != nil || diags.HasErrors() }
+	for _, n := range spec.settings {
+		a := content.Attributes[n]
+		if a == nil {
+			continue
+		}
+		switch n {
+		case "minimum":
+			rc.Minimum, _ = d.bounded(a, 0, math.Inf(1), false, "a length of at least 0")
+		case "fraction":
+			rc.Fraction, _ = d.bounded(a, 0, 1, false, "a ratio of the flow depth from 0 to 1 (0.2 means 20 %)")
+		case "limit":
+			rc.Limit = d.byLining(a)
+		case "avoid":
+			rc.Avoid = d.bands(a)
+		case "subcritical_coefficient":
+			rc.SubcriticalCoefficient, _ = d.bounded(a, 0, math.Inf(1), true, "a coefficient greater than 0")
+		case "supercritical_coefficient":
+			rc.SupercriticalCoefficient, _ = d.bounded(a, 0, math.Inf(1), true, "a coefficient greater than 0")
+		}
+	}
+	if enabled {
+		missing := content.MissingItemRange
+		switch spec.id {
+		case "freeboard":
+			if !has("minimum") && !has("fraction") {
+				d.errorf(missing, "Missing freeboard setting",
+					"Set minimum (a length), fraction (of the flow depth) or both; the larger of minimum and fraction × depth governs.")
+			}
+		case "froude_band", "jump_type":
+			if !has("avoid") {
+				d.errorf(missing, "Missing argument \"avoid\"",
+					"The %s rule needs avoid = [[low, high], ...], the Froude-number bands to flag.", spec.id)
+			}
+		case "max_velocity", "min_velocity", "shear_stress":
+			if !has("limit") {
+				d.errorf(missing, "Missing argument \"limit\"",
+					"The %s rule needs limit = NUMBER or limit = { LINING = NUMBER, ..., default = NUMBER }.", spec.id)
+			}
+		}
+	}
+	return rc, enabled
+}
+
+// value evaluates an attribute without variables or functions and checks
+// its type; what names the expected value in the message.
+func (d *decoder) value(a *hcl.Attribute, want cty.Type, what string) (cty.Value, bool) {
+	return d.exprValue(a.Expr, a.Name, want, what)
+}
+
+func (d *decoder) exprValue(expr hcl.Expression, name string, want cty.Type, what string) (cty.Value, bool) {
+	v, diags := expr.Value(nil)
+	d.diags = append(d.diags, diags...)
+	if diags.HasErrors() {
+		return cty.NilVal, false
+	}
+	if v.IsNull() || !v.IsWhollyKnown() || !v.Type().Equals(want) {
+		d.errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", name), "%s must be %s; got %s.", name, what, describe(v))
+		return cty.NilVal, false
+	}
+	return v, true
+}
+
+// describe names a value's kind for messages.
+func describe(v cty.Value) string {
+	switch {
+	case v.IsNull():
+		return "null"
+	case !v.IsWhollyKnown():
+		return "an unknown value"
+	case v.Type() == cty.String:
+		return fmt.Sprintf("the string %q", v.AsString())
+	case v.Type() == cty.Number:
+		return "a number"
+	case v.Type() == cty.Bool:
+		return "a bool"
+	case v.Type().IsTupleType() || v.Type().IsListType():
+		return "a list"
+	case v.Type().IsObjectType() || v.Type().IsMapType():
+		return "an object"
+	}
+	return v.Type().FriendlyName()
+}
+
+func (d *decoder) str(a *hcl.Attribute) (string, bool) {
+	v, ok := d.value(a, cty.String, "a string")
+	if !ok {
+		return "", false
+	}
+	return v.AsString(), true
+}
+
+// enum reads a string attribute that must be one of allowed.
+func (d *decoder) enum(a *hcl.Attribute, name string, allowed []string) (string, bool) {
+	s, ok := d.str(a)
+	if !ok {
+		return "", false
+	}
+	for _, w := range allowed {
+		if s == w {
+			return s, true
+		}
+	}
+	detail := fmt.Sprintf("%s must be one of %s; got %q.", name, quoteList(allowed), s)
+	if hint := suggestWord(s, allowed); hint != "" {
+		detail += fmt.Sprintf(" Did you mean %q?", hint)
+	}
+	d.errorf(a.Expr.Range(), fmt.Sprintf("Invalid %s", name), "%s", detail)
+	return "", false
+}
+
+// unitAliases maps words people write for a unit system to its name.
+var unitAliases = map[string]string{
+	"metric": "si", "m": "si", "metres": "si", "meters": "si",
+	"imperial": "us", "english": "us", "customary": "us", "ft": "us", "feet": "us", "usc": "us",
+}
+
+// suggestWord returns the allowed word that s probably meant, or "".
+func suggestWord(s string, allowed []string) string {
+	low := strings.ToLower(strings.TrimSpace(s))
+	if alias, ok := unitAliases[low]; ok {
+		low = alias
+	}
+	for _, w := range allowed {
+		if low == w || (len(low) >= 3 && strings.HasPrefix(w, low)) {
+			return w
+		}
+	}
+	best, bestD := "", 3
+	for _, w := range allowed {
+		if dist := editDistance(low, w); dist < bestD {
+			best, bestD = w, dist
+		}
+	}
+	return best
+}
+
+// editDistance is the Levenshtein distance between a and b (bytes).
+func editDistance(a, b string) int {
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(b)]
+}
+
+func quoteList(ws []string) string {
+	q := make([]string, len(ws))
+	for i, w := range ws {
+		q[i] = fmt.Sprintf("%q", w)
+	}
+	return strings.Join(q, ", ")
+}
+
+// number converts an evaluated number to a finite float64.
+func (d *decoder) number(expr hcl.Expression, name string) (float64, bool) {
+	v, ok := d.exprValue(expr, name, cty.Number, "a number")
+	if !ok {
+		return 0, false
+	}
+	f, _ := v.AsBigFloat().Float64()
+	if math.IsInf(f, 0) {
+		d.errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", name), "%s is too large to be a finite number.", name)
+		return 0, false
+	}
+	return f, true
+}
+
+// bounded reads a number in [lo, hi] (lo excluded when open).
+func (d *decoder) bounded(a *hcl.Attribute, lo, hi float64, open bool, what string) (float64, bool) {
+	f, ok := d.number(a.Expr, a.Name)
+	if !ok {
+		return 0, false
+	}
+	if f < lo || (open && f == lo) || f > hi {
+		d.errorf(a.Expr.Range(), fmt.Sprintf("Invalid value for %q", a.Name), "%s must be %s; got %g.", a.Name, what, f)
+		return 0, false
+	}
+	return f, true
+}
+
+// events reads a non-empty list of event names.
+func (d *decoder) events(a *hcl.Attribute) []string {
+	elems, diags := hcl.ExprList(a.Expr)
+	if diags.HasErrors() {
+		d.errorf(a.Expr.Range(), `Invalid value for "events"`, `events must be a list of event names, e.g. ["q100"].`)
+		return nil
+	}
+	if len(elems) == 0 {
+		d.errorf(a.Expr.Range(), `Empty "events"`, "An empty list would apply the rule to no event; remove events to apply it to every event, or write enabled = false.")
+		return nil
+	}
+	out := make([]string, 0, len(elems))
+	seen := map[string]bool{}
+	for _, e := range elems {
+		v, ok := d.exprValue(e, "events", cty.String, "a list of event names (strings)")
+		if !ok {
+			continue
+		}
+		s := v.AsString()
+		switch {
+		case strings.TrimSpace(s) == "":
+			d.errorf(e.Range(), "Empty event name", "Name an event of the model, e.g. \"q100\".")
+		case seen[s]:
+			d.warnf(e.Range(), "Event listed twice", "The event %q is already in this list.", s)
+		default:
+			seen[s] = true
+			out = append(out, s)
+		}
+	}
+	return out
+}
+
+// byLining reads a limit: a number, or an object of lining = number (or
+// null for no limit), with an optional default key.
+func (d *decoder) byLining(a *hcl.Attribute) ByLining {
+	var b ByLining
+	const what = "a number greater than 0, or an object such as { concrete = 6.0, default = 1.0 }"
+	pairs, mdiags := hcl.ExprMap(a.Expr)
+	if mdiags.HasErrors() {
+		if f, ok := d.positive(a.Expr, "limit", "limit must be "+what); ok {
+			b.Default, b.HasDefault = f, true
+		}
+		return b
+	}
+	if len(pairs) == 0 {
+		d.errorf(a.Expr.Range(), `Empty "limit"`, "Give at least one lining = limit pair or a default.")
+		return b
+	}
+	seen := map[string]hcl.Range{}
+	before := len(d.diags)
+	defer func() {
+		if b.Values == nil && !b.HasDefault && len(d.diags) == before {
+			d.errorf(a.Expr.Range(), `No number in "limit"`, "Give at least one lining a number, or a default; null alone limits nothing.")
+		}
+	}()
+	for _, kv := range pairs {
+		kval, ok := d.exprValue(kv.Key, "limit", cty.String, "an object whose keys are lining words")
+		if !ok {
+			continue
+		}
+		key := kval.AsString()
+		if strings.TrimSpace(key) == "" {
+			d.errorf(kv.Key.Range(), "Empty lining word", "Name a lining word used by the model's sections, e.g. concrete, or default.")
+			continue
+		}
+		if prev, dup := seen[key]; dup {
+			d.errorf(kv.Key.Range(), "Duplicate lining in limit", "%q already has a limit at line %d, column %d.", key, prev.Start.Line, prev.Start.Column)
+			continue
+		}
+		seen[key] = kv.Key.Range()
+		if v, diags := kv.Value.Value(nil); !diags.HasErrors() && v.IsNull() {
+			if key == "default" {
+				continue // no default: unlisted linings are not checked
+			}
+			if b.NoLimit == nil {
+				b.NoLimit = map[string]bool{}
+			}
+			b.NoLimit[key] = true
+			continue
+		}
+		f, ok := d.positive(kv.Value, "limit", fmt.Sprintf("The limit for %s must be a number greater than 0, or null for no limit", key))
+		if !ok {
+			continue
+		}
+		if key == "default" {
+			b.Default, b.HasDefault = f, true
+			continue
+		}
+		if b.Values == nil {
+			b.Values = map[string]float64{}
+		}
+		b.Values[key] = f
+	}
+	return b
+}
+
+// positive reads a number greater than zero; must says what it must be.
+func (d *decoder) positive(expr hcl.Expression, name, must string) (float64, bool) {
+	f, ok := d.number(expr, name)
+	if !ok {
+		return 0, false
+	}
+	if f <= 0 {
+		d.errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", name),
+			"%s; got %g. To switch the rule off write enabled = false.", must, f)
+		return 0, false
+	}
+	return f, true
+}
+
+// bands reads [[lo, hi], ...] with 0 ≤ lo < hi.
+func (d *decoder) bands(a *hcl.Attribute) []Band {
+	const shape = "avoid must be a list of [low, high] Froude-number pairs, e.g. [[0.86, 1.13]]"
+	outer, diags := hcl.ExprList(a.Expr)
+	if diags.HasErrors() {
+		d.errorf(a.Expr.Range(), `Invalid value for "avoid"`, "%s.", shape)
+		return nil
+	}
+	if len(outer) == 0 {
+		d.errorf(a.Expr.Range(), `Empty "avoid"`, "%s; to switch the rule off write enabled = false.", shape)
+		return nil
+	}
+	var out []Band
+	for _, e := range outer {
+		inner, diags := hcl.ExprList(e)
+		if diags.HasErrors() || len(inner) != 2 {
+			d.errorf(e.Range(), "Invalid band", "%s; this element is not a pair.", shape)
+			continue
+		}
+		lo, okLo := d.number(inner[0], "avoid")
+		hi, okHi := d.number(inner[1], "avoid")
+		if !okLo || !okHi {
+			continue
+		}
+		switch {
+		case lo < 0:
+			d.errorf(inner[0].Range(), "Invalid band", "A Froude number is at least 0; got %g.", lo)
+		case hi <= lo:
+			d.errorf(e.Range(), "Invalid band", "The low end must be below the high end; got [%g, %g].", lo, hi)
+		default:
+			out = append(out, Band{Low: lo, High: hi})
+		}
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].Low < out[j].Low })
+	return out
+}

@@ -1,0 +1,423 @@
+package policies
+
+import (
+	"testing"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/hashicorp/hcl/v2"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// Every construct of the language, written once.
+const everyConstruct = `policy "alder-review" {
+  units      = "us"
+  reference  = "Alder County Drainage Manual, ch. 5"
+  exceptions = "deny"
+
+  freeboard {
+    minimum  = 1.0
+    fraction = 0.25
+    severity = "warning"
+    events   = ["q100", "q10"]
+  }
+  max_velocity {
+    limit = { concrete = 20.0, "dumped riprap" = 9.5, rock = null, default = 3.0 }
+  }
+  min_velocity {
+    limit   = 2.0
+    enabled = true
+  }
+  froude_band {
+    avoid = [[1.5, 2.0], [0.86, 1.13]]
+  }
+  jump_containment {}
+  jump_type {
+    avoid    = [[2.5, 4.5]]
+    severity = "info"
+  }
+  superelevation {
+    subcritical_coefficient = 0.6
+    minimum                 = 0.5
+  }
+  shear_stress {
+    limit = { grass = 0.6, earth = 0.075 }
+  }
+}
+`
+
+func TestParseEveryConstruct(t *testing.T) {
+	p, diags, path := loadSource(t, everyConstruct)
+	require.Empty(t, diags)
+	require.NotNil(t, p)
+
+	assert.Equal(t, "alder-review", p.Name)
+	assert.Equal(t, model.US, p.Units)
+	assert.Equal(t, "Alder County Drainage Manual, ch. 5", p.Reference)
+	assert.Equal(t, "deny", p.Exceptions)
+	assert.Equal(t, []string{path}, p.Chain)
+	assert.ElementsMatch(t, Configurable(), keys(p.Rules))
+
+	fb := p.Rules["freeboard"]
+	assert.Equal(t, 1.0, fb.Minimum)
+	assert.Equal(t, 0.25, fb.Fraction)
+	assert.Equal(t, Warning, fb.Severity)
+	assert.Equal(t, []string{"q100", "q10"}, fb.Events)
+	assert.True(t, fb.AppliesTo("q10"))
+	assert.False(t, fb.AppliesTo("q2"))
+	assert.Equal(t, path, fb.File)
+	assert.Equal(t, 6, fb.DefRange.Start.Line)
+	start, _ := span(t, everyConstruct, "0.25")
+	assert.Equal(t, start, fb.Attrs["fraction"].Start)
+
+	mv := p.Rules["max_velocity"]
+	assert.Equal(t, Error, mv.Severity, "default severity")
+	v, ok := mv.Limit.For("concrete")
+	assert.True(t, ok)
+	assert.Equal(t, 20.0, v)
+	v, ok = mv.Limit.For("dumped riprap")
+	assert.True(t, ok)
+	assert.Equal(t, 9.5, v)
+	_, ok = mv.Limit.For("rock")
+	assert.False(t, ok, "null means no limit for the lining")
+	v, ok = mv.Limit.For("sod")
+	assert.True(t, ok)
+	assert.Equal(t, 3.0, v)
+	assert.Nil(t, mv.Events)
+	assert.True(t, mv.AppliesTo("anything"))
+
+	mn := p.Rules["min_velocity"]
+	assert.Equal(t, Warning, mn.Severity)
+	v, ok = mn.Limit.For("concrete")
+	assert.True(t, ok)
+	assert.Equal(t, 2.0, v)
+
+	fr := p.Rules["froude_band"]
+	assert.Equal(t, []Band{{0.86, 1.13}, {1.5, 2.0}}, fr.Avoid, "sorted by low end")
+
+	assert.Equal(t, Error, p.Rules["jump_containment"].Severity)
+	assert.Equal(t, Info, p.Rules["jump_type"].Severity)
+
+	se := p.Rules["superelevation"]
+	assert.Equal(t, 0.6, se.SubcriticalCoefficient)
+	assert.Equal(t, DefaultSupercriticalCoefficient, se.SupercriticalCoefficient)
+	assert.Equal(t, 0.5, se.Minimum)
+
+	ss := p.Rules["shear_stress"]
+	_, ok = ss.Limit.For("concrete")
+	assert.False(t, ok, "no default: unlisted linings are not checked")
+	v, _ = ss.Limit.For("earth")
+	assert.Equal(t, 0.075, v)
+}
+
+func keys[V any](m map[string]V) []string {
+	var out []string
+	for k := range m {
+		out = append(out, k)
+	}
+	return out
+}
+
+func TestDefaults(t *testing.T) {
+	p, diags, _ := loadSource(t, `policy "x" {
+  units = "si"
+  superelevation {}
+  jump_containment {}
+}`)
+	require.Empty(t, diags)
+	assert.Equal(t, "report", p.Exceptions)
+	assert.Equal(t, "", p.Reference)
+	se := p.Rules["superelevation"]
+	// Source: U.S. Army Corps of Engineers, EM 1110-2-1601 (from memory):
+	// C = 0.5 subcritical, 1.0 supercritical in a simple curve.
+	assert.Equal(t, 0.5, se.SubcriticalCoefficient)
+	assert.Equal(t, 1.0, se.SupercriticalCoefficient)
+	assert.Equal(t, 0.0, se.Minimum)
+	for _, id := range Configurable() {
+		assert.NotEmpty(t, DefaultSeverity(id), id)
+	}
+	assert.Equal(t, Error, DefaultSeverity("freeboard"))
+	assert.Equal(t, Error, DefaultSeverity("max_velocity"))
+	assert.Equal(t, Warning, DefaultSeverity("min_velocity"))
+	assert.Equal(t, Warning, DefaultSeverity("froude_band"))
+	assert.Equal(t, Error, DefaultSeverity("jump_containment"))
+	assert.Equal(t, Warning, DefaultSeverity("jump_type"))
+	assert.Equal(t, Error, DefaultSeverity("superelevation"))
+	assert.Equal(t, Error, DefaultSeverity("shear_stress"))
+	assert.Equal(t, Severity(""), DefaultSeverity("capacity"))
+}
+
+func TestDisabledBlockIsNotInRules(t *testing.T) {
+	p, diags, _ := loadSource(t, `policy "x" {
+  units = "si"
+  max_velocity { enabled = false }
+}`)
+	require.Empty(t, diags)
+	assert.Empty(t, p.Rules)
+}
+
+// Each case is one bad policy and the diagnostic it must give: the summary,
+// a phrase of the detail, and the exact range, found as the first
+// occurrence of at in the source.
+func TestDiagnostics(t *testing.T) {
+	cases := []struct {
+		name, src, summary, detail, at string
+		nth                            int // which occurrence of at, from 0
+	}{
+		{"bad units", `policy "x" {
+  units = "metric"
+}`, "Invalid units", `Did you mean "si"?`, `"metric"`, 0},
+		{"units not a string", `policy "x" {
+  units = 3
+}`, `Invalid value for "units"`, "must be a string", `3`, 0},
+		{"missing units", `policy "x" {
+  reference = "r"
+}`, "Missing required argument", `"units"`, `{`, 0},
+		{"bad exceptions", `policy "x" {
+  units      = "si"
+  exceptions = "ignore"
+}`, "Invalid exceptions", `"report", "deny"`, `"ignore"`, 0},
+		{"bad severity", `policy "x" {
+  units = "si"
+  jump_type {
+    avoid    = [[2.5, 4.5]]
+    severity = "fatal"
+  }
+}`, "Invalid severity", `"error", "warning", "info"`, `"fatal"`, 0},
+		{"severity hint", `policy "x" {
+  units = "si"
+  jump_containment { severity = "warn" }
+}`, "Invalid severity", `Did you mean "warning"?`, `"warn"`, 0},
+		{"unknown rule with hint", `policy "x" {
+  units = "si"
+  freebord {
+    minimum = 0.3
+  }
+}`, "Unsupported block type", `Did you mean "freeboard"?`, `freebord`, 0},
+		{"unknown attribute with hint", `policy "x" {
+  units = "si"
+  freeboard {
+    minimun = 0.3
+  }
+}`, "Unsupported argument", `Did you mean "minimum"?`, `minimun`, 0},
+		{"unknown top-level attribute", `policy "x" {
+  units   = "si"
+  extend  = "baseline"
+}`, "Unsupported argument", `Did you mean "extends"?`, `extend`, 0},
+		{"always-on rule block", `policy "x" {
+  units = "si"
+  capacity {
+    severity = "warning"
+  }
+}`, "Rule is always on", `"capacity" rule always runs`, `capacity`, 0},
+		{"band reversed", `policy "x" {
+  units = "si"
+  froude_band { avoid = [[1.13, 0.86]] }
+}`, "Invalid band", "low end must be below", `[1.13, 0.86]`, 0},
+		{"band negative", `policy "x" {
+  units = "si"
+  froude_band { avoid = [[-0.5, 0.86]] }
+}`, "Invalid band", "at least 0", `-0.5`, 0},
+		{"band not a pair", `policy "x" {
+  units = "si"
+  jump_type { avoid = [[2.5, 3, 4.5]] }
+}`, "Invalid band", "not a pair", `[2.5, 3, 4.5]`, 0},
+		{"band not a list", `policy "x" {
+  units = "si"
+  jump_type { avoid = 2.5 }
+}`, `Invalid value for "avoid"`, "list of [low, high]", `2.5`, 0},
+		{"empty band list", `policy "x" {
+  units = "si"
+  jump_type { avoid = [] }
+}`, `Empty "avoid"`, "enabled = false", `[]`, 0},
+		{"negative limit", `policy "x" {
+  units = "si"
+  max_velocity { limit = -1.5 }
+}`, `Invalid value for "limit"`, "greater than 0", `-1.5`, 0},
+		{"negative limit in a map", `policy "x" {
+  units = "si"
+  max_velocity { limit = { concrete = 6.0, grass = -1.2 } }
+}`, `Invalid value for "limit"`, "greater than 0", `-1.2`, 0},
+		{"zero shear limit", `policy "x" {
+  units = "si"
+  shear_stress { limit = 0 }
+}`, `Invalid value for "limit"`, "got 0", `0`, 0},
+		{"negative minimum", `policy "x" {
+  units = "si"
+  freeboard { minimum = -0.3 }
+}`, `Invalid value for "minimum"`, "at least 0", `-0.3`, 0},
+		{"fraction as percent", `policy "x" {
+  units = "si"
+  freeboard { fraction = 20 }
+}`, `Invalid value for "fraction"`, "0.2 means 20 %", `20`, 0},
+		{"zero coefficient", `policy "x" {
+  units = "si"
+  superelevation { supercritical_coefficient = 0 }
+}`, `Invalid value for "supercritical_coefficient"`, "greater than 0", `0`, 0},
+		{"limit string", `policy "x" {
+  units = "si"
+  min_velocity { limit = "0.6" }
+}`, `Invalid value for "limit"`, `the string "0.6"`, `"0.6"`, 0},
+		{"limit map with nothing", `policy "x" {
+  units = "si"
+  min_velocity { limit = { concrete = null } }
+}`, `No number in "limit"`, "null alone", `{ concrete = null }`, 0},
+		{"duplicate lining", `policy "x" {
+  units = "si"
+  max_velocity { limit = { grass = 1.2, grass = 1.5 } }
+}`, "Duplicate lining in limit", `"grass" already has a limit at line 3, column 28`, `grass`, 1},
+		{"missing limit", `policy "x" {
+  units = "si"
+  max_velocity {
+    severity = "error"
+  }
+}`, `Missing argument "limit"`, "limit = NUMBER", `{`, 1},
+		{"missing freeboard settings", `policy "x" {
+  units = "si"
+  freeboard { severity = "error" }
+}`, "Missing freeboard setting", "minimum", `severity`, 0},
+		{"empty events", `policy "x" {
+  units = "si"
+  jump_containment { events = [] }
+}`, `Empty "events"`, "every event", `[]`, 0},
+		{"events not strings", `policy "x" {
+  units = "si"
+  jump_containment { events = ["q100", 10] }
+}`, `Invalid value for "events"`, "event names", `10`, 1},
+		{"enabled not bool", `policy "x" {
+  units = "si"
+  jump_containment { enabled = "no" }
+}`, `Invalid value for "enabled"`, "true or false", `"no"`, 0},
+		{"duplicate block", `policy "x" {
+  units = "si"
+  jump_containment {}
+  jump_containment { severity = "warning" }
+}`, "Duplicate rule block", "already configured at line 3", "jump_containment", 1},
+		{"function call", `policy "x" {
+  units = "si"
+  freeboard { minimum = max(0.3, 0.5) }
+}`, "Function calls not allowed", "", `max(0.3, 0.5)`, 0},
+		{"variable", `policy "x" {
+  units = "si"
+  freeboard { minimum = local.freeboard }
+}`, "Variables not allowed", "", `local`, 0},
+		{"interpolation", `policy "x" {
+  units     = "si"
+  reference = "manual ${edition}"
+}`, "Variables not allowed", "", `edition`, 0},
+		{"huge number", `policy "x" {
+  units = "si"
+  freeboard { minimum = 1e400 }
+}`, `Invalid value for "minimum"`, "too large", `1e400`, 0},
+		{"rule block with a label", `policy "x" {
+  units = "si"
+  jump_containment "main" {}
+}`, "Extraneous label for jump_containment", "", `"main"`, 0},
+		{"two policy blocks", `policy "x" {
+  units = "si"
+}
+policy "y" {
+  units = "si"
+}`, "More than one policy block", "first is at line 1", `policy "y"`, 0},
+		{"no policy block", `# nothing here
+`, "Missing policy block", "one block", ``, 0},
+		{"unknown top-level block", `polcy "x" {
+}`, "Unsupported block type", `Did you mean "policy"?`, `polcy`, 0},
+		{"empty name", `policy "" {
+  units = "si"
+}`, "Empty policy name", "", `""`, 0},
+		{"syntax error", `policy "x" {
+  units = "si"
+  freeboard { minimum = }
+}`, "Invalid expression", "", ``, 0},
+		{"absolute extends", `policy "x" {
+  units   = "si"
+  extends = "/etc/base.policy.hcl"
+}`, "Absolute path in extends", "relative to this policy file", `"/etc/base.policy.hcl"`, 0},
+		{"unknown pack with hint", `policy "x" {
+  units   = "si"
+  extends = "basline"
+}`, "Unknown pack or policy file", `Did you mean "baseline"?`, `"basline"`, 0},
+		{"missing extends file", `policy "x" {
+  units   = "si"
+  extends = "shared/county.policy.hcl"
+}`, "Policy file not found", "shared/county.policy.hcl", `"shared/county.policy.hcl"`, 0},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			p, diags, path := loadSource(t, tc.src)
+			errs := errorsOnly(diags)
+			require.True(t, diags.HasErrors(), "want an error")
+			assert.Nil(t, p, "no policy from a file with errors")
+			var hit *hcl.Diagnostic
+			for _, d := range errs {
+				if d.Summary == tc.summary {
+					hit = d
+					break
+				}
+			}
+			require.NotNil(t, hit, "want %q; got %v", tc.summary, errs)
+			assert.Contains(t, hit.Detail, tc.detail)
+			require.NotNil(t, hit.Subject, "diagnostic without a range")
+			assert.Equal(t, path, hit.Subject.Filename)
+			if tc.name == "syntax error" || tc.name == "no policy block" {
+				return // ranges chosen by the HCL parser
+			}
+			start, end := spanN(t, tc.src, tc.at, tc.nth)
+			assert.Equal(t, start.Line, hit.Subject.Start.Line, "start line")
+			assert.Equal(t, start.Column, hit.Subject.Start.Column, "start column")
+			if tc.name != "missing units" && tc.name != "missing limit" && tc.name != "missing freeboard settings" {
+				assert.Equal(t, end.Line, hit.Subject.End.Line, "end line")
+				assert.Equal(t, end.Column, hit.Subject.End.Column, "end column")
+			}
+		})
+	}
+}
+
+// A few positions written out by hand, so the marker search above is
+// itself checked.
+func TestDiagnosticPositionsByHand(t *testing.T) {
+	_, diags, _ := loadSource(t, "policy \"x\" {\n  units = \"metric\"\n}\n")
+	require.Len(t, diags, 1)
+	assert.Equal(t, hcl.Pos{Line: 2, Column: 11, Byte: 23}, diags[0].Subject.Start)
+	assert.Equal(t, hcl.Pos{Line: 2, Column: 19, Byte: 31}, diags[0].Subject.End)
+}
+
+func TestAllProblemsOfAFileInOneRun(t *testing.T) {
+	src := `policy "x" {
+  units = "SI"
+  freeboard { minimum = -1 }
+  max_velocity { limit = { concrete = 0 } }
+  froude_band { avoid = [[2, 1], [-1, 1]] }
+  solver {}
+  jump_type {
+    severity = "fatal"
+    avoid    = [[2.5, 4.5]]
+  }
+  jump_type { avoid = [[2.5, max(4.5, 5)]] }
+  shear_stress { limt = 3 }
+}`
+	_, diags, _ := loadSource(t, src)
+	errs := errorsOnly(diags)
+	var lines []int
+	for _, d := range errs {
+		lines = append(lines, d.Subject.Start.Line)
+	}
+	// units, minimum, concrete, two bands, solver, severity, the duplicate
+	// jump_type and the function call inside it, unknown limt (with no
+	// second message about the then missing limit).
+	assert.Len(t, errs, 10, "%v", errs)
+	assert.Subset(t, lines, []int{2, 3, 4, 5, 6, 8, 11, 12})
+}
+
+func TestDuplicateEventIsAWarning(t *testing.T) {
+	src := `policy "x" {
+  units = "si"
+  jump_containment { events = ["q100", "q100"] }
+}`
+	p, diags, _ := loadSource(t, src)
+	require.Len(t, diags, 1)
+	assert.Equal(t, hcl.DiagWarning, diags[0].Severity)
+	require.NotNil(t, p, "a warning does not stop the load")
+	assert.Equal(t, []string{"q100"}, p.Rules["jump_containment"].Events)
+}

@@ -1,0 +1,268 @@
+package policies
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strings"
+	"sync"
+
+	"github.com/hashicorp/hcl/v2"
+	"github.com/hashicorp/hcl/v2/hclparse"
+)
+
+// Suffix is the file-name suffix of policy files.
+const Suffix = ".policy.hcl"
+
+// MaxFileSize bounds the size of a policy file read from disk.
+const MaxFileSize = 1 << 20
+
+// packPrefix starts the File of a built-in pack: "pack:NAME".
+const packPrefix = "pack:"
+
+// Loader reads policy files and built-in packs and resolves `extends`. It
+// keeps every parsed file for rendering diagnostics with source snippets.
+// A Loader is safe for concurrent use.
+type Loader struct {
+	mu     sync.Mutex
+	root   string // as given to NewLoader
+	parser *hclparse.Parser
+	parsed map[string]hcl.Diagnostics // parse diagnostics by file name
+}
+
+// NewLoader returns a loader whose `extends` paths may not leave root, the
+// repository root (after symbolic links are resolved). With root "", each
+// file given to Load or Resolve confines its own chain to its directory.
+func NewLoader(root string) *Loader {
+	return &Loader{root: root, parser: hclparse.NewParser(), parsed: map[string]hcl.Diagnostics{}}
+}
+
+// Files returns the files parsed so far by name (a path, or "pack:NAME"),
+// for hcl.NewDiagnosticTextWriter.
+func (l *Loader) Files() map[string]*hcl.File {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	out := make(map[string]*hcl.File, len(l.parser.Files()))
+	for k, v := range l.parser.Files() {
+		out[k] = v
+	}
+	return out
+}
+
+// Resolve loads a built-in pack by name, or else a policy file by path. A
+// file whose name equals a pack's is reached with a path such as "./strict".
+func (l *Loader) Resolve(arg string) (*Policy, hcl.Diagnostics) {
+	if _, ok := packSources[arg]; ok {
+		return l.loadPack(arg)
+	}
+	if _, err := os.Stat(arg); err != nil && errors.Is(err, fs.ErrNotExist) && !strings.ContainsAny(arg, `/\`) && !strings.HasSuffix(arg, ".hcl") {
+		detail := fmt.Sprintf("%q is neither a built-in pack (%s) nor an existing policy file.", arg, strings.Join(PackNames(), ", "))
+		if hint := suggestWord(arg, PackNames()); hint != "" {
+			detail += fmt.Sprintf(" Did you mean %q?", hint)
+		}
+		return nil, hcl.Diagnostics{{Severity: hcl.DiagError, Summary: "Unknown policy", Detail: detail}}
+	}
+	return l.Load(arg)
+}
+
+// Load reads the policy file at path and every policy it extends, and
+// returns the effective policy. The policy is nil when the diagnostics hold
+// an error; every problem of every file in the chain is reported.
+func (l *Loader) Load(path string) (*Policy, hcl.Diagnostics) {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	display := filepath.ToSlash(filepath.Clean(path))
+	real, err := realPath(path)
+	if err != nil {
+		return nil, hcl.Diagnostics{readError(display, err, nil)}
+	}
+	root := filepath.Dir(real)
+	if l.root != "" {
+		if root, err = realPath(l.root); err != nil {
+			return nil, hcl.Diagnostics{{Severity: hcl.DiagError, Summary: "Cannot resolve the repository root",
+				Detail: fmt.Sprintf("%s: %v", l.root, err)}}
+		}
+	}
+	return l.load(node{display: display, key: real}, root, nil, nil)
+}
+
+func (l *Loader) loadPack(name string) (*Policy, hcl.Diagnostics) {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	return l.load(node{display: packPrefix + name, key: packPrefix + name, pack: true}, "", nil, nil)
+}
+
+// node is one policy of an extends chain.
+type node struct {
+	display string // Policy.File and the file name in ranges
+	key     string // identity for cycle detection: real path or "pack:NAME"
+	pack    bool
+}
+
+// realPath is the absolute path with symbolic links resolved.
+func realPath(p string) (string, error) {
+	abs, err := filepath.Abs(p)
+	if err != nil {
+		return "", err
+	}
+	return filepath.EvalSymlinks(abs)
+}
+
+func readError(display string, err error, from *hcl.Range) *hcl.Diagnostic {
+	summary := "Cannot read policy file"
+	if errors.Is(err, fs.ErrNotExist) {
+		summary = "Policy file not found"
+	}
+	return &hcl.Diagnostic{Severity: hcl.DiagError, Summary: summary,
+		Detail: fmt.Sprintf("%s: %s.", display, plainError(err)), Subject: from}
+}
+
+// plainError drops the path an *fs.PathError repeats.
+func plainError(err error) string {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err.Error()
+	}
+	return err.Error()
+}
+
+// readBounded reads a regular file of at most MaxFileSize bytes.
+func readBounded(path string) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	st, err := f.Stat()
+	if err != nil {
+		return nil, err
+	}
+	if !st.Mode().IsRegular() {
+		return nil, errors.New("not a regular file")
+	}
+	src, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
+	if err != nil {
+		return nil, err
+	}
+	if len(src) > MaxFileSize {
+		return nil, fmt.Errorf("larger than the limit of %d bytes", MaxFileSize)
+	}
+	return src, nil
+}
+
+// parse parses a file once and remembers its parse diagnostics.
+func (l *Loader) parse(name string, src []byte) (*hcl.File, hcl.Diagnostics) {
+	if f := l.parser.Files()[name]; f != nil {
+		return f, l.parsed[name]
+	}
+	f, diags := l.parser.ParseHCL(src, name)
+	l.parsed[name] = diags
+	return f, diags
+}
+
+// load decodes n, then what it extends, and merges them. stack holds the
+// policies that led to n (top-level file first); from is the extends value that
+// led to n. root confines file paths ("" for packs).
+func (l *Loader) load(n node, root string, stack []node, from *hcl.Range) (*Policy, hcl.Diagnostics) {
+	var src []byte
+	if n.pack {
+		s, ok := packSources[strings.TrimPrefix(n.display, packPrefix)]
+		if !ok {
+			return nil, hcl.Diagnostics{{Severity: hcl.DiagError, Summary: "Unknown pack",
+				Detail: fmt.Sprintf("There is no built-in pack %q; the packs are %s.", strings.TrimPrefix(n.display, packPrefix), strings.Join(PackNames(), ", ")), Subject: from}}
+		}
+		src = s
+	} else {
+		var err error
+		if src, err = readBounded(n.key); err != nil {
+			return nil, hcl.Diagnostics{readError(n.display, err, from)}
+		}
+	}
+	file, diags := l.parse(n.display, src)
+	if diags.HasErrors() {
+		return nil, diags
+	}
+	d := &decoder{diags: diags}
+	o := d.decodeFile(file, n.display)
+	if o == nil {
+		return nil, d.diags
+	}
+	o.policy.Chain = []string{n.display}
+	if !o.hasExtends {
+		if d.diags.HasErrors() {
+			return nil, d.diags
+		}
+		return o.policy, d.diags
+	}
+
+	parentNode, ok := l.extendsTarget(d, n, o, root)
+	if !ok {
+		return nil, d.diags
+	}
+	stack = append(stack, n)
+	for i, below := range stack {
+		if below.key == parentNode.key {
+			var names []string
+			for _, s := range stack[i:] {
+				names = append(names, s.display)
+			}
+			d.errorf(o.extendsRange, "Cycle in extends",
+				"The chain %s → %s comes back to a policy already in it; a policy cannot extend itself, even indirectly.",
+				strings.Join(names, " → "), parentNode.display)
+			return nil, d.diags
+		}
+	}
+	if len(stack) >= MaxExtendsDepth {
+		d.errorf(o.extendsRange, "Extends chain too long",
+			"A policy may stack at most %d files and packs through extends.", MaxExtendsDepth)
+		return nil, d.diags
+	}
+	parent, pdiags := l.load(parentNode, root, stack, o.extendsRange.Ptr())
+	d.diags = append(d.diags, pdiags...)
+	if d.diags.HasErrors() || parent == nil {
+		return nil, d.diags
+	}
+	return merge(parent, o), d.diags
+}
+
+// extendsTarget resolves the extends value of o, written in n.
+func (l *Loader) extendsTarget(d *decoder, n node, o *own, root string) (node, bool) {
+	v := o.extends
+	if _, ok := packSources[v]; ok {
+		return node{display: packPrefix + v, key: packPrefix + v, pack: true}, true
+	}
+	if n.pack {
+		d.errorf(o.extendsRange, "Unknown pack", "A built-in pack extends only another pack (%s).", strings.Join(PackNames(), ", "))
+		return node{}, false
+	}
+	if filepath.IsAbs(v) || strings.HasPrefix(v, "/") || strings.HasPrefix(v, `\`) {
+		d.errorf(o.extendsRange, "Absolute path in extends",
+			"extends takes a built-in pack name or a path relative to this policy file, so that the repository can move.")
+		return node{}, false
+	}
+	joined := filepath.Join(filepath.Dir(filepath.FromSlash(n.display)), filepath.FromSlash(v))
+	display := filepath.ToSlash(joined)
+	real, err := realPath(joined)
+	if err != nil {
+		diag := readError(display, err, o.extendsRange.Ptr())
+		if errors.Is(err, fs.ErrNotExist) && !strings.ContainsAny(v, `/\.`) {
+			diag.Summary = "Unknown pack or policy file"
+			diag.Detail = fmt.Sprintf("%q is not a built-in pack (%s) and %s does not exist.", v, strings.Join(PackNames(), ", "), display)
+			if hint := suggestWord(v, PackNames()); hint != "" {
+				diag.Detail += fmt.Sprintf(" Did you mean %q?", hint)
+			}
+		}
+		d.diags = append(d.diags, diag)
+		return node{}, false
+	}
+	rel, err := filepath.Rel(root, real)
+	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) || filepath.IsAbs(rel) {
+		d.errorf(o.extendsRange, "Extends leaves the repository",
+			"%s resolves to %s, outside %s; a policy may only extend packs and files inside the repository.", display, real, root)
+		return node{}, false
+	}
+	return node{display: display, key: real}, true
+}

@@ -1,0 +1,92 @@
+# chanlint built-in pack "baseline-us" (US customary units: ft, ft/s, lb/ft²).
+#
+# The baseline screening policy written natively in feet, with the values as
+# the sources print them. Every number names its source beside it or on the
+# line above; "(from memory)" marks a value recalled rather than re-read, and
+# "common practice" a value of the trade with no single published source.
+#
+# Lining words the limits use (a section's `lining`): concrete, riprap, grass,
+# earth, clay, gravel, sand, rock. Any other word, or none, gets `default`.
+
+policy "baseline-us" {
+  units      = "us"
+  reference  = "chanlint baseline-us pack (published screening values, not a local design code)"
+  exceptions = "report"
+
+  freeboard {
+    # 1.0 ft least freeboard: common practice (no published source).
+    minimum = 1.0
+    # 20 % of the flow depth: Chow, Open-Channel Hydraulics (1959) §7-6 says
+    # 5 % to 30 % of the depth is commonly used (from memory).
+    fraction = 0.2
+    severity = "error"
+  }
+
+  # Permissible mean velocities for clear water (ft/s), Fortier & Scobey
+  # (1926), reproduced in Chow 1959 Table 7-3.
+  max_velocity {
+    limit = {
+      concrete = 20.0 # low end of the 20–30 ft/s common for concrete-lined flood channels (common practice)
+      riprap   = 10.0 # screening value for placed riprap: common practice (no published source); size the stone by HEC-11
+      grass    = 4.0  # grass mixture, easily eroded soil, slope 0–5 %: SCS-TP-61 (1954) in Chow 1959 Table 7-5 (from memory)
+      earth    = 2.5  # ordinary firm loam, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      clay     = 3.75 # stiff clay, very colloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      gravel   = 4.0  # coarse gravel, noncolloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      sand     = 1.5  # fine sand, colloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      rock     = 6.0  # shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      default  = 2.5  # an unknown lining is treated as firm loam (earth), Fortier & Scobey 1926
+    }
+    severity = "error"
+  }
+
+  min_velocity {
+    limit    = 2.0 # self-cleansing velocity: common practice (no published source)
+    severity = "warning"
+  }
+
+  froude_band {
+    # Unstable near-critical flow: 0.89–1.13 in Brown & Clyde, FHWA HEC-11
+    # (1989) p. 38; flood-control channel guidance (USACE EM 1110-2-1601,
+    # from memory) starts the band at 0.86. The wider band is kept.
+    avoid    = [[0.86, 1.13]]
+    severity = "warning"
+  }
+
+  jump_containment {
+    severity = "error"
+  }
+
+  jump_type {
+    # Oscillating jumps, upstream Froude number 2.5–4.5: Peterka, USBR
+    # Engineering Monograph 25 (1958); Chow 1959 ch. 15.
+    avoid    = [[2.5, 4.5]]
+    severity = "warning"
+  }
+
+  superelevation {
+    # Δy = C·V²·T/(g·rc): C = 0.5 subcritical, 1.0 supercritical in a simple
+    # curve, USACE EM 1110-2-1601 (1994) (from memory).
+    subcritical_coefficient   = 0.5
+    supercritical_coefficient = 1.0
+    # The outer bank keeps the 1.0 ft freeboard above the raised surface:
+    # EM 1110-2-1601 (1994) adds the bend rise to the freeboard (from memory).
+    minimum  = 1.0
+    severity = "error"
+  }
+
+  # Permissible boundary shear stress, lb/ft².
+  shear_stress {
+    limit = {
+      concrete = null  # rigid lining: not limited by tractive stress (common practice)
+      riprap   = 2.0   # rock riprap D50 = 6 in: FHWA HEC-15 (Chen & Cotton 1988) Table 2 (from memory)
+      grass    = 0.60  # retardance class D vegetation: FHWA HEC-15 (1988) Table 2 (from memory)
+      earth    = 0.075 # ordinary firm loam, clear water: Fortier & Scobey 1926 via Chow 1959 Table 7-3 (from memory)
+      clay     = 0.26  # stiff clay, very colloidal, clear water: Chow 1959 Table 7-3 (from memory)
+      gravel   = 0.30  # coarse gravel, noncolloidal, clear water: Chow 1959 Table 7-3 (from memory)
+      sand     = 0.027 # fine sand, colloidal, clear water: Chow 1959 Table 7-3 (from memory)
+      rock     = 0.67  # shales and hardpans, clear water: Chow 1959 Table 7-3 (from memory)
+      default  = 0.075 # an unknown lining is treated as firm loam (earth), Chow 1959 Table 7-3 (from memory)
+    }
+    severity = "error"
+  }
+}

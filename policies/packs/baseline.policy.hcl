@@ -1,0 +1,96 @@
+# chanlint built-in pack "baseline" (SI units: m, m/s, N/m²).
+#
+# A conservative screening policy built from published guidance. Every number
+# names its source beside it or on the line above. "(from memory)" marks a
+# value recalled rather than re-read from the source; "common practice" marks
+# a value of the trade with no single published source. These are screening
+# values, not a local design code: extend this pack and replace the blocks
+# your criteria set differently.
+#
+# Lining words the limits use (a section's `lining`): concrete, riprap, grass,
+# earth, clay, gravel, sand, rock. Any other word, or none, gets `default`.
+
+policy "baseline" {
+  units      = "si"
+  reference  = "chanlint baseline pack (published screening values, not a local design code)"
+  exceptions = "report"
+
+  freeboard {
+    # 0.3 m (about 1 ft) least freeboard: common practice (no published source).
+    minimum = 0.3
+    # 20 % of the flow depth: Chow, Open-Channel Hydraulics (1959) §7-6 says
+    # 5 % to 30 % of the depth is commonly used (from memory); 0.2 is in the
+    # upper half of that range. (USBR canals use F = √(C·y), Chow 1959 §7-6.)
+    fraction = 0.2
+    severity = "error"
+  }
+
+  # Permissible mean velocities for clear water, Fortier & Scobey (1926),
+  # reproduced in Chow 1959 Table 7-3 (ft/s, converted at 0.3048 m/ft and
+  # rounded to 0.01 m/s). Clear-water values are the lower, conservative set.
+  max_velocity {
+    limit = {
+      concrete = 6.0  # ≈ 20 ft/s, low end of the 20–30 ft/s common for concrete-lined flood channels (common practice)
+      riprap   = 3.0  # ≈ 10 ft/s screening value for placed riprap: common practice (no published source); size the stone by HEC-11
+      grass    = 1.22 # 4 ft/s grass mixture, easily eroded soil, slope 0–5 %: SCS-TP-61 (1954) in Chow 1959 Table 7-5 (from memory)
+      earth    = 0.76 # 2.5 ft/s ordinary firm loam, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      clay     = 1.14 # 3.75 ft/s stiff clay, very colloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      gravel   = 1.22 # 4.0 ft/s coarse gravel, noncolloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      sand     = 0.46 # 1.5 ft/s fine sand, colloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      rock     = 1.83 # 6.0 ft/s shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      default  = 0.76 # an unknown lining is treated as firm loam (earth), Fortier & Scobey 1926
+    }
+    severity = "error"
+  }
+
+  min_velocity {
+    limit    = 0.6 # 2 ft/s self-cleansing velocity: common practice (no published source)
+    severity = "warning"
+  }
+
+  froude_band {
+    # Unstable near-critical flow: 0.89–1.13 in Brown & Clyde, FHWA HEC-11
+    # (1989) p. 38; flood-control channel guidance (USACE EM 1110-2-1601,
+    # from memory) starts the band at 0.86. The wider band is kept.
+    avoid    = [[0.86, 1.13]]
+    severity = "warning"
+  }
+
+  jump_containment {
+    severity = "error"
+  }
+
+  jump_type {
+    # Oscillating jumps, upstream Froude number 2.5–4.5: Peterka, USBR
+    # Engineering Monograph 25 (1958); Chow 1959 ch. 15.
+    avoid    = [[2.5, 4.5]]
+    severity = "warning"
+  }
+
+  superelevation {
+    # Δy = C·V²·T/(g·rc): C = 0.5 subcritical, 1.0 supercritical in a simple
+    # curve, USACE EM 1110-2-1601 (1994) (from memory).
+    subcritical_coefficient   = 0.5
+    supercritical_coefficient = 1.0
+    # The outer bank keeps the 0.3 m freeboard above the raised surface:
+    # EM 1110-2-1601 (1994) adds the bend rise to the freeboard (from memory).
+    minimum  = 0.3
+    severity = "error"
+  }
+
+  # Permissible boundary shear stress, N/m² (lb/ft² × 47.88, rounded).
+  shear_stress {
+    limit = {
+      concrete = null # rigid lining: not limited by tractive stress (common practice)
+      riprap   = 96   # 2.0 lb/ft², rock riprap D50 = 6 in: FHWA HEC-15 (Chen & Cotton 1988) Table 2 (from memory)
+      grass    = 28.7 # 0.60 lb/ft², retardance class D vegetation: FHWA HEC-15 (1988) Table 2 (from memory)
+      earth    = 3.6  # 0.075 lb/ft² ordinary firm loam, clear water: Fortier & Scobey 1926 via Chow 1959 Table 7-3 (from memory)
+      clay     = 12.4 # 0.26 lb/ft² stiff clay, very colloidal, clear water: Chow 1959 Table 7-3 (from memory)
+      gravel   = 14.4 # 0.30 lb/ft² coarse gravel, noncolloidal, clear water: Chow 1959 Table 7-3 (from memory)
+      sand     = 1.3  # 0.027 lb/ft² fine sand, colloidal, clear water: Chow 1959 Table 7-3 (from memory)
+      rock     = 32   # 0.67 lb/ft² shales and hardpans, clear water: Chow 1959 Table 7-3 (from memory)
+      default  = 3.6  # an unknown lining is treated as firm loam (earth), Chow 1959 Table 7-3 (from memory)
+    }
+    severity = "error"
+  }
+}

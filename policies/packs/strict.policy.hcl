@@ -1,0 +1,38 @@
+# chanlint built-in pack "strict" (SI units): the baseline with tighter
+# settings for a reviewer's second look. Only the blocks written here differ
+# from "baseline"; each replaces baseline's block of the same rule entirely.
+# Every number names its source beside it or on the line above.
+
+policy "strict" {
+  units     = "si"
+  extends   = "baseline"
+  reference = "chanlint strict pack (baseline with tighter screening values, not a local design code)"
+
+  freeboard {
+    # 0.3 m least freeboard, as baseline: common practice (no published source).
+    minimum = 0.3
+    # 30 % of the flow depth, the top of the 5 %–30 % range commonly used:
+    # Chow, Open-Channel Hydraulics (1959) §7-6 (from memory).
+    fraction = 0.3
+    severity = "error"
+  }
+
+  min_velocity {
+    limit    = 0.9 # 3 ft/s, the higher self-cleansing velocity some agencies require (common practice)
+    severity = "warning"
+  }
+
+  froude_band {
+    # Same band as baseline (HEC-11 1989 p. 38; EM 1110-2-1601, from memory),
+    # reported as an error: near-critical flow must be designed out.
+    avoid    = [[0.86, 1.13]]
+    severity = "error"
+  }
+
+  jump_type {
+    # Oscillating jumps (F1 2.5–4.5, Peterka 1958) send waves far downstream
+    # and are reported as errors (Peterka 1958, from memory).
+    avoid    = [[2.5, 4.5]]
+    severity = "error"
+  }
+}

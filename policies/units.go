@@ -1,0 +1,92 @@
+package policies
+
+import (
+	"maps"
+	"slices"
+
+	"github.com/chanlint/chanlint/model"
+)
+
+// Conversion factors from US customary to SI units.
+const (
+	// MetresPerFoot is exact by definition (international foot, 1959).
+	MetresPerFoot = 0.3048
+	// PascalsPerPSF converts lbf/ft² to N/m²: 1 lbf = 4.4482216152605 N
+	// exactly (0.45359237 kg × 9.80665 m/s²) and 1 ft² = 0.09290304 m²
+	// exactly, so 1 lbf/ft² = 47.880259 Pa. Source: NIST SP 811 (2008),
+	// Appendix B.
+	PascalsPerPSF = 4.4482216152605 / 0.09290304
+)
+
+// In returns a deep copy of p with every length, velocity and stress
+// expressed in u: lengths ft↔m, velocities ft/s↔m/s, shear stresses
+// lb/ft²↔N/m². Froude numbers, fractions and coefficients do not change.
+func (p *Policy) In(u model.Units) *Policy {
+	c := p.clone()
+	if p.Units == u || (u != model.SI && u != model.US) {
+		return c
+	}
+	length := MetresPerFoot // US → SI
+	stress := PascalsPerPSF
+	if u == model.US {
+		length, stress = 1/MetresPerFoot, 1/PascalsPerPSF
+	}
+	c.Units = u
+	for _, rc := range c.Rules {
+		rc.Minimum *= length
+		f := length // velocities scale as lengths (per second)
+		if rc.Rule == "shear_stress" {
+			f = stress
+		}
+		rc.Limit.Default *= f
+		for k := range rc.Limit.Values {
+			rc.Limit.Values[k] *= f
+		}
+	}
+	return c
+}
+
+// clone is a deep copy of p.
+func (p *Policy) clone() *Policy {
+	c := *p
+	c.Chain = slices.Clone(p.Chain)
+	c.Rules = make(map[string]*RuleConfig, len(p.Rules))
+	for id, rc := range p.Rules {
+		c.Rules[id] = rc.clone()
+	}
+	return &c
+}
+
+func (rc *RuleConfig) clone() *RuleConfig {
+	c := *rc
+	c.Events = slices.Clone(rc.Events)
+	c.Attrs = maps.Clone(rc.Attrs)
+	c.Avoid = slices.Clone(rc.Avoid)
+	c.Limit.Values = maps.Clone(rc.Limit.Values)
+	c.Limit.NoLimit = maps.Clone(rc.Limit.NoLimit)
+	return &c
+}
+
+// merge applies a child file on top of its effective parent: the parent is
+// converted to the child's units, each rule block of the child replaces the
+// parent's block of that rule entirely (enabled = false removes it), and the
+// child's top-level attributes override the parent's where written.
+func merge(parent *Policy, o *own) *Policy {
+	out := parent.In(o.policy.Units)
+	child := o.policy
+	out.Name, out.Units, out.File, out.DefRange = child.Name, child.Units, child.File, child.DefRange
+	if o.hasReference {
+		out.Reference = child.Reference
+	}
+	if o.hasExceptions {
+		out.Exceptions = child.Exceptions
+	}
+	for id := range o.disabled {
+		delete(out.Rules, id)
+	}
+	for id, rc := range child.Rules {
+		out.Rules[id] = rc
+	}
+	out.Chain = append(slices.Clone(child.Chain), parent.Chain...)
+	return out
+}
