@@ -44,6 +44,10 @@ type Context struct {
 	Result *solver.Result
 	Policy *policies.Policy
 	Config *policies.RuleConfig // nil for always-on rules without a block
+	// Findings holds the other rules' findings, before exceptions are
+	// applied, for a rule that judges them (unused_exception); nil for the
+	// others.
+	Findings []Finding
 }
 
 // Rule is one check of the registry.

@@ -1,0 +1,79 @@
+package rules
+
+import (
+	"fmt"
+
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+)
+
+// Kinds of capacity failure; a span holds one kind.
+const (
+	overtops = iota + 1
+	flowsFull
+)
+
+var capacityRule = &Rule{
+	ID:       "capacity",
+	Title:    "The channel overtops, or a closed conduit flows full",
+	Severity: policies.Error,
+	AlwaysOn: true,
+	Doc: `What it checks: (always on) at every computed point, whether the
+section carries the flow at all. An open section whose water surface rises
+above its top of bank (or lining) overtops: the water leaves the channel
+and the one-dimensional results no longer describe the flow. A closed
+conduit that flows full runs under pressure, which the free-surface method
+does not compute. Contiguous failing points of one reach and section merge
+into one span; the finding gives the largest depth and the section height.
+
+Formula:
+    open:   fails where WSE > invert + height  (value depth, limit height)
+    closed: fails where the solver marks the point full, or depth ≥ diameter
+
+Settings: none; the rule cannot be turned off. A design exception can
+cover a span that is meant to overflow (a spillway crest, say), with its
+reason.
+
+Basis: common practice (no published source): a channel is designed to
+contain its design flow; culverts flowing full are analysed for pressure
+flow with entrance and exit losses instead.
+
+Remedies: enlarge the section (deeper or wider), raise the banks, lower
+the downstream control, or, for a conduit, a larger diameter or an
+additional barrel, or an inlet- or outlet-control culvert analysis.`,
+	Check: checkCapacity,
+}
+
+func checkCapacity(ctx *Context, report func(Finding)) {
+	u := ctx.units()
+	lu := u.Length()
+	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point) verdict {
+		sec := sectionAt(rr, p)
+		if sec == nil || !finite(sec.Height) {
+			return verdict{skip: true}
+		}
+		v := verdict{value: p.Depth, limit: sec.Height, short: p.Depth - sec.Height,
+			block: reachBlock(rr.Reach, p.Station)}
+		if sec.Closed() {
+			v.kind = flowsFull
+			v.fail = p.Full || p.Depth >= sec.Height
+		} else {
+			v.kind = overtops
+			v.fail = p.WSE > p.Invert+sec.Height+1e-12*max(1, sec.Height)
+		}
+		return v
+	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
+		val, lim := numPair(s.value, s.limit)
+		var msg string
+		if s.kind == flowsFull {
+			msg = fmt.Sprintf("the closed conduit flows full %s (depth %s %s, diameter %s %s): "+
+				"it runs under pressure, which the free-surface results do not describe; "+
+				"enlarge the conduit or add a barrel, or analyse it for pressure flow", s.where(u), val, lu, lim, lu)
+		} else {
+			msg = fmt.Sprintf("depth %s %s exceeds the section height %s %s %s: the water surface rises %s %s "+
+				"above the top of bank: the channel overtops here; deepen or widen the section or raise the "+
+				"banks by at least %s %s", val, lu, lim, lu, s.where(u), num(s.short), lu, num(s.short), lu)
+		}
+		report(spanFinding(ev, rr, s, msg))
+	})
+}

@@ -1,0 +1,146 @@
+package rules
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+)
+
+// Ids the driver and other rules refer to.
+const (
+	unusedExceptionID = "unused_exception"
+	modelID           = "model"
+)
+
+// exceptionTolerance is how far, in the model's length unit, a finding's
+// span may reach past an exception's span and still be covered by it: a
+// millimetre (or a thousandth of a foot), plus a part in a billion of the
+// station for rounding in long reaches. Computed points fall on block ends,
+// so a failure confined to the excepted span is covered; one that a
+// computed point shows reaching beyond it is not.
+func exceptionTolerance(station float64) float64 {
+	return 1e-3 + 1e-9*max(1, station)
+}
+
+// covers reports whether an exception covers a finding: same rule, same
+// reach, and the finding's span within the exception's span. Findings
+// without a reach or span (an invalid file, a model-wide problem) are never
+// covered, nor are the findings of the model and unused_exception rules.
+func covers(ex *model.Exception, f *Finding) bool {
+	if f.Rule != ex.Rule || f.Reach == "" || f.Reach != ex.ReachName || !f.HasSpan {
+		return false
+	}
+	if f.Rule == modelID || f.Rule == unusedExceptionID {
+		return false
+	}
+	return f.FromStation >= ex.FromStation-exceptionTolerance(ex.FromStation) &&
+		f.ToStation <= ex.ToStation+exceptionTolerance(ex.ToStation)
+}
+
+// applyExceptions marks the findings a design exception covers. The first
+// exception in source order that covers a finding is the one recorded.
+func applyExceptions(m *model.Model, fs []Finding) {
+	for i := range fs {
+		f := &fs[i]
+		for _, ex := range m.Exceptions {
+			if covers(ex, f) {
+				f.Excepted = true
+				f.ExceptionReason = ex.Reason
+				f.ExceptionRange = ex.DefRange
+				break
+			}
+		}
+	}
+}
+
+var unusedExceptionRule = &Rule{
+	ID:       unusedExceptionID,
+	Title:    "A design exception covers no finding, or the policy does not accept exceptions",
+	Severity: policies.Warning,
+	AlwaysOn: true,
+	Doc: `What it checks: every exception block of the model must cover at least
+one finding in some event: a finding of the rule it names, on the reach it
+names, whose station span lies within the exception's span (within a
+millimetre, or a thousandth of a foot). An exception that covers nothing is
+reported as a warning at the exception block: it has gone stale (the design
+changed and the problem it excused is gone), or its rule, reach or stations
+are wrong, and a stale exception would silently excuse a future problem.
+When a finding overlaps the exception but reaches beyond it, the message
+says so.
+
+When the policy says exceptions = "deny", no exception is applied: every
+finding is reported in full and fails the run as its severity says, and each
+exception of the model is listed here as an info finding saying it was not
+applied and how many findings it would have covered. A reviewer then sees
+the claims without their taking effect.
+
+Formula: none; it compares station spans.
+
+Basis: common practice for suppressions in code-review tools: a
+suppression must state a reason and one that matches nothing is reported
+(no published source).
+
+Remedies: delete the exception if the problem it excused is gone; otherwise
+correct its rule id, reach or stations so that it covers the failing span
+the reviewer accepted.`,
+	Check: checkExceptions,
+}
+
+func checkExceptions(ctx *Context, report func(Finding)) {
+	if ctx.Model == nil {
+		return
+	}
+	u := ctx.units()
+	deny := ctx.Policy != nil && ctx.Policy.Exceptions == "deny"
+	for _, ex := range ctx.Model.Exceptions {
+		n := 0
+		var partial *Finding
+		for i := range ctx.Findings {
+			f := &ctx.Findings[i]
+			if covers(ex, f) {
+				n++
+			} else if partial == nil && f.Rule == ex.Rule && f.Reach == ex.ReachName && f.HasSpan &&
+				f.FromStation <= ex.ToStation && f.ToStation >= ex.FromStation {
+				partial = f
+			}
+		}
+		what := fmt.Sprintf("the exception for rule %q on reach %q %s", ex.Rule, ex.ReachName,
+			stations(ex.FromStation, ex.ToStation, u))
+		f := Finding{Range: ex.DefRange, Reach: ex.ReachName,
+			FromStation: ex.FromStation, ToStation: ex.ToStation, HasSpan: true}
+		switch {
+		case deny:
+			f.Severity = policies.Info
+			f.Message = fmt.Sprintf("%s was not applied: the policy does not accept design exceptions "+
+				"(exceptions = \"deny\"), so the %s it would cover are reported in full", what, plural(n, "finding"))
+		case n > 0:
+			continue
+		default:
+			var why []string
+			switch {
+			case Lookup(ex.Rule) == nil:
+				why = append(why, "no rule has that id (the model rule reports it)")
+			case !Lookup(ex.Rule).AlwaysOn && (ctx.Policy == nil || ctx.Policy.Rules[ex.Rule] == nil):
+				why = append(why, "the policy does not enable that rule")
+			case partial != nil:
+				why = append(why, fmt.Sprintf("a %s finding in event %q %s extends beyond it; "+
+					"widen the exception if the reviewer accepted that whole span",
+					partial.Rule, partial.Event, stations(partial.FromStation, partial.ToStation, u)))
+			default:
+				why = append(why, "remove it, or correct its rule, reach or stations")
+			}
+			f.Message = fmt.Sprintf("%s covers no finding in any event: %s", what, strings.Join(why, "; "))
+		}
+		report(f)
+	}
+}
+
+// plural writes "1 finding" or "3 findings".
+func plural(n int, word string) string {
+	if n == 1 {
+		return "1 " + word
+	}
+	return fmt.Sprintf("%d %ss", n, word)
+}

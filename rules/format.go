@@ -1,0 +1,97 @@
+package rules
+
+import (
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/chanlint/chanlint/model"
+)
+
+// num formats a measured value compactly: three significant digits, never
+// fewer digits than the integer part, trailing zeros trimmed. A value that
+// is not finite (which the rules never pass on purpose) prints as "n/a" so
+// that no output ever carries NaN or Inf.
+func num(x float64) string {
+	s, _ := numPair(x, x)
+	return s
+}
+
+// numPair formats a measured value and its limit with the same number of
+// decimals, so that "0.18 m is below 0.30 m" reads naturally: the decimals
+// are those three significant digits of the smaller magnitude need, and
+// trailing zeros are trimmed only where both numbers have them.
+func numPair(a, b float64) (string, string) {
+	if !finite(a) || !finite(b) {
+		return numOne(a), numOne(b)
+	}
+	d := max(decimals(a), decimals(b))
+	sa := strconv.FormatFloat(clean(a, d), 'f', d, 64)
+	sb := strconv.FormatFloat(clean(b, d), 'f', d, 64)
+	for d > 0 && strings.HasSuffix(sa, "0") && strings.HasSuffix(sb, "0") {
+		sa, sb = sa[:len(sa)-1], sb[:len(sb)-1]
+		d--
+	}
+	if d == 0 {
+		sa, sb = strings.TrimSuffix(sa, "."), strings.TrimSuffix(sb, ".")
+	}
+	return sa, sb
+}
+
+func numOne(x float64) string {
+	if !finite(x) {
+		return "n/a"
+	}
+	s, _ := numPair(x, x)
+	return s
+}
+
+// decimals is the number of decimals that shows three significant digits
+// of x, between 0 and 6.
+func decimals(x float64) int {
+	a := math.Abs(x)
+	if a == 0 {
+		return 0
+	}
+	d := 2 - int(math.Floor(math.Log10(a)))
+	return min(max(d, 0), 6)
+}
+
+// clean rounds x to d decimals and removes a negative zero.
+func clean(x float64, d int) float64 {
+	p := math.Pow(10, float64(d))
+	r := math.Round(x*p) / p
+	if r == 0 {
+		return 0
+	}
+	return r
+}
+
+// stations describes a span: "at station 120 m" or "over stations 120–180 m".
+func stations(from, to float64, u model.Units) string {
+	a, b := numPair(from, to)
+	if a == b {
+		return "at station " + a + " " + u.Length()
+	}
+	return "over stations " + a + "–" + b + " " + u.Length()
+}
+
+// Unit symbols of the quantities the rules report.
+func velocityUnit(u model.Units) string { return u.Length() + "/s" }
+
+func stressUnit(u model.Units) string {
+	if u == model.US {
+		return "lb/ft²"
+	}
+	return "N/m²"
+}
+
+// finite reports whether every value is a finite number.
+func finite(xs ...float64) bool {
+	for _, x := range xs {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return false
+		}
+	}
+	return true
+}

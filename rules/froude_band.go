@@ -1,0 +1,86 @@
+package rules
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+)
+
+var froudeBandRule = &Rule{
+	ID:       "froude_band",
+	Title:    "Froude number inside a band the policy avoids (unstable near-critical flow)",
+	Severity: policies.Warning,
+	Doc: `What it checks: at every computed point, the Froude number against the
+bands the policy avoids. Near critical flow a small change of energy gives
+a large change of depth: the surface is wavy and unstable, and the depth
+the design relies on is uncertain. Contiguous failing points of one reach
+and section merge into one span; the finding gives the Froude number
+deepest inside the band and the band edge nearest to it.
+
+Formula:
+    F = V / √(g · A / T)   (the solver's F at the point)
+    fails where low ≤ F ≤ high for some avoided band [low, high]
+
+Settings: avoid = [[low, high], ...] (Froude numbers).
+
+Basis: Froude numbers between 0.89 and 1.13 form an unstable transition
+zone (Brown and Clyde, Design of Riprap Revetment, FHWA HEC-11, 1989,
+p. 38); some flood-control channel guidance quotes 0.86–1.13 (from
+memory).
+
+Remedies: change the slope or the section so that the design flow is
+clearly subcritical or clearly supercritical; where the transition cannot
+be avoided, add freeboard for the surface waves over the span.`,
+	Check: checkFroudeBand,
+}
+
+// bandOf returns the first avoided band that contains x.
+func bandOf(bands []policies.Band, x float64) (policies.Band, bool) {
+	for _, b := range bands {
+		if b.Contains(x) {
+			return b, true
+		}
+	}
+	return policies.Band{}, false
+}
+
+// nearestEdge is the edge of b nearest to x and how far inside b x lies.
+func nearestEdge(b policies.Band, x float64) (edge, depth float64) {
+	if x-b.Low <= b.High-x {
+		return b.Low, x - b.Low
+	}
+	return b.High, b.High - x
+}
+
+func checkFroudeBand(ctx *Context, report func(Finding)) {
+	cfg := ctx.Config
+	u := ctx.units()
+	ctx.scanPoints(nil, func(rr *solver.ReachResult, p *solver.Point) verdict {
+		if p.Depth <= 0 {
+			return verdict{skip: true}
+		}
+		b, in := bandOf(cfg.Avoid, p.Froude)
+		if !in {
+			return verdict{}
+		}
+		edge, depth := nearestEdge(b, p.Froude)
+		return verdict{fail: true, value: p.Froude, limit: edge, short: depth,
+			block: reachBlock(rr.Reach, p.Station)}
+	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
+		b, _ := bandOf(cfg.Avoid, s.value)
+		lo, hi := numPair(b.Low, b.High)
+		side := "below " + lo + " or above " + hi
+		if b.Low <= 0 {
+			side = "above " + hi
+		} else if math.IsInf(b.High, 1) {
+			side = "below " + lo
+		}
+		msg := fmt.Sprintf("Froude number %s lies in the avoided band %s–%s %s: near-critical flow is "+
+			"unstable, with a wavy surface and uncertain depth; change the slope or section so that "+
+			"the flow stays %s, or add freeboard for surface waves",
+			num(s.value), lo, hi, s.where(u), side)
+		report(spanFinding(ev, rr, s, msg))
+	})
+}

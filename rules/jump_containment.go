@@ -1,0 +1,126 @@
+package rules
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+)
+
+var jumpContainmentRule = &Rule{
+	ID:       "jump_containment",
+	Title:    "Hydraulic jump outside a stilling basin",
+	Severity: policies.Error,
+	Doc: `What it checks: every hydraulic jump, from its toe to the end of its
+length, must lie within one basin block of its reach. A jump dissipates
+energy in intense turbulence that scours an unprotected bed and banks; the
+basin is the hardened zone built for it. A jump that escapes its basin is
+reported at that basin (the one it overlaps most), a jump in no basin at
+the reach, with the distance it escapes by upstream and downstream.
+
+Formula:
+    jump occupies [toe, toe + L],  L from the solver (Peterka's curve,
+    about 6·y2 for 4.5 < F1 < 13)
+    contained when basin.from ≤ toe and toe + L ≤ basin.to for one basin
+    (within a millimetre or a thousandth of a foot)
+The finding's value is the length of channel outside the basin.
+
+Settings: none besides severity and events.
+
+Basis: Peterka, Hydraulic Design of Stilling Basins and Energy
+Dissipators, USBR Engineering Monograph 25 (1958): basin lengths follow
+the length of the jump; Chow, Open-Channel Hydraulics (1959), ch. 15.
+
+Remedies: lengthen the basin or move it to where the jump forms; fix the
+jump's position with a tailwater control (end sill, baffles, a drop) or by
+changing the gate opening or the approach slope.`,
+	Check: checkJumpContainment,
+}
+
+func checkJumpContainment(ctx *Context, report func(Finding)) {
+	u := ctx.units()
+	lu := u.Length()
+	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
+		r := rr.Reach
+		for _, j := range rr.Jumps {
+			if !finite(j.Station, j.Length) {
+				continue
+			}
+			toe, end := j.Station, j.End()
+			b, up, down := bestBasin(r, toe, end)
+			tol := exceptionTolerance(end)
+			if b != nil && up <= tol && down <= tol {
+				continue
+			}
+			f := Finding{Reach: r.Name, Event: ev.Event.Name, FromStation: toe, ToStation: end,
+				HasSpan: true, Limit: 0, HasValue: true}
+			jump := fmt.Sprintf("the hydraulic jump %s (toe at %s %s, length %s %s, F1 %s)",
+				stations(toe, end, u), num(toe), lu, num(j.Length), lu, num(j.Froude))
+			if b == nil {
+				f.Range, f.Value = r.DefRange, end-toe
+				f.Message = fmt.Sprintf("%s lies in no basin of reach %q; unprotected channel may scour: "+
+					"build a basin over at least %s or move the jump", jump, r.Name, stations(toe, end, u))
+			} else {
+				var by []string
+				if up > tol {
+					by = append(by, num(up)+" "+lu+" upstream")
+				}
+				if down > tol {
+					by = append(by, num(down)+" "+lu+" downstream")
+				}
+				side := "downstream"
+				if down <= tol {
+					side = "upstream"
+				} else if up > tol {
+					side = "upstream and downstream"
+				}
+				f.Range, f.Value = b.DefRange, max(up, 0)+max(down, 0)
+				f.Message = fmt.Sprintf("%s escapes basin %q (%s–%s %s) by %s; unprotected channel %s may scour; "+
+					"lengthen the basin or move it", jump, b.Name, num(b.FromStation), num(b.ToStation), lu,
+					strings.Join(by, " and "), side)
+			}
+			report(f)
+		}
+	})
+}
+
+// bestBasin is the basin of the reach that overlaps [toe, end] most, with
+// how far the jump reaches past it upstream and downstream; nil when none
+// overlaps.
+func bestBasin(r *model.Reach, toe, end float64) (b *model.Basin, up, down float64) {
+	best := -1.0
+	for _, x := range r.Basins {
+		ov := min(end, x.ToStation) - max(toe, x.FromStation)
+		if ov < 0 || (ov == 0 && end > toe) {
+			continue
+		}
+		if ov > best {
+			best, b = ov, x
+		}
+	}
+	if b == nil {
+		return nil, 0, 0
+	}
+	return b, b.FromStation - toe, end - b.ToStation
+}
+
+// basinAt is the basin of the reach that contains a station, or nil.
+func basinAt(r *model.Reach, station float64) *model.Basin {
+	for _, b := range r.Basins {
+		if station >= b.FromStation-exceptionTolerance(station) && station <= b.ToStation+exceptionTolerance(station) {
+			return b
+		}
+	}
+	return nil
+}
+
+// jumpBlock is the block responsible for a jump: the basin its toe lies
+// in, else the reach.
+func jumpBlock(r *model.Reach, j solver.Jump) block {
+	if b := basinAt(r, j.Station); b != nil {
+		return block{Kind: "basin", Name: b.Name, Src: &b.Src}
+	}
+	return block{Kind: "reach", Name: r.Name, Src: &r.Src}
+}

@@ -1,0 +1,107 @@
+package rules
+
+import (
+	"fmt"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+)
+
+var maxVelocityRule = &Rule{
+	ID:       "max_velocity",
+	Title:    "Mean velocity above the permissible velocity of the lining",
+	Severity: policies.Error,
+	Doc: `What it checks: at every computed point, the mean velocity V = Q/A
+against the permissible (non-eroding) velocity the policy sets for the
+lining word of the section there. Contiguous failing points of one reach
+and section merge into one span; the finding gives the highest velocity of
+the span and its limit.
+
+Formula:
+    V = Q / A;  fails where V > limit(lining)
+limit(lining) is the policy's value for that lining word, else its
+"default"; a point whose lining has no value and no default is not checked.
+
+Settings: limit = number, or { lining = value, ..., default = value }
+(velocity).
+
+Basis: permissible velocities for earth channels after Fortier and Scobey,
+"Permissible canal velocities", Trans. ASCE 89 (1926), reproduced in Chow,
+Open-Channel Hydraulics (1959), Table 7-3 (e.g. fine sand 2.5 ft/s, stiff
+clay 5.0 ft/s with colloidal silts); concrete-lined flood channels are
+commonly designed to 20–30 ft/s.
+
+Remedies: a lining rated for the velocity (riprap, concrete), a flatter
+slope (drop structures), a rougher lining that slows the flow, or a wider
+section that carries the flow shallower and slower.`,
+	Check: checkMaxVelocity,
+}
+
+func checkMaxVelocity(ctx *Context, report func(Finding)) {
+	checkVelocity(ctx, report, true)
+}
+
+// checkVelocity holds the mean velocity of every wet point to the policy's
+// limit for its lining: above it (max_velocity) or below it (min_velocity).
+func checkVelocity(ctx *Context, report func(Finding), upper bool) {
+	cfg := ctx.Config
+	u := ctx.units()
+	w := lower
+	if upper {
+		w = higher
+	}
+	ctx.scanPoints(w, func(rr *solver.ReachResult, p *solver.Point) verdict {
+		lim, ok := liningLimit(cfg, rr, p)
+		if !ok || p.Area <= 0 {
+			return verdict{skip: true}
+		}
+		v := verdict{value: p.Velocity, limit: lim, block: reachBlock(rr.Reach, p.Station)}
+		if upper {
+			v.fail, v.short = p.Velocity > lim, p.Velocity-lim
+		} else {
+			v.fail, v.short = p.Velocity < lim, lim-p.Velocity
+		}
+		return v
+	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
+		sec := sectionAt(rr, &rr.Points[s.worst])
+		report(spanFinding(ev, rr, s, velocityMessage(cfg, sec, s, u, upper)))
+	})
+}
+
+// liningLimit is the policy's by-lining limit at a wet computed point;
+// false where the point is dry or no limit applies to its lining.
+func liningLimit(cfg *policies.RuleConfig, rr *solver.ReachResult, p *solver.Point) (float64, bool) {
+	sec := sectionAt(rr, p)
+	if sec == nil || p.Depth <= 0 {
+		return 0, false
+	}
+	return cfg.Limit.For(sec.Lining)
+}
+
+func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u model.Units, upper bool) string {
+	vu := velocityUnit(u)
+	val, lim := numPair(s.value, s.limit)
+	for_ := liningText(cfg, sec)
+	if upper {
+		return fmt.Sprintf("velocity %s %s exceeds %s %s for %s %s; a lining rated for at least %s %s is needed, "+
+			"or reduce velocity (flatter slope, rougher or wider section)",
+			val, vu, lim, vu, for_, s.where(u), val, vu)
+	}
+	return fmt.Sprintf("velocity %s %s is below the self-cleansing %s %s for %s %s; sediment may deposit here: "+
+		"raise the velocity at this flow (steeper grade, narrower or smoother section, a low-flow channel) "+
+		"or plan for cleaning",
+		val, vu, lim, vu, for_, s.where(u))
+}
+
+// liningText names what a by-lining limit was taken for: the lining word
+// when the policy lists it, else the policy's default.
+func liningText(cfg *policies.RuleConfig, sec *model.Section) string {
+	if _, ok := cfg.Limit.Values[sec.Lining]; ok {
+		return fmt.Sprintf("lining %q", sec.Lining)
+	}
+	if sec.Lining != "" {
+		return fmt.Sprintf("lining %q (the policy's default)", sec.Lining)
+	}
+	return "the policy's default limit"
+}

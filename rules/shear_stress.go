@@ -1,0 +1,77 @@
+package rules
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+)
+
+// unitWeight is the unit weight of water γ = ρ·g: 1000 kg/m³ × 9.80665
+// m/s² = 9806.65 N/m³ in SI, and 62.4 lb/ft³ in US customary units.
+// Source: common practice (no published source).
+func unitWeight(u model.Units) float64 {
+	if u == model.US {
+		return 62.4
+	}
+	return 9806.65
+}
+
+var shearStressRule = &Rule{
+	ID:       "shear_stress",
+	Title:    "Boundary shear (tractive) stress above the permissible stress of the lining",
+	Severity: policies.Error,
+	Doc: `What it checks: at every wet computed point, the mean boundary shear
+stress of the flow against the permissible shear stress the policy sets for
+the lining word of the section there. Contiguous failing points of one
+reach and section merge into one span.
+
+Formula:
+    τ = γ · R · Sf
+γ unit weight of water (9806.65 N/m³; 62.4 lb/ft³), R hydraulic radius,
+Sf the friction slope of the computed point (Manning): in uniform flow it
+equals the bed slope, and in varied flow it is the slope that actually
+drags on the boundary, so it is used rather than the bed slope.
+τ is the mean over the wetted perimeter; the local maximum on the bed of a
+trapezoid is about γ·y·Sf (larger in bends), so a policy should set its
+limits for the mean stress, or with that margin.
+
+Settings: limit = number, or { lining = value, ..., default = value }
+(stress: N/m² for si, lb/ft² for us). A point whose lining has no value
+and no default is not checked.
+
+Basis: the tractive force method (Lane, "Design of stable channels",
+Trans. ASCE 120, 1955; Chow, Open-Channel Hydraulics, 1959, ch. 7, from
+memory); permissible shear stresses of linings are tabulated in FHWA
+HEC-15 (from memory).
+
+Remedies: a lining rated for the stress (riprap of a larger size, turf
+reinforcement, concrete), a flatter slope, or a wider and shallower section
+(smaller R).`,
+	Check: checkShearStress,
+}
+
+func checkShearStress(ctx *Context, report func(Finding)) {
+	cfg := ctx.Config
+	u := ctx.units()
+	gamma := unitWeight(u)
+	su := stressUnit(u)
+	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point) verdict {
+		lim, ok := liningLimit(cfg, rr, p)
+		if !ok || p.HydraulicRadius <= 0 {
+			return verdict{skip: true}
+		}
+		tau := gamma * p.HydraulicRadius * math.Abs(p.FrictionSlope)
+		return verdict{fail: tau > lim, value: tau, limit: lim, short: tau - lim,
+			block: reachBlock(rr.Reach, p.Station)}
+	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
+		sec := sectionAt(rr, &rr.Points[s.worst])
+		val, lim := numPair(s.value, s.limit)
+		msg := fmt.Sprintf("boundary shear stress %s %s (γ·R·Sf) exceeds %s %s for %s %s; "+
+			"a lining rated for at least %s %s is needed, or reduce the stress "+
+			"(flatter slope, wider and shallower section)", val, su, lim, su, liningText(cfg, sec), s.where(u), val, su)
+		report(spanFinding(ev, rr, s, msg))
+	})
+}

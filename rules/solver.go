@@ -1,0 +1,138 @@
+package rules
+
+import (
+	"fmt"
+	"sort"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+)
+
+var solverRule = &Rule{
+	ID:       "solver",
+	Title:    "The solver fell back, did not converge, or could not apply a control",
+	Severity: policies.Warning,
+	AlwaysOn: true,
+	Doc: `What it checks: (always on) the notes the solver records while
+computing each reach, which mean the results near them are less certain
+than elsewhere. Every note becomes a warning at the reach, at its station;
+notes of one kind at contiguous computed points merge into one span.
+  - critical_fallback: the energy equation had no solution between two
+    computed points and critical depth was taken there (an abrupt change of
+    section or slope, or a control the flow cannot meet).
+  - no_convergence: the iteration did not close within its tolerance.
+  - control: a boundary condition could not act as written (an outlet depth
+    that cannot control supercritical flow, a drowned gate, a
+    supercritical junction).
+A reach of an event with no computed point, and a computed point with a
+number that is not finite, are also reported: the other rules could not
+check them.
+
+Formula: none; the standard-step energy balance
+    z1 + y1 + α1V1²/2g = z2 + y2 + α2V2²/2g + hf
+is the solver's (Chow, Open-Channel Hydraulics, 1959, ch. 10).
+
+Settings: none; the rule cannot be turned off.
+
+Basis: common practice (no published source): a screening tool states
+where its own computation is uncertain rather than passing it silently.
+
+Remedies: add computed points (max_spacing), smooth abrupt section or slope
+changes with a transition, check the outlet condition and the gate
+openings, and review the profile with "chanlint solve".`,
+	Check: checkSolver,
+}
+
+func checkSolver(ctx *Context, report func(Finding)) {
+	u := ctx.units()
+	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
+		r := rr.Reach
+		base := Finding{Range: r.DefRange, Reach: r.Name, Event: ev.Event.Name}
+		if len(rr.Points) == 0 {
+			f := base
+			f.Message = fmt.Sprintf("no computed point on reach %q in event %q: nothing on it was checked", r.Name, ev.Event.Name)
+			report(f)
+			return
+		}
+		for _, g := range noteGroups(rr) {
+			f := base
+			f.FromStation, f.ToStation, f.HasSpan = g.from, g.to, true
+			f.Message = noteMessage(g, u)
+			report(f)
+		}
+		var bad []float64
+		for i := range rr.Points {
+			if !usable(&rr.Points[i]) {
+				bad = append(bad, rr.Points[i].Station)
+			}
+		}
+		if len(bad) > 0 {
+			f := base
+			if finite(bad[0], bad[len(bad)-1]) {
+				f.FromStation, f.ToStation, f.HasSpan = bad[0], bad[len(bad)-1], true
+			}
+			f.Message = fmt.Sprintf("%s of reach %q carry numbers that are not finite; "+
+				"no rule checked them", plural(len(bad), "computed point"), r.Name)
+			report(f)
+		}
+	})
+}
+
+// noteGroup is a run of notes of one kind at contiguous computed points.
+type noteGroup struct {
+	kind     solver.NoteKind
+	from, to float64
+	first    string // the first note's message
+	n        int
+}
+
+// noteGroups merges the notes of a reach result: notes of the same kind
+// join when no computed point lies strictly between their stations.
+func noteGroups(rr *solver.ReachResult) []noteGroup {
+	notes := make([]solver.Note, 0, len(rr.Notes))
+	for _, n := range rr.Notes {
+		if finite(n.Station) {
+			notes = append(notes, n)
+		}
+	}
+	sort.SliceStable(notes, func(i, j int) bool { return notes[i].Station < notes[j].Station })
+	var out []noteGroup
+	for _, n := range notes {
+		if k := len(out) - 1; k >= 0 && out[k].kind == n.Kind && pointsStrictlyBetween(rr, out[k].to, n.Station) == 0 {
+			out[k].to = n.Station
+			out[k].n++
+			continue
+		}
+		out = append(out, noteGroup{kind: n.Kind, from: n.Station, to: n.Station, first: n.Message, n: 1})
+	}
+	return out
+}
+
+// pointsStrictlyBetween counts computed points with a < station < b.
+func pointsStrictlyBetween(rr *solver.ReachResult, a, b float64) int {
+	i := sort.Search(len(rr.Points), func(k int) bool { return rr.Points[k].Station > a })
+	j := sort.Search(len(rr.Points), func(k int) bool { return rr.Points[k].Station >= b })
+	return max(0, j-i)
+}
+
+func noteMessage(g noteGroup, u model.Units) string {
+	where := stations(g.from, g.to, u)
+	detail := ""
+	if g.first != "" {
+		detail = " (" + g.first + ")"
+	}
+	switch g.kind {
+	case solver.NoteCriticalFallback:
+		return fmt.Sprintf("critical depth was taken %s because the energy equation had no solution there%s; "+
+			"depths and checks near this span are approximate: look for an abrupt change of section or slope, "+
+			"or a control the flow cannot meet", where, detail)
+	case solver.NoteNoConvergence:
+		return fmt.Sprintf("the water-surface iteration did not converge %s%s; results there are uncertain: "+
+			"add computed points (max_spacing) or review the section", where, detail)
+	case solver.NoteControl:
+		return fmt.Sprintf("a boundary condition could not act as written %s%s; check the outlet, gate and "+
+			"entrance conditions against the flow regime", where, detail)
+	}
+	return fmt.Sprintf("the solver noted %s %s%s", g.kind, where, detail)
+}

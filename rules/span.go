@@ -1,0 +1,142 @@
+package rules
+
+import (
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/solver"
+)
+
+// block is the model block a finding points at: the one a designer edits
+// to fix it (a reach, a segment of it, a bend, a basin, an exception).
+type block struct {
+	Kind string // "reach", "segment", "bend", "basin", "exception", "section"
+	Name string // the block's name; for a segment, the name of its section
+	Src  *model.Src
+}
+
+// reachBlock is the block that sets the section in force at a station: the
+// segment covering it, else the reach itself. A failing span of a rule that
+// depends on the section (freeboard, velocity, stress) points there, so a
+// finding on a segment's section leads to the segment, not the reach header.
+func reachBlock(r *model.Reach, station float64) block {
+	for _, s := range r.Segments {
+		if station >= s.FromStation && station <= s.ToStation {
+			return block{Kind: "segment", Name: s.SectionName, Src: &s.Src}
+		}
+	}
+	return block{Kind: "reach", Name: r.Name, Src: &r.Src}
+}
+
+// sectionAt is the section of a computed point: the one the solver
+// recorded, else the one the model puts at its station.
+func sectionAt(rr *solver.ReachResult, p *solver.Point) *model.Section {
+	if p.Section != nil {
+		return p.Section
+	}
+	if rr.Reach == nil {
+		return nil
+	}
+	return rr.Reach.SectionAt(p.Station)
+}
+
+// usable reports whether a computed point carries finite numbers in every
+// field the rules read. The solver promises finite output; a point that is
+// not is skipped here and reported once by the solver rule.
+func usable(p *solver.Point) bool {
+	return finite(p.Station, p.Invert, p.Depth, p.WSE, p.Velocity, p.Froude,
+		p.Energy, p.Area, p.TopWidth, p.HydraulicRadius, p.FrictionSlope)
+}
+
+// verdict is a rule's judgement of one computed point.
+type verdict struct {
+	skip  bool // not checked here (no applicable limit, outside the zone): ends a span
+	fail  bool
+	kind  int     // rule-specific kind of failure; a change of kind ends a span
+	value float64 // the measured quantity
+	limit float64 // the limit it is held to at this point
+	// short is how far the point misses its limit, in the units of value
+	// (positive when failing); the span keeps the largest, which sizes the
+	// remedy ("raise the bank by at least ...").
+	short float64
+	// aux is a rule-specific figure the span keeps the largest of
+	// (superelevation: the bend radius that would pass).
+	aux   float64
+	block block
+}
+
+// span is a run of contiguous failing points of one reach and event with
+// the same responsible block and kind.
+type span struct {
+	first, last int     // point indices
+	from, to    float64 // stations
+	worst       int     // index of the worst point
+	value       float64 // at the worst point
+	limit       float64 // at the worst point
+	short       float64 // the largest over the span
+	aux         float64 // the largest over the span
+	kind        int
+	block       block
+	points      int
+}
+
+// worse orders measured values: worse(a, b) reports whether a is further
+// past the limit than b. Nil means "the larger shortfall is worse".
+type worse func(a, b float64) bool
+
+func higher(a, b float64) bool { return a > b }
+func lower(a, b float64) bool  { return a < b }
+
+// scan walks the points of a reach result in station order, asks judge
+// about each and merges contiguous failing points into spans. Points that
+// are not usable are skipped without ending a span (the solver rule reports
+// them).
+func scan(rr *solver.ReachResult, w worse, judge func(p *solver.Point) verdict) []span {
+	var out []span
+	var cur *span
+	for i := range rr.Points {
+		p := &rr.Points[i]
+		if !usable(p) {
+			continue
+		}
+		v := judge(p)
+		if v.skip || !v.fail {
+			cur = nil
+			continue
+		}
+		if cur != nil && (cur.block.Src != v.block.Src || cur.kind != v.kind) {
+			cur = nil
+		}
+		if cur == nil {
+			out = append(out, span{first: i, from: p.Station, worst: i, value: v.value,
+				limit: v.limit, short: v.short, aux: v.aux, kind: v.kind, block: v.block})
+			cur = &out[len(out)-1]
+		}
+		cur.last, cur.to = i, p.Station
+		cur.points++
+		if (w != nil && w(v.value, cur.value)) || (w == nil && v.short > cur.short) {
+			cur.worst, cur.value, cur.limit = i, v.value, v.limit
+		}
+		cur.short = max(cur.short, v.short)
+		cur.aux = max(cur.aux, v.aux)
+	}
+	return out
+}
+
+// spanFinding is the finding of a span, without rule, severity and the
+// fields Check fills in.
+func spanFinding(ev *solver.EventResult, rr *solver.ReachResult, s span, msg string) Finding {
+	return Finding{
+		Message:     msg,
+		Range:       s.block.Src.DefRange,
+		Reach:       rr.Reach.Name,
+		Event:       ev.Event.Name,
+		FromStation: s.from,
+		ToStation:   s.to,
+		HasSpan:     true,
+		Value:       s.value,
+		Limit:       s.limit,
+		HasValue:    true,
+	}
+}
+
+// where describes the span's stations for a message.
+func (s span) where(u model.Units) string { return stations(s.from, s.to, u) }

@@ -1,0 +1,142 @@
+package rules
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+)
+
+// Default superelevation coefficients when a policy leaves them unset
+// (zero): 0.5 for tranquil flow, 1.0 for rapid flow in a simple curve.
+// Source: U.S. Army Corps of Engineers, EM 1110-2-1601 (from memory).
+const (
+	defaultSubcriticalC   = 0.5
+	defaultSupercriticalC = 1.0
+)
+
+var superelevationRule = &Rule{
+	ID:       "superelevation",
+	Title:    "Freeboard at the outer bank of a bend after superelevation",
+	Severity: policies.Error,
+	Doc: `What it checks: in every bend block, the water surface rises towards
+the outer bank; at each computed point inside the bend the rise is added
+to the water surface and the freeboard that remains at the outer bank must
+be at least the policy's minimum. The finding is at the bend.
+
+Formula:
+    Δy = C · V² · T / (g · rc)
+    remaining = invert + height − (WSE + Δy);  fails where remaining < minimum
+V mean velocity, T top width, rc the bend's centreline radius, g gravity;
+C = subcritical_coefficient for subcritical flow (F < 1), else
+supercritical_coefficient. Unset coefficients default to 0.5 and 1.0.
+The message gives the rise, the bank rise needed (minimum − remaining at
+its largest) and the radius that would pass, where one exists.
+Closed conduits are not checked (their crown is the capacity rule's
+concern).
+
+Settings: subcritical_coefficient, supercritical_coefficient, minimum
+(length).
+
+Basis: U.S. Army Corps of Engineers, Hydraulic Design of Flood Control
+Channels, EM 1110-2-1601: C = 0.5 for tranquil flow, 1.0 for rapid flow in
+a simple circular curve (from memory). Rapid flow in curves also forms
+cross waves; spiral transitions or banked inverts are the usual measure.
+
+Remedies: raise the outer bank (or lining) over the bend, increase the
+radius, reduce the velocity in the bend, or for supercritical flow use
+spiral transitions or a banked invert.`,
+	Check: checkSuperelevation,
+}
+
+func checkSuperelevation(ctx *Context, report func(Finding)) {
+	cfg := ctx.Config
+	u := ctx.units()
+	g := u.Gravity()
+	cSub, cSup := cfg.SubcriticalCoefficient, cfg.SupercriticalCoefficient
+	if cSub <= 0 {
+		cSub = defaultSubcriticalC
+	}
+	if cSup <= 0 {
+		cSup = defaultSupercriticalC
+	}
+	for _, ev := range ctx.events() {
+		for _, rr := range reaches(ev) {
+			for _, bend := range rr.Reach.Bends {
+				if bend.Radius <= 0 {
+					continue
+				}
+				blk := block{Kind: "bend", Name: bend.Name, Src: &bend.Src}
+				lo := bend.FromStation - exceptionTolerance(bend.FromStation)
+				hi := bend.ToStation + exceptionTolerance(bend.ToStation)
+				sub, offset := pointsBetween(rr, lo, hi)
+				spans := scan(sub, lower, func(p *solver.Point) verdict {
+					sec := sectionAt(rr, p)
+					if sec == nil || sec.Closed() || p.Depth <= 0 || !finite(sec.Height) {
+						return verdict{skip: true}
+					}
+					c := cSub
+					if p.Froude >= 1 {
+						c = cSup
+					}
+					dy := c * p.Velocity * p.Velocity * p.TopWidth / (g * bend.Radius)
+					top := p.Invert + sec.Height
+					remaining := top - (p.WSE + dy)
+					// The radius at which the rise just leaves the minimum:
+					// rc = C·V²·T/(g·(top − WSE − minimum)); none exists when the
+					// straight channel already lacks the minimum.
+					room := top - p.WSE - cfg.Minimum
+					need := math.MaxFloat64
+					if room > 0 {
+						need = c * p.Velocity * p.Velocity * p.TopWidth / (g * room)
+					}
+					return verdict{fail: remaining < cfg.Minimum-1e-12*max(1, cfg.Minimum),
+						value: remaining, limit: cfg.Minimum, short: cfg.Minimum - remaining,
+						aux: need, kind: 0, block: blk}
+				})
+				for _, s := range spans {
+					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset
+					report(spanFinding(ev, rr, s, superelevationMessage(rr, bend, s, cSub, cSup, u)))
+				}
+			}
+		}
+	}
+}
+
+// pointsBetween returns a reach result restricted to the points with
+// lo ≤ station ≤ hi (points are ordered by station), and the index of its
+// first point in the whole result.
+func pointsBetween(rr *solver.ReachResult, lo, hi float64) (*solver.ReachResult, int) {
+	i := sort.Search(len(rr.Points), func(k int) bool { return rr.Points[k].Station >= lo })
+	j := max(i, sort.Search(len(rr.Points), func(k int) bool { return rr.Points[k].Station > hi }))
+	cp := *rr
+	cp.Points = rr.Points[i:j]
+	return &cp, i
+}
+
+func superelevationMessage(rr *solver.ReachResult, bend *model.Bend, s span, cSub, cSup float64, u model.Units) string {
+	lu := u.Length()
+	p := &rr.Points[s.worst]
+	c := cSub
+	if p.Froude >= 1 {
+		c = cSup
+	}
+	top := p.Invert + sectionAt(rr, p).Height
+	dy := top - p.WSE - s.value
+	rem, lim := numPair(s.value, s.limit)
+	msg := fmt.Sprintf("in bend %q (radius %s %s) the water surface at the outer bank rises %s %s "+
+		"(Δy = C·V²·T/(g·rc), C = %s, V %s %s, T %s %s), leaving %s %s to the top of bank where %s %s is required %s; "+
+		"raise the outer bank by at least %s %s over the bend",
+		bend.Name, num(bend.Radius), lu, num(dy), lu, num(c), num(p.Velocity), velocityUnit(u), num(p.TopWidth), lu,
+		rem, lu, lim, lu, s.where(u), num(s.short), lu)
+	if s.aux < math.MaxFloat64 {
+		msg += fmt.Sprintf(", or make the radius at least %s %s", num(s.aux), lu)
+	}
+	if s.value < 0 {
+		msg = "the water surface at the outer bank rises above the top of bank: the channel overtops here; " + msg
+	}
+	return msg
+}
