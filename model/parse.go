@@ -1,12 +1,14 @@
 package model
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
+	"slices"
 
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclparse"
@@ -76,7 +78,12 @@ func ReadFile(filename string) ([]byte, hcl.Diagnostics) {
 // diagnostics hold an error; every problem of the file is reported in one
 // call. Warnings may accompany a valid model.
 func Parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
-	filename = filepath.ToSlash(filename)
+	m, diags := parse(filepath.ToSlash(filename), src)
+	sortDiagnostics(diags)
+	return m, diags
+}
+
+func parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	start := hcl.Range{Filename: filename, Start: hcl.InitialPos, End: hcl.InitialPos}
 	var d diagnoser
 	if len(src) > MaxFileSize {
@@ -112,6 +119,24 @@ func Parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 		return nil, d.diags
 	}
 	return m, d.diags
+}
+
+// sortDiagnostics orders diagnostics by position so that a file's
+// problems read from top to bottom.
+func sortDiagnostics(diags hcl.Diagnostics) {
+	slices.SortStableFunc(diags, func(a, b *hcl.Diagnostic) int {
+		if a.Subject == nil || b.Subject == nil {
+			return cmp.Compare(btoi(a.Subject != nil), btoi(b.Subject != nil))
+		}
+		return cmp.Compare(a.Subject.Start.Byte, b.Subject.Start.Byte)
+	})
+}
+
+func btoi(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
 }
 
 // nestingTooDeep scans src for bracket nesting beyond MaxNesting outside

@@ -1,0 +1,19 @@
+# A reach without a length.
+units = "si"
+section "lined" {
+  shape        = "rectangle"
+  bottom_width = 2.0
+  height       = 1.2
+  roughness    = 0.015
+  lining       = "concrete"
+}
+reach "main" { # want "Missing required argument"
+  from    = "top"
+  to      = "outfall"
+  section = "lined"
+  slope   = 0.002
+}
+event "q100" {
+  inflow = { "main" = 3.0 }
+  outlet = { depth = 0.8 }
+}

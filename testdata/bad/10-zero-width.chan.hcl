@@ -1,0 +1,20 @@
+# A bottom width of zero.
+units = "si"
+section "lined" {
+  shape        = "rectangle"
+  bottom_width = 0 # want "Value must be positive"
+  height       = 1.2
+  roughness    = 0.015
+  lining       = "concrete"
+}
+reach "main" {
+  from    = "top"
+  to      = "outfall"
+  length  = 400
+  section = "lined"
+  slope   = 0.002
+}
+event "q100" {
+  inflow = { "main" = 3.0 }
+  outlet = { depth = 0.8 }
+}

@@ -1,0 +1,28 @@
+# Two networks in one file: two outlets.
+units = "si"
+section "lined" {
+  shape        = "rectangle"
+  bottom_width = 2.0
+  height       = 1.2
+  roughness    = 0.015
+  lining       = "concrete"
+}
+reach "main" {
+  from    = "top"
+  to      = "outfall"
+  length  = 400
+  section = "lined"
+  slope   = 0.002
+}
+reach "side" {
+  from    = "hill"
+  to      = "pond" # want "More than one outlet"
+  
+  length  = 400
+  section = "lined"
+  slope   = 0.002
+}
+event "q100" {
+  inflow = { "main" = 3.0, "side" = 1.0 }
+  outlet = { depth = 0.8 }
+}

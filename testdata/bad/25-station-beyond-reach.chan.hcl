@@ -1,0 +1,25 @@
+# A basin past the end of its reach.
+units = "si"
+section "lined" {
+  shape        = "rectangle"
+  bottom_width = 2.0
+  height       = 1.2
+  roughness    = 0.015
+  lining       = "concrete"
+}
+reach "main" {
+  from    = "top"
+  to      = "outfall"
+  length  = 400
+  section = "lined"
+  slope   = 0.002
+}
+basin "pool" {
+  reach        = "main"
+  from_station = 380
+  to_station   = 420 # want "Station outside the reach"
+}
+event "q100" {
+  inflow = { "main" = 3.0 }
+  outlet = { depth = 0.8 }
+}

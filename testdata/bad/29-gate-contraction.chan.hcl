@@ -1,0 +1,25 @@
+# A contraction coefficient above 1.
+units = "si"
+section "lined" {
+  shape        = "rectangle"
+  bottom_width = 2.0
+  height       = 1.2
+  roughness    = 0.015
+  lining       = "concrete"
+}
+reach "main" {
+  from    = "top"
+  to      = "outfall"
+  length  = 400
+  section = "lined"
+  slope   = 0.002
+}
+gate "head" {
+  reach       = "main"
+  opening     = 0.3
+  contraction = 1.2 # want "Contraction out of range"
+}
+event "q100" {
+  inflow = { "main" = 3.0 }
+  outlet = { depth = 0.8 }
+}

@@ -1,0 +1,29 @@
+# A reach takes one gate at its upstream end.
+units = "si"
+section "lined" {
+  shape        = "rectangle"
+  bottom_width = 2.0
+  height       = 1.2
+  roughness    = 0.015
+  lining       = "concrete"
+}
+reach "main" {
+  from    = "top"
+  to      = "outfall"
+  length  = 400
+  section = "lined"
+  slope   = 0.002
+}
+gate "head" {
+  reach   = "main"
+  opening = 0.3
+}
+
+gate "second" {
+  reach   = "main" # want "More than one gate on a reach"
+  opening = 0.4
+}
+event "q100" {
+  inflow = { "main" = 3.0 }
+  outlet = { depth = 0.8 }
+}

@@ -1,0 +1,28 @@
+# An entrance depth where two reaches meet.
+units = "si"
+section "lined" {
+  shape        = "rectangle"
+  bottom_width = 2.0
+  height       = 1.2
+  roughness    = 0.015
+  lining       = "concrete"
+}
+reach "main" {
+  from    = "top"
+  to      = "junction"
+  length  = 400
+  section = "lined"
+  slope   = 0.002
+}
+reach "lower" {
+  from    = "junction"
+  to      = "outfall"
+  length  = 400
+  section = "lined"
+  slope   = 0.002
+}
+event "q100" {
+  inflow = { "main" = 3.0 }
+  outlet = { depth = 0.8 }
+  entrance = { "lower" = 0.5 } # want "Entrance on a reach with inflow from upstream"
+}
