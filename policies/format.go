@@ -16,7 +16,8 @@ import (
 // settings: a comment with the chain it came from, then one policy block
 // whose rule blocks each carry a comment naming the file and line that set
 // them. A number converted from other units is rounded to 6 significant
-// digits, so the text loads back to the same settings within 1e-6.
+// digits, so the text loads back to the same settings within 5e-6
+// relative.
 func Format(p *Policy) []byte {
 	f := hclwrite.NewEmptyFile()
 	top := f.Body()

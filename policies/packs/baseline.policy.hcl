@@ -68,10 +68,9 @@ policy "baseline" {
   }
 
   superelevation {
-    # Δy = C·V²·T/(g·rc): C = 0.5 subcritical, 1.0 supercritical in a simple
-    # curve, USACE EM 1110-2-1601 (1994) (from memory).
-    subcritical_coefficient   = 0.5
-    supercritical_coefficient = 1.0
+    # Δy = C·V²·T/(g·rc), rc the centreline radius, T the top width.
+    subcritical_coefficient   = 0.5 # tranquil flow: USACE EM 1110-2-1601 (1994) (from memory)
+    supercritical_coefficient = 1.0 # rapid flow, simple curve: USACE EM 1110-2-1601 (1994) (from memory)
     # The outer bank keeps the 0.3 m freeboard above the raised surface:
     # EM 1110-2-1601 (1994) adds the bend rise to the freeboard (from memory).
     minimum  = 0.3

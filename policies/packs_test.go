@@ -1,0 +1,213 @@
+package policies
+
+import (
+	"bufio"
+	"bytes"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+	"gonum.org/v1/gonum/floats/scalar"
+)
+
+func TestPacksLoadWithoutDiagnostics(t *testing.T) {
+	names := PackNames()
+	assert.Equal(t, []string{"baseline", "baseline-us", "strict"}, names)
+	for _, n := range names {
+		p, diags := Pack(n)
+		require.Empty(t, diags, n)
+		require.NotNil(t, p, n)
+		assert.Equal(t, n, p.Name, "a pack's policy block carries the pack's name")
+		assert.Equal(t, "pack:"+n, p.File)
+		assert.NotEmpty(t, p.Reference, n)
+		src, ok := PackSource(n)
+		require.True(t, ok)
+		assert.Contains(t, string(src), `policy "`+n+`"`)
+	}
+	_, ok := PackSource("nope")
+	assert.False(t, ok)
+	_, diags := Pack("nope")
+	assert.True(t, diags.HasErrors())
+}
+
+func TestBaselineTurnsOnEveryRule(t *testing.T) {
+	for _, n := range []string{"baseline", "baseline-us", "strict"} {
+		p, diags := Pack(n)
+		require.Empty(t, diags)
+		assert.ElementsMatch(t, Configurable(), keys(p.Rules), n)
+		for id, rc := range p.Rules {
+			assert.Equal(t, id, rc.Rule)
+		}
+	}
+}
+
+// numberRe finds a number in the code part of a line.
+var numberRe = regexp.MustCompile(`(^|[^A-Za-z0-9_.])-?[0-9]+(\.[0-9]+)?`)
+
+// sourceRe is what a comment must contain to name a source: a year of
+// publication, or the marker for a value of the trade.
+var sourceRe = regexp.MustCompile(`\b(1[89][0-9]{2}|20[0-9]{2})\b|common practice`)
+
+// Every number in a pack file carries a comment naming its source, on the
+// same line or in the comment lines directly above.
+func TestEveryPackNumberNamesASource(t *testing.T) {
+	for _, n := range PackNames() {
+		src, _ := PackSource(n)
+		var above []string // comment lines directly above the current line
+		sc := bufio.NewScanner(bytes.NewReader(src))
+		line := 0
+		numbers := 0
+		for sc.Scan() {
+			line++
+			text := sc.Text()
+			code, comment, _ := strings.Cut(text, "#")
+			if strings.TrimSpace(code) == "" {
+				if strings.TrimSpace(comment) != "" {
+					above = append(above, comment)
+				} else {
+					above = nil
+				}
+				continue
+			}
+			if strings.Contains(code, `"`) { // quoted text (names, references) is not a setting
+				code = regexp.MustCompile(`"[^"]*"`).ReplaceAllString(code, `""`)
+			}
+			if numberRe.MatchString(code) {
+				numbers++
+				context := comment + " " + strings.Join(above, " ")
+				assert.Regexp(t, sourceRe, context, "%s line %d: %q has no comment naming a source", n, line, text)
+			}
+			above = nil
+		}
+		assert.Positive(t, numbers, n)
+	}
+}
+
+// The US pack says the same as the SI baseline, within the rounding of the
+// SI pack to 0.01 m/s and 3 significant digits of stress.
+func TestBaselineAndBaselineUSAgree(t *testing.T) {
+	si, _ := Pack("baseline")
+	us, _ := Pack("baseline-us")
+	conv := us.In(model.SI)
+	for id, a := range si.Rules {
+		b := conv.Rules[id]
+		require.NotNil(t, b, id)
+		assert.Equal(t, a.Severity, b.Severity, id)
+		assert.Equal(t, a.Avoid, b.Avoid, id)
+		assert.Equal(t, a.Fraction, b.Fraction, id)
+		assert.Equal(t, a.SubcriticalCoefficient, b.SubcriticalCoefficient, id)
+		assert.Equal(t, a.SupercriticalCoefficient, b.SupercriticalCoefficient, id)
+		// 1 ft = 0.3048 m, so 0.3 m against 1 ft differs by 1.6 %.
+		assert.True(t, scalar.EqualWithinAbsOrRel(a.Minimum, b.Minimum, 1e-9, 0.02), "%s minimum %g vs %g", id, a.Minimum, b.Minimum)
+		assert.Equal(t, a.Limit.HasDefault, b.Limit.HasDefault, id)
+		// concrete 6.0 m/s against 20 ft/s (6.096 m/s) and riprap 3.0 m/s
+		// against 10 ft/s (3.048 m/s) are the largest roundings, 1.6 %.
+		assert.True(t, scalar.EqualWithinAbsOrRel(a.Limit.Default, b.Limit.Default, 1e-9, 0.02), id)
+		assert.Equal(t, a.Limit.NoLimit, b.Limit.NoLimit, id)
+		require.Equal(t, len(a.Limit.Values), len(b.Limit.Values), id)
+		for k, v := range a.Limit.Values {
+			assert.True(t, scalar.EqualWithinAbsOrRel(v, b.Limit.Values[k], 1e-9, 0.02), "%s %s: %g vs %g", id, k, v, b.Limit.Values[k])
+		}
+	}
+}
+
+func TestStrictIsTighterThanBaseline(t *testing.T) {
+	base, _ := Pack("baseline")
+	strict, _ := Pack("strict")
+	assert.Equal(t, []string{"pack:strict", "pack:baseline"}, strict.Chain)
+	assert.GreaterOrEqual(t, strict.Rules["freeboard"].Minimum, base.Rules["freeboard"].Minimum)
+	assert.Greater(t, strict.Rules["freeboard"].Fraction, base.Rules["freeboard"].Fraction)
+	sMin, _ := strict.Rules["min_velocity"].Limit.For("")
+	bMin, _ := base.Rules["min_velocity"].Limit.For("")
+	assert.Greater(t, sMin, bMin)
+	for id, rc := range strict.Rules {
+		assert.GreaterOrEqual(t, rc.Severity.Rank(), base.Rules[id].Severity.Rank(), id)
+	}
+	assert.Equal(t, "pack:baseline", strict.Rules["max_velocity"].File, "inherited unchanged")
+}
+
+// Format writes HCL that loads back to the same effective policy.
+func TestFormatRoundTrip(t *testing.T) {
+	root, err := filepath.Abs("..")
+	require.NoError(t, err)
+	var cases []*Policy
+	for _, n := range PackNames() {
+		p, _ := Pack(n)
+		cases = append(cases, p, p.In(model.US), p.In(model.SI))
+	}
+	p, diags := NewLoader(root).Load(filepath.Join(root, "testdata", "policies", "reviewer.policy.hcl"))
+	require.Empty(t, diags)
+	cases = append(cases, p)
+	for _, want := range cases {
+		text := Format(want)
+		assert.Contains(t, string(text), "# Merged from (child first): "+strings.Join(want.Chain, " → "))
+		got, diags, _ := loadSource(t, string(text))
+		require.Empty(t, diags, "%s", text)
+		assert.Equal(t, want.Name, got.Name)
+		assert.Equal(t, want.Units, got.Units)
+		assert.Equal(t, want.Reference, got.Reference)
+		assert.Equal(t, want.Exceptions, got.Exceptions)
+		require.ElementsMatch(t, keys(want.Rules), keys(got.Rules))
+		for id, w := range want.Rules {
+			g := got.Rules[id]
+			// Converted numbers are printed to 6 significant digits: at
+			// most half a unit of the sixth digit, 5e-6 relative.
+			const rel = 5e-6
+			assert.Equal(t, w.Severity, g.Severity, id)
+			assert.Equal(t, w.Events, g.Events, id)
+			assert.Equal(t, w.Avoid, g.Avoid, id)
+			assert.True(t, scalar.EqualWithinAbsOrRel(w.Minimum, g.Minimum, 0, rel), id)
+			assert.Equal(t, w.Fraction, g.Fraction, id)
+			assert.Equal(t, w.SubcriticalCoefficient, g.SubcriticalCoefficient, id)
+			assert.Equal(t, w.SupercriticalCoefficient, g.SupercriticalCoefficient, id)
+			assert.Equal(t, w.Limit.HasDefault, g.Limit.HasDefault, id)
+			assert.True(t, scalar.EqualWithinAbsOrRel(w.Limit.Default, g.Limit.Default, 0, rel), id)
+			assert.Equal(t, w.Limit.NoLimit, g.Limit.NoLimit, id)
+			for k, v := range w.Limit.Values {
+				assert.True(t, scalar.EqualWithinAbsOrRel(v, g.Limit.Values[k], 0, rel), "%s %s", id, k)
+			}
+		}
+	}
+}
+
+func TestFormatNumber(t *testing.T) {
+	twenty := 20.0
+	for _, c := range []struct {
+		in   float64
+		want string
+	}{
+		{0.3, "0.3"},
+		{20, "20"},
+		{0.075, "0.075"},
+		{0.3 / 0.3048, "0.984252"},
+		{6.096, "6.096"},
+		{twenty * 0.3048, "6.096"}, // computed at run time: 6.096000000000001
+		{1234.5678, "1234.5678"},
+		{-0.25, "-0.25"},
+		{PascalsPerPSF, "47.8803"},
+		{1e-9, "1e-09"},
+	} {
+		assert.Equal(t, c.want, formatNumber(c.in), "%v", c.in)
+	}
+}
+
+func TestFormatQuotesOddLiningWords(t *testing.T) {
+	p, diags, _ := loadSource(t, `policy "x" {
+  units = "si"
+  max_velocity { limit = { "dumped riprap" = 3.0, concrete = 6 } }
+  min_velocity {
+    limit  = 0.6
+    events = ["q2", "q10"]
+  }
+}`)
+	require.Empty(t, diags)
+	text := string(Format(p))
+	assert.Contains(t, text, `"dumped riprap" = 3`)
+	assert.Contains(t, text, `concrete`)
+	assert.Contains(t, text, `events   = ["q2", "q10"]`)
+	assert.NotContains(t, text, "extends", "the effective policy is already merged")
+}
