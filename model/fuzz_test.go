@@ -1,0 +1,75 @@
+package model
+
+import (
+	"math"
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// FuzzParse feeds arbitrary bytes to Parse, seeded with the demo, the valid
+// models and the bad corpus. Parse must not panic; it returns a model
+// exactly when there is no error; every diagnostic has a position; and a
+// returned model holds no NaN or Inf.
+func FuzzParse(f *testing.F) {
+	for _, pattern := range []string{"../testdata/demo/*" + Suffix, "../testdata/valid/*" + Suffix, "../testdata/bad/*" + Suffix} {
+		files, err := filepath.Glob(pattern)
+		if err != nil {
+			f.Fatal(err)
+		}
+		for _, file := range files {
+			src, err := os.ReadFile(file)
+			if err != nil {
+				f.Fatal(err)
+			}
+			f.Add(src)
+		}
+	}
+	f.Fuzz(func(t *testing.T, src []byte) {
+		m, diags := Parse("fuzz.chan.hcl", src)
+		if (m == nil) != diags.HasErrors() {
+			t.Fatalf("model %v with errors=%v: %s", m != nil, diags.HasErrors(), diags.Error())
+		}
+		for _, d := range diags {
+			if d.Subject == nil {
+				t.Fatalf("diagnostic without position: %s", d.Summary)
+			}
+		}
+		if m != nil {
+			checkFinite(t, m)
+		}
+	})
+}
+
+func checkFinite(t *testing.T, m *Model) {
+	t.Helper()
+	bad := func(what string, vs ...float64) {
+		for _, v := range vs {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				t.Fatalf("%s is %v", what, v)
+			}
+		}
+	}
+	for _, s := range m.Sections {
+		bad("section "+s.Name, s.BottomWidth, s.SideSlope, s.Diameter, s.Height, s.Banks[0], s.Banks[1], s.Roughness[0], s.Roughness[1], s.Roughness[2])
+		for _, p := range s.Points {
+			bad("point of "+s.Name, p.Offset, p.Elevation)
+		}
+	}
+	for _, r := range m.Reaches {
+		bad("reach "+r.Name, r.Length, r.InvertUp, r.InvertDown, r.Slope, r.MaxSpacing)
+		if r.Section == nil {
+			t.Fatalf("reach %s has no section", r.Name)
+		}
+	}
+	for _, e := range m.Events {
+		bad("discharge of "+e.Name, e.Discharge...)
+		bad("outlet of "+e.Name, e.Outlet.Value)
+		if len(e.Discharge) != len(m.Reaches) {
+			t.Fatalf("event %s has %d discharges for %d reaches", e.Name, len(e.Discharge), len(m.Reaches))
+		}
+	}
+	if m.Network == nil || len(m.Network.Order) != len(m.Reaches) {
+		t.Fatalf("network order incomplete")
+	}
+}
