@@ -117,6 +117,10 @@ type ReachResult struct {
 	Points     []Point       // ordered by station (non-decreasing)
 	Jumps      []Jump        // ordered by station
 	Notes      []Note        // ordered by station
+	// GateUpstreamDepth is the depth just upstream of a controlling sluice
+	// gate at station 0 (energy balance through the gate without loss, in
+	// the reach's section at station 0); 0 without a controlling gate.
+	GateUpstreamDepth float64
 }
 
 // ProfileTypes lists the distinct profile types in station order of first

@@ -1,0 +1,278 @@
+package solver
+
+import (
+	"math"
+
+	"github.com/chanlint/chanlint/model"
+)
+
+// This file holds the boundary conditions of each reach: the outlet
+// control, junctions, sluice gates and entrance depths.
+//
+// Junction rules (dendritic network):
+//   - Subcritical: energy balance without loss. Every reach ending at a
+//     node gets as its downstream control the energy grade elevation H at
+//     the start of the reach leaving the node; its end depth solves
+//     z + E(y) = H on the subcritical branch of its own section. If H is
+//     below the reach's critical energy (a drop at the junction), the reach
+//     ends at critical depth: a free fall into the junction, which is a
+//     control and not a numerical fallback.
+//   - Supercritical inflow: when at least one incoming reach arrives
+//     supercritical, the outgoing reach starts on its supercritical branch
+//     at the discharge-weighted energy grade elevation of all incoming
+//     flows, H = Σ Qᵢ·Hᵢ / Σ Qᵢ (conservation of energy flux without
+//     loss), and its supercritical profile is then compared with its
+//     subcritical one as for any upstream control. With more than one
+//     incoming reach a NoteControl records the rule. If H is below the
+//     outgoing reach's critical energy, critical depth is taken, with a
+//     NoteControl. If the outgoing reach's subcritical flow has the greater
+//     specific force at its start, the jump is placed at the junction
+//     (station 0 of the outgoing reach) with a NoteControl.
+//   - A gate at station 0 of the outgoing reach sets the energy upstream
+//     instead (see gateHead).
+
+// depths computes critical and normal depth and the slope class of one
+// section for discharge q on bed slope s0.
+//
+// Slope class (Chow 1959, ch. 9): horizontal where |S0| ≤ 1e-9; adverse
+// where S0 < 0; critical where |yn − yc| ≤ 1 % of yc (the 1 % is this
+// solver's choice: closer than that the two regimes cannot be told apart
+// within the accuracy of a design flow); mild where yn > yc; steep where
+// yn < yc. A closed conduit too small to carry q at normal flow has no
+// normal depth and is classed mild: its uniform flow would be above the
+// crown, which is above critical depth.
+func (s *solver) depths(g *Geometry, q, s0 float64) (yc, yn float64, hasN bool, class SlopeClass) {
+	if q <= 0 {
+		return 0, 0, false, classOf(s0, 0, 0, false)
+	}
+	yc, _ = CriticalDepth(g, q)
+	if !(yc > 0) || math.IsInf(yc, 0) {
+		// No critical depth (a degenerate section, or a conduit that is
+		// supercritical up to its crown): use the crown or a unit depth so
+		// that the branches stay defined.
+		yc = g.Height()
+		if !(yc > 0) {
+			yc = 1
+		}
+	}
+	if math.Abs(s0) > slopeHorizontal && s0 > 0 {
+		if v, err := NormalDepth(g, q, s0); err == nil && v > 0 && !math.IsInf(v, 0) {
+			yn, hasN = v, true
+		}
+	}
+	return yc, yn, hasN, classOf(s0, yn, yc, hasN)
+}
+
+// slopeHorizontal is the bed slope below which a reach counts as
+// horizontal (inverts written to a few decimals differ by rounding).
+const slopeHorizontal = 1e-9
+
+// classOf applies the slope-class rule of depths.
+func classOf(s0, yn, yc float64, hasN bool) SlopeClass {
+	switch {
+	case math.Abs(s0) <= slopeHorizontal:
+		return Horizontal
+	case s0 < 0:
+		return Adverse
+	case !hasN:
+		return Mild
+	case math.Abs(yn-yc) <= 0.01*yc:
+		return CriticalSl
+	case yn > yc:
+		return Mild
+	}
+	return Steep
+}
+
+// downstreamBoundary is the depth at the downstream end of a reach that
+// starts its subcritical profile; crit is true when that depth is critical.
+func (s *solver) downstreamBoundary(w *reachWork, ev *model.Event) (y float64, crit bool) {
+	last := &w.pieces[len(w.pieces)-1]
+	z := w.f.invert(w.f.length)
+	if d := w.r.Downstream; d != nil && d.Index >= 0 && d.Index < len(s.work) && s.work[d.Index].q > 0 {
+		y, ok := w.f.solveBranch(last, z, 0, s.work[d.Index].junctionH, false)
+		if !ok {
+			return last.yc, true
+		}
+		return y, false
+	}
+	return s.outletBoundary(w, ev, last, z)
+}
+
+// outletBoundary applies the event's outlet control at the downstream end
+// of the outlet reach:
+//   - depth: the depth given;
+//   - elevation: the elevation minus the invert; at or below the invert the
+//     outlet is a free outfall and critical depth is taken (NoteControl);
+//   - normal: normal depth of the last section; where none exists
+//     (horizontal or adverse bed, or a conduit that cannot carry the flow)
+//     critical depth is taken (NoteControl);
+//   - critical: critical depth.
+//
+// A depth below critical cannot start a subcritical profile: critical depth
+// is taken instead, and finish records a NoteControl if the flow arrives
+// subcritical there.
+func (s *solver) outletBoundary(w *reachWork, ev *model.Event, last *piece, z float64) (float64, bool) {
+	out := ev.Outlet
+	w.outletKind = out.Kind
+	L := w.f.length
+	y := last.yc
+	switch out.Kind {
+	case model.OutletDepth:
+		y = out.Value
+	case model.OutletElevation:
+		y = out.Value - z
+		if !(y > 0) {
+			w.outletNotes = append(w.outletNotes, noteControl(L,
+				"outlet water level %s is at or below the invert %s: the outlet is a free outfall and critical depth %s is taken",
+				num(out.Value), num(z), num(last.yc)))
+			y = last.yc
+		}
+	case model.OutletNormal:
+		if last.hasN {
+			y = last.yn
+		} else {
+			why := "the bed is horizontal or adverse"
+			if w.f.s0 > slopeHorizontal {
+				why = "the section cannot carry the discharge in uniform flow"
+			}
+			w.outletNotes = append(w.outletNotes, noteControl(L,
+				"outlet condition \"normal\" has no normal depth here (%s): critical depth %s is taken", why, num(last.yc)))
+		}
+	case model.OutletCritical:
+	default:
+		w.outletNotes = append(w.outletNotes, noteControl(L,
+			"event has no outlet control: critical depth %s is taken at the outlet", num(last.yc)))
+	}
+	if !(y > 0) || math.IsInf(y, 0) {
+		y = last.yc
+	}
+	w.outletReq = y
+	if y <= last.yc {
+		return last.yc, true
+	}
+	return y, false
+}
+
+// gateHead sets the energy grade elevation a reach imposes upstream of its
+// station 0 (pass 1, after its subcritical profile).
+//
+// Without a gate it is the energy of the subcritical profile at station 0.
+// With a sluice gate whose vena contracta depth yv = Cc·a is below
+// critical depth, the flow under the gate is taken without loss
+// (Henderson 1966, §6.6):
+//
+//	E_upstream = yv + Q²/(2·g·A(yv)²)
+//
+// and the depth just upstream of the gate is the subcritical depth with
+// that specific energy in the reach's section at station 0
+// (ReachResult.GateUpstreamDepth). If the gate is drowned (the
+// subcritical flow below it has the greater specific force), the larger of
+// that free-flow energy and the energy of the subcritical flow downstream
+// is used: a screening approximation that does not model the submerged
+// gate's extra head loss. A gate whose vena contracta is not below critical
+// depth does not control the flow (NoteControl) and the subcritical energy
+// is passed upstream.
+func (s *solver) gateHead(w *reachWork) {
+	p0 := &w.pieces[0]
+	sub := s.subBuf[w.subLo:w.subHi]
+	z0 := w.f.invert(0)
+	hSub := z0 + w.f.eval(p0, sub[0].y).e
+	w.junctionH = hSub
+	g := w.r.Gate
+	if g == nil {
+		return
+	}
+	yv := g.VenaContracta()
+	if !(yv > 0) || math.IsInf(yv, 0) {
+		return
+	}
+	if yv >= p0.yc {
+		w.res.Notes = append(w.res.Notes, noteControl(0,
+			"gate %q: the vena contracta depth %s (%s × opening %s) is not below critical depth %s, so the gate does not control the flow",
+			g.Name, num(yv), num(g.Contraction), num(g.Opening), num(p0.yc)))
+		return
+	}
+	w.gateActs, w.gateY = true, yv
+	h := math.Max(z0+w.f.eval(p0, yv).e, hSub)
+	w.junctionH = h
+	if y, ok := w.f.solveBranch(p0, z0, 0, h, false); ok {
+		w.res.GateUpstreamDepth = y
+	}
+}
+
+// upstreamControl is the supercritical control at station 0 of a reach:
+// a controlling gate, else an entrance depth below critical depth, else
+// supercritical flow arriving from the reaches upstream. Without one, the
+// walk of combine starts subcritical and switches to a supercritical
+// profile only where the subcritical one reached critical depth (the head
+// of a steep reach).
+func (s *solver) upstreamControl(w *reachWork) superControl {
+	p0 := &w.pieces[0]
+	if w.gateActs {
+		return superControl{ok: true, y: w.gateY, kind: "gate"}
+	}
+	if ye := s.entrance[w.r.Index]; ye > 0 {
+		if ye < p0.yc {
+			return superControl{ok: true, y: ye, kind: "entrance"}
+		}
+		sub := s.subBuf[w.subLo:w.subHi]
+		w.res.Notes = append(w.res.Notes, noteControl(0,
+			"entrance depth %s is not below critical depth %s: subcritical flow is set from downstream, and the computed depth at station 0 is %s",
+			num(ye), num(p0.yc), num(sub[0].y)))
+	}
+	var qs, qh float64
+	anySuper := false
+	for _, u := range w.r.Upstream {
+		if u == nil || u.Index < 0 || u.Index >= len(s.work) {
+			continue
+		}
+		uw := &s.work[u.Index]
+		if uw.q <= 0 {
+			continue
+		}
+		qs += uw.q
+		qh += uw.q * uw.endH
+		anySuper = anySuper || uw.endSuper
+	}
+	if !anySuper || !(qs > 0) {
+		return superControl{}
+	}
+	h := qh / qs
+	z0 := w.f.invert(0)
+	y, ok := w.f.solveBranch(p0, z0, 0, h, true)
+	if !ok {
+		w.res.Notes = append(w.res.Notes, noteControl(0,
+			"supercritical flow arrives with energy grade elevation %s, below the critical energy of this reach (%s): critical depth is taken at its start",
+			num(h), num(z0+p0.ec)))
+		y = p0.yc
+	}
+	if len(w.r.Upstream) > 1 {
+		w.res.Notes = append(w.res.Notes, noteControl(0,
+			"supercritical inflow at junction %q: the depth %s at the start of this reach is taken from the discharge-weighted energy of the inflows, without loss",
+			w.r.From, num(y)))
+	}
+	return superControl{ok: true, y: y, kind: "inflow", arriving: true}
+}
+
+// drowned records an upstream control that the subcritical flow below it
+// overpowers (its specific force is greater at station 0).
+func (s *solver) drowned(w *reachWork, c superControl, ySub float64) {
+	switch c.kind {
+	case "gate":
+		w.res.Notes = append(w.res.Notes, noteControl(0,
+			"gate %q is submerged: the subcritical flow below it (depth %s) has a greater specific force than the jet at the vena contracta (depth %s), so the vena contracta depth does not apply and the flow is computed subcritical",
+			w.r.Gate.Name, num(ySub), num(c.y)))
+	case "entrance":
+		w.res.Notes = append(w.res.Notes, noteControl(0,
+			"entrance depth %s is drowned: the subcritical flow from downstream (depth %s at station 0) has a greater specific force, so the flow is computed subcritical",
+			num(c.y), num(ySub)))
+	default:
+		p0 := &w.pieces[0]
+		w.final = append(w.final, pt{x: 0, y: c.y, piece: 0, super: true})
+		s.addJump(w, p0, 0, c.y, ySub)
+		w.res.Notes = append(w.res.Notes, noteControl(0,
+			"supercritical flow arriving at node %q (depth %s) meets subcritical flow (depth %s) with a greater specific force: the jump forms at or upstream of the junction and is placed at station 0",
+			w.r.From, num(c.y), num(ySub)))
+	}
+}

@@ -1,0 +1,60 @@
+package solver
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+)
+
+// num formats a length or level for a note: four significant digits,
+// never NaN or Inf in the text.
+func num(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "?"
+	}
+	return strconv.FormatFloat(v, 'g', 4, 64)
+}
+
+// noteControl is a NoteControl at a station.
+func noteControl(station float64, format string, args ...any) Note {
+	return Note{Kind: NoteControl, Station: station, Message: fmt.Sprintf(format, args...)}
+}
+
+// fallbackNotes turns each run of neighbouring points where critical
+// depth was taken for want of a solution of the energy equation into one
+// NoteCriticalFallback at the run's first station.
+func fallbackNotes(final []pt, pieces []piece, dst []Note) []Note {
+	for i := 0; i < len(final); {
+		if !final[i].fallback {
+			i++
+			continue
+		}
+		j := i
+		for j+1 < len(final) && final[j+1].fallback {
+			j++
+		}
+		branch := "subcritical"
+		if final[i].super {
+			branch = "supercritical"
+		}
+		a, b := final[i].x, final[j].x
+		yc := pieces[final[i].piece].yc
+		var msg string
+		if b > a {
+			msg = fmt.Sprintf("the energy equation has no %s solution from station %s to %s: critical depth %s is taken",
+				branch, num(a), num(b), num(yc))
+		} else {
+			msg = fmt.Sprintf("the energy equation has no %s solution at station %s: critical depth %s is taken",
+				branch, num(a), num(yc))
+		}
+		dst = append(dst, Note{Kind: NoteCriticalFallback, Station: a, Message: msg})
+		i = j + 1
+	}
+	return dst
+}
+
+// sortNotes orders notes by station, keeping the order of equal stations.
+func sortNotes(n []Note) {
+	sort.SliceStable(n, func(i, j int) bool { return n[i].Station < n[j].Station })
+}

@@ -1,0 +1,444 @@
+package solver
+
+import (
+	"math"
+	"sort"
+
+	"github.com/chanlint/chanlint/model"
+)
+
+// reachLayout is the event-independent part of a reach: its runs of one
+// section and the stations where a point must be computed.
+type reachLayout struct {
+	pieces []piece   // geometry and extent only; depths are per event
+	stops  []float64 // ascending: 0, length, segment, basin and bend ends
+	main   *Geometry // the reach's own section, for the slope class
+}
+
+// reachWork is one reach during one event.
+type reachWork struct {
+	r      *model.Reach
+	q      float64
+	f      flowCtx
+	pieces []piece
+	stops  []float64
+	res    *ReachResult
+
+	// Pass 1.
+	subLo, subHi int     // range of the subcritical profile in solver.subBuf
+	subPiece     []int32 // start index (relative to subLo) of each piece's points, plus the end
+	junctionH    float64 // energy grade elevation the reach imposes on reaches ending at its upstream node
+	gateActs     bool
+	gateY        float64
+	outletReq    float64 // depth the outlet control asks for (outlet reach only)
+	outletKind   model.OutletKind
+	outletNotes  []Note
+	boundaryCrit bool // the subcritical profile starts from critical depth
+
+	// Pass 2.
+	endSuper bool
+	endY     float64
+	endH     float64 // energy grade elevation at the downstream end
+	final    []pt
+}
+
+// layout splits a reach into runs of one section and collects its stops.
+func (s *solver) layout(r *model.Reach) reachLayout {
+	var lay reachLayout
+	if r.Section != nil {
+		lay.main = s.geometry(r.Section)
+	}
+	length := r.Length
+	if !(length > 0) || math.IsInf(length, 0) {
+		length = 0
+	}
+	clamp := func(x float64) float64 { return math.Min(math.Max(x, 0), length) }
+	bounds := []float64{0, length}
+	for _, seg := range r.Segments {
+		bounds = append(bounds, clamp(seg.FromStation), clamp(seg.ToStation))
+	}
+	bounds = uniqueSorted(bounds, length)
+	for i := 0; i+1 < len(bounds); i++ {
+		a, b := bounds[i], bounds[i+1]
+		sec := r.SectionAt((a + b) / 2)
+		if sec == nil {
+			sec = r.Section
+		}
+		if sec == nil {
+			continue
+		}
+		if n := len(lay.pieces); n > 0 && lay.pieces[n-1].geo.Section() == sec {
+			lay.pieces[n-1].to = b
+			continue
+		}
+		lay.pieces = append(lay.pieces, piece{from: a, to: b, geo: s.geometry(sec)})
+	}
+	if len(lay.pieces) == 0 && r.Section != nil {
+		lay.pieces = []piece{{from: 0, to: length, geo: lay.main}}
+	}
+	stops := []float64{0, length}
+	for _, p := range lay.pieces {
+		stops = append(stops, p.from, p.to)
+	}
+	for _, b := range r.Basins {
+		stops = append(stops, clamp(b.FromStation), clamp(b.ToStation))
+	}
+	for _, b := range r.Bends {
+		stops = append(stops, clamp(b.FromStation), clamp(b.ToStation))
+	}
+	lay.stops = uniqueSorted(stops, length)
+	return lay
+}
+
+// uniqueSorted sorts stations and drops those closer than 1e-9 of the
+// reach length to the previous one.
+func uniqueSorted(x []float64, length float64) []float64 {
+	sort.Float64s(x)
+	eps := 1e-9 * math.Max(length, 1)
+	out := x[:0]
+	for _, v := range x {
+		if len(out) > 0 && v-out[len(out)-1] <= eps {
+			continue
+		}
+		out = append(out, v)
+	}
+	return out
+}
+
+// prepare fills the per-event depths of the pieces and the slope class.
+func (s *solver) prepare(w *reachWork, lay *reachLayout) {
+	r := w.r
+	w.stops = lay.stops
+	w.pieces = append(w.pieces[:0], lay.pieces...)
+	w.f = flowCtx{q: w.q, zUp: r.InvertUp, s0: r.Slope, length: math.Max(r.Length, 0), tol: s.tol}
+	if r.Length > 0 {
+		w.f.s0 = (r.InvertUp - r.InvertDown) / r.Length
+	}
+	for i := range w.pieces {
+		p := &w.pieces[i]
+		p.yc, p.yn, p.hasN, p.class = s.depths(p.geo, w.q, w.f.s0)
+		p.ec = w.f.eval(p, p.yc).e
+	}
+	if lay.main != nil {
+		_, _, _, w.res.SlopeClass = s.depths(lay.main, w.q, w.f.s0)
+	}
+}
+
+// forceTie is the relative tolerance under which two specific forces are
+// taken as equal when the two regimes are compared.
+const forceTie = 1e-9
+
+// subAt interpolates the subcritical depth of piece pi at station x
+// linearly between the computed points of that piece.
+func (s *solver) subAt(w *reachWork, pi int32, x float64) float64 {
+	sub := s.subBuf[w.subLo:w.subHi]
+	lo, hi := int(w.subPiece[pi]), int(w.subPiece[pi+1])
+	if hi <= lo {
+		return w.pieces[pi].yc
+	}
+	pts := sub[lo:hi]
+	j := sort.Search(len(pts), func(i int) bool { return pts[i].x >= x })
+	if j == 0 {
+		return pts[0].y
+	}
+	if j == len(pts) {
+		return pts[len(pts)-1].y
+	}
+	a, b := pts[j-1], pts[j]
+	if b.x <= a.x {
+		return b.y
+	}
+	t := (x - a.x) / (b.x - a.x)
+	return a.y + t*(b.y-a.y)
+}
+
+// subExact computes the subcritical depth of piece pi at station x by one
+// standard step from the nearest computed point downstream of x.
+func (s *solver) subExact(w *reachWork, pi int32, x float64) float64 {
+	sub := s.subBuf[w.subLo:w.subHi]
+	lo, hi := int(w.subPiece[pi]), int(w.subPiece[pi+1])
+	p := &w.pieces[pi]
+	if hi <= lo {
+		return p.yc
+	}
+	pts := sub[lo:hi]
+	j := sort.Search(len(pts), func(i int) bool { return pts[i].x >= x })
+	if j == len(pts) {
+		j = len(pts) - 1
+	}
+	if pts[j].x == x || pts[j].fallback {
+		return pts[j].y
+	}
+	y, ok := w.f.standardStep(p, pts[j].x, pts[j].y, x, false)
+	if !ok {
+		return p.yc
+	}
+	return y
+}
+
+// firstSubAfter is the index (relative to subLo) of the first subcritical
+// point of piece pi with station > x, or the start of the next piece.
+func (s *solver) firstSubAfter(w *reachWork, pi int32, x float64) int {
+	sub := s.subBuf[w.subLo:w.subHi]
+	lo, hi := int(w.subPiece[pi]), int(w.subPiece[pi+1])
+	pts := sub[lo:hi]
+	return lo + sort.Search(len(pts), func(i int) bool { return pts[i].x > x })
+}
+
+// subcritical computes the reach's subcritical profile upstream from its
+// downstream control into solver.subBuf (pass 1).
+func (s *solver) subcritical(w *reachWork, ev *model.Event) {
+	w.subLo = len(s.subBuf)
+	w.subHi = w.subLo
+	if w.q == 0 || len(w.pieces) == 0 {
+		w.subPiece = w.subPiece[:0]
+		return
+	}
+	last := len(w.pieces) - 1
+	y, crit := s.downstreamBoundary(w, ev)
+	w.boundaryCrit = crit
+	x := w.pieces[last].to
+	s.subBuf = append(s.subBuf, pt{x: x, y: y, piece: int32(last)})
+	s.count(1)
+	var st stepper
+	var tmp [2]pt
+	for pi := last; pi >= 0 && !s.tooMany; pi-- {
+		p := &w.pieces[pi]
+		st.init(&w.f, p, pi, false, x, y, crit, w.r.MaxSpacing)
+		for si := len(w.stops) - 1; si >= 0 && !s.tooMany; si-- {
+			stop := w.stops[si]
+			if stop >= x || stop < p.from-1e-12*math.Max(w.f.length, 1) {
+				continue
+			}
+			for n := st.step(stop, &tmp); n > 0 && !s.tooMany; n = st.step(stop, &tmp) {
+				s.subBuf = append(s.subBuf, tmp[:n]...)
+				s.count(n)
+			}
+			x = stop
+		}
+		x, y, crit = p.from, st.y, st.atCrit
+		if pi > 0 {
+			// Transition into the section upstream: equal energy, no loss.
+			up := &w.pieces[pi-1]
+			z := w.f.invert(x)
+			target := z + w.f.eval(p, y).e
+			y2, ok := w.f.solveBranch(up, z, 0, target, false)
+			s.subBuf = append(s.subBuf, pt{x: x, y: y2, piece: int32(pi - 1), fallback: !ok})
+			s.count(1)
+			y, crit = y2, !ok
+		}
+	}
+	w.subHi = len(s.subBuf)
+	sub := s.subBuf[w.subLo:w.subHi]
+	for i, j := 0, len(sub)-1; i < j; i, j = i+1, j-1 {
+		sub[i], sub[j] = sub[j], sub[i]
+	}
+	w.subPiece = w.subPiece[:0]
+	pi := int32(-1)
+	for i, c := range sub {
+		for pi < c.piece {
+			w.subPiece = append(w.subPiece, int32(i))
+			pi++
+		}
+	}
+	for int(pi) < len(w.pieces) {
+		w.subPiece = append(w.subPiece, int32(len(sub)))
+		pi++
+	}
+	s.gateHead(w)
+}
+
+// superControl is an upstream control of a reach.
+type superControl struct {
+	ok       bool
+	y        float64
+	kind     string // "gate", "entrance", "inflow"
+	arriving bool   // supercritical flow arriving from upstream reaches
+}
+
+// combine walks the reach downstream, switching between the
+// supercritical profile (computed here, as it goes) and the subcritical
+// one of pass 1, and places the jumps (pass 2).
+func (s *solver) combine(w *reachWork, ev *model.Event) {
+	w.final = s.finBuf[:0]
+	if w.q == 0 || w.subHi <= w.subLo {
+		return
+	}
+	sub := s.subBuf[w.subLo:w.subHi]
+	ctrl := s.upstreamControl(w)
+	k := 0 // next subcritical point to emit
+	superAt := false
+	var sx, sy float64
+	var spi int32
+	atCrit := false
+	if ctrl.ok {
+		p0 := &w.pieces[0]
+		fs, fb := w.f.force(p0, ctrl.y), w.f.force(p0, sub[0].y)
+		if fs-fb >= -forceTie*math.Max(fs, fb) {
+			superAt, sx, sy, spi = true, 0, ctrl.y, 0
+			atCrit = ctrl.y == p0.yc
+			w.final = append(w.final, pt{x: 0, y: ctrl.y, piece: 0, super: true})
+		} else {
+			s.drowned(w, ctrl, sub[0].y)
+		}
+	}
+	for !s.tooMany {
+		if !superAt {
+			if k >= len(sub) {
+				break
+			}
+			c := sub[k]
+			w.final = append(w.final, c)
+			k++
+			if c.fallback && k < len(sub) && sub[k].piece == c.piece && sub[k].x > c.x {
+				// Flow passes through critical depth here; try a
+				// supercritical profile downstream of it.
+				p := &w.pieces[c.piece]
+				if _, ok := w.f.standardStep(p, c.x, p.yc, c.x+(sub[k].x-c.x)/2, true); ok {
+					w.final[len(w.final)-1].fallback = false
+					superAt, sx, sy, spi, atCrit = true, c.x, p.yc, c.piece, true
+				}
+			}
+			continue
+		}
+		next, done := s.superWalk(w, sx, sy, spi, atCrit)
+		if done {
+			return
+		}
+		superAt, k = false, next
+	}
+}
+
+// superWalk marches the supercritical profile from (x, y) in piece pi
+// downstream, appending points to w.final, until its specific force falls
+// below the subcritical profile's (a jump, or the two meeting at critical
+// depth) or the reach ends. It returns the index of the next subcritical
+// point to emit, or done when the reach ends supercritical.
+func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (int, bool) {
+	var st stepper
+	var tmp [2]pt
+	prev := pt{x: x, y: y, piece: pi, super: true}
+	for ; int(pi) < len(w.pieces); pi++ {
+		p := &w.pieces[pi]
+		if prev.piece != pi {
+			// Transition from the previous section: equal energy, no loss.
+			z := w.f.invert(p.from)
+			up := &w.pieces[pi-1]
+			target := z + w.f.eval(up, prev.y).e
+			y2, ok := w.f.solveBranch(p, z, 0, target, true)
+			c := pt{x: p.from, y: y2, piece: pi, super: true, fallback: !ok}
+			s.count(1)
+			ys := s.subAt(w, pi, c.x)
+			if s.dominated(w, p, c.y, ys) {
+				// The jump is held at the section change.
+				y2s := s.subAt(w, pi-1, c.x)
+				s.addJump(w, up, c.x, prev.y, y2s)
+				w.final = append(w.final, pt{x: c.x, y: y2s, piece: pi - 1})
+				return s.firstSubAfter(w, pi-1, c.x), false
+			}
+			w.final = append(w.final, c)
+			prev, atCrit = c, !ok
+		}
+		st.init(&w.f, p, int(pi), true, prev.x, prev.y, atCrit, w.r.MaxSpacing)
+		for _, stop := range w.stops {
+			if stop <= st.x || stop > p.to+1e-12*math.Max(w.f.length, 1) {
+				continue
+			}
+			for n := st.step(stop, &tmp); n > 0; n = st.step(stop, &tmp) {
+				s.count(n)
+				if s.tooMany {
+					return 0, true
+				}
+				for _, c := range tmp[:n] {
+					ys := s.subAt(w, pi, c.x)
+					fs, fb := w.f.force(p, c.y), w.f.force(p, ys)
+					if fs-fb < -forceTie*math.Max(fs, fb) {
+						xt, y1, y2 := s.locateJump(w, p, pi, prev, c)
+						w.final = append(w.final, pt{x: xt, y: y1, piece: pi, super: true})
+						s.addJump(w, p, xt, y1, y2)
+						w.final = append(w.final, pt{x: xt, y: y2, piece: pi})
+						return s.firstSubAfter(w, pi, xt), false
+					}
+					w.final = append(w.final, c)
+					prev = c
+					if c.fallback {
+						// Both profiles at critical depth: the flow
+						// continues subcritical without a jump.
+						return s.firstSubAfter(w, pi, c.x), false
+					}
+				}
+			}
+		}
+		atCrit = st.atCrit
+		prev = pt{x: st.x, y: st.y, piece: pi, super: true}
+	}
+	w.endSuper = true
+	return 0, true
+}
+
+// dominated reports whether the subcritical depth ys has the greater
+// specific force than the supercritical depth y in piece p.
+func (s *solver) dominated(w *reachWork, p *piece, y, ys float64) bool {
+	fs, fb := w.f.force(p, y), w.f.force(p, ys)
+	return fs-fb < -forceTie*math.Max(fs, fb)
+}
+
+// locateJump finds the toe between the supercritical points a and b of
+// piece pi, where the specific force of the supercritical profile equals
+// that of the subcritical one:
+//
+//	D(x) = M(y_super(x)) − M(y_sub(x)) = 0
+//
+// Both depths are recomputed at x by a standard step (the supercritical one
+// from a, the subcritical one from the nearest subcritical point
+// downstream), and D is solved by Brent's method; where the ends do not
+// bracket (a numerical corner), the linear interpolation of D is used.
+func (s *solver) locateJump(w *reachWork, p *piece, pi int32, a, b pt) (xt, y1, y2 float64) {
+	ySup := func(x float64) float64 {
+		if x <= a.x {
+			return a.y
+		}
+		y, ok := w.f.standardStep(p, a.x, a.y, x, true)
+		if !ok {
+			return p.yc
+		}
+		return y
+	}
+	d := func(x float64) float64 {
+		return w.f.force(p, ySup(x)) - w.f.force(p, s.subExact(w, pi, x))
+	}
+	da, db := d(a.x), d(b.x)
+	switch {
+	case da >= 0 && db <= 0 && da != db:
+		x, err := Brent(d, a.x, b.x, 1e-10*math.Max(w.f.length, 1))
+		if err == nil {
+			xt = x
+			break
+		}
+		xt = a.x + (b.x-a.x)*da/(da-db)
+	default:
+		fa := w.f.force(p, a.y) - w.f.force(p, s.subAt(w, pi, a.x))
+		fb := w.f.force(p, b.y) - w.f.force(p, s.subAt(w, pi, b.x))
+		t := 0.5
+		if fa != fb {
+			t = math.Min(1, math.Max(0, fa/(fa-fb)))
+		}
+		xt = a.x + t*(b.x-a.x)
+	}
+	return xt, ySup(xt), s.subExact(w, pi, xt)
+}
+
+// addJump records a hydraulic jump with toe at station x.
+func (s *solver) addJump(w *reachWork, p *piece, x, y1, y2 float64) {
+	f1 := FroudeNumber(p.geo, w.q, y1)
+	j := Jump{
+		Station:         x,
+		UpstreamDepth:   y1,
+		DownstreamDepth: y2,
+		Froude:          f1,
+		Length:          JumpLength(y1, y2, f1),
+		Type:            ClassifyJump(f1),
+		EnergyLoss:      w.f.eval(p, y1).e - w.f.eval(p, y2).e,
+	}
+	w.res.Jumps = append(w.res.Jumps, j)
+}

@@ -1,0 +1,222 @@
+package solver
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"github.com/chanlint/chanlint/model"
+)
+
+// ErrTooManyPoints ends Solve when one event needs more computed points
+// than Options.MaxPoints allows.
+var ErrTooManyPoints = errors.New("too many computed points")
+
+// Defaults of Options.
+const (
+	// DefaultTolerance is the closure of the energy equation on the water
+	// surface, in the model's length unit, when Options.Tolerance is 0. It
+	// is far tighter than the 0.003 m / 0.01 ft of common practice so that
+	// the accuracy is that of the step control alone.
+	DefaultTolerance = 1e-7
+	// DefaultMaxPoints bounds the computed points of one event when
+	// Options.MaxPoints is 0. Every point computed counts, including those
+	// of a subcritical or supercritical trial profile that the final
+	// profile does not use.
+	DefaultMaxPoints = 1_000_000
+)
+
+// Solve computes the steady water-surface profiles of every event of m (in
+// model order; opts.Events restricts them by name) over every reach.
+//
+// The method, per event:
+//
+//  1. Subcritical pass, outlet to headwaters (reverse topological order):
+//     each reach's subcritical profile is computed upstream by the standard
+//     step from its downstream control — the outlet condition, or the
+//     energy grade elevation at the start of the reach below (junctions
+//     without loss), or the head a sluice gate needs.
+//  2. Supercritical pass, headwaters to outlet: each reach is walked
+//     downstream from its upstream control (gate vena contracta, entrance
+//     depth, supercritical flow arriving from upstream, or critical depth
+//     where the subcritical profile could not exist, as at the head of a
+//     steep reach). Where the supercritical profile's specific force falls
+//     below that of the subcritical profile a hydraulic jump forms; its toe
+//     is found by root finding on the difference of the two forces.
+//
+// The error is only for limits (ErrTooManyPoints); numerical trouble and
+// controls that cannot act are Notes on the reach. Every number of the
+// result is finite.
+func Solve(m *model.Model, opts Options) (*Result, error) {
+	res := &Result{Model: m}
+	if m == nil {
+		return res, nil
+	}
+	s := newSolver(m, opts)
+	for _, ev := range m.Events {
+		if ev == nil || !wanted(opts.Events, ev.Name) {
+			continue
+		}
+		er, err := s.solveEvent(ev)
+		if err != nil {
+			return nil, err
+		}
+		res.Events = append(res.Events, er)
+	}
+	return res, nil
+}
+
+// wanted reports whether the event name passes the filter.
+func wanted(filter []string, name string) bool {
+	if filter == nil {
+		return true
+	}
+	for _, f := range filter {
+		if f == name {
+			return true
+		}
+	}
+	return false
+}
+
+// solver holds what is shared by the events of one Solve call; its
+// buffers are reused from event to event.
+type solver struct {
+	m         *model.Model
+	units     model.Units
+	tol       float64
+	maxPoints int
+	order     []*model.Reach // topological, upstream first
+	geos      map[*model.Section]*Geometry
+	layouts   []reachLayout // by reach index
+	work      []reachWork   // by reach index
+	subBuf    []pt
+	finBuf    []pt
+	points    int
+	tooMany   bool
+	entrance  []float64 // by reach index, per event; 0 = none
+}
+
+func newSolver(m *model.Model, opts Options) *solver {
+	s := &solver{
+		m:         m,
+		units:     m.Units,
+		tol:       opts.Tolerance,
+		maxPoints: opts.MaxPoints,
+		geos:      map[*model.Section]*Geometry{},
+	}
+	if !(s.tol > 0) || math.IsInf(s.tol, 0) {
+		s.tol = DefaultTolerance
+	}
+	if s.maxPoints <= 0 {
+		s.maxPoints = DefaultMaxPoints
+	}
+	s.order = topoOrder(m)
+	s.layouts = make([]reachLayout, len(m.Reaches))
+	s.work = make([]reachWork, len(m.Reaches))
+	s.entrance = make([]float64, len(m.Reaches))
+	for i, r := range m.Reaches {
+		s.layouts[i] = s.layout(r)
+	}
+	return s
+}
+
+// geometry returns the cached Geometry of a section.
+func (s *solver) geometry(sec *model.Section) *Geometry {
+	if g, ok := s.geos[sec]; ok {
+		return g
+	}
+	g := NewGeometry(sec, s.units)
+	s.geos[sec] = g
+	return g
+}
+
+// topoOrder is the network's topological order; for a model whose network
+// pass did not run it is rebuilt from the Upstream links (each reach after
+// everything upstream of it), starting from the reaches with no
+// downstream reach, in model order.
+func topoOrder(m *model.Model) []*model.Reach {
+	if m.Network != nil && len(m.Network.Order) == len(m.Reaches) {
+		return m.Network.Order
+	}
+	var out []*model.Reach
+	seen := make(map[*model.Reach]bool, len(m.Reaches))
+	var visit func(r *model.Reach, depth int)
+	visit = func(r *model.Reach, depth int) {
+		if r == nil || seen[r] || depth > len(m.Reaches) {
+			return
+		}
+		seen[r] = true
+		for _, u := range r.Upstream {
+			visit(u, depth+1)
+		}
+		out = append(out, r)
+	}
+	for _, r := range m.Reaches {
+		if r.Downstream == nil {
+			visit(r, 0)
+		}
+	}
+	for _, r := range m.Reaches {
+		visit(r, 0)
+	}
+	return out
+}
+
+// count adds computed points to the event's budget.
+func (s *solver) count(n int) {
+	s.points += n
+	if s.points > s.maxPoints {
+		s.tooMany = true
+	}
+}
+
+// solveEvent runs both passes for one event.
+func (s *solver) solveEvent(ev *model.Event) (*EventResult, error) {
+	s.points, s.tooMany = 0, false
+	s.subBuf = s.subBuf[:0]
+	for i := range s.entrance {
+		s.entrance[i] = 0
+	}
+	for _, e := range ev.Entrances {
+		if e.Reach != nil && e.Reach.Index >= 0 && e.Reach.Index < len(s.entrance) && e.Depth > 0 {
+			s.entrance[e.Reach.Index] = e.Depth
+		}
+	}
+	er := &EventResult{Event: ev, Reaches: make([]*ReachResult, len(s.m.Reaches))}
+	for i, r := range s.m.Reaches {
+		q := 0.0
+		if i < len(ev.Discharge) {
+			q = ev.Discharge[i]
+		}
+		if !(q > 0) || math.IsInf(q, 0) {
+			q = 0
+		}
+		s.work[i] = reachWork{r: r, q: q, res: &ReachResult{Reach: r, Discharge: q}}
+		s.prepare(&s.work[i], &s.layouts[i])
+		er.Reaches[i] = s.work[i].res
+	}
+	// Pass 1: subcritical profiles, outlet first.
+	for i := len(s.order) - 1; i >= 0; i-- {
+		w := &s.work[s.order[i].Index]
+		s.subcritical(w, ev)
+		if s.tooMany {
+			return nil, s.limitError(ev)
+		}
+	}
+	// Pass 2: supercritical walk and the final profiles, headwaters first.
+	for _, r := range s.order {
+		w := &s.work[r.Index]
+		s.combine(w, ev)
+		if s.tooMany {
+			return nil, s.limitError(ev)
+		}
+		s.finish(w)
+	}
+	return er, nil
+}
+
+func (s *solver) limitError(ev *model.Event) error {
+	return fmt.Errorf("%w: event %q needs more than %d computed points; raise the limit or set a larger max_spacing",
+		ErrTooManyPoints, ev.Name, s.maxPoints)
+}

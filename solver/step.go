@@ -1,0 +1,301 @@
+package solver
+
+import "math"
+
+// This file holds the standard-step energy equation and the adaptive step
+// control that drives it. Nothing here allocates: the root-finder closures
+// do not escape (Brent does not retain them), and the stepper works on
+// values.
+
+// Step-control constants.
+const (
+	// stepRelTol is the local error allowed per double step, relative to the
+	// depth, as estimated by step doubling. With the stable marching
+	// directions used here (subcritical profiles upstream, supercritical
+	// profiles downstream) the global error stays of the order of the local
+	// one; TestProfileAgainstQuadrature checks it against an independent
+	// integration.
+	stepRelTol = 2e-5
+	// stepMaxDepthChange caps the relative depth change of one double step.
+	stepMaxDepthChange = 0.25
+	// stepMinFraction: the smallest step is this fraction of the reach
+	// length (or stepMinAbs, whichever is larger). A step that still fails
+	// at this size ends the profile at critical depth.
+	stepMinFraction = 1e-7
+	stepMinAbs      = 1e-9
+	// stepMaxShrinks bounds the retries of one step.
+	stepMaxShrinks = 40
+	// branchExpand bounds the doublings and halvings used to bracket a
+	// depth on one branch of the energy curve.
+	branchExpand = 80
+)
+
+// piece is a run of a reach with one cross-section, [from, to], with the
+// depths of its discharge.
+type piece struct {
+	from, to float64
+	geo      *Geometry
+	yc       float64 // critical depth
+	ec       float64 // specific energy at critical depth
+	yn       float64 // normal depth, valid when hasN
+	hasN     bool
+	class    SlopeClass
+}
+
+// hydraulics of one piece at one depth, as the energy equation needs them.
+type stepState struct {
+	e  float64 // specific energy y + αQ²/(2gA²)
+	sf float64 // friction slope (Q/K)²
+}
+
+// flowCtx is the part of a reach the energy equation needs: discharge,
+// bed line and solver tolerance.
+type flowCtx struct {
+	q      float64
+	zUp    float64 // invert at station 0
+	s0     float64 // bed slope (positive downhill)
+	length float64
+	tol    float64 // absolute depth tolerance of the root finder
+}
+
+// invert is the bed elevation at station x (linear along the reach, the
+// same rule as model.Reach.InvertAt).
+func (f *flowCtx) invert(x float64) float64 {
+	return f.zUp - f.s0*x
+}
+
+// eval returns specific energy and friction slope at depth y.
+//
+//	E = y + α·Q²/(2·g·A²)      Sf = (Q/K)²      (Chow 1959, ch. 3 and 10)
+func (f *flowCtx) eval(p *piece, y float64) stepState {
+	pr := p.geo.Props(y)
+	v := f.q / pr.Area
+	c := f.q / pr.Conveyance
+	return stepState{e: y + pr.Alpha*v*v/(2*p.geo.g), sf: c * c}
+}
+
+// force is the specific force Q²/(gA) + A·z̄ at depth y.
+func (f *flowCtx) force(p *piece, y float64) float64 {
+	pr := p.geo.Props(y)
+	return f.q*f.q/(p.geo.g*pr.Area) + pr.FirstMoment
+}
+
+// solveBranch finds the depth y in piece p at bed elevation z with
+//
+//	z + E(y) + w·Sf(y) = target
+//
+// on the subcritical branch (y ≥ yc) or the supercritical branch (y ≤ yc).
+// The standard step between a known point k and an unknown point u, Δx
+// apart, is the energy equation with the average friction slope
+// (Chow 1959, §10-3):
+//
+//	z_u + E_u ± (Δx/2)·Sf_u = z_k + E_k ∓ (Δx/2)·Sf_k
+//
+// where the unknown point lies upstream (subcritical, w = −Δx/2) or
+// downstream (supercritical, w = +Δx/2); w = 0 is a transition without
+// friction loss. On either branch the left side minus the target is
+// monotone in y (E rises with y above yc and falls below it; w·Sf moves the
+// same way), so a root exists exactly when it is ≤ 0 at critical depth. ok
+// is false when there is none: the energy available is below what the
+// branch needs, and the caller takes critical depth.
+func (f *flowCtx) solveBranch(p *piece, z, w, target float64, super bool) (float64, bool) {
+	h := func(y float64) float64 {
+		s := f.eval(p, y)
+		return z + s.e + w*s.sf - target
+	}
+	yc := p.yc
+	hc := h(yc)
+	if !(hc <= 0) {
+		return yc, false
+	}
+	if hc == 0 {
+		return yc, true
+	}
+	var a, b float64
+	if super {
+		b = yc
+		a = yc / 2
+		for i := 0; i < branchExpand && !(h(a) > 0); i++ {
+			a /= 2
+			if a < minDepth {
+				return yc, false
+			}
+		}
+	} else {
+		a = yc
+		// z + E(y) ≥ z + y, and w·Sf ≥ w·Sf(yc) when w ≤ 0 and Sf falls
+		// with depth, so this is nearly always already above the root.
+		b = math.Max(target-z, yc) * 1.01
+		for i := 0; i < branchExpand && !(h(b) > 0); i++ {
+			b *= 2
+			if b > maxDepth {
+				return yc, false
+			}
+		}
+	}
+	y, err := Brent(h, a, b, f.tol)
+	if err != nil || !(y > 0) || math.IsInf(y, 0) {
+		return yc, false
+	}
+	return y, true
+}
+
+// standardStep computes the depth at station xu from the known depth yk at
+// station xk on the given branch. Subcritical steps go upstream
+// (xu < xk), supercritical steps downstream.
+func (f *flowCtx) standardStep(p *piece, xk, yk, xu float64, super bool) (float64, bool) {
+	half := math.Abs(xu-xk) / 2
+	k := f.eval(p, yk)
+	zk, zu := f.invert(xk), f.invert(xu)
+	if super {
+		return f.solveBranch(p, zu, half, zk+k.e-half*k.sf, true)
+	}
+	return f.solveBranch(p, zu, -half, zk+k.e+half*k.sf, false)
+}
+
+// slopeOfProfile is dy/dx = (S0 − Sf)/(1 − F²), the differential equation
+// of gradually varied flow (Chow 1959, eq. 9-13), used only to size the
+// first step.
+func (f *flowCtx) slopeOfProfile(p *piece, y float64) float64 {
+	pr := p.geo.Props(y)
+	c := f.q / pr.Conveyance
+	f2 := pr.Alpha * f.q * f.q * pr.TopWidth / (p.geo.g * pr.Area * pr.Area * pr.Area)
+	den := 1 - f2
+	if math.Abs(den) < 1e-6 {
+		return math.Inf(1)
+	}
+	return (f.s0 - c*c) / den
+}
+
+// pt is a computed point while profiles are built.
+type pt struct {
+	x, y     float64
+	piece    int32
+	super    bool // computed on the supercritical branch
+	fallback bool // critical depth taken because the energy equation had no solution
+}
+
+// stepper marches one profile through one piece with automatic step
+// control: each step is taken once whole and once as two halves; the
+// difference estimates the error of the two-half result (the method is
+// second order, so the error of the halves is about a third of the
+// difference) and the step is accepted when that is below stepRelTol of the
+// depth, then grown or shrunk by the cube root of the error ratio. The two
+// half-step points are both kept, so the energy equation holds between
+// every pair of neighbouring points.
+type stepper struct {
+	f      *flowCtx
+	p      *piece
+	pi     int32
+	super  bool // marching downstream on the supercritical branch
+	x, y   float64
+	dx     float64 // proposed next step length
+	dxMax  float64 // 0: no cap
+	dxMin  float64
+	atCrit bool // the current point is at critical depth
+}
+
+// init prepares the stepper at (x, y).
+func (s *stepper) init(f *flowCtx, p *piece, pi int, super bool, x, y float64, atCrit bool, maxSpacing float64) {
+	s.f, s.p, s.pi, s.super, s.x, s.y, s.atCrit = f, p, int32(pi), super, x, y, atCrit
+	s.dxMin = math.Max(stepMinFraction*f.length, stepMinAbs)
+	s.dxMax = 0
+	if maxSpacing > 0 {
+		s.dxMax = 2 * maxSpacing
+	}
+	s.dx = 0
+}
+
+// step advances toward xEnd and writes one or two new points to out,
+// returning how many. It returns 0 when the stepper is already at xEnd.
+func (s *stepper) step(xEnd float64, out *[2]pt) int {
+	remaining := math.Abs(xEnd - s.x)
+	if remaining <= 0 {
+		return 0
+	}
+	dir := 1.0
+	if !s.super {
+		dir = -1
+	}
+	if s.dx <= 0 {
+		s.dx = s.firstStep(remaining)
+	}
+	h := s.dx
+	if s.dxMax > 0 && h > s.dxMax {
+		h = s.dxMax
+	}
+	if h < s.dxMin {
+		h = s.dxMin
+	}
+	if h >= remaining*0.999 || remaining-h < s.dxMin {
+		h = remaining
+	}
+	for try := 0; ; try++ {
+		xEndStep := s.x + dir*h
+		if h == remaining {
+			xEndStep = xEnd
+		}
+		xMid := s.x + dir*h/2
+		yFull, okF := s.f.standardStep(s.p, s.x, s.y, xEndStep, s.super)
+		yHalf, ok1 := s.f.standardStep(s.p, s.x, s.y, xMid, s.super)
+		yTwo, ok2 := yHalf, false
+		if ok1 {
+			yTwo, ok2 = s.f.standardStep(s.p, xMid, yHalf, xEndStep, s.super)
+		}
+		small := h <= s.dxMin || try >= stepMaxShrinks
+		if okF && ok1 && ok2 {
+			errEst := math.Abs(yTwo-yFull) / 3
+			allowed := stepRelTol * yTwo
+			change := math.Abs(yTwo-s.y) / s.y
+			if (errEst <= allowed && change <= stepMaxDepthChange) || small {
+				out[0] = pt{x: xMid, y: yHalf, piece: s.pi, super: s.super}
+				out[1] = pt{x: xEndStep, y: yTwo, piece: s.pi, super: s.super}
+				s.x, s.y, s.atCrit = xEndStep, yTwo, false
+				s.dx = h * growFactor(errEst, allowed)
+				return 2
+			}
+			fac := 0.25
+			if errEst > allowed {
+				fac = math.Max(0.1, 0.9*math.Cbrt(allowed/errEst))
+			}
+			h *= fac
+			continue
+		}
+		if s.atCrit || small {
+			// No solution on this branch over the step: the flow is at
+			// critical depth at its end (a fallback the caller reports).
+			out[0] = pt{x: xEndStep, y: s.p.yc, piece: s.pi, super: s.super, fallback: true}
+			s.x, s.y, s.atCrit = xEndStep, s.p.yc, true
+			s.dx = h * 4
+			return 1
+		}
+		h *= 0.25
+	}
+}
+
+// growFactor is the next-step factor from the error ratio, limited to
+// [0.2, 4] with a safety factor of 0.9 (the error of the step scales as
+// Δx³).
+func growFactor(errEst, allowed float64) float64 {
+	if errEst <= 0 {
+		return 4
+	}
+	return math.Min(4, math.Max(0.2, 0.9*math.Cbrt(allowed/errEst)))
+}
+
+// firstStep sizes the first step from the slope of the profile so that the
+// depth changes by about 2 %; the error control takes over from there.
+func (s *stepper) firstStep(remaining float64) float64 {
+	if s.atCrit {
+		return math.Max(remaining*1e-3, s.dxMin)
+	}
+	sl := math.Abs(s.f.slopeOfProfile(s.p, s.y))
+	h := remaining
+	if sl > 0 {
+		h = 0.02 * s.y / sl
+	}
+	if !(h > s.dxMin) {
+		h = s.dxMin
+	}
+	return math.Min(h, remaining)
+}
