@@ -21,6 +21,10 @@ const (
 // section produces).
 const gridSub = 8
 
+// gridJustAbove places a scan depth just above each vertex elevation l, at
+// l + gridJustAbove·(1 + l).
+const gridJustAbove = 1e-9
+
 // compound is a points (polyline) section, subdivided into left overbank,
 // main channel and right overbank for conveyance.
 //
@@ -96,7 +100,9 @@ func newCompound(s *model.Section, k float64) compound {
 	c.wallL, c.wallR = zoneOf(c.x[0]), zoneOf(c.x[len(c.x)-1])
 
 	// Scan grid: the distinct vertex elevations above the lowest point,
-	// each interval split in gridSub parts.
+	// each interval split in gridSub parts, and a depth just above each
+	// vertex elevation, where the top width jumps when a flat part of the
+	// bed (an overbank) starts to flood.
 	levels := slices.Clone(c.e)
 	slices.Sort(levels)
 	levels = slices.Compact(levels)
@@ -108,6 +114,7 @@ func newCompound(s *model.Section, k float64) compound {
 		for j := 1; j <= gridSub; j++ {
 			c.grid = append(c.grid, prev+(l-prev)*float64(j)/gridSub)
 		}
+		c.grid = append(c.grid, l+gridJustAbove*(1+l))
 		prev = l
 	}
 	return c

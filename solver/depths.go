@@ -10,31 +10,43 @@ import (
 // in 70 steps, so this bound is never the limit for a real section.
 const maxScanSteps = 200
 
+// walkTo steps from y over the section's scan depths (points sections) or
+// by doubling or halving, upwards or downwards, until done holds at the
+// new depth, a bounded number of times. It returns the last depth where
+// done did not hold and the first where it holds; ok is false when the
+// walk reached a depth limit or its bound first.
+func walkTo(g *Geometry, y float64, up bool, done func(float64) bool) (prev, at float64, ok bool) {
+	prev = y
+	for range maxScanSteps + len(g.pts.grid) {
+		if up {
+			at = g.scanAbove(prev)
+		} else {
+			at = g.scanBelow(prev)
+		}
+		if done(at) {
+			return prev, at, true
+		}
+		if at >= maxDepth || at <= minDepth {
+			break
+		}
+		prev = at
+	}
+	return 0, 0, false
+}
+
 // bracketUp finds lo < hi with f(lo) < 0 ≤ f(hi) for a function that is
-// negative at small depths and not negative at large ones. From y0 it
-// steps down while f(y0) ≥ 0, then up over the section's scan depths
-// (points sections) or by doubling, so that for a points section the
+// negative at small depths and not negative at large ones: from y0 it
+// walks down while f ≥ 0, then up, so that for a points section the
 // lowest crossing above the first grid depth is bracketed. ok is false
 // when the bounded walk found no bracket.
 func bracketUp(g *Geometry, f func(float64) float64, y0 float64) (lo, hi float64, ok bool) {
 	lo = clampDepth(y0)
-	for i := 0; f(lo) >= 0; i++ {
-		if i == maxScanSteps+len(g.pts.grid) || lo <= minDepth {
+	if f(lo) >= 0 {
+		if _, lo, ok = walkTo(g, lo, false, func(v float64) bool { return f(v) < 0 }); !ok {
 			return 0, 0, false
 		}
-		lo = g.scanBelow(lo)
 	}
-	for range maxScanSteps + len(g.pts.grid) {
-		hi = g.scanAbove(lo)
-		if f(hi) >= 0 {
-			return lo, hi, true
-		}
-		if hi >= maxDepth {
-			break
-		}
-		lo = hi
-	}
-	return 0, 0, false
+	return walkTo(g, lo, true, func(v float64) bool { return f(v) >= 0 })
 }
 
 // NormalDepth is the depth of uniform flow of discharge q on bed slope
@@ -143,7 +155,10 @@ func criticalFn(g *Geometry, q float64) func(float64) float64 {
 // the minimum energy that can pass the discharge, the control a free
 // overfall or a steep entrance sets, and the one that decides whether a
 // section chokes (compare Blalock & Sturm, J. Hydraulic Div. ASCE 1981,
-// on multiple critical depths in compound channels, from memory).
+// on multiple critical depths in compound channels, from memory). Where α
+// varies with depth the true minimum of E = y + α·Q²/(2·g·A²) lies
+// slightly off this condition (by the dα/dy term); the α-condition is kept
+// so that the critical depth, FroudeNumber and the regime always agree.
 func CriticalDepth(g *Geometry, q float64) (float64, error) {
 	q = math.Abs(q)
 	if q == 0 {
@@ -209,14 +224,19 @@ func criticalSingle(g *Geometry, q float64) (float64, error) {
 	return Brent(f, lo, hi, 0)
 }
 
-// CriticalDepths appends to dst every depth where α·Q²·T/(g·A³) = 1, in
-// ascending order, and returns the extended slice; for a points section
-// the roots come from a sign scan over gridSub intervals between
-// consecutive vertex elevations, and above the highest vertex the scan
-// stops at the first subcritical trial (between vertical walls the
-// condition falls monotonically). For the other shapes it appends the
-// single CriticalDepth. A tangency that touches 1 without crossing is not
-// a root. It does not allocate when dst has room.
+// CriticalDepths appends to dst, in ascending order, every depth where the
+// Froude number falls through 1 as the depth rises (α·Q²·T/(g·A³) = 1
+// with dE/dy changing from negative to positive: the local minima of the
+// specific energy) and returns the extended slice. Where F rises through
+// 1 with depth — when the top width jumps as a flat overbank floods — the
+// specific energy has a local maximum; that is not a critical depth and is
+// not returned. For a points section the roots come from a sign scan over
+// gridSub intervals between consecutive vertex elevations plus a depth
+// just above each of them; above the highest vertex the scan stops at the
+// first subcritical trial (between vertical walls the condition falls
+// monotonically). For the other shapes it appends the single
+// CriticalDepth. A tangency that touches 1 without crossing is not a root.
+// It does not allocate when dst has room.
 func CriticalDepths(g *Geometry, q float64, dst []float64) []float64 {
 	q = math.Abs(q)
 	if q == 0 || math.IsNaN(q) || math.IsInf(q, 0) {
@@ -245,7 +265,7 @@ func CriticalDepths(g *Geometry, q float64, dst []float64) []float64 {
 	for range maxScanSteps + len(grid) {
 		hi := g.scanAbove(lo)
 		fhi := f(hi)
-		if (flo < 0) != (fhi < 0) {
+		if flo < 0 && fhi >= 0 {
 			if y, err := Brent(f, lo, hi, 0); err == nil {
 				dst = append(dst, y)
 			}

@@ -99,70 +99,26 @@ func SequentDepth(g *Geometry, q, y float64) (float64, error) {
 	m1 := SpecificForce(g, q, y)
 	slope := func(v float64) float64 { return specificForceSlope(g, q, v) }
 	force := func(v float64) float64 { return SpecificForce(g, q, v)/m1 - 1 }
-	steps := maxScanSteps + len(g.pts.grid)
-	if s < 0 {
-		// Supercritical: walk up to the minimum of M, then to M = M1.
-		lo, hi := y, y
-		found := false
-		for range steps {
-			hi = g.scanAbove(lo)
-			if slope(hi) >= 0 {
-				found = true
-				break
-			}
-			lo = hi
+	// Supercritical (dM/dy < 0): the conjugate is deeper; subcritical:
+	// shallower. Walk to the minimum of M, then on to M = M1.
+	up := s < 0
+	lo, hi, ok := walkTo(g, y, up, func(v float64) bool {
+		if d := slope(v); up {
+			return d >= 0
+		} else {
+			return d <= 0
 		}
-		if !found {
-			return 0, ErrNoSequentDepth
-		}
-		ym, err := Brent(slope, lo, hi, 0)
-		if err != nil {
-			return 0, err
-		}
-		lo = ym
-		for range steps {
-			hi = g.scanAbove(lo)
-			if force(hi) >= 0 {
-				return Brent(force, lo, hi, 0)
-			}
-			if hi >= maxDepth {
-				break
-			}
-			lo = hi
-		}
-		return 0, ErrNoSequentDepth
-	}
-	// Subcritical: walk down to the minimum of M, then to M = M1.
-	lo, hi := y, y
-	found := false
-	for range steps {
-		lo = g.scanBelow(hi)
-		if slope(lo) <= 0 {
-			found = true
-			break
-		}
-		if lo <= minDepth {
-			break
-		}
-		hi = lo
-	}
-	if !found {
+	})
+	if !ok {
 		return 0, ErrNoSequentDepth
 	}
 	ym, err := Brent(slope, lo, hi, 0)
 	if err != nil {
 		return 0, err
 	}
-	hi = ym
-	for range steps {
-		lo = g.scanBelow(hi)
-		if force(lo) >= 0 {
-			return Brent(force, lo, hi, 0)
-		}
-		if lo <= minDepth {
-			break
-		}
-		hi = lo
+	lo, hi, ok = walkTo(g, ym, up, func(v float64) bool { return force(v) >= 0 })
+	if !ok {
+		return 0, ErrNoSequentDepth
 	}
-	return 0, ErrNoSequentDepth
+	return Brent(force, lo, hi, 0)
 }
