@@ -594,3 +594,49 @@ func (d *decoder) bands(a *hcl.Attribute) []Band {
 	sort.Slice(out, func(i, j int) bool { return out[i].Low < out[j].Low })
 	return out
 }
+
+// crossCheck warns about settings of the effective policy that contradict
+// each other: a minimum velocity at or above the maximum for a lining
+// leaves no velocity that passes both rules.
+func crossCheck(p *Policy) hcl.Diagnostics {
+	lo, hi := p.Rules["min_velocity"], p.Rules["max_velocity"]
+	if lo == nil || hi == nil {
+		return nil
+	}
+	linings := map[string]bool{"": true} // "": an unlisted lining, the defaults
+	for k := range lo.Limit.Values {
+		linings[k] = true
+	}
+	for k := range hi.Limit.Values {
+		linings[k] = true
+	}
+	words := make([]string, 0, len(linings))
+	for k := range linings {
+		words = append(words, k)
+	}
+	sort.Strings(words)
+	var diags hcl.Diagnostics
+	for _, w := range words {
+		vmin, okMin := lo.Limit.For(w)
+		vmax, okMax := hi.Limit.For(w)
+		if !okMin || !okMax || vmin < vmax {
+			continue
+		}
+		what := fmt.Sprintf("lining %q", w)
+		if w == "" {
+			what = "linings without a limit of their own"
+		}
+		rng, ok := lo.Attrs["limit"]
+		if !ok {
+			rng = lo.DefRange
+		}
+		diags = append(diags, &hcl.Diagnostic{
+			Severity: hcl.DiagWarning,
+			Summary:  "Velocity limits leave no room",
+			Detail: fmt.Sprintf("For %s the minimum velocity %s is not below the maximum %s %s/s (max_velocity from %s:%d); every velocity fails one of the two rules. Give the lining its own limits, or null for no minimum.",
+				what, formatNumber(vmin), formatNumber(vmax), p.Units.Length(), hi.File, hi.DefRange.Start.Line),
+			Subject: rng.Ptr(),
+		})
+	}
+	return diags
+}

@@ -421,3 +421,28 @@ func TestDuplicateEventIsAWarning(t *testing.T) {
 	require.NotNil(t, p, "a warning does not stop the load")
 	assert.Equal(t, []string{"q100"}, p.Rules["jump_containment"].Events)
 }
+
+func TestContradictoryVelocityLimitsWarn(t *testing.T) {
+	src := `policy "x" {
+  units = "us"
+  max_velocity { limit = { grass = 1.5, concrete = 20, default = 3.0 } }
+  min_velocity { limit = 2.0 }
+}`
+	p, diags, _ := loadSource(t, src)
+	require.NotNil(t, p, "a warning does not stop the load")
+	require.Len(t, diags, 1, "%v", diags)
+	d := diags[0]
+	assert.Equal(t, hcl.DiagWarning, d.Severity)
+	assert.Equal(t, "Velocity limits leave no room", d.Summary)
+	assert.Contains(t, d.Detail, `lining "grass"`)
+	assert.Contains(t, d.Detail, "2 is not below the maximum 1.5 ft/s")
+	start, end := span(t, src, "2.0")
+	assert.Equal(t, start, d.Subject.Start)
+	assert.Equal(t, end, d.Subject.End)
+}
+
+func TestResolveAcceptsPackPrefix(t *testing.T) {
+	p, diags := NewLoader("").Resolve("pack:baseline-us")
+	require.Empty(t, diags)
+	assert.Equal(t, "baseline-us", p.Name)
+}

@@ -55,6 +55,9 @@ func (l *Loader) Files() map[string]*hcl.File {
 // Resolve loads a built-in pack by name, or else a policy file by path. A
 // file whose name equals a pack's is reached with a path such as "./strict".
 func (l *Loader) Resolve(arg string) (*Policy, hcl.Diagnostics) {
+	if name, ok := strings.CutPrefix(arg, packPrefix); ok {
+		return l.loadPack(name)
+	}
 	if _, ok := packSources[arg]; ok {
 		return l.loadPack(arg)
 	}
@@ -86,13 +89,21 @@ func (l *Loader) Load(path string) (*Policy, hcl.Diagnostics) {
 				Detail: fmt.Sprintf("%s: %v", l.root, err)}}
 		}
 	}
-	return l.load(node{display: display, key: real}, root, nil, nil)
+	return checked(l.load(node{display: display, key: real}, root, nil, nil))
 }
 
 func (l *Loader) loadPack(name string) (*Policy, hcl.Diagnostics) {
 	l.mu.Lock()
 	defer l.mu.Unlock()
-	return l.load(node{display: packPrefix + name, key: packPrefix + name, pack: true}, "", nil, nil)
+	return checked(l.load(node{display: packPrefix + name, key: packPrefix + name, pack: true}, "", nil, nil))
+}
+
+// checked adds the warnings about the effective policy as a whole.
+func checked(p *Policy, diags hcl.Diagnostics) (*Policy, hcl.Diagnostics) {
+	if p != nil {
+		diags = append(diags, crossCheck(p)...)
+	}
+	return p, diags
 }
 
 // node is one policy of an extends chain.

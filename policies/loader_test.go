@@ -126,7 +126,7 @@ func TestExtendsPack(t *testing.T) {
 		"county.policy.hcl": `policy "county" {
   units   = "us"
   extends = "baseline"
-  min_velocity { limit = 3.0 }
+  min_velocity { limit = { sand = null, default = 2.2 } }
 }`,
 	})
 	p, diags := NewLoader(dir).Load(filepath.Join(dir, "county.policy.hcl"))

@@ -121,8 +121,14 @@ func TestStrictIsTighterThanBaseline(t *testing.T) {
 	assert.Equal(t, []string{"pack:strict", "pack:baseline"}, strict.Chain)
 	assert.GreaterOrEqual(t, strict.Rules["freeboard"].Minimum, base.Rules["freeboard"].Minimum)
 	assert.Greater(t, strict.Rules["freeboard"].Fraction, base.Rules["freeboard"].Fraction)
-	sMin, _ := strict.Rules["min_velocity"].Limit.For("")
-	bMin, _ := base.Rules["min_velocity"].Limit.For("")
+	for _, lining := range []string{"", "concrete", "earth", "sand", "grass"} {
+		sMin, sOK := strict.Rules["min_velocity"].Limit.For(lining)
+		bMin, bOK := base.Rules["min_velocity"].Limit.For(lining)
+		assert.Equal(t, bOK, sOK, lining)
+		assert.GreaterOrEqual(t, sMin, bMin, lining)
+	}
+	sMin, _ := strict.Rules["min_velocity"].Limit.For("concrete")
+	bMin, _ := base.Rules["min_velocity"].Limit.For("concrete")
 	assert.Greater(t, sMin, bMin)
 	for id, rc := range strict.Rules {
 		assert.GreaterOrEqual(t, rc.Severity.Rank(), base.Rules[id].Severity.Rank(), id)

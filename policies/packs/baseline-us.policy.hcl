@@ -40,7 +40,12 @@ policy "baseline-us" {
   }
 
   min_velocity {
-    limit    = 2.0 # self-cleansing velocity: common practice (no published source)
+    limit = {
+      # Fine sand: no velocity is both below its 1.5 ft/s maximum (Fortier &
+      # Scobey 1926) and self-cleansing, so only max_velocity applies there.
+      sand    = null
+      default = 2.0 # self-cleansing velocity: common practice (no published source)
+    }
     severity = "warning"
   }
 

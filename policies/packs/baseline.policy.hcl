@@ -44,7 +44,12 @@ policy "baseline" {
   }
 
   min_velocity {
-    limit    = 0.6 # 2 ft/s self-cleansing velocity: common practice (no published source)
+    limit = {
+      # Fine sand: no velocity is both below its 0.46 m/s maximum (Fortier &
+      # Scobey 1926) and self-cleansing, so only max_velocity applies there.
+      sand    = null
+      default = 0.6 # 2 ft/s self-cleansing velocity: common practice (no published source)
+    }
     severity = "warning"
   }
 

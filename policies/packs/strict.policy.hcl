@@ -18,7 +18,15 @@ policy "strict" {
   }
 
   min_velocity {
-    limit    = 0.9 # 3 ft/s, the higher self-cleansing velocity some agencies require (common practice)
+    limit = {
+      # 3 ft/s, the higher self-cleansing velocity some agencies require of
+      # lined channels and conduits (common practice). Erodible linings keep
+      # baseline's 0.6 m/s: 0.9 m/s is above their permissible maximum
+      # (earth 0.76 m/s, Fortier & Scobey 1926).
+      concrete = 0.9
+      sand     = null # as baseline: fine sand cannot meet a self-cleansing velocity (Fortier & Scobey 1926)
+      default  = 0.6  # 2 ft/s self-cleansing velocity: common practice (no published source)
+    }
     severity = "warning"
   }
 
