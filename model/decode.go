@@ -226,6 +226,10 @@ func (d *diagnoser) object(expr hcl.Expression, what, example string) ([]entry, 
 		d.errorf(expr.Range(), "Object required", "%s must be an object written in braces, e.g. %s.", what, example)
 		return nil, false
 	}
+	if len(pairs) > MaxReaches {
+		d.errorf(expr.Range(), "Too many entries", "%s has %d entries; at most %d (one per reach) are accepted.", what, len(pairs), MaxReaches)
+		return nil, false
+	}
 	out := make([]entry, 0, len(pairs))
 	ok := true
 	seen := map[string]hcl.Range{}

@@ -202,6 +202,9 @@ type decoder struct {
 
 	sections map[string]*Section
 	reaches  map[string]*Reach
+
+	names       map[string][]string // sorted defined names by kind, for suggestions
+	suggestions int                 // suggestions searched so far
 }
 
 var rootSchema = &hcl.BodySchema{

@@ -38,6 +38,23 @@ func names[T any](m map[string]T) []string {
 	return out
 }
 
+// maxSuggestions bounds the "did you mean" searches of one file, which cost
+// a comparison with every defined name, so that a hostile file full of
+// unknown names stays fast.
+const maxSuggestions = 100
+
+// suggestName proposes the closest defined section or reach name.
+func (d *decoder) suggestName(got, kind string) string {
+	if d.suggestions >= maxSuggestions {
+		return ""
+	}
+	d.suggestions++
+	if d.names == nil {
+		d.names = map[string][]string{"reach": names(d.reaches), "section": names(d.sections)}
+	}
+	return suggest(got, d.names[kind])
+}
+
 // lookupReach resolves a reach reference at rng.
 func (d *decoder) lookupReach(name string, rng hcl.Range, what string) *Reach {
 	if name == "" {
@@ -46,7 +63,7 @@ func (d *decoder) lookupReach(name string, rng hcl.Range, what string) *Reach {
 	r, ok := d.reaches[name]
 	if !ok {
 		d.errorf(rng, "Unknown reach", "%s names reach %q, which is not defined; use one of the reach names of this file.%s",
-			what, name, suggest(name, names(d.reaches)))
+			what, name, d.suggestName(name, "reach"))
 	}
 	return r
 }
@@ -90,7 +107,7 @@ func (d *decoder) resolve() {
 		s, ok := d.sections[name]
 		if !ok && name != "" {
 			d.errorf(rng, "Unknown section", "%s uses section %q, which is not defined; define it or use one of the section names of this file.%s",
-				what, name, suggest(name, names(d.sections)))
+				what, name, d.suggestName(name, "section"))
 		}
 		return s
 	}
@@ -124,6 +141,11 @@ func (d *decoder) resolve() {
 			continue
 		}
 		g.Reach.Gate = g
+		if s := g.Reach.SectionAt(0); s != nil && s.Height > 0 && g.Opening >= s.Height {
+			d.warnf(g.At("opening"), "Gate opening above the section",
+				"gate %q opens %g %s, not less than the height %g of section %q at the head of reach %q, so it cannot hold water back. Check the opening.",
+				g.Name, g.Opening, d.m.Units.Length(), s.Height, s.Name, g.ReachName)
+		}
 	}
 	for _, b := range m.Basins {
 		what := fmt.Sprintf("basin %q", b.Name)
