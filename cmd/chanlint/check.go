@@ -1,0 +1,575 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"runtime/debug"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/baseline"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/sarifout"
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
+	"github.com/chanlint/chanlint/solver"
+)
+
+// progressThreshold is the number of files from which `check` and
+// `report` print a progress line on a terminal's stderr.
+const progressThreshold = 20
+
+func checkCommand() *command {
+	return &command{
+		name:    "check",
+		summary: "solve every model under PATH and check it against a policy",
+		run:     func(a *app, args []string) int { return a.runCheck(args) },
+		help:    func(*app) string { return checkUsage() },
+	}
+}
+
+// checkFlags are the options of `check`.
+type checkFlags struct {
+	policy        string
+	format        *choice
+	color         *choice
+	failOn        *choice
+	baseline      string
+	writeBaseline string
+	jobs          int
+}
+
+func newCheckFlags() (*checkFlags, *flag.FlagSet) {
+	cf := &checkFlags{
+		format: newChoice("text", "text", "json", "sarif"),
+		color:  newChoice("auto", "auto", "always", "never"),
+		failOn: newChoice("error", "error", "warning", "info"),
+	}
+	fs := newFlagSet("check")
+	fs.StringVar(&cf.policy, "policy", "", "policy `FILE` or built-in pack name (default: "+configName+", else the baseline pack)")
+	fs.Var(cf.format, "format", "output format")
+	fs.Var(cf.color, "color", "colour text output; auto colours a terminal unless NO_COLOR is set")
+	fs.Var(cf.failOn, "fail-on", "lowest severity that makes the exit status 1")
+	fs.StringVar(&cf.baseline, "baseline", "", "fail only on findings not recorded in this baseline `FILE`")
+	fs.StringVar(&cf.writeBaseline, "write-baseline", "", "record the current findings in baseline `FILE` (exit status 0 unless input is invalid)")
+	fs.IntVar(&cf.jobs, "jobs", 0, "files checked at once (default: the number of CPUs)")
+	fs.IntVar(&cf.jobs, "j", 0, "short for --jobs")
+	return cf, fs
+}
+
+func checkUsage() string {
+	_, fs := newCheckFlags()
+	return `usage: chanlint check [PATH...] [options]
+
+Finds every *` + model.Suffix + ` model under each PATH (default: the current
+directory), solves each flow event, checks the solved profiles against the
+policy and prints one line per finding:
+
+  FILE:LINE:COLUMN: SEVERITY: [rule] message (reach, event, stations)
+
+A PATH may be a model file (checked whatever its name) or a directory,
+searched recursively; .git, .hg, .svn, vendor and node_modules directories
+are skipped, and symbolic links are followed only when they stay inside the
+directory being searched. An invalid model is reported with its diagnostics
+and the other files are still checked.
+
+The policy is --policy, else the nearest ` + configName + ` in the current
+directory or a parent up to the repository root (the directory holding
+.git), else the built-in baseline pack.
+
+options:
+` + flagUsage(fs) + `
+exit status: 0 nothing at or above --fail-on; 1 findings at or above it that
+no design exception covers; 2 an unreadable or invalid model, policy or
+baseline, or a wrong command line.
+`
+}
+
+// fileResult is everything learnt about one model file.
+type fileResult struct {
+	file     modelFile
+	src      []byte
+	model    *model.Model
+	result   *solver.Result
+	findings []rules.Finding
+	invalid  bool
+}
+
+func (a *app) runCheck(args []string) int {
+	c := findCommand("check")
+	cf, fs := newCheckFlags()
+	paths, err := parseFlags(fs, args)
+	if err != nil {
+		return a.flagError(c, err)
+	}
+	if cf.jobs < 0 {
+		return a.usageError(c, "--jobs must be at least 1, got %d", cf.jobs)
+	}
+	pal := newPalette(a.useColor(cf.color.value, a.stdoutTTY))
+	errPal := newPalette(a.useColor(cf.color.value, a.stderrTTY))
+
+	var known *baseline.Baseline
+	if cf.baseline != "" {
+		b, err := baseline.Read(a.abs(cf.baseline))
+		if err != nil {
+			fmt.Fprintf(a.stderr, "%s %s: cannot use baseline: %v\n", errPal.place.Sprint(a.display(a.abs(cf.baseline))+":"), errPal.severity(policies.Error), err)
+			return exitInvalid
+		}
+		known = b
+	}
+
+	pol, ok := a.loadPolicy(cf.policy, errPal)
+	if !ok {
+		return exitInvalid
+	}
+
+	results := a.checkPaths(paths, pol, cf.jobs)
+
+	// The findings to show: a baseline hides those it records.
+	shown, knownCount := applyBaseline(results, known)
+
+	run := checkRun{
+		app: a, results: results, shown: shown, policy: pol,
+		knownCount: knownCount, baselinePath: cf.baseline,
+	}
+	var out bytes.Buffer
+	switch cf.format.value {
+	case "json":
+		err = run.writeJSON(&out)
+	case "sarif":
+		err = run.writeSARIF(&out)
+	default:
+		run.writeText(&out, pal)
+	}
+	if err != nil {
+		fmt.Fprintf(a.stderr, "chanlint check: cannot write %s output: %v\n", cf.format.value, err)
+		return exitInvalid
+	}
+	if _, err := a.stdout.Write(out.Bytes()); err != nil {
+		return exitInvalid
+	}
+
+	if cf.writeBaseline != "" {
+		if err := a.writeBaselineFile(cf.writeBaseline, results); err != nil {
+			fmt.Fprintf(a.stderr, "chanlint check: cannot write baseline %s: %v\n", cf.writeBaseline, err)
+			return exitInvalid
+		}
+	}
+	return run.exitCode(policies.Severity(cf.failOn.value), cf.writeBaseline != "")
+}
+
+// checkPaths discovers the models under paths and checks them with up to
+// jobs workers (0: the default). Path problems become invalid results; the
+// results are in discovery order, whatever the number of workers.
+func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int) []*fileResult {
+	files, problems := a.discover(paths)
+	results := make([]*fileResult, 0, len(problems)+len(files))
+	for _, p := range problems {
+		results = append(results, &fileResult{
+			file:     modelFile{display: p.display},
+			invalid:  true,
+			findings: []rules.Finding{inputFinding(p.display, "cannot read: "+p.err.Error())},
+		})
+	}
+	checked := make([]*fileResult, len(files))
+	if jobs == 0 {
+		jobs = a.defaultJobs
+	}
+	prog := a.newProgress(len(files))
+	parallel(len(files), jobs, func(i int) {
+		checked[i] = checkFile(files[i], pol)
+		prog.step()
+	})
+	prog.done()
+	return append(results, checked...)
+}
+
+// parallel calls fn(i) for every i in [0, n) on at most jobs goroutines.
+func parallel(n, jobs int, fn func(i int)) {
+	jobs = max(1, min(jobs, n))
+	if jobs == 1 {
+		for i := range n {
+			fn(i)
+		}
+		return
+	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range jobs {
+		wg.Go(func() {
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= n {
+					return
+				}
+				fn(i)
+			}
+		})
+	}
+	wg.Wait()
+}
+
+// progress prints "checked 120/1000 files" on stderr while a long run
+// goes on: only when stderr is a terminal and there are many files.
+type progress struct {
+	w     io.Writer
+	total int
+	mu    sync.Mutex
+	count int
+	last  time.Time
+	shown bool
+}
+
+func (a *app) newProgress(total int) *progress {
+	if !a.stderrTTY || total < progressThreshold {
+		return nil
+	}
+	return &progress{w: a.stderr, total: total}
+}
+
+func (p *progress) step() {
+	if p == nil {
+		return
+	}
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	p.count++
+	if now := time.Now(); p.count == p.total || now.Sub(p.last) >= 100*time.Millisecond {
+		p.last = now
+		p.shown = true
+		fmt.Fprintf(p.w, "\rchecked %d/%d files", p.count, p.total)
+	}
+}
+
+// done erases the progress line.
+func (p *progress) done() {
+	if p == nil || !p.shown {
+		return
+	}
+	fmt.Fprint(p.w, "\r\033[K")
+}
+
+// inputFinding is the `model` finding of a file that could not be read.
+func inputFinding(file, msg string) rules.Finding {
+	return rules.Finding{Rule: "model", Severity: policies.Error, Message: msg, File: file}
+}
+
+// checkFile loads, solves and checks one model. It never panics: a failure
+// of a later stage is reported as a finding of the file.
+func checkFile(f modelFile, pol *policies.Policy) (r *fileResult) {
+	r = &fileResult{file: f}
+	defer func() {
+		if v := recover(); v != nil {
+			r.invalid = true
+			r.findings = append(r.findings, rules.Finding{
+				Rule: "solver", Severity: policies.Error, File: f.display,
+				Message: fmt.Sprintf("internal error while checking this model: %v; please report it with the model file\n%s", v, debug.Stack()),
+			})
+		}
+	}()
+	r.src, r.model, r.findings, r.invalid = loadModel(f)
+	if r.invalid {
+		return r
+	}
+	res, err := solver.Solve(r.model, solver.Options{})
+	if err != nil {
+		r.invalid = true
+		r.findings = append(r.findings, solverLimitFinding(r.model, err))
+		return r
+	}
+	r.result = res
+	r.findings = append(r.findings, rules.Check(r.model, res, pol)...)
+	return r
+}
+
+// loadModel reads and parses one model file. invalid is true when there
+// is no usable model; findings hold the diagnostics (errors, or warnings
+// of a valid model).
+func loadModel(f modelFile) (src []byte, m *model.Model, findings []rules.Finding, invalid bool) {
+	src, diags := model.ReadFile(f.abs)
+	if diags.HasErrors() {
+		for _, d := range diags {
+			if d.Subject != nil {
+				d.Subject.Filename = f.display
+			}
+		}
+		return nil, nil, rules.FromDiagnostics(f.display, diags), true
+	}
+	m, diags = model.Parse(f.display, src)
+	if len(diags) > 0 {
+		findings = rules.FromDiagnostics(f.display, diags)
+	}
+	if m == nil || diags.HasErrors() {
+		if len(findings) == 0 {
+			findings = []rules.Finding{inputFinding(f.display, "not a valid model")}
+		}
+		return src, nil, findings, true
+	}
+	return src, m, findings, false
+}
+
+// solverLimitFinding reports a model the solver refused to finish because
+// it exceeds a size limit.
+func solverLimitFinding(m *model.Model, err error) rules.Finding {
+	msg := "cannot solve the model: " + err.Error()
+	if errors.Is(err, solver.ErrTooManyPoints) {
+		msg += "; shorten the reaches, raise max_spacing or split the model"
+	}
+	return rules.Finding{
+		Rule: "solver", Severity: policies.Error, File: m.File,
+		Range: m.UnitsRange, Message: msg,
+	}
+}
+
+// applyBaseline returns the findings to show for each valid file (by
+// display path) once a baseline hides those it records, and how many it
+// hid. Invalid files are never filtered: their diagnostics always show.
+func applyBaseline(results []*fileResult, b *baseline.Baseline) (map[string][]rules.Finding, int) {
+	shown := map[string][]rules.Finding{}
+	if b == nil {
+		for _, r := range results {
+			shown[r.file.display] = r.findings
+		}
+		return shown, 0
+	}
+	var all []rules.Finding
+	for _, r := range results {
+		if r.invalid {
+			shown[r.file.display] = r.findings
+			continue
+		}
+		all = append(all, r.findings...)
+	}
+	fresh, known := b.Filter(all)
+	for _, f := range fresh {
+		shown[f.File] = append(shown[f.File], f)
+	}
+	return shown, known
+}
+
+// writeBaselineFile records the findings of the valid files in path,
+// replacing it atomically.
+func (a *app) writeBaselineFile(path string, results []*fileResult) error {
+	var all []rules.Finding
+	for _, r := range results {
+		if !r.invalid {
+			all = append(all, r.findings...)
+		}
+	}
+	var buf bytes.Buffer
+	if err := baseline.Write(&buf, all); err != nil {
+		return err
+	}
+	abs := a.abs(path)
+	tmp, err := os.CreateTemp(filepath.Dir(abs), ".chanlint-baseline-*")
+	if err != nil {
+		return describePathError(err)
+	}
+	if _, err := tmp.Write(buf.Bytes()); err != nil {
+		tmp.Close()
+		os.Remove(tmp.Name())
+		return err
+	}
+	if err := tmp.Close(); err != nil {
+		os.Remove(tmp.Name())
+		return err
+	}
+	if err := os.Rename(tmp.Name(), abs); err != nil {
+		os.Remove(tmp.Name())
+		return describePathError(err)
+	}
+	return nil
+}
+
+// checkRun is one finished check, ready to render.
+type checkRun struct {
+	app          *app
+	results      []*fileResult
+	shown        map[string][]rules.Finding // by display path
+	policy       *policies.Policy
+	knownCount   int
+	baselinePath string
+}
+
+// tally counts the shown findings.
+type tally struct {
+	files, invalid                    int
+	errors, warnings, infos, excepted int
+}
+
+func (c *checkRun) tally() tally {
+	var t tally
+	for _, r := range c.results {
+		t.files++
+		if r.invalid {
+			t.invalid++
+		}
+		for _, f := range c.shown[r.file.display] {
+			switch {
+			case f.Excepted:
+				t.excepted++
+			case f.Severity == policies.Error:
+				t.errors++
+			case f.Severity == policies.Warning:
+				t.warnings++
+			case f.Severity == policies.Info:
+				t.infos++
+			}
+		}
+	}
+	return t
+}
+
+// exitCode is 2 for invalid input, else 1 when a shown finding that is not
+// excepted is at or above failOn, else 0. Writing a baseline accepts
+// today's findings, so it exits 0 unless input is invalid.
+func (c *checkRun) exitCode(failOn policies.Severity, writingBaseline bool) int {
+	for _, r := range c.results {
+		if r.invalid {
+			return exitInvalid
+		}
+	}
+	if writingBaseline {
+		return exitOK
+	}
+	for _, fs := range c.shown {
+		for _, f := range fs {
+			if !f.Excepted && f.Severity.Rank() >= failOn.Rank() {
+				return exitFindings
+			}
+		}
+	}
+	return exitOK
+}
+
+// unit is the length unit of a file's model ("m" when unknown).
+func (r *fileResult) unit() string {
+	if r.model != nil {
+		return r.model.Units.Length()
+	}
+	return "m"
+}
+
+func (c *checkRun) writeText(w io.Writer, p *palette) {
+	any := false
+	for _, r := range c.results {
+		for i := range c.shown[r.file.display] {
+			writeFindingText(w, &c.shown[r.file.display][i], r.src, r.unit(), p)
+			any = true
+		}
+	}
+	if any {
+		fmt.Fprintln(w)
+	}
+	t := c.tally()
+	files := plural(t.files, "file", "files")
+	if t.invalid > 0 {
+		files += fmt.Sprintf(" (%d invalid)", t.invalid)
+	}
+	fmt.Fprintf(w, "%s\n", p.bold.Sprintf("%s, %s, %s, %s, %d excepted", files,
+		plural(t.errors, "error", "errors"), plural(t.warnings, "warning", "warnings"),
+		plural(t.infos, "info", "infos"), t.excepted))
+	if c.baselinePath != "" {
+		fmt.Fprintf(w, "baseline: %s recorded in %s not shown\n",
+			plural(c.knownCount, "known finding", "known findings"), c.baselinePath)
+	}
+	fmt.Fprintln(w, c.app.policyLine(c.policy))
+	fmt.Fprintln(w, p.dim.Sprint(rules.Caution))
+}
+
+func (c *checkRun) writeSARIF(w io.Writer) error {
+	// Artifact URIs are relative to the repository root (else the working
+	// directory), as code-scanning services expect. The files are handed
+	// over as absolute paths so that the URIs do not depend on the
+	// process's own working directory.
+	root := repoRoot(c.app.cwd)
+	if root == "" {
+		root = c.app.cwd
+	}
+	in := sarifout.Input{
+		Rules:       rules.All(),
+		Root:        root,
+		Sources:     map[string][]byte{},
+		ToolVersion: toolVersion(),
+	}
+	for _, r := range c.results {
+		abs := r.file.abs
+		if abs == "" {
+			abs = c.app.abs(filepath.FromSlash(r.file.display))
+		}
+		for _, f := range c.shown[r.file.display] {
+			f.File = abs
+			in.Findings = append(in.Findings, f)
+		}
+		if r.src != nil {
+			in.Sources[abs] = r.src
+		}
+	}
+	return sarifout.Write(w, in)
+}
+
+// loadPolicy resolves the policy of check, report and policy show: arg
+// (a policy file or a built-in pack name) when given, else the nearest
+// .chanlint.hcl, else the baseline pack. Diagnostics are printed on stderr;
+// ok is false when there is no usable policy.
+func (a *app) loadPolicy(arg string, p *palette) (*policies.Policy, bool) {
+	target := arg
+	isFile := false
+	switch {
+	case arg == "":
+		if cfg := findConfig(a.cwd); cfg != "" {
+			target, isFile = cfg, true
+		} else {
+			target = "baseline"
+		}
+	default:
+		if info, err := os.Stat(a.abs(arg)); err == nil && !info.IsDir() {
+			target, isFile = a.abs(arg), true
+		} else if looksLikePath(arg) {
+			fmt.Fprintf(a.stderr, "%s %s: cannot read policy file: %v\n", p.place.Sprint(arg+":"), p.severity(policies.Error), describePathError(errOrNotFile(err, info)))
+			return nil, false
+		}
+	}
+	root := repoRoot(a.cwd)
+	if isFile && (root == "" || !within(root, target)) {
+		// A policy outside any repository (or outside this one) may
+		// extend files beside it and below.
+		root = filepath.Dir(target)
+	}
+	if root == "" {
+		root = a.cwd
+	}
+	loader := policies.NewLoader(root)
+	pol, diags := loader.Resolve(target)
+	if len(diags) > 0 {
+		a.writeDiagnostics(a.stderr, diags, loader.Files(), p)
+	}
+	if pol == nil || diags.HasErrors() {
+		if !isFile && len(diags) == 0 {
+			fmt.Fprintf(a.stderr, "chanlint: unknown policy %q\n", arg)
+		}
+		return nil, false
+	}
+	return pol, true
+}
+
+// looksLikePath tells a policy argument meant as a file from a pack name.
+func looksLikePath(arg string) bool {
+	return filepath.Ext(arg) == ".hcl" || filepath.Base(arg) != arg || arg == "." || arg == ".."
+}
+
+func errOrNotFile(err error, info os.FileInfo) error {
+	if err != nil {
+		return err
+	}
+	if info != nil && info.IsDir() {
+		return errors.New("is a directory")
+	}
+	return errors.New("not a file")
+}

@@ -1,0 +1,131 @@
+package main
+
+import (
+	"encoding/json"
+	"io"
+
+	"github.com/chanlint/chanlint/rules"
+)
+
+// checkJSON is the document of `check --format json` (outputs.md). The
+// field names of the first release are fixed; fields may be added.
+type checkJSON struct {
+	Findings []findingJSON `json:"findings"`
+	Summary  summaryJSON   `json:"summary"`
+	Policy   policyJSON    `json:"policy"`
+	Caution  string        `json:"caution"`
+	Tool     toolJSON      `json:"tool"`
+}
+
+// findingJSON is one finding. Numbers that a finding does not have (a
+// station span, a measured value) are null.
+type findingJSON struct {
+	Rule            string   `json:"rule"`
+	Severity        string   `json:"severity"`
+	Message         string   `json:"message"`
+	File            string   `json:"file"`
+	Line            int      `json:"line"`
+	Column          int      `json:"column"`
+	EndLine         int      `json:"end_line"`
+	EndColumn       int      `json:"end_column"`
+	Reach           string   `json:"reach"`
+	Event           string   `json:"event"`
+	FromStation     *float64 `json:"from_station"`
+	ToStation       *float64 `json:"to_station"`
+	Value           *float64 `json:"value"`
+	Limit           *float64 `json:"limit"`
+	Excepted        bool     `json:"excepted"`
+	ExceptionReason string   `json:"exception_reason,omitempty"`
+	Reference       string   `json:"reference,omitempty"`
+}
+
+// summaryJSON counts the findings shown; excepted findings are counted
+// apart from the severities, as in the text summary.
+type summaryJSON struct {
+	Files    int `json:"files"`
+	Invalid  int `json:"invalid"`
+	Errors   int `json:"errors"`
+	Warnings int `json:"warnings"`
+	Infos    int `json:"infos"`
+	Excepted int `json:"excepted"`
+	// Known is the number of findings a --baseline file hid (omitted
+	// without a baseline).
+	Known *int `json:"known,omitempty"`
+}
+
+type policyJSON struct {
+	Name      string `json:"name"`
+	Reference string `json:"reference"`
+	Source    string `json:"source"`
+}
+
+type toolJSON struct {
+	Name    string `json:"name"`
+	Version string `json:"version"`
+}
+
+func newFindingJSON(f *rules.Finding) findingJSON {
+	j := findingJSON{
+		Rule:            f.Rule,
+		Severity:        string(f.Severity),
+		Message:         f.Message,
+		File:            f.File,
+		Line:            f.Range.Start.Line,
+		Column:          f.Range.Start.Column,
+		EndLine:         f.Range.End.Line,
+		EndColumn:       f.Range.End.Column,
+		Reach:           f.Reach,
+		Event:           f.Event,
+		Excepted:        f.Excepted,
+		ExceptionReason: f.ExceptionReason,
+		Reference:       f.Reference,
+	}
+	if j.EndLine < j.Line {
+		j.EndLine, j.EndColumn = j.Line, j.Column
+	}
+	if f.HasSpan {
+		j.FromStation, j.ToStation = finite(f.FromStation), finite(f.ToStation)
+	}
+	if f.HasValue {
+		j.Value, j.Limit = finite(f.Value), finite(f.Limit)
+	}
+	return j
+}
+
+func (c *checkRun) writeJSON(w io.Writer) error {
+	t := c.tally()
+	doc := checkJSON{
+		Findings: []findingJSON{},
+		Summary: summaryJSON{
+			Files: t.files, Invalid: t.invalid, Errors: t.errors,
+			Warnings: t.warnings, Infos: t.infos, Excepted: t.excepted,
+		},
+		Policy: policyJSON{
+			Name:      c.policy.Name,
+			Reference: c.policy.Reference,
+			Source:    c.app.policySource(c.policy),
+		},
+		Caution: rules.Caution,
+		Tool:    toolJSON{Name: "chanlint", Version: toolVersion()},
+	}
+	if c.baselinePath != "" {
+		k := c.knownCount
+		doc.Summary.Known = &k
+	}
+	for _, r := range c.results {
+		fs := c.shown[r.file.display]
+		for i := range fs {
+			doc.Findings = append(doc.Findings, newFindingJSON(&fs[i]))
+		}
+	}
+	return writeIndentedJSON(w, doc)
+}
+
+// writeIndentedJSON writes v as indented JSON without HTML escaping,
+// followed by a newline.
+func writeIndentedJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	return enc.Encode(v)
+}

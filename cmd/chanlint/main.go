@@ -1,0 +1,234 @@
+// Command chanlint screens open-channel hydraulic models written in the
+// chanlint model language (*.chan.hcl) against a local design policy.
+//
+// It finds the models, solves steady gradually-varied flow for every flow
+// event, checks the solved profiles against the policy and prints findings
+// with their file positions, stations and measured values. Run
+// `chanlint help` for the commands.
+//
+// Exit codes (every command):
+//
+//	0  nothing at or above the failure threshold (check), or the command did its job
+//	1  check: a finding that is not excepted is at or above --fail-on
+//	2  an input could not be read or is not a valid model or policy, or the
+//	   command line is wrong (the other files are still checked and reported)
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"runtime"
+	"runtime/debug"
+	"strings"
+
+	"github.com/mattn/go-isatty"
+)
+
+// version is the release of this build; release builds set it with
+// -ldflags "-X main.version=v1.2.3". Otherwise the module version recorded
+// by the Go toolchain is used, or "devel".
+var version = ""
+
+// Exit codes.
+const (
+	exitOK       = 0
+	exitFindings = 1
+	exitInvalid  = 2
+)
+
+func main() {
+	cwd, err := os.Getwd()
+	if err != nil {
+		fmt.Fprintf(os.Stderr, "chanlint: cannot determine the current directory: %v\n", err)
+		os.Exit(exitInvalid)
+	}
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr, cwd))
+}
+
+// run executes one chanlint command line in-process and returns the exit
+// code. cwd is the directory relative paths are resolved against and
+// printed relative to; stdout and stderr receive the output.
+func run(args []string, stdout, stderr io.Writer, cwd string) int {
+	return newApp(stdout, stderr, cwd, os.Getenv).run(args)
+}
+
+// app is the environment one invocation runs in. Tests build it directly
+// to set the environment variables and the worker count.
+type app struct {
+	stdout, stderr io.Writer
+	cwd            string
+	getenv         func(string) string
+	// stdoutTTY and stderrTTY say whether the streams are terminals; they
+	// decide automatic colour and the progress line.
+	stdoutTTY, stderrTTY bool
+	// defaultJobs is the worker count when --jobs is not given.
+	defaultJobs int
+}
+
+func newApp(stdout, stderr io.Writer, cwd string, getenv func(string) string) *app {
+	return &app{
+		stdout:      stdout,
+		stderr:      stderr,
+		cwd:         cwd,
+		getenv:      getenv,
+		stdoutTTY:   isTerminal(stdout),
+		stderrTTY:   isTerminal(stderr),
+		defaultJobs: runtime.GOMAXPROCS(0),
+	}
+}
+
+// isTerminal reports whether w is a terminal device.
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	fd := f.Fd()
+	return isatty.IsTerminal(fd) || isatty.IsCygwinTerminal(fd)
+}
+
+// command is one subcommand of the tool.
+type command struct {
+	name    string
+	summary string // one line for the command list
+	run     func(a *app, args []string) int
+	help    func(a *app) string // full usage text
+}
+
+func commands() []*command {
+	return []*command{
+		checkCommand(),
+		solveCommand(),
+		explainCommand(),
+		policyCommand(),
+		{
+			name:    "version",
+			summary: "print the version of this build",
+			run:     func(a *app, args []string) int { return a.runVersion(args) },
+			help: func(*app) string {
+				return "usage: chanlint version\n\nPrints the chanlint release and the Go toolchain it was built with.\n"
+			},
+		},
+	}
+}
+
+func findCommand(name string) *command {
+	for _, c := range commands() {
+		if c.name == name {
+			return c
+		}
+	}
+	return nil
+}
+
+func (a *app) run(args []string) int {
+	if a.cwd == "" {
+		wd, err := os.Getwd()
+		if err != nil {
+			fmt.Fprintf(a.stderr, "chanlint: cannot determine the current directory: %v\n", err)
+			return exitInvalid
+		}
+		a.cwd = wd
+	}
+	if len(args) == 0 {
+		fmt.Fprint(a.stderr, mainUsage())
+		return exitInvalid
+	}
+	switch args[0] {
+	case "help", "-h", "-help", "--help":
+		return a.runHelp(args[1:])
+	case "-version", "--version":
+		return a.runVersion(nil)
+	}
+	c := findCommand(args[0])
+	if c == nil {
+		fmt.Fprintf(a.stderr, "chanlint: unknown command %q", args[0])
+		if s := suggest(args[0], commandNames()); s != "" {
+			fmt.Fprintf(a.stderr, "; did you mean %q?", s)
+		}
+		fmt.Fprint(a.stderr, "\nrun 'chanlint help' for the list of commands\n")
+		return exitInvalid
+	}
+	return c.run(a, args[1:])
+}
+
+func commandNames() []string {
+	var names []string
+	for _, c := range commands() {
+		names = append(names, c.name)
+	}
+	return append(names, "help")
+}
+
+func mainUsage() string {
+	var b strings.Builder
+	b.WriteString(`chanlint screens open-channel hydraulic models against local design criteria.
+
+It solves steady gradually-varied flow for every flow event of each *.chan.hcl
+model and reports where the profiles break the policy's rules (freeboard,
+velocity, Froude number, hydraulic jumps, ...).
+
+usage: chanlint COMMAND [ARGUMENTS]
+
+commands:
+`)
+	for _, c := range commands() {
+		fmt.Fprintf(&b, "  %-9s %s\n", c.name, c.summary)
+	}
+	fmt.Fprintf(&b, "  %-9s %s\n", "help", "show the usage of a command")
+	b.WriteString(`
+'chanlint help COMMAND' or 'chanlint COMMAND -h' shows the options of a command.
+
+exit status: 0 clean, 1 findings at or above --fail-on, 2 invalid input or
+command line.
+`)
+	return b.String()
+}
+
+func (a *app) runHelp(args []string) int {
+	if len(args) == 0 {
+		fmt.Fprint(a.stdout, mainUsage())
+		return exitOK
+	}
+	c := findCommand(args[0])
+	if c == nil {
+		if args[0] == "help" {
+			fmt.Fprint(a.stdout, "usage: chanlint help [COMMAND]\n\nShows the list of commands, or the usage of one command.\n")
+			return exitOK
+		}
+		fmt.Fprintf(a.stderr, "chanlint help: unknown command %q", args[0])
+		if s := suggest(args[0], commandNames()); s != "" {
+			fmt.Fprintf(a.stderr, "; did you mean %q?", s)
+		}
+		fmt.Fprintln(a.stderr)
+		return exitInvalid
+	}
+	fmt.Fprint(a.stdout, c.help(a))
+	return exitOK
+}
+
+// toolVersion is the version string printed by `chanlint version` and
+// recorded in SARIF logs and reports.
+func toolVersion() string {
+	if version != "" {
+		return version
+	}
+	if bi, ok := debug.ReadBuildInfo(); ok && bi.Main.Version != "" && bi.Main.Version != "(devel)" {
+		return bi.Main.Version
+	}
+	return "devel"
+}
+
+func (a *app) runVersion(args []string) int {
+	if len(args) > 0 {
+		if args[0] == "-h" || args[0] == "--help" || args[0] == "-help" {
+			fmt.Fprint(a.stdout, findCommand("version").help(a))
+			return exitOK
+		}
+		fmt.Fprintf(a.stderr, "chanlint version: unexpected argument %q\n", args[0])
+		return exitInvalid
+	}
+	fmt.Fprintf(a.stdout, "chanlint %s (%s, %s/%s)\n", toolVersion(), runtime.Version(), runtime.GOOS, runtime.GOARCH)
+	return exitOK
+}

@@ -1,0 +1,360 @@
+package main
+
+import (
+	"bytes"
+	"encoding/csv"
+	"flag"
+	"fmt"
+	"io"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/solver"
+)
+
+func solveCommand() *command {
+	return &command{
+		name:    "solve",
+		summary: "print the computed water-surface profiles of one model",
+		run:     func(a *app, args []string) int { return a.runSolve(args) },
+		help:    func(*app) string { return solveUsage() },
+	}
+}
+
+type solveFlags struct {
+	event  string
+	format *choice
+	color  *choice
+}
+
+func newSolveFlags() (*solveFlags, *flag.FlagSet) {
+	sf := &solveFlags{
+		format: newChoice("table", "table", "json", "csv"),
+		color:  newChoice("auto", "auto", "always", "never"),
+	}
+	fs := newFlagSet("solve")
+	fs.StringVar(&sf.event, "event", "", "solve only the event `NAME` (default: every event)")
+	fs.Var(sf.format, "format", "output format")
+	fs.Var(sf.color, "color", "colour the diagnostics of an invalid model")
+	return sf, fs
+}
+
+func solveUsage() string {
+	_, fs := newSolveFlags()
+	return `usage: chanlint solve MODEL [options]
+
+Solves the steady flow events of one model and prints, for every event and
+reach, the discharge, slope class, profile types, hydraulic jumps and the
+computed points (station, invert, depth, water surface, velocity, Froude
+number, energy grade, critical and normal depth, regime). No policy is
+applied.
+
+  table  aligned columns for a terminal, units in the header (default)
+  json   one document: units, events, reaches, points, jumps
+  csv    one row per point with the event and reach, and a header row
+
+options:
+` + flagUsage(fs) + `
+exit status: 0 solved; 2 unreadable or invalid model, unknown event, or a
+wrong command line.
+`
+}
+
+func (a *app) runSolve(args []string) int {
+	c := findCommand("solve")
+	sf, fs := newSolveFlags()
+	pos, err := parseFlags(fs, args)
+	if err != nil {
+		return a.flagError(c, err)
+	}
+	if len(pos) != 1 {
+		return a.usageError(c, "expected one MODEL file, got %d arguments", len(pos))
+	}
+	abs := a.abs(pos[0])
+	f := modelFile{abs: abs, display: a.display(abs)}
+	pal := newPalette(a.useColor(sf.color.value, a.stderrTTY))
+	src, m, findings, invalid := loadModel(f)
+	for i := range findings {
+		writeFindingText(a.stderr, &findings[i], src, "m", pal)
+	}
+	if invalid {
+		return exitInvalid
+	}
+	opts := solver.Options{}
+	if sf.event != "" {
+		var names []string
+		found := false
+		for _, e := range m.Events {
+			names = append(names, e.Name)
+			found = found || e.Name == sf.event
+		}
+		if !found {
+			msg := fmt.Sprintf("%s has no event %q", f.display, sf.event)
+			if s := suggest(sf.event, names); s != "" {
+				msg += fmt.Sprintf("; did you mean %q?", s)
+			} else if len(names) > 0 {
+				msg += "; its events are " + strings.Join(names, ", ")
+			}
+			return a.usageError(c, "%s", msg)
+		}
+		opts.Events = []string{sf.event}
+	}
+	res, err := solver.Solve(m, opts)
+	if err != nil {
+		lf := solverLimitFinding(m, err)
+		writeFindingText(a.stderr, &lf, src, m.Units.Length(), pal)
+		return exitInvalid
+	}
+	var out bytes.Buffer
+	switch sf.format.value {
+	case "json":
+		err = writeSolveJSON(&out, m, res)
+	case "csv":
+		err = writeSolveCSV(&out, res)
+	default:
+		writeSolveTable(&out, f.display, m, res)
+	}
+	if err != nil {
+		fmt.Fprintf(a.stderr, "chanlint solve: cannot write %s output: %v\n", sf.format.value, err)
+		return exitInvalid
+	}
+	if _, err := a.stdout.Write(out.Bytes()); err != nil {
+		return exitInvalid
+	}
+	return exitOK
+}
+
+// Documents of `solve --format json` (outputs.md).
+type solveJSON struct {
+	Units  string           `json:"units"`
+	Title  string           `json:"title,omitempty"`
+	Events []solveEventJSON `json:"events"`
+}
+
+type solveEventJSON struct {
+	Name    string           `json:"name"`
+	Reaches []solveReachJSON `json:"reaches"`
+}
+
+type solveReachJSON struct {
+	Name       string      `json:"name"`
+	Discharge  *float64    `json:"discharge"`
+	SlopeClass string      `json:"slope_class"`
+	Profiles   []string    `json:"profiles"`
+	Points     []pointJSON `json:"points"`
+	Jumps      []jumpJSON  `json:"jumps"`
+	Notes      []noteJSON  `json:"notes"`
+}
+
+type pointJSON struct {
+	Station       *float64 `json:"station"`
+	Invert        *float64 `json:"invert"`
+	Depth         *float64 `json:"depth"`
+	WSE           *float64 `json:"wse"`
+	Velocity      *float64 `json:"velocity"`
+	Froude        *float64 `json:"froude"`
+	Energy        *float64 `json:"energy"`
+	CriticalDepth *float64 `json:"critical_depth"`
+	NormalDepth   *float64 `json:"normal_depth"`
+	Regime        string   `json:"regime"`
+}
+
+type jumpJSON struct {
+	Station         *float64 `json:"station"`
+	UpstreamDepth   *float64 `json:"upstream_depth"`
+	DownstreamDepth *float64 `json:"downstream_depth"`
+	Froude          *float64 `json:"froude"`
+	Length          *float64 `json:"length"`
+	Type            string   `json:"type"`
+	EnergyLoss      *float64 `json:"energy_loss"`
+}
+
+type noteJSON struct {
+	Kind    string   `json:"kind"`
+	Station *float64 `json:"station"`
+	Message string   `json:"message"`
+}
+
+func writeSolveJSON(w io.Writer, m *model.Model, res *solver.Result) error {
+	doc := solveJSON{Units: string(m.Units), Title: m.Title, Events: []solveEventJSON{}}
+	for _, ev := range res.Events {
+		ej := solveEventJSON{Name: ev.Event.Name, Reaches: []solveReachJSON{}}
+		for _, rr := range ev.Reaches {
+			rj := solveReachJSON{
+				Name:       rr.Reach.Name,
+				Discharge:  finite(rr.Discharge),
+				SlopeClass: string(rr.SlopeClass),
+				Profiles:   rr.ProfileTypes(),
+				Points:     []pointJSON{},
+				Jumps:      []jumpJSON{},
+				Notes:      []noteJSON{},
+			}
+			if rj.Profiles == nil {
+				rj.Profiles = []string{}
+			}
+			for _, p := range rr.Points {
+				pj := pointJSON{
+					Station: finite(p.Station), Invert: finite(p.Invert),
+					Depth: finite(p.Depth), WSE: finite(p.WSE),
+					Velocity: finite(p.Velocity), Froude: finite(p.Froude),
+					Energy: finite(p.Energy), CriticalDepth: finite(p.CriticalDepth),
+					Regime: string(p.Regime),
+				}
+				if p.HasNormal {
+					pj.NormalDepth = finite(p.NormalDepth)
+				}
+				rj.Points = append(rj.Points, pj)
+			}
+			for _, j := range rr.Jumps {
+				rj.Jumps = append(rj.Jumps, jumpJSON{
+					Station: finite(j.Station), UpstreamDepth: finite(j.UpstreamDepth),
+					DownstreamDepth: finite(j.DownstreamDepth), Froude: finite(j.Froude),
+					Length: finite(j.Length), Type: string(j.Type), EnergyLoss: finite(j.EnergyLoss),
+				})
+			}
+			for _, n := range rr.Notes {
+				rj.Notes = append(rj.Notes, noteJSON{Kind: string(n.Kind), Station: finite(n.Station), Message: n.Message})
+			}
+			ej.Reaches = append(ej.Reaches, rj)
+		}
+		doc.Events = append(doc.Events, ej)
+	}
+	return writeIndentedJSON(w, doc)
+}
+
+// csvHeader is the header row of `solve --format csv`.
+var csvHeader = []string{"event", "reach", "station", "invert", "depth", "wse", "velocity",
+	"froude", "energy", "critical_depth", "normal_depth", "regime"}
+
+// writeSolveCSV writes one row per computed point; normal_depth is empty
+// where no normal depth exists.
+func writeSolveCSV(w io.Writer, res *solver.Result) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(csvHeader); err != nil {
+		return err
+	}
+	num := func(x float64) string { return formatNumber(x, jsonDecimals) }
+	for _, ev := range res.Events {
+		for _, rr := range ev.Reaches {
+			for _, p := range rr.Points {
+				normal := ""
+				if p.HasNormal {
+					normal = num(p.NormalDepth)
+				}
+				row := []string{ev.Event.Name, rr.Reach.Name, num(p.Station), num(p.Invert),
+					num(p.Depth), num(p.WSE), num(p.Velocity), num(p.Froude), num(p.Energy),
+					num(p.CriticalDepth), normal, string(p.Regime)}
+				if err := cw.Write(row); err != nil {
+					return err
+				}
+			}
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// writeSolveTable prints each event and reach as a header block and the
+// computed points in aligned columns with their units.
+func writeSolveTable(w io.Writer, file string, m *model.Model, res *solver.Result) {
+	L := m.Units.Length()
+	title := file
+	if m.Title != "" {
+		title = m.Title + " — " + file
+	}
+	fmt.Fprintf(w, "%s (units: %s; lengths in %s, discharge in %s³/s)\n", title, m.Units, L, L)
+	fmt.Fprintln(w, "columns: wse water surface, energy energy grade, yc critical depth, yn normal depth (— where none)")
+	for _, ev := range res.Events {
+		fmt.Fprintf(w, "\nevent %s\n", ev.Event.Name)
+		for _, rr := range ev.Reaches {
+			writeReachTable(w, rr, L)
+		}
+	}
+}
+
+func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
+	profiles := strings.Join(rr.ProfileTypes(), ", ")
+	if profiles == "" {
+		profiles = "none"
+	}
+	fmt.Fprintf(w, "\n  reach %s: Q = %s %s³/s, %s slope (S0 = %s), profiles %s, %s\n",
+		rr.Reach.Name, fixed(rr.Discharge, 3), L, rr.SlopeClass,
+		formatNumber(rr.Reach.Slope, 6), profiles, plural(len(rr.Jumps), "jump", "jumps"))
+	if len(rr.Profiles) > 1 {
+		var spans []string
+		for _, p := range rr.Profiles {
+			spans = append(spans, fmt.Sprintf("%s %s–%s", p.Type, formatNumber(p.FromStation, 2), formatNumber(p.ToStation, 2)))
+		}
+		fmt.Fprintf(w, "    profile spans: %s %s\n", strings.Join(spans, ", "), L)
+	}
+	t := &table{}
+	t.header([]string{"station", "invert", "depth", "wse", "velocity", "froude", "energy", "yc", "yn", "regime"},
+		[]string{L, L, L, L, L + "/s", "", L, L, L, ""})
+	for _, p := range rr.Points {
+		yn := "—"
+		if p.HasNormal {
+			yn = fixed(p.NormalDepth, 3)
+		}
+		t.row(fixed(p.Station, 2), fixed(p.Invert, 3), fixed(p.Depth, 3), fixed(p.WSE, 3),
+			fixed(p.Velocity, 3), fixed(p.Froude, 3), fixed(p.Energy, 3),
+			fixed(p.CriticalDepth, 3), yn, string(p.Regime))
+	}
+	t.write(w, "    ")
+	for _, j := range rr.Jumps {
+		fmt.Fprintf(w, "    jump at %s %s: depth %s → %s %s, F1 = %s, %s, length %s %s, energy loss %s %s\n",
+			fixed(j.Station, 2), L, fixed(j.UpstreamDepth, 3), fixed(j.DownstreamDepth, 3), L,
+			fixed(j.Froude, 2), j.Type, fixed(j.Length, 2), L, fixed(j.EnergyLoss, 3), L)
+	}
+	for _, n := range rr.Notes {
+		fmt.Fprintf(w, "    note at %s %s (%s): %s\n", fixed(n.Station, 2), L, n.Kind, n.Message)
+	}
+}
+
+// table aligns columns: every column but the last is right-aligned (the
+// last, a word, is left-aligned). The first rows are headers.
+type table struct {
+	rows    [][]string
+	headers int
+}
+
+func (t *table) header(rows ...[]string) {
+	for _, r := range rows {
+		for i, c := range r {
+			if c != "" && t.headers > 0 && i < len(r)-1 {
+				r[i] = "(" + c + ")"
+			}
+		}
+		t.rows = append(t.rows, r)
+		t.headers++
+	}
+}
+
+func (t *table) row(cells ...string) { t.rows = append(t.rows, cells) }
+
+func (t *table) write(w io.Writer, indent string) {
+	if len(t.rows) == 0 {
+		return
+	}
+	widths := make([]int, len(t.rows[0]))
+	for _, r := range t.rows {
+		for i, c := range r {
+			widths[i] = max(widths[i], utf8.RuneCountInString(c))
+		}
+	}
+	last := len(widths) - 1
+	for _, r := range t.rows {
+		var b strings.Builder
+		b.WriteString(indent)
+		for i, c := range r {
+			pad := strings.Repeat(" ", widths[i]-utf8.RuneCountInString(c))
+			switch {
+			case i == last:
+				b.WriteString(c)
+			default:
+				b.WriteString(pad + c + "  ")
+			}
+		}
+		fmt.Fprintln(w, strings.TrimRight(b.String(), " "))
+	}
+}

@@ -1,0 +1,266 @@
+package main
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"path/filepath"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
+	"github.com/fatih/color"
+	"github.com/hashicorp/hcl/v2"
+)
+
+// palette holds the colours of text output. Every colour is switched on or
+// off explicitly, so concurrent runs never depend on fatih/color's global
+// switch.
+type palette struct {
+	on                     bool
+	place, rule, dim, bold *color.Color
+	err, warn, info        *color.Color
+	caret                  *color.Color
+}
+
+func newPalette(on bool) *palette {
+	mk := func(attrs ...color.Attribute) *color.Color {
+		c := color.New(attrs...)
+		if on {
+			c.EnableColor()
+		} else {
+			c.DisableColor()
+		}
+		return c
+	}
+	return &palette{
+		on:    on,
+		place: mk(color.Bold),
+		rule:  mk(color.FgMagenta),
+		dim:   mk(color.Faint),
+		bold:  mk(color.Bold),
+		err:   mk(color.FgRed, color.Bold),
+		warn:  mk(color.FgYellow, color.Bold),
+		info:  mk(color.FgCyan, color.Bold),
+		caret: mk(color.FgGreen, color.Bold),
+	}
+}
+
+// severity colours a severity word.
+func (p *palette) severity(s policies.Severity) string {
+	switch s {
+	case policies.Error:
+		return p.err.Sprint(string(s))
+	case policies.Warning:
+		return p.warn.Sprint(string(s))
+	case policies.Info:
+		return p.info.Sprint(string(s))
+	}
+	return string(s)
+}
+
+// useColor resolves --color: the flag when it is "always" or "never", else
+// NO_COLOR (set and not empty turns colour off), else whether the output
+// is a terminal.
+func (a *app) useColor(flagValue string, tty bool) bool {
+	switch flagValue {
+	case "always":
+		return true
+	case "never":
+		return false
+	}
+	if a.getenv("NO_COLOR") != "" {
+		return false
+	}
+	return tty
+}
+
+// gnuPrefix is the FILE:LINE:COLUMN: prefix of a position; the line and
+// column are left out when the range has none.
+func gnuPrefix(file string, r hcl.Range) string {
+	if r.Start.Line <= 0 {
+		return file + ":"
+	}
+	col := max(r.Start.Column, 1)
+	return fmt.Sprintf("%s:%d:%d:", file, r.Start.Line, col)
+}
+
+// snippet renders the source line of r with a caret line under the range:
+//
+//	12 |   widht = 3
+//	   |   ^^^^^
+//
+// It returns "" when the source or the line is not available. Columns are
+// counted in runes on the printed line, so carets stay under multi-byte
+// text; a range that runs over several lines is underlined to the end of
+// its first line.
+func snippet(src []byte, r hcl.Range, p *palette) string {
+	if len(src) == 0 || r.Start.Line <= 0 {
+		return ""
+	}
+	line, lineStart, ok := sourceLine(src, r.Start.Line)
+	if !ok {
+		return ""
+	}
+	line = strings.ReplaceAll(line, "\t", " ")
+	startByte := r.Start.Byte - lineStart
+	if startByte < 0 || startByte > len(line) || r.Start.Byte == 0 && r.Start.Line > 1 {
+		// No byte offset recorded: fall back to the column.
+		startByte = byteOfColumn(line, r.Start.Column)
+	}
+	endByte := len(line)
+	if r.End.Line == r.Start.Line && r.End.Byte > r.Start.Byte {
+		endByte = min(len(line), startByte+(r.End.Byte-r.Start.Byte))
+	}
+	lead := utf8.RuneCountInString(line[:startByte])
+	width := max(1, utf8.RuneCountInString(line[startByte:endByte]))
+	num := fmt.Sprintf("%d", r.Start.Line)
+	pad := strings.Repeat(" ", len(num))
+	var b strings.Builder
+	fmt.Fprintf(&b, "  %s | %s\n", p.dim.Sprint(num), line)
+	fmt.Fprintf(&b, "  %s | %s%s\n", pad, strings.Repeat(" ", lead), p.caret.Sprint(strings.Repeat("^", width)))
+	return b.String()
+}
+
+// sourceLine returns line n (1-based) of src without its line ending, and
+// the byte offset where it starts.
+func sourceLine(src []byte, n int) (string, int, bool) {
+	start := 0
+	for i := 1; i < n; i++ {
+		j := bytes.IndexByte(src[start:], '\n')
+		if j < 0 {
+			return "", 0, false
+		}
+		start += j + 1
+	}
+	end := len(src)
+	if j := bytes.IndexByte(src[start:], '\n'); j >= 0 {
+		end = start + j
+	}
+	return strings.TrimRight(string(src[start:end]), "\r"), start, true
+}
+
+// byteOfColumn converts a 1-based rune column to a byte offset in line.
+func byteOfColumn(line string, col int) int {
+	i := 0
+	for k := 1; k < col && i < len(line); k++ {
+		_, size := utf8.DecodeRuneInString(line[i:])
+		i += size
+	}
+	return i
+}
+
+// writeDiagnostics prints HCL diagnostics (of a policy or a command-line
+// input) in the GNU layout with a source snippet. files holds the parsed
+// files by the name in the diagnostics' ranges; the printed name is made
+// relative to the working directory.
+func (a *app) writeDiagnostics(w io.Writer, diags hcl.Diagnostics, files map[string]*hcl.File, p *palette) {
+	for _, d := range diags {
+		sev := policies.Error
+		if d.Severity == hcl.DiagWarning {
+			sev = policies.Warning
+		}
+		var r hcl.Range
+		file := ""
+		if d.Subject != nil {
+			r = *d.Subject
+			file = r.Filename
+		}
+		msg := d.Summary
+		if d.Detail != "" {
+			msg += ": " + d.Detail
+		}
+		shown := file
+		if filepath.IsAbs(file) {
+			shown = a.display(file)
+		}
+		if shown == "" {
+			shown = "chanlint"
+		}
+		fmt.Fprintf(w, "%s %s: %s\n", p.place.Sprint(gnuPrefix(shown, r)), p.severity(sev), msg)
+		if f := files[file]; f != nil {
+			fmt.Fprint(w, snippet(f.Bytes, r, p))
+		}
+	}
+}
+
+// writeFindingText prints one finding on one line:
+//
+//	FILE:LINE:COL: SEVERITY: [rule] message (reach R, event E, stations a–b m)
+//
+// followed by "excepted: reason" for a finding covered by a design
+// exception. Findings of invalid files (rule `model`) are followed by the
+// source snippet of their range.
+func writeFindingText(w io.Writer, f *rules.Finding, src []byte, unit string, p *palette) {
+	var ctx []string
+	if f.Reach != "" {
+		ctx = append(ctx, "reach "+f.Reach)
+	}
+	if f.Event != "" {
+		ctx = append(ctx, "event "+f.Event)
+	}
+	if f.HasSpan {
+		ctx = append(ctx, stationText(f.FromStation, f.ToStation, unit))
+	}
+	var b strings.Builder
+	b.WriteString(f.Message)
+	if len(ctx) > 0 {
+		b.WriteString(" (" + strings.Join(ctx, ", ") + ")")
+	}
+	body := b.String()
+	rule := p.rule.Sprint("[" + f.Rule + "]")
+	if f.Excepted {
+		reason := f.ExceptionReason
+		if reason == "" {
+			reason = "covered by a design exception"
+		}
+		body = p.dim.Sprint(body + "; excepted: " + reason)
+	}
+	fmt.Fprintf(w, "%s %s: %s %s\n", p.place.Sprint(gnuPrefix(f.File, f.Range)), p.severity(f.Severity), rule, body)
+	if f.Rule == "model" {
+		fmt.Fprint(w, snippet(src, f.Range, p))
+	}
+}
+
+// stationText is "station 120 m" or "stations 120–180 m".
+func stationText(from, to float64, unit string) string {
+	a, b := formatNumber(from, 2), formatNumber(to, 2)
+	if a == b {
+		return "station " + a + " " + unit
+	}
+	return "stations " + a + "–" + b + " " + unit
+}
+
+// plural is "1 error", "2 errors".
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return fmt.Sprintf("%d %s", n, one)
+	}
+	return fmt.Sprintf("%d %s", n, many)
+}
+
+// policyLine describes the policy in force for the closing lines of the
+// text output.
+func (a *app) policyLine(pol *policies.Policy) string {
+	where := a.policySource(pol)
+	line := fmt.Sprintf("policy: %s (%s)", pol.Name, where)
+	if pol.Reference != "" {
+		line += " — " + pol.Reference
+	}
+	return line
+}
+
+// policySource is where a policy came from, as printed: the relative path
+// of its file, or "built-in pack".
+func (a *app) policySource(pol *policies.Policy) string {
+	switch {
+	case strings.HasPrefix(pol.File, "pack:"):
+		return "built-in pack"
+	case filepath.IsAbs(pol.File):
+		return a.display(pol.File)
+	case pol.File == "":
+		return "built-in pack"
+	}
+	return pol.File
+}
