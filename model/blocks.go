@@ -194,20 +194,12 @@ func (d *decoder) event(b *hcl.Block) *Event {
 	a.require(b.Body, "inflow", "outlet")
 	unit := d.m.Units.Length()
 	if at, ok := a.m["inflow"]; ok {
-		entries, _ := d.object(at.Expr, "inflow of "+a.what, `{ "main" = 12.5 }`)
-		for _, e := range entries {
-			q, ok := d.number(e.Value, fmt.Sprintf("inflow to %q in %s", e.Key, a.what))
-			if !ok {
-				continue
-			}
-			if q <= 0 {
-				d.errorf(e.Value.Range(), "Discharge must be positive",
-					"inflow to %q in %s is %g; give a positive discharge in %s³/s, or remove the entry.", e.Key, a.what, q, unit)
-				continue
-			}
-			ev.Inflows = append(ev.Inflows, Inflow{ReachName: e.Key, Discharge: q, Range: e.KeyRange})
+		vals, n := d.reachValues(at.Expr, a.what, "inflow", "inflow to", `{ "main" = 12.5 }`, "Discharge must be positive",
+			"give a positive discharge in "+unit+"³/s, or remove the entry")
+		for _, v := range vals {
+			ev.Inflows = append(ev.Inflows, Inflow{ReachName: v.Key, Discharge: v.Value, Range: v.KeyRange})
 		}
-		if len(entries) == 0 && !hasErrorAt(d.diags, at.Expr.Range()) {
+		if n == 0 && !hasErrorAt(d.diags, at.Expr.Range()) {
 			d.errorf(at.Expr.Range(), "No inflow", "%s has no inflow; name at least one reach and its discharge, e.g. { \"main\" = 12.5 }.", a.what)
 		}
 	}
@@ -215,21 +207,42 @@ func (d *decoder) event(b *hcl.Block) *Event {
 		d.outlet(ev, a, at)
 	}
 	if at, ok := a.m["entrance"]; ok {
-		entries, _ := d.object(at.Expr, "entrance of "+a.what, `{ "chute" = 0.4 }`)
-		for _, e := range entries {
-			y, ok := d.number(e.Value, fmt.Sprintf("entrance depth of %q in %s", e.Key, a.what))
-			if !ok {
-				continue
-			}
-			if y <= 0 {
-				d.errorf(e.Value.Range(), "Depth must be positive",
-					"entrance depth of %q in %s is %g; give the known depth in %s at the upstream end, or remove the entry.", e.Key, a.what, y, unit)
-				continue
-			}
-			ev.Entrances = append(ev.Entrances, Entrance{ReachName: e.Key, Depth: y, Range: e.KeyRange})
+		vals, _ := d.reachValues(at.Expr, a.what, "entrance", "entrance depth of", `{ "chute" = 0.4 }`, "Depth must be positive",
+			"give the known depth in "+unit+" at the upstream end, or remove the entry")
+		for _, v := range vals {
+			ev.Entrances = append(ev.Entrances, Entrance{ReachName: v.Key, Depth: v.Value, Range: v.KeyRange})
 		}
 	}
 	return ev
+}
+
+// reachValue is one `reach = number` entry of an event object.
+type reachValue struct {
+	Key      string
+	KeyRange hcl.Range
+	Value    float64
+}
+
+// reachValues decodes an object of reach names to positive numbers (the
+// inflow or entrance of an event) and returns the valid entries and the
+// number of entries written. attr is the attribute's name, what names one
+// value in messages ("inflow to"), and summary and hint make the error for
+// a value that is not positive.
+func (d *decoder) reachValues(expr hcl.Expression, event, attr, what, example, summary, hint string) ([]reachValue, int) {
+	entries, _ := d.object(expr, attr+" of "+event, example)
+	var out []reachValue
+	for _, e := range entries {
+		v, ok := d.number(e.Value, fmt.Sprintf("%s %q in %s", what, e.Key, event))
+		if !ok {
+			continue
+		}
+		if v <= 0 {
+			d.errorf(e.Value.Range(), summary, "%s %q in %s is %g; %s.", what, e.Key, event, v, hint)
+			continue
+		}
+		out = append(out, reachValue{Key: e.Key, KeyRange: e.KeyRange, Value: v})
+	}
+	return out, len(entries)
 }
 
 func hasErrorAt(diags hcl.Diagnostics, rng hcl.Range) bool {
