@@ -189,9 +189,15 @@ func (a *app) writeDiagnostics(w io.Writer, diags hcl.Diagnostics, files map[str
 //
 //	FILE:LINE:COL: SEVERITY: [rule] message (reach R, event E, stations a–b m)
 //
-// followed by "excepted: reason" for a finding covered by a design
-// exception. Findings of invalid files (rule `model`) are followed by the
-// source snippet of their range.
+// The station span is left out of the parentheses when the message already
+// states it. A finding covered by a design exception is printed as a GNU
+// "note", so that editors and CI annotations do not flag it, with its own
+// severity and the exception's reason:
+//
+//	FILE:LINE:COL: note: [rule] excepted error: message (...); exception: reason
+//
+// Findings of invalid files (rule `model`) are followed by the source
+// snippet of their range.
 func writeFindingText(w io.Writer, f *rules.Finding, src []byte, unit string, p *palette) {
 	var ctx []string
 	if f.Reach != "" {
@@ -200,24 +206,25 @@ func writeFindingText(w io.Writer, f *rules.Finding, src []byte, unit string, p 
 	if f.Event != "" {
 		ctx = append(ctx, "event "+f.Event)
 	}
-	if f.HasSpan {
+	if f.HasSpan && !strings.Contains(f.Message, "station") {
 		ctx = append(ctx, stationText(f.FromStation, f.ToStation, unit))
 	}
-	var b strings.Builder
-	b.WriteString(f.Message)
+	body := f.Message
 	if len(ctx) > 0 {
-		b.WriteString(" (" + strings.Join(ctx, ", ") + ")")
+		body += " (" + strings.Join(ctx, ", ") + ")"
 	}
-	body := b.String()
+	place := p.place.Sprint(gnuPrefix(f.File, f.Range))
 	rule := p.rule.Sprint("[" + f.Rule + "]")
 	if f.Excepted {
 		reason := f.ExceptionReason
 		if reason == "" {
 			reason = "covered by a design exception"
 		}
-		body = p.dim.Sprint(body + "; excepted: " + reason)
+		fmt.Fprintf(w, "%s %s: %s %s\n", place, p.info.Sprint("note"), rule,
+			p.dim.Sprintf("excepted %s: %s; exception: %s", f.Severity, body, reason))
+		return
 	}
-	fmt.Fprintf(w, "%s %s: %s %s\n", p.place.Sprint(gnuPrefix(f.File, f.Range)), p.severity(f.Severity), rule, body)
+	fmt.Fprintf(w, "%s %s: %s %s\n", place, p.severity(f.Severity), rule, body)
 	if f.Rule == "model" {
 		fmt.Fprint(w, snippet(src, f.Range, p))
 	}
