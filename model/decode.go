@@ -39,11 +39,12 @@ func (d *diagnoser) warnf(rng hcl.Range, summary, detail string, args ...any) {
 }
 
 // literalOnly reports a diagnostic for every construct of expr that a model
-// may not use. A model is untrusted input: only literal values, lists,
-// objects, quoted strings without interpolation and plain arithmetic are
-// accepted. Function calls, variables, for expressions, conditionals,
-// splats and indexing are rejected, so that evaluation is bounded by the
-// size of the source and reads nothing from outside the file.
+// may not use. A model is untrusted input: only literal values (a number
+// may carry a sign), lists, objects, quoted strings and parentheses are
+// accepted. Function calls, variables, arithmetic, for expressions,
+// conditionals, splats and indexing are rejected, so that evaluation takes
+// time proportional to the size of the source and reads nothing from
+// outside the file.
 func (d *diagnoser) literalOnly(expr hcl.Expression) bool {
 	ok := true
 	var walk func(e hclsyntax.Expression)
@@ -73,8 +74,12 @@ func (d *diagnoser) literalOnly(expr hcl.Expression) bool {
 		case *hclsyntax.UnaryOpExpr:
 			walk(e.Val)
 		case *hclsyntax.BinaryOpExpr:
-			walk(e.LHS)
-			walk(e.RHS)
+			// Arbitrary-precision arithmetic on huge operands can take
+			// tens of milliseconds per operation, so a hostile file of
+			// such expressions would run for hours; a model gives values.
+			ok = false
+			d.errorf(e.Range(), "Arithmetic not allowed",
+				"A model holds values, not formulas; write the result of this expression as a number.")
 		case *hclsyntax.ParenthesesExpr:
 			walk(e.Expression)
 		case *hclsyntax.ScopeTraversalExpr:
@@ -89,7 +94,7 @@ func (d *diagnoser) literalOnly(expr hcl.Expression) bool {
 		default:
 			ok = false
 			d.errorf(e.Range(), "Expression not allowed",
-				"A model holds literal values, lists, objects and plain arithmetic only; write the value itself instead of this expression.")
+				"A model holds literal values, lists and objects only; write the value itself instead of this expression.")
 		}
 	}
 	if se, isSyntax := expr.(hclsyntax.Expression); isSyntax {

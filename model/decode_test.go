@@ -322,11 +322,11 @@ event "three" {
 	assert.Equal(t, Outlet{Kind: OutletDepth, Value: 0.7, Range: m.Events[2].Outlet.Range}, m.Events[2].Outlet)
 }
 
-func TestArithmeticAllowed(t *testing.T) {
+func TestSignsAndParentheses(t *testing.T) {
 	m := parseOK(t, oneReach(`section "s" {
   shape = "rectangle"
-  bottom_width = 2 * 1.5
-  height = (1 + 0.5)
+  bottom_width = (3)
+  height = 1.5
   roughness = -(-0.015)
 }`))
 	assert.Equal(t, 3.0, m.Sections[0].BottomWidth)
@@ -335,7 +335,7 @@ func TestArithmeticAllowed(t *testing.T) {
 }
 
 func TestNoFunctionsOrVariables(t *testing.T) {
-	for _, expr := range []string{`max(2, 3)`, `var.width`, `width`, `[for x in [1]: x][0]`, `true ? 2 : 3`, `file("/etc/passwd")`} {
+	for _, expr := range []string{`2 * 1.5`, `1e308*10 - 1e308*10`, `max(2, 3)`, `var.width`, `width`, `[for x in [1]: x][0]`, `true ? 2 : 3`, `file("/etc/passwd")`} {
 		t.Run(expr, func(t *testing.T) {
 			diags := parseErr(t, oneReach(`section "s" {
   shape = "rectangle"
