@@ -72,7 +72,7 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 		} else {
 			msg = fmt.Sprintf("depth %s %s exceeds the section height %s %s %s: the water surface rises %s %s "+
 				"above the top of bank: the channel overtops here; deepen or widen the section or raise the "+
-				"banks by at least %s %s", val, lu, lim, lu, s.where(u), num(s.short), lu, num(s.short), lu)
+				"banks by at least %s %s", val, lu, lim, lu, s.where(u), num(s.short), lu, numUp(s.short), lu)
 		}
 		report(spanFinding(ev, rr, s, msg))
 	})

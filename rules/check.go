@@ -111,23 +111,27 @@ func (c *Context) units() model.Units {
 	return model.SI
 }
 
+// cmpFindings orders findings by file, line, column, rule, reach, event,
+// station span and message.
+func cmpFindings(a, b Finding) int {
+	return cmp.Or(
+		cmp.Compare(a.File, b.File),
+		cmp.Compare(a.Range.Start.Line, b.Range.Start.Line),
+		cmp.Compare(a.Range.Start.Column, b.Range.Start.Column),
+		cmp.Compare(a.Rule, b.Rule),
+		cmp.Compare(a.Reach, b.Reach),
+		cmp.Compare(a.Event, b.Event),
+		cmp.Compare(a.FromStation, b.FromStation),
+		cmp.Compare(a.ToStation, b.ToStation),
+		cmp.Compare(a.Message, b.Message),
+	)
+}
+
 // sortFindings orders findings by file, line, column, rule, reach, event
 // and station span (then message, so that the order is total) and removes
 // exact duplicates.
 func sortFindings(fs []Finding) []Finding {
-	slices.SortStableFunc(fs, func(a, b Finding) int {
-		return cmp.Or(
-			cmp.Compare(a.File, b.File),
-			cmp.Compare(a.Range.Start.Line, b.Range.Start.Line),
-			cmp.Compare(a.Range.Start.Column, b.Range.Start.Column),
-			cmp.Compare(a.Rule, b.Rule),
-			cmp.Compare(a.Reach, b.Reach),
-			cmp.Compare(a.Event, b.Event),
-			cmp.Compare(a.FromStation, b.FromStation),
-			cmp.Compare(a.ToStation, b.ToStation),
-			cmp.Compare(a.Message, b.Message),
-		)
-	})
+	slices.SortStableFunc(fs, cmpFindings)
 	return slices.Compact(fs)
 }
 

@@ -110,7 +110,7 @@ func TestCheckExceptionsDenied(t *testing.T) {
 	un := byRule(fs, "unused_exception")
 	require.Len(t, un, 1)
 	assert.Equal(t, policies.Info, un[0].Severity)
-	assert.Contains(t, un[0].Message, `was not applied: the policy does not accept design exceptions (exceptions = "deny"), so the 2 findings it would cover are reported in full`)
+	assert.Contains(t, un[0].Message, `was not applied: the policy does not accept design exceptions (exceptions = "deny"); the 2 findings it would cover are reported in full`)
 }
 
 func TestSortAndDedupe(t *testing.T) {

@@ -114,7 +114,7 @@ func checkExceptions(ctx *Context, report func(Finding)) {
 		case deny:
 			f.Severity = policies.Info
 			f.Message = fmt.Sprintf("%s was not applied: the policy does not accept design exceptions "+
-				"(exceptions = \"deny\"), so the %s it would cover are reported in full", what, plural(n, "finding"))
+				"(exceptions = \"deny\"); %s", what, wouldCover(n))
 		case n > 0:
 			continue
 		default:
@@ -143,4 +143,15 @@ func plural(n int, word string) string {
 		return "1 " + word
 	}
 	return fmt.Sprintf("%d %ss", n, word)
+}
+
+// wouldCover says what a denied exception would have covered.
+func wouldCover(n int) string {
+	switch n {
+	case 0:
+		return "it would cover no finding"
+	case 1:
+		return "the 1 finding it would cover is reported in full"
+	}
+	return fmt.Sprintf("the %d findings it would cover are reported in full", n)
 }

@@ -67,6 +67,21 @@ func clean(x float64, d int) float64 {
 	return r
 }
 
+// numUp formats an amount a remedy asks for ("raise the bank by at least
+// ..."): like num, but rounded up at the last digit shown, so the printed
+// amount is never short of what is needed.
+func numUp(x float64) string {
+	if !finite(x) {
+		return "n/a"
+	}
+	d := decimals(x)
+	p := math.Pow(10, float64(d))
+	// Subtract a relative hair before rounding up, so that a value that is
+	// already round (0.3 computed as 0.30000000000000004) stays 0.3.
+	up := math.Ceil(x*p*(1-1e-12)) / p
+	return num(up)
+}
+
 // stations describes a span: "at station 120 m" or "over stations 120–180 m".
 func stations(from, to float64, u model.Units) string {
 	a, b := numPair(from, to)

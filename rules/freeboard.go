@@ -74,7 +74,7 @@ func freeboardMessage(cfg *policies.RuleConfig, rr *solver.ReachResult, s span, 
 	}
 	where := s.where(u)
 	msg := fmt.Sprintf("freeboard %s %s is below the required %s %s%s %s; raise the top of bank by at least %s %s over this span",
-		val, lu, lim, lu, basis, where, num(s.short), lu)
+		val, lu, lim, lu, basis, where, numUp(s.short), lu)
 	if s.value < 0 {
 		msg = fmt.Sprintf("the water surface rises %s %s above the top of bank: the channel overtops here; ",
 			num(-s.value), lu) + msg

@@ -56,8 +56,8 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 			}
 			f := Finding{Reach: r.Name, Event: ev.Event.Name, FromStation: toe, ToStation: end,
 				HasSpan: true, Limit: 0, HasValue: true}
-			jump := fmt.Sprintf("the hydraulic jump %s (toe at %s %s, length %s %s, F1 %s)",
-				stations(toe, end, u), num(toe), lu, num(j.Length), lu, num(j.Froude))
+			jump := fmt.Sprintf("the hydraulic jump %s (length %s %s, F1 %s)",
+				stations(toe, end, u), num(j.Length), lu, num(j.Froude))
 			if b == nil {
 				f.Range, f.Value = r.DefRange, end-toe
 				f.Message = fmt.Sprintf("%s lies in no basin of reach %q; unprotected channel may scour: "+

@@ -86,7 +86,7 @@ func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u mod
 	if upper {
 		return fmt.Sprintf("velocity %s %s exceeds %s %s for %s %s; a lining rated for at least %s %s is needed, "+
 			"or reduce velocity (flatter slope, rougher or wider section)",
-			val, vu, lim, vu, for_, s.where(u), val, vu)
+			val, vu, lim, vu, for_, s.where(u), numUp(s.value), vu)
 	}
 	return fmt.Sprintf("velocity %s %s is below the self-cleansing %s %s for %s %s; sediment may deposit here: "+
 		"raise the velocity at this flow (steeper grade, narrower or smoother section, a low-flow channel) "+

@@ -197,8 +197,8 @@ func TestSuperelevation(t *testing.T) {
 	assert.Greater(t, 1-0.67-dySub, 0.28, "subcritical points fail too (0.2841 < 0.3)")
 	// The radius that passes at the supercritical point: C·V²·T/(g·(top − WSE − minimum)).
 	rc := 1.0 * 9 * 4 / (g * (1 - 0.67 - 0.3))
-	assert.Contains(t, fs[0].Message, "or make the radius at least "+num(rc)+" m")
-	assert.Contains(t, fs[0].Message, "raise the outer bank by at least "+num(0.3-remSup)+" m")
+	assert.Contains(t, fs[0].Message, "or make the radius at least "+numUp(rc)+" m")
+	assert.Contains(t, fs[0].Message, "raise the outer bank by at least "+numUp(0.3-remSup)+" m")
 	assert.Contains(t, fs[0].Message, `in bend "elbow" (radius 40 m)`)
 
 	// Unset coefficients take the documented defaults 0.5 and 1.0.
@@ -256,7 +256,7 @@ func TestSolverNotes(t *testing.T) {
 	assert.Equal(t, [2]float64{100, 200}, [2]float64{fs[1].FromStation, fs[1].ToStation}, "adjacent points merge")
 	assert.Contains(t, fs[1].Message, "critical depth was taken over stations 100–200 m")
 	assert.Equal(t, [2]float64{400, 400}, [2]float64{fs[2].FromStation, fs[2].ToStation}, "a point between splits")
-	assert.Contains(t, fs[3].Message, "1 computed point of reach \"main\" carry numbers that are not finite")
+	assert.Contains(t, fs[3].Message, "not finite at 1 computed point of reach \"main\"")
 	for _, f := range fs {
 		assert.Equal(t, r.DefRange, f.Range)
 		assert.False(t, f.HasValue)

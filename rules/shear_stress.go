@@ -71,7 +71,7 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 		val, lim := numPair(s.value, s.limit)
 		msg := fmt.Sprintf("boundary shear stress %s %s (γ·R·Sf) exceeds %s %s for %s %s; "+
 			"a lining rated for at least %s %s is needed, or reduce the stress "+
-			"(flatter slope, wider and shallower section)", val, su, lim, su, liningText(cfg, sec), s.where(u), val, su)
+			"(flatter slope, wider and shallower section)", val, su, lim, su, liningText(cfg, sec), s.where(u), numUp(s.value), su)
 		report(spanFinding(ev, rr, s, msg))
 	})
 }

@@ -72,7 +72,7 @@ func checkSolver(ctx *Context, report func(Finding)) {
 			if finite(bad[0], bad[len(bad)-1]) {
 				f.FromStation, f.ToStation, f.HasSpan = bad[0], bad[len(bad)-1], true
 			}
-			f.Message = fmt.Sprintf("%s of reach %q carry numbers that are not finite; "+
+			f.Message = fmt.Sprintf("the solver returned numbers that are not finite at %s of reach %q; "+
 				"no rule checked them", plural(len(bad), "computed point"), r.Name)
 			report(f)
 		}

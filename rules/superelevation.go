@@ -131,9 +131,9 @@ func superelevationMessage(rr *solver.ReachResult, bend *model.Bend, s span, cSu
 		"(Δy = C·V²·T/(g·rc), C = %s, V %s %s, T %s %s), leaving %s %s to the top of bank where %s %s is required %s; "+
 		"raise the outer bank by at least %s %s over the bend",
 		bend.Name, num(bend.Radius), lu, num(dy), lu, num(c), num(p.Velocity), velocityUnit(u), num(p.TopWidth), lu,
-		rem, lu, lim, lu, s.where(u), num(s.short), lu)
+		rem, lu, lim, lu, s.where(u), numUp(s.short), lu)
 	if s.aux < math.MaxFloat64 {
-		msg += fmt.Sprintf(", or make the radius at least %s %s", num(s.aux), lu)
+		msg += fmt.Sprintf(", or make the radius at least %s %s", numUp(s.aux), lu)
 	}
 	if s.value < 0 {
 		msg = "the water surface at the outer bank rises above the top of bank: the channel overtops here; " + msg

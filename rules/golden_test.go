@@ -1,0 +1,431 @@
+package rules
+
+import (
+	"bufio"
+	"bytes"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"regexp"
+	"slices"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+	"gonum.org/v1/gonum/floats/scalar"
+)
+
+const goldenDir = "../testdata/rules"
+
+// want is one expected finding of a golden model: a "# want[:LABEL] RULE
+// EVENT FROM..TO [excepted]" comment, which applies to the next line that
+// is not a comment (the header of the responsible block). EVENT "-" means
+// no event; FROM..TO may be "toe..end" (the jump's span, checked
+// separately).
+type want struct {
+	label         string
+	line          int
+	rule, event   string
+	from, to      string
+	excepted      bool
+	commentLine   int
+	matchedByLine bool
+}
+
+var wantRE = regexp.MustCompile(`^\s*#\s*want(?::(\w+))?\s+(\S+)\s+(\S+)\s+(\S+)\.\.(\S+)(\s+excepted)?\s*$`)
+
+func parseWants(t *testing.T, src []byte) []want {
+	t.Helper()
+	var out, pending []want
+	sc := bufio.NewScanner(bytes.NewReader(src))
+	n := 0
+	for sc.Scan() {
+		n++
+		line := sc.Text()
+		trim := strings.TrimSpace(line)
+		if strings.HasPrefix(trim, "#") {
+			if m := wantRE.FindStringSubmatch(line); m != nil {
+				pending = append(pending, want{label: m[1], rule: m[2], event: m[3], from: m[4], to: m[5],
+					excepted: m[6] != "", commentLine: n})
+			} else if strings.Contains(trim, "# want") && strings.Index(trim, "# want") == 0 {
+				t.Fatalf("line %d: malformed want comment %q", n, line)
+			}
+			continue
+		}
+		if trim == "" {
+			continue
+		}
+		for _, w := range pending {
+			w.line = n
+			out = append(out, w)
+		}
+		pending = nil
+	}
+	require.Empty(t, pending, "want comments at the end of the file")
+	return out
+}
+
+// golden loads a model and a policy from testdata and checks it.
+func golden(t testing.TB, modelFile, policyFile string) (*model.Model, *solver.Result, []Finding) {
+	m, diags := model.Load(filepath.Join(goldenDir, modelFile))
+	require.False(t, diags.HasErrors(), "%s: %v", modelFile, diags)
+	res, err := solver.Solve(m, solver.Options{})
+	require.NoError(t, err)
+	p, pd := policies.NewLoader("..").Load(filepath.Join(goldenDir, policyFile))
+	require.False(t, pd.HasErrors(), "%s: %v", policyFile, pd)
+	return m, res, Check(m, res, p)
+}
+
+func stationOf(s string) float64 {
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		return math.NaN()
+	}
+	return v
+}
+
+// matchWants fails on every expected finding that is missing and every
+// finding that is not expected, comparing line, rule, event, span (to a
+// part in 10⁹ of the reach length) and the excepted flag.
+func matchWants(t *testing.T, src []byte, label string, fs []Finding) map[*want]Finding {
+	t.Helper()
+	ws := parseWants(t, src)
+	got := map[*want]Finding{}
+	used := make([]bool, len(fs))
+	for i := range ws {
+		w := &ws[i]
+		if w.label != "" && w.label != label {
+			continue
+		}
+		found := false
+		for j, f := range fs {
+			ev := f.Event
+			if ev == "" {
+				ev = "-"
+			}
+			if used[j] || f.Range.Start.Line != w.line || f.Rule != w.rule || ev != w.event || f.Excepted != w.excepted {
+				continue
+			}
+			if w.from != "toe" && !(scalar.EqualWithinAbsOrRel(f.FromStation, stationOf(w.from), 1e-9, 1e-9) &&
+				scalar.EqualWithinAbsOrRel(f.ToStation, stationOf(w.to), 1e-9, 1e-9)) {
+				continue
+			}
+			used[j], found = true, true
+			got[w] = f
+			break
+		}
+		assert.True(t, found, "missing finding: %s %s %s..%s at line %d (want on line %d)", w.rule, w.event, w.from, w.to, w.line, w.commentLine)
+	}
+	for j, f := range fs {
+		if !used[j] {
+			t.Errorf("unexpected finding at line %d: %s %s %s %g..%g excepted=%v: %s",
+				f.Range.Start.Line, f.Rule, f.Reach, f.Event, f.FromStation, f.ToStation, f.Excepted, f.Message)
+		}
+	}
+	return got
+}
+
+func assertFinite(t *testing.T, fs []Finding) {
+	t.Helper()
+	for _, f := range fs {
+		require.True(t, finite(f.FromStation, f.ToStation, f.Value, f.Limit), "%+v", f)
+		for _, bad := range []string{"NaN", "Inf", "n/a"} {
+			assert.NotContains(t, f.Message, bad)
+		}
+	}
+}
+
+// uniformUnits are the constants of a unit system, written here from their
+// definitions rather than taken from the model package.
+type uniformUnits struct {
+	g, k, gamma float64 // gravity, Manning's constant, unit weight of water
+	length      float64 // model length unit in metres
+	stress      float64 // model stress unit in N/m²
+}
+
+var (
+	// Source: standard gravity 9.80665 m/s² (CGPM 1901); Manning k = 1
+	// (SI); γ = 1000 kg/m³ × g (common practice).
+	siUnits = uniformUnits{g: 9.80665, k: 1, gamma: 9806.65, length: 1, stress: 1}
+	// Source: g = 32.174 ft/s², k = 1.486 (3.2808^(1/3)), γ = 62.4 lb/ft³
+	// (common practice); 1 ft = 0.3048 m; 1 lbf/ft² = 47.880259 N/m².
+	usUnits = uniformUnits{g: 32.174, k: 1.486, gamma: 62.4, length: 0.3048, stress: 4.4482216152605 / 0.09290304}
+)
+
+// manningNormalDepth solves Q = (k/n)·A·R^(2/3)·√S for a rectangle of
+// width b by bisection: the test's own iteration, independent of the
+// solver's NormalDepth. Source: Manning's equation (Chow 1959, ch. 5).
+func manningNormalDepth(u uniformUnits, q, b, n, s float64) float64 {
+	lo, hi := 0.0, 1000.0
+	for range 200 {
+		y := (lo + hi) / 2
+		a, p := b*y, b+2*y
+		if u.k/n*a*math.Pow(a/p, 2.0/3)*math.Sqrt(s) > q {
+			hi = y
+		} else {
+			lo = y
+		}
+	}
+	return (lo + hi) / 2
+}
+
+// uniformExpect is the value and limit every rule must report on the
+// uniform-flow model (rectangle b, height h, slope s, n; bend radius rc),
+// computed from the normal depth by the formulas the rules document, with
+// the golden policy's criteria converted to the model's units.
+func uniformExpect(u uniformUnits, rule string, q float64) (value, limit float64) {
+	L := 1 / u.length // metres → model length
+	b, h, n, s, rc := 3.0*L, 1.45*L, 0.015, 0.001, 12.0*L
+	y := manningNormalDepth(u, q, b, n, s)
+	v := q / (b * y)
+	r := b * y / (b + 2*y)
+	switch rule {
+	case "freeboard":
+		// Source: common practice (no published source): available =
+		// height − depth; required = max(minimum, fraction·depth).
+		return h - y, max(0.3*L, 0.2*y)
+	case "max_velocity":
+		return v, 1.5 * L
+	case "min_velocity":
+		return v, 0.6 * L
+	case "froude_band":
+		// Source: Froude number of a rectangle F = V/√(g·y) (Chow 1959, ch. 3).
+		f := v / math.Sqrt(u.g*y)
+		edge := 0.44
+		if 0.5-f < f-0.44 {
+			edge = 0.5
+		}
+		return f, edge
+	case "shear_stress":
+		// Source: tractive force τ = γ·R·S0 in uniform flow (Chow 1959, ch. 7).
+		return u.gamma * r * s, 6.0 / u.stress
+	case "superelevation":
+		// Source: Δy = C·V²·T/(g·rc), C = 0.5 subcritical, USACE EM
+		// 1110-2-1601 (from memory).
+		return h - y - 0.5*v*v*b/(u.g*rc), 0.3 * L
+	case "capacity":
+		return y, h
+	}
+	panic("no expectation for " + rule)
+}
+
+var uniformFlows = map[string]float64{"q-low": 0.25, "q-design": 6.0, "q-flood": 14.0} // m³/s
+
+func checkUniform(t *testing.T, u uniformUnits, got map[*want]Finding) {
+	t.Helper()
+	for w, f := range got {
+		if w.rule == unusedExceptionID {
+			continue
+		}
+		q := uniformFlows[w.event] / math.Pow(u.length, 3)
+		value, limit := uniformExpect(u, w.rule, q)
+		// Tolerance: every point of uniform flow sits at the normal depth,
+		// which a bracketed root finder closes to far below a micrometre;
+		// 1e-6 (absolute in model units, or relative) leaves room for that
+		// closure and nothing else. A misplaced formula or a wrong unit
+		// constant is off by orders of magnitude more.
+		const tolAbs, tolRel = 1e-6, 1e-6
+		assert.True(t, scalar.EqualWithinAbsOrRel(f.Value, value, tolAbs, tolRel),
+			"%s %s value %.6g, want %.6g", w.rule, w.event, f.Value, value)
+		if os.Getenv("GOLDEN_DEBUG") != "" {
+			t.Logf("%s %s value %.9g want %.9g (diff %.2g)", w.rule, w.event, f.Value, value, f.Value-value)
+		}
+		limAbs, limRel := 1e-9, 1e-9
+		if w.rule == "freeboard" { // fraction·depth may govern
+			limAbs, limRel = tolAbs, tolRel
+		}
+		assert.True(t, scalar.EqualWithinAbsOrRel(f.Limit, limit, limAbs, limRel),
+			"%s %s limit %.9g, want %.9g", w.rule, w.event, f.Limit, limit)
+	}
+}
+
+func TestGoldenUniform(t *testing.T) {
+	for _, tc := range []struct {
+		model, policy string
+		u             uniformUnits
+	}{
+		{"uniform.chan.hcl", "golden.policy.hcl", siUnits},
+		{"uniform.chan.hcl", "golden-us.policy.hcl", siUnits},
+		{"uniform-us.chan.hcl", "golden-us.policy.hcl", usUnits},
+		{"uniform-us.chan.hcl", "golden.policy.hcl", usUnits},
+	} {
+		t.Run(tc.model+"+"+tc.policy, func(t *testing.T) {
+			m, _, fs := golden(t, tc.model, tc.policy)
+			assertFinite(t, fs)
+			got := matchWants(t, m.Source, "", fs)
+			checkUniform(t, tc.u, got)
+		})
+	}
+}
+
+// TestGoldenPolicyUnits: criteria written in US units check an SI model as
+// the same criteria in SI do, and the reverse: identical findings, values
+// to rounding.
+func TestGoldenPolicyUnits(t *testing.T) {
+	for _, file := range []string{"uniform.chan.hcl", "uniform-us.chan.hcl", "jump-escapes.chan.hcl"} {
+		_, _, a := golden(t, file, "golden.policy.hcl")
+		_, _, b := golden(t, file, "golden-us.policy.hcl")
+		require.Equal(t, len(a), len(b), file)
+		require.NotEmpty(t, a)
+		for i := range a {
+			assert.Equal(t, a[i].Rule, b[i].Rule)
+			assert.Equal(t, a[i].Range, b[i].Range)
+			assert.Equal(t, a[i].Event, b[i].Event)
+			assert.Equal(t, a[i].FromStation, b[i].FromStation)
+			assert.Equal(t, a[i].ToStation, b[i].ToStation)
+			assert.True(t, scalar.EqualWithinAbsOrRel(a[i].Value, b[i].Value, 1e-12, 1e-12))
+			assert.True(t, scalar.EqualWithinAbsOrRel(a[i].Limit, b[i].Limit, 1e-12, 1e-9))
+			assert.Equal(t, a[i].Message, b[i].Message)
+		}
+	}
+}
+
+// TestGoldenModelUnits: the same channel written in feet gives the SI
+// model's findings with every value converted. Tolerance 0.1 %: US
+// Manning's k = 1.486 and γ = 62.4 lb/ft³ are rounded (1.48592 and 62.428
+// exactly).
+func TestGoldenModelUnits(t *testing.T) {
+	_, _, si := golden(t, "uniform.chan.hcl", "golden.policy.hcl")
+	_, _, us := golden(t, "uniform-us.chan.hcl", "golden.policy.hcl")
+	require.Equal(t, len(si), len(us))
+	for i := range si {
+		assert.Equal(t, si[i].Rule, us[i].Rule)
+		assert.Equal(t, si[i].Event, us[i].Event)
+		scale := 0.3048
+		switch si[i].Rule {
+		case "froude_band":
+			scale = 1
+		case "shear_stress":
+			scale = usUnits.stress
+		}
+		assert.True(t, scalar.EqualWithinAbsOrRel(si[i].Value, us[i].Value*scale, 1e-9, 1e-3),
+			"%s %s: %g vs %g", si[i].Rule, si[i].Event, si[i].Value, us[i].Value*scale)
+		assert.True(t, scalar.EqualWithinAbsOrRel(si[i].ToStation, us[i].ToStation*0.3048, 1e-9, 1e-9))
+	}
+}
+
+func TestGoldenExceptions(t *testing.T) {
+	src, err := os.ReadFile(filepath.Join(goldenDir, "exceptions.chan.hcl"))
+	require.NoError(t, err)
+	for _, tc := range []struct{ policy, label string }{
+		{"golden.policy.hcl", "report"},
+		{"golden-deny.policy.hcl", "deny"},
+	} {
+		t.Run(tc.label, func(t *testing.T) {
+			_, _, fs := golden(t, "exceptions.chan.hcl", tc.policy)
+			assertFinite(t, fs)
+			got := matchWants(t, src, tc.label, fs)
+			checkUniform(t, siUnits, got)
+			for w, f := range got {
+				if w.rule != unusedExceptionID {
+					continue
+				}
+				if tc.label == "deny" {
+					assert.Equal(t, policies.Info, f.Severity)
+					assert.Contains(t, f.Message, "was not applied")
+				} else {
+					assert.Equal(t, policies.Warning, f.Severity)
+					assert.Contains(t, f.Message, "covers no finding")
+				}
+			}
+			if tc.label == "report" {
+				i := slices.IndexFunc(fs, func(f Finding) bool { return f.Rule == "freeboard" })
+				require.GreaterOrEqual(t, i, 0)
+				assert.Equal(t, "Bank raised by a parapet wall under a separate contract; reviewed", fs[i].ExceptionReason)
+				exLine := 1 + bytes.Count(src[:bytes.Index(src, []byte(`exception "freeboard"`))], []byte("\n"))
+				assert.Equal(t, exLine, fs[i].ExceptionRange.Start.Line)
+			}
+		})
+	}
+}
+
+// jumpExpect integrates the M3 curve below the gate with a fourth-order
+// Runge–Kutta march of dy/dx = (S0 − Sf)/(1 − F²) (the test's own
+// integration, independent of the solver's standard step) until the depth
+// reaches the Belanger sequent of the normal depth downstream, where the
+// jump's toe lies. It returns the toe station, F1 and y2.
+// Source: gradually varied flow equation (Chow 1959, ch. 9); Belanger
+// y1/y2 = ½(√(1+8F2²) − 1) (Chow 1959, ch. 15); Manning's equation.
+func jumpExpect() (toe, f1, y2 float64) {
+	const g, b, n, s, q, opening, cc = 9.80665, 2.5, 0.014, 0.0007, 4.0, 0.43, 0.61
+	y2 = manningNormalDepth(siUnits, q, b, n, s)
+	f2 := q / (b * y2) / math.Sqrt(g*y2)
+	ys := y2 * 0.5 * (math.Sqrt(1+8*f2*f2) - 1)
+	f1 = q / (b * ys) / math.Sqrt(g*ys)
+	dydx := func(y float64) float64 {
+		a, r := b*y, b*y/(b+2*y)
+		v := q / a
+		sf := n * n * v * v / math.Pow(r, 4.0/3)
+		return (s - sf) / (1 - v*v/(g*y))
+	}
+	y, x, h := cc*opening, 0.0, 1e-3
+	for range 1_000_000 {
+		k1 := dydx(y)
+		k2 := dydx(y + h/2*k1)
+		k3 := dydx(y + h/2*k2)
+		k4 := dydx(y + h*k3)
+		next := y + h/6*(k1+2*k2+2*k3+k4)
+		if next >= ys {
+			return x + h*(ys-y)/(next-y), f1, y2
+		}
+		y, x = next, x+h
+	}
+	panic("M3 curve did not reach the sequent depth")
+}
+
+func TestGoldenJumps(t *testing.T) {
+	toe, f1, y2 := jumpExpect()
+	for _, tc := range []struct {
+		file     string
+		basinEnd float64
+	}{
+		{"jump-contained.chan.hcl", 30},
+		{"jump-escapes.chan.hcl", 12},
+	} {
+		t.Run(tc.file, func(t *testing.T) {
+			m, _, fs := golden(t, tc.file, "jumps.policy.hcl")
+			assertFinite(t, fs)
+			got := matchWants(t, m.Source, "", fs)
+			for w, f := range got {
+				// The toe within 0.5 m of the independent M3 integration
+				// (the solver's profile is accurate to 0.2 % of depth; at
+				// the toe the curve rises 4 mm per metre).
+				assert.InDelta(t, toe, f.FromStation, 0.5, "toe")
+				// Source: Peterka, USBR Engineering Monograph 25 (1958): L/y2
+				// runs from about 5 near F1 = 3 to about 6.1 for F1 > 4.5
+				// (from memory).
+				length := f.ToStation - f.FromStation
+				assert.True(t, length >= 4.8*y2 && length <= 6.3*y2, "jump length %g = %g·y2", length, length/y2)
+				switch w.rule {
+				case "jump_type":
+					assert.InDelta(t, f1, f.Value, 0.01*f1, "F1")
+					assert.Equal(t, 2.5, f.Limit)
+					assert.Contains(t, f.Message, "oscillating")
+				case "jump_containment":
+					assert.InDelta(t, f.ToStation-tc.basinEnd, f.Value, 1e-9)
+					assert.Contains(t, f.Message, "downstream may scour")
+				}
+			}
+		})
+	}
+}
+
+func TestGoldenNoNaNOnDemo(t *testing.T) {
+	m, diags := model.Load("../testdata/demo/kestrel-ridge.chan.hcl")
+	require.False(t, diags.HasErrors(), fmt.Sprint(diags))
+	res, err := solver.Solve(m, solver.Options{})
+	require.NoError(t, err)
+	p, pd := policies.Pack("baseline")
+	require.False(t, pd.HasErrors())
+	fs := Check(m, res, p)
+	assertFinite(t, fs)
+	assert.True(t, slices.IsSortedFunc(fs, func(a, b Finding) int {
+		return cmpFindings(a, b)
+	}))
+}
