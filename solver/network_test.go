@@ -1,0 +1,135 @@
+package solver
+
+import (
+	"testing"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/stretchr/testify/require"
+)
+
+// TestSubcriticalJunction: two mild tributaries join a trunk that runs at
+// normal depth to the outlet. Expectations come from the independent
+// closed-form model: the trunk's normal depth, the energy grade elevation
+// at the head of the trunk, and each tributary's end depth with that
+// energy on its subcritical branch.
+//
+// Source: energy balance without loss at a junction of subcritical flows
+// (Chow 1959, §10-3 and ch. 12, from memory) and Manning's equation for
+// normal depth (Chow 1959, ch. 6); discharge accumulates downstream
+// (model-format.md).
+func TestSubcriticalJunction(t *testing.T) {
+	const g = 9.80665
+	trunkSec := trapezoid("trunk", 4, 0, 0.015, 3)
+	westSec := trapezoid("west", 2, 1.5, 0.02, 2)
+	northSec := trapezoid("north", 1.5, 0, 0.015, 2)
+	m := buildNet(t, model.SI, []netReach{
+		{name: "west", from: "w", to: "j", length: 600, slope: 0.001, sec: westSec, inflow: 3},
+		{name: "north", from: "n", to: "j", length: 400, slope: 0.004, sec: northSec, inflow: 2},
+		{name: "trunk", from: "j", to: "out", length: 800, slope: 0.002, sec: trunkSec, inflow: 0.5},
+	}, model.Outlet{Kind: model.OutletNormal})
+	ev := solveOne(t, m)
+	west, north, trunk := ev.Reaches[0], ev.Reaches[1], ev.Reaches[2]
+
+	// Discharge conserved at the junction.
+	require.InDelta(t, west.Discharge+north.Discharge+0.5, trunk.Discharge, 1e-12)
+	require.InDelta(t, 5.5, trunk.Discharge, 1e-12)
+
+	refT := gvfTrapezoid{b: 4, z: 0, n: 0.015, k: 1, g: g, q: 5.5, s0: 0.002}
+	yn := refT.normalDepth()
+	for _, p := range trunk.Points {
+		require.InDelta(t, yn, p.Depth, 1e-6*yn, "uniform trunk at station %v", p.Station)
+	}
+	require.Empty(t, trunk.Profiles, "uniform flow belongs to no varied-flow profile")
+	h := m.Reaches[2].InvertUp + refT.energy(yn)
+	require.InDelta(t, h, trunk.Points[0].Energy, 1e-6)
+
+	for _, c := range []struct {
+		rr  *ReachResult
+		ref gvfTrapezoid
+	}{
+		{west, gvfTrapezoid{b: 2, z: 1.5, n: 0.02, k: 1, g: g, q: 3, s0: 0.001}},
+		{north, gvfTrapezoid{b: 1.5, z: 0, n: 0.015, k: 1, g: g, q: 2, s0: 0.004}},
+	} {
+		last := c.rr.Points[len(c.rr.Points)-1]
+		e := h - last.Invert
+		yc := c.ref.criticalDepth()
+		require.Greater(t, e, c.ref.energy(yc), "the junction level drowns the tributary end")
+		want := bisect(func(y float64) float64 { return c.ref.energy(y) - e }, yc, 50)
+		require.InDeltaf(t, want, last.Depth, 1e-6*want, "end depth of %s", c.rr.Reach.Name)
+		require.InDeltaf(t, h, last.Energy, 1e-6, "energy grade of %s at the junction", c.rr.Reach.Name)
+		require.Equal(t, Mild, c.rr.SlopeClass)
+	}
+	requireFinite(t, &Result{Events: []*EventResult{ev}})
+}
+
+// TestFreeFallIntoJunction: a tributary whose bed ends high above the
+// junction level ends at critical depth (a drop into the junction).
+//
+// Source: a free overfall passes through critical depth at the brink
+// (Chow 1959, §4-4; common practice to take the brink depth as critical
+// in a screening model).
+func TestFreeFallIntoJunction(t *testing.T) {
+	trunkSec := trapezoid("trunk", 6, 0, 0.015, 3)
+	sideSec := trapezoid("side", 1, 0, 0.015, 2)
+	m := buildNet(t, model.SI, []netReach{
+		{name: "side", from: "s", to: "j", length: 200, slope: 0.001, sec: sideSec, inflow: 1},
+		{name: "main", from: "m", to: "j", length: 200, slope: 0.001, sec: trunkSec, inflow: 4},
+		{name: "trunk", from: "j", to: "out", length: 300, slope: 0.001, sec: trunkSec, inflow: 0},
+	}, model.Outlet{Kind: model.OutletNormal})
+	// Raise the side reach's bed by a 2 m step above the junction.
+	m.Reaches[0].InvertUp += 2
+	m.Reaches[0].InvertDown += 2
+	ev := solveOne(t, m)
+	side := ev.Reaches[0]
+	last := side.Points[len(side.Points)-1]
+	ref := gvfTrapezoid{b: 1, z: 0, n: 0.015, k: 1, g: 9.80665, q: 1, s0: 0.001}
+	require.InDelta(t, ref.criticalDepth(), last.Depth, 1e-7)
+	require.Equal(t, Critical, last.Regime)
+	require.Equal(t, []string{"M2"}, side.ProfileTypes())
+}
+
+// TestSupercriticalJunction: two steep tributaries reach normal depth and
+// join a steep trunk. The rule documented in network.go: the trunk starts
+// on its supercritical branch at the discharge-weighted energy grade
+// elevation of the inflows, H = Σ Qᵢ·Hᵢ / Σ Qᵢ, without loss. The trunk
+// is wide enough that its critical energy (the junction level the
+// subcritical pass passes upstream) is below both tributaries' critical
+// energies, so neither is drowned and both arrive supercritical. (With a
+// narrow trunk the junction level can exceed a tributary's sequent depth
+// and the jump then forms at the tributary's end.)
+//
+// Source: conservation of energy flux at a junction without loss
+// (common practice (no published source) for a screening model);
+// normal depth by Manning's equation (Chow 1959, ch. 6).
+func TestSupercriticalJunction(t *testing.T) {
+	const g = 9.80665
+	a := trapezoid("a", 1.2, 0, 0.014, 1.5)
+	b := trapezoid("b", 1.0, 1, 0.014, 1.5)
+	trunk := trapezoid("trunk", 4, 0, 0.014, 2)
+	m := buildNet(t, model.SI, []netReach{
+		{name: "a", from: "ha", to: "j", length: 1500, slope: 0.03, sec: a, inflow: 2},
+		{name: "b", from: "hb", to: "j", length: 1500, slope: 0.05, sec: b, inflow: 1.5},
+		{name: "trunk", from: "j", to: "out", length: 300, slope: 0.03, sec: trunk},
+	}, model.Outlet{Kind: model.OutletCritical})
+	ev := solveOne(t, m)
+	refA := gvfTrapezoid{b: 1.2, z: 0, n: 0.014, k: 1, g: g, q: 2, s0: 0.03}
+	refB := gvfTrapezoid{b: 1.0, z: 1, n: 0.014, k: 1, g: g, q: 1.5, s0: 0.05}
+	refT := gvfTrapezoid{b: 4, z: 0, n: 0.014, k: 1, g: g, q: 3.5, s0: 0.03}
+	z := m.Reaches[2].InvertUp
+	hA := z + refA.energy(refA.normalDepth())
+	hB := z + refB.energy(refB.normalDepth())
+	h := (2*hA + 1.5*hB) / 3.5
+	yc := refT.criticalDepth()
+	want := bisect(func(y float64) float64 { return refT.energy(y) - (h - z) }, 1e-3, yc)
+	got := ev.Reaches[2].Points[0]
+	// The tributaries are 1.5 km long: their S2 curves are at normal depth
+	// to far better than 1e-6 at the junction.
+	require.InDelta(t, want, got.Depth, 1e-6*want)
+	require.Equal(t, Supercritical, got.Regime)
+	require.True(t, hasNote(ev.Reaches[2], NoteControl, "discharge-weighted energy"))
+	for _, r := range ev.Reaches[:2] {
+		require.Equal(t, Steep, r.SlopeClass)
+		require.Equal(t, []string{"S2"}, r.ProfileTypes())
+	}
+	require.InDelta(t, 3.5, ev.Reaches[2].Discharge, 1e-12)
+}
