@@ -21,6 +21,9 @@ const (
 // section produces).
 const gridSub = 8
 
+// gridMax bounds the scan grid of sections with many vertex elevations.
+const gridMax = 4096
+
 // gridJustAbove places a scan depth just above each vertex elevation l, at
 // l + gridJustAbove·(1 + l).
 const gridJustAbove = 1e-9
@@ -33,16 +36,22 @@ const gridJustAbove = 1e-9
 // including isolated pockets. Above the higher end point the two end
 // points are extended by vertical walls, which are wetted (they add
 // perimeter, no area outside the polyline's offsets). The vertical lines
-// that divide the zones are not wetted perimeter (Chow 1959, §6-7, divided
-// channel method).
+// that divide the zones are not wetted perimeter (divided channel method;
+// Chow 1959, ch. 6, from memory).
 type compound struct {
 	x, e  []float64 // vertices (offsets, elevations above the lowest point), banks inserted
-	zone  []uint8   // zone of segment i (vertices i and i+1)
+	dx, l []float64 // horizontal and true length of segment i (vertices i and i+1)
+	zone  []uint8   // zone of segment i
 	wallL uint8     // zone of the left wall
 	wallR uint8     // zone of the right wall
 	kn    [3]float64
-	grid  []float64 // ascending scan depths (see gridSub)
-	zmin  float64   // elevation of the lowest point
+	// levels are the distinct vertex elevations above the lowest point,
+	// ascending from 0; bands[j] holds the properties for
+	// levels[j] < y ≤ levels[j+1].
+	levels []float64
+	bands  []band
+	grid   []float64 // ascending scan depths (see gridSub)
+	zmin   float64   // elevation of the lowest point
 }
 
 func newCompound(s *model.Section, k float64) compound {
@@ -93,26 +102,28 @@ func newCompound(s *model.Section, k float64) compound {
 		c.x = append(c.x, p.Offset)
 		c.e = append(c.e, p.Elevation-c.zmin)
 	}
-	c.zone = make([]uint8, max(len(c.x)-1, 0))
+	ns := max(len(c.x)-1, 0)
+	c.zone, c.dx, c.l = make([]uint8, ns), make([]float64, ns), make([]float64, ns)
 	for i := range c.zone {
 		c.zone[i] = zoneOf((c.x[i] + c.x[i+1]) / 2)
+		c.dx[i] = c.x[i+1] - c.x[i]
+		c.l[i] = math.Hypot(c.dx[i], c.e[i+1]-c.e[i])
 	}
 	c.wallL, c.wallR = zoneOf(c.x[0]), zoneOf(c.x[len(c.x)-1])
 
+	c.buildBands()
+
 	// Scan grid: the distinct vertex elevations above the lowest point,
-	// each interval split in gridSub parts, and a depth just above each
+	// each interval split in sub parts, and a depth just above each
 	// vertex elevation, where the top width jumps when a flat part of the
-	// bed (an overbank) starts to flood.
-	levels := slices.Clone(c.e)
-	slices.Sort(levels)
-	levels = slices.Compact(levels)
+	// bed (an overbank) starts to flood. Sections with very many levels
+	// get fewer parts per interval (their intervals are short), which
+	// bounds the grid to about gridMax depths plus two per level.
+	sub := max(1, min(gridSub, gridMax/len(c.levels)))
 	prev := 0.0
-	for _, l := range levels {
-		if l <= 0 {
-			continue
-		}
-		for j := 1; j <= gridSub; j++ {
-			c.grid = append(c.grid, prev+(l-prev)*float64(j)/gridSub)
+	for _, l := range c.levels[1:] {
+		for j := 1; j <= sub; j++ {
+			c.grid = append(c.grid, prev+(l-prev)*float64(j)/float64(sub))
 		}
 		c.grid = append(c.grid, l+gridJustAbove*(1+l))
 		prev = l
@@ -131,75 +142,184 @@ func (c *compound) defaultHeight() float64 {
 	return math.Max(l, r)
 }
 
+// band holds the hydraulic properties of a points section between two
+// consecutive vertex elevations, L_j < y ≤ L_j+1 (the last band: y > L_m),
+// as polynomials in u = y − L_j: per zone the area A_i (degree 2) and
+// wetted perimeter P_i (degree 1), and for the whole section the top width
+// (degree 1) and the first moment A·z̄ (degree 3). Coefficient k multiplies
+// u^k.
+type band struct {
+	a [3][3]float64
+	p [3][2]float64
+	t [2]float64
+	m [4]float64
+}
+
+// shift re-expands the polynomials of b about a level h higher: p(u) is
+// replaced by p(u + h) (Taylor shift). Every coefficient of the fully wet
+// part is a sum of non-negative terms, so the shift adds non-negative
+// terms only and loses no precision.
+func (b *band) shift(h float64) {
+	for z := range 3 {
+		a := &b.a[z]
+		a[0] += (a[1] + a[2]*h) * h
+		a[1] += 2 * a[2] * h
+		b.p[z][0] += b.p[z][1] * h
+	}
+	b.t[0] += b.t[1] * h
+	m := &b.m
+	m[0] += (m[1] + (m[2]+m[3]*h)*h) * h
+	m[1] += (2*m[2] + 3*m[3]*h) * h
+	m[2] += 3 * m[3] * h
+}
+
+// addFull adds segment i, wetted over its whole length, expanded about
+// level l (at or above both its ends). With δa = l − e_a, δb = l − e_b:
+//
+//	A = Δx·(u + (δa+δb)/2)     T = Δx     P = length
+//	A·z̄ = Δx·(3u² + 3u·(δa+δb) + δa² + δa·δb + δb²)/6
+func (c *compound) addFull(b *band, i int, l float64) {
+	z := c.zone[i]
+	dx := c.dx[i]
+	b.p[z][0] += c.l[i]
+	if dx <= 0 {
+		return
+	}
+	da, db := l-c.e[i], l-c.e[i+1]
+	b.a[z][0] += dx * (da + db) / 2
+	b.a[z][1] += dx
+	b.t[0] += dx
+	b.m[0] += dx * (da*da + da*db + db*db) / 6
+	b.m[1] += dx * (da + db) / 2
+	b.m[2] += dx / 2
+}
+
+// addPartial adds segment i, wetted from its lower end up to the water
+// surface, expanded about level l (between its ends). With
+// d = u + δ, δ = l − e_min and rise Δe = e_max − e_min:
+//
+//	A = Δx·d²/(2Δe)     T = Δx·d/Δe     P = length·d/Δe
+//	A·z̄ = Δx·d³/(6Δe)
+//
+// (a vertical segment: P = d only).
+func (c *compound) addPartial(b *band, i int, l float64) {
+	z := c.zone[i]
+	ea, eb := c.e[i], c.e[i+1]
+	lo, rise := math.Min(ea, eb), math.Abs(eb-ea)
+	d := l - lo
+	dx := c.dx[i]
+	if dx <= 0 {
+		b.p[z][0] += d
+		b.p[z][1]++
+		return
+	}
+	w := c.l[i] / rise
+	b.p[z][0] += w * d
+	b.p[z][1] += w
+	r := dx / rise
+	b.t[0] += r * d
+	b.t[1] += r
+	ca := r / 2
+	b.a[z][0] += ca * d * d
+	b.a[z][1] += 2 * ca * d
+	b.a[z][2] += ca
+	cm := r / 6
+	b.m[0] += cm * d * d * d
+	b.m[1] += 3 * cm * d * d
+	b.m[2] += 3 * cm * d
+	b.m[3] += cm
+}
+
+// buildBands fills c.levels and c.bands by one sweep up the vertex
+// elevations: the fully wet part is carried from band to band by shift,
+// the few segments that cross a band (two per crossing of the water
+// surface with the bed) are added afresh, so the cost is about
+// O(N·log N + N·crossings) and Props is O(log N) for any number of points.
+func (c *compound) buildBands() {
+	c.levels = slices.Clone(c.e)
+	slices.Sort(c.levels)
+	c.levels = slices.Compact(c.levels)
+	nl := len(c.levels)
+	level := func(e float64) int {
+		j, _ := slices.BinarySearch(c.levels, e)
+		return j
+	}
+	// Segments that start to be wetted and that become fully wet at
+	// each level.
+	starts, fulls := make([][]int, nl), make([][]int, nl)
+	for i := range c.zone {
+		ea, eb := c.e[i], c.e[i+1]
+		lo, hi := level(math.Min(ea, eb)), level(math.Max(ea, eb))
+		if lo < hi {
+			starts[lo] = append(starts[lo], i)
+		}
+		fulls[hi] = append(fulls[hi], i)
+	}
+	c.bands = make([]band, nl)
+	var full band
+	var active []int
+	for j, l := range c.levels {
+		if j > 0 {
+			full.shift(l - c.levels[j-1])
+		}
+		for _, i := range fulls[j] {
+			if k := slices.Index(active, i); k >= 0 {
+				active = slices.Delete(active, k, k+1)
+			}
+			c.addFull(&full, i, l)
+		}
+		// The end walls, wetted above their foot: P = u + (l − e_end).
+		for _, w := range [2]struct {
+			e float64
+			z uint8
+		}{{c.e[0], c.wallL}, {c.e[len(c.e)-1], c.wallR}} {
+			if level(w.e) == j {
+				full.p[w.z][1]++
+			}
+		}
+		active = append(active, starts[j]...)
+		b := full
+		for _, i := range active {
+			c.addPartial(&b, i, l)
+		}
+		c.bands[j] = b
+	}
+}
+
 // props of a points section at depth y (already clamped to a positive
-// value). Each segment from (x_a, e_a) to (x_b, e_b) contributes, over its
-// wetted part, with d = y − e(x) linear along it:
-//
-//	A = ∫ d dx     T = wetted horizontal length     P = wetted length
-//	A·z̄ = ∫ d²/2 dx = Δx·(d_a² + d_a·d_b + d_b²)/6 for a fully wet segment
-//
-// (exact for a polyline; common practice, no published source). Per zone
-// i, K_i = (k/n_i)·A_i·R_i^(2/3) with R_i = A_i/P_i; K = Σ K_i and
-// α = (Σ K_i³/A_i²)/(K³/A²) (divided channel method: Chow 1959, §6-7
-// and §8-7, from memory).
+// value), from the band that holds y.
 func (c *compound) props(y float64) Props {
-	var a, p, t, m [3]float64
-	x, e := c.x, c.e
-	for i, z := range c.zone {
-		ea, eb := e[i], e[i+1]
-		if ea >= y && eb >= y {
-			continue
-		}
-		dx := x[i+1] - x[i]
-		if dx <= 0 {
-			// Vertical segment: wetted height only.
-			lo, hi := math.Min(ea, eb), math.Min(math.Max(ea, eb), y)
-			p[z] += hi - lo
-			continue
-		}
-		da, db := y-ea, y-eb
-		l := math.Hypot(dx, eb-ea)
-		switch {
-		case da >= 0 && db >= 0:
-			a[z] += dx * (da + db) / 2
-			t[z] += dx
-			p[z] += l
-			m[z] += dx * (da*da + da*db + db*db) / 6
-		case da > 0: // wet at a, dry at b
-			f := da / (da - db)
-			a[z] += f * dx * da / 2
-			t[z] += f * dx
-			p[z] += f * l
-			m[z] += f * dx * da * da / 6
-		default: // dry at a, wet at b
-			f := db / (db - da)
-			a[z] += f * dx * db / 2
-			t[z] += f * dx
-			p[z] += f * l
-			m[z] += f * dx * db * db / 6
-		}
+	j, _ := slices.BinarySearch(c.levels, y) // first level ≥ y
+	j = max(j-1, 0)
+	b := &c.bands[j]
+	u := y - c.levels[j]
+	var a, p [3]float64
+	for z := range 3 {
+		ab := &b.a[z]
+		a[z] = ab[0] + (ab[1]+ab[2]*u)*u
+		p[z] = b.p[z][0] + b.p[z][1]*u
 	}
-	if w := y - e[0]; w > 0 {
-		p[c.wallL] += w
-	}
-	if w := y - e[len(e)-1]; w > 0 {
-		p[c.wallR] += w
-	}
-	var out Props
+	return c.assemble(a, p, b.t[0]+b.t[1]*u, b.m[0]+(b.m[1]+(b.m[2]+b.m[3]*u)*u)*u)
+}
+
+// assemble completes the properties from the area and wetted perimeter of
+// each zone and the section's top width and first moment. Per zone i,
+// K_i = (k/n_i)·A_i·R_i^(2/3) with R_i = A_i/P_i; K = Σ K_i and
+// α = (Σ K_i³/A_i²)/(K³/A²) (divided channel method: Chow 1959, ch. 6,
+// from memory).
+func (c *compound) assemble(a, p [3]float64, t, m float64) Props {
+	out := Props{TopWidth: t, FirstMoment: m, Alpha: 1}
 	var sk3a2 float64
-	for i := range 3 {
-		out.Area += a[i]
-		out.Perimeter += p[i]
-		out.TopWidth += t[i]
-		out.FirstMoment += m[i]
-		if a[i] > 0 && p[i] > 0 {
-			r := a[i] / p[i]
-			ki := c.kn[i] * a[i] * math.Cbrt(r*r)
-			out.Conveyance += ki
-			sk3a2 += ki * ki * ki / (a[i] * a[i])
+	for z := range 3 {
+		out.Area += a[z]
+		out.Perimeter += p[z]
+		if a[z] > 0 && p[z] > 0 {
+			r := a[z] / p[z]
+			k := c.kn[z] * a[z] * math.Cbrt(r*r)
+			out.Conveyance += k
+			sk3a2 += k * k * k / (a[z] * a[z])
 		}
 	}
-	out.Alpha = 1
 	if out.Perimeter > 0 {
 		out.HydraulicRadius = out.Area / out.Perimeter
 	}

@@ -10,7 +10,7 @@ import (
 )
 
 func TestPointsTraceClosedForms(t *testing.T) {
-	// Source: Chow 1959, Table 2-1 (rectangle and trapezoid), compared with
+	// Source: Chow 1959, Table 2-1, from memory (rectangle and trapezoid), compared with
 	// points sections that trace the same shapes exactly.
 	const n = 0.015
 	rect := geoRect(4, n, model.SI)
@@ -38,7 +38,7 @@ func TestPointsTraceClosedForms(t *testing.T) {
 
 func TestPointsSubdividedConveyance(t *testing.T) {
 	// Source: hand calculation of the divided channel method (Chow 1959,
-	// §6-7, from memory): a 4-wide rectangle with banks at offsets 1 and 3
+	// ch. 6, from memory): a 4-wide rectangle with banks at offsets 1 and 3
 	// and depth 1. Left and right zones: A = 1, P = 1 (bed) + 1 (wall);
 	// main zone: A = 2, P = 2; the division lines are not wetted, so
 	// K = (1/n)·(2·1·(1/2)^(2/3) + 2·1^(2/3)).
@@ -71,7 +71,7 @@ func TestPointsCompoundAlphaAndContinuity(t *testing.T) {
 	// overbanks 20 wide each, rougher.
 	g := geoPoints([][2]float64{{0, 4}, {0, 2}, {20, 2}, {21, 0}, {27, 0}, {28, 2}, {48, 2}, {48, 4}},
 		[2]float64{20, 28}, [3]float64{0.06, 0.03, 0.06}, model.SI)
-	// Source: Chow 1959, §8-7 (from memory): α > 1 in a compound section
+	// Source: Chow 1959, ch. 6 (from memory): α > 1 in a compound section
 	// with flowing overbanks (typically 1.1 to 2); α = 1 with one zone.
 	assert.InDelta(t, 1.0, g.Props(1.5).Alpha, 1e-12, "overbanks dry: one subdivision")
 	a := g.Props(2.5).Alpha

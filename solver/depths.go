@@ -133,7 +133,7 @@ func criticalFn(g *Geometry, q float64) func(float64) float64 {
 }
 
 // CriticalDepth is the depth where α·Q²·T/(g·A³) = 1, the minimum of the
-// specific energy for a single subdivision (Chow 1959, §4-2 and eq. 4-6).
+// specific energy for a single subdivision (Chow 1959, ch. 4).
 // A zero discharge has critical depth 0.
 //
 // Rectangle, trapezoid, triangle: the condition has a single root, found
@@ -207,7 +207,7 @@ func criticalSingle(g *Geometry, q float64) (float64, error) {
 		return Brent(f, lo, hi, 0)
 	}
 	// yc = (Q²/(g·b²))^(1/3) for a rectangle; (2·Q²/(g·z²))^(1/5) for a
-	// triangle (Chow 1959, Table 4-1).
+	// triangle (Chow 1959, ch. 4).
 	var y0 float64
 	switch {
 	case g.b > 0:

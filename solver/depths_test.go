@@ -13,7 +13,7 @@ import (
 
 func TestCriticalDepthRectangle(t *testing.T) {
 	// Source: references.md closed form, yc = (q²/g)^(1/3) with q = Q/b
-	// (Chow 1959, §4-3).
+	// (Chow 1959, ch. 4).
 	for _, u := range []model.Units{model.SI, model.US} {
 		for _, c := range []struct{ b, q float64 }{{3, 5}, {0.5, 0.01}, {12, 400}, {2, 1e-4}} {
 			g := geoRect(c.b, 0.015, u)
@@ -29,7 +29,7 @@ func TestCriticalDepthRectangle(t *testing.T) {
 func TestCriticalConditionAllShapes(t *testing.T) {
 	// Source: references.md: at critical depth Q²T/(gA³) = 1 for any shape
 	// (α Q²T/(gA³) = 1 with the energy coefficient of a compound section,
-	// Chow 1959, eq. 4-6).
+	// Chow 1959, ch. 4).
 	cases := []struct {
 		name string
 		g    *Geometry
@@ -182,7 +182,7 @@ func TestNormalDepthErrors(t *testing.T) {
 
 func TestNormalDepthPoints(t *testing.T) {
 	// Source: Manning's equation with subdivided conveyance (Chow 1959,
-	// §6-7): K(yn)·√S0 = Q at the returned depth.
+	// ch. 6): K(yn)·√S0 = Q at the returned depth.
 	g := geoNatural()
 	for _, q := range []float64{0.05, 3, 30, 300, 5000} {
 		yn, err := NormalDepth(g, q, 0.001)

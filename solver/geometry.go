@@ -115,7 +115,8 @@ type Props struct {
 	// that Q = K·√Sf (Manning).
 	Conveyance float64
 	// Alpha is the energy (Coriolis) coefficient of a subdivided section,
-	// (Σ K_i³/A_i²)/(K³/A²) (Chow 1959, §8-7); 1 for a single subdivision.
+	// (Σ K_i³/A_i²)/(K³/A²) (Chow 1959, ch. 6, from memory); 1 for a single
+	// subdivision.
 	Alpha float64
 	// Full is true for a closed conduit at or above its crown.
 	Full bool
@@ -147,7 +148,7 @@ func clampDepth(y float64) float64 {
 // not allocate.
 //
 // Rectangle, trapezoid and triangle (bottom width b, side slope z
-// horizontal per unit vertical; Chow 1959, Table 2-1):
+// horizontal per unit vertical; Chow 1959, Table 2-1, from memory):
 //
 //	A = (b + z·y)·y      P = b + 2·y·√(1+z²)      T = b + 2·z·y
 //	A·z̄ = b·y²/2 + z·y³/3
@@ -178,7 +179,7 @@ func (g *Geometry) Props(y float64) Props {
 // FroudeNumber is F = √(α·Q²·T / (g·A³)), the Froude number of the
 // section with the energy coefficient α included, so that F = 1 exactly
 // where the critical-flow condition α·Q²·T/(g·A³) = 1 holds (Chow 1959,
-// eq. 4-6 with the hydraulic depth D = A/T) and CriticalDepth, FroudeNumber
+// ch. 4, with the hydraulic depth D = A/T) and CriticalDepth, FroudeNumber
 // and the regime agree. It is 0 for zero discharge and at the crown of a
 // circle, where T = 0.
 func FroudeNumber(g *Geometry, q, y float64) float64 {
@@ -203,7 +204,7 @@ func SpecificEnergy(g *Geometry, q, y float64) float64 {
 }
 
 // SpecificForce is the momentum function M = Q²/(g·A) + A·z̄ (Chow 1959,
-// §3-7), in units of volume; it is equal on both sides of a hydraulic
+// ch. 3), in units of volume; it is equal on both sides of a hydraulic
 // jump. The momentum coefficient is taken as 1 for every shape; for a
 // points section A·z̄ is that of the whole wetted area.
 func SpecificForce(g *Geometry, q, y float64) float64 {

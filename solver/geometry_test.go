@@ -52,7 +52,7 @@ func geoClose(t *testing.T, want, got, rel float64, what string, args ...any) {
 }
 
 func TestGeometryPrismaticClosedForms(t *testing.T) {
-	// Source: Chow, Open-Channel Hydraulics (1959), Table 2-1 (geometric
+	// Source: Chow, Open-Channel Hydraulics (1959), Table 2-1, from memory (geometric
 	// elements of channel sections), written out here independently.
 	const y = 1.3
 	cases := []struct {

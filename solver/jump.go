@@ -12,7 +12,7 @@ const NoJump JumpType = ""
 
 // Upper bounds of the jump classes by upstream Froude number F1 (Peterka,
 // Hydraulic Design of Stilling Basins and Energy Dissipators, USBR
-// Engineering Monograph 25, 1958; Chow 1959, §15-3). A value on a bound
+// Engineering Monograph 25, 1958; Chow 1959, ch. 15). A value on a bound
 // belongs to the lower class.
 const (
 	undularMaxF     = 1.7
@@ -23,7 +23,7 @@ const (
 
 // ClassifyJump returns the type of a jump on a horizontal floor from its
 // upstream Froude number: undular 1–1.7, weak 1.7–2.5, oscillating
-// 2.5–4.5, steady 4.5–9, strong above 9 (Peterka 1958; Chow 1959, §15-3).
+// 2.5–4.5, steady 4.5–9, strong above 9 (Peterka 1958; Chow 1959, ch. 15).
 // Each class includes its upper bound. F1 ≤ 1 (or NaN) gives NoJump.
 func ClassifyJump(f1 float64) JumpType {
 	switch {
@@ -45,7 +45,7 @@ func ClassifyJump(f1 float64) JumpType {
 // horizontal apron, L/y2 against the upstream Froude number F1.
 //
 //	Source: Peterka, USBR Engineering Monograph 25 (1958), figure of the
-//	length of jump in terms of y2 (reproduced in Chow 1959, Fig. 15-4);
+//	length of jump in terms of y2 (reproduced in Chow 1959, ch. 15);
 //	values read from the curve to about ±0.1, from memory.
 //
 // The curve starts at F1 = 1.7 (below it jumps are undular and have no
@@ -75,7 +75,7 @@ func JumpLength(y1, y2, f1 float64) float64 {
 }
 
 // SequentDepth returns the depth conjugate to y for discharge q: the other
-// depth with the same specific force M = Q²/(g·A) + A·z̄ (Chow 1959, §3-7
+// depth with the same specific force M = Q²/(g·A) + A·z̄ (Chow 1959, ch. 3
 // and ch. 15), deeper when y is supercritical and shallower when it is
 // subcritical. Since dM/dy = A − Q²·T/(g·A²), M is least where
 // Q²·T/(g·A³) = 1; the search first finds that minimum next to y and then

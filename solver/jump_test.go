@@ -37,7 +37,7 @@ func TestSequentDepthBelanger(t *testing.T) {
 }
 
 func TestSequentDepthEqualForce(t *testing.T) {
-	// Source: references.md; Chow 1959, §3-7: the specific force
+	// Source: references.md; Chow 1959, ch. 3: the specific force
 	// Q²/(gA) + A·z̄ is equal at the two sequent depths of a jump in any
 	// prismatic section.
 	cases := []struct {
@@ -114,7 +114,7 @@ func TestSequentDepthRoundTrip(t *testing.T) {
 
 func TestClassifyJump(t *testing.T) {
 	// Source: Peterka, USBR Engineering Monograph 25 (1958); Chow 1959,
-	// §15-3 (references.md): undular 1–1.7, weak 1.7–2.5, oscillating
+	// ch. 15 (references.md): undular 1–1.7, weak 1.7–2.5, oscillating
 	// 2.5–4.5, steady 4.5–9, strong > 9.
 	cases := []struct {
 		f    float64
