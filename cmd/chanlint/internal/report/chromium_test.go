@@ -1,0 +1,72 @@
+package report
+
+import (
+	"bytes"
+	"context"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// chromium is where Debian's chromium package installs the browser
+// (apt-get install -y chromium).
+const chromium = "/usr/bin/chromium"
+
+// TestHTMLInChromium loads the report in headless Chromium from a file://
+// URL, checks the rendered DOM holds the profile plots with their paths and
+// that the browser logged no console error, and takes a screenshot. Set
+// CHANLINT_REPORT_SHOTS to a directory to keep the page and screenshot.
+func TestHTMLInChromium(t *testing.T) {
+	if _, err := os.Stat(chromium); err != nil {
+		t.Skipf("headless browser test skipped: %s not found (install it with: apt-get install -y chromium)", chromium)
+	}
+	dir := t.TempDir()
+	if keep := os.Getenv("CHANLINT_REPORT_SHOTS"); keep != "" {
+		require.NoError(t, os.MkdirAll(keep, 0o755))
+		dir = keep
+	}
+	page := filepath.Join(dir, "report.html")
+	var buf bytes.Buffer
+	require.NoError(t, HTML(&buf, fixtureInput(t, "heron-flats.chan.hcl", "inject.chan.hcl")))
+	require.NoError(t, os.WriteFile(page, buf.Bytes(), 0o644))
+	url := "file://" + filepath.ToSlash(page)
+
+	run := func(extra ...string) (stdout, stderr string) {
+		ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
+		defer cancel()
+		args := append([]string{"--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+			"--disable-background-networking", "--disable-component-update", "--disable-sync",
+			"--user-data-dir=" + t.TempDir(), "--enable-logging=stderr", "--v=0"}, extra...)
+		args = append(args, url)
+		cmd := exec.CommandContext(ctx, chromium, args...)
+		var o, e bytes.Buffer
+		cmd.Stdout, cmd.Stderr = &o, &e
+		err := cmd.Run()
+		require.NoError(t, err, "chromium failed: %s", e.String())
+		return o.String(), e.String()
+	}
+
+	dom, logs := run("--dump-dom")
+	assert.Contains(t, dom, "Heron Flats outfall channel")
+	assert.GreaterOrEqual(t, strings.Count(dom, "<svg "), 5, "plots in the rendered DOM")
+	assert.Greater(t, strings.Count(dom, "<path "), 20, "plot lines in the rendered DOM")
+	assert.NotContains(t, dom, "<script", "a model string became markup")
+	for _, bad := range []string{"Uncaught", "ERROR:CONSOLE", "CONSOLE("} {
+		assert.NotContains(t, logs, bad, "console error in the browser log")
+	}
+
+	shot := filepath.Join(dir, "report.png")
+	_, logs = run("--screenshot="+shot, "--window-size=1280,2000", "--hide-scrollbars")
+	for _, bad := range []string{"Uncaught", "ERROR:CONSOLE"} {
+		assert.NotContains(t, logs, bad)
+	}
+	info, err := os.Stat(shot)
+	require.NoError(t, err, "no screenshot written")
+	assert.Greater(t, info.Size(), int64(20_000), "the screenshot looks empty")
+}

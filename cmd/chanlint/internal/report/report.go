@@ -1,0 +1,569 @@
+// Package report writes the review report of `chanlint report`: a single
+// self-contained HTML page (inline CSS and inline SVG, no scripts, fonts or
+// external resources), or Markdown with the SVG plots in files beside it,
+// for a person who reviews a submittal.
+//
+// The page holds: the policy applied (name, reference, source), a summary
+// per model, and for each model and event a longitudinal profile plot —
+// bed, water surface, critical-depth line (invert + yc), energy grade, top
+// of bank or lining (invert + section height), hydraulic jumps with F₁ and
+// type, basins, bends, gates, and the failing spans of the findings
+// numbered as in the findings table. A network is drawn as its main stem
+// (the longest headwater-to-outlet path, stations accumulated along it,
+// reach boundaries named) followed by a smaller plot of every other reach.
+// Then the findings table, the design exceptions claimed (with their
+// reasons and whether each covered a finding), the files that are not
+// valid models with their diagnostics, and the caution.
+//
+// Every string that comes from a model or a policy is escaped by
+// html/template (HTML text, attributes and SVG text alike), so a submittal
+// cannot inject markup into the page. The output depends only on the
+// input: no dates, no machine names.
+package report
+
+import (
+	"bufio"
+	"bytes"
+	"embed"
+	"fmt"
+	"html/template"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
+	"github.com/chanlint/chanlint/solver"
+	"github.com/hashicorp/hcl/v2"
+)
+
+// Model is one valid model with its solution and its findings.
+type Model struct {
+	Model    *model.Model
+	Result   *solver.Result // nil when the model could not be solved
+	Findings []rules.Finding
+}
+
+// Input is what a report shows.
+type Input struct {
+	Models      []Model
+	Policy      *policies.Policy
+	Caution     string          // normally rules.Caution
+	Invalid     []rules.Finding // diagnostics of files that are not valid models
+	ToolVersion string
+}
+
+//go:embed templates/*.tmpl
+var templateFS embed.FS
+
+var tmpl = template.Must(template.New("").Funcs(template.FuncMap{
+	"num": num,
+	// Layout helpers of the SVG template (user units).
+	"add":        func(a, b float64) float64 { return a + b },
+	"half":       func(x float64) float64 { return x / 2 },
+	"tickX":      func(x float64) float64 { return x - 7 },
+	"tickY":      func(y float64) float64 { return y + 16 },
+	"xLabelY":    func(y float64) float64 { return y + 37 },
+	"bendY":      func(y float64) float64 { return y - 4 },
+	"bandColour": bandColour,
+	"spanColour": func(kind string) string { return bandColour(strings.TrimPrefix(kind, "span-")) },
+}).ParseFS(templateFS, "templates/*.tmpl"))
+
+// HTML writes the report as one self-contained HTML page.
+func HTML(w io.Writer, in Input) error {
+	pg := build(in)
+	bw := bufio.NewWriter(w)
+	if err := tmpl.ExecuteTemplate(bw, "page.html.tmpl", pg); err != nil {
+		return fmt.Errorf("report: %w", err)
+	}
+	return bw.Flush()
+}
+
+// Markdown writes name.md into dir, with each profile plot as an SVG file
+// beside it (name-1.svg, name-2.svg, ...) linked relatively. name is used
+// as a file name only (any directory part is dropped).
+func Markdown(dir, name string, in Input) error {
+	name = strings.TrimSuffix(filepath.Base(name), ".md")
+	if name == "" || name == "." || name == string(filepath.Separator) {
+		name = "chanlint-report"
+	}
+	pg := build(in)
+	k := 0
+	for _, m := range pg.Models {
+		for _, ev := range m.Events {
+			for _, p := range ev.Plots {
+				k++
+				p.File = fmt.Sprintf("%s-%d.svg", name, k)
+				var buf bytes.Buffer
+				if err := tmpl.ExecuteTemplate(&buf, "file.svg.tmpl", p); err != nil {
+					return fmt.Errorf("report: %w", err)
+				}
+				if err := os.WriteFile(filepath.Join(dir, p.File), buf.Bytes(), 0o644); err != nil {
+					return fmt.Errorf("report: %w", err)
+				}
+			}
+		}
+	}
+	var md bytes.Buffer
+	writeMarkdown(&md, pg)
+	if err := os.WriteFile(filepath.Join(dir, name+".md"), md.Bytes(), 0o644); err != nil {
+		return fmt.Errorf("report: %w", err)
+	}
+	return nil
+}
+
+// bandColour is the colour of a failing span by severity.
+func bandColour(kind string) string {
+	switch kind {
+	case "error":
+		return "#c0392b"
+	case "warning":
+		return "#c27c0e"
+	}
+	return "#5d6d7e"
+}
+
+// page is the view the templates render.
+type page struct {
+	Title       string
+	ToolVersion string
+	Caution     string
+	Policy      *policyView
+	Totals      counts
+	Models      []*modelView
+	Invalid     []findingRow
+	InvalidN    int // distinct invalid files
+}
+
+type policyView struct {
+	Name, Reference, Source, Units, Exceptions string
+	Chain                                      []string
+	Rules                                      []ruleRow
+}
+
+type ruleRow struct {
+	ID, Severity, Events, Settings string
+}
+
+type counts struct {
+	Errors, Warnings, Infos, Excepted int
+}
+
+// Verdict is the one-line state of a set of counts.
+func (c counts) Verdict() string {
+	switch {
+	case c.Errors > 0:
+		return plural(c.Errors, "error") + " to resolve"
+	case c.Warnings > 0:
+		return "no errors; " + plural(c.Warnings, "warning") + " to review"
+	default:
+		return "no errors or warnings against the policy"
+	}
+}
+
+// Class is the CSS state class of a set of counts.
+func (c counts) Class() string {
+	switch {
+	case c.Errors > 0:
+		return "error"
+	case c.Warnings > 0:
+		return "warning"
+	}
+	return "clear"
+}
+
+type modelView struct {
+	Anchor, File, Title, Units string
+	UnitsLong                  string
+	Reaches, EventsN           int
+	Counts                     counts
+	Events                     []*eventView
+	Findings                   []findingRow
+	Exceptions                 []exceptionRow
+	Unsolved                   string
+}
+
+type eventView struct {
+	Name    string
+	Anchor  string
+	Reaches []reachRow
+	Plots   []*plotView
+}
+
+type plotView struct {
+	*Plot
+	Small bool
+	File  string // Markdown: the SVG file name
+}
+
+type reachRow struct {
+	Name, Discharge, Slope, Profiles, Velocity, Froude, Freeboard, Jumps, Notes string
+}
+
+type findingRow struct {
+	N                               int
+	Severity, Rule, Reach, Event    string
+	Stations, Value, Limit, Message string
+	Where                           string // file:line:col
+	Short                           string // line:col
+	Excepted                        bool
+	Reason                          string
+	Class                           string
+}
+
+type exceptionRow struct {
+	Rule, Reach, Stations, Reason, Where string
+	Short                                string
+	Covered                              int
+	State                                string
+}
+
+func build(in Input) *page {
+	pg := &page{Title: "Channel design review", ToolVersion: in.ToolVersion, Caution: in.Caution}
+	if pg.Caution == "" {
+		pg.Caution = rules.Caution
+	}
+	if p := in.Policy; p != nil {
+		pv := &policyView{Name: p.Name, Reference: p.Reference, Source: p.File, Units: string(p.Units), Exceptions: p.Exceptions}
+		if pv.Exceptions == "" {
+			pv.Exceptions = "report"
+		}
+		if len(p.Chain) > 1 {
+			pv.Chain = p.Chain
+		}
+		ids := make([]string, 0, len(p.Rules))
+		for id := range p.Rules {
+			ids = append(ids, id)
+		}
+		sort.Strings(ids)
+		for _, id := range ids {
+			rc := p.Rules[id]
+			ev := "all"
+			if rc.Events != nil {
+				ev = strings.Join(rc.Events, ", ")
+			}
+			pv.Rules = append(pv.Rules, ruleRow{ID: id, Severity: string(rc.Severity), Events: ev, Settings: settings(rc, p.Units)})
+		}
+		pg.Policy = pv
+	}
+	plotN := 0
+	for mi, m := range in.Models {
+		if m.Model == nil {
+			continue
+		}
+		mv := buildModel(m, mi, &plotN)
+		pg.Models = append(pg.Models, mv)
+		pg.Totals.Errors += mv.Counts.Errors
+		pg.Totals.Warnings += mv.Counts.Warnings
+		pg.Totals.Infos += mv.Counts.Infos
+		pg.Totals.Excepted += mv.Counts.Excepted
+	}
+	files := map[string]bool{}
+	for i, f := range in.Invalid {
+		pg.Invalid = append(pg.Invalid, row(i+1, f))
+		files[f.File] = true
+		if !f.Excepted {
+			countInto(&pg.Totals, f)
+		}
+	}
+	pg.InvalidN = len(files)
+	return pg
+}
+
+func countInto(c *counts, f rules.Finding) {
+	if f.Excepted {
+		c.Excepted++
+		return
+	}
+	switch f.Severity {
+	case policies.Error:
+		c.Errors++
+	case policies.Warning:
+		c.Warnings++
+	default:
+		c.Infos++
+	}
+}
+
+func buildModel(m Model, mi int, plotN *int) *modelView {
+	md := m.Model
+	mv := &modelView{
+		Anchor: "m" + strconv.Itoa(mi+1), File: md.File, Title: md.Title, Units: string(md.Units),
+		Reaches: len(md.Reaches), EventsN: len(md.Events),
+	}
+	mv.UnitsLong = "SI: lengths in m, discharges in m³/s"
+	if md.Units == model.US {
+		mv.UnitsLong = "US customary: lengths in ft, discharges in ft³/s"
+	}
+	var nums []numbered
+	for i, f := range m.Findings {
+		mv.Findings = append(mv.Findings, row(i+1, f))
+		nums = append(nums, numbered{N: i + 1, F: f})
+		countInto(&mv.Counts, f)
+	}
+	for _, ex := range md.Exceptions {
+		er := exceptionRow{Rule: ex.Rule, Reach: ex.ReachName, Stations: stationRange(ex.FromStation, ex.ToStation),
+			Reason: ex.Reason, Where: where(md.File, ex.DefRange), Short: lineCol(ex.DefRange)}
+		for _, f := range m.Findings {
+			if f.Excepted && f.ExceptionRange.Start == ex.DefRange.Start && f.ExceptionRange.Filename == ex.DefRange.Filename {
+				er.Covered++
+			}
+		}
+		switch {
+		case er.Covered > 0:
+			er.State = "covers " + plural(er.Covered, "finding")
+		default:
+			er.State = "covers no finding"
+		}
+		mv.Exceptions = append(mv.Exceptions, er)
+	}
+	if m.Result == nil {
+		mv.Unsolved = "The model was not solved, so no profiles are shown."
+		return mv
+	}
+	stem := mainStem(md)
+	onStem := map[*model.Reach]bool{}
+	for _, r := range stem {
+		onStem[r] = true
+	}
+	for _, er := range m.Result.Events {
+		if er == nil || er.Event == nil {
+			continue
+		}
+		ev := &eventView{Name: er.Event.Name, Anchor: mv.Anchor + "-" + slug(er.Event.Name)}
+		byReach := map[*model.Reach]*solver.ReachResult{}
+		for _, rr := range er.Reaches {
+			if rr != nil && rr.Reach != nil {
+				byReach[rr.Reach] = rr
+				ev.Reaches = append(ev.Reaches, reachSummary(rr, md.Units))
+			}
+		}
+		// Main stem.
+		var pieces []piece
+		off := 0.0
+		for _, r := range stem {
+			pieces = append(pieces, piece{reach: r, rr: byReach[r], offset: off})
+			off += r.Length
+		}
+		if len(pieces) > 0 {
+			*plotN++
+			title := ev.Name + " — " + reachPath(stem)
+			if len(stem) > 1 {
+				title = ev.Name + " — main stem: " + reachPath(stem)
+			}
+			p := buildPlot(plotInput{id: "plot" + strconv.Itoa(*plotN), title: title, units: md.Units, pieces: pieces,
+				event: ev.Name, findings: nums, w: mainW, h: mainH, stem: true})
+			ev.Plots = append(ev.Plots, &plotView{Plot: p})
+		}
+		// Other reaches, in model order.
+		for _, r := range md.Reaches {
+			if onStem[r] {
+				continue
+			}
+			*plotN++
+			p := buildPlot(plotInput{id: "plot" + strconv.Itoa(*plotN), title: ev.Name + " — reach " + r.Name + " (to " + r.To + ")",
+				units: md.Units, pieces: []piece{{reach: r, rr: byReach[r]}}, event: ev.Name, findings: nums, w: smallW, h: smallH})
+			ev.Plots = append(ev.Plots, &plotView{Plot: p, Small: true})
+		}
+		mv.Events = append(mv.Events, ev)
+	}
+	return mv
+}
+
+func reachPath(rs []*model.Reach) string {
+	names := make([]string, len(rs))
+	for i, r := range rs {
+		names[i] = r.Name
+	}
+	return strings.Join(names, " → ")
+}
+
+func reachSummary(rr *solver.ReachResult, u model.Units) reachRow {
+	lu := u.Length()
+	row := reachRow{Name: rr.Reach.Name, Discharge: num(rr.Discharge), Slope: string(rr.SlopeClass),
+		Profiles: strings.Join(rr.ProfileTypes(), ", ")}
+	vmax, fmin, fmax, fbmin := math.Inf(-1), math.Inf(1), math.Inf(-1), math.Inf(1)
+	for _, pt := range rr.Points {
+		if isFinite(pt.Velocity) {
+			vmax = math.Max(vmax, pt.Velocity)
+		}
+		if isFinite(pt.Froude) {
+			fmin, fmax = math.Min(fmin, pt.Froude), math.Max(fmax, pt.Froude)
+		}
+		if h := sectionHeight(pt.Section); h > 0 && isFinite(pt.Depth) {
+			fbmin = math.Min(fbmin, h-pt.Depth)
+		}
+	}
+	if isFinite(vmax) {
+		row.Velocity = num(vmax) + " " + lu + "/s"
+	}
+	if isFinite(fmin) {
+		row.Froude = num2(fmin) + " – " + num2(fmax)
+	}
+	if isFinite(fbmin) {
+		row.Freeboard = num(fbmin) + " " + lu
+	}
+	var js []string
+	for _, j := range rr.Jumps {
+		js = append(js, fmt.Sprintf("at %s, F₁ %s (%s)", num(j.Station), num2(j.Froude), j.Type))
+	}
+	row.Jumps = strings.Join(js, "; ")
+	if n := len(rr.Notes); n > 0 {
+		row.Notes = plural(n, "solver note")
+	}
+	return row
+}
+
+func row(n int, f rules.Finding) findingRow {
+	r := findingRow{N: n, Severity: string(f.Severity), Rule: f.Rule, Reach: f.Reach, Event: f.Event,
+		Message: f.Message, Where: where(f.File, f.Range), Short: lineCol(f.Range), Excepted: f.Excepted, Reason: f.ExceptionReason,
+		Class: string(f.Severity)}
+	if f.Excepted {
+		r.Class = "excepted"
+	}
+	if f.HasSpan {
+		r.Stations = stationRange(f.FromStation, f.ToStation)
+	}
+	if f.HasValue {
+		r.Value, r.Limit = num(f.Value), num(f.Limit)
+	}
+	return r
+}
+
+// where is the GNU-style position "file:line:col" of a range ("file" alone
+// when the range is unknown).
+func where(file string, r hcl.Range) string {
+	if file == "" {
+		file = r.Filename
+	}
+	if r.Start.Line < 1 {
+		return file
+	}
+	return fmt.Sprintf("%s:%d:%d", file, r.Start.Line, r.Start.Column)
+}
+
+// lineCol is "line:col" of a range's start ("" when unknown).
+func lineCol(r hcl.Range) string {
+	if r.Start.Line < 1 {
+		return ""
+	}
+	return fmt.Sprintf("%d:%d", r.Start.Line, r.Start.Column)
+}
+
+// settings summarises the numbers of a rule block in the policy's units.
+func settings(rc *policies.RuleConfig, u model.Units) string {
+	lu := u.Length()
+	var parts []string
+	switch rc.Rule {
+	case "freeboard":
+		parts = append(parts, "minimum "+num(rc.Minimum)+" "+lu)
+		if rc.Fraction > 0 {
+			parts = append(parts, "or "+num(rc.Fraction)+" × depth, the larger")
+		}
+	case "superelevation":
+		parts = append(parts, fmt.Sprintf("C %s subcritical, %s supercritical", num(rc.SubcriticalCoefficient), num(rc.SupercriticalCoefficient)))
+		if rc.Minimum > 0 {
+			parts = append(parts, "minimum "+num(rc.Minimum)+" "+lu)
+		}
+	case "max_velocity", "min_velocity", "shear_stress":
+		unit := lu + "/s"
+		if rc.Rule == "shear_stress" {
+			unit = "N/m²"
+			if u == model.US {
+				unit = "lb/ft²"
+			}
+		}
+		words := make([]string, 0, len(rc.Limit.Values))
+		for w := range rc.Limit.Values {
+			words = append(words, w)
+		}
+		sort.Strings(words)
+		for _, w := range words {
+			parts = append(parts, w+" "+num(rc.Limit.Values[w]))
+		}
+		nolimit := make([]string, 0, len(rc.Limit.NoLimit))
+		for w, on := range rc.Limit.NoLimit {
+			if on {
+				nolimit = append(nolimit, w)
+			}
+		}
+		sort.Strings(nolimit)
+		for _, w := range nolimit {
+			parts = append(parts, w+" none")
+		}
+		if rc.Limit.HasDefault {
+			parts = append(parts, "other linings "+num(rc.Limit.Default))
+		}
+		if len(parts) > 0 {
+			parts[len(parts)-1] += " " + unit
+		}
+	case "froude_band", "jump_type":
+		for _, b := range rc.Avoid {
+			parts = append(parts, "avoid "+num2(b.Low)+" – "+num2(b.High))
+		}
+	}
+	return strings.Join(parts, "; ")
+}
+
+var slugRE = regexp.MustCompile(`[^a-z0-9]+`)
+
+// slug makes an id fragment from a name (letters, digits and '-').
+func slug(s string) string {
+	s = strings.Trim(slugRE.ReplaceAllString(strings.ToLower(s), "-"), "-")
+	if s == "" {
+		return "x"
+	}
+	return s
+}
+
+// num prints a measured value with three significant figures at most and
+// at most three decimals (a finite number always; "–" otherwise).
+func num(x float64) string {
+	if !isFinite(x) {
+		return "–"
+	}
+	ax := math.Abs(x)
+	d := 3
+	switch {
+	case ax >= 100:
+		d = 1
+	case ax >= 10:
+		d = 2
+	}
+	s := strconv.FormatFloat(x, 'f', d, 64)
+	if strings.Contains(s, ".") {
+		s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+	}
+	if s == "-0" {
+		s = "0"
+	}
+	return s
+}
+
+// num2 prints a dimensionless number with two decimals.
+func num2(x float64) string {
+	if !isFinite(x) {
+		return "–"
+	}
+	return strconv.FormatFloat(x, 'f', 2, 64)
+}
+
+func stationRange(from, to float64) string {
+	if from == to {
+		return num(from)
+	}
+	return num(from) + " – " + num(to)
+}
+
+func plural(n int, word string) string {
+	if n == 1 {
+		return "1 " + word
+	}
+	return strconv.Itoa(n) + " " + word + "s"
+}

@@ -1,0 +1,151 @@
+package report
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
+	"github.com/hashicorp/hcl/v2"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+func renderHTML(t testing.TB, in Input) string {
+	t.Helper()
+	var buf bytes.Buffer
+	require.NoError(t, HTML(&buf, in))
+	return buf.String()
+}
+
+func TestHTMLStructure(t *testing.T) {
+	in := fixtureInput(t, "heron-flats.chan.hcl")
+	require.NotEmpty(t, in.Models[0].Findings, "the fixture should fail some criteria")
+	out := renderHTML(t, in)
+	assert.Contains(t, out, "<!DOCTYPE html>")
+	assert.Contains(t, out, "Heron Flats outfall channel")
+	assert.Contains(t, out, rules.Caution)
+	assert.Contains(t, out, in.Policy.Name)
+	// Two events: each a main-stem plot and one small plot (chute).
+	assert.Equal(t, 4, strings.Count(out, "<svg "))
+	assert.Contains(t, out, "main stem: long-ditch → outfall")
+	assert.Contains(t, out, "reach chute")
+	assert.Contains(t, out, "jump F₁")
+	assert.Contains(t, out, "gate chute-gate")
+	assert.Contains(t, out, "basin apron")
+	assert.Contains(t, out, "bend mill-bend")
+	assert.Contains(t, out, "Tailwater from the river governs")
+	// Self-contained: no external resources, no scripts.
+	for _, bad := range []string{"<script", "<link", "src=", "href=\"http", "@import", "url(http"} {
+		assert.NotContains(t, out, bad)
+	}
+	assert.NotContains(t, out, "NaN")
+	assert.NotContains(t, out, "Inf")
+}
+
+func TestHTMLDeterministic(t *testing.T) {
+	a := renderHTML(t, fixtureInput(t, "heron-flats.chan.hcl"))
+	b := renderHTML(t, fixtureInput(t, "heron-flats.chan.hcl"))
+	assert.Equal(t, a, b)
+}
+
+func TestHTMLEscapesModelStrings(t *testing.T) {
+	in := fixtureInput(t, "inject.chan.hcl")
+	// Add an invalid file whose diagnostic quotes markup.
+	in.Invalid = []rules.Finding{{Rule: "model", Severity: policies.Error, File: "bad<script>.chan.hcl",
+		Message: `unknown section "<script>alert(3)</script>"`, Range: hcl.Range{Start: hcl.Pos{Line: 2, Column: 3}}}}
+	in.Policy.Reference = `Manual <script>alert("ref")</script> & co`
+	out := renderHTML(t, in)
+	assert.NotContains(t, out, "<script")
+	assert.NotContains(t, out, "<img")
+	assert.NotContains(t, out, "<svg onload")
+	assert.NotContains(t, out, "<b>bold")
+	assert.NotContains(t, out, `" onmouseover="`)
+	assert.Contains(t, out, "&lt;script&gt;alert(&#39;title&#39;)&lt;/script&gt; Quarry &amp; &#34;Mill&#34;")
+	assert.Contains(t, out, "&lt;/td&gt;&lt;/tr&gt;&lt;/table&gt;&lt;script&gt;alert(&#39;reason&#39;)")
+	assert.Contains(t, out, "Manual &lt;script&gt;")
+	// The only tags are the page's own.
+	tags := regexp.MustCompile(`<([a-zA-Z][a-zA-Z0-9]*)`).FindAllStringSubmatch(out, -1)
+	allowed := map[string]bool{"html": true, "head": true, "meta": true, "title": true, "style": true, "body": true, "header": true,
+		"p": true, "h1": true, "h2": true, "h3": true, "h4": true, "span": true, "aside": true, "strong": true, "section": true,
+		"div": true, "table": true, "thead": true, "tbody": true, "tr": true, "th": true, "td": true, "a": true, "dl": true,
+		"dt": true, "dd": true, "nav": true, "ol": true, "li": true, "figure": true, "figcaption": true, "svg": true,
+		"desc": true, "rect": true, "text": true, "g": true, "line": true, "path": true, "em": true, "br": true, "footer": true}
+	for _, m := range tags {
+		assert.True(t, allowed[m[1]], "unexpected tag <%s>", m[1])
+	}
+}
+
+func TestMarkdown(t *testing.T) {
+	dir := t.TempDir()
+	in := fixtureInput(t, "heron-flats.chan.hcl", "inject.chan.hcl")
+	require.NoError(t, Markdown(dir, "../review", in))
+	md, err := os.ReadFile(filepath.Join(dir, "review.md"))
+	require.NoError(t, err)
+	s := string(md)
+	assert.Contains(t, s, "# Channel design review")
+	assert.Contains(t, s, "> **Caution.** "+md2(rules.Caution))
+	links := regexp.MustCompile(`!\[[^\n]*\]\(([^)]+\.svg)\)`).FindAllStringSubmatch(s, -1)
+	require.Len(t, links, 5) // heron: 2 events × (main stem + chute); inject: 1 event × 1 reach
+	for _, l := range links {
+		svg, err := os.ReadFile(filepath.Join(dir, l[1]))
+		require.NoError(t, err, l[1])
+		assert.True(t, strings.HasPrefix(string(svg), `<svg xmlns="http://www.w3.org/2000/svg"`))
+		assert.Contains(t, string(svg), "<path ")
+		assert.NotContains(t, string(svg), "<script")
+	}
+	// Model strings are inert in Markdown too.
+	assert.NotContains(t, s, "<script")
+	assert.Contains(t, s, "&lt;script&gt;")
+	assert.Contains(t, s, `\`+"`tick\\`")
+	assert.Contains(t, s, `\| pipe`)
+}
+
+// md2 is the Markdown escaping of the caution (plain ASCII punctuation).
+func md2(s string) string { return md(s) }
+
+func TestMainStemIsLongestPath(t *testing.T) {
+	m := loadModel(t, "heron-flats.chan.hcl")
+	stem := mainStem(m)
+	require.Len(t, stem, 2)
+	// Source: common practice (no published source) — the main stem is
+	// the longest headwater-to-outlet path: long-ditch (900) + outfall
+	// (700) = 1600 beats chute (60) + outfall (700) = 760.
+	assert.Equal(t, "long-ditch", stem[0].Name)
+	assert.Equal(t, "outfall", stem[1].Name)
+}
+
+func TestNiceTicks(t *testing.T) {
+	// Source: common practice (no published source) — axis ticks on 1, 2,
+	// 2.5 and 5 times a power of ten covering the data range.
+	assert.Equal(t, []float64{0, 200, 400, 600, 800, 1000, 1200, 1400, 1600}, niceTicks(0, 1600, 10))
+	assert.Equal(t, []float64{98.5, 99, 99.5, 100, 100.5, 101, 101.5}, niceTicks(98.7, 101.2, 6))
+	assert.Equal(t, 2.5, niceStep(2.1))
+	assert.Equal(t, 0.05, niceStep(0.031))
+	assert.Nil(t, niceTicks(1, 1, 5))
+	assert.Equal(t, "99.5", formatTick(99.5, []float64{99, 99.5}))
+}
+
+func TestNumNeverPrintsNaN(t *testing.T) {
+	nan := 0.0
+	nan = nan / nan
+	assert.Equal(t, "–", num(nan))
+	assert.Equal(t, "0.18", num(0.18))
+	assert.Equal(t, "1234.5", num(1234.5))
+	assert.Equal(t, "0", num(-0.0001))
+}
+
+func TestUnsolvedAndEmpty(t *testing.T) {
+	in := fixtureInput(t, "heron-flats.chan.hcl")
+	in.Models[0].Result = nil
+	out := renderHTML(t, in)
+	assert.Contains(t, out, "was not solved")
+	assert.Equal(t, 0, strings.Count(out, "<svg "))
+	// No models at all: still a page with the caution.
+	out = renderHTML(t, Input{})
+	assert.Contains(t, out, rules.Caution)
+}
