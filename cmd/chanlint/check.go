@@ -9,6 +9,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime/debug"
+	"strings"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -58,7 +59,7 @@ func newCheckFlags() (*checkFlags, *flag.FlagSet) {
 	fs.Var(cf.failOn, "fail-on", "lowest severity that makes the exit status 1")
 	fs.StringVar(&cf.baseline, "baseline", "", "fail only on findings not recorded in this baseline `FILE`")
 	fs.StringVar(&cf.writeBaseline, "write-baseline", "", "record the current findings in baseline `FILE` (exit status 0 unless input is invalid)")
-	fs.IntVar(&cf.jobs, "jobs", 0, "files checked at once (default: the number of CPUs)")
+	fs.IntVar(&cf.jobs, "jobs", 0, "check `N` files at once (default: the number of CPUs)")
 	fs.IntVar(&cf.jobs, "j", 0, "short for --jobs")
 	return cf, fs
 }
@@ -77,7 +78,8 @@ A PATH may be a model file (checked whatever its name) or a directory,
 searched recursively; .git, .hg, .svn, vendor and node_modules directories
 are skipped, and symbolic links are followed only when they stay inside the
 directory being searched. An invalid model is reported with its diagnostics
-and the other files are still checked.
+and the other files are still checked. Finding no model at all is said on
+stderr and is not an error.
 
 The policy is --policy, else the nearest ` + configName + ` in the current
 directory or a parent up to the repository root (the directory holding
@@ -130,6 +132,9 @@ func (a *app) runCheck(args []string) int {
 	}
 
 	results := a.checkPaths(paths, pol, cf.jobs)
+	if len(results) == 0 {
+		fmt.Fprintf(a.stderr, "chanlint check: no *%s files found under %s\n", model.Suffix, strings.Join(orDot(paths), ", "))
+	}
 
 	// The findings to show: a baseline hides those it records.
 	shown, knownCount := applyBaseline(results, known)
@@ -188,6 +193,14 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int) []*file
 	})
 	prog.done()
 	return append(results, checked...)
+}
+
+// orDot is paths, or "." when there are none.
+func orDot(paths []string) []string {
+	if len(paths) == 0 {
+		return []string{"."}
+	}
+	return paths
 }
 
 // parallel calls fn(i) for every i in [0, n) on at most jobs goroutines.

@@ -49,6 +49,31 @@ func TestParallelEqualsSerial(t *testing.T) {
 	}
 }
 
+// The progress line goes to stderr only when stderr is a terminal and there
+// are many files; it is erased at the end and never touches stdout.
+func TestProgressLine(t *testing.T) {
+	dir := workspace(t, 5) // 25 files
+	_, quietOut, quietErr := runIn(dir, runOpts{}, "check", "--color", "never")
+	assert.Empty(t, quietErr)
+	_, out, errOut := runIn(dir, runOpts{stderrTTY: true}, "check", "--color", "never")
+	assert.Contains(t, errOut, "\rchecked 25/25 files")
+	assert.True(t, strings.HasSuffix(errOut, "\r\x1b[K"), "%q", errOut)
+	assert.Equal(t, quietOut, out)
+
+	// Few files: no progress line even on a terminal.
+	_, _, errOut = runIn(dir, runOpts{stderrTTY: true}, "check", "set00", "--color", "never")
+	assert.Empty(t, errOut)
+}
+
+// No model found: said on stderr, exit 0.
+func TestNoModels(t *testing.T) {
+	dir := t.TempDir()
+	code, out, errOut := runIn(dir, runOpts{}, "check", "--color", "never")
+	assert.Equal(t, exitOK, code)
+	assert.Equal(t, "chanlint check: no *.chan.hcl files found under .\n", errOut)
+	assert.Contains(t, out, "0 files, 0 errors, 0 warnings, 0 infos, 0 excepted\n")
+}
+
 // The JSON document of check has exactly the documented fields, and every
 // finding's file and position point into the checked tree.
 func TestCheckJSONShape(t *testing.T) {

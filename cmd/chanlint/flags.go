@@ -95,11 +95,22 @@ func flagUsage(fs *flag.FlagSet) string {
 	type row struct{ left, right string }
 	var rows []row
 	width := 0
+	// A one-letter flag whose usage is "short for --NAME" is shown on the
+	// row of NAME.
+	short := map[string]string{}
 	fs.VisitAll(func(f *flag.Flag) {
+		if long, ok := strings.CutPrefix(f.Usage, "short for --"); ok && len(f.Name) == 1 {
+			short[long] = f.Name
+		}
+	})
+	fs.VisitAll(func(f *flag.Flag) {
+		if strings.HasPrefix(f.Usage, "short for --") && len(f.Name) == 1 {
+			return
+		}
 		name, usage := flag.UnquoteUsage(f)
 		left := "--" + f.Name
-		if len(f.Name) == 1 {
-			left = "-" + f.Name
+		if s, ok := short[f.Name]; ok {
+			left = "-" + s + ", " + left
 		}
 		if c, ok := f.Value.(*choice); ok {
 			left += " " + strings.Join(c.allowed, "|")

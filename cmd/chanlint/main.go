@@ -100,6 +100,7 @@ func commands() []*command {
 	return []*command{
 		checkCommand(),
 		solveCommand(),
+		reportCommand(),
 		explainCommand(),
 		policyCommand(),
 		{

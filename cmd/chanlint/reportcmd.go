@@ -1,0 +1,135 @@
+package main
+
+import (
+	"bytes"
+	"flag"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/report"
+	"github.com/chanlint/chanlint/rules"
+)
+
+func reportCommand() *command {
+	return &command{
+		name:    "report",
+		summary: "write a review report (HTML, or Markdown with SVG plots)",
+		run:     func(a *app, args []string) int { return a.runReport(args) },
+		help:    func(*app) string { return reportUsage() },
+	}
+}
+
+type reportFlags struct {
+	out    string
+	format *choice
+	policy string
+	color  *choice
+	jobs   int
+}
+
+func newReportFlags() (*reportFlags, *flag.FlagSet) {
+	rf := &reportFlags{
+		format: newChoice("", "html", "markdown"),
+		color:  newChoice("auto", "auto", "always", "never"),
+	}
+	fs := newFlagSet("report")
+	fs.StringVar(&rf.out, "out", "", "write the report to `FILE` (required)")
+	fs.Var(rf.format, "format", "report format (default: markdown when FILE ends in .md, else html)")
+	fs.StringVar(&rf.policy, "policy", "", "policy `FILE` or built-in pack name (default: "+configName+", else the baseline pack)")
+	fs.Var(rf.color, "color", "colour the diagnostics printed on stderr")
+	fs.IntVar(&rf.jobs, "jobs", 0, "solve `N` files at once (default: the number of CPUs)")
+	fs.IntVar(&rf.jobs, "j", 0, "short for --jobs")
+	return rf, fs
+}
+
+func reportUsage() string {
+	_, fs := newReportFlags()
+	return `usage: chanlint report [PATH...] --out FILE [options]
+
+Checks the models under each PATH like 'chanlint check' and writes a review
+report for a person: per model and event a longitudinal profile (bed, water
+surface, critical depth, top of bank, jumps, failing spans), the findings,
+the design exceptions claimed and the caution.
+
+  html      one self-contained file (default)
+  markdown  FILE (.md) with the SVG plots written beside it
+
+Invalid models are listed in the report and their diagnostics printed on
+stderr.
+
+options:
+` + flagUsage(fs) + `
+exit status: 0 report written (whatever it finds); 2 an unreadable or invalid
+model or policy, a report that could not be written, or a wrong command line.
+`
+}
+
+func (a *app) runReport(args []string) int {
+	c := findCommand("report")
+	rf, fs := newReportFlags()
+	paths, err := parseFlags(fs, args)
+	if err != nil {
+		return a.flagError(c, err)
+	}
+	if rf.out == "" {
+		return a.usageError(c, "--out FILE is required")
+	}
+	if rf.jobs < 0 {
+		return a.usageError(c, "--jobs must be at least 1, got %d", rf.jobs)
+	}
+	format := rf.format.value
+	if format == "" {
+		format = "html"
+		if ext := strings.ToLower(filepath.Ext(rf.out)); ext == ".md" || ext == ".markdown" {
+			format = "markdown"
+		}
+	}
+	errPal := newPalette(a.useColor(rf.color.value, a.stderrTTY))
+	pol, ok := a.loadPolicy(rf.policy, errPal)
+	if !ok {
+		return exitInvalid
+	}
+	results := a.checkPaths(paths, pol, rf.jobs)
+
+	in := report.Input{Policy: pol, Caution: rules.Caution, ToolVersion: toolVersion()}
+	status := exitOK
+	for _, r := range results {
+		if r.invalid {
+			status = exitInvalid
+			for i := range r.findings {
+				writeFindingText(a.stderr, &r.findings[i], r.src, r.unit(), errPal)
+			}
+			if r.model == nil {
+				in.Invalid = append(in.Invalid, r.findings...)
+				continue
+			}
+			// A valid model the solver could not finish (a size limit):
+			// listed with its findings and no profiles.
+		}
+		in.Models = append(in.Models, report.Model{Model: r.model, Result: r.result, Findings: r.findings})
+	}
+
+	abs := a.abs(rf.out)
+	if format == "markdown" {
+		name := strings.TrimSuffix(filepath.Base(abs), filepath.Ext(abs))
+		err = report.Markdown(filepath.Dir(abs), name, in)
+	} else {
+		var buf bytes.Buffer
+		if err = report.HTML(&buf, in); err == nil {
+			err = os.WriteFile(abs, buf.Bytes(), 0o644)
+		}
+	}
+	if err != nil {
+		fmt.Fprintf(a.stderr, "chanlint report: cannot write %s: %v\n", a.display(abs), describePathError(err))
+		return exitInvalid
+	}
+	n := 0
+	for _, m := range in.Models {
+		n += len(m.Findings)
+	}
+	fmt.Fprintf(a.stdout, "wrote %s: %s, %s, policy %s\n", a.display(abs),
+		plural(len(in.Models), "model", "models"), plural(n, "finding", "findings"), pol.Name)
+	return status
+}

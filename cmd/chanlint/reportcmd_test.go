@@ -1,0 +1,32 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// The report command writes a file and says so; an invalid model makes it
+// exit 2 but the report is still written.
+func TestReport(t *testing.T) {
+	dir := workspace(t, 1)
+	code, out, errOut := runIn(dir, runOpts{}, "report", "set00/demo", "--out", "review.html")
+	require.Equal(t, exitOK, code, errOut)
+	assert.Regexp(t, `^wrote review\.html: 1 model, \d+ findings?, policy baseline\n$`, out)
+	data, err := os.ReadFile(filepath.Join(dir, "review.html"))
+	require.NoError(t, err)
+	assert.NotEmpty(t, data)
+
+	code, _, errOut = runIn(dir, runOpts{}, "report", "set00/models", "--out", "review.md")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "broken.chan.hcl:4:3: error: [model]")
+	_, err = os.Stat(filepath.Join(dir, "review.md"))
+	assert.NoError(t, err)
+
+	code, _, errOut = runIn(dir, runOpts{}, "report", "set00/demo")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "--out FILE is required")
+}
