@@ -38,6 +38,11 @@ const gridJustAbove = 1e-9
 // perimeter, no area outside the polyline's offsets). The vertical lines
 // that divide the zones are not wetted perimeter (divided channel method;
 // Chow 1959, ch. 6, from memory).
+//
+// Between two consecutive vertex elevations every segment is dry, wetted
+// up to the surface or fully wet, so each property is a polynomial of the
+// depth there; NewGeometry tabulates those polynomials once (see band)
+// and Props finds the band by binary search.
 type compound struct {
 	x, e  []float64 // vertices (offsets, elevations above the lowest point), banks inserted
 	dx, l []float64 // horizontal and true length of segment i (vertices i and i+1)
@@ -244,29 +249,36 @@ func (c *compound) buildBands() {
 		j, _ := slices.BinarySearch(c.levels, e)
 		return j
 	}
-	// Segments that start to be wetted and that become fully wet at
-	// each level.
-	starts, fulls := make([][]int, nl), make([][]int, nl)
-	for i := range c.zone {
+	// The level where each segment starts to be wetted and where it
+	// becomes fully wet; the segments in order of each.
+	ns := len(c.zone)
+	lo, hi := make([]int32, ns), make([]int32, ns)
+	var starts []int32
+	fulls := make([]int32, ns)
+	for i := range ns {
 		ea, eb := c.e[i], c.e[i+1]
-		lo, hi := level(math.Min(ea, eb)), level(math.Max(ea, eb))
-		if lo < hi {
-			starts[lo] = append(starts[lo], i)
+		lo[i], hi[i] = int32(level(math.Min(ea, eb))), int32(level(math.Max(ea, eb)))
+		if lo[i] < hi[i] {
+			starts = append(starts, int32(i))
 		}
-		fulls[hi] = append(fulls[hi], i)
+		fulls[i] = int32(i)
 	}
+	slices.SortStableFunc(starts, func(a, b int32) int { return int(lo[a] - lo[b]) })
+	slices.SortStableFunc(fulls, func(a, b int32) int { return int(hi[a] - hi[b]) })
 	c.bands = make([]band, nl)
 	var full band
-	var active []int
+	var active []int32
 	for j, l := range c.levels {
 		if j > 0 {
 			full.shift(l - c.levels[j-1])
 		}
-		for _, i := range fulls[j] {
+		for len(fulls) > 0 && int(hi[fulls[0]]) == j {
+			i := fulls[0]
+			fulls = fulls[1:]
 			if k := slices.Index(active, i); k >= 0 {
 				active = slices.Delete(active, k, k+1)
 			}
-			c.addFull(&full, i, l)
+			c.addFull(&full, int(i), l)
 		}
 		// The end walls, wetted above their foot: P = u + (l − e_end).
 		for _, w := range [2]struct {
@@ -277,10 +289,13 @@ func (c *compound) buildBands() {
 				full.p[w.z][1]++
 			}
 		}
-		active = append(active, starts[j]...)
+		for len(starts) > 0 && int(lo[starts[0]]) == j {
+			active = append(active, starts[0])
+			starts = starts[1:]
+		}
 		b := full
 		for _, i := range active {
-			c.addPartial(&b, i, l)
+			c.addPartial(&b, int(i), l)
 		}
 		c.bands[j] = b
 	}

@@ -219,3 +219,23 @@ func TestCriticalAndNormalDepthProperties(t *testing.T) {
 		}
 	})
 }
+
+func TestCriticalDepthCircleLimits(t *testing.T) {
+	// Source: common practice (no published source): T → 0 at the crown,
+	// so the Froude number of a partly full circle falls to 0 there and a
+	// critical depth exists below the crown for any realistic discharge
+	// (here Q up to 40 m³/s in a 1 m pipe, a mean velocity of 50 m/s); a
+	// discharge still supercritical within 1e-12·D of the crown is
+	// reported as having none.
+	g := geoCircle(1, 0.013, model.SI)
+	for _, q := range []float64{0.01, 1, 5, 40} {
+		yc, err := CriticalDepth(g, q)
+		require.NoError(t, err, "Q=%g", q)
+		assert.Less(t, yc, 1.0)
+		geoClose(t, 1, FroudeNumber(g, q, yc), 1e-9, "circle F(yc) at Q=%g", q)
+	}
+	yc, err := CriticalDepth(g, 1e5)
+	require.ErrorIs(t, err, ErrNoCriticalDepth)
+	assert.Equal(t, 1.0, yc, "capped at the crown")
+	assert.Empty(t, CriticalDepths(g, 1e5, nil))
+}
