@@ -103,11 +103,8 @@ func SequentDepth(g *Geometry, q, y float64) (float64, error) {
 	// shallower. Walk to the minimum of M, then on to M = M1.
 	up := s < 0
 	lo, hi, ok := walkTo(g, y, up, func(v float64) bool {
-		if d := slope(v); up {
-			return d >= 0
-		} else {
-			return d <= 0
-		}
+		d := slope(v)
+		return up && d >= 0 || !up && d <= 0
 	})
 	if !ok {
 		return 0, ErrNoSequentDepth
