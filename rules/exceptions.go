@@ -106,10 +106,12 @@ func checkExceptions(ctx *Context, report func(Finding)) {
 				partial = f
 			}
 		}
-		what := fmt.Sprintf("the exception for rule %q on reach %q %s", ex.Rule, ex.ReachName,
-			stations(ex.FromStation, ex.ToStation, u))
-		f := Finding{Range: ex.DefRange, Reach: ex.ReachName,
-			FromStation: ex.FromStation, ToStation: ex.ToStation, HasSpan: true}
+		what := fmt.Sprintf("the exception for rule %q on reach %q", ex.Rule, ex.ReachName)
+		f := Finding{Range: ex.DefRange, Reach: ex.ReachName}
+		if finite(ex.FromStation, ex.ToStation) { // the model guarantees it; never print NaN
+			what += " " + stations(ex.FromStation, ex.ToStation, u)
+			f.FromStation, f.ToStation, f.HasSpan = ex.FromStation, ex.ToStation, true
+		}
 		switch {
 		case deny:
 			f.Severity = policies.Info

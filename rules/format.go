@@ -17,15 +17,16 @@ func num(x float64) string {
 	return s
 }
 
-// numPair formats a measured value and its limit with the same number of
-// decimals, so that "0.18 m is below 0.30 m" reads naturally: the decimals
-// are those three significant digits of the smaller magnitude need, and
-// trailing zeros are trimmed only where both numbers have them.
+// numPair formats a measured value and its limit (or the two ends of a
+// span) with the same number of decimals, so that "0.18 m is below 0.30 m"
+// reads naturally: the decimals show three significant digits of b, and at
+// least two of a; trailing zeros are trimmed only where both numbers have
+// them.
 func numPair(a, b float64) (string, string) {
 	if !finite(a) || !finite(b) {
 		return numOne(a), numOne(b)
 	}
-	d := max(decimals(a), decimals(b))
+	d := max(decimals(b), decimals(a)-1)
 	sa := strconv.FormatFloat(clean(a, d), 'f', d, 64)
 	sb := strconv.FormatFloat(clean(b, d), 'f', d, 64)
 	for d > 0 && strings.HasSuffix(sa, "0") && strings.HasSuffix(sb, "0") {
@@ -59,6 +60,9 @@ func decimals(x float64) int {
 
 // clean rounds x to d decimals and removes a negative zero.
 func clean(x float64, d int) float64 {
+	if math.Abs(x) >= 1e15 { // already whole; scaling could overflow
+		return x
+	}
 	p := math.Pow(10, float64(d))
 	r := math.Round(x*p) / p
 	if r == 0 {
@@ -78,6 +82,9 @@ func numUp(x float64) string {
 	p := math.Pow(10, float64(d))
 	// Subtract a relative hair before rounding up, so that a value that is
 	// already round (0.3 computed as 0.30000000000000004) stays 0.3.
+	if math.Abs(x) >= 1e15 {
+		return num(x)
+	}
 	up := math.Ceil(x*p*(1-1e-12)) / p
 	return num(up)
 }

@@ -45,7 +45,7 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		r := rr.Reach
 		for _, j := range rr.Jumps {
-			if !finite(j.Station, j.Length) {
+			if !usableJump(j) {
 				continue
 			}
 			toe, end := j.Station, j.End()
@@ -56,12 +56,16 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 			}
 			f := Finding{Reach: r.Name, Event: ev.Event.Name, FromStation: toe, ToStation: end,
 				HasSpan: true, Limit: 0, HasValue: true}
-			jump := fmt.Sprintf("the hydraulic jump %s (length %s %s, F1 %s)",
-				stations(toe, end, u), num(j.Length), lu, num(j.Froude))
+			jump := fmt.Sprintf("the hydraulic jump %s (length %s %s", stations(toe, end, u), num(j.Length), lu)
+			if finite(j.Froude) {
+				jump += ", F1 " + num(j.Froude)
+			}
+			jump += ")"
 			if b == nil {
 				f.Range, f.Value = r.DefRange, end-toe
+				from, to := numPair(toe, end)
 				f.Message = fmt.Sprintf("%s lies in no basin of reach %q; unprotected channel may scour: "+
-					"build a basin over at least %s or move the jump", jump, r.Name, stations(toe, end, u))
+					"build a basin covering at least stations %s–%s %s, or move the jump", jump, r.Name, from, to, lu)
 			} else {
 				var by []string
 				if up > tol {
@@ -123,4 +127,10 @@ func jumpBlock(r *model.Reach, j solver.Jump) block {
 		return block{Kind: "basin", Name: b.Name, Src: &b.Src}
 	}
 	return block{Kind: "reach", Name: r.Name, Src: &r.Src}
+}
+
+// usableJump reports whether a jump has a finite toe and a finite,
+// non-negative length (the solver promises it; anything else is skipped).
+func usableJump(j solver.Jump) bool {
+	return finite(j.Station, j.Length, j.End()) && j.Length >= 0
 }

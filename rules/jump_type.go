@@ -42,7 +42,7 @@ func checkJumpType(ctx *Context, report func(Finding)) {
 	u := ctx.units()
 	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		for _, j := range rr.Jumps {
-			if !finite(j.Station, j.Length, j.Froude) {
+			if !usableJump(j) || !finite(j.Froude) {
 				continue
 			}
 			b, in := bandOf(cfg.Avoid, j.Froude)

@@ -98,7 +98,9 @@ func scan(rr *solver.ReachResult, w worse, judge func(p *solver.Point) verdict) 
 			continue
 		}
 		v := judge(p)
-		if v.skip || !v.fail {
+		// A figure that overflows (or a limit that is not finite) cannot be
+		// reported honestly: the point is left unchecked.
+		if v.skip || !v.fail || !finite(v.value, v.limit, v.short, v.aux) {
 			cur = nil
 			continue
 		}
