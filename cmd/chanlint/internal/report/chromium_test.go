@@ -33,7 +33,8 @@ func TestHTMLInChromium(t *testing.T) {
 	}
 	page := filepath.Join(dir, "report.html")
 	var buf bytes.Buffer
-	require.NoError(t, HTML(&buf, fixtureInput(t, "heron-flats.chan.hcl", "inject.chan.hcl")))
+	in := solvedInput(t, demoModel, filepath.Join("testdata", "heron-flats.chan.hcl"), filepath.Join("testdata", "inject.chan.hcl"))
+	require.NoError(t, HTML(&buf, in))
 	require.NoError(t, os.WriteFile(page, buf.Bytes(), 0o644))
 	url := "file://" + filepath.ToSlash(page)
 
@@ -54,6 +55,7 @@ func TestHTMLInChromium(t *testing.T) {
 
 	dom, logs := run("--dump-dom")
 	assert.Contains(t, dom, "Heron Flats outfall channel")
+	assert.Contains(t, dom, "Kestrel Ridge")
 	assert.GreaterOrEqual(t, strings.Count(dom, "<svg "), 5, "plots in the rendered DOM")
 	assert.Greater(t, strings.Count(dom, "<path "), 20, "plot lines in the rendered DOM")
 	assert.NotContains(t, dom, "<script", "a model string became markup")

@@ -163,7 +163,8 @@ type plotInput struct {
 	event     string
 	findings  []numbered
 	w, h      float64
-	stem      bool // draw reach boundaries and names
+	stem      bool   // draw reach boundaries and names
+	xlabel    string // overrides the station axis label
 }
 
 // numbered is a finding with its row number in the page's findings table.
@@ -183,6 +184,9 @@ func buildPlot(in plotInput) *Plot {
 		p.XLabel = "Distance downstream along the main stem (" + lu + ")"
 	} else {
 		p.XLabel = "Station (" + lu + ")"
+	}
+	if in.xlabel != "" {
+		p.XLabel = in.xlabel
 	}
 
 	// Extent.
@@ -339,7 +343,7 @@ func buildPlot(in plotInput) *Plot {
 	// Vertical exaggeration: horizontal units per user unit over vertical ones.
 	if hx, hy := (xmax-xmin)/fr.W, (ymax-ymin)/fr.H; hy > 0 {
 		if ve := hx / hy; ve > 1.5 {
-			p.Caption = "Vertical scale exaggerated about " + strconv.FormatFloat(roundSig(ve), 'f', -1, 64) + "×."
+			p.Caption = "Vertical scale exaggerated about " + sig2(ve) + "×."
 		}
 	}
 
@@ -374,10 +378,14 @@ func buildPlot(in plotInput) *Plot {
 
 	// Lines.
 	var bed, wse, crit, bank, egl, ground, water pathBuilder
-	closedOnly := true
+	closedOnly, anyClosed := true, false
 	for _, pc := range in.pieces {
-		if pc.reach.Section != nil && !pc.reach.Section.Closed() {
-			closedOnly = false
+		for _, s := range sectionsOf(pc.reach) {
+			if s.Closed() {
+				anyClosed = true
+			} else {
+				closedOnly = false
+			}
 		}
 	}
 	groundStart := -1.0
@@ -462,6 +470,8 @@ func buildPlot(in plotInput) *Plot {
 	p.BankLabel = "top of bank / lining"
 	if closedOnly {
 		p.BankLabel = "crown of conduit"
+	} else if anyClosed {
+		p.BankLabel = "top of bank / lining / crown"
 	}
 
 	// Jumps and gates.
@@ -567,6 +577,20 @@ func buildPlot(in plotInput) *Plot {
 		}
 	}
 	return p
+}
+
+// sectionsOf lists the sections of a reach: its own and its segments'.
+func sectionsOf(r *model.Reach) []*model.Section {
+	var ss []*model.Section
+	if r.Section != nil {
+		ss = append(ss, r.Section)
+	}
+	for _, sg := range r.Segments {
+		if sg.Section != nil {
+			ss = append(ss, sg.Section)
+		}
+	}
+	return ss
 }
 
 // pointsOf returns the computed points of a piece (nil when unsolved).
@@ -758,13 +782,17 @@ func round1(x float64) float64 {
 	return r
 }
 
-// roundSig rounds to two significant figures.
-func roundSig(x float64) float64 {
+// sig2 prints a positive number with two significant figures.
+func sig2(x float64) string {
 	if x <= 0 || !isFinite(x) {
-		return 0
+		return "0"
 	}
-	p := math.Pow(10, math.Floor(math.Log10(x))-1)
-	return math.Round(x/p) * p
+	d := 1 - int(math.Floor(math.Log10(x)))
+	if d < 0 {
+		d = 0
+	}
+	e := math.Pow(10, math.Floor(math.Log10(x))-1)
+	return strconv.FormatFloat(math.Round(x/e)*e, 'f', d, 64)
 }
 
 // ellipsis shortens s to at most n runes, ending in "…" when cut.

@@ -361,6 +361,21 @@ func buildModel(m Model, mi int, plotN *int) *modelView {
 				event: ev.Name, findings: nums, w: mainW, h: mainH, stem: true})
 			ev.Plots = append(ev.Plots, &plotView{Plot: p})
 		}
+		// Details of short structure reaches (gates, basins, jumps) that
+		// the main stem's scale squeezes.
+		for _, run := range detailRuns(stem, byReach) {
+			var ps []piece
+			off := 0.0
+			for _, r := range run {
+				ps = append(ps, piece{reach: r, rr: byReach[r], offset: off})
+				off += r.Length
+			}
+			*plotN++
+			p := buildPlot(plotInput{id: "plot" + strconv.Itoa(*plotN), title: ev.Name + " — detail: " + reachPath(run),
+				units: md.Units, pieces: ps, event: ev.Name, findings: nums, w: smallW, h: smallH, stem: true,
+				xlabel: "Distance downstream from the head of " + run[0].Name + " (" + md.Units.Length() + ")"})
+			ev.Plots = append(ev.Plots, &plotView{Plot: p, Small: true})
+		}
 		// Other reaches, in model order.
 		for _, r := range md.Reaches {
 			if onStem[r] {
@@ -374,6 +389,43 @@ func buildModel(m Model, mi int, plotN *int) *modelView {
 		mv.Events = append(mv.Events, ev)
 	}
 	return mv
+}
+
+// detailShare is the share of the main stem's length under which a reach
+// is drawn again in a detail plot when it holds a gate, a basin or a jump.
+const detailShare = 0.12
+
+// detailRuns returns the runs of consecutive short main-stem reaches that
+// hold a gate, a basin or a jump in the event.
+func detailRuns(stem []*model.Reach, byReach map[*model.Reach]*solver.ReachResult) [][]*model.Reach {
+	if len(stem) < 2 {
+		return nil
+	}
+	total := 0.0
+	for _, r := range stem {
+		total += r.Length
+	}
+	var runs [][]*model.Reach
+	var cur []*model.Reach
+	feature := false
+	flush := func() {
+		if feature && len(cur) > 0 {
+			runs = append(runs, cur)
+		}
+		cur, feature = nil, false
+	}
+	for _, r := range stem {
+		if r.Length >= detailShare*total {
+			flush()
+			continue
+		}
+		cur = append(cur, r)
+		if r.Gate != nil || len(r.Basins) > 0 || (byReach[r] != nil && len(byReach[r].Jumps) > 0) {
+			feature = true
+		}
+	}
+	flush()
+	return runs
 }
 
 func reachPath(rs []*model.Reach) string {

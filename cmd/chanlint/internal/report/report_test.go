@@ -130,6 +130,14 @@ func TestNiceTicks(t *testing.T) {
 	assert.Equal(t, "99.5", formatTick(99.5, []float64{99, 99.5}))
 }
 
+func TestSig2(t *testing.T) {
+	// Source: common practice (no published source) — two significant figures.
+	assert.Equal(t, "3.9", sig2(3.9000000000000004))
+	assert.Equal(t, "110", sig2(112.4))
+	assert.Equal(t, "53", sig2(52.6))
+	assert.Equal(t, "1.5", sig2(1.46))
+}
+
 func TestNumNeverPrintsNaN(t *testing.T) {
 	nan := 0.0
 	nan = nan / nan

@@ -1,0 +1,74 @@
+package report
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/rules"
+	"github.com/chanlint/chanlint/solver"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// solvedInput runs the real pipeline (model.Parse, solver.Solve,
+// rules.Check) on model files.
+func solvedInput(t testing.TB, paths ...string) Input {
+	t.Helper()
+	p := testPolicy(t)
+	in := Input{Policy: p, Caution: rules.Caution, ToolVersion: "0.1.0-test"}
+	for _, path := range paths {
+		src, err := os.ReadFile(path)
+		require.NoError(t, err)
+		m, diags := model.Parse(filepath.ToSlash(path), src)
+		require.False(t, diags.HasErrors(), diags.Error())
+		res, err := solver.Solve(m, solver.Options{})
+		require.NoError(t, err)
+		in.Models = append(in.Models, Model{Model: m, Result: res, Findings: rules.Check(m, res, p)})
+	}
+	return in
+}
+
+// demoModel is the project's demo scenario.
+var demoModel = filepath.Join("..", "..", "..", "..", "testdata", "demo", "kestrel-ridge.chan.hcl")
+
+func TestSolvedModelsRender(t *testing.T) {
+	in := solvedInput(t, filepath.Join("testdata", "heron-flats.chan.hcl"), demoModel)
+	var buf bytes.Buffer
+	require.NoError(t, HTML(&buf, in))
+	out := buf.String()
+	assert.NotContains(t, out, "NaN")
+	assert.NotContains(t, out, "Inf")
+	assert.Contains(t, out, "Kestrel Ridge")
+	// One main stem per event plus every other reach.
+	want := 0
+	for _, m := range in.Models {
+		want += len(m.Result.Events) * (1 + len(m.Model.Reaches) - len(mainStem(m.Model)))
+	}
+	// The demo's gated chute, apron and culvert are short against its
+	// main stem: one detail plot per event.
+	want += 2
+	assert.Contains(t, out, "detail: chute → apron → quarry-lane-culvert")
+	assert.Equal(t, want, strings.Count(out, "<svg "))
+	dir := t.TempDir()
+	require.NoError(t, Markdown(dir, "review", in))
+	files, err := filepath.Glob(filepath.Join(dir, "review-*.svg"))
+	require.NoError(t, err)
+	assert.Len(t, files, want)
+}
+
+func BenchmarkHTMLDemo(b *testing.B) {
+	in := solvedInput(b, demoModel)
+	var buf bytes.Buffer
+	b.ReportAllocs()
+	for b.Loop() {
+		buf.Reset()
+		if err := HTML(&buf, in); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(buf.Len()), "bytes/page")
+}
