@@ -65,7 +65,7 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 			r.Slope = s
 		}
 	case a.has("invert"):
-		if p, ok := d.pair(a.m["invert"].Expr, "invert of "+a.what, "[upstream elevation, downstream elevation]"); ok {
+		if p, ok := d.pair(a.m["invert"].Expr, label{"invert", a.what}, "[upstream elevation, downstream elevation]"); ok {
 			r.InvertUp, r.InvertDown, r.HasInvert = p[0], p[1], true
 			if r.Length > 0 {
 				r.Slope = (p[0] - p[1]) / r.Length
@@ -232,7 +232,7 @@ func (d *decoder) reachValues(expr hcl.Expression, event, attr, what, example, s
 	entries, _ := d.object(expr, attr+" of "+event, example)
 	var out []reachValue
 	for _, e := range entries {
-		v, ok := d.number(e.Value, fmt.Sprintf("%s %q in %s", what, e.Key, event))
+		v, ok := d.number(e.Value, plain(fmt.Sprintf("%s %q in %s", what, e.Key, event)))
 		if !ok {
 			continue
 		}
@@ -286,7 +286,7 @@ func (d *decoder) outlet(ev *Event, a attrSet, at *hcl.Attribute) {
 	ev.Outlet.Range = e.Value.Range()
 	switch e.Key {
 	case "depth":
-		if y, ok := d.number(e.Value, "outlet depth of "+a.what); ok {
+		if y, ok := d.number(e.Value, label{"outlet depth", a.what}); ok {
 			if y <= 0 {
 				d.errorf(e.Value.Range(), "Depth must be positive",
 					"outlet depth of %s is %g; give the tailwater depth above the outlet invert in %s.", a.what, y, d.m.Units.Length())
@@ -295,11 +295,11 @@ func (d *decoder) outlet(ev *Event, a attrSet, at *hcl.Attribute) {
 			ev.Outlet.Kind, ev.Outlet.Value = OutletDepth, y
 		}
 	case "elevation":
-		if z, ok := d.number(e.Value, "outlet elevation of "+a.what); ok {
+		if z, ok := d.number(e.Value, label{"outlet elevation", a.what}); ok {
 			ev.Outlet.Kind, ev.Outlet.Value = OutletElevation, z
 		}
 	case "condition":
-		if c, ok := d.text(e.Value, "outlet condition of "+a.what); ok {
+		if c, ok := d.text(e.Value, label{"outlet condition", a.what}); ok {
 			switch OutletKind(c) {
 			case OutletNormal, OutletCritical:
 				ev.Outlet.Kind = OutletKind(c)

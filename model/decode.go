@@ -141,9 +141,22 @@ func (d *diagnoser) value(expr hcl.Expression) (cty.Value, bool) {
 	return v, true
 }
 
-// number decodes a finite number of bounded magnitude; what names it in
-// messages (e.g. `length of reach "main"`).
-func (d *diagnoser) number(expr hcl.Expression, what string) (float64, bool) {
+// label names a value in messages, e.g. `length of reach "main"`; it is
+// only formatted when a message is written, which keeps decoding a valid
+// file free of string building.
+type label struct{ attr, owner string }
+
+func (l label) String() string {
+	if l.owner == "" {
+		return l.attr
+	}
+	return l.attr + " of " + l.owner
+}
+
+func plain(s string) label { return label{attr: s} }
+
+// number decodes a finite number of bounded magnitude.
+func (d *diagnoser) number(expr hcl.Expression, what label) (float64, bool) {
 	v, ok := d.value(expr)
 	if !ok {
 		return 0, false
@@ -151,7 +164,7 @@ func (d *diagnoser) number(expr hcl.Expression, what string) (float64, bool) {
 	return d.numberValue(v, expr.Range(), what)
 }
 
-func (d *diagnoser) numberValue(v cty.Value, rng hcl.Range, what string) (float64, bool) {
+func (d *diagnoser) numberValue(v cty.Value, rng hcl.Range, what label) (float64, bool) {
 	if v.Type() != cty.Number {
 		d.errorf(rng, "Number required", "%s must be a number, not %s; write it without quotes.", what, typeName(v.Type()))
 		return 0, false
@@ -165,7 +178,7 @@ func (d *diagnoser) numberValue(v cty.Value, rng hcl.Range, what string) (float6
 }
 
 // text decodes a string.
-func (d *diagnoser) text(expr hcl.Expression, what string) (string, bool) {
+func (d *diagnoser) text(expr hcl.Expression, what label) (string, bool) {
 	v, ok := d.value(expr)
 	if !ok {
 		return "", false
@@ -179,7 +192,7 @@ func (d *diagnoser) text(expr hcl.Expression, what string) (string, bool) {
 
 // name decodes a string that names an object and rejects empty names and
 // control characters (names are printed in every report).
-func (d *diagnoser) name(expr hcl.Expression, what string) (string, bool) {
+func (d *diagnoser) name(expr hcl.Expression, what label) (string, bool) {
 	s, ok := d.text(expr, what)
 	if !ok {
 		return "", false
@@ -187,7 +200,7 @@ func (d *diagnoser) name(expr hcl.Expression, what string) (string, bool) {
 	return s, d.checkName(s, expr.Range(), what)
 }
 
-func (d *diagnoser) checkName(s string, rng hcl.Range, what string) bool {
+func (d *diagnoser) checkName(s string, rng hcl.Range, what label) bool {
 	if strings.TrimSpace(s) == "" {
 		d.errorf(rng, "Empty name", "%s must not be empty; write a name such as \"main\".", what)
 		return false
@@ -202,7 +215,7 @@ func (d *diagnoser) checkName(s string, rng hcl.Range, what string) bool {
 }
 
 // list splits a static list expression into its elements.
-func (d *diagnoser) list(expr hcl.Expression, what, example string) ([]hcl.Expression, bool) {
+func (d *diagnoser) list(expr hcl.Expression, what label, example string) ([]hcl.Expression, bool) {
 	if !d.literalOnly(expr) {
 		return nil, false
 	}
@@ -239,7 +252,7 @@ func (d *diagnoser) object(expr hcl.Expression, what, example string) ([]entry, 
 	ok := true
 	seen := map[string]hcl.Range{}
 	for _, p := range pairs {
-		k, kok := d.text(p.Key, "a key of "+what)
+		k, kok := d.text(p.Key, label{"a key", what})
 		if !kok {
 			ok = false
 			continue

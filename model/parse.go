@@ -235,7 +235,7 @@ func (d *decoder) root(body hcl.Body) {
 	m := d.m
 	if a, ok := content.Attributes["units"]; ok {
 		m.UnitsRange = a.Expr.Range()
-		if s, ok := d.text(a.Expr, "units"); ok {
+		if s, ok := d.text(a.Expr, plain("units")); ok {
 			switch Units(s) {
 			case SI, US:
 				m.Units = Units(s)
@@ -246,7 +246,7 @@ func (d *decoder) root(body hcl.Body) {
 		}
 	}
 	if a, ok := content.Attributes["title"]; ok {
-		m.Title, _ = d.text(a.Expr, "title")
+		m.Title, _ = d.text(a.Expr, plain("title"))
 	}
 	count := map[string]int{}
 	for _, b := range content.Blocks {
@@ -302,7 +302,7 @@ func (d *decoder) blockName(b *hcl.Block) string {
 	if len(b.Labels) == 0 {
 		return ""
 	}
-	d.checkName(b.Labels[0], b.LabelRanges[0], fmt.Sprintf("The name of a %s", b.Type))
+	d.checkName(b.Labels[0], b.LabelRanges[0], plain("The name of a "+b.Type))
 	return b.Labels[0]
 }
 
@@ -335,7 +335,7 @@ func (a attrSet) number(name string) (float64, bool) {
 	if !ok {
 		return 0, false
 	}
-	return a.d.number(at.Expr, fmt.Sprintf("%s of %s", name, a.what))
+	return a.d.number(at.Expr, label{name, a.what})
 }
 
 func (a attrSet) text(name string) (string, bool) {
@@ -343,7 +343,7 @@ func (a attrSet) text(name string) (string, bool) {
 	if !ok {
 		return "", false
 	}
-	return a.d.text(at.Expr, fmt.Sprintf("%s of %s", name, a.what))
+	return a.d.text(at.Expr, label{name, a.what})
 }
 
 func (a attrSet) name(name string) (string, bool) {
@@ -351,7 +351,7 @@ func (a attrSet) name(name string) (string, bool) {
 	if !ok {
 		return "", false
 	}
-	return a.d.name(at.Expr, fmt.Sprintf("%s of %s", name, a.what))
+	return a.d.name(at.Expr, label{name, a.what})
 }
 
 // positive decodes a number that must be > 0.

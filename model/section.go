@@ -1,7 +1,6 @@
 package model
 
 import (
-	"fmt"
 	"slices"
 	"strings"
 
@@ -130,7 +129,7 @@ func (a attrSet) roughness(at *hcl.Attribute) (float64, bool) {
 }
 
 func (a attrSet) manning(expr hcl.Expression) (float64, bool) {
-	n, ok := a.d.number(expr, "roughness of "+a.what)
+	n, ok := a.d.number(expr, label{"roughness", a.what})
 	if !ok {
 		return 0, false
 	}
@@ -165,7 +164,7 @@ func (d *decoder) points(s *Section, a attrSet) {
 		return
 	}
 	const example = "[[0, 2.0], [5, 0.0], [10, 2.0]]"
-	what := "points of " + a.what
+	what := label{"points", a.what}
 	items, ok := d.list(at.Expr, what, example)
 	if !ok {
 		return
@@ -181,7 +180,7 @@ func (d *decoder) points(s *Section, a attrSet) {
 	pts := make([]Point, 0, len(items))
 	good := true
 	for i, it := range items {
-		pair, ok := d.pair(it, fmt.Sprintf("point %d of %s", i+1, a.what), "[offset, elevation]")
+		pair, ok := d.pair(it, label{"a point", a.what}, "[offset, elevation]")
 		if !ok {
 			good = false
 			continue
@@ -226,7 +225,7 @@ func (d *decoder) points(s *Section, a attrSet) {
 	}
 	s.Banks = [2]float64{first.Offset, last.Offset}
 	if bk, ok := a.m["banks"]; ok {
-		if pair, ok := d.pair(bk.Expr, "banks of "+a.what, "[left offset, right offset]"); ok {
+		if pair, ok := d.pair(bk.Expr, label{"banks", a.what}, "[left offset, right offset]"); ok {
 			switch {
 			case pair[0] < first.Offset || pair[1] > last.Offset:
 				d.errorf(bk.Expr.Range(), "Bank outside the section",
@@ -253,7 +252,7 @@ func (d *decoder) zoneRoughness(s *Section, a attrSet, r *hcl.Attribute) {
 		}
 		return
 	}
-	items, ok := d.list(r.Expr, "roughness of "+a.what, "[0.06, 0.035, 0.06]")
+	items, ok := d.list(r.Expr, label{"roughness", a.what}, "[0.06, 0.035, 0.06]")
 	if !ok {
 		return
 	}
@@ -270,7 +269,7 @@ func (d *decoder) zoneRoughness(s *Section, a attrSet, r *hcl.Attribute) {
 }
 
 // pair decodes a two-number list such as [offset, elevation].
-func (d *diagnoser) pair(expr hcl.Expression, what, form string) ([2]float64, bool) {
+func (d *diagnoser) pair(expr hcl.Expression, what label, form string) ([2]float64, bool) {
 	items, ok := d.list(expr, what, form)
 	if !ok {
 		return [2]float64{}, false
