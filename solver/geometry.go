@@ -26,8 +26,9 @@ const (
 
 // Geometry is a cross-section ready for hydraulic computation: the shape's
 // constants are precomputed by NewGeometry so that Props costs a few
-// floating-point operations and never allocates. depth y is measured from
-// the lowest point of the section (the invert).
+// floating-point operations and never allocates. Depth y is measured from
+// the lowest point of the section (the invert). A Geometry is not changed
+// after NewGeometry and is safe for concurrent use.
 type Geometry struct {
 	sec    *model.Section
 	kind   shapeKind

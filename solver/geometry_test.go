@@ -143,3 +143,25 @@ func TestGeometryAccessors(t *testing.T) {
 	assert.Equal(t, 0.0, Props{}.Velocity(3))
 	assert.Equal(t, 2.0, Props{Area: 1.5}.Velocity(3))
 }
+
+func TestGeometryDegenerateSectionsDoNotPanic(t *testing.T) {
+	// Source: common practice (no published source): sections that model
+	// validation rejects must still not panic or loop here.
+	secs := []*model.Section{
+		{Shape: model.Rectangle},
+		{Shape: model.Trapezoid, BottomWidth: -1, SideSlope: -2},
+		{Shape: model.Triangle},
+		{Shape: model.Circle},
+		{Shape: model.Points},
+		{Shape: model.Points, Points: []model.Point{{Offset: 1, Elevation: 2}}},
+		{Shape: model.Points, Points: []model.Point{{Offset: 0, Elevation: 0}, {Offset: 0, Elevation: 1}}, Banks: [2]float64{3, 1}},
+	}
+	for _, s := range secs {
+		g := NewGeometry(s, model.SI)
+		_ = g.Props(1)
+		_, _ = NormalDepth(g, 1, 0.001)
+		_, _ = CriticalDepth(g, 1)
+		_ = CriticalDepths(g, 1, nil)
+		_, _ = SequentDepth(g, 1, 0.5)
+	}
+}
