@@ -33,9 +33,12 @@ const gridJustAbove = 1e-9
 //
 // The stage is level across the section (the usual one-dimensional
 // assumption): every part of the polyline below the water surface is wet,
-// including isolated pockets. Above the higher end point the two end
-// points are extended by vertical walls, which are wetted (they add
-// perimeter, no area outside the polyline's offsets). The vertical lines
+// including isolated pockets. Each end point is extended upwards by a
+// vertical wall, so a stage above the lower end point (and above the
+// higher one) stays between the first and last offsets instead of
+// spilling: the walls are wetted (they add perimeter and bound the top
+// width), and Height, the lower end point by default, tells the rules
+// where the section overtops. The vertical lines
 // that divide the zones are not wetted perimeter (divided channel method;
 // Chow 1959, ch. 6, from memory).
 //
