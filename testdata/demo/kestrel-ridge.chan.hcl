@@ -112,12 +112,14 @@ reach "chute" {
   slope   = 0.06
 }
 
+# The apron floor is level and sits 0.08 m above the culvert inlet invert,
+# which keeps the tailwater low enough for the jump to stay off the chute.
 reach "apron" {
   from    = "apron-head"
   to      = "culvert-inlet"
   length  = 30
   section = "apron"
-  slope   = 0
+  invert  = [0.93, 0.93]
 }
 
 reach "quarry-lane-culvert" {
