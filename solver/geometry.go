@@ -181,8 +181,9 @@ func (g *Geometry) Props(y float64) Props {
 // section with the energy coefficient α included, so that F = 1 exactly
 // where the critical-flow condition α·Q²·T/(g·A³) = 1 holds (Chow 1959,
 // ch. 4, with the hydraulic depth D = A/T) and CriticalDepth, FroudeNumber
-// and the regime agree. It is 0 for zero discharge and at the crown of a
-// circle, where T = 0.
+// and the regime agree. It is 0 for zero discharge, falls to 0 just below
+// the crown of a circle, where T → 0, and is small in the Preissmann slot
+// above it (see SlotRatio).
 func FroudeNumber(g *Geometry, q, y float64) float64 {
 	p := g.Props(y)
 	return math.Sqrt(froude2(g, q, p))
