@@ -52,6 +52,10 @@ func TestSolvedModelsRender(t *testing.T) {
 	// main stem: one detail plot per event.
 	want += 2
 	assert.Contains(t, out, "detail: chute → apron → quarry-lane-culvert")
+	// Exceptions: the demo's covers one finding; Heron Flats' covers none
+	// (its freeboard span runs past the exception) and says so.
+	assert.Contains(t, out, "covers 1 finding")
+	assert.Contains(t, out, "covers no finding")
 	assert.Equal(t, want, strings.Count(out, "<svg "))
 	dir := t.TempDir()
 	require.NoError(t, Markdown(dir, "review", in))
