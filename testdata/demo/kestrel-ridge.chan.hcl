@@ -12,7 +12,7 @@ section "swale" {
   shape        = "trapezoid"
   bottom_width = 1.0
   side_slope   = 3.0
-  height       = 1.0
+  height       = 1.2
   roughness    = 0.035
   lining       = "grass"
 }
@@ -20,7 +20,7 @@ section "swale" {
 section "ditch" {
   shape        = "rectangle"
   bottom_width = 1.2
-  height       = 1.2
+  height       = 1.3
   roughness    = 0.014
   lining       = "concrete"
 }
@@ -149,6 +149,14 @@ basin "apron-basin" {
   to_station   = 24
 }
 
+# The east ditch starts below a pipe outfall from the business park, where
+# the 10-year flow arrives shallow and fast and jumps on a short apron.
+basin "east-inlet-apron" {
+  reach        = "east-ditch"
+  from_station = 0
+  to_station   = 15
+}
+
 bend "junction-curve" {
   reach        = "trunk"
   from_station = 380
@@ -159,7 +167,7 @@ bend "junction-curve" {
 event "q10" {
   inflow   = { "north-swale" = 1.6, "east-ditch" = 1.1, "trunk" = 0.7 }
   outlet   = { depth = 0.9 }
-  entrance = { "east-ditch" = 0.45 }
+  entrance = { "east-ditch" = 0.3 }
 }
 
 event "q100" {
@@ -172,4 +180,11 @@ exception "max_velocity" {
   from_station = 0
   to_station   = 45
   reason       = "Chute slab designed for high-velocity flow; reviewed with the county drainage engineer"
+}
+
+exception "max_velocity" {
+  reach        = "apron"
+  from_station = 0
+  to_station   = 12
+  reason       = "Basin floor slab takes the entering jet; designed with the chute slab and reviewed with it"
 }
