@@ -108,7 +108,7 @@ func TestGateJumpOnMildReach(t *testing.T) {
 }
 
 func TestJumpOnSteepReachUnderHighTailwater(t *testing.T) {
-	const q, length, tail, slope = 10.0, 400.0, 2.0, 0.02
+	const q, length, tail, slope = 10.0, 60.0, 2.0, 0.02
 	sec := trapezoid("lined", 3, 2, 0.015, 4)
 	m := buildNet(t, model.SI, []netReach{{name: "chute", from: "a", to: "b", length: length, slope: slope, sec: sec, inflow: q}},
 		model.Outlet{Kind: model.OutletDepth, Value: tail})

@@ -42,6 +42,30 @@ import (
 // normal depth and is classed mild: its uniform flow would be above the
 // crown, which is above critical depth.
 func (s *solver) depths(g *Geometry, q, s0 float64) (yc, yn float64, hasN bool, class SlopeClass) {
+	key := depthKey{g, q, s0}
+	if d, ok := s.depthCache[key]; ok {
+		return d.yc, d.yn, d.hasN, d.class
+	}
+	yc, yn, hasN, class = computeDepths(g, q, s0)
+	s.depthCache[key] = depthVal{yc, yn, hasN, class}
+	return yc, yn, hasN, class
+}
+
+// depthKey and depthVal cache depths: reaches of one section, discharge
+// and slope (a long uniform chain) share them.
+type depthKey struct {
+	g     *Geometry
+	q, s0 float64
+}
+
+type depthVal struct {
+	yc, yn float64
+	hasN   bool
+	class  SlopeClass
+}
+
+// computeDepths is depths without the cache.
+func computeDepths(g *Geometry, q, s0 float64) (yc, yn float64, hasN bool, class SlopeClass) {
 	if q <= 0 {
 		return 0, 0, false, classOf(s0, 0, 0, false)
 	}
@@ -90,7 +114,7 @@ func (s *solver) downstreamBoundary(w *reachWork, ev *model.Event) (y float64, c
 	last := &w.pieces[len(w.pieces)-1]
 	z := w.f.invert(w.f.length)
 	if d := w.r.Downstream; d != nil && d.Index >= 0 && d.Index < len(s.work) && s.work[d.Index].q > 0 {
-		y, ok := w.f.solveBranch(last, z, 0, s.work[d.Index].junctionH, false)
+		y, ok := w.f.solveBranch(last, z, 0, s.work[d.Index].junctionH, false, 0, 0)
 		if !ok {
 			return last.yc, true
 		}
@@ -196,7 +220,7 @@ func (s *solver) gateHead(w *reachWork) {
 	w.gateActs, w.gateY = true, yv
 	h := math.Max(z0+w.f.eval(p0, yv).e, hSub)
 	w.junctionH = h
-	if y, ok := w.f.solveBranch(p0, z0, 0, h, false); ok {
+	if y, ok := w.f.solveBranch(p0, z0, 0, h, false, 0, 0); ok {
 		w.res.GateUpstreamDepth = y
 	}
 }
@@ -240,7 +264,7 @@ func (s *solver) upstreamControl(w *reachWork) superControl {
 	}
 	h := qh / qs
 	z0 := w.f.invert(0)
-	y, ok := w.f.solveBranch(p0, z0, 0, h, true)
+	y, ok := w.f.solveBranch(p0, z0, 0, h, true, 0, 0)
 	if !ok {
 		w.res.Notes = append(w.res.Notes, noteControl(0,
 			"supercritical flow arrives with energy grade elevation %s, below the critical energy of this reach (%s): critical depth is taken at its start",

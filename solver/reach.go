@@ -169,7 +169,7 @@ func (s *solver) subExact(w *reachWork, pi int32, x float64) float64 {
 	if pts[j].x == x || pts[j].fallback {
 		return pts[j].y
 	}
-	y, ok := w.f.standardStep(p, pts[j].x, pts[j].y, x, false)
+	y, ok := w.f.standardStep(p, pts[j].x, pts[j].y, x, false, 0)
 	if !ok {
 		return p.yc
 	}
@@ -222,7 +222,7 @@ func (s *solver) subcritical(w *reachWork, ev *model.Event) {
 			up := &w.pieces[pi-1]
 			z := w.f.invert(x)
 			target := z + w.f.eval(p, y).e
-			y2, ok := w.f.solveBranch(up, z, 0, target, false)
+			y2, ok := w.f.solveBranch(up, z, 0, target, false, 0, 0)
 			s.subBuf = append(s.subBuf, pt{x: x, y: y2, piece: int32(pi - 1), fallback: !ok})
 			s.count(1)
 			y, crit = y2, !ok
@@ -294,7 +294,7 @@ func (s *solver) combine(w *reachWork, ev *model.Event) {
 				// Flow passes through critical depth here; try a
 				// supercritical profile downstream of it.
 				p := &w.pieces[c.piece]
-				if _, ok := w.f.standardStep(p, c.x, p.yc, c.x+(sub[k].x-c.x)/2, true); ok {
+				if _, ok := w.f.standardStep(p, c.x, p.yc, c.x+(sub[k].x-c.x)/2, true, 0); ok {
 					w.final[len(w.final)-1].fallback = false
 					superAt, sx, sy, spi, atCrit = true, c.x, p.yc, c.piece, true
 				}
@@ -325,7 +325,7 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 			z := w.f.invert(p.from)
 			up := &w.pieces[pi-1]
 			target := z + w.f.eval(up, prev.y).e
-			y2, ok := w.f.solveBranch(p, z, 0, target, true)
+			y2, ok := w.f.solveBranch(p, z, 0, target, true, 0, 0)
 			c := pt{x: p.from, y: y2, piece: pi, super: true, fallback: !ok}
 			s.count(1)
 			ys := s.subAt(w, pi, c.x)
@@ -398,7 +398,7 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, a, b pt) (xt, y1, 
 		if x <= a.x {
 			return a.y
 		}
-		y, ok := w.f.standardStep(p, a.x, a.y, x, true)
+		y, ok := w.f.standardStep(p, a.x, a.y, x, true, 0)
 		if !ok {
 			return p.yc
 		}

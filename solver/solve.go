@@ -82,28 +82,30 @@ func wanted(filter []string, name string) bool {
 // solver holds what is shared by the events of one Solve call; its
 // buffers are reused from event to event.
 type solver struct {
-	m         *model.Model
-	units     model.Units
-	tol       float64
-	maxPoints int
-	order     []*model.Reach // topological, upstream first
-	geos      map[*model.Section]*Geometry
-	layouts   []reachLayout // by reach index
-	work      []reachWork   // by reach index
-	subBuf    []pt
-	finBuf    []pt
-	points    int
-	tooMany   bool
-	entrance  []float64 // by reach index, per event; 0 = none
+	m          *model.Model
+	units      model.Units
+	tol        float64
+	maxPoints  int
+	order      []*model.Reach // topological, upstream first
+	geos       map[*model.Section]*Geometry
+	depthCache map[depthKey]depthVal
+	layouts    []reachLayout // by reach index
+	work       []reachWork   // by reach index
+	subBuf     []pt
+	finBuf     []pt
+	points     int
+	tooMany    bool
+	entrance   []float64 // by reach index, per event; 0 = none
 }
 
 func newSolver(m *model.Model, opts Options) *solver {
 	s := &solver{
-		m:         m,
-		units:     m.Units,
-		tol:       opts.Tolerance,
-		maxPoints: opts.MaxPoints,
-		geos:      map[*model.Section]*Geometry{},
+		m:          m,
+		units:      m.Units,
+		tol:        opts.Tolerance,
+		maxPoints:  opts.MaxPoints,
+		geos:       map[*model.Section]*Geometry{},
+		depthCache: map[depthKey]depthVal{},
 	}
 	if !(s.tol > 0) || math.IsInf(s.tol, 0) {
 		s.tol = DefaultTolerance
@@ -217,6 +219,6 @@ func (s *solver) solveEvent(ev *model.Event) (*EventResult, error) {
 }
 
 func (s *solver) limitError(ev *model.Event) error {
-	return fmt.Errorf("%w: event %q needs more than %d computed points; raise the limit or set a larger max_spacing",
+	return fmt.Errorf("%w: event %q needs more than %d computed points (the solver's limit for one event; a very small max_spacing on long reaches raises the count)",
 		ErrTooManyPoints, ev.Name, s.maxPoints)
 }
