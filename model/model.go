@@ -88,7 +88,7 @@ type Section struct {
 	Points    []Point    // points: ordered by offset
 	Banks     [2]float64 // points: main channel between these offsets
 	Roughness [3]float64 // left overbank, main channel, right overbank; all three equal for prismatic shapes
-	Lining    string
+	Lining    string     // free word matched by policies; "" when not written
 }
 
 // Closed reports whether the section is a closed conduit (a circle).
@@ -151,7 +151,9 @@ func (r *Reach) InvertAt(station float64) float64 {
 	return r.InvertUp + (r.InvertDown-r.InvertUp)*station/r.Length
 }
 
-// Gate is a sluice gate at station 0 of a reach.
+// Gate is a sluice gate at station 0 of a reach. It may stand on any
+// reach, not only a headwater: it is the upstream control of its reach, and
+// the reach above sees the depth the gate holds back.
 type Gate struct {
 	Src
 	Name        string

@@ -260,14 +260,11 @@ func (d *decoder) root(body hcl.Body) {
 		}
 		switch b.Type {
 		case "section":
-			if s := d.section(b); s != nil {
-				m.Sections = append(m.Sections, s)
-			}
+			m.Sections = append(m.Sections, d.section(b))
 		case "reach":
-			if r := d.reach(b); r != nil {
-				r.Index = len(m.Reaches)
-				m.Reaches = append(m.Reaches, r)
-			}
+			r := d.reach(b)
+			r.Index = len(m.Reaches)
+			m.Reaches = append(m.Reaches, r)
 		case "gate":
 			m.Gates = append(m.Gates, d.gate(b))
 		case "basin":
