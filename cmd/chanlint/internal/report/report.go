@@ -547,7 +547,7 @@ func settings(rc *policies.RuleConfig, u model.Units) string {
 		}
 		sort.Strings(nolimit)
 		for _, w := range nolimit {
-			parts = append(parts, w+" none")
+			parts = append(parts, w+" no limit")
 		}
 		if rc.Limit.HasDefault {
 			parts = append(parts, "other linings "+num(rc.Limit.Default))

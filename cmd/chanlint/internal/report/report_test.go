@@ -157,3 +157,28 @@ func TestUnsolvedAndEmpty(t *testing.T) {
 	out = renderHTML(t, Input{})
 	assert.Contains(t, out, rules.Caution)
 }
+
+func TestNonFiniteInputNeverReachesOutput(t *testing.T) {
+	in := fixtureInput(t, "heron-flats.chan.hcl")
+	inf := 1.0
+	for i := 0; i < 2000; i++ {
+		inf *= 10
+	}
+	nan := inf - inf
+	rr := in.Models[0].Result.Events[0].Reaches[0]
+	rr.Points[3].WSE, rr.Points[4].Energy, rr.Points[5].Invert = nan, inf, -inf
+	rr.Points[6].Velocity, rr.Points[7].Froude, rr.Discharge = nan, inf, nan
+	in.Models[0].Findings[0].Value, in.Models[0].Findings[0].ToStation = nan, inf
+	out := renderHTML(t, in)
+	assert.NotContains(t, out, "NaN")
+	assert.NotContains(t, out, "Inf")
+	dir := t.TempDir()
+	require.NoError(t, Markdown(dir, "r", in))
+	files, _ := filepath.Glob(filepath.Join(dir, "*"))
+	for _, f := range files {
+		b, err := os.ReadFile(f)
+		require.NoError(t, err)
+		assert.NotContains(t, string(b), "NaN", f)
+		assert.NotContains(t, string(b), "Inf", f)
+	}
+}
