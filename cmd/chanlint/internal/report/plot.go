@@ -495,7 +495,7 @@ func buildPlot(in plotInput) *Plot {
 				}
 				lastJumpX = x
 				ly := math.Min(y2, y1) - 12 - float64(jumpRow)*14
-				ly = math.Max(ly, fr.Y+52)
+				ly = math.Max(ly, fr.Y+12)
 				anchor := "start"
 				lx := x + 4
 				if x+float64(len(label))*charW > fr.Right() {
@@ -520,7 +520,7 @@ func buildPlot(in plotInput) *Plot {
 			}
 			p.Gates = append(p.Gates, Mark{
 				X: round1(x + 2), Y1: round1(sy(top)), Y2: round1(sy(inv + g.Opening)),
-				Label: "gate " + g.Name, LabelX: round1(x + 7), LabelY: round1(sy(top) - 4), Anchor: "start",
+				Label: "gate " + g.Name, LabelX: round1(x + 7), LabelY: round1(math.Max(sy(top)-4, fr.Y+11)), Anchor: "start",
 				Title: fmt.Sprintf("sluice gate %s, opening %s %s", g.Name, num(g.Opening), lu),
 			})
 		}

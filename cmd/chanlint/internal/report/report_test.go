@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"math"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -10,6 +11,7 @@ import (
 
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
+	"github.com/chanlint/chanlint/solver"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -181,4 +183,30 @@ func TestNonFiniteInputNeverReachesOutput(t *testing.T) {
 		assert.NotContains(t, string(b), "NaN", f)
 		assert.NotContains(t, string(b), "Inf", f)
 	}
+}
+
+func TestThinKeepsExtremes(t *testing.T) {
+	// Source: common practice (no published source) — min/max decimation
+	// for drawing keeps every local extreme of each bucket.
+	pts := make([]solver.Point, 10000)
+	for i := range pts {
+		pts[i] = solver.Point{Station: float64(i), WSE: math.Sin(float64(i) / 300)}
+	}
+	pts[4321].WSE = 5 // a spike
+	got := thin(pts)
+	assert.LessOrEqual(t, len(got), maxPlotPoints)
+	assert.Equal(t, pts[0], got[0])
+	assert.Equal(t, pts[len(pts)-1], got[len(got)-1])
+	hasSpike := false
+	for i, p := range got {
+		if p.WSE == 5 {
+			hasSpike = true
+		}
+		if i > 0 {
+			assert.GreaterOrEqual(t, p.Station, got[i-1].Station)
+		}
+	}
+	assert.True(t, hasSpike)
+	short := pts[:10]
+	assert.Equal(t, short, thin(short))
 }
