@@ -174,30 +174,19 @@ func postOrder(last *Reach, n int) []*Reach {
 	return order
 }
 
-// events resolves the reaches named by each event, checks entrances and
-// outlet controls against the network, and accumulates discharges.
+// events checks each event's entrances and outlet control against the
+// network and accumulates its discharges. It runs on a clean file, so every
+// inflow and entrance names a reach.
 func (d *decoder) events() {
 	m := d.m
 	net := m.Network
 	for _, ev := range m.Events {
 		what := fmt.Sprintf("event %q", ev.Name)
 		own := make([]float64, len(m.Reaches))
-		resolved := len(ev.Inflows) > 0
-		for i := range ev.Inflows {
-			in := &ev.Inflows[i]
-			in.Reach = d.lookupReach(in.ReachName, in.Range, "The inflow of "+what)
-			if in.Reach == nil {
-				resolved = false
-				continue
-			}
+		for _, in := range ev.Inflows {
 			own[in.Reach.Index] += in.Discharge
 		}
-		for i := range ev.Entrances {
-			en := &ev.Entrances[i]
-			en.Reach = d.lookupReach(en.ReachName, en.Range, "The entrance of "+what)
-			if en.Reach == nil {
-				continue
-			}
+		for _, en := range ev.Entrances {
 			if up := en.Reach.Upstream; len(up) > 0 {
 				d.errorf(en.Range, "Entrance on a reach with inflow from upstream",
 					"reach %q receives the flow of reach %q, so its upstream depth comes from the junction; an entrance depth applies to headwater reaches only. Remove the entry.",
@@ -208,9 +197,6 @@ func (d *decoder) events() {
 			}
 		}
 		d.outletControl(ev, net.OutletReach, what)
-		if !resolved {
-			continue
-		}
 		ev.Discharge = make([]float64, len(m.Reaches))
 		for _, r := range net.Order {
 			q := own[r.Index]

@@ -92,7 +92,8 @@ func byStation[T any](items []T, from func(T) float64) {
 	slices.SortStableFunc(items, func(a, b T) int { return cmp.Compare(from(a), from(b)) })
 }
 
-// resolve checks names and references and attaches gates, basins, bends and
+// resolve checks names and references (sections, reaches named by
+// structures, exceptions and events) and attaches gates, basins, bends and
 // segments to their reaches.
 func (d *decoder) resolve() {
 	m := d.m
@@ -165,6 +166,16 @@ func (d *decoder) resolve() {
 		what := fmt.Sprintf("exception %q", e.Rule)
 		e.Reach = d.lookupReach(e.ReachName, e.At("reach"), what)
 		d.checkSpan(e.Reach, e.Src, e.FromStation, e.ToStation, what)
+	}
+	for _, ev := range m.Events {
+		for i := range ev.Inflows {
+			in := &ev.Inflows[i]
+			in.Reach = d.lookupReach(in.ReachName, in.Range, fmt.Sprintf("The inflow of event %q", ev.Name))
+		}
+		for i := range ev.Entrances {
+			en := &ev.Entrances[i]
+			en.Reach = d.lookupReach(en.ReachName, en.Range, fmt.Sprintf("The entrance of event %q", ev.Name))
+		}
 	}
 	for _, r := range m.Reaches {
 		byStation(r.Basins, func(b *Basin) float64 { return b.FromStation })

@@ -21,6 +21,6 @@ gate "head" {
   contraction = 0 # want "Contraction out of range"
 }
 event "q100" {
-  inflow = { "main" = 3.0 }
+  inflow = { "main" = 3.0, "mane" = 1.0 } # want "Unknown reach"
   outlet = { depht = 0.8 } # want "Unknown outlet control"
 }

@@ -15,6 +15,6 @@ reach "" { # want "Empty name"
   slope   = 0.002
 }
 event "q100" {
-  inflow = { "main" = 3.0 }
+  inflow = { "main" = 3.0 } # want "Unknown reach"
   outlet = { depth = 0.8 }
 }
