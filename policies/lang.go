@@ -8,6 +8,7 @@ import (
 
 	"github.com/chanlint/chanlint/model"
 	"github.com/hashicorp/hcl/v2"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
 	"github.com/zclconf/go-cty/cty"
 )
 
@@ -144,7 +145,11 @@ func (d *decoder) decodeFile(file *hcl.File, name string) *own {
 	content, diags := file.Body.Content(policyFileSchema)
 	d.diags = append(d.diags, diags...)
 	if len(content.Blocks) == 0 {
-		if !diags.HasErrors() {
+		misspelt := false
+		for _, dg := range diags {
+			misspelt = misspelt || dg.Summary == "Unsupported block type"
+		}
+		if !misspelt {
 			d.errorf(file.Body.MissingItemRange(), "Missing policy block",
 				`A policy file holds one block: policy "NAME" { units = "si" ... }.`)
 		}
@@ -255,6 +260,8 @@ func (d *decoder) decodeRule(spec *ruleSpec, block *hcl.Block, file string) (rc 
 	if a := content.Attributes["events"]; a != nil {
 		rc.Events = d.events(a)
 	}
+	// After an unknown or malformed argument (likely a misspelt setting) a
+	// second message about a missing setting would only repeat it.
 	has := func(n string) bool { return content.Attributes[n] != nil || diags.HasErrors() }
 	for _, n := range spec.settings {
 		a := content.Attributes[n]
@@ -306,6 +313,9 @@ func (d *decoder) value(a *hcl.Attribute, want cty.Type, what string) (cty.Value
 }
 
 func (d *decoder) exprValue(expr hcl.Expression, name string, want cty.Type, what string) (cty.Value, bool) {
+	if !d.literal(expr) {
+		return cty.NilVal, false
+	}
 	v, diags := expr.Value(nil)
 	d.diags = append(d.diags, diags...)
 	if diags.HasErrors() {
@@ -316,6 +326,74 @@ func (d *decoder) exprValue(expr hcl.Expression, name string, want cty.Type, wha
 		return cty.NilVal, false
 	}
 	return v, true
+}
+
+// literal reports whether expr is made of literal values only: numbers,
+// strings without interpolation, true, false, null, negation, parentheses,
+// lists and objects (with bare or quoted keys). Anything else is reported
+// at its own range. Evaluation is then bounded by the size of the text: a
+// policy may come from the repository under review, and for-expressions or
+// template directives could otherwise expand a short file into gigabytes.
+func (d *decoder) literal(expr hcl.Expression) bool {
+	const only = "A policy holds literal values only: numbers, strings, true, false, null, lists [...] and objects { ... }."
+	switch e := expr.(type) {
+	case *hclsyntax.LiteralValueExpr:
+		return true
+	case *hclsyntax.ParenthesesExpr:
+		return d.literal(e.Expression)
+	case *hclsyntax.UnaryOpExpr:
+		if e.Op == hclsyntax.OpNegate {
+			return d.literal(e.Val)
+		}
+	case *hclsyntax.TemplateExpr:
+		ok := true
+		for _, part := range e.Parts {
+			if _, lit := part.(*hclsyntax.LiteralValueExpr); !lit {
+				if d.literal(part) {
+					d.errorf(part.Range(), "Templates not allowed", "Write the text itself; ${...} interpolation is not evaluated in a policy.")
+				}
+				ok = false
+			}
+		}
+		return ok
+	case *hclsyntax.TemplateWrapExpr:
+		if d.literal(e.Wrapped) {
+			d.errorf(e.Wrapped.Range(), "Templates not allowed", "Write the value itself; ${...} interpolation is not evaluated in a policy.")
+		}
+		return false
+	case *hclsyntax.TemplateJoinExpr:
+		d.errorf(e.Range(), "Templates not allowed", "Template directives (%%{for}, %%{if}) are not evaluated in a policy; write the text itself.")
+		return false
+	case *hclsyntax.TupleConsExpr:
+		ok := true
+		for _, x := range e.Exprs {
+			ok = d.literal(x) && ok
+		}
+		return ok
+	case *hclsyntax.ObjectConsExpr:
+		ok := true
+		for _, item := range e.Items {
+			ok = d.literal(item.KeyExpr) && ok
+			ok = d.literal(item.ValueExpr) && ok
+		}
+		return ok
+	case *hclsyntax.ObjectConsKeyExpr:
+		if t, isName := e.Wrapped.(*hclsyntax.ScopeTraversalExpr); isName && !e.ForceNonLiteral && len(t.Traversal) == 1 {
+			return true // a bare key such as concrete is taken literally
+		}
+		return d.literal(e.Wrapped)
+	case *hclsyntax.FunctionCallExpr:
+		d.errorf(e.Range(), "Function calls not allowed", "Functions may not be called in a policy. %s", only)
+		return false
+	case *hclsyntax.ScopeTraversalExpr:
+		d.errorf(e.Traversal.SourceRange(), "Variables not allowed", "Variables may not be used in a policy; quote a text value. %s", only)
+		return false
+	case *hclsyntax.ForExpr:
+		d.errorf(e.Range(), "For expressions not allowed", "%s", only)
+		return false
+	}
+	d.errorf(expr.Range(), "Expressions not allowed", "%s", only)
+	return false
 }
 
 // describe names a value's kind for messages.
@@ -450,6 +528,9 @@ func (d *decoder) bounded(a *hcl.Attribute, lo, hi float64, open bool, what stri
 
 // events reads a non-empty list of event names.
 func (d *decoder) events(a *hcl.Attribute) []string {
+	if !d.literal(a.Expr) {
+		return nil
+	}
 	elems, diags := hcl.ExprList(a.Expr)
 	if diags.HasErrors() {
 		d.errorf(a.Expr.Range(), `Invalid value for "events"`, `events must be a list of event names, e.g. ["q100"].`)
@@ -518,6 +599,9 @@ func (d *decoder) byLining(a *hcl.Attribute) ByLining {
 			continue
 		}
 		seen[key] = kv.Key.Range()
+		if !d.literal(kv.Value) {
+			continue
+		}
 		if v, diags := kv.Value.Value(nil); !diags.HasErrors() && v.IsNull() {
 			if key == "default" {
 				continue // no default: unlisted linings are not checked
@@ -561,6 +645,9 @@ func (d *decoder) positive(expr hcl.Expression, name, must string) (float64, boo
 // bands reads [[lo, hi], ...] with 0 ≤ lo < hi.
 func (d *decoder) bands(a *hcl.Attribute) []Band {
 	const shape = "avoid must be a list of [low, high] Froude-number pairs, e.g. [[0.86, 1.13]]"
+	if !d.literal(a.Expr) {
+		return nil
+	}
 	outer, diags := hcl.ExprList(a.Expr)
 	if diags.HasErrors() {
 		d.errorf(a.Expr.Range(), `Invalid value for "avoid"`, "%s.", shape)

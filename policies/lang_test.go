@@ -1,6 +1,7 @@
 package policies
 
 import (
+	"strings"
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
@@ -300,11 +301,35 @@ func TestDiagnostics(t *testing.T) {
 		{"variable", `policy "x" {
   units = "si"
   freeboard { minimum = local.freeboard }
-}`, "Variables not allowed", "", `local`, 0},
+}`, "Variables not allowed", "", `local.freeboard`, 0},
 		{"interpolation", `policy "x" {
   units     = "si"
   reference = "manual ${edition}"
 }`, "Variables not allowed", "", `edition`, 0},
+		{"for expression", `policy "x" {
+  units = "si"
+  froude_band { avoid = [for b in [[1, 2]] : b] }
+}`, "For expressions not allowed", "literal values only", `[for b in [[1, 2]] : b]`, 0},
+		{"template directive", `policy "x" {
+  units     = "si"
+  reference = "%{ for x in [1, 2] }manual%{ endfor }"
+}`, "Templates not allowed", "directives", `%{ for x in [1, 2] }manual%{ endfor }`, 0},
+		{"interpolated number", `policy "x" {
+  units = "si"
+  freeboard { minimum = "${0.3}" }
+}`, "Templates not allowed", "interpolation", `0.3`, 0},
+		{"conditional", `policy "x" {
+  units = "si"
+  freeboard { minimum = true ? 0.3 : 0.5 }
+}`, "Expressions not allowed", "literal values only", `true ? 0.3 : 0.5`, 0},
+		{"variable as lining value", `policy "x" {
+  units = "si"
+  max_velocity { limit = { concrete = speed } }
+}`, "Variables not allowed", "", `speed`, 0},
+		{"dotted key", `policy "x" {
+  units = "si"
+  max_velocity { limit = { a.b = 1 } }
+}`, "Variables not allowed", "", `a.b`, 0},
 		{"huge number", `policy "x" {
   units = "si"
   freeboard { minimum = 1e400 }
@@ -445,4 +470,29 @@ func TestResolveAcceptsPackPrefix(t *testing.T) {
 	p, diags := NewLoader("").Resolve("pack:baseline-us")
 	require.Empty(t, diags)
 	assert.Equal(t, "baseline-us", p.Name)
+}
+
+// Nesting beyond MaxNesting is refused before the recursive HCL parser
+// sees it (100,000 levels would overflow the goroutine stack).
+func TestNestingIsBounded(t *testing.T) {
+	for name, value := range map[string]string{
+		"brackets":      strings.Repeat("[", 100000) + strings.Repeat("]", 100000),
+		"parentheses":   strings.Repeat("(", 5000) + "1" + strings.Repeat(")", 5000),
+		"signs":         strings.Repeat("-", 5000) + "1",
+		"interpolation": strings.Repeat(`"${`, 5000) + "1" + strings.Repeat(`}"`, 5000),
+	} {
+		t.Run(name, func(t *testing.T) {
+			src := "policy \"x\" {\n  units     = \"si\"\n  reference = " + value + "\n}\n"
+			p, diags, _ := loadSource(t, src)
+			assert.Nil(t, p)
+			require.Len(t, diags, 1)
+			assert.Equal(t, "Too deeply nested", diags[0].Summary)
+			require.NotNil(t, diags[0].Subject)
+			assert.Equal(t, 3, diags[0].Subject.Start.Line)
+		})
+	}
+	// Exactly MaxNesting levels (policy, block, parentheses) load.
+	src := "policy \"x\" {\n  units = \"si\"\n  freeboard { minimum = " + strings.Repeat("(", MaxNesting-2) + "0.3" + strings.Repeat(")", MaxNesting-2) + " }\n}\n"
+	_, diags, _ := loadSource(t, src)
+	assert.Empty(t, diags)
 }

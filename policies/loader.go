@@ -12,13 +12,15 @@ import (
 
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclparse"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
 )
 
 // Suffix is the file-name suffix of policy files.
 const Suffix = ".policy.hcl"
 
-// MaxFileSize bounds the size of a policy file read from disk.
-const MaxFileSize = 1 << 20
+// MaxFileSize bounds the size of a policy file (a built-in pack is about
+// 6 KiB), which also bounds the work of parsing a hostile one.
+const MaxFileSize = 256 << 10
 
 // packPrefix starts the File of a built-in pack: "pack:NAME".
 const packPrefix = "pack:"
@@ -82,14 +84,44 @@ func (l *Loader) Load(path string) (*Policy, hcl.Diagnostics) {
 	if err != nil {
 		return nil, hcl.Diagnostics{readError(display, err, nil)}
 	}
-	root := filepath.Dir(real)
+	return l.top(node{display: display, key: real})
+}
+
+// LoadSource is Load for a policy text that is not read from disk (standard
+// input, an editor buffer): filename names it in ranges and Policy.File,
+// and its extends paths are relative to filename's directory.
+func (l *Loader) LoadSource(filename string, src []byte) (*Policy, hcl.Diagnostics) {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	display := filepath.ToSlash(filepath.Clean(filename))
+	key, err := filepath.Abs(filename)
+	if err != nil {
+		return nil, hcl.Diagnostics{readError(display, err, nil)}
+	}
+	if dir, err := filepath.EvalSymlinks(filepath.Dir(key)); err == nil {
+		key = filepath.Join(dir, filepath.Base(key))
+	}
+	if len(src) > MaxFileSize {
+		return nil, hcl.Diagnostics{readError(display, fmt.Errorf("larger than the limit of %d bytes", MaxFileSize), nil)}
+	}
+	if src == nil {
+		src = []byte{}
+	}
+	return l.top(node{display: display, key: key, src: src})
+}
+
+// top loads a file given by the caller: its chain is confined to the
+// loader's root, or to the file's own directory when the root is "".
+func (l *Loader) top(n node) (*Policy, hcl.Diagnostics) {
+	root := filepath.Dir(n.key)
 	if l.root != "" {
+		var err error
 		if root, err = realPath(l.root); err != nil {
 			return nil, hcl.Diagnostics{{Severity: hcl.DiagError, Summary: "Cannot resolve the repository root",
-				Detail: fmt.Sprintf("%s: %v", l.root, err)}}
+				Detail: fmt.Sprintf("%s: %s.", l.root, plainError(err))}}
 		}
 	}
-	return checked(l.load(node{display: display, key: real}, root, nil, nil))
+	return checked(l.load(n, root, nil, nil))
 }
 
 func (l *Loader) loadPack(name string) (*Policy, hcl.Diagnostics) {
@@ -111,6 +143,7 @@ type node struct {
 	display string // Policy.File and the file name in ranges
 	key     string // identity for cycle detection: real path or "pack:NAME"
 	pack    bool
+	src     []byte // the text, when it is not to be read from key
 }
 
 // realPath is the absolute path with symbolic links resolved.
@@ -166,12 +199,51 @@ func readBounded(path string) ([]byte, error) {
 
 // parse parses a file once and remembers its parse diagnostics.
 func (l *Loader) parse(name string, src []byte) (*hcl.File, hcl.Diagnostics) {
-	if f := l.parser.Files()[name]; f != nil {
-		return f, l.parsed[name]
+	if diags, seen := l.parsed[name]; seen {
+		return l.parser.Files()[name], diags
+	}
+	if rng, deep := tooDeep(src, name); deep {
+		diags := hcl.Diagnostics{{Severity: hcl.DiagError, Summary: "Too deeply nested",
+			Detail:  fmt.Sprintf("Brackets, braces, parentheses, strings or signs nest more than %d deep here; a policy needs only a few levels.", MaxNesting),
+			Subject: rng.Ptr()}}
+		l.parsed[name] = diags
+		return nil, diags
 	}
 	f, diags := l.parser.ParseHCL(src, name)
 	l.parsed[name] = diags
 	return f, diags
+}
+
+// MaxNesting bounds how deeply brackets, braces, parentheses, strings (a
+// string may interpolate another) and runs of unary signs nest, so that
+// the recursive HCL parser cannot exhaust the stack on a hostile file.
+const MaxNesting = 64
+
+// tooDeep lexes src (the lexer does not recurse) and returns the range of
+// the first token that nests deeper than MaxNesting.
+func tooDeep(src []byte, name string) (hcl.Range, bool) {
+	toks, _ := hclsyntax.LexConfig(src, name, hcl.InitialPos)
+	depth, signs := 0, 0
+	for _, t := range toks {
+		switch t.Type {
+		case hclsyntax.TokenOBrack, hclsyntax.TokenOBrace, hclsyntax.TokenOParen,
+			hclsyntax.TokenTemplateInterp, hclsyntax.TokenTemplateControl,
+			hclsyntax.TokenOQuote, hclsyntax.TokenOHeredoc:
+			depth++
+		case hclsyntax.TokenCBrack, hclsyntax.TokenCBrace, hclsyntax.TokenCParen,
+			hclsyntax.TokenTemplateSeqEnd, hclsyntax.TokenCQuote, hclsyntax.TokenCHeredoc:
+			depth = max(depth-1, 0)
+		}
+		if t.Type == hclsyntax.TokenMinus || t.Type == hclsyntax.TokenBang {
+			signs++
+		} else {
+			signs = 0
+		}
+		if depth > MaxNesting || signs > MaxNesting {
+			return t.Range, true
+		}
+	}
+	return hcl.Range{}, false
 }
 
 // load decodes n, then what it extends, and merges them. stack holds the
@@ -186,7 +258,7 @@ func (l *Loader) load(n node, root string, stack []node, from *hcl.Range) (*Poli
 				Detail: fmt.Sprintf("There is no built-in pack %q; the packs are %s.", strings.TrimPrefix(n.display, packPrefix), strings.Join(PackNames(), ", ")), Subject: from}}
 		}
 		src = s
-	} else {
+	} else if src = n.src; src == nil {
 		var err error
 		if src, err = readBounded(n.key); err != nil {
 			return nil, hcl.Diagnostics{readError(n.display, err, from)}
@@ -241,7 +313,7 @@ func (l *Loader) load(n node, root string, stack []node, from *hcl.Range) (*Poli
 
 // extendsTarget resolves the extends value of o, written in n.
 func (l *Loader) extendsTarget(d *decoder, n node, o *own, root string) (node, bool) {
-	v := o.extends
+	v := strings.TrimPrefix(o.extends, packPrefix)
 	if _, ok := packSources[v]; ok {
 		return node{display: packPrefix + v, key: packPrefix + v, pack: true}, true
 	}

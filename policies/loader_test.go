@@ -2,6 +2,7 @@ package policies
 
 import (
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"testing"
@@ -137,6 +138,15 @@ func TestExtendsPack(t *testing.T) {
 	// Source: 0.3 m / 0.3048 m/ft (exact definition of the foot).
 	assert.InDelta(t, 0.3/0.3048, p.Rules["freeboard"].Minimum, 1e-12)
 	assert.Len(t, p.Rules, len(Configurable()))
+}
+
+func TestExtendsPackPrefix(t *testing.T) {
+	p, diags, _ := loadSource(t, `policy "x" {
+  units   = "si"
+  extends = "pack:strict"
+}`)
+	require.Empty(t, diags)
+	assert.Equal(t, "pack:strict", p.Chain[1])
 }
 
 func TestExtendsOutsideRepository(t *testing.T) {
@@ -395,4 +405,70 @@ func TestTestdataPolicies(t *testing.T) {
 		assert.Empty(t, diags, m)
 		assert.NotNil(t, p, m)
 	}
+}
+
+func TestLoadSource(t *testing.T) {
+	dir := writeTree(t, map[string]string{
+		"base.policy.hcl": `policy "b" {
+  units = "si"
+  jump_containment {}
+}`,
+	})
+	l := NewLoader(dir)
+	name := filepath.Join(dir, "buffer.policy.hcl") // does not exist on disk
+	p, diags := l.LoadSource(name, []byte(`policy "buf" {
+  units   = "si"
+  extends = "base.policy.hcl"
+}`))
+	require.Empty(t, diags)
+	assert.Equal(t, "buf", p.Name)
+	assert.Contains(t, p.Rules, "jump_containment")
+	assert.Contains(t, l.Files(), filepath.ToSlash(name))
+
+	_, diags = NewLoader(dir).LoadSource(filepath.Join(dir, "empty.policy.hcl"), nil)
+	require.Len(t, diags, 1)
+	assert.Equal(t, "Missing policy block", diags[0].Summary)
+}
+
+// Whatever the bytes, loading gives a policy or error diagnostics with a
+// range, never a panic; a policy has only finite numbers.
+func FuzzLoadSource(f *testing.F) {
+	for _, n := range PackNames() {
+		src, _ := PackSource(n)
+		f.Add(src)
+	}
+	f.Add([]byte(everyConstruct))
+	f.Add([]byte(`policy "x" { units = "si" }`))
+	f.Add([]byte("policy \"x\" {\n units = \"si\"\n froude_band { avoid = [[1, 2], [3]] }\n}"))
+	dir, err := filepath.EvalSymlinks(f.TempDir())
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Fuzz(func(t *testing.T, src []byte) {
+		p, diags := NewLoader(dir).LoadSource(filepath.Join(dir, "f.policy.hcl"), src)
+		if p == nil {
+			if !diags.HasErrors() {
+				t.Fatal("no policy and no error")
+			}
+			return
+		}
+		if diags.HasErrors() {
+			t.Fatal("a policy despite errors")
+		}
+		for id, rc := range p.Rules {
+			nums := []float64{rc.Minimum, rc.Fraction, rc.Limit.Default, rc.SubcriticalCoefficient, rc.SupercriticalCoefficient}
+			for _, v := range rc.Limit.Values {
+				nums = append(nums, v)
+			}
+			for _, b := range rc.Avoid {
+				nums = append(nums, b.Low, b.High)
+			}
+			for _, v := range nums {
+				if math.IsNaN(v) || math.IsInf(v, 0) {
+					t.Fatalf("%s: non-finite number", id)
+				}
+			}
+		}
+		_ = Format(p)
+	})
 }
