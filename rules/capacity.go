@@ -52,8 +52,7 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 		if sec == nil || !finite(sec.Height) {
 			return verdict{skip: true}
 		}
-		v := verdict{value: p.Depth, limit: sec.Height, short: p.Depth - sec.Height,
-			block: reachBlock(rr.Reach, p.Station)}
+		v := verdict{value: p.Depth, limit: sec.Height, short: p.Depth - sec.Height}
 		if sec.Closed() {
 			v.kind = flowsFull
 			v.fail = p.Full || p.Depth >= sec.Height

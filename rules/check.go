@@ -150,7 +150,7 @@ func (c *Context) eachReach(fn func(ev *solver.EventResult, rr *solver.ReachResu
 func (c *Context) scanPoints(w worse, judge func(rr *solver.ReachResult, p *solver.Point) verdict,
 	emit func(ev *solver.EventResult, rr *solver.ReachResult, s span)) {
 	c.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
-		for _, s := range scan(rr, w, func(p *solver.Point) verdict { return judge(rr, p) }) {
+		for _, s := range scan(rr, w, judge, reachBlock) {
 			emit(ev, rr, s)
 		}
 	})

@@ -108,12 +108,13 @@ func stressUnit(u model.Units) string {
 	return "N/m²"
 }
 
-// finite reports whether every value is a finite number.
+// finite reports whether every value is a finite number: x·0 is 0 for a
+// finite x and NaN for NaN or ±Inf, so the sum is 0 exactly when all are
+// finite (one branch however many values; rules call it per point).
 func finite(xs ...float64) bool {
+	z := 0.0
 	for _, x := range xs {
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return false
-		}
+		z += x * 0
 	}
-	return true
+	return z == 0
 }

@@ -57,7 +57,6 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 		return verdict{
 			fail:  avail < req-1e-12*max(1, req),
 			value: avail, limit: req, short: req - avail,
-			block: reachBlock(rr.Reach, p.Station),
 		}
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		report(spanFinding(ev, rr, s, freeboardMessage(cfg, rr, s, u)))

@@ -66,8 +66,7 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 			return verdict{}
 		}
 		edge, depth := nearestEdge(b, p.Froude)
-		return verdict{fail: true, value: p.Froude, limit: edge, short: depth,
-			block: reachBlock(rr.Reach, p.Station)}
+		return verdict{fail: true, value: p.Froude, limit: edge, short: depth}
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		b, _ := bandOf(cfg.Avoid, s.value)
 		lo, hi := numPair(b.Low, b.High)

@@ -122,11 +122,11 @@ func basinAt(r *model.Reach, station float64) *model.Basin {
 
 // jumpBlock is the block responsible for a jump: the basin its toe lies
 // in, else the reach.
-func jumpBlock(r *model.Reach, j solver.Jump) block {
+func jumpBlock(r *model.Reach, j solver.Jump) *model.Src {
 	if b := basinAt(r, j.Station); b != nil {
-		return block{Kind: "basin", Name: b.Name, Src: &b.Src}
+		return &b.Src
 	}
-	return block{Kind: "reach", Name: r.Name, Src: &r.Src}
+	return &r.Src
 }
 
 // usableJump reports whether a jump has a finite toe and a finite,

@@ -57,7 +57,7 @@ func checkJumpType(ctx *Context, report func(Finding)) {
 			}
 			blk := jumpBlock(rr.Reach, j)
 			report(Finding{
-				Range: blk.Src.DefRange, Reach: rr.Reach.Name, Event: ev.Event.Name,
+				Range: blk.DefRange, Reach: rr.Reach.Name, Event: ev.Event.Name,
 				FromStation: j.Station, ToStation: j.End(), HasSpan: true,
 				Value: j.Froude, Limit: edge, HasValue: true,
 				Message: fmt.Sprintf("the hydraulic jump %s has upstream Froude number %s%s, in the avoided band %s–%s: "+

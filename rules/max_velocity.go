@@ -51,12 +51,13 @@ func checkVelocity(ctx *Context, report func(Finding), upper bool) {
 	if upper {
 		w = higher
 	}
+	limits := &liningLimits{cfg: cfg}
 	ctx.scanPoints(w, func(rr *solver.ReachResult, p *solver.Point) verdict {
-		lim, ok := liningLimit(cfg, rr, p)
+		lim, ok := limits.at(rr, p)
 		if !ok || p.Area <= 0 {
 			return verdict{skip: true}
 		}
-		v := verdict{value: p.Velocity, limit: lim, block: reachBlock(rr.Reach, p.Station)}
+		v := verdict{value: p.Velocity, limit: lim}
 		if upper {
 			v.fail, v.short = p.Velocity > lim, p.Velocity-lim
 		} else {
@@ -69,14 +70,28 @@ func checkVelocity(ctx *Context, report func(Finding), upper bool) {
 	})
 }
 
-// liningLimit is the policy's by-lining limit at a wet computed point;
-// false where the point is dry or no limit applies to its lining.
-func liningLimit(cfg *policies.RuleConfig, rr *solver.ReachResult, p *solver.Point) (float64, bool) {
+// liningLimits looks up the policy's by-lining limit of computed points,
+// remembering the last section's limit: consecutive points nearly always
+// share a section, so the map is consulted once per section run.
+type liningLimits struct {
+	cfg *policies.RuleConfig
+	sec *model.Section
+	lim float64
+	ok  bool
+}
+
+// at is the limit at a wet computed point; false where the point is dry or
+// no limit applies to its lining.
+func (l *liningLimits) at(rr *solver.ReachResult, p *solver.Point) (float64, bool) {
 	sec := sectionAt(rr, p)
 	if sec == nil || p.Depth <= 0 {
 		return 0, false
 	}
-	return cfg.Limit.For(sec.Lining)
+	if sec != l.sec {
+		l.sec = sec
+		l.lim, l.ok = l.cfg.Limit.For(sec.Lining)
+	}
+	return l.lim, l.ok
 }
 
 func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u model.Units, upper bool) string {

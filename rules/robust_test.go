@@ -3,6 +3,7 @@ package rules
 import (
 	"math"
 	"slices"
+	"strings"
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
@@ -90,21 +91,10 @@ func TestCheckNeverPanicsOrLeaksNaN(t *testing.T) {
 				t.Fatalf("backward span in %+v", f)
 			}
 			for _, bad := range []string{"NaN", "Inf", "n/a"} {
-				if contains(f.Message, bad) {
+				if strings.Contains(f.Message, bad) {
 					t.Fatalf("%q in message %q", bad, f.Message)
 				}
 			}
 		}
 	})
-}
-
-func contains(s, sub string) bool { return len(sub) > 0 && len(s) >= len(sub) && indexOf(s, sub) >= 0 }
-
-func indexOf(s, sub string) int {
-	for i := 0; i+len(sub) <= len(s); i++ {
-		if s[i:i+len(sub)] == sub {
-			return i
-		}
-	}
-	return -1
 }

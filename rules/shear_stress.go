@@ -58,14 +58,14 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	u := ctx.units()
 	gamma := unitWeight(u)
 	su := stressUnit(u)
+	limits := &liningLimits{cfg: cfg}
 	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point) verdict {
-		lim, ok := liningLimit(cfg, rr, p)
+		lim, ok := limits.at(rr, p)
 		if !ok || p.HydraulicRadius <= 0 {
 			return verdict{skip: true}
 		}
 		tau := gamma * p.HydraulicRadius * math.Abs(p.FrictionSlope)
-		return verdict{fail: tau > lim, value: tau, limit: lim, short: tau - lim,
-			block: reachBlock(rr.Reach, p.Station)}
+		return verdict{fail: tau > lim, value: tau, limit: lim, short: tau - lim}
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		sec := sectionAt(rr, &rr.Points[s.worst])
 		val, lim := numPair(s.value, s.limit)

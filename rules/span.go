@@ -5,25 +5,19 @@ import (
 	"github.com/chanlint/chanlint/solver"
 )
 
-// block is the model block a finding points at: the one a designer edits
-// to fix it (a reach, a segment of it, a bend, a basin, an exception).
-type block struct {
-	Kind string // "reach", "segment", "bend", "basin", "exception", "section"
-	Name string // the block's name; for a segment, the name of its section
-	Src  *model.Src
-}
-
-// reachBlock is the block that sets the section in force at a station: the
-// segment covering it, else the reach itself. A failing span of a rule that
-// depends on the section (freeboard, velocity, stress) points there, so a
-// finding on a segment's section leads to the segment, not the reach header.
-func reachBlock(r *model.Reach, station float64) block {
+// reachBlock is the block that sets the section in force at a computed
+// point: the segment covering its station, else the reach itself. A
+// finding is placed at the block a designer edits to fix it: a failing span
+// of a rule that depends on the section (freeboard, velocity, stress) on a
+// segment leads to the segment, not the reach header.
+func reachBlock(rr *solver.ReachResult, p *solver.Point) *model.Src {
+	r := rr.Reach
 	for _, s := range r.Segments {
-		if station >= s.FromStation && station <= s.ToStation {
-			return block{Kind: "segment", Name: s.SectionName, Src: &s.Src}
+		if p.Station >= s.FromStation && p.Station <= s.ToStation {
+			return &s.Src
 		}
 	}
-	return block{Kind: "reach", Name: r.Name, Src: &r.Src}
+	return &r.Src
 }
 
 // sectionAt is the section of a computed point: the one the solver
@@ -59,8 +53,7 @@ type verdict struct {
 	short float64
 	// aux is a rule-specific figure the span keeps the largest of
 	// (superelevation: the bend radius that would pass).
-	aux   float64
-	block block
+	aux float64
 }
 
 // span is a run of contiguous failing points of one reach and event with
@@ -74,7 +67,7 @@ type span struct {
 	short       float64 // the largest over the span
 	aux         float64 // the largest over the span
 	kind        int
-	block       block
+	block       *model.Src // the responsible block
 	points      int
 }
 
@@ -86,30 +79,37 @@ func higher(a, b float64) bool { return a > b }
 func lower(a, b float64) bool  { return a < b }
 
 // scan walks the points of a reach result in station order, asks judge
-// about each and merges contiguous failing points into spans. Points that
-// are not usable are skipped without ending a span (the solver rule reports
-// them).
-func scan(rr *solver.ReachResult, w worse, judge func(p *solver.Point) verdict) []span {
+// about each and merges contiguous failing points into spans. A point whose
+// station, or whose judged figures, are not finite numbers is skipped
+// without ending a span (the solver rule reports such points); checking
+// the figures a rule computed, rather than every field of the point, keeps
+// the per-point cost to what the rule reads.
+func scan(rr *solver.ReachResult, w worse, judge func(rr *solver.ReachResult, p *solver.Point) verdict,
+	at func(rr *solver.ReachResult, p *solver.Point) *model.Src) []span {
 	var out []span
 	var cur *span
 	for i := range rr.Points {
 		p := &rr.Points[i]
-		if !usable(p) {
+		if !finite(p.Station) {
 			continue
 		}
-		v := judge(p)
-		// A figure that overflows (or a limit that is not finite) cannot be
-		// reported honestly: the point is left unchecked.
-		if v.skip || !v.fail || !finite(v.value, v.limit, v.short, v.aux) {
+		v := judge(rr, p)
+		if v.skip || !v.fail {
 			cur = nil
 			continue
 		}
-		if cur != nil && (cur.block.Src != v.block.Src || cur.kind != v.kind) {
+		// A figure that overflows (or a limit that is not finite) cannot be
+		// reported honestly: the point is left unchecked.
+		if !finite(v.value, v.limit, v.short, v.aux) {
+			continue
+		}
+		blk := at(rr, p) // asked of failing points only
+		if cur != nil && (cur.block != blk || cur.kind != v.kind) {
 			cur = nil
 		}
 		if cur == nil {
 			out = append(out, span{first: i, from: p.Station, worst: i, value: v.value,
-				limit: v.limit, short: v.short, aux: v.aux, kind: v.kind, block: v.block})
+				limit: v.limit, short: v.short, aux: v.aux, kind: v.kind, block: blk})
 			cur = &out[len(out)-1]
 		}
 		cur.last, cur.to = i, p.Station
@@ -128,7 +128,7 @@ func scan(rr *solver.ReachResult, w worse, judge func(p *solver.Point) verdict) 
 func spanFinding(ev *solver.EventResult, rr *solver.ReachResult, s span, msg string) Finding {
 	return Finding{
 		Message:     msg,
-		Range:       s.block.Src.DefRange,
+		Range:       s.block.DefRange,
 		Reach:       rr.Reach.Name,
 		Event:       ev.Event.Name,
 		FromStation: s.from,

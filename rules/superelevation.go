@@ -69,11 +69,10 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 				if bend.Radius <= 0 {
 					continue
 				}
-				blk := block{Kind: "bend", Name: bend.Name, Src: &bend.Src}
 				lo := bend.FromStation - exceptionTolerance(bend.FromStation)
 				hi := bend.ToStation + exceptionTolerance(bend.ToStation)
 				sub, offset := pointsBetween(rr, lo, hi)
-				spans := scan(sub, lower, func(p *solver.Point) verdict {
+				spans := scan(sub, lower, func(rr *solver.ReachResult, p *solver.Point) verdict {
 					sec := sectionAt(rr, p)
 					if sec == nil || sec.Closed() || p.Depth <= 0 || !finite(sec.Height) {
 						return verdict{skip: true}
@@ -95,8 +94,8 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					}
 					return verdict{fail: remaining < cfg.Minimum-1e-12*max(1, cfg.Minimum),
 						value: remaining, limit: cfg.Minimum, short: cfg.Minimum - remaining,
-						aux: need, kind: 0, block: blk}
-				})
+						aux: need}
+				}, func(*solver.ReachResult, *solver.Point) *model.Src { return &bend.Src })
 				for _, s := range spans {
 					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset
 					report(spanFinding(ev, rr, s, superelevationMessage(rr, bend, s, cSub, cSup, u)))

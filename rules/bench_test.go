@@ -1,0 +1,65 @@
+package rules
+
+import (
+	"testing"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+)
+
+func demo(b *testing.B) (*model.Model, *policies.Policy) {
+	m, diags := model.Load("../testdata/demo/kestrel-ridge.chan.hcl")
+	if diags.HasErrors() {
+		b.Fatal(diags)
+	}
+	p, pd := policies.Pack("baseline")
+	if pd.HasErrors() {
+		b.Fatal(pd)
+	}
+	return m, p
+}
+
+// BenchmarkSolveDemo is the reference the rules are measured against:
+// solving every event of the demo model.
+func BenchmarkSolveDemo(b *testing.B) {
+	m, _ := demo(b)
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := solver.Solve(m, solver.Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkCheckDemo checks the solved demo model against the baseline
+// pack (policy conversion, every rule, spans, exceptions, sorting).
+func BenchmarkCheckDemo(b *testing.B) {
+	m, p := demo(b)
+	res, err := solver.Solve(m, solver.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		Check(m, res, p)
+	}
+}
+
+// BenchmarkCheckLong checks a long uniform reach (20,000 computed points)
+// against every configurable rule, to show the cost grows linearly with
+// the number of points.
+func BenchmarkCheckLong(b *testing.B) {
+	m, r := handModel()
+	r.Length = 20000
+	pts := make([]solver.Point, 20000)
+	for i := range pts {
+		pts[i] = pt(r, float64(i), 0.8+0.1*float64(i%7)/7, 1+float64(i%5)/5)
+	}
+	res := result(m, r, pts, nil, nil)
+	_, p := demo(b)
+	b.ReportAllocs()
+	for b.Loop() {
+		Check(m, res, p)
+	}
+}
