@@ -8,6 +8,14 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
+// testHelper is what the helpers need from *testing.T, *testing.B and
+// *rapid.T.
+type testHelper interface {
+	Helper()
+	Errorf(format string, args ...any)
+	FailNow()
+}
+
 // netReach describes one reach of a hand-built test network.
 type netReach struct {
 	name, from, to string
@@ -25,7 +33,7 @@ type netReach struct {
 // elevation 0, each reach's downstream invert the upstream invert of the
 // reach below), the topological order and one event with accumulated
 // discharges. It stands in for model.Parse in tests of the solver alone.
-func buildNet(t testing.TB, u model.Units, specs []netReach, outlet model.Outlet) *model.Model {
+func buildNet(t testHelper, u model.Units, specs []netReach, outlet model.Outlet) *model.Model {
 	t.Helper()
 	m := &model.Model{File: "test.chan.hcl", Units: u}
 	byFrom := map[string]*model.Reach{}
@@ -135,7 +143,10 @@ func solveOne(t testing.TB, m *model.Model) *EventResult {
 
 // requireFinite fails on any NaN or Inf anywhere in a result, and on
 // points out of station order.
-func requireFinite(t testing.TB, res *Result) {
+func requireFinite(t interface {
+	testHelper
+	Fatalf(string, ...any)
+}, res *Result) {
 	t.Helper()
 	fin := func(what string, v float64) {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
