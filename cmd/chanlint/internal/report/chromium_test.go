@@ -42,7 +42,7 @@ func TestHTMLInChromium(t *testing.T) {
 		ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
 		defer cancel()
 		args := append([]string{"--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
-			"--disable-background-networking", "--disable-component-update", "--disable-sync",
+			"--disable-background-networking", "--disable-component-update", "--disable-sync", "--disable-dev-shm-usage",
 			"--user-data-dir=" + t.TempDir(), "--enable-logging=stderr", "--v=0"}, extra...)
 		args = append(args, url)
 		cmd := exec.CommandContext(ctx, chromium, args...)
