@@ -27,7 +27,7 @@ const goldenDir = "../testdata/rules"
 // EVENT FROM..TO [excepted]" comment, which applies to the next line that
 // is not a comment (the header of the responsible block). EVENT "-" means
 // no event; FROM..TO may be "toe..end" (the jump's span, checked
-// separately).
+// separately) or "-..-" (no span).
 type want struct {
 	label         string
 	line          int
@@ -112,8 +112,14 @@ func matchWants(t *testing.T, src []byte, label string, fs []Finding) map[*want]
 			if used[j] || f.Range.Start.Line != w.line || f.Rule != w.rule || ev != w.event || f.Excepted != w.excepted {
 				continue
 			}
-			if w.from != "toe" && !(scalar.EqualWithinAbsOrRel(f.FromStation, stationOf(w.from), 1e-9, 1e-9) &&
-				scalar.EqualWithinAbsOrRel(f.ToStation, stationOf(w.to), 1e-9, 1e-9)) {
+			switch {
+			case w.from == "toe":
+			case w.from == "-":
+				if f.HasSpan {
+					continue
+				}
+			case !f.HasSpan || !(scalar.EqualWithinAbsOrRel(f.FromStation, stationOf(w.from), 1e-9, 1e-9) &&
+				scalar.EqualWithinAbsOrRel(f.ToStation, stationOf(w.to), 1e-9, 1e-9)):
 				continue
 			}
 			used[j], found = true, true
@@ -428,4 +434,47 @@ func TestGoldenNoNaNOnDemo(t *testing.T) {
 	assert.True(t, slices.IsSortedFunc(fs, func(a, b Finding) int {
 		return cmpFindings(a, b)
 	}))
+}
+
+func TestGoldenAlwaysOn(t *testing.T) {
+	m, _, fs := golden(t, "notes.chan.hcl", "jumps.policy.hcl")
+	assertFinite(t, fs)
+	got := matchWants(t, m.Source, "", fs)
+	for w, f := range got {
+		switch {
+		case w.rule == "solver":
+			assert.Equal(t, policies.Warning, f.Severity)
+			assert.Contains(t, f.Message, "boundary condition could not act as written")
+		case w.rule == "model" && f.Severity == policies.Warning:
+			// Source: common practice (no published source): rc = 1.0 m is
+			// less than half the 3.0 m top width of the rectangle.
+			assert.Equal(t, 1.0, f.Value)
+			assert.Equal(t, 1.5, f.Limit)
+		case w.rule == "model":
+			assert.Equal(t, policies.Error, f.Severity)
+			assert.Contains(t, f.Message, `did you mean "freeboard"?`)
+		case w.rule == unusedExceptionID:
+			assert.Contains(t, f.Message, "no rule has that id")
+		}
+	}
+}
+
+func TestGoldenFromDiagnostics(t *testing.T) {
+	path := filepath.Join(goldenDir, "invalid.chan.hcl")
+	src, err := os.ReadFile(path)
+	require.NoError(t, err)
+	m, diags := model.Parse(path, src)
+	require.Nil(t, m)
+	require.True(t, diags.HasErrors())
+	fs := FromDiagnostics(path, diags)
+	assertFinite(t, fs)
+	got := matchWants(t, src, "", fs)
+	require.Len(t, got, 2)
+	for _, f := range got {
+		assert.Equal(t, policies.Error, f.Severity)
+		assert.Equal(t, path, f.File)
+	}
+	assert.Contains(t, fs[0].Message, "bottom_width", "the section lacks its width")
+	assert.Contains(t, fs[1].Message, "widht", "the misspelt attribute, at its own line")
+	assert.Equal(t, 3, fs[1].Range.Start.Column, "at the attribute name")
 }

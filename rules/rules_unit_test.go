@@ -306,3 +306,29 @@ func TestFromDiagnostics(t *testing.T) {
 	assert.Equal(t, `Unsupported argument: An argument named "widht" is not expected here.`, fs[1].Message)
 	assert.Equal(t, "a.chan.hcl", fs[1].File)
 }
+
+func TestUnusedExceptionContext(t *testing.T) {
+	m, r := handModel()
+	ex := &model.Exception{Src: model.Src{DefRange: rng(50)}, Rule: "freeboard", ReachName: "main", Reach: r,
+		FromStation: 100, ToStation: 200}
+	m.Exceptions = []*model.Exception{ex}
+	p := &policies.Policy{Units: model.SI, Rules: map[string]*policies.RuleConfig{"freeboard": {}}}
+	run := func(prior []Finding) []Finding {
+		var out []Finding
+		unusedExceptionRule.Check(&Context{Model: m, Policy: p, Findings: prior}, func(f Finding) { out = append(out, f) })
+		return out
+	}
+	inside := Finding{Rule: "freeboard", Reach: "main", Event: "q", FromStation: 120, ToStation: 200, HasSpan: true}
+	assert.Empty(t, run([]Finding{inside}), "covers a finding")
+	other := inside
+	other.Reach = "side"
+	fs := run([]Finding{other})
+	require.Len(t, fs, 1, "another reach is not covered")
+	assert.Equal(t, rng(50), fs[0].Range)
+	assertSpan(t, Finding{HasSpan: fs[0].HasSpan, FromStation: fs[0].FromStation, ToStation: fs[0].ToStation, HasValue: true}, 100, 200, 0, 0)
+	p.Exceptions = "deny"
+	fs = run([]Finding{inside})
+	require.Len(t, fs, 1)
+	assert.Equal(t, policies.Info, fs[0].Severity)
+	assert.Contains(t, fs[0].Message, "the 1 finding it would cover is reported in full")
+}
