@@ -443,3 +443,13 @@ func BenchmarkCheckDemo(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkCheckTree checks 60 models (the demo and the test models, twelve
+// times over) with the default worker pool.
+func BenchmarkCheckTree(b *testing.B) {
+	dir := workspace(b, 12)
+	b.ReportAllocs()
+	for b.Loop() {
+		runIn(dir, runOpts{}, "check", "--color", "never")
+	}
+}

@@ -12,6 +12,33 @@
 //	1  check: a finding that is not excepted is at or above --fail-on
 //	2  an input could not be read or is not a valid model or policy, or the
 //	   command line is wrong (the other files are still checked and reported)
+//
+// Behaviour the design documents leave open, as built:
+//
+//   - Discovery: a PATH that is a file is checked whatever its name; a
+//     directory is searched recursively for *.chan.hcl, skipping .git, .hg,
+//     .svn, vendor and node_modules below it. Symbolic links are followed
+//     only when their target stays inside the directory being searched; a
+//     file reached twice is checked once. Files are checked in sorted order
+//     of their printed path. Finding no model is said on stderr, exit 0.
+//   - Policy: --policy (an existing file, else a pack name), else the
+//     nearest .chanlint.hcl from the working directory up to the repository
+//     root (the nearest directory holding .git); outside a repository only
+//     the working directory itself is looked at. Else the baseline pack.
+//     `extends` paths may not leave the repository root (or, for a policy
+//     file outside the repository, the policy's own directory).
+//   - Text output: one line per finding in the GNU FILE:LINE:COLUMN: layout;
+//     a finding covered by a design exception is printed as a "note" with
+//     its own severity and the exception's reason, so that editors do not
+//     flag it; invalid models get a source snippet under each diagnostic.
+//   - Baselines: --baseline hides the findings the file records (invalid
+//     models are never hidden); --write-baseline records today's findings
+//     of the valid models and exits 0 unless some input is invalid.
+//   - SARIF artifact URIs are relative to the repository root (else the
+//     working directory); all other output paths are relative to the
+//     working directory, with forward slashes.
+//   - report exits 0 once the report is written, whatever it finds; 2 when
+//     a model is invalid (the report is still written and lists it).
 package main
 
 import (
