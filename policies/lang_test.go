@@ -433,6 +433,7 @@ func TestAllProblemsOfAFileInOneRun(t *testing.T) {
 	// second message about the then missing limit).
 	assert.Len(t, errs, 10, "%v", errs)
 	assert.Subset(t, lines, []int{2, 3, 4, 5, 6, 8, 11, 12})
+	assert.IsNonDecreasing(t, lines, "top to bottom")
 }
 
 func TestDuplicateEventIsAWarning(t *testing.T) {

@@ -1,17 +1,19 @@
 package policies
 
 import (
+	"bytes"
+	"cmp"
 	"errors"
 	"fmt"
 	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"sync"
 
 	"github.com/hashicorp/hcl/v2"
-	"github.com/hashicorp/hcl/v2/hclparse"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
 )
 
@@ -30,16 +32,22 @@ const packPrefix = "pack:"
 // A Loader is safe for concurrent use.
 type Loader struct {
 	mu     sync.Mutex
-	root   string // as given to NewLoader
-	parser *hclparse.Parser
-	parsed map[string]hcl.Diagnostics // parse diagnostics by file name
+	root   string                // as given to NewLoader
+	parsed map[string]parsedFile // by file name
+}
+
+// parsedFile is one parse, kept while the text stays the same.
+type parsedFile struct {
+	src   []byte
+	file  *hcl.File // nil when the text was refused before parsing
+	diags hcl.Diagnostics
 }
 
 // NewLoader returns a loader whose `extends` paths may not leave root, the
 // repository root (after symbolic links are resolved). With root "", each
 // file given to Load or Resolve confines its own chain to its directory.
 func NewLoader(root string) *Loader {
-	return &Loader{root: root, parser: hclparse.NewParser(), parsed: map[string]hcl.Diagnostics{}}
+	return &Loader{root: root, parsed: map[string]parsedFile{}}
 }
 
 // Files returns the files parsed so far by name (a path, or "pack:NAME"),
@@ -47,9 +55,11 @@ func NewLoader(root string) *Loader {
 func (l *Loader) Files() map[string]*hcl.File {
 	l.mu.Lock()
 	defer l.mu.Unlock()
-	out := make(map[string]*hcl.File, len(l.parser.Files()))
-	for k, v := range l.parser.Files() {
-		out[k] = v
+	out := make(map[string]*hcl.File, len(l.parsed))
+	for name, p := range l.parsed {
+		if p.file != nil {
+			out[name] = p.file
+		}
 	}
 	return out
 }
@@ -197,21 +207,21 @@ func readBounded(path string) ([]byte, error) {
 	return src, nil
 }
 
-// parse parses a file once and remembers its parse diagnostics.
+// parse parses a file, or returns the earlier parse of the same text.
 func (l *Loader) parse(name string, src []byte) (*hcl.File, hcl.Diagnostics) {
-	if diags, seen := l.parsed[name]; seen {
-		return l.parser.Files()[name], diags
+	if p, seen := l.parsed[name]; seen && bytes.Equal(p.src, src) {
+		return p.file, p.diags
 	}
+	p := parsedFile{src: src}
 	if rng, deep := tooDeep(src, name); deep {
-		diags := hcl.Diagnostics{{Severity: hcl.DiagError, Summary: "Too deeply nested",
+		p.diags = hcl.Diagnostics{{Severity: hcl.DiagError, Summary: "Too deeply nested",
 			Detail:  fmt.Sprintf("Brackets, braces, parentheses, strings or signs nest more than %d deep here; a policy needs only a few levels.", MaxNesting),
 			Subject: rng.Ptr()}}
-		l.parsed[name] = diags
-		return nil, diags
+	} else {
+		p.file, p.diags = hclsyntax.ParseConfig(src, name, hcl.InitialPos)
 	}
-	f, diags := l.parser.ParseHCL(src, name)
-	l.parsed[name] = diags
-	return f, diags
+	l.parsed[name] = p
+	return p.file, p.diags
 }
 
 // MaxNesting bounds how deeply brackets, braces, parentheses, strings (a
@@ -269,21 +279,28 @@ func (l *Loader) load(n node, root string, stack []node, from *hcl.Range) (*Poli
 		return nil, diags
 	}
 	d := &decoder{diags: diags}
+	p, parent := l.decodeAndExtend(d, file, n, root, stack)
+	sortByPosition(d.diags)
+	return p, append(d.diags, parent...)
+}
+
+// decodeAndExtend decodes the parsed file of n into d and loads what it
+// extends; parentDiags are the diagnostics of the rest of the chain.
+func (l *Loader) decodeAndExtend(d *decoder, file *hcl.File, n node, root string, stack []node) (p *Policy, parentDiags hcl.Diagnostics) {
 	o := d.decodeFile(file, n.display)
 	if o == nil {
-		return nil, d.diags
+		return nil, nil
 	}
 	o.policy.Chain = []string{n.display}
 	if !o.hasExtends {
 		if d.diags.HasErrors() {
-			return nil, d.diags
+			return nil, nil
 		}
-		return o.policy, d.diags
+		return o.policy, nil
 	}
-
 	parentNode, ok := l.extendsTarget(d, n, o, root)
 	if !ok {
-		return nil, d.diags
+		return nil, nil
 	}
 	stack = append(stack, n)
 	for i, below := range stack {
@@ -295,20 +312,37 @@ func (l *Loader) load(n node, root string, stack []node, from *hcl.Range) (*Poli
 			d.errorf(o.extendsRange, "Cycle in extends",
 				"The chain %s → %s comes back to a policy already in it; a policy cannot extend itself, even indirectly.",
 				strings.Join(names, " → "), parentNode.display)
-			return nil, d.diags
+			return nil, nil
 		}
 	}
 	if len(stack) >= MaxExtendsDepth {
 		d.errorf(o.extendsRange, "Extends chain too long",
 			"A policy may stack at most %d files and packs through extends.", MaxExtendsDepth)
-		return nil, d.diags
+		return nil, nil
 	}
 	parent, pdiags := l.load(parentNode, root, stack, o.extendsRange.Ptr())
-	d.diags = append(d.diags, pdiags...)
-	if d.diags.HasErrors() || parent == nil {
-		return nil, d.diags
+	if d.diags.HasErrors() || pdiags.HasErrors() || parent == nil {
+		return nil, pdiags
 	}
-	return merge(parent, o), d.diags
+	return merge(parent, o), pdiags
+}
+
+// sortByPosition orders one file's diagnostics top to bottom (those
+// without a range first).
+func sortByPosition(diags hcl.Diagnostics) {
+	slices.SortStableFunc(diags, func(a, b *hcl.Diagnostic) int {
+		if a.Subject == nil || b.Subject == nil {
+			return cmp.Compare(btoi(a.Subject != nil), btoi(b.Subject != nil))
+		}
+		return cmp.Compare(a.Subject.Start.Byte, b.Subject.Start.Byte)
+	})
+}
+
+func btoi(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
 }
 
 // extendsTarget resolves the extends value of o, written in n.

@@ -472,3 +472,15 @@ func FuzzLoadSource(f *testing.F) {
 		_ = Format(p)
 	})
 }
+
+// A Loader sees a file's new text: an editor may load one buffer many times.
+func TestLoadSourceSeesNewText(t *testing.T) {
+	l := NewLoader("")
+	name := filepath.Join(t.TempDir(), "buf.policy.hcl")
+	_, diags := l.LoadSource(name, []byte(`policy "a" { units = "metric" }`))
+	require.True(t, diags.HasErrors())
+	p, diags := l.LoadSource(name, []byte(`policy "a" { units = "si" }`))
+	require.Empty(t, diags)
+	assert.Equal(t, model.SI, p.Units)
+	assert.Equal(t, []byte(`policy "a" { units = "si" }`), l.Files()[filepath.ToSlash(name)].Bytes)
+}
