@@ -290,6 +290,20 @@ func (s *solver) combine(w *reachWork, ev *model.Event) {
 			c := sub[k]
 			w.final = append(w.final, c)
 			k++
+			if c.fallback && k < len(sub) && sub[k].piece == c.piece+1 && sub[k].x == c.x {
+				// A section change chokes the flow: it passes critical
+				// depth at the end of this section, so the next section
+				// starts supercritical with that energy if its force
+				// holds against the subcritical flow there.
+				p, next := &w.pieces[c.piece], &w.pieces[sub[k].piece]
+				z := w.f.invert(c.x)
+				if y, ok := w.f.solveBranch(next, z, 0, z+w.f.eval(p, c.y).e, true, 0, 0); ok && !s.dominated(w, next, y, sub[k].y) {
+					w.final = append(w.final, pt{x: c.x, y: y, piece: sub[k].piece, super: true})
+					superAt, sx, sy, spi, atCrit = true, c.x, y, sub[k].piece, false
+					k++
+				}
+				continue
+			}
 			if c.fallback && k < len(sub) && sub[k].piece == c.piece && sub[k].x > c.x {
 				// Flow passes through critical depth here; try a
 				// supercritical profile downstream of it.
