@@ -1,6 +1,7 @@
 package solver
 
 import (
+	"fmt"
 	"math"
 
 	"github.com/chanlint/chanlint/model"
@@ -24,6 +25,10 @@ func (s *solver) finish(w *reachWork) {
 	w.endY = last.y
 	w.endH = w.f.invert(last.x) + w.f.eval(lp, last.y).e
 	res.Notes = fallbackNotes(w.final, w.pieces, res.Notes)
+	if w.f.noConv > 0 {
+		res.Notes = append(res.Notes, Note{Kind: NoteNoConvergence, Station: 0, Message: fmt.Sprintf(
+			"the root finder did not close the energy equation within its iteration bound %d times in this reach; the best estimates were used", w.f.noConv)})
+	}
 	if w.r.Downstream == nil {
 		s.outletNotes(w, lp)
 	}

@@ -1,6 +1,9 @@
 package solver
 
-import "math"
+import (
+	"errors"
+	"math"
+)
 
 // This file holds the standard-step energy equation and the adaptive step
 // control that drives it. Nothing here allocates: the root-finder closures
@@ -56,6 +59,7 @@ type flowCtx struct {
 	s0     float64 // bed slope (positive downhill)
 	length float64
 	tol    float64 // absolute depth tolerance of the root finder
+	noConv int     // roots taken from a root finder that ran out of iterations
 }
 
 // invert is the bed elevation at station x (linear along the reach, the
@@ -139,8 +143,21 @@ func (f *flowCtx) solveBranch(p *piece, z, w, target float64, super bool, guess,
 		}
 	}
 	y, err := Brent(h, a, b, f.tol)
-	if err != nil || !(y > 0) || math.IsInf(y, 0) {
+	return f.accept(y, err, yc)
+}
+
+// accept checks a root from Brent. A root finder that ran out of
+// iterations still returns the best estimate inside the bracket; it is
+// used and counted (finish turns the count into a NoteNoConvergence).
+func (f *flowCtx) accept(y float64, err error, yc float64) (float64, bool) {
+	if !(y > 0) || math.IsInf(y, 0) {
 		return yc, false
+	}
+	if err != nil {
+		if !errors.Is(err, ErrNoConvergence) {
+			return yc, false
+		}
+		f.noConv++
 	}
 	return y, true
 }
@@ -168,10 +185,10 @@ func (f *flowCtx) nearGuess(h func(float64) float64, yc float64, super bool, gue
 		return 0, false
 	}
 	y, err := Brent(h, a, b, f.tol)
-	if err != nil || !(y > 0) {
+	if err != nil && !errors.Is(err, ErrNoConvergence) {
 		return 0, false
 	}
-	return y, true
+	return f.accept(y, err, yc)
 }
 
 // standardStep computes the depth at station xu from the known depth yk at
