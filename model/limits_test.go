@@ -115,3 +115,37 @@ func TestManyUnknownNamesStayBounded(t *testing.T) {
 	diags := parseErr(t, oneReach(limitSection+b.String()))
 	require.Len(t, diags, 300)
 }
+
+// TestRecursionBounded: constructs that the HCL parser handles by recursion
+// end in one diagnostic instead of a stack overflow, which would kill the
+// process whatever the caller does.
+func TestRecursionBounded(t *testing.T) {
+	for name, body := range map[string]string{
+		"signs":         strings.Repeat("-", 2_000_000) + "1",
+		"negations":     strings.Repeat("!", 2_000_000) + "true",
+		"conditionals":  strings.Repeat("true ? 1 : ", 300_000) + "1",
+		"interpolation": strings.Repeat(`"${`, 100_000) + "1" + strings.Repeat(`}"`, 100_000),
+		"parentheses":   strings.Repeat("(", 1_000_000) + "1",
+	} {
+		t.Run(name, func(t *testing.T) {
+			diags := parseErr(t, "units = \"si\"\ntitle = "+body+"\n")
+			require.Len(t, diags, 1)
+			assert.Equal(t, "Too deeply nested", diags[0].Summary)
+			assert.Equal(t, 2, diags[0].Subject.Start.Line)
+		})
+	}
+}
+
+func TestHeredocTextDoesNotCount(t *testing.T) {
+	deep := strings.Repeat("[", 2*MaxNesting)
+	m := parseOK(t, oneReach(`section "s" {
+  shape = "rectangle"
+  bottom_width = 2
+  height = 1
+  roughness = 0.014
+  lining = <<-EOT
+    `+deep+` $${ %%{ ]]]
+    EOT
+}`))
+	assert.Contains(t, m.Sections[0].Lining, deep)
+}

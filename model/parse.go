@@ -1,6 +1,7 @@
 package model
 
 import (
+	"bytes"
 	"cmp"
 	"errors"
 	"fmt"
@@ -93,7 +94,7 @@ func parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	if pos, deep := nestingTooDeep(src); deep {
 		p := posAt(src, pos)
 		d.errorf(hcl.Range{Filename: filename, Start: p, End: p}, "Too deeply nested",
-			"Brackets, braces and parentheses nest more than %d deep here; a model needs only a few levels.", MaxNesting)
+			"Brackets, strings, signs or conditionals nest more than %d deep here; a model needs only a few levels.", MaxNesting)
 		return nil, d.diags
 	}
 	file, diags := hclparse.NewParser().ParseHCL(src, filename)
@@ -139,44 +140,137 @@ func btoi(b bool) int {
 	return 0
 }
 
-// nestingTooDeep scans src for bracket nesting beyond MaxNesting outside
-// strings and comments, so that the parser's recursion stays bounded.
+// nestingTooDeep scans src for constructs that the HCL parser handles by
+// recursion and reports the offset where they go beyond MaxNesting:
+// brackets, braces and parentheses, quoted strings and heredocs with the
+// template interpolations inside them, runs of prefix operators (- and !),
+// and conditional operators (?). The parser's recursion, and so its stack,
+// then stays bounded: a file of a million "[" or "-" would otherwise
+// overflow the stack, which no recover() can catch.
+//
+// The scan follows HCL's lexical rules for comments, strings, escapes and
+// heredocs, so that brackets written inside text or comments do not count.
 func nestingTooDeep(src []byte) (int, bool) {
-	depth := 0
-	for i := 0; i < len(src); i++ {
-		switch c := src[i]; c {
-		case '"':
-			for i++; i < len(src) && src[i] != '"' && src[i] != '\n'; i++ {
-				if src[i] == '\\' {
-					i++
+	const (
+		bracket = iota
+		quoted
+		interp
+		heredoc
+	)
+	type frame struct {
+		kind   int
+		marker []byte // closing marker of a heredoc
+	}
+	var stack []frame
+	prefix, questions := 0, 0
+	n := len(src)
+	for i := 0; i < n; i++ {
+		c := src[i]
+		top := -1
+		if len(stack) > 0 {
+			top = stack[len(stack)-1].kind
+		}
+		if top == quoted || top == heredoc {
+			if top == heredoc && (i == 0 || src[i-1] == '\n') {
+				end := i + bytes.IndexByte(src[i:], '\n')
+				if end < i {
+					end = n
+				}
+				if bytes.Equal(bytes.TrimSpace(src[i:end]), stack[len(stack)-1].marker) {
+					stack = stack[:len(stack)-1]
+					i = end - 1
+					continue
 				}
 			}
+			switch {
+			case top == quoted && c == '\\':
+				i++
+			case top == quoted && (c == '"' || c == '\n'):
+				stack = stack[:len(stack)-1]
+			case (c == '$' || c == '%') && i+2 < n && src[i+1] == c && src[i+2] == '{':
+				i += 2 // $${ and %%{ are literal text
+			case (c == '$' || c == '%') && i+1 < n && src[i+1] == '{':
+				stack = append(stack, frame{kind: interp})
+				i++
+			}
+			if len(stack) > MaxNesting {
+				return i, true
+			}
+			continue
+		}
+		switch c {
+		case ' ', '\t', '\r', '\n':
+		case '-', '!':
+			prefix++
+		default:
+			prefix = 0
+		}
+		switch c {
+		case '"':
+			stack = append(stack, frame{kind: quoted})
 		case '#':
-			for i < len(src) && src[i] != '\n' {
+			for i < n && src[i] != '\n' {
 				i++
 			}
 		case '/':
-			if i+1 < len(src) && src[i+1] == '/' {
-				for i < len(src) && src[i] != '\n' {
+			if i+1 < n && src[i+1] == '/' {
+				for i < n && src[i] != '\n' {
 					i++
 				}
-			} else if i+1 < len(src) && src[i+1] == '*' {
-				for i += 2; i+1 < len(src) && !(src[i] == '*' && src[i+1] == '/'); i++ {
+			} else if i+1 < n && src[i+1] == '*' {
+				for i += 2; i+1 < n && !(src[i] == '*' && src[i+1] == '/'); i++ {
 				}
 				i++
 			}
+		case '<':
+			if marker, next, ok := heredocStart(src, i); ok {
+				stack = append(stack, frame{kind: heredoc, marker: marker})
+				i = next - 1
+			}
+		case '?':
+			questions++
 		case '[', '{', '(':
-			depth++
-			if depth > MaxNesting {
-				return i, true
+			stack = append(stack, frame{kind: bracket})
+		case ']', ')':
+			if top == bracket {
+				stack = stack[:len(stack)-1]
 			}
-		case ']', '}', ')':
-			if depth > 0 {
-				depth--
+		case '}':
+			if top == bracket || top == interp {
+				stack = stack[:len(stack)-1]
 			}
+		}
+		if len(stack) > MaxNesting || prefix > MaxNesting || questions > MaxNesting {
+			return i, true
 		}
 	}
 	return 0, false
+}
+
+// heredocStart recognises `<<MARKER` or `<<-MARKER` at src[i] followed by
+// a line end, and returns the marker and the offset of the line end.
+func heredocStart(src []byte, i int) ([]byte, int, bool) {
+	j := i + 2
+	if j > len(src) || src[i+1] != '<' {
+		return nil, 0, false
+	}
+	if j < len(src) && src[j] == '-' {
+		j++
+	}
+	// Only ASCII identifiers are recognised: where this scan does not see
+	// a heredoc it counts brackets as code, which can only over-count.
+	start := j
+	for j < len(src) && (isIdentByte(src[j]) || (j > start && (src[j] == '-' || '0' <= src[j] && src[j] <= '9'))) {
+		j++
+	}
+	if j == start || j >= len(src) || (src[j] != '\n' && src[j] != '\r') {
+		return nil, 0, false
+	}
+	return src[start:j], j, true
+}
+
+func isIdentByte(c byte) bool {
+	return c == '_' || 'a' <= c && c <= 'z' || 'A' <= c && c <= 'Z'
 }
 
 // posAt converts a byte offset to a position (columns count bytes, which is
