@@ -91,11 +91,8 @@ func parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 		d.errorf(start, "Model file too large", "The file is larger than %d MiB; split the network into smaller models.", MaxFileSize>>20)
 		return nil, d.diags
 	}
-	if pos, deep := nestingTooDeep(src); deep {
-		p := posAt(src, pos)
-		d.errorf(hcl.Range{Filename: filename, Start: p, End: p}, "Too deeply nested",
-			"Brackets, strings, signs or conditionals nest more than %d deep here; a model needs only a few levels.", MaxNesting)
-		return nil, d.diags
+	if diags := CheckNesting(filename, src); diags.HasErrors() {
+		return nil, diags
 	}
 	file, diags := hclparse.NewParser().ParseHCL(src, filename)
 	if diags.HasErrors() {
@@ -138,6 +135,24 @@ func btoi(b bool) int {
 		return 1
 	}
 	return 0
+}
+
+// CheckNesting returns an error diagnostic when src nests deeper than
+// MaxNesting (see nestingTooDeep), and nothing otherwise. Parse calls it
+// before handing src to the HCL parser; any other reader of untrusted HCL
+// (policies, configuration) should do the same.
+func CheckNesting(filename string, src []byte) hcl.Diagnostics {
+	pos, deep := nestingTooDeep(src)
+	if !deep {
+		return nil
+	}
+	p := posAt(src, pos)
+	return hcl.Diagnostics{{
+		Severity: hcl.DiagError,
+		Summary:  "Too deeply nested",
+		Detail:   fmt.Sprintf("Brackets, strings, signs or conditionals nest more than %d deep here; a file needs only a few levels.", MaxNesting),
+		Subject:  &hcl.Range{Filename: filename, Start: p, End: p},
+	}}
 }
 
 // nestingTooDeep scans src for constructs that the HCL parser handles by
