@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/chanlint/chanlint/model"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
 	"github.com/hashicorp/hcl/v2/hclwrite"
 	"github.com/zclconf/go-cty/cty"
@@ -22,6 +23,7 @@ func Format(p *Policy) []byte {
 	f := hclwrite.NewEmptyFile()
 	top := f.Body()
 	top.AppendUnstructuredTokens(comment(fmt.Sprintf("Effective policy %q in %s units.", p.Name, p.Units)))
+	top.AppendUnstructuredTokens(comment(unitNote(p)))
 	top.AppendUnstructuredTokens(comment("Merged from (child first): " + strings.Join(p.Chain, " → ")))
 	top.AppendNewline()
 	b := top.AppendNewBlock("policy", []string{p.Name}).Body()
@@ -64,6 +66,14 @@ func Format(p *Policy) []byte {
 		}
 	}
 	return hclwrite.Format(f.Bytes())
+}
+
+// unitNote says what the numbers of p are in.
+func unitNote(p *Policy) string {
+	if p.Units == model.US {
+		return "Lengths in ft, velocities in ft/s, shear stresses in lb/ft²."
+	}
+	return "Lengths in m, velocities in m/s, shear stresses in N/m²."
 }
 
 func comment(text string) hclwrite.Tokens {

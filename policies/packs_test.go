@@ -151,6 +151,7 @@ func TestFormatRoundTrip(t *testing.T) {
 	for _, want := range cases {
 		text := Format(want)
 		assert.Contains(t, string(text), "# Merged from (child first): "+strings.Join(want.Chain, " → "))
+		assert.Contains(t, string(text), map[model.Units]string{model.SI: "velocities in m/s", model.US: "velocities in ft/s"}[want.Units])
 		got, diags, _ := loadSource(t, string(text))
 		require.Empty(t, diags, "%s", text)
 		assert.Equal(t, want.Name, got.Name)
