@@ -50,8 +50,7 @@ event "e" {
 }
 
 func TestSectionShapes(t *testing.T) {
-	m := parseOK(t, `units = "si"
-section "s" {
+	m := parseOK(t, oneReach(`section "s" {
   shape = "rectangle"
   bottom_width = 3
   height = 1.5
@@ -86,19 +85,7 @@ section "wall" {
   shape = "points"
   points = [[0, 2], [0, 0], [4, 0], [4, 1.5]]
   roughness = 0.014
-}
-reach "r" {
-  from = "a"
-  to = "b"
-  length = 100
-  section = "s"
-  slope = 0.001
-}
-event "e" {
-  inflow = { r = 1 }
-  outlet = { depth = 1 }
-}
-`)
+}`))
 	require.Len(t, m.Sections, 6)
 	s := m.Sections[0]
 	assert.Equal(t, Rectangle, s.Shape)
