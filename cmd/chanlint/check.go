@@ -111,16 +111,20 @@ func (a *app) runCheck(args []string) int {
 		return a.flagError(c, err)
 	}
 	if cf.jobs < 0 {
-		return a.usageError(c, "--jobs must be at least 1, got %d", cf.jobs)
+		return a.usageError(c, "--jobs must not be negative, got %d", cf.jobs)
 	}
 	pal := newPalette(a.useColor(cf.color.value, a.stdoutTTY))
 	errPal := newPalette(a.useColor(cf.color.value, a.stderrTTY))
 
 	var known *baseline.Baseline
 	if cf.baseline != "" {
-		b, err := baseline.Read(a.abs(cf.baseline))
+		abs := a.abs(cf.baseline)
+		b, err := baseline.Read(abs)
 		if err != nil {
-			fmt.Fprintf(a.stderr, "%s %s: cannot use baseline: %v\n", errPal.place.Sprint(a.display(a.abs(cf.baseline))+":"), errPal.severity(policies.Error), err)
+			// The error names the file by the absolute path it was read
+			// from; print the path as the user wrote it.
+			msg := strings.ReplaceAll(err.Error(), abs, a.display(abs))
+			fmt.Fprintf(a.stderr, "chanlint check: %s\n", msg)
 			return exitInvalid
 		}
 		known = b

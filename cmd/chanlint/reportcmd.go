@@ -77,7 +77,7 @@ func (a *app) runReport(args []string) int {
 		return a.usageError(c, "--out FILE is required")
 	}
 	if rf.jobs < 0 {
-		return a.usageError(c, "--jobs must be at least 1, got %d", rf.jobs)
+		return a.usageError(c, "--jobs must not be negative, got %d", rf.jobs)
 	}
 	format := rf.format.value
 	if format == "" {
