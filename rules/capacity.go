@@ -47,20 +47,22 @@ additional barrel, or an inlet- or outlet-control culvert analysis.`,
 func checkCapacity(ctx *Context, report func(Finding)) {
 	u := ctx.units()
 	lu := u.Length()
-	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point) verdict {
+	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		sec := sectionAt(rr, p)
 		if sec == nil || !finite(sec.Height) {
-			return verdict{skip: true}
+			return false
 		}
-		v := verdict{value: p.Depth, limit: sec.Height, short: p.Depth - sec.Height}
+		kind := overtops
 		if sec.Closed() {
-			v.kind = flowsFull
-			v.fail = p.Full || p.Depth >= sec.Height
-		} else {
-			v.kind = overtops
-			v.fail = p.WSE > p.Invert+sec.Height+1e-12*max(1, sec.Height)
+			if !p.Full && p.Depth < sec.Height {
+				return false
+			}
+			kind = flowsFull
+		} else if p.WSE <= p.Invert+sec.Height+1e-12*max(1, sec.Height) {
+			return false
 		}
-		return v
+		*v = verdict{kind: kind, value: p.Depth, limit: sec.Height, short: p.Depth - sec.Height}
+		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		val, lim := numPair(s.value, s.limit)
 		var msg string

@@ -147,7 +147,7 @@ func (c *Context) eachReach(fn func(ev *solver.EventResult, rr *solver.ReachResu
 // scanPoints judges every computed point of every reach the rule runs on,
 // merges the failing points into spans (see scan) and hands each span to
 // emit.
-func (c *Context) scanPoints(w worse, judge func(rr *solver.ReachResult, p *solver.Point) verdict,
+func (c *Context) scanPoints(w worse, judge judgeFunc,
 	emit func(ev *solver.EventResult, rr *solver.ReachResult, s span)) {
 	c.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		for _, s := range scan(rr, w, judge, reachBlock) {

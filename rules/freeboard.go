@@ -47,17 +47,18 @@ storage.`,
 func checkFreeboard(ctx *Context, report func(Finding)) {
 	cfg := ctx.Config
 	u := ctx.units()
-	ctx.scanPoints(lower, func(rr *solver.ReachResult, p *solver.Point) verdict {
+	ctx.scanPoints(lower, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		sec := sectionAt(rr, p)
 		if sec == nil || sec.Closed() || !finite(sec.Height) {
-			return verdict{skip: true}
+			return false
 		}
 		avail := p.Invert + sec.Height - p.WSE
 		req := max(cfg.Minimum, cfg.Fraction*p.Depth)
-		return verdict{
-			fail:  avail < req-1e-12*max(1, req),
-			value: avail, limit: req, short: req - avail,
+		if avail >= req-1e-12*max(1, req) {
+			return false
 		}
+		*v = verdict{value: avail, limit: req, short: req - avail}
+		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		report(spanFinding(ev, rr, s, freeboardMessage(cfg, rr, s, u)))
 	})

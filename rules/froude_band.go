@@ -57,16 +57,17 @@ func nearestEdge(b policies.Band, x float64) (edge, depth float64) {
 func checkFroudeBand(ctx *Context, report func(Finding)) {
 	cfg := ctx.Config
 	u := ctx.units()
-	ctx.scanPoints(nil, func(rr *solver.ReachResult, p *solver.Point) verdict {
+	ctx.scanPoints(nil, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		if p.Depth <= 0 {
-			return verdict{skip: true}
+			return false
 		}
 		b, in := bandOf(cfg.Avoid, p.Froude)
 		if !in {
-			return verdict{}
+			return false
 		}
 		edge, depth := nearestEdge(b, p.Froude)
-		return verdict{fail: true, value: p.Froude, limit: edge, short: depth}
+		*v = verdict{value: p.Froude, limit: edge, short: depth}
+		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		b, _ := bandOf(cfg.Avoid, s.value)
 		lo, hi := numPair(b.Low, b.High)

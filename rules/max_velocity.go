@@ -52,18 +52,20 @@ func checkVelocity(ctx *Context, report func(Finding), upper bool) {
 		w = higher
 	}
 	limits := &liningLimits{cfg: cfg}
-	ctx.scanPoints(w, func(rr *solver.ReachResult, p *solver.Point) verdict {
+	ctx.scanPoints(w, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.Area <= 0 {
-			return verdict{skip: true}
+			return false
 		}
-		v := verdict{value: p.Velocity, limit: lim}
-		if upper {
-			v.fail, v.short = p.Velocity > lim, p.Velocity-lim
-		} else {
-			v.fail, v.short = p.Velocity < lim, lim-p.Velocity
+		short := p.Velocity - lim
+		if !upper {
+			short = -short
 		}
-		return v
+		if short <= 0 {
+			return false
+		}
+		*v = verdict{value: p.Velocity, limit: lim, short: short}
+		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		sec := sectionAt(rr, &rr.Points[s.worst])
 		report(spanFinding(ev, rr, s, velocityMessage(cfg, sec, s, u, upper)))

@@ -59,13 +59,17 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	gamma := unitWeight(u)
 	su := stressUnit(u)
 	limits := &liningLimits{cfg: cfg}
-	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point) verdict {
+	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.HydraulicRadius <= 0 {
-			return verdict{skip: true}
+			return false
 		}
 		tau := gamma * p.HydraulicRadius * math.Abs(p.FrictionSlope)
-		return verdict{fail: tau > lim, value: tau, limit: lim, short: tau - lim}
+		if tau <= lim {
+			return false
+		}
+		*v = verdict{value: tau, limit: lim, short: tau - lim}
+		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		sec := sectionAt(rr, &rr.Points[s.worst])
 		val, lim := numPair(s.value, s.limit)

@@ -40,10 +40,12 @@ func usable(p *solver.Point) bool {
 		p.Energy, p.Area, p.TopWidth, p.HydraulicRadius, p.FrictionSlope)
 }
 
-// verdict is a rule's judgement of one computed point.
+// verdict is what a rule reports about a failing computed point. A judge
+// (see scan) returns false for a point that passes or is not checked there
+// (no applicable limit, outside the zone), and fills a verdict and returns
+// true for a point that fails: passing points, the great majority, cost a
+// comparison and nothing more.
 type verdict struct {
-	skip  bool // not checked here (no applicable limit, outside the zone): ends a span
-	fail  bool
 	kind  int     // rule-specific kind of failure; a change of kind ends a span
 	value float64 // the measured quantity
 	limit float64 // the limit it is held to at this point
@@ -55,6 +57,10 @@ type verdict struct {
 	// (superelevation: the bend radius that would pass).
 	aux float64
 }
+
+// judgeFunc judges one computed point: false when it passes or is not
+// checked, else true with the verdict filled in.
+type judgeFunc func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool
 
 // span is a run of contiguous failing points of one reach and event with
 // the same responsible block and kind.
@@ -84,17 +90,19 @@ func lower(a, b float64) bool  { return a < b }
 // without ending a span (the solver rule reports such points); checking
 // the figures a rule computed, rather than every field of the point, keeps
 // the per-point cost to what the rule reads.
-func scan(rr *solver.ReachResult, w worse, judge func(rr *solver.ReachResult, p *solver.Point) verdict,
+func scan(rr *solver.ReachResult, w worse, judge judgeFunc,
 	at func(rr *solver.ReachResult, p *solver.Point) *model.Src) []span {
 	var out []span
 	var cur *span
+	// One verdict for the whole walk: a judge is an unknown function, so
+	// the verdict it fills lives on the heap; allocate it once, not per point.
+	v := new(verdict)
 	for i := range rr.Points {
 		p := &rr.Points[i]
 		if !finite(p.Station) {
 			continue
 		}
-		v := judge(rr, p)
-		if v.skip || !v.fail {
+		if !judge(rr, p, v) {
 			cur = nil
 			continue
 		}

@@ -72,10 +72,10 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 				lo := bend.FromStation - exceptionTolerance(bend.FromStation)
 				hi := bend.ToStation + exceptionTolerance(bend.ToStation)
 				sub, offset := pointsBetween(rr, lo, hi)
-				spans := scan(sub, lower, func(rr *solver.ReachResult, p *solver.Point) verdict {
+				spans := scan(sub, lower, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 					sec := sectionAt(rr, p)
 					if sec == nil || sec.Closed() || p.Depth <= 0 || !finite(sec.Height) {
-						return verdict{skip: true}
+						return false
 					}
 					c := cSub
 					if p.Froude >= 1 {
@@ -84,6 +84,9 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					dy := c * p.Velocity * p.Velocity * p.TopWidth / (g * bend.Radius)
 					top := p.Invert + sec.Height
 					remaining := top - (p.WSE + dy)
+					if remaining >= cfg.Minimum-1e-12*max(1, cfg.Minimum) {
+						return false
+					}
 					// The radius at which the rise just leaves the minimum:
 					// rc = C·V²·T/(g·(top − WSE − minimum)); none exists when the
 					// straight channel already lacks the minimum.
@@ -92,9 +95,8 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					if room > 0 {
 						need = c * p.Velocity * p.Velocity * p.TopWidth / (g * room)
 					}
-					return verdict{fail: remaining < cfg.Minimum-1e-12*max(1, cfg.Minimum),
-						value: remaining, limit: cfg.Minimum, short: cfg.Minimum - remaining,
-						aux: need}
+					*v = verdict{value: remaining, limit: cfg.Minimum, short: cfg.Minimum - remaining, aux: need}
+					return true
 				}, func(*solver.ReachResult, *solver.Point) *model.Src { return &bend.Src })
 				for _, s := range spans {
 					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset
