@@ -18,7 +18,6 @@ import (
 // off explicitly, so concurrent runs never depend on fatih/color's global
 // switch.
 type palette struct {
-	on                     bool
 	place, rule, dim, bold *color.Color
 	err, warn, info        *color.Color
 	caret                  *color.Color
@@ -35,7 +34,6 @@ func newPalette(on bool) *palette {
 		return c
 	}
 	return &palette{
-		on:    on,
 		place: mk(color.Bold),
 		rule:  mk(color.FgMagenta),
 		dim:   mk(color.Faint),
