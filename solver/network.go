@@ -273,7 +273,7 @@ func (s *solver) upstreamControl(w *reachWork) superControl {
 	}
 	if len(w.r.Upstream) > 1 {
 		w.res.Notes = append(w.res.Notes, noteControl(0,
-			"supercritical inflow at junction %q: the depth %s at the start of this reach is taken from the discharge-weighted energy of the inflows, without loss",
+			"supercritical flows meet at junction %q, where a one-dimensional model cannot represent the shock waves: the depth %s at the start of this reach is taken from the discharge-weighted energy of the inflows, without loss",
 			w.r.From, num(y)))
 	}
 	return superControl{ok: true, y: y, kind: "inflow", arriving: true}

@@ -122,6 +122,7 @@ func TestSolveAlwaysFinite(t *testing.T) {
 					t.Fatalf("reach %s: depth %v at %v", rr.Reach.Name, p.Depth, p.Station)
 				}
 			}
+			requireEnergyBalance(t, rr)
 			for i := 1; i < len(rr.Notes); i++ {
 				if rr.Notes[i].Station < rr.Notes[i-1].Station {
 					t.Fatalf("notes out of order")
@@ -181,4 +182,38 @@ func TestEventFilter(t *testing.T) {
 	res, err = Solve(m, Options{})
 	require.NoError(t, err)
 	require.Len(t, res.Events, 2)
+}
+
+// requireEnergyBalance checks the standard-step energy equation between
+// every pair of neighbouring computed points of one section that are not
+// at critical depth (controls and fallbacks):
+//
+//	H₁ − H₂ = Δx·(Sf₁ + Sf₂)/2
+//
+// with H the energy grade elevation. The residual allowed is ten times the
+// root finder's depth tolerance times the sensitivity of the equation to
+// the unknown depth, |1 − F²| + (Δx/2)·|dSf/dy|, with |dSf/dy| bounded by
+// 6·Sf/y (Manning: Sf ∝ A⁻²R^(−4/3), at most y^(−16/3) for a triangle).
+//
+// Source: the standard-step method with the average friction slope
+// (Chow 1959, §10-3).
+func requireEnergyBalance(t interface {
+	testHelper
+	Fatalf(string, ...any)
+}, rr *ReachResult) {
+	t.Helper()
+	for i := 1; i < len(rr.Points); i++ {
+		a, b := rr.Points[i-1], rr.Points[i]
+		dx := b.Station - a.Station
+		if dx <= 0 || a.Section != b.Section || a.Regime == Critical || b.Regime == Critical || a.Regime != b.Regime {
+			continue
+		}
+		res := (a.Energy - b.Energy) - dx*(a.FrictionSlope+b.FrictionSlope)/2
+		sens := 2 + a.Froude*a.Froude + b.Froude*b.Froude + dx*6*math.Max(a.FrictionSlope, b.FrictionSlope)/math.Min(a.Depth, b.Depth)
+		tol := 1e-6*sens + 1e-12*math.Abs(a.Energy)
+		if math.Abs(res) > tol {
+			t.Fatalf("reach %s: energy equation off by %.3g between stations %v and %v (depths %v, %v)",
+				rr.Reach.Name, res, a.Station, b.Station, a.Depth, b.Depth)
+		}
+	}
 }
