@@ -25,7 +25,7 @@ func Check(m *model.Model, res *solver.Result, p *policies.Policy) []Finding {
 	}
 	if p == nil {
 		p = &policies.Policy{Units: m.Units}
-	} else if p.Units != m.Units {
+	} else if p.Units != "" && p.Units != m.Units {
 		p = p.In(m.Units)
 	}
 	var found []Finding

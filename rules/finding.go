@@ -3,6 +3,13 @@
 // own file; Check merges contiguous failing points into station spans,
 // applies design exceptions and sorts the findings. Rules read solved
 // results and settings; they never solve, read files or print.
+//
+// A finding points at the block a designer edits to fix it: the reach, or
+// the segment whose section is in force at the failing span; the bend for
+// superelevation; the basin a jump escapes or starts in. Its value and limit
+// are in the model's units, whatever units the policy was written in. A
+// computed point whose numbers are not finite is never judged (the solver
+// rule reports it), so no finding carries NaN or Inf.
 package rules
 
 import (
