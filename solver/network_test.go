@@ -133,3 +133,45 @@ func TestSupercriticalJunction(t *testing.T) {
 	}
 	require.InDelta(t, 3.5, ev.Reaches[2].Discharge, 1e-12)
 }
+
+// TestJumpMovesIntoNextReach: a steep chute runs supercritical to its end
+// and the jump forms in the mild reach below; with a higher tailwater the
+// jump moves up into the chute.
+//
+// Source: specific force equal across a jump (Chow 1959, ch. 3); a jump
+// forms where the supercritical flow's force falls to the subcritical
+// flow's (Chow 1959, §10-3, from memory).
+func TestJumpMovesIntoNextReach(t *testing.T) {
+	sec := trapezoid("lined", 3, 2, 0.015, 5)
+	ref := gvfTrapezoid{b: 3, z: 2, n: 0.015, k: 1, g: 9.80665, q: 10}
+	build := func(tail float64) *EventResult {
+		m := buildNet(t, model.SI, []netReach{
+			{name: "chute", from: "top", to: "toe", length: 100, slope: 0.02, sec: sec, inflow: 10},
+			{name: "canal", from: "toe", to: "out", length: 400, slope: 0.001, sec: sec},
+		}, model.Outlet{Kind: model.OutletDepth, Value: tail})
+		return solveOne(t, m)
+	}
+
+	ev := build(1.6)
+	chute, canal := ev.Reaches[0], ev.Reaches[1]
+	require.Equal(t, []string{"S2"}, chute.ProfileTypes())
+	require.Empty(t, chute.Jumps)
+	end := chute.Points[len(chute.Points)-1]
+	require.Equal(t, Supercritical, end.Regime)
+	// Same section and invert at the junction: equal energy gives the
+	// same supercritical depth.
+	require.InDelta(t, end.Depth, canal.Points[0].Depth, 1e-7)
+	require.Equal(t, []string{"M3", "M1"}, canal.ProfileTypes()[:2])
+	require.Len(t, canal.Jumps, 1)
+	j := canal.Jumps[0]
+	require.InDelta(t, ref.force(j.UpstreamDepth), ref.force(j.DownstreamDepth), 1e-6*ref.force(j.UpstreamDepth))
+
+	ev = build(3.0)
+	chute, canal = ev.Reaches[0], ev.Reaches[1]
+	require.Equal(t, []string{"S2", "S1"}, chute.ProfileTypes())
+	require.Len(t, chute.Jumps, 1)
+	require.Empty(t, canal.Jumps)
+	for _, p := range canal.Points {
+		require.Equal(t, Subcritical, p.Regime)
+	}
+}
