@@ -141,7 +141,7 @@ func (a *app) runCheck(args []string) int {
 	}
 
 	// The findings to show: a baseline hides those it records.
-	shown, knownCount := applyBaseline(results, known)
+	shown, knownCount := a.applyBaseline(results, known)
 
 	run := checkRun{
 		app: a, results: results, shown: shown, policy: pol,
@@ -347,7 +347,7 @@ func solverLimitFinding(m *model.Model, err error) rules.Finding {
 // applyBaseline returns the findings to show for each valid file (by
 // display path) once a baseline hides those it records, and how many it
 // hid. Invalid files are never filtered: their diagnostics always show.
-func applyBaseline(results []*fileResult, b *baseline.Baseline) (map[string][]rules.Finding, int) {
+func (a *app) applyBaseline(results []*fileResult, b *baseline.Baseline) (map[string][]rules.Finding, int) {
 	shown := map[string][]rules.Finding{}
 	if b == nil {
 		for _, r := range results {
@@ -363,15 +363,36 @@ func applyBaseline(results []*fileResult, b *baseline.Baseline) (map[string][]ru
 		}
 		all = append(all, r.findings...)
 	}
-	fresh, known := b.Filter(all)
+	rebased, back := a.rebase(all, filepath.Dir(a.abs(b.Path)))
+	fresh, known := b.Filter(rebased)
 	for _, f := range fresh {
+		f.File = back[f.File]
 		shown[f.File] = append(shown[f.File], f)
 	}
 	return shown, known
 }
 
-// writeBaselineFile records the findings of the valid files in path,
-// replacing it atomically.
+// rebase returns copies of findings whose File is relative to dir (the
+// directory of the baseline file), so that a baseline matches whatever
+// directory chanlint runs in, and the map back to the printed paths.
+func (a *app) rebase(findings []rules.Finding, dir string) ([]rules.Finding, map[string]string) {
+	out := make([]rules.Finding, len(findings))
+	back := map[string]string{}
+	for i, f := range findings {
+		rel, err := filepath.Rel(dir, a.abs(filepath.FromSlash(f.File)))
+		if err == nil {
+			back[filepath.ToSlash(rel)] = f.File
+			f.File = filepath.ToSlash(rel)
+		} else {
+			back[f.File] = f.File
+		}
+		out[i] = f
+	}
+	return out, back
+}
+
+// writeBaselineFile records the findings of the valid files in path, with
+// file names relative to the baseline's directory, replacing it atomically.
 func (a *app) writeBaselineFile(path string, results []*fileResult) error {
 	var all []rules.Finding
 	for _, r := range results {
@@ -379,16 +400,17 @@ func (a *app) writeBaselineFile(path string, results []*fileResult) error {
 			all = append(all, r.findings...)
 		}
 	}
+	abs := a.abs(path)
+	all, _ = a.rebase(all, filepath.Dir(abs))
 	var buf bytes.Buffer
 	if err := baseline.Write(&buf, all); err != nil {
 		return err
 	}
-	abs := a.abs(path)
 	tmp, err := os.CreateTemp(filepath.Dir(abs), ".chanlint-baseline-*")
 	if err != nil {
 		return describePathError(err)
 	}
-	if _, err := tmp.Write(buf.Bytes()); err != nil {
+	if _, err := tmp.Write(buf.Bytes()); err != nil || tmp.Chmod(0o644) != nil {
 		tmp.Close()
 		os.Remove(tmp.Name())
 		return err

@@ -300,6 +300,15 @@ func TestBaselineRoundTrip(t *testing.T) {
 	assert.Regexp(t, `(?m)^1 file, 0 errors, 0 warnings, 0 infos, 0 excepted$`, out)
 	assert.Regexp(t, `(?m)^baseline: [1-9]\d* known findings? recorded in known\.json not shown$`, out)
 
+	// Run from another directory, the baseline still matches: its file
+	// names are relative to the baseline's own directory.
+	code, out, _ = runIn(filepath.Join(dir, "set00"), runOpts{}, "check", "models/overtop.chan.hcl", "--baseline", "../known.json", "--color", "never")
+	assert.Equal(t, exitOK, code, out)
+	assert.Regexp(t, `(?m)^baseline: [1-9]\d* known findings? recorded in \.\./known\.json not shown$`, out)
+	data, err := os.ReadFile(filepath.Join(dir, "known.json"))
+	require.NoError(t, err)
+	assert.Contains(t, string(data), `"file": "set00/models/overtop.chan.hcl"`)
+
 	// Another model's findings are not in the baseline.
 	code, out, _ = runIn(dir, runOpts{}, "check", target, "set00/demo", "--baseline", "known.json", "--color", "never")
 	assert.Equal(t, exitFindings, code, out)
