@@ -67,9 +67,13 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 		val, lim := numPair(s.value, s.limit)
 		var msg string
 		if s.kind == flowsFull {
-			msg = fmt.Sprintf("the closed conduit flows full %s (depth %s %s, diameter %s %s): "+
+			head := ""
+			if s.short > 0 {
+				head = fmt.Sprintf(", the hydraulic grade up to %s %s above its crown", num(s.short), lu)
+			}
+			msg = fmt.Sprintf("the %s %s closed conduit flows full %s (depth %s %s%s): "+
 				"it runs under pressure, which the free-surface results do not describe; "+
-				"enlarge the conduit or add a barrel, or analyse it for pressure flow", s.where(u), val, lu, lim, lu)
+				"enlarge the conduit or add a barrel, or analyse it for pressure flow", lim, lu, s.where(u), val, lu, head)
 		} else {
 			msg = fmt.Sprintf("depth %s %s exceeds the section height %s %s %s: the water surface rises %s %s "+
 				"above the top of bank: the channel overtops here; deepen or widen the section or raise the "+

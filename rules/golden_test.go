@@ -478,3 +478,18 @@ func TestGoldenFromDiagnostics(t *testing.T) {
 	assert.Contains(t, fs[1].Message, "widht", "the misspelt attribute, at its own line")
 	assert.Equal(t, 3, fs[1].Range.Start.Column, "at the attribute name")
 }
+
+func TestGoldenCulvertFull(t *testing.T) {
+	m, _, fs := golden(t, "culvert.chan.hcl", "jumps.policy.hcl")
+	assertFinite(t, fs)
+	got := matchWants(t, m.Source, "", fs)
+	for _, f := range got {
+		// Source: common practice (no published source): with the outlet
+		// depth 1.4 m above the 1.0 m crown the pipe is full at the outlet,
+		// and the pressure grade only rises upstream of it.
+		assert.Equal(t, 1.0, f.Limit)
+		assert.GreaterOrEqual(t, f.Value, 1.4)
+		assert.Contains(t, f.Message, "flows full")
+		assert.Contains(t, f.Message, "above its crown")
+	}
+}
