@@ -410,7 +410,11 @@ func (a *app) writeBaselineFile(path string, results []*fileResult) error {
 	if err != nil {
 		return describePathError(err)
 	}
-	if _, err := tmp.Write(buf.Bytes()); err != nil || tmp.Chmod(0o644) != nil {
+	_, err = tmp.Write(buf.Bytes())
+	if err == nil {
+		err = tmp.Chmod(0o644)
+	}
+	if err != nil {
 		tmp.Close()
 		os.Remove(tmp.Name())
 		return err
