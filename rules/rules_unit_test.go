@@ -332,3 +332,20 @@ func TestUnusedExceptionContext(t *testing.T) {
 	assert.Equal(t, policies.Info, fs[0].Severity)
 	assert.Contains(t, fs[0].Message, "the 1 finding it would cover is reported in full")
 }
+
+// TestSegmentBoundaryPoints: two computed points at one station, one in
+// each section, belong to their own blocks.
+func TestSegmentBoundaryPoints(t *testing.T) {
+	m, r := handModel()
+	wide := &model.Section{Name: "wide", Shape: model.Rectangle, BottomWidth: 8, Height: 1, Lining: "grass"}
+	seg := &model.Segment{Src: model.Src{DefRange: rng(12)}, FromStation: 200, ToStation: 400, SectionName: "wide", Section: wide}
+	r.Segments = []*model.Segment{seg}
+	pts := depthsPoints(r, []float64{0, 100, 200, 200, 300}, []float64{0.9, 0.9, 0.9, 0.9, 0.9}, []float64{1, 1, 1, 1, 1})
+	pts[2].Section = r.Section // the upstream side of the boundary
+	fs := runRule(t, "freeboard", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Minimum: 0.3})
+	require.Len(t, fs, 2)
+	assertSpan(t, fs[0], 0, 200, 0.1, 0.3)
+	assert.Equal(t, r.DefRange, fs[0].Range)
+	assertSpan(t, fs[1], 200, 300, 0.1, 0.3)
+	assert.Equal(t, seg.DefRange, fs[1].Range)
+}

@@ -13,7 +13,9 @@ import (
 func reachBlock(rr *solver.ReachResult, p *solver.Point) *model.Src {
 	r := rr.Reach
 	for _, s := range r.Segments {
-		if p.Station >= s.FromStation && p.Station <= s.ToStation {
+		// At a boundary the solver may compute two points at one station,
+		// one in each section: the point's own section decides.
+		if p.Station >= s.FromStation && p.Station <= s.ToStation && (p.Section == nil || p.Section == s.Section) {
 			return &s.Src
 		}
 	}
