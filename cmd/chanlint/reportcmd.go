@@ -54,7 +54,8 @@ surface, critical depth, top of bank, jumps, failing spans), the findings,
 the design exceptions claimed and the caution.
 
   html      one self-contained file (default)
-  markdown  FILE (.md) with the SVG plots written beside it
+  markdown  FILE with the extension .md, and the SVG plots beside it
+            (FILE-1.svg, FILE-2.svg, ...)
 
 Invalid models are listed in the report and their diagnostics printed on
 stderr.
@@ -115,6 +116,7 @@ func (a *app) runReport(args []string) int {
 	if format == "markdown" {
 		name := strings.TrimSuffix(filepath.Base(abs), filepath.Ext(abs))
 		err = report.Markdown(filepath.Dir(abs), name, in)
+		abs = filepath.Join(filepath.Dir(abs), name+".md") // the file Markdown writes
 	} else {
 		var buf bytes.Buffer
 		if err = report.HTML(&buf, in); err == nil {

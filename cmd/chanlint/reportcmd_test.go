@@ -29,4 +29,11 @@ func TestReport(t *testing.T) {
 	code, _, errOut = runIn(dir, runOpts{}, "report", "set00/demo")
 	assert.Equal(t, exitInvalid, code)
 	assert.Contains(t, errOut, "--out FILE is required")
+
+	// --format markdown writes NAME.md whatever the extension given.
+	code, out, errOut = runIn(dir, runOpts{}, "report", "set00/demo", "--out", "notes.txt", "--format", "markdown")
+	require.Equal(t, exitOK, code, errOut)
+	assert.Regexp(t, `^wrote notes\.md: `, out)
+	_, err = os.Stat(filepath.Join(dir, "notes-1.svg"))
+	assert.NoError(t, err)
 }
