@@ -311,10 +311,12 @@ func checkFile(f modelFile, pol *policies.Policy) (r *fileResult) {
 func loadModel(f modelFile) (src []byte, m *model.Model, findings []rules.Finding, invalid bool) {
 	src, diags := model.ReadFile(f.abs)
 	if diags.HasErrors() {
+		// ReadFile names the file by the absolute path it was given.
 		for _, d := range diags {
 			if d.Subject != nil {
 				d.Subject.Filename = f.display
 			}
+			d.Detail = strings.ReplaceAll(d.Detail, f.abs, f.display)
 		}
 		return nil, nil, rules.FromDiagnostics(f.display, diags), true
 	}
