@@ -330,19 +330,13 @@ func (l *Loader) decodeAndExtend(d *decoder, file *hcl.File, n node, root string
 // sortByPosition orders one file's diagnostics top to bottom (those
 // without a range first).
 func sortByPosition(diags hcl.Diagnostics) {
-	slices.SortStableFunc(diags, func(a, b *hcl.Diagnostic) int {
-		if a.Subject == nil || b.Subject == nil {
-			return cmp.Compare(btoi(a.Subject != nil), btoi(b.Subject != nil))
+	offset := func(d *hcl.Diagnostic) int {
+		if d.Subject == nil {
+			return -1
 		}
-		return cmp.Compare(a.Subject.Start.Byte, b.Subject.Start.Byte)
-	})
-}
-
-func btoi(b bool) int {
-	if b {
-		return 1
+		return d.Subject.Start.Byte
 	}
-	return 0
+	slices.SortStableFunc(diags, func(a, b *hcl.Diagnostic) int { return cmp.Compare(offset(a), offset(b)) })
 }
 
 // extendsTarget resolves the extends value of o, written in n.
