@@ -35,8 +35,9 @@ func sectionAt(rr *solver.ReachResult, p *solver.Point) *model.Section {
 }
 
 // usable reports whether a computed point carries finite numbers in every
-// field the rules read. The solver promises finite output; a point that is
-// not is skipped here and reported once by the solver rule.
+// field the rules read. The solver promises finite output; the solver rule
+// reports a point that breaks the promise, and the other rules skip any
+// point whose judged figures are not finite (see scan).
 func usable(p *solver.Point) bool {
 	return finite(p.Station, p.Invert, p.Depth, p.WSE, p.Velocity, p.Froude,
 		p.Energy, p.Area, p.TopWidth, p.HydraulicRadius, p.FrictionSlope)
@@ -76,7 +77,6 @@ type span struct {
 	aux         float64 // the largest over the span
 	kind        int
 	block       *model.Src // the responsible block
-	points      int
 }
 
 // worse orders measured values: worse(a, b) reports whether a is further
@@ -123,7 +123,6 @@ func scan(rr *solver.ReachResult, w worse, judge judgeFunc,
 			cur = &out[len(out)-1]
 		}
 		cur.last, cur.to = i, p.Station
-		cur.points++
 		if (w != nil && w(v.value, cur.value)) || (w == nil && v.short > cur.short) {
 			cur.worst, cur.value, cur.limit = i, v.value, v.limit
 		}
