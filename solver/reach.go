@@ -332,6 +332,8 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 	var st stepper
 	var tmp [2]pt
 	prev := pt{x: x, y: y, piece: pi, super: true}
+	var pprev pt // the point before prev, when hasPP
+	hasPP := false
 	for ; int(pi) < len(w.pieces); pi++ {
 		p := &w.pieces[pi]
 		if prev.piece != pi {
@@ -351,7 +353,7 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 				return s.firstSubAfter(w, pi-1, c.x), false
 			}
 			w.final = append(w.final, c)
-			prev, atCrit = c, !ok
+			prev, atCrit, hasPP = c, !ok, false
 		}
 		st.init(&w.f, p, int(pi), true, prev.x, prev.y, atCrit, w.r.MaxSpacing)
 		for _, stop := range w.stops {
@@ -367,13 +369,21 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 					ys := s.subAt(w, pi, c.x)
 					fs, fb := w.f.force(p, c.y), w.f.force(p, ys)
 					if fs-fb < -forceTie*math.Max(fs, fb) {
-						xt, y1, y2 := s.locateJump(w, p, pi, prev, c)
+						var ppp *pt
+						if hasPP {
+							ppp = &pprev
+						}
+						xt, y1, y2, before := s.locateJump(w, p, pi, ppp, prev, c)
+						if n := len(w.final); before && n > 0 && w.final[n-1].x == prev.x {
+							w.final = w.final[:n-1]
+						}
 						w.final = append(w.final, pt{x: xt, y: y1, piece: pi, super: true})
 						s.addJump(w, p, xt, y1, y2)
 						w.final = append(w.final, pt{x: xt, y: y2, piece: pi})
 						return s.firstSubAfter(w, pi, xt), false
 					}
 					w.final = append(w.final, c)
+					pprev, hasPP = prev, prev.piece == pi && prev.x < c.x
 					prev = c
 					if c.fallback {
 						// Both profiles at critical depth: the flow
@@ -397,22 +407,28 @@ func (s *solver) dominated(w *reachWork, p *piece, y, ys float64) bool {
 	return fs-fb < -forceTie*math.Max(fs, fb)
 }
 
-// locateJump finds the toe between the supercritical points a and b of
-// piece pi, where the specific force of the supercritical profile equals
-// that of the subcritical one:
+// locateJump finds the toe of a jump detected at the supercritical point
+// b of piece pi, where the specific force of the supercritical profile
+// equals that of the subcritical one:
 //
 //	D(x) = M(y_super(x)) − M(y_sub(x)) = 0
 //
 // Both depths are recomputed at x by a standard step (the supercritical one
-// from a, the subcritical one from the nearest subcritical point
-// downstream), and D is solved by Brent's method; where the ends do not
-// bracket (a numerical corner), the linear interpolation of D is used.
-func (s *solver) locateJump(w *reachWork, p *piece, pi int32, a, b pt) (xt, y1, y2 float64) {
+// from the point before x, the subcritical one from the nearest
+// subcritical point downstream), and D is solved by Brent's method between
+// a (the point before b) and b. The detection compares against the
+// interpolated subcritical profile, so the exact D can already be negative
+// at a; the toe then lies between pp (the point before a, when it is in
+// the same piece) and a, and before is true: the caller drops a. Where no
+// bracket holds (a numerical corner), the toe is put at a, or at the linear
+// interpolation of D.
+func (s *solver) locateJump(w *reachWork, p *piece, pi int32, pp *pt, a, b pt) (xt, y1, y2 float64, before bool) {
+	base := a
 	ySup := func(x float64) float64 {
-		if x <= a.x {
-			return a.y
+		if x <= base.x {
+			return base.y
 		}
-		y, ok := w.f.standardStep(p, a.x, a.y, x, true, 0)
+		y, ok := w.f.standardStep(p, base.x, base.y, x, true, 0)
 		if !ok {
 			return p.yc
 		}
@@ -421,15 +437,25 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, a, b pt) (xt, y1, 
 	d := func(x float64) float64 {
 		return w.f.force(p, ySup(x)) - w.f.force(p, s.subExact(w, pi, x))
 	}
+	xtol := 1e-10 * math.Max(w.f.length, 1)
 	da, db := d(a.x), d(b.x)
 	switch {
 	case da >= 0 && db <= 0 && da != db:
-		x, err := Brent(d, a.x, b.x, 1e-10*math.Max(w.f.length, 1))
-		if err == nil {
+		if x, err := Brent(d, a.x, b.x, xtol); err == nil {
 			xt = x
-			break
+		} else {
+			xt = a.x + (b.x-a.x)*da/(da-db)
 		}
-		xt = a.x + (b.x-a.x)*da/(da-db)
+	case da < 0 && pp != nil:
+		base = *pp
+		if dp := d(pp.x); dp >= 0 {
+			if x, err := Brent(d, pp.x, a.x, xtol); err == nil {
+				return x, ySup(x), s.subExact(w, pi, x), true
+			}
+		}
+		base, xt = a, a.x
+	case da < 0:
+		xt = a.x
 	default:
 		fa := w.f.force(p, a.y) - w.f.force(p, s.subAt(w, pi, a.x))
 		fb := w.f.force(p, b.y) - w.f.force(p, s.subAt(w, pi, b.x))
@@ -439,7 +465,7 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, a, b pt) (xt, y1, 
 		}
 		xt = a.x + t*(b.x-a.x)
 	}
-	return xt, ySup(xt), s.subExact(w, pi, xt)
+	return xt, ySup(xt), s.subExact(w, pi, xt), false
 }
 
 // addJump records a hydraulic jump with toe at station x.
