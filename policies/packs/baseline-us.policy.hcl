@@ -1,7 +1,9 @@
 # chanlint built-in pack "baseline-us" (US customary units: ft, ft/s, lb/ft²).
 #
-# The baseline screening policy written natively in feet, with the values as
-# the sources print them. Every number names its source beside it or on the
+# The baseline screening policy with every length, velocity and stress
+# written natively in feet, with the values as the sources print them. The
+# rules without units (froude_band, jump_containment, jump_type) come from
+# "baseline" unchanged. Every number names its source beside it or on the
 # line above; "(from memory)" marks a value recalled rather than re-read, and
 # "common practice" a value of the trade with no single published source.
 #
@@ -10,6 +12,7 @@
 
 policy "baseline-us" {
   units      = "us"
+  extends    = "baseline"
   reference  = "chanlint baseline-us pack (published screening values, not a local design code)"
   exceptions = "report"
 
@@ -46,25 +49,6 @@ policy "baseline-us" {
       sand    = null
       default = 2.0 # self-cleansing velocity: common practice (no published source)
     }
-    severity = "warning"
-  }
-
-  froude_band {
-    # Unstable near-critical flow: 0.89–1.13 in Brown & Clyde, FHWA HEC-11
-    # (1989) p. 38; flood-control channel guidance (USACE EM 1110-2-1601,
-    # from memory) starts the band at 0.86. The wider band is kept.
-    avoid    = [[0.86, 1.13]]
-    severity = "warning"
-  }
-
-  jump_containment {
-    severity = "error"
-  }
-
-  jump_type {
-    # Oscillating jumps, upstream Froude number 2.5–4.5: Peterka, USBR
-    # Engineering Monograph 25 (1958); Chow 1959 ch. 15.
-    avoid    = [[2.5, 4.5]]
     severity = "warning"
   }
 
