@@ -493,3 +493,28 @@ func TestGoldenCulvertFull(t *testing.T) {
 		assert.Contains(t, f.Message, "above its crown")
 	}
 }
+
+// TestGoldenSupercritical: uniform rapid flow in a chute; the bend takes
+// C = 1.0 (Source: USACE EM 1110-2-1601, from memory).
+func TestGoldenSupercritical(t *testing.T) {
+	const g, b, h, n, s, q, rc = 9.80665, 2.0, 1.0, 0.013, 0.02, 5.0, 20.0
+	m, _, fs := golden(t, "chute.chan.hcl", "golden.policy.hcl")
+	y := manningNormalDepth(siUnits, q, b, n, s)
+	require.InDelta(t, y, m.Events[0].Entrances[0].Depth, 1e-12, "the file enters at normal depth")
+	v := q / (b * y)
+	require.Greater(t, v/math.Sqrt(g*y), 1.0, "rapid flow")
+	assertFinite(t, fs)
+	got := matchWants(t, m.Source, "", fs)
+	for w, f := range got {
+		switch w.rule {
+		case "superelevation":
+			assert.True(t, scalar.EqualWithinAbsOrRel(f.Value, h-y-1.0*v*v*b/(g*rc), 1e-6, 1e-6), "remaining %g", f.Value)
+			assert.Equal(t, 0.3, f.Limit)
+			assert.Contains(t, f.Message, "C = 1,")
+		case "max_velocity":
+			assert.True(t, scalar.EqualWithinAbsOrRel(f.Value, v, 1e-6, 1e-6), "velocity %g", f.Value)
+			assert.Equal(t, 3.0, f.Limit)
+			assert.Contains(t, f.Message, `lining "concrete" (the policy's default)`)
+		}
+	}
+}
