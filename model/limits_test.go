@@ -149,3 +149,20 @@ func TestHeredocTextDoesNotCount(t *testing.T) {
 }`))
 	assert.Contains(t, m.Sections[0].Lining, deep)
 }
+
+func TestDiagnosticsCapped(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("units = \"si\"\n")
+	for i := range 5000 {
+		fmt.Fprintf(&b, "colour%d = \"blue\"\n", i)
+	}
+	src := b.String()
+	_, diags := Parse("many.chan.hcl", []byte(src))
+	require.Len(t, diags, MaxDiagnostics+1)
+	last := diags[MaxDiagnostics]
+	assert.Equal(t, "Too many problems", last.Summary)
+	assert.Contains(t, last.Detail, "4002 more problems")
+	// "No reach" and "No event" sit at line 1, then one unknown argument
+	// per line from line 2.
+	assert.Equal(t, MaxDiagnostics, last.Subject.Start.Line)
+}

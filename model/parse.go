@@ -29,6 +29,9 @@ const (
 	MaxSegments  = 1000  // per reach
 	MaxStructure = 10000 // gates, basins, bends and exceptions, each
 	MaxNesting   = 64    // brackets, braces and parentheses
+	// MaxDiagnostics is the number of problems reported for one file; the
+	// rest are summed up in one last diagnostic.
+	MaxDiagnostics = 1000
 )
 
 // Load reads a model file (at most MaxFileSize bytes) and decodes it with
@@ -81,6 +84,16 @@ func ReadFile(filename string) ([]byte, hcl.Diagnostics) {
 func Parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	m, diags := parse(filepath.ToSlash(filename), src)
 	sortDiagnostics(diags)
+	if len(diags) > MaxDiagnostics {
+		rest := len(diags) - MaxDiagnostics
+		next := *diags[MaxDiagnostics].Subject
+		diags = append(diags[:MaxDiagnostics:MaxDiagnostics], &hcl.Diagnostic{
+			Severity: hcl.DiagError,
+			Summary:  "Too many problems",
+			Detail:   fmt.Sprintf("%d more problems from here on are not shown; fix the ones above and check again.", rest),
+			Subject:  &next,
+		})
+	}
 	return m, diags
 }
 
