@@ -6,6 +6,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"slices"
 	"strings"
 	"unicode/utf8"
 
@@ -23,7 +24,7 @@ func solveCommand() *command {
 }
 
 type solveFlags struct {
-	event  string
+	events nameList
 	format *choice
 	color  *choice
 }
@@ -34,7 +35,7 @@ func newSolveFlags() (*solveFlags, *flag.FlagSet) {
 		color:  newChoice("auto", "auto", "always", "never"),
 	}
 	fs := newFlagSet("solve")
-	fs.StringVar(&sf.event, "event", "", "solve only the event `NAME` (default: every event)")
+	fs.Var(&sf.events, "event", "solve only the event `NAME`; repeat it or separate names by commas for several (default: every event)")
 	fs.Var(sf.format, "format", "output format")
 	fs.Var(sf.color, "color", "colour the diagnostics of an invalid model")
 	return sf, fs
@@ -82,23 +83,24 @@ func (a *app) runSolve(args []string) int {
 		return exitInvalid
 	}
 	opts := solver.Options{}
-	if sf.event != "" {
+	if len(sf.events) > 0 {
 		var names []string
-		found := false
 		for _, e := range m.Events {
 			names = append(names, e.Name)
-			found = found || e.Name == sf.event
 		}
-		if !found {
-			msg := fmt.Sprintf("%s has no event %q", f.display, sf.event)
-			if s := suggest(sf.event, names); s != "" {
+		for _, want := range sf.events {
+			if slices.Contains(names, want) {
+				continue
+			}
+			msg := fmt.Sprintf("%s has no event %q", f.display, want)
+			if s := suggest(want, names); s != "" {
 				msg += fmt.Sprintf("; did you mean %q?", s)
 			} else if len(names) > 0 {
 				msg += "; its events are " + strings.Join(names, ", ")
 			}
 			return a.usageError(c, "%s", msg)
 		}
-		opts.Events = []string{sf.event}
+		opts.Events = sf.events
 	}
 	res, err := solver.Solve(m, opts)
 	if err != nil {
@@ -123,6 +125,21 @@ func (a *app) runSolve(args []string) int {
 		return exitInvalid
 	}
 	return exitOK
+}
+
+// nameList is a flag that may be repeated; each value may hold several
+// names separated by commas.
+type nameList []string
+
+func (l *nameList) String() string { return strings.Join(*l, ",") }
+
+func (l *nameList) Set(v string) error {
+	for _, name := range strings.Split(v, ",") {
+		if name = strings.TrimSpace(name); name != "" && !slices.Contains(*l, name) {
+			*l = append(*l, name)
+		}
+	}
+	return nil
 }
 
 // Documents of `solve --format json` (outputs.md).
