@@ -1,0 +1,413 @@
+package solver
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/stretchr/testify/require"
+)
+
+// fuzzInput turns fuzz bytes into bounded parameters: each read takes the
+// next byte (zero once the bytes run out), so every input decodes to a
+// valid model.
+type fuzzInput struct {
+	b []byte
+	i int
+}
+
+func (f *fuzzInput) byte() byte {
+	if f.i >= len(f.b) {
+		return 0
+	}
+	c := f.b[f.i]
+	f.i++
+	return c
+}
+
+// frac is a number in [0, 1] from two bytes.
+func (f *fuzzInput) frac() float64 {
+	return float64(uint16(f.byte())<<8|uint16(f.byte())) / 65535
+}
+
+// in is a number in [lo, hi].
+func (f *fuzzInput) in(lo, hi float64) float64 { return lo + (hi-lo)*f.frac() }
+
+// logIn is a number in [lo, hi] spread evenly on a log scale.
+func (f *fuzzInput) logIn(lo, hi float64) float64 {
+	return math.Exp(math.Log(lo) + (math.Log(hi)-math.Log(lo))*f.frac())
+}
+
+// pick is an index in [0, n).
+func (f *fuzzInput) pick(n int) int { return int(f.byte()) % n }
+
+// fuzzModel is the HCL text of a model decoded from fuzz bytes: one to
+// three reaches (single, chain of two, or two reaches joining a third),
+// every shape, beds from adverse to steep, optional segments, a gate or an
+// entrance depth on a headwater reach, and every outlet control. Sizes are
+// kept in the range of real channels (in metres or feet).
+func fuzzModel(data []byte) string {
+	f := &fuzzInput{b: data}
+	var b strings.Builder
+	units := "si"
+	if f.pick(2) == 1 {
+		units = "us"
+	}
+	fmt.Fprintf(&b, "units = %q\n", units)
+	for i := range 3 {
+		writeFuzzSection(&b, f, fmt.Sprintf("s%d", i))
+	}
+	type reach struct{ name, from, to string }
+	var reaches []reach
+	switch f.pick(3) {
+	case 0:
+		reaches = []reach{{"main", "top", "out"}}
+	case 1:
+		reaches = []reach{{"upper", "top", "mid"}, {"main", "mid", "out"}}
+	default:
+		reaches = []reach{{"upper", "top", "mid"}, {"side", "side-top", "mid"}, {"main", "mid", "out"}}
+	}
+	outletSlope := 0.0
+	for _, r := range reaches {
+		length := f.logIn(5, 3000)
+		slope := 0.0
+		switch f.pick(6) {
+		case 0:
+			slope = -f.logIn(1e-5, 0.005) // adverse
+		case 1: // horizontal
+		case 2, 3:
+			slope = f.logIn(1e-5, 0.005) // usually mild
+		default:
+			slope = f.logIn(0.005, 0.2) // usually steep
+		}
+		if r.name == "main" {
+			outletSlope = slope
+		}
+		fmt.Fprintf(&b, "reach %q {\n  from = %q\n  to = %q\n  length = %.6g\n  section = \"s%d\"\n  slope = %.6g\n",
+			r.name, r.from, r.to, length, f.pick(3), slope)
+		if f.pick(4) == 0 {
+			fmt.Fprintf(&b, "  max_spacing = %.6g\n", f.logIn(0.5, 500))
+		}
+		if f.pick(3) == 0 {
+			a := f.in(0, 0.9) * length
+			fmt.Fprintf(&b, "  segment {\n    from_station = %.6g\n    to_station = %.6g\n    section = \"s%d\"\n  }\n",
+				a, a+f.in(0.01, 1)*(length-a), f.pick(3))
+		}
+		b.WriteString("}\n")
+	}
+	// A sluice gate or an entrance depth on the first headwater reach.
+	control := f.pick(4)
+	if control == 0 {
+		fmt.Fprintf(&b, "gate \"g\" {\n  reach = \"%s\"\n  opening = %.6g\n", reaches[0].name, f.logIn(0.05, 2))
+		if f.pick(2) == 0 {
+			fmt.Fprintf(&b, "  contraction = %.4g\n", f.in(0.5, 1))
+		}
+		b.WriteString("}\n")
+	}
+	b.WriteString("event \"e\" {\n  inflow = {")
+	for i, r := range reaches {
+		if r.name == "main" && len(reaches) > 1 && f.pick(2) == 0 {
+			continue
+		}
+		if i > 0 {
+			b.WriteString(",")
+		}
+		fmt.Fprintf(&b, " %q = %.6g", r.name, f.logIn(0.01, 300))
+	}
+	b.WriteString(" }\n")
+	switch k := f.pick(4); {
+	case k == 0 && outletSlope > 0:
+		b.WriteString("  outlet = { condition = \"normal\" }\n")
+	case k == 1:
+		b.WriteString("  outlet = { condition = \"critical\" }\n")
+	case k == 2:
+		fmt.Fprintf(&b, "  outlet = { elevation = %.6g }\n", f.in(0.01, 8))
+	default:
+		fmt.Fprintf(&b, "  outlet = { depth = %.6g }\n", f.logIn(0.02, 8))
+	}
+	if control == 1 {
+		fmt.Fprintf(&b, "  entrance = { %q = %.6g }\n", reaches[0].name, f.logIn(0.01, 5))
+	}
+	b.WriteString("}\n")
+	return b.String()
+}
+
+func writeFuzzSection(b *strings.Builder, f *fuzzInput, name string) {
+	n := f.in(0.010, 0.08)
+	fmt.Fprintf(b, "section %q {\n", name)
+	switch f.pick(5) {
+	case 0:
+		fmt.Fprintf(b, "  shape = \"rectangle\"\n  bottom_width = %.6g\n  height = %.6g\n", f.logIn(0.2, 40), f.in(0.3, 8))
+	case 1:
+		fmt.Fprintf(b, "  shape = \"trapezoid\"\n  bottom_width = %.6g\n  side_slope = %.4g\n  height = %.6g\n",
+			f.logIn(0.2, 40), f.in(0.1, 4), f.in(0.3, 8))
+	case 2:
+		fmt.Fprintf(b, "  shape = \"triangle\"\n  side_slope = %.4g\n  height = %.6g\n", f.in(0.3, 4), f.in(0.3, 8))
+	case 3:
+		fmt.Fprintf(b, "  shape = \"circle\"\n  diameter = %.6g\n", f.in(0.3, 5))
+	default:
+		w := f.in(2, 20)
+		d := f.in(0.5, 3)
+		ob := f.in(2, 40)
+		fmt.Fprintf(b, "  shape = \"points\"\n  points = [[0, %.6g], [%.6g, %.6g], [%.6g, %.6g], [%.6g, 0], [%.6g, %.6g], [%.6g, %.6g], [%.6g, %.6g]]\n",
+			d+1.5, ob, d+0.5, ob+1, d, ob+1+w/2, ob+1+w, d, ob+2+w, d+0.5, 2*ob+2+w, d+1.5)
+		fmt.Fprintf(b, "  banks = [%.6g, %.6g]\n  roughness = [%.4g, %.4g, %.4g]\n  lining = \"earth\"\n}\n",
+			ob+1, ob+1+w, f.in(0.03, 0.1), n, f.in(0.03, 0.1))
+		return
+	}
+	fmt.Fprintf(b, "  roughness = %.4g\n  lining = \"concrete\"\n}\n", n)
+}
+
+// FuzzSolve solves models generated from fuzz bytes (see fuzzModel) and
+// checks the physics of the output rather than particular numbers:
+//   - every number finite and no value replaced by sanitize;
+//   - depths positive, stations ordered within the reach;
+//   - the standard-step energy equation closed between neighbouring points
+//     of one regime and one section with no jump or note between them
+//     (checkEnergyClosure);
+//   - equal specific force across every jump, the toe supercritical and
+//     the end subcritical;
+//   - discharge conserved at junctions.
+//
+// Run: go test ./solver -run '^$' -fuzz '^FuzzSolve$' -fuzztime 4m
+func FuzzSolve(f *testing.F) {
+	f.Add([]byte{})
+	f.Add([]byte("mild backwater behind a depth control"))
+	f.Add([]byte{1, 0, 0, 0, 200, 9, 9, 1, 40, 40, 40, 0, 40, 2, 2, 2, 2, 4, 0, 0, 0, 9, 200, 1, 0, 0, 3, 3})
+	f.Add([]byte{0, 1, 128, 0, 128, 0, 20, 0, 3, 1, 128, 0, 128, 0, 128, 0, 4, 200, 0, 128, 5, 5, 5, 0, 0, 255, 255, 0, 0, 30, 0})
+	for i := range 8 {
+		seed := make([]byte, 96)
+		for j := range seed {
+			seed[j] = byte((j*37 + i*101) ^ (i * 13))
+		}
+		f.Add(seed)
+	}
+	f.Fuzz(func(t *testing.T, data []byte) {
+		src := fuzzModel(data)
+		m, diags := model.Parse("fuzz.chan.hcl", []byte(src))
+		if diags.HasErrors() {
+			t.Fatalf("the generator made an invalid model: %s\n%s", diags.Error(), src)
+		}
+		res, err := Solve(m, Options{MaxPoints: 200_000})
+		if errors.Is(err, ErrTooManyPoints) {
+			return // a limit, reported as such
+		}
+		if err != nil {
+			t.Fatalf("Solve: %v\n%s", err, src)
+		}
+		checkSolved(t, m, res, src, false)
+	})
+}
+
+// Tolerances on the specific force across a jump, relative. The toe is
+// located by Brent's method on the force difference with a station
+// tolerance of 1e-10 of the length and depths closed to 1e-7, so the two
+// forces agree to about 1e-6: strictJumpForce allows ten times that.
+// Where the ends of the step do not bracket the force difference the
+// solver interpolates the toe linearly instead (locateJump), and the forces
+// then differ by up to about 4e-4 (a known defect, reported with the
+// regression inputs of testdata/fuzz-known); the fuzzer allows that much
+// so that it keeps looking for other faults.
+const (
+	strictJumpForce  = 1e-5
+	lenientJumpForce = 1e-3
+)
+
+// checkSolved applies the physical checks of FuzzSolve to a result.
+func checkSolved(t *testing.T, m *model.Model, res *Result, src string, strict bool) {
+	t.Helper()
+	requireFinite(t, res)
+	for _, er := range res.Events {
+		for _, rr := range er.Reaches {
+			for _, n := range rr.Notes {
+				if strings.Contains(n.Message, "not a finite number") {
+					t.Fatalf("reach %s: sanitize replaced a value: %s\n%s", rr.Reach.Name, n.Message, src)
+				}
+			}
+			if rr.Discharge > 0 {
+				for _, p := range rr.Points {
+					if !(p.Depth > 0) {
+						t.Fatalf("reach %s: depth %v at station %v\n%s", rr.Reach.Name, p.Depth, p.Station, src)
+					}
+					if p.Station < -1e-9 || p.Station > rr.Reach.Length*(1+1e-12)+1e-9 {
+						t.Fatalf("reach %s: station %v outside [0, %v]", rr.Reach.Name, p.Station, rr.Reach.Length)
+					}
+				}
+			}
+			checkEnergyClosure(t, m.Units, rr, src)
+			tol := lenientJumpForce
+			if strict {
+				tol = strictJumpForce
+			}
+			checkJumps(t, m.Units, rr, src, tol)
+		}
+		checkJunctions(t, er, src)
+	}
+}
+
+// checkEnergyClosure recomputes the standard step between neighbouring
+// points i and i+1 of one regime from the output fields alone:
+//
+//	(z + y + αV²/2g)_i − (z + y + αV²/2g)_{i+1} = Δx·(Sf_i + Sf_{i+1})/2
+//
+// (Chow 1959, §10-3, the energy equation with the mean friction slope).
+// Pairs are skipped where the section changes (a transition without
+// friction), where a jump, a note or a critical point lies in between,
+// and at coincident stations. The solver closes the equation on the depth
+// to 1e-7 (DefaultTolerance); the energy residual is that times |dH/dy| =
+// |1 − F² ± Δx/2·dSf/dy| at the unknown point, so the tolerance allowed is
+// 1e-6·(1 + F² + Δx·Sf/y) with a floor of 1e-9 of the energy head.
+func checkEnergyClosure(t *testing.T, u model.Units, rr *ReachResult, src string) {
+	t.Helper()
+	pts := rr.Points
+	for i := 0; i+1 < len(pts); i++ {
+		a, c := pts[i], pts[i+1]
+		dx := c.Station - a.Station
+		if dx <= 0 || a.Section != c.Section || a.Regime != c.Regime || a.Regime == Critical {
+			continue
+		}
+		if blocked(rr, a.Station, c.Station) {
+			continue
+		}
+		lhs := a.Energy - c.Energy
+		rhs := dx * (a.FrictionSlope + c.FrictionSlope) / 2
+		fr2 := math.Max(a.Froude*a.Froude, c.Froude*c.Froude)
+		sfy := math.Max(a.FrictionSlope/a.Depth, c.FrictionSlope/c.Depth)
+		tol := 1e-6*(1+fr2+dx*sfy) + 1e-9*math.Abs(a.Energy)
+		if math.Abs(lhs-rhs) > tol {
+			t.Fatalf("reach %s (%s): energy not closed between stations %.9g and %.9g (%s): head loss %.9g, friction %.9g, residual %.3g > %.3g\ndepths %.9g %.9g\n%s",
+				rr.Reach.Name, u, a.Station, c.Station, a.Regime, lhs, rhs, lhs-rhs, tol, a.Depth, c.Depth, src)
+		}
+	}
+}
+
+// blocked reports whether a jump or a note lies in [x0, x1].
+func blocked(rr *ReachResult, x0, x1 float64) bool {
+	for _, j := range rr.Jumps {
+		if j.Station >= x0 && j.Station <= x1 {
+			return true
+		}
+	}
+	for _, n := range rr.Notes {
+		if n.Station >= x0 && n.Station <= x1 {
+			return true
+		}
+	}
+	return false
+}
+
+// checkJumps: the specific force M = Q²/(gA) + A·z̄ is the same on both
+// sides of a hydraulic jump in a prismatic channel (Chow 1959, ch. 3 and
+// 15); the toe is supercritical and the end subcritical.
+func checkJumps(t *testing.T, u model.Units, rr *ReachResult, src string, tol float64) {
+	t.Helper()
+	for _, j := range rr.Jumps {
+		if placedByNote(rr, j.Station) {
+			// A jump the solver could not locate (supercritical flow
+			// meeting a junction) is placed at a control with a note;
+			// its depths are the two profiles, not a sequent pair.
+			continue
+		}
+		if atSectionChange(rr.Reach, j.Station) {
+			// A jump held at an abrupt change of section: the change
+			// takes up the difference of the forces, which are not equal.
+			continue
+		}
+		g := NewGeometry(rr.Reach.SectionAt(j.Station), u)
+		m1, m2 := SpecificForce(g, rr.Discharge, j.UpstreamDepth), SpecificForce(g, rr.Discharge, j.DownstreamDepth)
+		if math.Abs(m1-m2) > tol*math.Max(m1, m2) {
+			t.Fatalf("reach %s: jump at %.9g: specific force %.9g upstream, %.9g downstream\n%s", rr.Reach.Name, j.Station, m1, m2, src)
+		}
+		if !(j.UpstreamDepth < j.DownstreamDepth) || !(j.Froude > 1) {
+			t.Fatalf("reach %s: jump at %.9g from %.9g to %.9g with F1 = %.6g\n%s", rr.Reach.Name, j.Station, j.UpstreamDepth, j.DownstreamDepth, j.Froude, src)
+		}
+		if j.Station < 0 || j.Station > rr.Reach.Length {
+			t.Fatalf("reach %s: jump at %.9g outside the reach", rr.Reach.Name, j.Station)
+		}
+	}
+}
+
+// atSectionChange reports whether a segment of r starts or ends at x.
+func atSectionChange(r *model.Reach, x float64) bool {
+	eps := 1e-9 * math.Max(r.Length, 1)
+	for _, sg := range r.Segments {
+		if math.Abs(sg.FromStation-x) <= eps || math.Abs(sg.ToStation-x) <= eps {
+			return true
+		}
+	}
+	return false
+}
+
+// placedByNote reports whether a control note sits at station x.
+func placedByNote(rr *ReachResult, x float64) bool {
+	for _, n := range rr.Notes {
+		if n.Kind == NoteControl && n.Station == x {
+			return true
+		}
+	}
+	return false
+}
+
+// checkJunctions: the discharge of a reach is its own inflow plus the
+// discharges of the reaches that end at its upstream node.
+func checkJunctions(t *testing.T, er *EventResult, src string) {
+	t.Helper()
+	own := map[*model.Reach]float64{}
+	for _, in := range er.Event.Inflows {
+		own[in.Reach] += in.Discharge
+	}
+	for _, rr := range er.Reaches {
+		q := own[rr.Reach]
+		for _, up := range rr.Reach.Upstream {
+			q += er.Reaches[up.Index].Discharge
+		}
+		if math.Abs(q-rr.Discharge) > 1e-12*math.Max(q, 1) {
+			t.Fatalf("reach %s carries %.12g, inflow plus upstream is %.12g\n%s", rr.Reach.Name, rr.Discharge, q, src)
+		}
+	}
+}
+
+// knownDefects are fuzz inputs (go test fuzz v1 files under
+// testdata/fuzz-known) that fail the strict checks, with the defect each
+// shows. Each is run strictly and skipped until the solver is fixed; the
+// fuzzer's regression corpus (testdata/fuzz/FuzzSolve) holds only inputs
+// that pass.
+var knownDefects = map[string]string{
+	"jump-force-interpolated": "locateJump falls back to linear interpolation when the step's ends do not bracket the force difference (both ends negative): specific forces across the jump differ by 3.6e-4 relative",
+}
+
+func TestFuzzKnownDefects(t *testing.T) {
+	for name, defect := range knownDefects {
+		t.Run(name, func(t *testing.T) {
+			data := readFuzzFile(t, filepath.Join("testdata", "fuzz-known", name))
+			t.Skip("known defect: " + defect)
+			src := fuzzModel(data)
+			m, diags := model.Parse("fuzz.chan.hcl", []byte(src))
+			require.False(t, diags.HasErrors(), "%s", diags.Error())
+			res, err := Solve(m, Options{MaxPoints: 200_000})
+			require.NoError(t, err)
+			checkSolved(t, m, res, src, true)
+		})
+	}
+}
+
+// readFuzzFile reads the single []byte value of a "go test fuzz v1" file.
+func readFuzzFile(t *testing.T, path string) []byte {
+	t.Helper()
+	raw, err := os.ReadFile(path)
+	require.NoError(t, err)
+	lines := strings.SplitN(strings.TrimSpace(string(raw)), "\n", 2)
+	require.Len(t, lines, 2)
+	require.Equal(t, "go test fuzz v1", lines[0])
+	v := strings.TrimSpace(lines[1])
+	require.True(t, strings.HasPrefix(v, "[]byte(") && strings.HasSuffix(v, ")"), "%s", v)
+	s, err := strconv.Unquote(v[len("[]byte(") : len(v)-1])
+	require.NoError(t, err)
+	return []byte(s)
+}
