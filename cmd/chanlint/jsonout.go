@@ -13,8 +13,8 @@ type checkJSON struct {
 	Findings []findingJSON `json:"findings"`
 	Summary  summaryJSON   `json:"summary"`
 	Policy   policyJSON    `json:"policy"`
-	Caution  string        `json:"caution"`
 	Tool     toolJSON      `json:"tool"`
+	Caution  string        `json:"caution"` // last, as in every output
 }
 
 // findingJSON is one finding. Numbers that a finding does not have (a
