@@ -2,7 +2,6 @@ package policies
 
 import (
 	"fmt"
-	"math"
 	"os"
 	"path/filepath"
 	"testing"
@@ -428,49 +427,6 @@ func TestLoadSource(t *testing.T) {
 	_, diags = NewLoader(dir).LoadSource(filepath.Join(dir, "empty.policy.hcl"), nil)
 	require.Len(t, diags, 1)
 	assert.Equal(t, "Missing policy block", diags[0].Summary)
-}
-
-// Whatever the bytes, loading gives a policy or error diagnostics with a
-// range, never a panic; a policy has only finite numbers.
-func FuzzLoadSource(f *testing.F) {
-	for _, n := range PackNames() {
-		src, _ := PackSource(n)
-		f.Add(src)
-	}
-	f.Add([]byte(everyConstruct))
-	f.Add([]byte(`policy "x" { units = "si" }`))
-	f.Add([]byte("policy \"x\" {\n units = \"si\"\n froude_band { avoid = [[1, 2], [3]] }\n}"))
-	dir, err := filepath.EvalSymlinks(f.TempDir())
-	if err != nil {
-		f.Fatal(err)
-	}
-	f.Fuzz(func(t *testing.T, src []byte) {
-		p, diags := NewLoader(dir).LoadSource(filepath.Join(dir, "f.policy.hcl"), src)
-		if p == nil {
-			if !diags.HasErrors() {
-				t.Fatal("no policy and no error")
-			}
-			return
-		}
-		if diags.HasErrors() {
-			t.Fatal("a policy despite errors")
-		}
-		for id, rc := range p.Rules {
-			nums := []float64{rc.Minimum, rc.Fraction, rc.Limit.Default, rc.SubcriticalCoefficient, rc.SupercriticalCoefficient}
-			for _, v := range rc.Limit.Values {
-				nums = append(nums, v)
-			}
-			for _, b := range rc.Avoid {
-				nums = append(nums, b.Low, b.High)
-			}
-			for _, v := range nums {
-				if math.IsNaN(v) || math.IsInf(v, 0) {
-					t.Fatalf("%s: non-finite number", id)
-				}
-			}
-		}
-		_ = Format(p)
-	})
 }
 
 // A Loader sees a file's new text: an editor may load one buffer many times.
