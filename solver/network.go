@@ -114,7 +114,12 @@ func (s *solver) downstreamBoundary(w *reachWork, ev *model.Event) (y float64, c
 	last := &w.pieces[len(w.pieces)-1]
 	z := w.f.invert(w.f.length)
 	if d := w.r.Downstream; d != nil && d.Index >= 0 && d.Index < len(s.work) && s.work[d.Index].q > 0 {
-		y, ok := w.f.solveBranch(last, z, 0, s.work[d.Index].junctionH, false, 0, 0)
+		dw := &s.work[d.Index]
+		guess := 0.0
+		if dw.subHi > dw.subLo {
+			guess = s.subBuf[dw.subLo].y // exact when the section and invert carry on
+		}
+		y, ok := w.f.solveBranch(last, z, 0, dw.junctionH, false, guess, 0.05*guess)
 		if !ok {
 			return last.yc, true
 		}

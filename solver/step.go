@@ -289,7 +289,7 @@ func (s *stepper) step(xEnd float64, out *[2]pt) int {
 		}
 		xMid := s.x + dir*h/2
 		guess := 0.0
-		if s.slope != 0 && !s.atCrit {
+		if !s.atCrit {
 			guess = s.y + s.slope*(xEndStep-s.x)
 		}
 		yFull, okF := s.f.standardStep(s.p, s.x, s.y, xEndStep, s.super, guess)
@@ -350,7 +350,11 @@ func (s *stepper) firstStep(remaining float64) float64 {
 	if s.atCrit {
 		return math.Max(remaining*1e-3, s.dxMin)
 	}
-	sl := math.Abs(s.f.slopeOfProfile(s.p, s.y))
+	dydx := s.f.slopeOfProfile(s.p, s.y)
+	if !math.IsInf(dydx, 0) && !math.IsNaN(dydx) {
+		s.slope = dydx // seeds the depth guess of the first step
+	}
+	sl := math.Abs(dydx)
 	h := remaining
 	if sl > 0 {
 		h = 0.02 * s.y / sl
