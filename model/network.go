@@ -69,9 +69,24 @@ func (d *decoder) network() {
 		for i, n := range outlets {
 			list[i] = fmt.Sprintf("%q", n.Name)
 		}
-		d.errorf(outlets[1].In[0].At("to"), "More than one outlet",
-			"Nodes %s have no reach leaving them, so the network falls apart into %d separate parts. Connect the parts so that all water leaves through one outlet node, or put each part in its own model.",
-			strings.Join(list, ", "), len(outlets))
+		// A misspelt node name is the usual cause: point at it if one
+		// outlet is a near miss of a node that water does leave.
+		at, hint := outlets[1].In[0].At("to"), ""
+		var inner []string
+		for _, n := range net.Nodes {
+			if n.Out != nil {
+				inner = append(inner, n.Name)
+			}
+		}
+		for _, n := range outlets {
+			if h := suggest(n.Name, inner); h != "" && len(inner) <= 2000 {
+				at, hint = n.In[0].At("to"), fmt.Sprintf(" Reach %q ends at %q.%s", n.In[0].Name, n.Name, h)
+				break
+			}
+		}
+		d.errorf(at, "More than one outlet",
+			"Nodes %s have no reach leaving them, so the network falls apart into %d separate parts. Connect the parts so that all water leaves through one outlet node, or put each part in its own model.%s",
+			strings.Join(list, ", "), len(outlets), hint)
 		return
 	}
 	net.Outlet = outlets[0]

@@ -199,3 +199,13 @@ func seq(n int) []int {
 	}
 	return s
 }
+
+func TestMisspeltNodeSuggested(t *testing.T) {
+	diags := parseErr(t, strings.Replace(treeModel, `to = "j1"
+  length = 500`, `to = "jl"
+  length = 500`, 1))
+	require.Len(t, diags, 1, "%s", diags.Error())
+	assert.Equal(t, "More than one outlet", diags[0].Summary)
+	assert.Equal(t, 17, diags[0].Subject.Start.Line, "the to of reach left")
+	assert.Contains(t, diags[0].Detail, `Reach "left" ends at "jl". Did you mean "j1"?`)
+}
