@@ -78,8 +78,11 @@ func (d *decoder) network() {
 				inner = append(inner, n.Name)
 			}
 		}
-		for _, n := range outlets {
-			if h := suggest(n.Name, inner); h != "" && len(inner) <= 2000 {
+		for i, n := range outlets {
+			if i == maxSuggestions || len(inner) > 2000 {
+				break // bounded work on a hostile file
+			}
+			if h := suggest(n.Name, inner); h != "" {
 				at, hint = n.In[0].At("to"), fmt.Sprintf(" Reach %q ends at %q.%s", n.In[0].Name, n.Name, h)
 				break
 			}
