@@ -11,6 +11,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
 )
 
@@ -49,7 +50,7 @@ Solves the steady flow events of one model and prints, for every event and
 reach, the discharge, slope class, profile types, hydraulic jumps and the
 computed points (station, invert, depth, water surface, velocity, Froude
 number, energy grade, critical and normal depth, regime). No policy is
-applied.
+applied; the table and the JSON document close with the caution.
 
   table  aligned columns for a terminal, units in the header (default)
   json   one document: units, events, reaches, points, jumps
@@ -144,9 +145,10 @@ func (l *nameList) Set(v string) error {
 
 // Documents of `solve --format json` (outputs.md).
 type solveJSON struct {
-	Units  string           `json:"units"`
-	Title  string           `json:"title,omitempty"`
-	Events []solveEventJSON `json:"events"`
+	Units   string           `json:"units"`
+	Title   string           `json:"title,omitempty"`
+	Events  []solveEventJSON `json:"events"`
+	Caution string           `json:"caution"`
 }
 
 type solveEventJSON struct {
@@ -194,7 +196,7 @@ type noteJSON struct {
 }
 
 func writeSolveJSON(w io.Writer, m *model.Model, res *solver.Result) error {
-	doc := solveJSON{Units: string(m.Units), Title: m.Title, Events: []solveEventJSON{}}
+	doc := solveJSON{Units: string(m.Units), Title: m.Title, Events: []solveEventJSON{}, Caution: rules.Caution}
 	for _, ev := range res.Events {
 		ej := solveEventJSON{Name: ev.Event.Name, Reaches: []solveReachJSON{}}
 		for _, rr := range ev.Reaches {
@@ -288,6 +290,7 @@ func writeSolveTable(w io.Writer, file string, m *model.Model, res *solver.Resul
 			writeReachTable(w, rr, L)
 		}
 	}
+	fmt.Fprintf(w, "\n%s\n", rules.Caution)
 }
 
 func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
