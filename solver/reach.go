@@ -378,6 +378,11 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 							w.final = w.final[:n-1]
 						}
 						w.final = append(w.final, pt{x: xt, y: y1, piece: pi, super: true})
+						if !(y2 > y1) || !(FroudeNumber(p.geo, w.q, y1) > 1) {
+							// The two profiles meet at critical depth: the
+							// flow turns subcritical without a jump.
+							return s.firstSubAfter(w, pi, xt), false
+						}
 						s.addJump(w, p, xt, y1, y2)
 						w.final = append(w.final, pt{x: xt, y: y2, piece: pi})
 						return s.firstSubAfter(w, pi, xt), false
@@ -468,9 +473,14 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, pp *pt, a, b pt) (
 	return xt, ySup(xt), s.subExact(w, pi, xt), false
 }
 
-// addJump records a hydraulic jump with toe at station x.
+// addJump records a hydraulic jump with toe at station x; a "jump" that
+// does not rise from supercritical flow (y2 ≤ y1 or F1 ≤ 1, two profiles
+// meeting at critical depth) is not one and is not recorded.
 func (s *solver) addJump(w *reachWork, p *piece, x, y1, y2 float64) {
 	f1 := FroudeNumber(p.geo, w.q, y1)
+	if !(y2 > y1) || !(f1 > 1) {
+		return
+	}
 	j := Jump{
 		Station:         x,
 		UpstreamDepth:   y1,
