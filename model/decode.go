@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 	"unicode"
+	"unicode/utf8"
 
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
@@ -287,11 +288,29 @@ func typeName(t cty.Type) string {
 // suggest returns ` Did you mean "x"?` for the closest candidate within a
 // small edit distance, or "".
 func suggest(got string, candidates []string) string {
+	budget := math.MaxInt
+	return suggestWithin(got, candidates, &budget)
+}
+
+// suggestWithin is suggest with a budget of edit-distance cells (the
+// product of the two lengths), spent as candidates are compared; when it
+// runs out the search stops. It keeps the work on a hostile file bounded.
+func suggestWithin(got string, candidates []string, budget *int) string {
 	best, bestD := "", 3
 	if len(got) <= 3 {
 		bestD = 2
 	}
+	n := utf8.RuneCountInString(got)
 	for _, c := range candidates {
+		// The distance is at least the difference in length, a cheap
+		// filter that skips most names of a large model.
+		m := utf8.RuneCountInString(c)
+		if n-m >= bestD || m-n >= bestD {
+			continue
+		}
+		if *budget -= min(n, 64) * min(m, 64); *budget < 0 {
+			break
+		}
 		if dist := editDistance(got, c); dist < bestD {
 			best, bestD = c, dist
 		}

@@ -78,11 +78,12 @@ func (d *decoder) network() {
 				inner = append(inner, n.Name)
 			}
 		}
+		d.cells = suggestCells
 		for i, n := range outlets {
-			if i == maxSuggestions || len(inner) > 2000 {
+			if i == maxSuggestions {
 				break // bounded work on a hostile file
 			}
-			if h := suggest(n.Name, inner); h != "" {
+			if h := suggestWithin(n.Name, inner, &d.cells); h != "" {
 				at, hint = n.In[0].At("to"), fmt.Sprintf(" Reach %q ends at %q.%s", n.In[0].Name, n.Name, h)
 				break
 			}

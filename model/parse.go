@@ -327,6 +327,7 @@ type decoder struct {
 
 	names       map[string][]string // sorted defined names by kind, for suggestions
 	suggestions int                 // suggestions searched so far
+	cells       int                 // edit-distance work left for suggestions
 }
 
 var rootSchema = &hcl.BodySchema{

@@ -39,9 +39,13 @@ func names[T any](m map[string]T) []string {
 }
 
 // maxSuggestions bounds the "did you mean" searches of one file, which cost
-// a comparison with every defined name, so that a hostile file full of
-// unknown names stays fast.
-const maxSuggestions = 100
+// a comparison with every defined name, and suggestCells the edit-distance
+// work they may do together, so that a hostile file full of long unknown
+// names stays fast.
+const (
+	maxSuggestions = 100
+	suggestCells   = 20_000_000
+)
 
 // suggestName proposes the closest defined section or reach name.
 func (d *decoder) suggestName(got, kind string) string {
@@ -51,8 +55,9 @@ func (d *decoder) suggestName(got, kind string) string {
 	d.suggestions++
 	if d.names == nil {
 		d.names = map[string][]string{"reach": names(d.reaches), "section": names(d.sections)}
+		d.cells = suggestCells
 	}
-	return suggest(got, d.names[kind])
+	return suggestWithin(got, d.names[kind], &d.cells)
 }
 
 // lookupReach resolves a reach reference at rng.
