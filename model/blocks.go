@@ -101,7 +101,7 @@ func (d *decoder) segment(b *hcl.Block, reach string) *Segment {
 	a, _ := d.attrs(b, segmentSchema, &s.Src)
 	a.what = fmt.Sprintf("a segment of reach %q", reach)
 	a.require(b.Body, "section")
-	_, s.FromStation, s.ToStation = a.stations(b.Body)
+	s.FromStation, s.ToStation = a.stations(b.Body)
 	s.SectionName, _ = a.name("section")
 	return s
 }
@@ -128,22 +128,21 @@ func (d *decoder) gate(b *hcl.Block) *Gate {
 func (a attrSet) span(body hcl.Body) (reach string, from, to float64) {
 	a.require(body, "reach")
 	reach, _ = a.name("reach")
-	_, from, to = a.stations(body)
+	from, to = a.stations(body)
 	return reach, from, to
 }
 
-// stations decodes from_station and to_station; ok is false unless both
-// are valid and from < to.
-func (a attrSet) stations(body hcl.Body) (ok bool, from, to float64) {
+// stations decodes from_station and to_station and checks that the first
+// is less than the second.
+func (a attrSet) stations(body hcl.Body) (from, to float64) {
 	a.require(body, "from_station", "to_station")
 	from, fok := a.station("from_station")
 	to, tok := a.station("to_station")
 	if fok && tok && from >= to {
 		a.d.errorf(a.m["to_station"].Expr.Range(), "Empty station range",
 			"to_station (%g) of %s must be greater than from_station (%g).", to, a.what, from)
-		return false, from, to
 	}
-	return fok && tok, from, to
+	return from, to
 }
 
 func (d *decoder) basin(b *hcl.Block) *Basin {
