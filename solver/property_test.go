@@ -217,3 +217,35 @@ func requireEnergyBalance(t interface {
 		}
 	}
 }
+
+// TestCoarseTolerance: a closure tolerance of common practice (0.003 m)
+// must not drive the step control into tiny steps; the profile stays
+// within a few tolerances of the default solution.
+//
+// Source: standard-step closure tolerance 0.003 m, common practice (no
+// published source), per references.md.
+func TestCoarseTolerance(t *testing.T) {
+	sec := trapezoid("lined", 3, 2, 0.015, 4)
+	m := buildNet(t, model.SI, []netReach{{name: "r", from: "a", to: "b", length: 2000, slope: 0.001, sec: sec, inflow: 10}},
+		model.Outlet{Kind: model.OutletDepth, Value: 2})
+	fine, err := Solve(m, Options{})
+	require.NoError(t, err)
+	coarse, err := Solve(m, Options{Tolerance: 0.003})
+	require.NoError(t, err)
+	fp, cp := fine.Events[0].Reaches[0].Points, coarse.Events[0].Reaches[0].Points
+	require.LessOrEqual(t, len(cp), 2*len(fp))
+	for _, p := range cp {
+		want := 0.0
+		for i := 1; i < len(fp); i++ {
+			if fp[i].Station >= p.Station {
+				a, b := fp[i-1], fp[i]
+				want = a.Depth + (b.Depth-a.Depth)*(p.Station-a.Station)/(b.Station-a.Station)
+				break
+			}
+		}
+		if p.Station == 0 {
+			want = fp[0].Depth
+		}
+		require.InDelta(t, want, p.Depth, 0.02, "station %v", p.Station)
+	}
+}

@@ -305,7 +305,9 @@ func (s *stepper) step(xEnd float64, out *[2]pt) int {
 		small := h <= s.dxMin || try >= stepMaxShrinks
 		if okF && ok1 && ok2 {
 			errEst := math.Abs(yTwo-yFull) / 3
-			allowed := stepRelTol * yTwo
+			// Never ask the steps for less than the closure of the
+			// energy equation can deliver (a coarse Options.Tolerance).
+			allowed := math.Max(stepRelTol*yTwo, 4*s.f.tol)
 			change := math.Abs(yTwo-s.y) / s.y
 			if (errEst <= allowed && change <= stepMaxDepthChange) || small {
 				out[0] = pt{x: xMid, y: yHalf, piece: s.pi, super: s.super}
