@@ -33,7 +33,6 @@ type reachWork struct {
 	outletReq    float64 // depth the outlet control asks for (outlet reach only)
 	outletKind   model.OutletKind
 	outletNotes  []Note
-	boundaryCrit bool // the subcritical profile starts from critical depth
 
 	// Pass 2.
 	endSuper bool
@@ -196,7 +195,6 @@ func (s *solver) subcritical(w *reachWork, ev *model.Event) {
 	}
 	last := len(w.pieces) - 1
 	y, crit := s.downstreamBoundary(w, ev)
-	w.boundaryCrit = crit
 	x := w.pieces[last].to
 	s.subBuf = append(s.subBuf, pt{x: x, y: y, piece: int32(last)})
 	s.count(1)
@@ -259,7 +257,7 @@ type superControl struct {
 // combine walks the reach downstream, switching between the
 // supercritical profile (computed here, as it goes) and the subcritical
 // one of pass 1, and places the jumps (pass 2).
-func (s *solver) combine(w *reachWork, ev *model.Event) {
+func (s *solver) combine(w *reachWork) {
 	w.final = s.finBuf[:0]
 	if w.q == 0 || w.subHi <= w.subLo {
 		return

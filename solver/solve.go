@@ -237,7 +237,7 @@ func (s *solver) solveEvent(ev *model.Event) (*EventResult, error) {
 	// Pass 2: supercritical walk and the final profiles, headwaters first.
 	for _, r := range s.order {
 		w := &s.work[r.Index]
-		s.combine(w, ev)
+		s.combine(w)
 		if s.tooMany {
 			return nil, s.limitError(ev)
 		}
