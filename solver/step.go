@@ -99,7 +99,9 @@ func (f *flowCtx) force(p *piece, y float64) float64 {
 // downstream (supercritical, w = +Δx/2); w = 0 is a transition without
 // friction loss. On either branch the left side minus the target is
 // monotone in y (E rises with y above yc and falls below it; w·Sf moves the
-// same way), so a root exists exactly when it is ≤ 0 at critical depth. ok
+// same way), so a root exists exactly when it is ≤ 0 at critical depth (a
+// points section with more than one critical depth can break that
+// monotony above the overbanks; the bracketed root found is used). ok
 // is false when there is none: the energy available is below what the
 // branch needs, and the caller takes critical depth. guess (0: none) is a
 // predicted depth; a narrow bracket around it is tried first, which saves
