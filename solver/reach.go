@@ -440,7 +440,9 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, pp *pt, a, b pt) (
 	d := func(x float64) float64 {
 		return w.f.force(p, ySup(x)) - w.f.force(p, s.subExact(w, pi, x))
 	}
-	xtol := 1e-10 * math.Max(w.f.length, 1)
+	// The toe to 1e-10 of the reach, or finer on a very short, steep
+	// curve: 1e-8 of the interval searched.
+	xtol := math.Min(1e-10*math.Max(w.f.length, 1), 1e-8*(b.x-a.x))
 	da, db := d(a.x), d(b.x)
 	switch {
 	case da >= 0 && db <= 0 && da != db:
