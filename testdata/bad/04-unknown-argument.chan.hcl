@@ -1,4 +1,4 @@
-# A misspelt argument gets a suggestion from HCL.
+# An argument written twice under two spellings: the stray one is unsupported.
 units = "si"
 section "lined" {
   shape        = "rectangle"
