@@ -1,0 +1,204 @@
+package main
+
+// Benchmarks at scale (issue 6). Inputs are generated here, not stored:
+//
+//	go test ./cmd/chanlint -run '^$' -bench 'Scale' -benchmem -cpu 1
+//	go test ./cmd/chanlint -run '^$' -bench 'ScaleFiles' -benchmem -cpu 2
+//
+// BenchmarkScaleChain checks one model of a long chain of reaches end to
+// end (parse the HCL text, solve, apply the rules); BenchmarkScaleFiles
+// runs `chanlint check` in-process on a tree of many small models and
+// reports the process's peak resident memory.
+
+import (
+	"bytes"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
+	"github.com/chanlint/chanlint/solver"
+)
+
+// chainModel is an invented drainage trunk of n reaches, each length
+// long, in one trapezoidal concrete section on alternating mild slopes,
+// with a tributary inflow every tenth reach and a normal-depth outlet.
+// spacing > 0 sets max_spacing on every reach.
+func chainModel(n int, length, spacing float64) []byte {
+	var b bytes.Buffer
+	b.WriteString(`units = "si"
+title = "Scale test trunk (generated)"
+section "trunk" {
+  shape        = "trapezoid"
+  bottom_width = 4.0
+  side_slope   = 2.0
+  height       = 3.0
+  roughness    = 0.015
+  lining       = "concrete"
+}
+`)
+	for i := range n {
+		slope := 0.0008
+		if i%2 == 1 {
+			slope = 0.0012
+		}
+		fmt.Fprintf(&b, "reach \"r%04d\" {\n  from    = \"n%04d\"\n  to      = \"n%04d\"\n  length  = %g\n  section = \"trunk\"\n  slope   = %g\n", i, i, i+1, length, slope)
+		if spacing > 0 {
+			fmt.Fprintf(&b, "  max_spacing = %g\n", spacing)
+		}
+		b.WriteString("}\n")
+	}
+	b.WriteString("event \"q10\" {\n  inflow = {")
+	for i := 0; i < n; i += 10 {
+		if i > 0 {
+			b.WriteString(",")
+		}
+		fmt.Fprintf(&b, " r%04d = %g", i, 0.5)
+	}
+	b.WriteString(" }\n  outlet = { condition = \"normal\" }\n}\n")
+	return b.Bytes()
+}
+
+// checkChain is one end-to-end check of a model text; it returns the
+// number of computed points.
+func checkChain(b *testing.B, src []byte, pol *policies.Policy) int {
+	m, diags := model.Parse("trunk.chan.hcl", src)
+	if diags.HasErrors() {
+		b.Fatal(diags.Error())
+	}
+	res, err := solver.Solve(m, solver.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	_ = rules.Check(m, res, pol)
+	points := 0
+	for _, er := range res.Events {
+		for _, rr := range er.Reaches {
+			points += len(rr.Points)
+		}
+	}
+	return points
+}
+
+// BenchmarkScaleChain: a 1,000-reach chain of 3 km reaches checked end to
+// end (target: under 30 ms on one core), and the same chain with ten
+// times the computed points, by max_spacing or by reaches ten times
+// longer, to show that the cost grows linearly with computed points. The
+// ns/point metric should stay about constant across the cases.
+func BenchmarkScaleChain(b *testing.B) {
+	pol, diags := policies.Pack("baseline")
+	if diags.HasErrors() {
+		b.Fatal(diags.Error())
+	}
+	base := chainModel(1000, 3000, 0)
+	points1 := checkChain(b, base, pol)
+	// max_spacing for ten times the points of the plain chain: each
+	// double step puts two points at most max_spacing apart.
+	spacing := 3000 * 1000 / float64(10*points1)
+	cases := []struct {
+		name string
+		src  []byte
+	}{
+		{"1000x3km", base},
+		{"1000x3km-spacing10x", chainModel(1000, 3000, spacing)},
+		{"1000x30km-spacing", chainModel(1000, 30000, spacing*10)},
+	}
+	for _, c := range cases {
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			b.SetBytes(int64(len(c.src)))
+			points := 0
+			for b.Loop() {
+				points = checkChain(b, c.src, pol)
+			}
+			b.ReportMetric(float64(points), "points/op")
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(points), "ns/point")
+		})
+	}
+}
+
+// demoSized writes n model files of the demo's size and make-up into dir:
+// copies of the demo with the flows scaled a little per file, so that no
+// two files are solved alike.
+func demoSized(b *testing.B, dir string, n int) {
+	src, err := os.ReadFile(filepath.Join(repoDir(b), "testdata", "demo", "kestrel-ridge.chan.hcl"))
+	if err != nil {
+		b.Fatal(err)
+	}
+	text := string(src)
+	for i := range n {
+		sub := filepath.Join(dir, fmt.Sprintf("d%02d", i/100))
+		if err := os.MkdirAll(sub, 0o755); err != nil {
+			b.Fatal(err)
+		}
+		scale := 1 + float64(i%50)/500
+		out := scaleInflows(text, scale)
+		if err := os.WriteFile(filepath.Join(sub, fmt.Sprintf("m%04d.chan.hcl", i)), []byte(out), 0o644); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// scaleInflows multiplies the numbers of every `inflow = { ... }` line.
+func scaleInflows(text string, f float64) string {
+	lines := strings.Split(text, "\n")
+	for i, l := range lines {
+		if !strings.Contains(l, "inflow") || !strings.Contains(l, "{") {
+			continue
+		}
+		fields := strings.Fields(l)
+		for j, w := range fields {
+			w2 := strings.TrimSuffix(w, ",")
+			if v, err := strconv.ParseFloat(w2, 64); err == nil && j > 0 && fields[j-1] == "=" {
+				fields[j] = strconv.FormatFloat(v*f, 'g', 6, 64) + w[len(w2):]
+			}
+		}
+		lines[i] = "  " + strings.Join(fields, " ")
+	}
+	return strings.Join(lines, "\n")
+}
+
+// peakRSS is the process's peak resident set size in bytes (VmHWM of
+// /proc/self/status), or 0 where that file does not exist.
+func peakRSS() float64 {
+	data, err := os.ReadFile("/proc/self/status")
+	if err != nil {
+		return 0
+	}
+	for _, l := range strings.Split(string(data), "\n") {
+		if rest, ok := strings.CutPrefix(l, "VmHWM:"); ok {
+			kb, err := strconv.ParseFloat(strings.TrimSpace(strings.TrimSuffix(strings.TrimSpace(rest), "kB")), 64)
+			if err == nil {
+				return kb * 1024
+			}
+		}
+	}
+	return 0
+}
+
+// BenchmarkScaleFiles: 1,000 demo-sized model files checked by `chanlint
+// check` in-process with two workers (target: under 1 s on two cores, peak
+// memory under 150 MB). peak-MB is the whole test process's high-water
+// mark, so run this benchmark on its own (-bench ScaleFiles) for a figure
+// that means something.
+func BenchmarkScaleFiles(b *testing.B) {
+	dir := b.TempDir()
+	demoSized(b, dir, 1000)
+	for _, format := range []string{"text", "json"} {
+		b.Run(format, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				code, out, errOut := runIn(dir, runOpts{jobs: 2}, "check", "--format", format, "--color", "never")
+				if code == exitInvalid {
+					b.Fatalf("invalid input: %s %s", errOut, out[:min(len(out), 2000)])
+				}
+			}
+			b.ReportMetric(peakRSS()/1e6, "peak-MB")
+		})
+	}
+}
