@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -201,26 +200,18 @@ func FuzzSolve(f *testing.F) {
 		if err != nil {
 			t.Fatalf("Solve: %v\n%s", err, src)
 		}
-		checkSolved(t, m, res, src, false)
+		checkSolved(t, m, res, src)
 	})
 }
 
-// Tolerances on the specific force across a jump, relative. The toe is
-// located by Brent's method on the force difference with a station
-// tolerance of 1e-10 of the length and depths closed to 1e-7, so the two
-// forces agree to about 1e-6: strictJumpForce allows ten times that.
-// Where the ends of the step do not bracket the force difference the
-// solver interpolates the toe linearly instead (locateJump), and the forces
-// then differ by up to about 4e-4 (a known defect, reported with the
-// regression inputs of testdata/fuzz-known); the fuzzer allows that much
-// so that it keeps looking for other faults.
-const (
-	strictJumpForce  = 1e-5
-	lenientJumpForce = 1e-3
-)
+// jumpForceTol is the relative tolerance on the specific force across a
+// jump. The toe is located by Brent's method on the force difference with
+// a station tolerance of 1e-10 of the length and depths closed to 1e-7, so
+// the two forces agree to about 1e-6; this allows ten times that.
+const jumpForceTol = 1e-5
 
 // checkSolved applies the physical checks of FuzzSolve to a result.
-func checkSolved(t *testing.T, m *model.Model, res *Result, src string, strict bool) {
+func checkSolved(t *testing.T, m *model.Model, res *Result, src string) {
 	t.Helper()
 	requireFinite(t, res)
 	for _, er := range res.Events {
@@ -241,11 +232,7 @@ func checkSolved(t *testing.T, m *model.Model, res *Result, src string, strict b
 				}
 			}
 			checkEnergyClosure(t, m.Units, rr, src)
-			tol := lenientJumpForce
-			if strict {
-				tol = strictJumpForce
-			}
-			checkJumps(t, m.Units, rr, src, tol)
+			checkJumps(t, m.Units, rr, src, jumpForceTol)
 		}
 		checkJunctions(t, er, src)
 	}
@@ -373,31 +360,9 @@ func checkJunctions(t *testing.T, er *EventResult, src string) {
 	}
 }
 
-// knownDefects are fuzz inputs (go test fuzz v1 files under
-// testdata/fuzz-known) that fail the strict checks, with the defect each
-// shows. Each is run strictly and skipped until the solver is fixed; the
-// fuzzer's regression corpus (testdata/fuzz/FuzzSolve) holds only inputs
-// that pass.
-var knownDefects = map[string]string{
-	"jump-force-interpolated": "locateJump falls back to linear interpolation when the step's ends do not bracket the force difference (both ends negative): specific forces across the jump differ by 3.6e-4 relative",
-}
-
-func TestFuzzKnownDefects(t *testing.T) {
-	for name, defect := range knownDefects {
-		t.Run(name, func(t *testing.T) {
-			data := readFuzzFile(t, filepath.Join("testdata", "fuzz-known", name))
-			t.Skip("known defect: " + defect)
-			src := fuzzModel(data)
-			m, diags := model.Parse("fuzz.chan.hcl", []byte(src))
-			require.False(t, diags.HasErrors(), "%s", diags.Error())
-			res, err := Solve(m, Options{MaxPoints: 200_000})
-			require.NoError(t, err)
-			checkSolved(t, m, res, src, true)
-		})
-	}
-}
-
-// readFuzzFile reads the single []byte value of a "go test fuzz v1" file.
+// readFuzzFile reads the single []byte value of a "go test fuzz v1" file,
+// to replay an input of testdata/fuzz/FuzzSolve through fuzzModel when
+// debugging.
 func readFuzzFile(t *testing.T, path string) []byte {
 	t.Helper()
 	raw, err := os.ReadFile(path)
