@@ -202,3 +202,43 @@ func BenchmarkScaleFiles(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkScaleChainStages splits the 1,000-reach check into its stages
+// (parse, solve, rules) to show where the time goes.
+func BenchmarkScaleChainStages(b *testing.B) {
+	pol, diags := policies.Pack("baseline")
+	if diags.HasErrors() {
+		b.Fatal(diags.Error())
+	}
+	src := chainModel(1000, 3000, 0)
+	m, diags := model.Parse("trunk.chan.hcl", src)
+	if diags.HasErrors() {
+		b.Fatal(diags.Error())
+	}
+	res, err := solver.Solve(m, solver.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.Run("parse", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			if _, diags := model.Parse("trunk.chan.hcl", src); diags.HasErrors() {
+				b.Fatal(diags.Error())
+			}
+		}
+	})
+	b.Run("solve", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			if _, err := solver.Solve(m, solver.Options{}); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("rules", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			_ = rules.Check(m, res, pol)
+		}
+	})
+}
