@@ -4,6 +4,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strings"
 	"testing"
@@ -74,6 +75,12 @@ func FuzzPolicy(f *testing.F) {
 			// TestPolicyNestingIsBounded). Keep the fuzzer on other bugs.
 			t.Skip()
 		}
+		if loopPattern.Match(src) {
+			// Known defect, reported: for expressions and template
+			// for-directives multiply (TestPolicyTemplateLoopsAreRejected);
+			// nested ones stall the fuzzer for minutes.
+			t.Skip()
+		}
 		l := NewLoader(repo)
 		p, diags := l.LoadSource(name, src)
 		if (p == nil) != diags.HasErrors() {
@@ -106,6 +113,9 @@ func FuzzPolicy(f *testing.F) {
 		samePolicy(t, p, back, text)
 	})
 }
+
+// loopPattern finds a for expression or a template for-directive.
+var loopPattern = regexp.MustCompile(`([\[{(]|%\{~?)\s*for\s`)
 
 // nestingDepth is the deepest bracket nesting of src, strings ignored.
 func nestingDepth(src []byte) int {
