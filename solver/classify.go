@@ -97,7 +97,7 @@ func (w *reachWork) point(c pt) Point {
 		Velocity:        v,
 		Froude:          math.Sqrt(f2),
 		Energy:          z + c.y + pr.Alpha*v*v/(2*g.g),
-		CriticalDepth:   p.yc,
+		CriticalDepth:   p.ycF,
 		NormalDepth:     p.yn,
 		HasNormal:       p.hasN,
 		Section:         g.Section(),
@@ -109,6 +109,9 @@ func (w *reachWork) point(c pt) Point {
 		Full:            pr.Full,
 	}
 	out.Regime = regimeOf(c.y, p.yc, out.Froude)
+	if c.fallback {
+		out.Regime = Critical
+	}
 	return out
 }
 
@@ -151,8 +154,8 @@ const (
 // zone 1. The piece's own section decides both, so a steep segment in a
 // mild reach shows S profiles.
 func profileType(p *piece, y float64) (string, pointKind) {
-	yc, yn := p.yc, p.yn
-	if math.Abs(y-yc) <= criticalTol*yc {
+	yc, yn := p.ycF, p.yn
+	if math.Abs(y-yc) <= criticalTol*yc || math.Abs(y-p.yc) <= criticalTol*p.yc {
 		return "", kindCritical
 	}
 	uniform := p.hasN && math.Abs(y-yn) <= uniformTol*yn

@@ -39,14 +39,18 @@ func fallbackNotes(final []pt, pieces []piece, dst []Note) []Note {
 			branch = "supercritical"
 		}
 		a, b := final[i].x, final[j].x
-		yc := pieces[final[i].piece].yc
+		p := &pieces[final[i].piece]
+		taken := "critical depth " + num(p.yc)
+		if num(p.yc) != num(p.ycF) {
+			taken = fmt.Sprintf("the depth of least specific energy %s (critical depth %s)", num(p.yc), num(p.ycF))
+		}
 		var msg string
 		if b > a {
-			msg = fmt.Sprintf("the energy equation has no %s solution from station %s to %s: critical depth %s is taken",
-				branch, num(a), num(b), num(yc))
+			msg = fmt.Sprintf("the energy equation has no %s solution from station %s to %s: %s is taken",
+				branch, num(a), num(b), taken)
 		} else {
-			msg = fmt.Sprintf("the energy equation has no %s solution at station %s: critical depth %s is taken",
-				branch, num(a), num(yc))
+			msg = fmt.Sprintf("the energy equation has no %s solution at station %s: %s is taken",
+				branch, num(a), taken)
 		}
 		dst = append(dst, Note{Kind: NoteCriticalFallback, Station: a, Message: msg})
 		i = j + 1

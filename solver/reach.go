@@ -115,7 +115,8 @@ func (s *solver) prepare(w *reachWork, lay *reachLayout) {
 	}
 	for i := range w.pieces {
 		p := &w.pieces[i]
-		p.yc, p.yn, p.hasN, p.class = s.depths(p.geo, w.q, w.f.s0)
+		p.ycF, p.yn, p.hasN, p.class = s.depths(p.geo, w.q, w.f.s0)
+		p.yc = energyMinDepth(p.geo, w.q, p.ycF)
 		p.ec = w.f.eval(p, p.yc).e
 	}
 	if lay.main != nil {
@@ -305,8 +306,12 @@ func (s *solver) combine(w *reachWork) {
 			if c.fallback && k < len(sub) && sub[k].piece == c.piece && sub[k].x > c.x {
 				// Flow passes through critical depth here; try a
 				// supercritical profile downstream of it.
+				// Only where the supercritical flow holds its own against
+				// the subcritical one there (in a points section the
+				// depths of least energy and least force differ).
 				p := &w.pieces[c.piece]
-				if _, ok := w.f.standardStep(p, c.x, p.yc, c.x+(sub[k].x-c.x)/2, true, 0); ok {
+				xm := c.x + (sub[k].x-c.x)/2
+				if y, ok := w.f.standardStep(p, c.x, p.yc, xm, true, 0); ok && !s.dominated(w, p, y, s.subAt(w, c.piece, xm)) {
 					w.final[len(w.final)-1].fallback = false
 					superAt, sx, sy, spi, atCrit = true, c.x, p.yc, c.piece, true
 				}
@@ -330,8 +335,12 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 	var st stepper
 	var tmp [2]pt
 	prev := pt{x: x, y: y, piece: pi, super: true}
-	var pprev pt // the point before prev, when hasPP
-	hasPP := false
+	// runStart indexes w.final at the first point of the current
+	// supercritical run in this piece (the candidates for the toe).
+	runStart := len(w.final) - 1
+	if runStart < 0 || w.final[runStart].x != x || w.final[runStart].piece != pi {
+		runStart = len(w.final)
+	}
 	for ; int(pi) < len(w.pieces); pi++ {
 		p := &w.pieces[pi]
 		if prev.piece != pi {
@@ -351,7 +360,7 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 				return s.firstSubAfter(w, pi-1, c.x), false
 			}
 			w.final = append(w.final, c)
-			prev, atCrit, hasPP = c, !ok, false
+			prev, atCrit, runStart = c, !ok, len(w.final)-1
 		}
 		st.init(&w.f, p, int(pi), true, prev.x, prev.y, atCrit, w.r.MaxSpacing)
 		for _, stop := range w.stops {
@@ -367,26 +376,23 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 					ys := s.subAt(w, pi, c.x)
 					fs, fb := w.f.force(p, c.y), w.f.force(p, ys)
 					if fs-fb < -forceTie*math.Max(fs, fb) {
-						var ppp *pt
-						if hasPP {
-							ppp = &pprev
-						}
-						xt, y1, y2, before := s.locateJump(w, p, pi, ppp, prev, c)
-						if n := len(w.final); before && n > 0 && w.final[n-1].x == prev.x {
-							w.final = w.final[:n-1]
-						}
-						w.final = append(w.final, pt{x: xt, y: y1, piece: pi, super: true})
+						xt, y1, y2 := s.locateJump(w, p, pi, runStart, c)
 						if !(y2 > y1) || !(FroudeNumber(p.geo, w.q, y1) > 1) {
 							// The two profiles meet at critical depth: the
 							// flow turns subcritical without a jump.
+							if n := len(w.final); n == 0 || xt > w.final[n-1].x {
+								w.final = append(w.final, pt{x: xt, y: y1, piece: pi, super: true})
+							}
 							return s.firstSubAfter(w, pi, xt), false
 						}
+						w.final = append(w.final, pt{x: xt, y: y1, piece: pi, super: true})
 						s.addJump(w, p, xt, y1, y2)
-						w.final = append(w.final, pt{x: xt, y: y2, piece: pi})
+						// y2 is exactly the control depth only where the
+						// subcritical profile itself fell back to it.
+						w.final = append(w.final, pt{x: xt, y: y2, piece: pi, fallback: y2 == p.yc})
 						return s.firstSubAfter(w, pi, xt), false
 					}
 					w.final = append(w.final, c)
-					pprev, hasPP = prev, prev.piece == pi && prev.x < c.x
 					prev = c
 					if c.fallback {
 						// Both profiles at critical depth: the flow
@@ -416,17 +422,45 @@ func (s *solver) dominated(w *reachWork, p *piece, y, ys float64) bool {
 //
 //	D(x) = M(y_super(x)) − M(y_sub(x)) = 0
 //
-// Both depths are recomputed at x by a standard step (the supercritical one
-// from the point before x, the subcritical one from the nearest
-// subcritical point downstream), and D is solved by Brent's method between
-// a (the point before b) and b. The detection compares against the
-// interpolated subcritical profile, so the exact D can already be negative
-// at a; the toe then lies between pp (the point before a, when it is in
-// the same piece) and a, and before is true: the caller drops a. Where no
-// bracket holds (a numerical corner), the toe is put at a, or at the linear
-// interpolation of D.
-func (s *solver) locateJump(w *reachWork, p *piece, pi int32, pp *pt, a, b pt) (xt, y1, y2 float64, before bool) {
-	base := a
+// The detection compares against the subcritical profile interpolated
+// linearly, so the toe can lie before the last supercritical point: the
+// computed points of the run (w.final[runStart:], ascending, in piece pi)
+// are checked backwards with the exact D until one has D ≥ 0 (at most
+// jumpBackScan of them), the points after it are dropped from w.final, and
+// D is solved by Brent's method between that point and the next. Both
+// depths are recomputed at x by a standard step: the supercritical one
+// from the point found, the subcritical one from the nearest subcritical
+// point downstream. Where no point of the run has D ≥ 0 the toe is put at
+// the first one; where the ends do not bracket (a numerical corner), at
+// the linear interpolation of D.
+func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt) (xt, y1, y2 float64) {
+	dAt := func(c pt) float64 { return w.f.force(p, c.y) - w.f.force(p, s.subExact(w, pi, c.x)) }
+	k := len(w.final) - 1
+	if runStart < 0 {
+		runStart = 0
+	}
+	next := b
+	var base pt
+	var dBase float64
+	found := false
+	for scanned := 0; k >= runStart && scanned < jumpBackScan; k, scanned = k-1, scanned+1 {
+		c := w.final[k]
+		if c.piece != pi || !c.super {
+			break
+		}
+		if d := dAt(c); d >= 0 {
+			base, dBase, found = c, d, true
+			break
+		}
+		next = c
+	}
+	if !found {
+		// Dominated from the start of the run: the toe is at its first
+		// point examined.
+		w.final = w.final[:k+1]
+		return next.x, next.y, s.subExact(w, pi, next.x)
+	}
+	w.final = w.final[:k+1] // keep base, drop what lies beyond the toe
 	ySup := func(x float64) float64 {
 		if x <= base.x {
 			return base.y
@@ -442,36 +476,27 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, pp *pt, a, b pt) (
 	}
 	// The toe to 1e-10 of the reach, or finer on a very short, steep
 	// curve: 1e-8 of the interval searched.
-	xtol := math.Min(1e-10*math.Max(w.f.length, 1), 1e-8*(b.x-a.x))
-	da, db := d(a.x), d(b.x)
+	xtol := math.Min(1e-10*math.Max(w.f.length, 1), 1e-8*(next.x-base.x))
+	da, db := dBase, d(next.x)
 	switch {
 	case da >= 0 && db <= 0 && da != db:
-		if x, err := Brent(d, a.x, b.x, xtol); err == nil {
+		if x, err := Brent(d, base.x, next.x, xtol); err == nil {
 			xt = x
 		} else {
-			xt = a.x + (b.x-a.x)*da/(da-db)
+			xt = base.x + (next.x-base.x)*da/(da-db)
 		}
-	case da < 0 && pp != nil:
-		base = *pp
-		if dp := d(pp.x); dp >= 0 {
-			if x, err := Brent(d, pp.x, a.x, xtol); err == nil {
-				return x, ySup(x), s.subExact(w, pi, x), true
-			}
-		}
-		base, xt = a, a.x
-	case da < 0:
-		xt = a.x
 	default:
-		fa := w.f.force(p, a.y) - w.f.force(p, s.subAt(w, pi, a.x))
-		fb := w.f.force(p, b.y) - w.f.force(p, s.subAt(w, pi, b.x))
-		t := 0.5
-		if fa != fb {
-			t = math.Min(1, math.Max(0, fa/(fa-fb)))
+		xt = base.x
+		if da != db {
+			xt = base.x + (next.x-base.x)*math.Min(1, math.Max(0, da/(da-db)))
 		}
-		xt = a.x + t*(b.x-a.x)
 	}
-	return xt, ySup(xt), s.subExact(w, pi, xt), false
+	return xt, ySup(xt), s.subExact(w, pi, xt)
 }
+
+// jumpBackScan bounds how many computed points locateJump re-examines
+// before the point where a jump was detected.
+const jumpBackScan = 64
 
 // addJump records a hydraulic jump with toe at station x; a "jump" that
 // does not rise from supercritical flow (y2 ≤ y1 or F1 ≤ 1, two profiles

@@ -38,11 +38,17 @@ const (
 type piece struct {
 	from, to float64
 	geo      *Geometry
-	yc       float64 // critical depth
-	ec       float64 // specific energy at critical depth
-	yn       float64 // normal depth, valid when hasN
-	hasN     bool
-	class    SlopeClass
+	// yc is the control depth that bounds the two branches of the energy
+	// equation and is taken where it has no solution: the depth of least
+	// specific energy. It equals the critical depth ycF (Froude number 1)
+	// except in points sections, where the energy coefficient α changes
+	// with depth and the two part (see energyMinDepth).
+	yc    float64
+	ycF   float64 // critical depth, α·Q²·T/(g·A³) = 1, as reported
+	ec    float64 // specific energy at yc
+	yn    float64 // normal depth, valid when hasN
+	hasN  bool
+	class SlopeClass
 }
 
 // hydraulics of one piece at one depth, as the energy equation needs them.
@@ -367,4 +373,50 @@ func (s *stepper) firstStep(remaining float64) float64 {
 		h = s.dxMin
 	}
 	return math.Min(h, remaining)
+}
+
+// energyMinDepth is the depth of least specific energy E = y + αQ²/(2gA²)
+// next to the critical depth yc. With a constant α (every shape but points
+// sections) it is yc itself (Chow 1959, §3-2). In a points section α
+// varies with depth, dE/dy = 1 − αQ²T/(gA³) + (dα/dy)·Q²/(2gA²), and the
+// minimum can lie several per cent away from where the Froude number is 1;
+// the energy equation changes branch at the minimum, so that is where the
+// subcritical and supercritical branches are split and what a choke takes.
+// Found by a scan of 48 depths over [yc/2, 2·yc] and a golden-section
+// refinement (60 steps) between the neighbours of the lowest sample.
+func energyMinDepth(g *Geometry, q, yc float64) float64 {
+	if g.kind != kindPoints || !(q > 0) || !(yc > 0) {
+		return yc
+	}
+	e := func(y float64) float64 { return SpecificEnergy(g, q, y) }
+	const n = 48
+	lo, hi := yc/2, 2*yc
+	h := (hi - lo) / n
+	best, bestE := 0, math.Inf(1)
+	for i := 0; i <= n; i++ {
+		if v := e(lo + float64(i)*h); v < bestE {
+			best, bestE = i, v
+		}
+	}
+	a := lo + float64(max(best-1, 0))*h
+	b := lo + float64(min(best+1, n))*h
+	const invPhi = 0.6180339887498949 // (√5 − 1)/2
+	c, d := b-invPhi*(b-a), a+invPhi*(b-a)
+	ec, ed := e(c), e(d)
+	for range 60 {
+		if ec < ed {
+			b, d, ed = d, c, ec
+			c = b - invPhi*(b-a)
+			ec = e(c)
+		} else {
+			a, c, ec = c, d, ed
+			d = a + invPhi*(b-a)
+			ed = e(d)
+		}
+	}
+	y := (a + b) / 2
+	if !(y > 0) || math.IsInf(y, 0) {
+		return yc
+	}
+	return y
 }
