@@ -375,6 +375,11 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 				for _, c := range tmp[:n] {
 					ys := s.subAt(w, pi, c.x)
 					fs, fb := w.f.force(p, c.y), w.f.force(p, ys)
+					if fs-fb < -forceTie*math.Max(fs, fb) && !c.fallback {
+						// Confirm against the subcritical depth computed at
+						// this station rather than interpolated.
+						fb = w.f.force(p, s.subExact(w, pi, c.x))
+					}
 					if fs-fb < -forceTie*math.Max(fs, fb) {
 						xt, y1, y2 := s.locateJump(w, p, pi, runStart, c)
 						if !(y2 > y1) || !(FroudeNumber(p.geo, w.q, y1) > 1) {
