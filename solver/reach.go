@@ -185,6 +185,27 @@ func (s *solver) firstSubAfter(w *reachWork, pi int32, x float64) int {
 	return lo + sort.Search(len(pts), func(i int) bool { return pts[i].x > x })
 }
 
+// subFallbackAt reports whether the subcritical profile of piece pi does
+// not exist at station x: the computed points on both sides of x (or the
+// one at x) are critical-depth fallbacks. Supercritical flow is never
+// compared with such a stretch: there is no subcritical flow to jump to.
+func (s *solver) subFallbackAt(w *reachWork, pi int32, x float64) bool {
+	sub := s.subBuf[w.subLo:w.subHi]
+	lo, hi := int(w.subPiece[pi]), int(w.subPiece[pi+1])
+	if hi <= lo {
+		return true
+	}
+	pts := sub[lo:hi]
+	j := sort.Search(len(pts), func(i int) bool { return pts[i].x >= x })
+	if j == len(pts) {
+		j = len(pts) - 1
+	}
+	if !pts[j].fallback {
+		return false
+	}
+	return pts[j].x == x || j == 0 || pts[j-1].fallback
+}
+
 // subcritical computes the reach's subcritical profile upstream from its
 // downstream control into solver.subBuf (pass 1).
 func (s *solver) subcritical(w *reachWork, ev *model.Event) {
@@ -311,7 +332,7 @@ func (s *solver) combine(w *reachWork) {
 				// depths of least energy and least force differ).
 				p := &w.pieces[c.piece]
 				xm := c.x + (sub[k].x-c.x)/2
-				if y, ok := w.f.standardStep(p, c.x, p.yc, xm, true, 0); ok && !s.dominated(w, p, y, s.subAt(w, c.piece, xm)) {
+				if y, ok := w.f.standardStep(p, c.x, p.yc, xm, true, 0); ok && (s.subFallbackAt(w, c.piece, xm) || !s.dominated(w, p, y, s.subAt(w, c.piece, xm))) {
 					w.final[len(w.final)-1].fallback = false
 					superAt, sx, sy, spi, atCrit = true, c.x, p.yc, c.piece, true
 				}
@@ -375,13 +396,24 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 				for _, c := range tmp[:n] {
 					ys := s.subAt(w, pi, c.x)
 					fs, fb := w.f.force(p, c.y), w.f.force(p, ys)
+					if s.subFallbackAt(w, pi, c.x) {
+						fb = fs // no subcritical flow here to jump to
+					}
 					if fs-fb < -forceTie*math.Max(fs, fb) && !c.fallback {
 						// Confirm against the subcritical depth computed at
 						// this station rather than interpolated.
 						fb = w.f.force(p, s.subExact(w, pi, c.x))
 					}
 					if fs-fb < -forceTie*math.Max(fs, fb) {
-						xt, y1, y2 := s.locateJump(w, p, pi, runStart, c)
+						xt, y1, y2, ok := s.locateJump(w, p, pi, runStart, c)
+						if !ok {
+							w.final = w.final[:min(runStart+1, len(w.final))]
+							first := &w.final[len(w.final)-1]
+							if first.y == p.yc {
+								first.fallback, first.super = true, false
+							}
+							return s.firstSubAfter(w, first.piece, first.x), false
+						}
 						if !(y2 > y1) || !(FroudeNumber(p.geo, w.q, y1) > 1) {
 							// The two profiles meet at critical depth: the
 							// flow turns subcritical without a jump.
@@ -435,11 +467,22 @@ func (s *solver) dominated(w *reachWork, p *piece, y, ys float64) bool {
 // D is solved by Brent's method between that point and the next. Both
 // depths are recomputed at x by a standard step: the supercritical one
 // from the point found, the subcritical one from the nearest subcritical
-// point downstream. Where no point of the run has D ≥ 0 the toe is put at
-// the first one; where the ends do not bracket (a numerical corner), at
-// the linear interpolation of D.
-func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt) (xt, y1, y2 float64) {
-	dAt := func(c pt) float64 { return w.f.force(p, c.y) - w.f.force(p, s.subExact(w, pi, c.x)) }
+// point downstream. Where no point of the run has D ≥ 0, ok is false: the
+// run was drowned from its start and there is no jump. Where the ends do
+// not bracket (a numerical corner), the toe is put at the linear
+// interpolation of D.
+func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt) (xt, y1, y2 float64, ok bool) {
+	// Where the subcritical profile does not exist the supercritical flow
+	// holds: D is kept positive there.
+	diff := func(x, y float64) float64 {
+		fs := w.f.force(p, y)
+		d := fs - w.f.force(p, s.subExact(w, pi, x))
+		if s.subFallbackAt(w, pi, x) {
+			d = math.Max(d, forceTie*fs)
+		}
+		return d
+	}
+	dAt := func(c pt) float64 { return diff(c.x, c.y) }
 	k := len(w.final) - 1
 	if runStart < 0 {
 		runStart = 0
@@ -460,10 +503,11 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt
 		next = c
 	}
 	if !found {
-		// Dominated from the start of the run: the toe is at its first
-		// point examined.
-		w.final = w.final[:k+1]
-		return next.x, next.y, s.subExact(w, pi, next.x)
+		// Drowned from the first point of the run: that start (a depth of
+		// least energy where the subcritical profile fell back, in a
+		// points section whose depths of least energy and least force
+		// differ) does not start supercritical flow after all.
+		return 0, 0, 0, false
 	}
 	w.final = w.final[:k+1] // keep base, drop what lies beyond the toe
 	ySup := func(x float64) float64 {
@@ -476,9 +520,7 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt
 		}
 		return y
 	}
-	d := func(x float64) float64 {
-		return w.f.force(p, ySup(x)) - w.f.force(p, s.subExact(w, pi, x))
-	}
+	d := func(x float64) float64 { return diff(x, ySup(x)) }
 	// The toe to 1e-10 of the reach, or finer on a very short, steep
 	// curve: 1e-8 of the interval searched.
 	xtol := math.Min(1e-10*math.Max(w.f.length, 1), 1e-8*(next.x-base.x))
@@ -496,7 +538,7 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt
 			xt = base.x + (next.x-base.x)*math.Min(1, math.Max(0, da/(da-db)))
 		}
 	}
-	return xt, ySup(xt), s.subExact(w, pi, xt)
+	return xt, ySup(xt), s.subExact(w, pi, xt), true
 }
 
 // jumpBackScan bounds how many computed points locateJump re-examines
