@@ -187,8 +187,9 @@ func (s *solver) firstSubAfter(w *reachWork, pi int32, x float64) int {
 
 // subFallbackAt reports whether the subcritical profile of piece pi does
 // not exist at station x: the computed points on both sides of x (or the
-// one at x) are critical-depth fallbacks. Supercritical flow is never
-// compared with such a stretch: there is no subcritical flow to jump to.
+// one at x) are at the control depth, as fallbacks or as a critical
+// control (a free outfall, a drop). Supercritical flow is never compared
+// with such a stretch: there is no subcritical flow there to jump to.
 func (s *solver) subFallbackAt(w *reachWork, pi int32, x float64) bool {
 	sub := s.subBuf[w.subLo:w.subHi]
 	lo, hi := int(w.subPiece[pi]), int(w.subPiece[pi+1])
@@ -196,14 +197,16 @@ func (s *solver) subFallbackAt(w *reachWork, pi int32, x float64) bool {
 		return true
 	}
 	pts := sub[lo:hi]
+	yc := w.pieces[pi].yc
+	crit := func(c pt) bool { return c.fallback || c.y == yc }
 	j := sort.Search(len(pts), func(i int) bool { return pts[i].x >= x })
 	if j == len(pts) {
 		j = len(pts) - 1
 	}
-	if !pts[j].fallback {
+	if !crit(pts[j]) {
 		return false
 	}
-	return pts[j].x == x || j == 0 || pts[j-1].fallback
+	return pts[j].x == x || j == 0 || crit(pts[j-1])
 }
 
 // subcritical computes the reach's subcritical profile upstream from its
