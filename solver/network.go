@@ -299,7 +299,7 @@ func (s *solver) drowned(w *reachWork, c superControl, ySub float64) {
 	default:
 		p0 := &w.pieces[0]
 		w.final = append(w.final, pt{x: 0, y: c.y, piece: 0, super: true})
-		s.addJump(w, p0, 0, c.y, ySub)
+		s.addJump(w, p0, 0, c.y, ySub, "at the junction")
 		w.res.Notes = append(w.res.Notes, noteControl(0,
 			"supercritical flow arriving at node %q (depth %s) meets subcritical flow (depth %s) with a greater specific force: the jump forms at or upstream of the junction and is placed at station 0",
 			w.r.From, num(c.y), num(ySub)))

@@ -379,7 +379,7 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 			if s.dominated(w, p, c.y, ys) {
 				// The jump is held at the section change.
 				y2s := s.subAt(w, pi-1, c.x)
-				s.addJump(w, up, c.x, prev.y, y2s)
+				s.addJump(w, up, c.x, prev.y, y2s, "the section changes there")
 				w.final = append(w.final, pt{x: c.x, y: y2s, piece: pi - 1})
 				return s.firstSubAfter(w, pi-1, c.x), false
 			}
@@ -426,7 +426,7 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 							return s.firstSubAfter(w, pi, xt), false
 						}
 						w.final = append(w.final, pt{x: xt, y: y1, piece: pi, super: true})
-						s.addJump(w, p, xt, y1, y2)
+						s.addJump(w, p, xt, y1, y2, "where the subcritical profile begins")
 						// y2 is exactly the control depth only where the
 						// subcritical profile itself fell back to it.
 						w.final = append(w.final, pt{x: xt, y: y2, piece: pi, fallback: y2 == p.yc})
@@ -544,17 +544,30 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt
 	return xt, ySup(xt), s.subExact(w, pi, xt), true
 }
 
+// unbalancedJump is the relative difference of specific force above which
+// a jump is reported as held rather than balanced; a located toe balances
+// to about 1e-7.
+const unbalancedJump = 1e-5
+
 // jumpBackScan bounds how many computed points locateJump re-examines
 // before the point where a jump was detected.
 const jumpBackScan = 64
 
 // addJump records a hydraulic jump with toe at station x; a "jump" that
 // does not rise from supercritical flow (y2 ≤ y1 or F1 ≤ 1, two profiles
-// meeting at critical depth) is not one and is not recorded.
-func (s *solver) addJump(w *reachWork, p *piece, x, y1, y2 float64) {
+// meeting at critical depth) is not one and is not recorded. A jump whose
+// two depths do not balance in specific force (held by a change of
+// section, a junction, or the start of the subcritical profile in a points
+// section) gets a NoteControl saying why (the why argument).
+func (s *solver) addJump(w *reachWork, p *piece, x, y1, y2 float64, why string) {
 	f1 := FroudeNumber(p.geo, w.q, y1)
 	if !(y2 > y1) || !(f1 > 1) {
 		return
+	}
+	if m1, m2 := w.f.force(p, y1), w.f.force(p, y2); math.Abs(m1-m2) > unbalancedJump*math.Max(m1, m2) {
+		w.res.Notes = append(w.res.Notes, noteControl(x,
+			"the jump is held at station %s (%s): the specific forces on its two sides differ by %s %%, so its depths are those of the two profiles there, not a sequent pair",
+			num(x), why, num(100*math.Abs(m1-m2)/math.Max(m1, m2))))
 	}
 	j := Jump{
 		Station:         x,
