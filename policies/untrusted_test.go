@@ -94,14 +94,12 @@ func TestPolicyNotARegularFile(t *testing.T) {
 	assert.Equal(t, "Cannot read policy file", diags[0].Summary)
 }
 
-// TestPolicyNestingIsBounded: a policy of many open brackets must end in
-// a diagnostic. hclsyntax recurses once per bracket, and at about 100,000
+// TestPolicyNestingIsBounded: a policy of many open brackets ends in a
+// diagnostic. hclsyntax recurses once per bracket, and at about 100,000
 // levels the Go stack limit is reached: the process dies with "fatal error:
-// stack overflow", which no recover can catch, so one policy file can
-// crash a whole check. The model loader guards against this with
-// model.MaxNesting before parsing; the policy loader does not yet.
+// stack overflow", which no recover can catch, so without the bound one
+// policy file could crash a whole check.
 func TestPolicyNestingIsBounded(t *testing.T) {
-	t.Skip("known defect: policies parse without a nesting bound; a policy with 100,000 '[' crashes the process (fatal stack overflow). Fix: scan nesting before ParseHCL as model.Parse does")
 	src := fmt.Sprintf(untrustedPolicy, strings.Repeat("[", 200_000))
 	p, diags, _ := loadSource(t, src)
 	require.Nil(t, p)
@@ -111,11 +109,10 @@ func TestPolicyNestingIsBounded(t *testing.T) {
 
 // TestPolicyTemplateLoopsAreRejected: template for-directives and for
 // expressions over literal lists multiply: five nested loops over 40 items
-// in a 618-byte reference string build a 1 GB string (measured: 7 minutes
-// and 8.3 GB of memory before the policy loads). The model language
-// rejects every for expression; the policy language should too.
+// in a 618-byte reference string would build a 1 GB string (measured
+// before they were rejected: 7 minutes and 8.3 GB of memory). They are a
+// diagnostic at the template, as in a model.
 func TestPolicyTemplateLoopsAreRejected(t *testing.T) {
-	t.Skip("known defect: policies evaluate for expressions and template for-directives; nested loops in a few hundred bytes take minutes and gigabytes. Fix: reject them as model.literalOnly does")
 	items := "[" + strings.TrimSuffix(strings.Repeat("1,", 40), ",") + "]"
 	expr := "xxxxxxxxxx"
 	for i := range 5 {
@@ -125,4 +122,16 @@ func TestPolicyTemplateLoopsAreRejected(t *testing.T) {
 	require.Nil(t, p)
 	require.True(t, diags.HasErrors())
 	assert.Equal(t, 3, diags[0].Subject.Start.Line)
+}
+
+// TestPolicyForExpressionRejected: a for expression is a diagnostic at the
+// expression, not evaluated.
+func TestPolicyForExpressionRejected(t *testing.T) {
+	src := strings.Replace(fmt.Sprintf(untrustedPolicy, `"r"`), "jump_containment {}",
+		"froude_band {\n    avoid = [for x in [1, 2] : [x, x]]\n  }", 1)
+	p, diags, _ := loadSource(t, src)
+	require.Nil(t, p)
+	errs := errorsOnly(diags)
+	require.Len(t, errs, 1, "%s", diags.Error())
+	assert.Equal(t, 5, errs[0].Subject.Start.Line)
 }
