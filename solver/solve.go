@@ -69,6 +69,13 @@ const (
 //     subcritical depth y2 at the toe (two points at one station) and the
 //     subcritical profile from there on; the roller's length is reported
 //     on the Jump, not drawn into the profile.
+//   - Points sections: the energy coefficient α varies with depth, so the
+//     depth of least specific energy differs from the critical depth
+//     (Froude number 1). The branches of the energy equation are split,
+//     and fallbacks taken, at the former; Point.CriticalDepth and the
+//     profile zones use the latter. A jump whose two depths cannot balance
+//     in specific force (held at a section change, a junction, or the start
+//     of the subcritical profile) carries a NoteControl at its toe.
 //   - Junctions, gates and outlet controls: see network.go.
 //   - Slope classes and profile types: see classOf and profileType.
 //
