@@ -2,6 +2,7 @@ package main
 
 import (
 	"errors"
+	"fmt"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -119,8 +120,16 @@ func (w *walker) walk(dir, real string) {
 		switch {
 		case e.Type()&fs.ModeSymlink != 0:
 			target, err := filepath.EvalSymlinks(p)
-			if err != nil || !within(w.root, target) {
-				continue // dangling, or outside the checked tree
+			if err != nil {
+				continue // dangling, or a loop
+			}
+			if !within(w.root, target) {
+				// Say so, naming the link but not where it leads: a
+				// submittal must not learn about the reviewer's files.
+				if w.app.stderr != nil {
+					fmt.Fprintf(w.app.stderr, "chanlint: not following %s: the link leads outside the checked directory\n", w.app.display(p))
+				}
+				continue
 			}
 			info, err := os.Stat(target)
 			if err != nil {
