@@ -159,9 +159,11 @@ var (
 	// Source: standard gravity 9.80665 m/s² (CGPM 1901); Manning k = 1
 	// (SI); γ = 1000 kg/m³ × g (common practice).
 	siUnits = uniformUnits{g: 9.80665, k: 1, gamma: 9806.65, length: 1, stress: 1}
-	// Source: g = 32.174 ft/s², k = 1.486 (3.2808^(1/3)), γ = 62.4 lb/ft³
-	// (common practice); 1 ft = 0.3048 m; 1 lbf/ft² = 47.880259 N/m².
-	usUnits = uniformUnits{g: 32.174, k: 1.486, gamma: 62.4, length: 0.3048, stress: 4.4482216152605 / 0.09290304}
+	// Source: g = 32.174 ft/s², k = 1.486 (3.2808^(1/3)) (common practice);
+	// γ = 9806.65 N/m³ in lb/ft³ = 62.428; 1 ft = 0.3048 m and
+	// 1 lbf = 4.4482216152605 N exactly (NIST SP 811), so
+	// 1 lbf/ft² = 47.880259 N/m².
+	usUnits = uniformUnits{g: 32.174, k: 1.486, gamma: 9806.65 * 0.3048 * 0.09290304 / 4.4482216152605, length: 0.3048, stress: 4.4482216152605 / 0.09290304}
 )
 
 // manningNormalDepth solves Q = (k/n)·A·R^(2/3)·√S for a rectangle of
@@ -294,8 +296,7 @@ func TestGoldenPolicyUnits(t *testing.T) {
 
 // TestGoldenModelUnits: the same channel written in feet gives the SI
 // model's findings with every value converted. Tolerance 0.1 %: US
-// Manning's k = 1.486 and γ = 62.4 lb/ft³ are rounded (1.48592 and 62.428
-// exactly).
+// Manning's k = 1.486 is rounded (1.48592 exactly).
 func TestGoldenModelUnits(t *testing.T) {
 	_, _, si := golden(t, "uniform.chan.hcl", "golden.policy.hcl")
 	_, _, us := golden(t, "uniform-us.chan.hcl", "golden.policy.hcl")

@@ -10,11 +10,14 @@ import (
 )
 
 // unitWeight is the unit weight of water γ = ρ·g: 1000 kg/m³ × 9.80665
-// m/s² = 9806.65 N/m³ in SI, and 62.4 lb/ft³ in US customary units.
+// m/s² = 9806.65 N/m³ in SI, and the same weight in US customary units,
+// 9806.65 N/m³ × 0.3048 m/ft ÷ 47.880259 (N/m²)/(lb/ft²) = 62.428 lb/ft³
+// (the textbook 62.4 rounded), so that an SI and a US model of one
+// channel give the same findings.
 // Source: common practice (no published source).
 func unitWeight(u model.Units) float64 {
 	if u == model.US {
-		return 62.4
+		return 9806.65 * policies.MetresPerFoot / policies.PascalsPerPSF
 	}
 	return 9806.65
 }
@@ -30,7 +33,7 @@ reach and section merge into one span.
 
 Formula:
     τ = γ · R · Sf
-γ unit weight of water (9806.65 N/m³; 62.4 lb/ft³), R hydraulic radius,
+γ unit weight of water (9806.65 N/m³; 62.428 lb/ft³), R hydraulic radius,
 Sf the friction slope of the computed point (Manning): in uniform flow it
 equals the bed slope, and in varied flow it is the slope that actually
 drags on the boundary, so it is used rather than the bed slope.

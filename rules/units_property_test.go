@@ -167,10 +167,10 @@ func groupFindings(fs []Finding) map[findingKey][]Finding {
 // absolute tolerances are in each file's unit), so a value within valueTol
 // of its limit may pass in one system and fail in the other, and a span
 // boundary may move by one computed point: boundaries are compared within
-// the spacing of the computed points around them. Shear stress also takes γ = 62.4 lb/ft³ in
-// US units where 9806.65 N/m³ is 62.428 lb/ft³, 4.5e-4 lower: its values
-// are compared within shearTol (reported to the lead as a unit
-// inconsistency).
+// the spacing of the computed points around them. Shear stress takes γ = 9806.65 N/m³
+// converted exactly (62.428 lb/ft³) in US units; its values are still
+// compared within shearTol, which covers the friction slope's share of the
+// differences above.
 func TestFindingsIndependentOfUnits(t *testing.T) {
 	// Source: common practice (no published source): a unit system is a
 	// notation, not a design choice; the tolerances follow from the
