@@ -155,8 +155,9 @@ type Options struct {
 	// in the model's length unit; 0 means the solver's documented default.
 	// Accuracy comes from step control, not from this closure alone.
 	Tolerance float64
-	// MaxPoints bounds the computed points of one event (0: 1,000,000);
-	// exceeding it ends Solve with ErrTooManyPoints.
+	// MaxPoints bounds the computed points of the whole Solve call, all
+	// events together (0: DefaultMaxPoints, 1,000,000); exceeding it ends
+	// Solve with ErrTooManyPoints.
 	MaxPoints int
 	// Events restricts solving to the named events (nil: all).
 	Events []string

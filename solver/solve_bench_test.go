@@ -2,6 +2,8 @@ package solver
 
 import (
 	"fmt"
+	"runtime"
+	"strings"
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
@@ -113,4 +115,37 @@ func BenchmarkChain1000Varied(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+// BenchmarkPointMemory measures the memory a computed point costs, the
+// figure behind DefaultMaxPoints: one event of one 24 km reach at
+// max_spacing 0.25 m (96,001 points). B/point is the memory allocated per
+// point kept in the result (the Point itself and the work buffers grown
+// for it); heapB/point is the live heap per point after Solve while the
+// result is held.
+func BenchmarkPointMemory(b *testing.B) {
+	src := strings.Replace(hostileEvents(1), "length = 240000", "length = 24000", 1)
+	m, diags := model.Parse("mem.chan.hcl", []byte(src))
+	if diags.HasErrors() {
+		b.Fatal(diags.Error())
+	}
+	b.ReportAllocs()
+	points := 0
+	var heap uint64
+	for b.Loop() {
+		var before, after runtime.MemStats
+		runtime.GC()
+		runtime.ReadMemStats(&before)
+		res, err := Solve(m, Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		runtime.GC()
+		runtime.ReadMemStats(&after)
+		points = len(res.Events[0].Reaches[0].Points)
+		heap = after.HeapAlloc - min(before.HeapAlloc, after.HeapAlloc)
+		runtime.KeepAlive(res)
+	}
+	b.ReportMetric(float64(points), "points/op")
+	b.ReportMetric(float64(heap)/float64(points), "heapB/point")
 }
