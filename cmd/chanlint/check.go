@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bufio"
 	"bytes"
 	"errors"
 	"flag"
@@ -93,14 +94,28 @@ baseline, or a wrong command line.
 `
 }
 
-// fileResult is everything learnt about one model file.
+// fileResult is what is learnt about one model file and kept for the
+// output. The model and its solution are kept only when asked for (by
+// `report`): `check` needs only the findings, the length unit and, for
+// snippets and SARIF, the source bytes, and dropping the rest as soon as
+// the rules have run bounds the memory of a large run.
 type fileResult struct {
 	file     modelFile
 	src      []byte
 	model    *model.Model
 	result   *solver.Result
+	units    string // the model's length unit; "" when there is no model
 	findings []rules.Finding
 	invalid  bool
+}
+
+// keep says what checkFile keeps of a file besides its findings.
+type keep struct {
+	// solved keeps the model and its solution.
+	solved bool
+	// source keeps the source bytes of a valid model; an invalid model's
+	// source is always kept, for the snippets under its diagnostics.
+	source bool
 }
 
 func (a *app) runCheck(args []string) int {
@@ -135,7 +150,9 @@ func (a *app) runCheck(args []string) int {
 		return exitInvalid
 	}
 
-	results := a.checkPaths(paths, pol, cf.jobs)
+	// Only SARIF needs the source of a valid model (artifact lengths,
+	// hashes and character offsets).
+	results := a.checkPaths(paths, pol, cf.jobs, keep{source: cf.format.value == "sarif"})
 	if len(results) == 0 {
 		fmt.Fprintf(a.stderr, "chanlint check: no *%s files found under %s\n", model.Suffix, strings.Join(orDot(paths), ", "))
 	}
@@ -147,20 +164,24 @@ func (a *app) runCheck(args []string) int {
 		app: a, results: results, shown: shown, policy: pol,
 		knownCount: knownCount, baselinePath: cf.baseline,
 	}
-	var out bytes.Buffer
+	// The output goes straight to stdout, not through a buffer of its
+	// own: a large run's JSON or SARIF document is tens of megabytes. The
+	// encoders marshal the whole document before they write, so a
+	// document that cannot be encoded writes nothing.
+	out := bufio.NewWriterSize(a.stdout, 64<<10)
 	switch cf.format.value {
 	case "json":
-		err = run.writeJSON(&out)
+		err = run.writeJSON(out)
 	case "sarif":
-		err = run.writeSARIF(&out)
+		err = run.writeSARIF(out)
 	default:
-		run.writeText(&out, pal)
+		run.writeText(out, pal)
 	}
 	if err != nil {
 		fmt.Fprintf(a.stderr, "chanlint check: cannot write %s output: %v\n", cf.format.value, err)
 		return exitInvalid
 	}
-	if _, err := a.stdout.Write(out.Bytes()); err != nil {
+	if err := out.Flush(); err != nil {
 		return exitInvalid
 	}
 
@@ -175,8 +196,9 @@ func (a *app) runCheck(args []string) int {
 
 // checkPaths discovers the models under paths and checks them with up to
 // jobs workers (0: the default). Path problems become invalid results; the
-// results are in discovery order, whatever the number of workers.
-func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int) []*fileResult {
+// results are in discovery order, whatever the number of workers; k says
+// what each keeps besides its findings.
+func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k keep) []*fileResult {
 	files, problems := a.discover(paths)
 	results := make([]*fileResult, 0, len(problems)+len(files))
 	for _, p := range problems {
@@ -191,12 +213,25 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int) []*file
 		jobs = a.defaultJobs
 	}
 	prog := a.newProgress(len(files))
+	stderr := &lockedWriter{w: a.stderr}
 	parallel(len(files), jobs, func(i int) {
-		checked[i] = checkFile(files[i], pol)
+		checked[i] = checkFile(files[i], pol, k, stderr)
 		prog.step()
 	})
 	prog.done()
 	return append(results, checked...)
+}
+
+// lockedWriter serialises the writes of the workers to one stream.
+type lockedWriter struct {
+	mu sync.Mutex
+	w  io.Writer
+}
+
+func (l *lockedWriter) Write(p []byte) (int, error) {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	return l.w.Write(p)
 }
 
 // orDot is paths, or "." when there are none.
@@ -277,23 +312,30 @@ func inputFinding(file, msg string) rules.Finding {
 	return rules.Finding{Rule: "model", Severity: policies.Error, Message: msg, File: file}
 }
 
-// checkFile loads, solves and checks one model. It never panics: a failure
-// of a later stage is reported as a finding of the file.
-func checkFile(f modelFile, pol *policies.Policy) (r *fileResult) {
+// checkFile loads, solves and checks one model, keeping what k asks for.
+// It never panics: a failure of a later stage is reported as a finding of
+// the file, with a fixed message so that the output stays deterministic;
+// the stack goes to stderr for the bug report.
+func checkFile(f modelFile, pol *policies.Policy, k keep, stderr io.Writer) (r *fileResult) {
 	r = &fileResult{file: f}
 	defer func() {
 		if v := recover(); v != nil {
+			fmt.Fprintf(stderr, "chanlint: internal error while checking %s: %v\n%s", f.display, v, debug.Stack())
 			r.invalid = true
-			r.findings = append(r.findings, rules.Finding{
-				Rule: "solver", Severity: policies.Error, File: f.display,
-				Message: fmt.Sprintf("internal error while checking this model: %v; please report it with the model file\n%s", v, debug.Stack()),
-			})
+			r.findings = append(r.findings, panicFinding(f.display, v))
+		}
+		if !k.solved {
+			r.model, r.result = nil, nil
+		}
+		if !k.source && !r.invalid {
+			r.src = nil
 		}
 	}()
 	r.src, r.model, r.findings, r.invalid = loadModel(f)
 	if r.invalid {
 		return r
 	}
+	r.units = r.model.Units.Length()
 	res, err := solver.Solve(r.model, solver.Options{})
 	if err != nil {
 		r.invalid = true
@@ -301,8 +343,23 @@ func checkFile(f modelFile, pol *policies.Policy) (r *fileResult) {
 		return r
 	}
 	r.result = res
-	r.findings = append(r.findings, rules.Check(r.model, res, pol)...)
+	r.findings = append(r.findings, checkRules(r.model, res, pol)...)
 	return r
+}
+
+// checkRules is the rules stage of checkFile; a variable so that a test
+// can make the stage fail.
+var checkRules = rules.Check
+
+// panicFinding is the finding of a file whose check ended in a recovered
+// panic v. The message holds v (a fixed text or a runtime error, the same
+// on every run) but never the stack, whose addresses and goroutine
+// numbers vary between runs.
+func panicFinding(file string, v any) rules.Finding {
+	return rules.Finding{
+		Rule: "solver", Severity: policies.Error, File: file,
+		Message: fmt.Sprintf("internal error while checking this model: %v; please report it with the model file and the stack printed on stderr", v),
+	}
 }
 
 // loadModel reads and parses one model file. invalid is true when there
@@ -495,8 +552,8 @@ func (c *checkRun) exitCode(failOn policies.Severity, writingBaseline bool) int 
 
 // unit is the length unit of a file's model ("m" when unknown).
 func (r *fileResult) unit() string {
-	if r.model != nil {
-		return r.model.Units.Length()
+	if r.units != "" {
+		return r.units
 	}
 	return "m"
 }

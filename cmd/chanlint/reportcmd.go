@@ -92,7 +92,7 @@ func (a *app) runReport(args []string) int {
 	if !ok {
 		return exitInvalid
 	}
-	results := a.checkPaths(paths, pol, rf.jobs)
+	results := a.checkPaths(paths, pol, rf.jobs, keep{solved: true, source: true})
 
 	in := report.Input{Policy: pol, Caution: rules.Caution, ToolVersion: toolVersion()}
 	status := exitOK
