@@ -11,23 +11,32 @@ import (
 
 var solverRule = &Rule{
 	ID:       "solver",
-	Title:    "The solver fell back, did not converge, or could not apply a control",
+	Title:    "The solver fell back, did not converge, could not apply a control, or made an assumption",
 	Severity: policies.Warning,
 	AlwaysOn: true,
 	Doc: `What it checks: (always on) the notes the solver records while
 computing each reach, which mean the results near them are less certain
-than elsewhere. Every note becomes a warning at the reach, at its station;
-notes of one kind at contiguous computed points merge into one span.
+than elsewhere, or the assumptions they rest on. Every note becomes a
+finding at the reach, at its station; notes of one kind at contiguous
+computed points merge into one span. Warnings:
   - critical_fallback: the energy equation had no solution between two
     computed points and critical depth was taken there (an abrupt change of
     section or slope, or a control the flow cannot meet).
   - no_convergence: the iteration did not close within its tolerance.
   - control: a boundary condition could not act as written (an outlet depth
-    that cannot control supercritical flow, a drowned gate, a
-    supercritical junction).
+    that cannot control supercritical flow, a drowned gate or entrance
+    depth, supercritical inflow below the critical energy of the reach it
+    enters, a jump the solver had to place at a junction).
+Information (severity info):
+  - assumption: the results rest on a simplification of the method, not
+    on a failure: supercritical flows meeting at a junction (the depth
+    below it is taken from the discharge-weighted energy, without the
+    shock waves), a reach that carries no discharge in the event, or a
+    jump held at a change of section, whose depths are those of the two
+    profiles there rather than a sequent pair.
 A reach of an event with no computed point, and a computed point with a
-number that is not finite, are also reported: the other rules could not
-check them.
+number that is not finite, are also reported as warnings: the other rules
+could not check them.
 
 Formula: none; the standard-step energy balance
     z1 + y1 + α1V1²/2g = z2 + y2 + α2V2²/2g + hf
@@ -59,6 +68,9 @@ func checkSolver(ctx *Context, report func(Finding)) {
 			f := base
 			f.FromStation, f.ToStation, f.HasSpan = g.from, g.to, true
 			f.Message = noteMessage(g, u)
+			if g.kind == solver.NoteInfo {
+				f.Severity = policies.Info
+			}
 			report(f)
 		}
 		var bad []float64
@@ -133,6 +145,9 @@ func noteMessage(g noteGroup, u model.Units) string {
 	case solver.NoteControl:
 		return fmt.Sprintf("a boundary condition could not act as written %s%s; check the outlet, gate and "+
 			"entrance conditions against the flow regime", where, detail)
+	case solver.NoteInfo:
+		return fmt.Sprintf("the solution rests on an assumption of the method %s%s; "+
+			"review the results there with that in mind", where, detail)
 	}
 	return fmt.Sprintf("the solver noted %s %s%s", g.kind, where, detail)
 }

@@ -47,7 +47,7 @@ func (s *solver) dryReach(w *reachWork) {
 		p := Point{Station: x, Invert: z, WSE: z, Energy: z, Regime: Subcritical, Section: w.r.SectionAt(x), Alpha: 1}
 		res.Points = append(res.Points, p)
 	}
-	res.Notes = append(res.Notes, noteControl(0, "the reach carries no discharge in this event: nothing is computed"))
+	res.Notes = append(res.Notes, noteInfo(0, "the reach carries no discharge in this event: nothing is computed"))
 	sanitize(res)
 }
 

@@ -151,7 +151,7 @@ func TestDryReach(t *testing.T) {
 	requireFinite(t, res)
 	dry := res.Events[0].Reaches[0]
 	require.NotEmpty(t, dry.Points)
-	require.True(t, hasNote(dry, NoteControl, "no discharge"))
+	require.True(t, hasNote(dry, NoteInfo, "no discharge"))
 	require.InDelta(t, 5, res.Events[0].Reaches[2].Discharge, 1e-12)
 }
 

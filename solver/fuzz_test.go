@@ -331,10 +331,12 @@ func atSectionChange(r *model.Reach, x float64) bool {
 	return false
 }
 
-// placedByNote reports whether a control note sits at station x.
+// placedByNote reports whether a control note, or the note of a held
+// jump, sits at station x.
 func placedByNote(rr *ReachResult, x float64) bool {
 	for _, n := range rr.Notes {
-		if n.Kind == NoteControl && n.Station == x {
+		held := n.Kind == NoteInfo && strings.Contains(n.Message, "the jump is held")
+		if (n.Kind == NoteControl || held) && n.Station == x {
 			return true
 		}
 	}

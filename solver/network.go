@@ -23,7 +23,7 @@ import (
 //     flows, H = Σ Qᵢ·Hᵢ / Σ Qᵢ (conservation of energy flux without
 //     loss), and its supercritical profile is then compared with its
 //     subcritical one as for any upstream control. With more than one
-//     incoming reach a NoteControl records the rule. If H is below the
+//     incoming reach a NoteInfo records the rule. If H is below the
 //     outgoing reach's critical energy, critical depth is taken, with a
 //     NoteControl. If the outgoing reach's subcritical flow has the greater
 //     specific force at its start, the jump is placed at the junction
@@ -277,7 +277,7 @@ func (s *solver) upstreamControl(w *reachWork) superControl {
 		y = p0.yc
 	}
 	if len(w.r.Upstream) > 1 {
-		w.res.Notes = append(w.res.Notes, noteControl(0,
+		w.res.Notes = append(w.res.Notes, noteInfo(0,
 			"supercritical flows meet at junction %q, where a one-dimensional model cannot represent the shock waves: the depth %s at the start of this reach is taken from the discharge-weighted energy of the inflows, without loss",
 			w.r.From, num(y)))
 	}

@@ -126,7 +126,7 @@ func TestSupercriticalJunction(t *testing.T) {
 	// to far better than 1e-6 at the junction.
 	require.InDelta(t, want, got.Depth, 1e-6*want)
 	require.Equal(t, Supercritical, got.Regime)
-	require.True(t, hasNote(ev.Reaches[2], NoteControl, "discharge-weighted energy"))
+	require.True(t, hasNote(ev.Reaches[2], NoteInfo, "discharge-weighted energy"))
 	for _, r := range ev.Reaches[:2] {
 		require.Equal(t, Steep, r.SlopeClass)
 		require.Equal(t, []string{"S2"}, r.ProfileTypes())

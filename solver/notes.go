@@ -21,6 +21,11 @@ func noteControl(station float64, format string, args ...any) Note {
 	return Note{Kind: NoteControl, Station: station, Message: fmt.Sprintf(format, args...)}
 }
 
+// noteInfo is a NoteInfo at a station.
+func noteInfo(station float64, format string, args ...any) Note {
+	return Note{Kind: NoteInfo, Station: station, Message: fmt.Sprintf(format, args...)}
+}
+
 // fallbackNotes turns each run of neighbouring points where critical
 // depth was taken for want of a solution of the energy equation into one
 // NoteCriticalFallback at the run's first station.

@@ -558,14 +558,14 @@ const jumpBackScan = 64
 // meeting at critical depth) is not one and is not recorded. A jump whose
 // two depths do not balance in specific force (held by a change of
 // section, a junction, or the start of the subcritical profile in a points
-// section) gets a NoteControl saying why (the why argument).
+// section) gets a NoteInfo saying why (the why argument).
 func (s *solver) addJump(w *reachWork, p *piece, x, y1, y2 float64, why string) {
 	f1 := FroudeNumber(p.geo, w.q, y1)
 	if !(y2 > y1) || !(f1 > 1) {
 		return
 	}
 	if m1, m2 := w.f.force(p, y1), w.f.force(p, y2); math.Abs(m1-m2) > unbalancedJump*math.Max(m1, m2) {
-		w.res.Notes = append(w.res.Notes, noteControl(x,
+		w.res.Notes = append(w.res.Notes, noteInfo(x,
 			"the jump is held at station %s (%s): the specific forces on its two sides differ by %s %%, so its depths are those of the two profiles there, not a sequent pair",
 			num(x), why, num(100*math.Abs(m1-m2)/math.Max(m1, m2))))
 	}

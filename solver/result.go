@@ -90,11 +90,19 @@ const (
 	NoteNoConvergence NoteKind = "no_convergence"
 	// NoteControl: a boundary condition could not act as given (for
 	// example an outlet depth that cannot control a supercritical reach,
-	// or a supercritical junction).
+	// a drowned gate or entrance depth, or supercritical inflow whose
+	// energy is below the critical energy of the reach it enters).
 	NoteControl NoteKind = "control"
+	// NoteInfo: an assumption of the method that the results rest on,
+	// not a failure: supercritical flows meeting at a junction (a
+	// one-dimensional model cannot represent the shock waves), a reach
+	// with no discharge in the event, or a jump held at a change of
+	// section whose depths are those of the two profiles there.
+	NoteInfo NoteKind = "assumption"
 )
 
-// Note records a numerical fallback or a control that could not act.
+// Note records a numerical fallback, a control that could not act, or an
+// assumption of the method.
 type Note struct {
 	Kind    NoteKind
 	Station float64

@@ -83,7 +83,7 @@ const (
 //     and fallbacks taken, at the former; Point.CriticalDepth and the
 //     profile zones use the latter. A jump whose two depths cannot balance
 //     in specific force (held at a section change, a junction, or the start
-//     of the subcritical profile) carries a NoteControl at its toe.
+//     of the subcritical profile) carries a NoteInfo at its toe.
 //   - Junctions, gates and outlet controls: see network.go.
 //   - Slope classes and profile types: see classOf and profileType.
 //
