@@ -55,7 +55,15 @@ func Brent(f func(float64) float64, a, b, tol float64) (float64, error) {
 	if !(tol >= 0) {
 		tol = 0
 	}
-	fa, fb := f(a), f(b)
+	return brentFrom(f, a, b, f(a), f(b), tol)
+}
+
+// brentFrom is Brent with f(a) = fa and f(b) = fb already evaluated, for a
+// caller that found the bracket by evaluating its ends.
+func brentFrom(f func(float64) float64, a, b, fa, fb, tol float64) (float64, error) {
+	if !(tol >= 0) {
+		tol = 0
+	}
 	if math.IsNaN(fa) || math.IsNaN(fb) {
 		return a, ErrNoConvergence
 	}

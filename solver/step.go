@@ -110,14 +110,39 @@ func (f *flowCtx) force(p *piece, y float64) float64 {
 // monotony above the overbanks; the bracketed root found is used). ok
 // is false when there is none: the energy available is below what the
 // branch needs, and the caller takes critical depth. guess (0: none) is a
-// predicted depth; a narrow bracket around it is tried first, which saves
+// predicted depth; a narrow bracket next to it is tried first, which saves
 // most of the bracketing work inside a profile.
 func (f *flowCtx) solveBranch(p *piece, z, w, target float64, super bool, guess, spread float64) (float64, bool) {
+	y, ok, _, _ := f.branchRoot(p, z, w, target, super, guess, spread)
+	return y, ok
+}
+
+// branchRoot is solveBranch that also returns the energy and friction
+// slope at the depth found when the root finder evaluated them there
+// (known), so that the next step need not evaluate them again.
+func (f *flowCtx) branchRoot(p *piece, z, w, target float64, super bool, guess, spread float64) (y float64, ok bool, st stepState, known bool) {
+	// The evaluation of least |h| is remembered: Brent returns one of the
+	// depths it evaluated, nearly always that one.
+	bestY, bestH := math.NaN(), math.Inf(1)
+	var best stepState
 	h := func(y float64) float64 {
 		s := f.eval(p, y)
-		return z + s.e + w*s.sf - target
+		v := z + s.e + w*s.sf - target
+		if math.Abs(v) <= bestH {
+			bestY, bestH, best = y, math.Abs(v), s
+		}
+		return v
 	}
-	yc := p.yc
+	y, ok = f.solveH(h, p.yc, super, target-z, guess, spread)
+	if ok && y == bestY {
+		return y, true, best, true
+	}
+	return y, ok, stepState{}, false
+}
+
+// solveH finds the root of h on one branch of the energy curve; hTarget
+// is target − z, which bounds a subcritical depth from above.
+func (f *flowCtx) solveH(h func(float64) float64, yc float64, super bool, hTarget, guess, spread float64) (float64, bool) {
 	if y, ok := f.nearGuess(h, yc, super, guess, spread); ok {
 		return y, true
 	}
@@ -142,7 +167,7 @@ func (f *flowCtx) solveBranch(p *piece, z, w, target float64, super bool, guess,
 		a = yc
 		// z + E(y) ≥ z + y, and w·Sf ≥ w·Sf(yc) when w ≤ 0 and Sf falls
 		// with depth, so this is nearly always already above the root.
-		b = math.Max(target-z, yc) * 1.01
+		b = math.Max(hTarget, yc) * 1.01
 		for i := 0; i < branchExpand && !(h(b) > 0); i++ {
 			b *= 2
 			if b > maxDepth {
@@ -170,30 +195,79 @@ func (f *flowCtx) accept(y float64, err error, yc float64) (float64, bool) {
 	return y, true
 }
 
-// nearGuess tries a bracket of ±δ around the guess, on the right side of
-// critical depth, δ = spread plus 1e-6 of the depth. Only a bracket that
-// holds a sign change is used, so on the monotone branch the root it finds
-// is the root.
+// guessExpand bounds the widenings of the bracket next to a guess; each
+// makes the bracket four times as long as the last, so together they reach
+// about 5,000 times the first width before the full bracketing takes over.
+const guessExpand = 6
+
+// nearGuess brackets the root next to the guess, which is moved onto the
+// branch (to critical depth when it lies on the other side). h at the
+// guess tells the side of the root, as h is monotone on the branch: it
+// rises with the depth on the subcritical branch and falls on the
+// supercritical one. The bracket [guess, guess ± δ], δ = spread plus 1e-6
+// of the depth, is tried and, while it holds no sign change, moved on and
+// widened. Only a bracket that holds a sign change is used, so on the
+// monotone branch the root it finds is the root. One end of the bracket is
+// the guess, which is close to the root, so Brent's interpolation closes
+// in a few steps.
 func (f *flowCtx) nearGuess(h func(float64) float64, yc float64, super bool, guess, spread float64) (float64, bool) {
-	if !(guess > 0) || math.IsInf(guess, 0) || !(spread >= 0) {
+	if !(guess > 0) || math.IsInf(guess, 0) || !(spread >= 0) || !(yc > 0) {
 		return 0, false
 	}
 	d := spread + 1e-6*guess + 10*f.tol
-	a, b := guess-d, guess+d
+	a := guess
 	if super {
-		b = math.Min(b, yc)
+		a = math.Min(a, yc)
 	} else {
 		a = math.Max(a, yc)
 	}
-	if !(a < b) || a <= 0 {
+	fa := h(a)
+	if math.IsNaN(fa) {
 		return 0, false
 	}
-	// Brent checks the bracket itself (ErrNoBracket) before iterating.
-	y, err := Brent(h, a, b, f.tol)
-	if err != nil && !errors.Is(err, ErrNoConvergence) {
-		return 0, false
+	if fa == 0 {
+		return a, true
 	}
-	return f.accept(y, err, yc)
+	up := (fa < 0) != super // the root lies at greater depths
+	for range guessExpand {
+		b, last := a-d, false
+		if up {
+			b = a + d
+		}
+		switch {
+		case super && b >= yc, !super && b <= yc:
+			b, last = yc, true
+		case b <= 0:
+			b, last = a/2, true
+		}
+		if b == a {
+			return 0, false
+		}
+		fb := h(b)
+		if math.IsNaN(fb) {
+			return 0, false
+		}
+		if fb == 0 {
+			return b, true
+		}
+		if (fb > 0) != (fa > 0) {
+			lo, hi, flo, fhi := a, b, fa, fb
+			if lo > hi {
+				lo, hi, flo, fhi = b, a, fb, fa
+			}
+			y, err := brentFrom(h, lo, hi, flo, fhi, f.tol)
+			if err != nil && !errors.Is(err, ErrNoConvergence) {
+				return 0, false
+			}
+			return f.accept(y, err, yc)
+		}
+		if last {
+			return 0, false
+		}
+		a, fa = b, fb
+		d *= 4
+	}
+	return 0, false
 }
 
 // standardStep computes the depth at station xu from the known depth yk at
@@ -202,14 +276,21 @@ func (f *flowCtx) nearGuess(h func(float64) float64, yc float64, super bool, gue
 // predicted depth at xu, taken to be good to a tenth of the change it
 // predicts.
 func (f *flowCtx) standardStep(p *piece, xk, yk, xu float64, super bool, guess float64) (float64, bool) {
+	y, ok, _, _ := f.stepFrom(p, xk, yk, f.eval(p, yk), xu, super, guess)
+	return y, ok
+}
+
+// stepFrom is standardStep with the state k at the known depth given; it
+// also returns the state at the new depth when it is known (see
+// branchRoot).
+func (f *flowCtx) stepFrom(p *piece, xk, yk float64, k stepState, xu float64, super bool, guess float64) (float64, bool, stepState, bool) {
 	half := math.Abs(xu-xk) / 2
 	spread := 0.1 * math.Abs(guess-yk)
-	k := f.eval(p, yk)
 	zk, zu := f.invert(xk), f.invert(xu)
 	if super {
-		return f.solveBranch(p, zu, half, zk+k.e-half*k.sf, true, guess, spread)
+		return f.branchRoot(p, zu, half, zk+k.e-half*k.sf, true, guess, spread)
 	}
-	return f.solveBranch(p, zu, -half, zk+k.e+half*k.sf, false, guess, spread)
+	return f.branchRoot(p, zu, -half, zk+k.e+half*k.sf, false, guess, spread)
 }
 
 // slopeOfProfile is dy/dx = (S0 − Sf)/(1 − F²), the differential equation
@@ -253,6 +334,9 @@ type stepper struct {
 	dxMin  float64
 	atCrit bool    // the current point is at critical depth
 	slope  float64 // dy/dx over the last accepted half step, for the depth guess
+	// k is the energy and friction slope at the current depth when hasK.
+	k    stepState
+	hasK bool
 }
 
 // init prepares the stepper at (x, y).
@@ -264,6 +348,7 @@ func (s *stepper) init(f *flowCtx, p *piece, pi int, super bool, x, y float64, a
 		s.dxMax = 2 * maxSpacing
 	}
 	s.dx, s.slope = 0, 0
+	s.hasK = false
 }
 
 // step advances toward xEnd and writes one or two new points to out,
@@ -290,6 +375,9 @@ func (s *stepper) step(xEnd float64, out *[2]pt) int {
 	if h >= remaining*0.999 || remaining-h < s.dxMin {
 		h = remaining
 	}
+	if !s.hasK {
+		s.k, s.hasK = s.f.eval(s.p, s.y), true
+	}
 	for try := 0; ; try++ {
 		xEndStep := s.x + dir*h
 		if h == remaining {
@@ -300,15 +388,20 @@ func (s *stepper) step(xEnd float64, out *[2]pt) int {
 		if !s.atCrit {
 			guess = s.y + s.slope*(xEndStep-s.x)
 		}
-		yFull, okF := s.f.standardStep(s.p, s.x, s.y, xEndStep, s.super, guess)
+		yFull, okF, _, _ := s.f.stepFrom(s.p, s.x, s.y, s.k, xEndStep, s.super, guess)
 		gHalf, gTwo := 0.0, 0.0
 		if okF {
 			gHalf, gTwo = (s.y+yFull)/2, yFull
 		}
-		yHalf, ok1 := s.f.standardStep(s.p, s.x, s.y, xMid, s.super, gHalf)
+		yHalf, ok1, kHalf, known := s.f.stepFrom(s.p, s.x, s.y, s.k, xMid, s.super, gHalf)
 		yTwo, ok2 := yHalf, false
+		var kTwo stepState
+		knownTwo := false
 		if ok1 {
-			yTwo, ok2 = s.f.standardStep(s.p, xMid, yHalf, xEndStep, s.super, gTwo)
+			if !known {
+				kHalf = s.f.eval(s.p, yHalf)
+			}
+			yTwo, ok2, kTwo, knownTwo = s.f.stepFrom(s.p, xMid, yHalf, kHalf, xEndStep, s.super, gTwo)
 		}
 		small := h <= s.dxMin || try >= stepMaxShrinks
 		if okF && ok1 && ok2 {
@@ -322,6 +415,7 @@ func (s *stepper) step(xEnd float64, out *[2]pt) int {
 				out[1] = pt{x: xEndStep, y: yTwo, piece: s.pi, super: s.super}
 				s.slope = (yTwo - yHalf) / (xEndStep - xMid)
 				s.x, s.y, s.atCrit = xEndStep, yTwo, false
+				s.k, s.hasK = kTwo, knownTwo
 				s.dx = h * growFactor(errEst, allowed)
 				return 2
 			}
@@ -337,6 +431,7 @@ func (s *stepper) step(xEnd float64, out *[2]pt) int {
 			// critical depth at its end (a fallback the caller reports).
 			out[0] = pt{x: xEndStep, y: s.p.yc, piece: s.pi, super: s.super, fallback: true}
 			s.x, s.y, s.atCrit, s.slope = xEndStep, s.p.yc, true, 0
+			s.hasK = false
 			s.dx = h * 4
 			return 1
 		}
