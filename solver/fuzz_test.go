@@ -235,6 +235,7 @@ func checkSolved(t *testing.T, m *model.Model, res *Result, src string) {
 			checkJumps(t, m.Units, rr, src, jumpForceTol)
 		}
 		checkJunctions(t, er, src)
+		checkHeldAtJunction(t, m.Units, er, src)
 	}
 }
 
@@ -295,10 +296,11 @@ func blocked(rr *ReachResult, x0, x1 float64) bool {
 func checkJumps(t *testing.T, u model.Units, rr *ReachResult, src string, tol float64) {
 	t.Helper()
 	for _, j := range rr.Jumps {
-		if placedByNote(rr, j.Station) {
-			// A jump the solver could not locate (supercritical flow
-			// meeting a junction) is placed at a control with a note;
-			// its depths are the two profiles, not a sequent pair.
+		if heldByNote(rr, j.Station) {
+			// A jump held at a junction (checkHeldAtJunction verifies it
+			// truly stays there) or at the start of the subcritical
+			// profile in a points section: its depths are the two
+			// profiles there, not a sequent pair, as its note says.
 			continue
 		}
 		if atSectionChange(rr.Reach, j.Station) {
@@ -331,12 +333,10 @@ func atSectionChange(r *model.Reach, x float64) bool {
 	return false
 }
 
-// placedByNote reports whether a control note, or the note of a held
-// jump, sits at station x.
-func placedByNote(rr *ReachResult, x float64) bool {
+// heldByNote reports whether the note of a held jump sits at station x.
+func heldByNote(rr *ReachResult, x float64) bool {
 	for _, n := range rr.Notes {
-		held := n.Kind == NoteInfo && strings.Contains(n.Message, "the jump is held")
-		if (n.Kind == NoteControl || held) && n.Station == x {
+		if n.Kind == NoteInfo && strings.Contains(n.Message, "the jump is held") && n.Station == x {
 			return true
 		}
 	}
@@ -377,4 +377,82 @@ func readFuzzFile(t *testing.T, path string) []byte {
 	s, err := strconv.Unquote(v[len("[]byte(") : len(v)-1])
 	require.NoError(t, err)
 	return []byte(s)
+}
+
+// checkHeldAtJunction: a jump the solver holds at a junction (station 0
+// of the outgoing reach, with its note) must truly stay there: every
+// incoming reach that arrives supercritical must hold against the
+// junction's level in its own section, that is, either the junction's
+// energy grade elevation H is below its critical energy (no subcritical
+// flow at its end to jump to) or its supercritical depth has at least the
+// specific force of the subcritical depth with energy H. Otherwise the
+// jump belonged inside that incoming reach. H is the energy of the first
+// non-supercritical point at station 0 of the outgoing reach; the
+// subcritical depth with energy H is found here by bisection on
+// y + α(y)·V²/2g above critical depth.
+//
+// Source: a jump forms where the specific forces of the supercritical and
+// subcritical flows are equal (Chow 1959, ch. 3 and §10-3, from memory);
+// energy balance without loss at a junction (Chow 1959, §10-3, from
+// memory).
+func checkHeldAtJunction(t *testing.T, u model.Units, er *EventResult, src string) {
+	t.Helper()
+	for _, rr := range er.Reaches {
+		held := false
+		for _, n := range rr.Notes {
+			held = held || (n.Kind == NoteControl && n.Station == 0 && strings.Contains(n.Message, "the jump is held at the junction"))
+		}
+		if !held {
+			continue
+		}
+		h, ok := 0.0, false
+		for _, p := range rr.Points {
+			if p.Station > 0 {
+				break
+			}
+			if p.Regime != Supercritical {
+				h, ok = p.Energy, true
+				break
+			}
+		}
+		if !ok {
+			t.Fatalf("reach %s: a jump held at the junction without subcritical flow at station 0\n%s", rr.Reach.Name, src)
+		}
+		for _, up := range rr.Reach.Upstream {
+			ur := er.Reaches[up.Index]
+			if len(ur.Points) == 0 {
+				continue
+			}
+			last := ur.Points[len(ur.Points)-1]
+			if last.Regime != Supercritical {
+				continue
+			}
+			g := NewGeometry(last.Section, u)
+			q := ur.Discharge
+			energy := func(y float64) float64 {
+				pr := g.Props(y)
+				v := q / pr.Area
+				return y + pr.Alpha*v*v/(2*g.G())
+			}
+			e := h - last.Invert
+			yc := last.CriticalDepth
+			if e <= energy(yc)*(1+1e-6) {
+				continue // no subcritical flow at the end of the incoming reach
+			}
+			hi := 2 * yc
+			for i := 0; i < 60 && energy(hi) < e; i++ {
+				hi *= 2
+			}
+			ySub := bisect(func(y float64) float64 { return energy(y) - e }, yc, hi)
+			mSup := SpecificForce(g, q, last.Depth)
+			// The solver closes depths to 1e-7: allow the force that far
+			// on either side of the subcritical depth.
+			d := 1e-6 * math.Max(ySub, 1)
+			mSub := math.Min(SpecificForce(g, q, ySub-d), SpecificForce(g, q, ySub+d))
+			if mSup < mSub*(1-1e-6) {
+				t.Fatalf("reach %s: jump held at junction %q, but incoming reach %s arrives supercritical (depth %.9g, force %.9g) where its subcritical depth %.9g with the junction's energy has the greater force %.9g: the jump belongs inside %s\n%s",
+					rr.Reach.Name, rr.Reach.From, ur.Reach.Name, last.Depth, mSup, ySub, mSub, ur.Reach.Name, src)
+			}
+		}
+	}
 }

@@ -25,9 +25,22 @@ import (
 //     subcritical one as for any upstream control. With more than one
 //     incoming reach a NoteInfo records the rule. If H is below the
 //     outgoing reach's critical energy, critical depth is taken, with a
-//     NoteControl. If the outgoing reach's subcritical flow has the greater
-//     specific force at its start, the jump is placed at the junction
-//     (station 0 of the outgoing reach) with a NoteControl.
+//     NoteControl.
+//   - A jump near a junction: each incoming reach's subcritical profile
+//     starts from the junction's energy H as above, whatever the regime
+//     of the inflow, and its supercritical profile is compared with it by
+//     specific force in its own section, so where the junction's level
+//     drowns the supercritical inflow the jump is located inside the
+//     incoming reach, which then ends subcritical (or is subcritical
+//     throughout if its subcritical profile drowns it from its start).
+//     A reach arrives supercritical only where its own subcritical profile
+//     cannot hold it: H is below its critical energy (no subcritical flow
+//     at its end) or its supercritical flow has the greater force there.
+//     If the outgoing reach's subcritical flow nevertheless has the
+//     greater specific force at its start (in its own, often wider,
+//     section), the jump can move neither upstream nor downstream: it is
+//     held at the junction (station 0 of the outgoing reach) with a
+//     NoteControl, its depths those of the two profiles there.
 //   - A gate at station 0 of the outgoing reach sets the energy upstream
 //     instead (see gateHead).
 
@@ -301,7 +314,7 @@ func (s *solver) drowned(w *reachWork, c superControl, ySub float64) {
 		w.final = append(w.final, pt{x: 0, y: c.y, piece: 0, super: true})
 		s.addJump(w, p0, 0, c.y, ySub, "at the junction")
 		w.res.Notes = append(w.res.Notes, noteControl(0,
-			"supercritical flow arriving at node %q (depth %s) meets subcritical flow (depth %s) with a greater specific force: the jump forms at or upstream of the junction and is placed at station 0",
+			"supercritical flow arriving at node %q (depth %s here) meets subcritical flow (depth %s) with a greater specific force, yet in the incoming channel the supercritical flow holds against the junction's level to its end: the jump is held at the junction, station 0, and its depths are not a sequent pair",
 			w.r.From, num(c.y), num(ySub)))
 	}
 }

@@ -175,3 +175,90 @@ func TestJumpMovesIntoNextReach(t *testing.T) {
 		require.Equal(t, Subcritical, p.Regime)
 	}
 }
+
+// junctionJumpNet is a steep rectangular chute and a mild side channel
+// joining a wider mild canal that runs to a tailwater depth: the pool the
+// tailwater backs up to the junction decides whether the chute's jump
+// lies inside the chute or is held at the junction.
+// It returns the solved event and, from the independent reference, the
+// canal's depth and specific energy at the junction (its M1 curve
+// integrated by quadrature from the tailwater).
+func junctionJumpNet(t *testing.T, canalWidth, tail float64) (ev *EventResult, poolY, poolE float64) {
+	m := buildNet(t, model.SI, []netReach{
+		{name: "chute", from: "top", to: "j", length: 60, slope: 0.02, sec: trapezoid("chute", 2, 0, 0.014, 3), inflow: 6},
+		{name: "side", from: "s", to: "j", length: 200, slope: 0.001, sec: trapezoid("side", 1.5, 0, 0.015, 3), inflow: 1},
+		{name: "canal", from: "j", to: "out", length: 300, slope: 0.0005, sec: trapezoid("canal", canalWidth, 0, 0.015, 5)},
+	}, model.Outlet{Kind: model.OutletDepth, Value: tail})
+	refC := gvfTrapezoid{b: canalWidth, z: 0, n: 0.015, k: 1, g: 9.80665, q: 7, s0: 0.0005}
+	poolY = refC.depthAt(300, tail, refC.normalDepth()*1.0001, 0)
+	return solveOne(t, m), poolY, refC.energy(poolY)
+}
+
+// chuteRef is the independent model of the chute of junctionJumpNet.
+var chuteRef = gvfTrapezoid{b: 2, z: 0, n: 0.014, k: 1, g: 9.80665, q: 6, s0: 0.02}
+
+// TestJumpInIncomingReachAtJunction: supercritical flow down a chute that
+// meets a junction whose pool has the greater specific force: the jump
+// forms inside the chute, where the force of its S2 curve (from critical
+// depth at its head) equals that of its S1 curve (from the depth with the
+// junction's energy at its end), and neither the chute's end nor the
+// canal's start is supercritical. The expectation is computed
+// independently: the canal's M1 curve by quadrature from the tailwater to
+// the junction, the junction's energy grade elevation H from it (energy
+// balance without loss), the chute's end depth from E(y) = H − z on its
+// subcritical branch, and the toe where the two chute profiles' specific
+// forces are equal, each integrated by quadrature.
+//
+// Source: the gradually-varied-flow equation dy/dx = (S0 − Sf)/(1 − F²)
+// integrated with gonum quad (Chow 1959, ch. 9); energy balance without
+// loss at a junction (Chow 1959, §10-3, from memory); a jump forms where
+// the specific forces of the two profiles are equal (Chow 1959, ch. 3 and
+// §10-3, from memory).
+func TestJumpInIncomingReachAtJunction(t *testing.T) {
+	ev, y0, e := junctionJumpNet(t, 3, 2.1)
+	chute, canal := ev.Reaches[0], ev.Reaches[2]
+	require.InDelta(t, y0, canal.Points[0].Depth, 2e-3*y0, "canal depth at the junction")
+	require.Empty(t, canal.Jumps)
+	for _, n := range canal.Notes {
+		require.NotContains(t, n.Message, "junction", "no jump is held at the junction")
+	}
+
+	ref := chuteRef
+	yc, yn := ref.criticalDepth(), ref.normalDepth()
+	// Same invert at both reach ends of the junction: E(y) = H − z is the
+	// canal's specific energy there.
+	yEnd := bisect(func(y float64) float64 { return ref.energy(y) - e }, yc, 50)
+	require.Greater(t, ref.force(yEnd), ref.force(yn), "the pool drowns the chute's normal flow: the jump is inside the chute")
+	sup := refProfile{0, yc, yn * 1.0001}
+	sub := refProfile{60, yEnd, yc}
+	j := checkJump(t, ref, chute, sup, sub, yn*1.001, yc*(1-1e-9))
+	require.Greater(t, j.Station, 0.0)
+	require.Less(t, j.Station, 60.0)
+	last := chute.Points[len(chute.Points)-1]
+	require.Equal(t, Subcritical, last.Regime)
+	require.InDelta(t, yEnd, last.Depth, 2e-3*yEnd)
+	require.Equal(t, []string{"S2", "S1"}, chute.ProfileTypes())
+}
+
+// TestJumpHeldAtJunction: with a canal wide enough, the pool's energy at
+// the junction is below the chute's critical energy, so no subcritical
+// flow exists at the chute's end to jump to: the chute is supercritical
+// to its end, and the jump that the canal's deeper subcritical flow forces
+// is held at the junction (station 0 of the canal) with a note. This is
+// the one place a jump stays at the node.
+//
+// Source: as TestJumpInIncomingReachAtJunction; specific energy has its
+// minimum at critical depth (Chow 1959, ch. 3).
+func TestJumpHeldAtJunction(t *testing.T) {
+	ev, _, e := junctionJumpNet(t, 12, 0.9)
+	chute, canal := ev.Reaches[0], ev.Reaches[2]
+	require.Less(t, e, chuteRef.energy(chuteRef.criticalDepth()), "the pool is below the chute's critical energy")
+
+	require.Empty(t, chute.Jumps)
+	for _, p := range chute.Points[1:] {
+		require.Equalf(t, Supercritical, p.Regime, "chute at %v", p.Station)
+	}
+	require.Len(t, canal.Jumps, 1)
+	require.Equal(t, 0.0, canal.Jumps[0].Station)
+	require.True(t, hasNote(canal, NoteControl, "the jump is held at the junction"), "notes %v", canal.Notes)
+}
