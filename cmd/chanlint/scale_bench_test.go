@@ -15,6 +15,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"runtime/debug"
 	"strconv"
 	"strings"
 	"testing"
@@ -85,12 +86,26 @@ func checkChain(b *testing.B, src []byte, pol *policies.Policy) int {
 	return points
 }
 
+// binaryGC puts the collector settings of the binary (tuneGC) in force
+// for the benchmark b, so that the figures are those of `chanlint check`.
+func binaryGC(b *testing.B) {
+	pct := debug.SetGCPercent(100)
+	lim := debug.SetMemoryLimit(-1) // a negative limit only reads it
+	tuneGC(os.Getenv)
+	b.Cleanup(func() {
+		debug.SetGCPercent(pct)
+		debug.SetMemoryLimit(lim)
+	})
+}
+
 // BenchmarkScaleChain: a 1,000-reach chain of 3 km reaches checked end to
-// end (target: under 30 ms on one core), and the same chain with ten
+// end (target: under 30 ms on one core) under the binary's collector
+// settings, and the same chain with ten
 // times the computed points, by max_spacing or by reaches ten times
 // longer, to show that the cost grows linearly with computed points. The
 // ns/point metric should stay about constant across the cases.
 func BenchmarkScaleChain(b *testing.B) {
+	binaryGC(b)
 	pol, diags := policies.Pack("baseline")
 	if diags.HasErrors() {
 		b.Fatal(diags.Error())
@@ -187,6 +202,7 @@ func peakRSS() float64 {
 // mark, so run this benchmark on its own (-bench ScaleFiles) for a figure
 // that means something.
 func BenchmarkScaleFiles(b *testing.B) {
+	binaryGC(b)
 	dir := b.TempDir()
 	demoSized(b, dir, 1000)
 	for _, format := range []string{"text", "json"} {
@@ -206,6 +222,7 @@ func BenchmarkScaleFiles(b *testing.B) {
 // BenchmarkScaleChainStages splits the 1,000-reach check into its stages
 // (parse, solve, rules) to show where the time goes.
 func BenchmarkScaleChainStages(b *testing.B) {
+	binaryGC(b)
 	pol, diags := policies.Pack("baseline")
 	if diags.HasErrors() {
 		b.Fatal(diags.Error())
