@@ -99,7 +99,7 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 func (d *decoder) segment(b *hcl.Block, reach string) *Segment {
 	s := &Segment{Src: newSrc(b)}
 	a, _ := d.attrs(b, segmentSchema, &s.Src)
-	a.what = fmt.Sprintf("a segment of reach %q", reach)
+	a.what = quoted("a segment of reach", reach)
 	a.require(b.Body, "section")
 	s.FromStation, s.ToStation = a.stations(b.Body)
 	s.SectionName, _ = a.name("section")

@@ -3,6 +3,7 @@ package model
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 	"unicode"
 	"unicode/utf8"
@@ -104,6 +105,29 @@ func (d *diagnoser) literalOnly(expr hcl.Expression) bool {
 	return ok
 }
 
+// literal is the value of the two forms nearly every attribute of a model
+// takes, a bare literal (a number, true, false, null) and a quoted string
+// without interpolation, read without walking and evaluating the
+// expression: the value is the one Value would return.
+func literal(expr hcl.Expression) (cty.Value, bool) {
+	switch e := expr.(type) {
+	case *hclsyntax.LiteralValueExpr:
+		return e.Val, true
+	case *hclsyntax.TemplateExpr:
+		if len(e.Parts) == 1 {
+			if lit, ok := e.Parts[0].(*hclsyntax.LiteralValueExpr); ok && lit.Val.Type() == cty.String && !lit.Val.IsNull() {
+				return lit.Val, true
+			}
+		}
+	}
+	return cty.NilVal, false
+}
+
+// quoted is `kind "name"`, e.g. reach "main", as %s %q formats it.
+func quoted(kind, name string) string {
+	return kind + " " + strconv.Quote(name)
+}
+
 func traversalName(t hcl.Traversal) string {
 	var b strings.Builder
 	for i, step := range t {
@@ -123,13 +147,17 @@ func traversalName(t hcl.Traversal) string {
 
 // value evaluates a literal expression with no evaluation context.
 func (d *diagnoser) value(expr hcl.Expression) (cty.Value, bool) {
-	if !d.literalOnly(expr) {
-		return cty.NilVal, false
-	}
-	v, diags := expr.Value(nil)
-	d.diags = append(d.diags, diags...)
-	if diags.HasErrors() {
-		return cty.NilVal, false
+	v, ok := literal(expr)
+	if !ok {
+		if !d.literalOnly(expr) {
+			return cty.NilVal, false
+		}
+		var diags hcl.Diagnostics
+		v, diags = expr.Value(nil)
+		d.diags = append(d.diags, diags...)
+		if diags.HasErrors() {
+			return cty.NilVal, false
+		}
 	}
 	if v.IsNull() {
 		d.errorf(expr.Range(), "Missing value", "null is not a value here; write the value or remove the line.")

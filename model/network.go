@@ -200,7 +200,7 @@ func (d *decoder) events() {
 	m := d.m
 	net := m.Network
 	for _, ev := range m.Events {
-		what := fmt.Sprintf("event %q", ev.Name)
+		what := quoted("event", ev.Name)
 		own := make([]float64, len(m.Reaches))
 		for _, in := range ev.Inflows {
 			own[in.Reach.Index] += in.Discharge

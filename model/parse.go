@@ -13,6 +13,7 @@ import (
 
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclparse"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
 )
 
 // Suffix is the file name suffix of a channel model.
@@ -353,7 +354,7 @@ var blockLimits = map[string]int{
 }
 
 func (d *decoder) root(body hcl.Body) {
-	content, diags := body.Content(rootSchema)
+	content, diags := bodyContent(body, rootSchema)
 	d.diags = append(d.diags, diags...)
 	m := d.m
 	if a, ok := content.Attributes["units"]; ok {
@@ -435,15 +436,62 @@ type attrSet struct {
 	what string // e.g. `reach "main"`
 }
 
+// bodyContent is body.Content(schema). A syntax body that holds only
+// attributes and blocks the schema names, with the labels it asks for (a
+// valid model), is read straight from the syntax tree: the result is the
+// same, without the bookkeeping Content does to find what is left over.
+// Any other body goes through Content for its diagnostics.
+func bodyContent(body hcl.Body, schema *hcl.BodySchema) (*hcl.BodyContent, hcl.Diagnostics) {
+	sb, ok := body.(*hclsyntax.Body)
+	if !ok || !fits(sb, schema) {
+		return body.Content(schema)
+	}
+	attrs := make(hcl.Attributes, len(sb.Attributes))
+	for name, a := range sb.Attributes {
+		attrs[name] = a.AsHCLAttribute()
+	}
+	var blocks hcl.Blocks
+	if len(sb.Blocks) > 0 {
+		blocks = make(hcl.Blocks, len(sb.Blocks))
+		for i, b := range sb.Blocks {
+			blocks[i] = b.AsHCLBlock()
+		}
+	}
+	return &hcl.BodyContent{Attributes: attrs, Blocks: blocks, MissingItemRange: sb.MissingItemRange()}, nil
+}
+
+// fits reports whether every attribute and block of sb is one the schema
+// names, with as many labels as it asks for, and the schema requires no
+// attribute (Content would report one that is missing).
+func fits(sb *hclsyntax.Body, schema *hcl.BodySchema) bool {
+	for _, as := range schema.Attributes {
+		if as.Required {
+			return false
+		}
+	}
+	for name := range sb.Attributes {
+		if !slices.ContainsFunc(schema.Attributes, func(as hcl.AttributeSchema) bool { return as.Name == name }) {
+			return false
+		}
+	}
+	for _, b := range sb.Blocks {
+		i := slices.IndexFunc(schema.Blocks, func(bs hcl.BlockHeaderSchema) bool { return bs.Type == b.Type })
+		if i < 0 || len(b.Labels) != len(schema.Blocks[i].LabelNames) {
+			return false
+		}
+	}
+	return true
+}
+
 func (d *decoder) attrs(b *hcl.Block, schema *hcl.BodySchema, src *Src) (attrSet, *hcl.BodyContent) {
-	content, diags := b.Body.Content(schema)
+	content, diags := bodyContent(b.Body, schema)
 	d.diags = append(d.diags, diags...)
 	for name, a := range content.Attributes {
 		src.Attrs[name] = a.Expr.Range()
 	}
 	what := b.Type
 	if len(b.Labels) > 0 {
-		what = fmt.Sprintf("%s %q", b.Type, b.Labels[0])
+		what = quoted(b.Type, b.Labels[0])
 	}
 	return attrSet{d: d, m: content.Attributes, src: src, what: what}, content
 }

@@ -2,7 +2,6 @@ package model
 
 import (
 	"cmp"
-	"fmt"
 	"slices"
 
 	"github.com/hashicorp/hcl/v2"
@@ -118,10 +117,10 @@ func (d *decoder) resolve() {
 		return s
 	}
 	for _, r := range m.Reaches {
-		what := fmt.Sprintf("reach %q", r.Name)
+		what := quoted("reach", r.Name)
 		r.Section = section(r.SectionName, r.At("section"), what)
 		for _, s := range r.Segments {
-			sw := fmt.Sprintf("a segment of reach %q", r.Name)
+			sw := quoted("a segment of reach", r.Name)
 			s.Section = section(s.SectionName, s.At("section"), sw)
 			d.checkSpan(r, s.Src, s.FromStation, s.ToStation, sw)
 		}
@@ -136,7 +135,7 @@ func (d *decoder) resolve() {
 		}
 	}
 	for _, g := range m.Gates {
-		g.Reach = d.lookupReach(g.ReachName, g.At("reach"), fmt.Sprintf("gate %q", g.Name))
+		g.Reach = d.lookupReach(g.ReachName, g.At("reach"), quoted("gate", g.Name))
 		if g.Reach == nil {
 			continue
 		}
@@ -154,32 +153,32 @@ func (d *decoder) resolve() {
 		}
 	}
 	for _, b := range m.Basins {
-		what := fmt.Sprintf("basin %q", b.Name)
+		what := quoted("basin", b.Name)
 		b.Reach = d.lookupReach(b.ReachName, b.At("reach"), what)
 		if d.checkSpan(b.Reach, b.Src, b.FromStation, b.ToStation, what) {
 			b.Reach.Basins = append(b.Reach.Basins, b)
 		}
 	}
 	for _, b := range m.Bends {
-		what := fmt.Sprintf("bend %q", b.Name)
+		what := quoted("bend", b.Name)
 		b.Reach = d.lookupReach(b.ReachName, b.At("reach"), what)
 		if d.checkSpan(b.Reach, b.Src, b.FromStation, b.ToStation, what) {
 			b.Reach.Bends = append(b.Reach.Bends, b)
 		}
 	}
 	for _, e := range m.Exceptions {
-		what := fmt.Sprintf("exception %q", e.Rule)
+		what := quoted("exception", e.Rule)
 		e.Reach = d.lookupReach(e.ReachName, e.At("reach"), what)
 		d.checkSpan(e.Reach, e.Src, e.FromStation, e.ToStation, what)
 	}
 	for _, ev := range m.Events {
 		for i := range ev.Inflows {
 			in := &ev.Inflows[i]
-			in.Reach = d.lookupReach(in.ReachName, in.Range, fmt.Sprintf("The inflow of event %q", ev.Name))
+			in.Reach = d.lookupReach(in.ReachName, in.Range, quoted("The inflow of event", ev.Name))
 		}
 		for i := range ev.Entrances {
 			en := &ev.Entrances[i]
-			en.Reach = d.lookupReach(en.ReachName, en.Range, fmt.Sprintf("The entrance of event %q", ev.Name))
+			en.Reach = d.lookupReach(en.ReachName, en.Range, quoted("The entrance of event", ev.Name))
 		}
 	}
 	for _, r := range m.Reaches {
