@@ -77,11 +77,24 @@ func (f *flowCtx) invert(x float64) float64 {
 // eval returns specific energy and friction slope at depth y.
 //
 //	E = y + α·Q²/(2·g·A²)      Sf = (Q/K)²      (Chow 1959, ch. 3 and 10)
+//
+// A prismatic section, the usual one, is evaluated here with the same
+// expressions as Props but only the area and conveyance, which saves the
+// call and the other properties in the innermost loop of the solver.
 func (f *flowCtx) eval(p *piece, y float64) stepState {
-	pr := p.geo.Props(y)
-	v := f.q / pr.Area
-	c := f.q / pr.Conveyance
-	return stepState{e: y + pr.Alpha*v*v/(2*p.geo.g), sf: c * c}
+	g := p.geo
+	if g.kind != kindPrismatic {
+		pr := g.Props(y)
+		v := f.q / pr.Area
+		c := f.q / pr.Conveyance
+		return stepState{e: y + pr.Alpha*v*v/(2*g.g), sf: c * c}
+	}
+	yy := clampDepth(y)
+	a := (g.b + g.z*yy) * yy
+	r := a / (g.b + 2*yy*g.sideLen)
+	v := f.q / a
+	c := f.q / (g.kn * a * math.Cbrt(r*r))
+	return stepState{e: y + v*v/(2*g.g), sf: c * c}
 }
 
 // force is the specific force Q²/(gA) + A·z̄ at depth y.
