@@ -287,11 +287,29 @@ func (f *flowCtx) nearGuess(h func(float64) float64, yc float64, super bool, gue
 // station xk on the given branch. Subcritical steps go upstream
 // (xu < xk), supercritical steps downstream. guess (0: none) is a
 // predicted depth at xu, taken to be good to a tenth of the change it
-// predicts.
+// predicts. Without one the search starts next to yk itself when yk lies
+// on the branch: a step changes the depth little, and a bracket widened
+// from there costs fewer evaluations than one from critical depth.
 func (f *flowCtx) standardStep(p *piece, xk, yk, xu float64, super bool, guess float64) (float64, bool) {
-	y, ok, _, _ := f.stepFrom(p, xk, yk, f.eval(p, yk), xu, super, guess)
+	k := f.eval(p, yk)
+	if guess == 0 && yk > 0 && (yk <= p.yc) == super {
+		half := math.Abs(xu-xk) / 2
+		zk, zu := f.invert(xk), f.invert(xu)
+		w, target := -half, zk+k.e+half*k.sf
+		if super {
+			w, target = half, zk+k.e-half*k.sf
+		}
+		y, ok, _, _ := f.branchRoot(p, zu, w, target, super, yk, noGuessSpread*yk)
+		return y, ok
+	}
+	y, ok, _, _ := f.stepFrom(p, xk, yk, k, xu, super, guess)
 	return y, ok
 }
+
+// noGuessSpread is the first half-width of the bracket next to the known
+// depth, relative to it, for a step without a predicted depth; widened
+// six times by four it spans more than the depth itself.
+const noGuessSpread = 1e-3
 
 // stepFrom is standardStep with the state k at the known depth given; it
 // also returns the state at the new depth when it is known (see
