@@ -123,9 +123,16 @@ func literal(expr hcl.Expression) (cty.Value, bool) {
 	return cty.NilVal, false
 }
 
-// quoted is `kind "name"`, e.g. reach "main", as %s %q formats it.
+// quoted is `kind "name"`, e.g. reach "main", as %s %q formats it. A
+// name of printable ASCII without quotes or backslashes, the usual one, is
+// quoted as it stands, which is what strconv.Quote would do.
 func quoted(kind, name string) string {
-	return kind + " " + strconv.Quote(name)
+	for i := 0; i < len(name); i++ {
+		if c := name[i]; c < 0x20 || c > 0x7e || c == '"' || c == '\\' {
+			return kind + " " + strconv.Quote(name)
+		}
+	}
+	return kind + ` "` + name + `"`
 }
 
 func traversalName(t hcl.Traversal) string {
