@@ -50,7 +50,7 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 	r.From, _ = a.name("from")
 	r.To, _ = a.name("to")
 	r.SectionName, _ = a.name("section")
-	unit := " " + d.m.Units.Length()
+	unit := d.unitSuffix()
 	r.Length, _ = a.positive("length", unit)
 	switch {
 	case a.has("slope") && a.has("invert"):
@@ -111,7 +111,7 @@ func (d *decoder) gate(b *hcl.Block) *Gate {
 	a, _ := d.attrs(b, gateSchema, &g.Src)
 	a.require(b.Body, "reach", "opening")
 	g.ReachName, _ = a.name("reach")
-	g.Opening, _ = a.positive("opening", " "+d.m.Units.Length())
+	g.Opening, _ = a.positive("opening", d.unitSuffix())
 	if c, ok := a.number("contraction"); ok {
 		if c <= 0 || c > 1 {
 			d.errorf(a.m["contraction"].Expr.Range(), "Contraction out of range",
@@ -157,7 +157,7 @@ func (d *decoder) bend(b *hcl.Block) *Bend {
 	a, _ := d.attrs(b, bendSchema, &bn.Src)
 	bn.ReachName, bn.FromStation, bn.ToStation = a.span(b.Body)
 	a.require(b.Body, "radius")
-	bn.Radius, _ = a.positive("radius", " "+d.m.Units.Length())
+	bn.Radius, _ = a.positive("radius", d.unitSuffix())
 	return bn
 }
 

@@ -436,6 +436,15 @@ type attrSet struct {
 	what string // e.g. `reach "main"`
 }
 
+// unitSuffix is " m" or " ft", the length unit as a message puts it
+// after a number; a constant, so that decoding builds no string for it.
+func (d *decoder) unitSuffix() string {
+	if d.m.Units.Length() == "ft" {
+		return " ft"
+	}
+	return " m"
+}
+
 // bodyContent is body.Content(schema). A syntax body that holds only
 // attributes and blocks the schema names, with the labels it asks for (a
 // valid model), is read straight from the syntax tree: the result is the

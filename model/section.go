@@ -74,7 +74,7 @@ func (d *decoder) section(b *hcl.Block) *Section {
 	if a.has("lining") {
 		s.Lining, _ = a.text("lining")
 	}
-	unit := " " + d.m.Units.Length()
+	unit := d.unitSuffix()
 	switch s.Shape {
 	case Rectangle, Trapezoid:
 		s.BottomWidth, _ = a.positive("bottom_width", unit)
@@ -215,7 +215,7 @@ func (d *decoder) points(s *Section, a attrSet) {
 		low = min(low, p.Elevation)
 	}
 	if a.has("height") {
-		s.Height, _ = a.positive("height", " "+d.m.Units.Length())
+		s.Height, _ = a.positive("height", d.unitSuffix())
 	} else {
 		s.Height = min(first.Elevation, last.Elevation) - low
 		if s.Height <= 0 {
