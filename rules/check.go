@@ -131,15 +131,40 @@ func cmpFindings(a, b Finding) int {
 // and station span (then message, so that the order is total) and removes
 // exact duplicates.
 func sortFindings(fs []Finding) []Finding {
-	slices.SortStableFunc(fs, cmpFindings)
-	return slices.Compact(fs)
+	if len(fs) < 2 {
+		return fs
+	}
+	// Sort pointers rather than the findings themselves: a Finding is a few
+	// hundred bytes, and a stable sort moves elements many times.
+	order := make([]*Finding, len(fs))
+	for i := range fs {
+		order[i] = &fs[i]
+	}
+	slices.SortStableFunc(order, func(a, b *Finding) int { return cmpFindings(*a, *b) })
+	out := make([]Finding, 0, len(fs))
+	for i, f := range order {
+		if i == 0 || *f != *order[i-1] { // drop exact duplicates, as slices.Compact does
+			out = append(out, *f)
+		}
+	}
+	return out
 }
 
 // eachReach calls fn for every reach result of every event the rule runs on.
 func (c *Context) eachReach(fn func(ev *solver.EventResult, rr *solver.ReachResult)) {
-	for _, ev := range c.events() {
-		for _, rr := range reaches(ev) {
-			fn(ev, rr)
+	if c.Result == nil {
+		return
+	}
+	// The same filters as events and reaches, without building the slices:
+	// every rule walks every reach of every event.
+	for _, ev := range c.Result.Events {
+		if ev == nil || ev.Event == nil || (c.Config != nil && !c.Config.AppliesTo(ev.Event.Name)) {
+			continue
+		}
+		for _, rr := range ev.Reaches {
+			if rr != nil && rr.Reach != nil {
+				fn(ev, rr)
+			}
 		}
 	}
 }
@@ -150,7 +175,7 @@ func (c *Context) eachReach(fn func(ev *solver.EventResult, rr *solver.ReachResu
 func (c *Context) scanPoints(w worse, judge judgeFunc,
 	emit func(ev *solver.EventResult, rr *solver.ReachResult, s span)) {
 	c.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
-		for _, s := range scan(rr, w, judge, reachBlock) {
+		for _, s := range scan(rr, w, judge, reachBlock, &c.verdict) {
 			emit(ev, rr, s)
 		}
 	})

@@ -55,6 +55,8 @@ type Context struct {
 	// applied, for a rule that judges them (unused_exception); nil for the
 	// others.
 	Findings []Finding
+
+	verdict verdict // scratch space of scan
 }
 
 // Rule is one check of the registry.

@@ -58,12 +58,15 @@ func decimals(x float64) int {
 	return min(max(d, 0), 6)
 }
 
+// pow10 holds 10^d for the decimals numbers are printed with (0 to 6).
+var pow10 = [...]float64{1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6}
+
 // clean rounds x to d decimals and removes a negative zero.
 func clean(x float64, d int) float64 {
 	if math.Abs(x) >= 1e15 { // already whole; scaling could overflow
 		return x
 	}
-	p := math.Pow(10, float64(d))
+	p := pow10[d]
 	r := math.Round(x*p) / p
 	if r == 0 {
 		return 0
@@ -79,7 +82,7 @@ func numUp(x float64) string {
 		return "n/a"
 	}
 	d := decimals(x)
-	p := math.Pow(10, float64(d))
+	p := pow10[d]
 	// Subtract a relative hair before rounding up, so that a value that is
 	// already round (0.3 computed as 0.30000000000000004) stays 0.3.
 	if math.Abs(x) >= 1e15 {

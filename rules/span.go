@@ -92,13 +92,14 @@ func lower(a, b float64) bool  { return a < b }
 // without ending a span (the solver rule reports such points); checking
 // the figures a rule computed, rather than every field of the point, keeps
 // the per-point cost to what the rule reads.
+//
+// v is scratch space for the judge's verdict: a judge is an unknown
+// function, so the verdict it fills lives on the heap; callers pass one
+// they own (Context keeps one per rule run) rather than allocate per walk.
 func scan(rr *solver.ReachResult, w worse, judge judgeFunc,
-	at func(rr *solver.ReachResult, p *solver.Point) *model.Src) []span {
+	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict) []span {
 	var out []span
 	var cur *span
-	// One verdict for the whole walk: a judge is an unknown function, so
-	// the verdict it fills lives on the heap; allocate it once, not per point.
-	v := new(verdict)
 	for i := range rr.Points {
 		p := &rr.Points[i]
 		if !finite(p.Station) {
