@@ -28,50 +28,72 @@ func Check(m *model.Model, res *solver.Result, p *policies.Policy) []Finding {
 	} else if p.Units != "" && p.Units != m.Units {
 		p = p.In(m.Units)
 	}
-	var found []Finding
+	// One runner serves every rule: its report method is bound once, and
+	// the findings slice starts large enough for a typical model.
+	rn := &runner{m: m, res: res, p: p, out: make([]Finding, 0, 16)}
+	rn.bound = rn.report
 	var last *Rule
 	for _, r := range All() {
 		if r.ID == unusedExceptionID {
 			last = r
 			continue
 		}
-		found = run(r, m, res, p, nil, found)
+		rn.run(r, nil)
 	}
 	// The exception rule judges the other rules' findings, so it runs last
 	// and exceptions are applied after it has seen them unapplied.
-	found = run(last, m, res, p, found, found)
+	rn.run(last, rn.out)
+	found := rn.out
 	if p.Exceptions != "deny" {
 		applyExceptions(m, found)
 	}
 	return sortFindings(found)
 }
 
-// run executes one rule and appends its findings, filling in what the rule
+// runner executes the rules of one Check in turn and collects their
+// findings. It belongs to that call alone, so concurrent Checks share
+// nothing.
+type runner struct {
+	m     *model.Model
+	res   *solver.Result
+	p     *policies.Policy
+	ctx   Context
+	rule  *Rule
+	cfg   *policies.RuleConfig
+	out   []Finding
+	bound func(Finding) // report, bound once
+}
+
+// run executes one rule and appends its findings (see report).
+func (rn *runner) run(r *Rule, prior []Finding) {
+	cfg := rn.p.Rules[r.ID]
+	if !r.AlwaysOn && cfg == nil {
+		return
+	}
+	rn.rule, rn.cfg = r, cfg
+	rn.ctx = Context{Model: rn.m, Result: rn.res, Policy: rn.p, Config: cfg, Findings: prior}
+	r.Check(&rn.ctx, rn.bound)
+}
+
+// report appends a finding of the running rule, filling in what the rule
 // leaves to the registry: its id, the severity the policy sets (else the
 // rule's default), the model file and the policy reference.
-func run(r *Rule, m *model.Model, res *solver.Result, p *policies.Policy, prior, out []Finding) []Finding {
-	cfg := p.Rules[r.ID]
-	if !r.AlwaysOn && cfg == nil {
-		return out
+func (rn *runner) report(f Finding) {
+	r, cfg := rn.rule, rn.cfg
+	f.Rule = r.ID
+	if f.Severity.Rank() == 0 {
+		f.Severity = r.Severity
+		if cfg != nil && cfg.Severity.Rank() > 0 {
+			f.Severity = cfg.Severity
+		}
 	}
-	ctx := &Context{Model: m, Result: res, Policy: p, Config: cfg, Findings: prior}
-	r.Check(ctx, func(f Finding) {
-		f.Rule = r.ID
-		if f.Severity.Rank() == 0 {
-			f.Severity = r.Severity
-			if cfg != nil && cfg.Severity.Rank() > 0 {
-				f.Severity = cfg.Severity
-			}
-		}
-		if f.File == "" {
-			f.File = m.File
-		}
-		if cfg != nil && f.Reference == "" {
-			f.Reference = p.Reference
-		}
-		out = append(out, f)
-	})
-	return out
+	if f.File == "" {
+		f.File = rn.m.File
+	}
+	if cfg != nil && f.Reference == "" {
+		f.Reference = rn.p.Reference
+	}
+	rn.out = append(rn.out, f)
 }
 
 // events are the event results a rule runs on: all of them for an
@@ -113,7 +135,10 @@ func (c *Context) units() model.Units {
 
 // cmpFindings orders findings by file, line, column, rule, reach, event,
 // station span and message.
-func cmpFindings(a, b Finding) int {
+func cmpFindings(a, b Finding) int { return cmpFindingPtrs(&a, &b) }
+
+// cmpFindingPtrs is cmpFindings without copying the findings.
+func cmpFindingPtrs(a, b *Finding) int {
 	return cmp.Or(
 		cmp.Compare(a.File, b.File),
 		cmp.Compare(a.Range.Start.Line, b.Range.Start.Line),
@@ -129,25 +154,48 @@ func cmpFindings(a, b Finding) int {
 
 // sortFindings orders findings by file, line, column, rule, reach, event
 // and station span (then message, so that the order is total) and removes
-// exact duplicates.
+// exact duplicates. It reorders fs in place and returns its sorted,
+// deduplicated prefix.
 func sortFindings(fs []Finding) []Finding {
 	if len(fs) < 2 {
 		return fs
 	}
-	// Sort pointers rather than the findings themselves: a Finding is a few
-	// hundred bytes, and a stable sort moves elements many times.
-	order := make([]*Finding, len(fs))
+	// Sort indices rather than the findings themselves: a Finding is a few
+	// hundred bytes, and a stable sort moves elements many times. The
+	// permutation is then applied in place, one move per finding.
+	var buf [32]int
+	order := buf[:0]
 	for i := range fs {
-		order[i] = &fs[i]
+		order = append(order, i)
 	}
-	slices.SortStableFunc(order, func(a, b *Finding) int { return cmpFindings(*a, *b) })
-	out := make([]Finding, 0, len(fs))
-	for i, f := range order {
-		if i == 0 || *f != *order[i-1] { // drop exact duplicates, as slices.Compact does
-			out = append(out, *f)
+	slices.SortStableFunc(order, func(a, b int) int { return cmpFindingPtrs(&fs[a], &fs[b]) })
+	for i := range order {
+		if order[i] < 0 {
+			continue
+		}
+		// Follow the cycle that starts at i: position j receives the
+		// finding at order[j].
+		tmp := fs[i]
+		j := i
+		for {
+			k := order[j]
+			order[j] = -1
+			if k == i {
+				fs[j] = tmp
+				break
+			}
+			fs[j] = fs[k]
+			j = k
 		}
 	}
-	return out
+	n := 1
+	for i := 1; i < len(fs); i++ {
+		if fs[i] != fs[n-1] { // drop exact duplicates, as slices.Compact does
+			fs[n] = fs[i]
+			n++
+		}
+	}
+	return fs[:n]
 }
 
 // eachReach calls fn for every reach result of every event the rule runs on.
