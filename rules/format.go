@@ -1,9 +1,9 @@
 package rules
 
 import (
+	"bytes"
 	"math"
 	"strconv"
-	"strings"
 
 	"github.com/chanlint/chanlint/model"
 )
@@ -13,8 +13,33 @@ import (
 // is not finite (which the rules never pass on purpose) prints as "n/a" so
 // that no output ever carries NaN or Inf.
 func num(x float64) string {
-	s, _ := numPair(x, x)
-	return s
+	if !finite(x) {
+		return "n/a"
+	}
+	var buf [40]byte
+	return string(appendNum(buf[:0], x))
+}
+
+// appendNum appends num(x) of a finite x to dst: numPair of (x, x), with
+// the number formatted once.
+func appendNum(dst []byte, x float64) []byte {
+	d := decimals(x)
+	start := len(dst)
+	dst = strconv.AppendFloat(dst, clean(x, d), 'f', d, 64)
+	return trimZeros(dst, start, d)
+}
+
+// trimZeros drops the trailing zeros of the decimals of the number
+// formatted in b[start:] with d decimals, and the point when none is left.
+func trimZeros(b []byte, start, d int) []byte {
+	for d > 0 && b[len(b)-1] == '0' {
+		b = b[:len(b)-1]
+		d--
+	}
+	if d == 0 && len(b) > start && b[len(b)-1] == '.' {
+		b = b[:len(b)-1]
+	}
+	return b
 }
 
 // numPair formats a measured value and its limit (or the two ends of a
@@ -27,25 +52,27 @@ func numPair(a, b float64) (string, string) {
 		return numOne(a), numOne(b)
 	}
 	d := max(decimals(b), decimals(a)-1)
-	sa := strconv.FormatFloat(clean(a, d), 'f', d, 64)
-	sb := strconv.FormatFloat(clean(b, d), 'f', d, 64)
-	for d > 0 && strings.HasSuffix(sa, "0") && strings.HasSuffix(sb, "0") {
+	var ba, bb [40]byte
+	sa := strconv.AppendFloat(ba[:0], clean(a, d), 'f', d, 64)
+	if a == b {
+		// One number: both strings are the same.
+		s := string(trimZeros(sa, 0, d))
+		return s, s
+	}
+	sb := strconv.AppendFloat(bb[:0], clean(b, d), 'f', d, 64)
+	for d > 0 && sa[len(sa)-1] == '0' && sb[len(sb)-1] == '0' {
 		sa, sb = sa[:len(sa)-1], sb[:len(sb)-1]
 		d--
 	}
 	if d == 0 {
-		sa, sb = strings.TrimSuffix(sa, "."), strings.TrimSuffix(sb, ".")
+		sa, sb = bytes.TrimSuffix(sa, dot), bytes.TrimSuffix(sb, dot)
 	}
-	return sa, sb
+	return string(sa), string(sb)
 }
 
-func numOne(x float64) string {
-	if !finite(x) {
-		return "n/a"
-	}
-	s, _ := numPair(x, x)
-	return s
-}
+var dot = []byte(".")
+
+func numOne(x float64) string { return num(x) }
 
 // decimals is the number of decimals that shows three significant digits
 // of x, between 0 and 6.
