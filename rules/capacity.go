@@ -1,8 +1,6 @@
 package rules
 
 import (
-	"fmt"
-
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )
@@ -69,15 +67,16 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 		if s.kind == flowsFull {
 			head := ""
 			if s.short > 0 {
-				head = fmt.Sprintf(", the hydraulic grade up to %s %s above its crown", num(s.short), lu)
+				head = ", the hydraulic grade up to " + num(s.short) + " " + lu + " above its crown"
 			}
-			msg = fmt.Sprintf("the %s %s closed conduit flows full %s (depth %s %s%s): "+
-				"it runs under pressure, which the free-surface results do not describe; "+
-				"enlarge the conduit or add a barrel, or analyse it for pressure flow", lim, lu, s.where(u), val, lu, head)
+			msg = "the " + lim + " " + lu + " closed conduit flows full " + s.where(u) + " (depth " + val + " " + lu + head + "): " +
+				"it runs under pressure, which the free-surface results do not describe; " +
+				"enlarge the conduit or add a barrel, or analyse it for pressure flow"
 		} else {
-			msg = fmt.Sprintf("depth %s %s exceeds the section height %s %s %s: the water surface rises %s %s "+
-				"above the top of bank: the channel overtops here; deepen or widen the section or raise the "+
-				"banks by at least %s %s", val, lu, lim, lu, s.where(u), num(s.short), lu, numUp(s.short), lu)
+			msg = "depth " + val + " " + lu + " exceeds the section height " + lim + " " + lu + " " + s.where(u) +
+				": the water surface rises " + num(s.short) + " " + lu + " above the top of bank: " +
+				"the channel overtops here; deepen or widen the section or raise the banks by at least " +
+				numUp(s.short) + " " + lu
 		}
 		report(spanFinding(ev, rr, s, msg))
 	})

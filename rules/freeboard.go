@@ -1,8 +1,6 @@
 package rules
 
 import (
-	"fmt"
-
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
@@ -70,14 +68,12 @@ func freeboardMessage(cfg *policies.RuleConfig, rr *solver.ReachResult, s span, 
 	val, lim := numPair(s.value, s.limit)
 	basis := ""
 	if cfg.Fraction*p.Depth > cfg.Minimum {
-		basis = fmt.Sprintf(" (%s × depth %s %s)", num(cfg.Fraction), num(p.Depth), lu)
+		basis = " (" + num(cfg.Fraction) + " × depth " + num(p.Depth) + " " + lu + ")"
 	}
-	where := s.where(u)
-	msg := fmt.Sprintf("freeboard %s %s is below the required %s %s%s %s; raise the top of bank by at least %s %s over this span",
-		val, lu, lim, lu, basis, where, numUp(s.short), lu)
+	msg := "freeboard " + val + " " + lu + " is below the required " + lim + " " + lu + basis + " " + s.where(u) +
+		"; raise the top of bank by at least " + numUp(s.short) + " " + lu + " over this span"
 	if s.value < 0 {
-		msg = fmt.Sprintf("the water surface rises %s %s above the top of bank: the channel overtops here; ",
-			num(-s.value), lu) + msg
+		msg = "the water surface rises " + num(-s.value) + " " + lu + " above the top of bank: the channel overtops here; " + msg
 	}
 	return msg
 }

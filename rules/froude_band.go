@@ -1,7 +1,6 @@
 package rules
 
 import (
-	"fmt"
 	"math"
 
 	"github.com/chanlint/chanlint/policies"
@@ -77,10 +76,9 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 		} else if math.IsInf(b.High, 1) {
 			side = "below " + lo
 		}
-		msg := fmt.Sprintf("Froude number %s lies in the avoided band %s–%s %s: near-critical flow is "+
-			"unstable, with a wavy surface and uncertain depth; change the slope or section so that "+
-			"the flow stays %s, or add freeboard for surface waves",
-			num(s.value), lo, hi, s.where(u), side)
+		msg := "Froude number " + num(s.value) + " lies in the avoided band " + lo + "–" + hi + " " + s.where(u) +
+			": near-critical flow is unstable, with a wavy surface and uncertain depth; " +
+			"change the slope or section so that the flow stays " + side + ", or add freeboard for surface waves"
 		report(spanFinding(ev, rr, s, msg))
 	})
 }

@@ -1,8 +1,6 @@
 package rules
 
 import (
-	"fmt"
-
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )
@@ -60,10 +58,10 @@ func checkJumpType(ctx *Context, report func(Finding)) {
 				Range: blk.DefRange, Reach: rr.Reach.Name, Event: ev.Event.Name,
 				FromStation: j.Station, ToStation: j.End(), HasSpan: true,
 				Value: j.Froude, Limit: edge, HasValue: true,
-				Message: fmt.Sprintf("the hydraulic jump %s has upstream Froude number %s%s, in the avoided band %s–%s: "+
-					"%s; bring F1 out of the band by changing the gate opening or the approach slope, "+
+				Message: "the hydraulic jump " + stations(j.Station, j.End(), u) + " has upstream Froude number " +
+					num(j.Froude) + kind + ", in the avoided band " + lo + "–" + hi + ": " + jumpHazard(j.Froude) +
+					"; bring F1 out of the band by changing the gate opening or the approach slope, " +
 					"or provide a basin designed for it",
-					stations(j.Station, j.End(), u), num(j.Froude), kind, lo, hi, jumpHazard(j.Froude)),
 			})
 		}
 	})

@@ -1,7 +1,7 @@
 package rules
 
 import (
-	"fmt"
+	"strconv"
 
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
@@ -101,24 +101,24 @@ func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u mod
 	val, lim := numPair(s.value, s.limit)
 	for_ := liningText(cfg, sec)
 	if upper {
-		return fmt.Sprintf("velocity %s %s exceeds %s %s for %s %s; a lining rated for at least %s %s is needed, "+
-			"or reduce velocity (flatter slope, rougher or wider section)",
-			val, vu, lim, vu, for_, s.where(u), numUp(s.value), vu)
+		return "velocity " + val + " " + vu + " exceeds " + lim + " " + vu + " for " + for_ + " " + s.where(u) +
+			"; a lining rated for at least " + numUp(s.value) + " " + vu + " is needed, " +
+			"or reduce velocity (flatter slope, rougher or wider section)"
 	}
-	return fmt.Sprintf("velocity %s %s is below the self-cleansing %s %s for %s %s; sediment may deposit here: "+
-		"raise the velocity at this flow (steeper grade, narrower or smoother section, a low-flow channel) "+
-		"or plan for cleaning",
-		val, vu, lim, vu, for_, s.where(u))
+	return "velocity " + val + " " + vu + " is below the self-cleansing " + lim + " " + vu + " for " + for_ + " " +
+		s.where(u) + "; sediment may deposit here: " +
+		"raise the velocity at this flow (steeper grade, narrower or smoother section, a low-flow channel) " +
+		"or plan for cleaning"
 }
 
 // liningText names what a by-lining limit was taken for: the lining word
 // when the policy lists it, else the policy's default.
 func liningText(cfg *policies.RuleConfig, sec *model.Section) string {
 	if _, ok := cfg.Limit.Values[sec.Lining]; ok {
-		return fmt.Sprintf("lining %q", sec.Lining)
+		return "lining " + strconv.Quote(sec.Lining)
 	}
 	if sec.Lining != "" {
-		return fmt.Sprintf("lining %q (the policy's default)", sec.Lining)
+		return "lining " + strconv.Quote(sec.Lining) + " (the policy's default)"
 	}
 	return "the policy's default limit"
 }

@@ -1,7 +1,6 @@
 package rules
 
 import (
-	"fmt"
 	"math"
 
 	"github.com/chanlint/chanlint/model"
@@ -76,9 +75,10 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		sec := sectionAt(rr, &rr.Points[s.worst])
 		val, lim := numPair(s.value, s.limit)
-		msg := fmt.Sprintf("boundary shear stress %s %s (γ·R·Sf) exceeds %s %s for %s %s; "+
-			"a lining rated for at least %s %s is needed, or reduce the stress "+
-			"(flatter slope, wider and shallower section)", val, su, lim, su, liningText(cfg, sec), s.where(u), numUp(s.value), su)
+		msg := "boundary shear stress " + val + " " + su + " (γ·R·Sf) exceeds " + lim + " " + su +
+			" for " + liningText(cfg, sec) + " " + s.where(u) + "; " +
+			"a lining rated for at least " + numUp(s.value) + " " + su + " is needed, or reduce the stress " +
+			"(flatter slope, wider and shallower section)"
 		report(spanFinding(ev, rr, s, msg))
 	})
 }
