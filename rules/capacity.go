@@ -47,7 +47,7 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 	lu := u.Length()
 	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		sec := sectionAt(rr, p)
-		if sec == nil || !finite(sec.Height) {
+		if sec == nil || !finiteNum(sec.Height) {
 			return false
 		}
 		kind := overtops

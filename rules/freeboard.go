@@ -47,7 +47,7 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 	u := ctx.units()
 	ctx.scanPoints(lower, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		sec := sectionAt(rr, p)
-		if sec == nil || sec.Closed() || !finite(sec.Height) {
+		if sec == nil || sec.Closed() || !finiteNum(sec.Height) {
 			return false
 		}
 		avail := p.Invert + sec.Height - p.WSE

@@ -74,7 +74,7 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 				sub, offset := pointsBetween(rr, lo, hi)
 				spans := scan(sub, lower, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 					sec := sectionAt(rr, p)
-					if sec == nil || sec.Closed() || p.Depth <= 0 || !finite(sec.Height) {
+					if sec == nil || sec.Closed() || p.Depth <= 0 || !finiteNum(sec.Height) {
 						return false
 					}
 					c := cSub
