@@ -106,6 +106,9 @@ func checkExceptions(ctx *Context, report func(Finding)) {
 				partial = f
 			}
 		}
+		if !deny && n > 0 {
+			continue // covered: nothing to report
+		}
 		what := fmt.Sprintf("the exception for rule %q on reach %q", ex.Rule, ex.ReachName)
 		f := Finding{Range: ex.DefRange, Reach: ex.ReachName}
 		if finite(ex.FromStation, ex.ToStation) { // the model guarantees it; never print NaN
@@ -117,8 +120,6 @@ func checkExceptions(ctx *Context, report func(Finding)) {
 			f.Severity = policies.Info
 			f.Message = fmt.Sprintf("%s was not applied: the policy does not accept design exceptions "+
 				"(exceptions = \"deny\"); %s", what, wouldCover(n))
-		case n > 0:
-			continue
 		default:
 			var why []string
 			switch {

@@ -51,15 +51,22 @@ func numPair(a, b float64) (string, string) {
 	if !finite(a) || !finite(b) {
 		return numOne(a), numOne(b)
 	}
-	d := max(decimals(b), decimals(a)-1)
-	var ba, bb [40]byte
-	sa := strconv.AppendFloat(ba[:0], clean(a, d), 'f', d, 64)
 	if a == b {
 		// One number: both strings are the same.
-		s := string(trimZeros(sa, 0, d))
+		s := num(a)
 		return s, s
 	}
-	sb := strconv.AppendFloat(bb[:0], clean(b, d), 'f', d, 64)
+	var ba, bb [40]byte
+	sa, sb := appendPair(ba[:0], bb[:0], a, b)
+	return string(sa), string(sb)
+}
+
+// appendPair appends the two strings numPair returns for finite a and b to
+// da and db.
+func appendPair(da, db []byte, a, b float64) ([]byte, []byte) {
+	d := max(decimals(b), decimals(a)-1)
+	sa := strconv.AppendFloat(da, clean(a, d), 'f', d, 64)
+	sb := strconv.AppendFloat(db, clean(b, d), 'f', d, 64)
 	for d > 0 && sa[len(sa)-1] == '0' && sb[len(sb)-1] == '0' {
 		sa, sb = sa[:len(sa)-1], sb[:len(sb)-1]
 		d--
@@ -67,7 +74,7 @@ func numPair(a, b float64) (string, string) {
 	if d == 0 {
 		sa, sb = bytes.TrimSuffix(sa, dot), bytes.TrimSuffix(sb, dot)
 	}
-	return string(sa), string(sb)
+	return sa, sb
 }
 
 var dot = []byte(".")
@@ -121,6 +128,16 @@ func numUp(x float64) string {
 
 // stations describes a span: "at station 120 m" or "over stations 120–180 m".
 func stations(from, to float64, u model.Units) string {
+	if finite(from) && finite(to) {
+		// The common case, with the numbers formatted on the stack and one
+		// allocation for the text.
+		var ba, bb [40]byte
+		a, b := appendPair(ba[:0], bb[:0], from, to)
+		if bytes.Equal(a, b) {
+			return "at station " + string(a) + " " + u.Length()
+		}
+		return "over stations " + string(a) + "–" + string(b) + " " + u.Length()
+	}
 	a, b := numPair(from, to)
 	if a == b {
 		return "at station " + a + " " + u.Length()
