@@ -1,7 +1,9 @@
 package rules
 
 import (
+	"cmp"
 	"fmt"
+	"slices"
 	"sort"
 
 	"github.com/chanlint/chanlint/model"
@@ -108,7 +110,7 @@ func noteGroups(rr *solver.ReachResult) []noteGroup {
 			notes = append(notes, n)
 		}
 	}
-	sort.SliceStable(notes, func(i, j int) bool { return notes[i].Station < notes[j].Station })
+	slices.SortStableFunc(notes, func(a, b solver.Note) int { return cmp.Compare(a.Station, b.Station) })
 	var out []noteGroup
 	for _, n := range notes {
 		if k := len(out) - 1; k >= 0 && out[k].kind == n.Kind && pointsStrictlyBetween(rr, out[k].to, n.Station) == 0 {
@@ -136,18 +138,18 @@ func noteMessage(g noteGroup, u model.Units) string {
 	}
 	switch g.kind {
 	case solver.NoteCriticalFallback:
-		return fmt.Sprintf("critical depth was taken %s because the energy equation had no solution there%s; "+
-			"depths and checks near this span are approximate: look for an abrupt change of section or slope, "+
-			"or a control the flow cannot meet", where, detail)
+		return "critical depth was taken " + where + " because the energy equation had no solution there" + detail +
+			"; depths and checks near this span are approximate: look for an abrupt change of section or slope, " +
+			"or a control the flow cannot meet"
 	case solver.NoteNoConvergence:
-		return fmt.Sprintf("the water-surface iteration did not converge %s%s; results there are uncertain: "+
-			"add computed points (max_spacing) or review the section", where, detail)
+		return "the water-surface iteration did not converge " + where + detail + "; results there are uncertain: " +
+			"add computed points (max_spacing) or review the section"
 	case solver.NoteControl:
-		return fmt.Sprintf("a boundary condition could not act as written %s%s; check the outlet, gate and "+
-			"entrance conditions against the flow regime", where, detail)
+		return "a boundary condition could not act as written " + where + detail + "; check the outlet, gate and " +
+			"entrance conditions against the flow regime"
 	case solver.NoteInfo:
-		return fmt.Sprintf("the solution rests on an assumption of the method %s%s; "+
-			"review the results there with that in mind", where, detail)
+		return "the solution rests on an assumption of the method " + where + detail +
+			"; review the results there with that in mind"
 	}
 	return fmt.Sprintf("the solver noted %s %s%s", g.kind, where, detail)
 }
