@@ -71,7 +71,9 @@ func (rn *runner) run(r *Rule, prior []Finding) {
 		return
 	}
 	rn.rule, rn.cfg = r, cfg
-	rn.ctx = Context{Model: rn.m, Result: rn.res, Policy: rn.p, Config: cfg, Findings: prior}
+	// The span buffer is kept from rule to rule: each rule uses it only
+	// while it walks one reach.
+	rn.ctx = Context{Model: rn.m, Result: rn.res, Policy: rn.p, Config: cfg, Findings: prior, spans: rn.ctx.spans[:0]}
 	r.Check(&rn.ctx, rn.bound)
 }
 
@@ -223,7 +225,8 @@ func (c *Context) eachReach(fn func(ev *solver.EventResult, rr *solver.ReachResu
 func (c *Context) scanPoints(w worse, judge judgeFunc,
 	emit func(ev *solver.EventResult, rr *solver.ReachResult, s span)) {
 	c.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
-		for _, s := range scan(rr, w, judge, reachBlock, &c.verdict) {
+		c.spans = scan(rr, w, judge, reachBlock, &c.verdict, c.spans[:0])
+		for _, s := range c.spans {
 			emit(ev, rr, s)
 		}
 	})

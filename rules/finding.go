@@ -57,6 +57,7 @@ type Context struct {
 	Findings []Finding
 
 	verdict verdict // scratch space of scan
+	spans   []span  // scratch space of scan: the spans of one reach, reused
 }
 
 // Rule is one check of the registry.

@@ -146,7 +146,12 @@ func stations(from, to float64, u model.Units) string {
 }
 
 // Unit symbols of the quantities the rules report.
-func velocityUnit(u model.Units) string { return u.Length() + "/s" }
+func velocityUnit(u model.Units) string {
+	if u == model.US { // u.Length() + "/s", without building it
+		return "ft/s"
+	}
+	return "m/s"
+}
 
 func stressUnit(u model.Units) string {
 	if u == model.US {

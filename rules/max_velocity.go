@@ -115,10 +115,12 @@ func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u mod
 // when the policy lists it, else the policy's default.
 func liningText(cfg *policies.RuleConfig, sec *model.Section) string {
 	if _, ok := cfg.Limit.Values[sec.Lining]; ok {
-		return "lining " + strconv.Quote(sec.Lining)
+		var buf [64]byte
+		return "lining " + string(strconv.AppendQuote(buf[:0], sec.Lining))
 	}
 	if sec.Lining != "" {
-		return "lining " + strconv.Quote(sec.Lining) + " (the policy's default)"
+		var buf [64]byte
+		return "lining " + string(strconv.AppendQuote(buf[:0], sec.Lining)) + " (the policy's default)"
 	}
 	return "the policy's default limit"
 }

@@ -102,9 +102,10 @@ func lower(a, b float64) bool  { return a < b }
 // v is scratch space for the judge's verdict: a judge is an unknown
 // function, so the verdict it fills lives on the heap; callers pass one
 // they own (Context keeps one per rule run) rather than allocate per walk.
+// The spans are appended to out, which callers pass empty to reuse its
+// array from one reach to the next.
 func scan(rr *solver.ReachResult, w worse, judge judgeFunc,
-	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict) []span {
-	var out []span
+	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict, out []span) []span {
 	var cur *span
 	for i := range rr.Points {
 		p := &rr.Points[i]

@@ -97,7 +97,8 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					}
 					*v = verdict{value: remaining, limit: cfg.Minimum, short: cfg.Minimum - remaining, aux: need}
 					return true
-				}, func(*solver.ReachResult, *solver.Point) *model.Src { return &bend.Src }, &ctx.verdict)
+				}, func(*solver.ReachResult, *solver.Point) *model.Src { return &bend.Src }, &ctx.verdict, ctx.spans[:0])
+				ctx.spans = spans
 				for _, s := range spans {
 					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset
 					report(spanFinding(ev, rr, s, superelevationMessage(rr, bend, s, cSub, cSup, u)))
