@@ -181,9 +181,19 @@ func TestFindingsIndependentOfUnits(t *testing.T) {
 	const valueTol = 1e-4
 	const shearTol = 1e-3    // twice the unit weight's 4.5e-4
 	const criticalTol = 0.05 // next to a critical control (see below)
+	// A closed conduit above its crown runs in the solver's narrow
+	// Preissmann slot (0.001·D wide), where the depth is the extra flow
+	// area divided by the slot width: a difference of 1e-7 in the energy
+	// balance shows in the depth about a thousand times larger. Capacity
+	// values are compared within 1e-3 (common practice for slot models, no
+	// published source).
+	const slotTol = 1e-3
 	tolOf := func(rule string) float64 {
-		if rule == "shear_stress" {
+		switch rule {
+		case "shear_stress":
 			return shearTol
+		case "capacity":
+			return slotTol
 		}
 		return valueTol
 	}
