@@ -13,6 +13,7 @@ import (
 	"strings"
 	"sync"
 
+	"github.com/chanlint/chanlint/model"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
 )
@@ -226,48 +227,18 @@ func (l *Loader) parse(name string, src []byte) (*hcl.File, hcl.Diagnostics) {
 		return p.file, p.diags
 	}
 	p := parsedFile{src: src}
-	if rng, deep := tooDeep(src, name); deep {
-		p.diags = hcl.Diagnostics{{Severity: hcl.DiagError, Summary: "Too deeply nested",
-			Detail:  fmt.Sprintf("Brackets, braces, parentheses, strings or signs nest more than %d deep here; a policy needs only a few levels.", MaxNesting),
-			Subject: rng.Ptr()}}
-	} else {
+	// The model package's pre-scan bounds the recursion of the HCL parser
+	// for every untrusted file, models and policies alike.
+	if p.diags = model.CheckNesting(name, src); !p.diags.HasErrors() {
 		p.file, p.diags = hclsyntax.ParseConfig(src, name, hcl.InitialPos)
 	}
 	l.parsed[name] = p
 	return p.file, p.diags
 }
 
-// MaxNesting bounds how deeply brackets, braces, parentheses, strings (a
-// string may interpolate another) and runs of unary signs nest, so that
-// the recursive HCL parser cannot exhaust the stack on a hostile file.
-const MaxNesting = 64
-
-// tooDeep lexes src (the lexer does not recurse) and returns the range of
-// the first token that nests deeper than MaxNesting.
-func tooDeep(src []byte, name string) (hcl.Range, bool) {
-	toks, _ := hclsyntax.LexConfig(src, name, hcl.InitialPos)
-	depth, signs := 0, 0
-	for _, t := range toks {
-		switch t.Type {
-		case hclsyntax.TokenOBrack, hclsyntax.TokenOBrace, hclsyntax.TokenOParen,
-			hclsyntax.TokenTemplateInterp, hclsyntax.TokenTemplateControl,
-			hclsyntax.TokenOQuote, hclsyntax.TokenOHeredoc:
-			depth++
-		case hclsyntax.TokenCBrack, hclsyntax.TokenCBrace, hclsyntax.TokenCParen,
-			hclsyntax.TokenTemplateSeqEnd, hclsyntax.TokenCQuote, hclsyntax.TokenCHeredoc:
-			depth = max(depth-1, 0)
-		}
-		if t.Type == hclsyntax.TokenMinus || t.Type == hclsyntax.TokenBang {
-			signs++
-		} else {
-			signs = 0
-		}
-		if depth > MaxNesting || signs > MaxNesting {
-			return t.Range, true
-		}
-	}
-	return hcl.Range{}, false
-}
+// MaxNesting is how deeply brackets, strings, signs and conditionals may
+// nest in a policy file: the same bound as for models.
+const MaxNesting = model.MaxNesting
 
 // load decodes n, then what it extends, and merges them. stack holds the
 // policies that led to n (top-level file first); from is the extends value that
