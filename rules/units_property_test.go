@@ -180,7 +180,7 @@ func TestFindingsIndependentOfUnits(t *testing.T) {
 	// of five.
 	const valueTol = 1e-4
 	const shearTol = 1e-3    // twice the unit weight's 4.5e-4
-	const criticalTol = 0.05 // next to a critical control (see below)
+	const criticalTol = 0.10 // next to a critical control (see below)
 	// A closed conduit above its crown runs in the solver's narrow
 	// Preissmann slot (0.001·D wide), where the depth is the extra flow
 	// area divided by the slot width: a difference of 1e-7 in the energy
@@ -249,6 +249,11 @@ func TestFindingsIndependentOfUnits(t *testing.T) {
 					// varies as the square root of the distance, so the
 					// worst value of a span depends on where the first
 					// computed point falls, which differs between runs.
+					// Freeboard-type values are differences (top of bank
+					// minus water surface minus rise), which magnify that:
+					// rapid found a bend below a critical control whose
+					// remaining freeboard differed by 5.0 % of its limit
+					// (0.015 m on 0.30 m) between the two systems.
 					tol = criticalTol
 				}
 				if dimensionless[k.rule] && a.HasValue {
