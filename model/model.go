@@ -65,6 +65,7 @@ const (
 	Trapezoid Shape = "trapezoid"
 	Triangle  Shape = "triangle"
 	Circle    Shape = "circle"
+	Box       Shape = "box" // closed rectangular conduit: bottom_width × height inside
 	Points    Shape = "points"
 )
 
@@ -82,7 +83,7 @@ type Section struct {
 	SideSlope   float64 // trapezoid, triangle: horizontal per unit vertical
 	Diameter    float64 // circle
 	// Height is invert to top of bank or lining. For a circle it equals the
-	// diameter; for a points section, when not written, it is the lower of
+	// diameter; for a box it is the inside rise, invert to soffit; for a points section, when not written, it is the lower of
 	// the two end points above the lowest point.
 	Height    float64
 	Points    []Point    // points: ordered by offset
@@ -91,8 +92,9 @@ type Section struct {
 	Lining    string     // free word matched by policies; "" when not written
 }
 
-// Closed reports whether the section is a closed conduit (a circle).
-func (s *Section) Closed() bool { return s.Shape == Circle }
+// Closed reports whether the section is a closed conduit (a circle or a
+// box).
+func (s *Section) Closed() bool { return s.Shape == Circle || s.Shape == Box }
 
 // Segment replaces the reach's section over part of the reach.
 type Segment struct {
@@ -127,6 +129,7 @@ type Reach struct {
 	Upstream   []*Reach // reaches that end at From, in model order
 	Downstream *Reach   // the reach that starts at To; nil for the outlet reach
 	Gate       *Gate    // at station 0, if any
+	Culvert    *Culvert // the culvert whose barrel this reach is, if any
 	Basins     []*Basin // ordered by station
 	Bends      []*Bend  // ordered by station
 }
@@ -266,6 +269,7 @@ type Model struct {
 	Sections   []*Section // in source order
 	Reaches    []*Reach
 	Gates      []*Gate
+	Culverts   []*Culvert
 	Basins     []*Basin
 	Bends      []*Bend
 	Events     []*Event

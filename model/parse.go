@@ -126,6 +126,7 @@ func parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	if d.diags.HasErrors() {
 		return nil, d.diags
 	}
+	dec.culvertLevels()
 	dec.events()
 	if d.diags.HasErrors() {
 		return nil, d.diags
@@ -340,6 +341,7 @@ var rootSchema = &hcl.BodySchema{
 		{Type: "section", LabelNames: []string{"name"}},
 		{Type: "reach", LabelNames: []string{"name"}},
 		{Type: "gate", LabelNames: []string{"name"}},
+		{Type: "culvert", LabelNames: []string{"name"}},
 		{Type: "basin", LabelNames: []string{"name"}},
 		{Type: "bend", LabelNames: []string{"name"}},
 		{Type: "event", LabelNames: []string{"name"}},
@@ -350,7 +352,7 @@ var rootSchema = &hcl.BodySchema{
 // blockLimits caps the number of blocks of each type.
 var blockLimits = map[string]int{
 	"section": MaxSections, "reach": MaxReaches, "event": MaxEvents,
-	"gate": MaxStructure, "basin": MaxStructure, "bend": MaxStructure, "exception": MaxStructure,
+	"gate": MaxStructure, "culvert": MaxStructure, "basin": MaxStructure, "bend": MaxStructure, "exception": MaxStructure,
 }
 
 func (d *decoder) root(body hcl.Body) {
@@ -391,6 +393,8 @@ func (d *decoder) root(body hcl.Body) {
 			m.Reaches = append(m.Reaches, r)
 		case "gate":
 			m.Gates = append(m.Gates, d.gate(b))
+		case "culvert":
+			m.Culverts = append(m.Culverts, d.culvert(b))
 		case "basin":
 			m.Basins = append(m.Basins, d.basin(b))
 		case "bend":

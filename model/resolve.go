@@ -104,6 +104,7 @@ func (d *decoder) resolve() {
 	d.sections = index(d, "section", m.Sections, func(s *Section) (string, hcl.Range) { return s.Name, s.LabelRange })
 	d.reaches = index(d, "reach", m.Reaches, func(r *Reach) (string, hcl.Range) { return r.Name, r.LabelRange })
 	index(d, "gate", m.Gates, func(g *Gate) (string, hcl.Range) { return g.Name, g.LabelRange })
+	index(d, "culvert", m.Culverts, func(c *Culvert) (string, hcl.Range) { return c.Name, c.LabelRange })
 	index(d, "basin", m.Basins, func(b *Basin) (string, hcl.Range) { return b.Name, b.LabelRange })
 	index(d, "bend", m.Bends, func(b *Bend) (string, hcl.Range) { return b.Name, b.LabelRange })
 	index(d, "event", m.Events, func(e *Event) (string, hcl.Range) { return e.Name, e.LabelRange })
@@ -152,6 +153,7 @@ func (d *decoder) resolve() {
 				g.Name, g.Opening, d.m.Units.Length(), s.Height, s.Name, g.ReachName)
 		}
 	}
+	d.resolveCulverts()
 	for _, b := range m.Basins {
 		what := quoted("basin", b.Name)
 		b.Reach = d.lookupReach(b.ReachName, b.At("reach"), what)

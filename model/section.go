@@ -30,10 +30,11 @@ var shapeAttrs = map[Shape]struct{ required, optional []string }{
 	Trapezoid: {required: []string{"bottom_width", "side_slope", "height", "roughness"}},
 	Triangle:  {required: []string{"side_slope", "height", "roughness"}},
 	Circle:    {required: []string{"diameter", "roughness"}},
+	Box:       {required: []string{"bottom_width", "height", "roughness"}},
 	Points:    {required: []string{"points", "roughness"}, optional: []string{"banks", "height"}},
 }
 
-var shapeNames = []string{string(Rectangle), string(Trapezoid), string(Triangle), string(Circle), string(Points)}
+var shapeNames = []string{string(Rectangle), string(Trapezoid), string(Triangle), string(Circle), string(Box), string(Points)}
 
 func (d *decoder) section(b *hcl.Block) *Section {
 	s := &Section{Src: newSrc(b), Name: d.blockName(b)}
@@ -76,7 +77,7 @@ func (d *decoder) section(b *hcl.Block) *Section {
 	}
 	unit := d.unitSuffix()
 	switch s.Shape {
-	case Rectangle, Trapezoid:
+	case Rectangle, Trapezoid, Box:
 		s.BottomWidth, _ = a.positive("bottom_width", unit)
 		s.Height, _ = a.positive("height", unit)
 		if s.Shape == Trapezoid {

@@ -127,10 +127,14 @@ func (c *circle) props(y float64) Props {
 // FullFlow returns, for a closed conduit, its conveyance flowing full
 // (K_full, so that the full-pipe discharge at slope S is K_full·√S) and
 // the largest open-channel conveyance with the depth where it occurs
-// (about 1.0757·K_full at y/D ≈ 0.9382). ok is false for open sections.
+// (about 1.0757·K_full at y/D ≈ 0.9382 in a circle; just below the
+// soffit of a box), all barrels together. ok is false for open sections.
 func (g *Geometry) FullFlow() (kFull, kMax, yMax float64, ok bool) {
-	if g.kind != kindCircle {
-		return 0, 0, 0, false
+	switch g.kind {
+	case kindCircle:
+		return g.barrels * g.circ.kFull, g.barrels * g.circ.kMax, g.circ.yQmax, true
+	case kindBox:
+		return g.barrels * g.box.kFull, g.barrels * g.box.kMax, g.box.h, true
 	}
-	return g.circ.kFull, g.circ.kMax, g.circ.yQmax, true
+	return 0, 0, 0, false
 }

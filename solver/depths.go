@@ -83,14 +83,19 @@ func NormalDepth(g *Geometry, q, slope float64) (float64, error) {
 	target := q / math.Sqrt(slope)
 	f := func(y float64) float64 { return g.Props(y).Conveyance/target - 1 }
 	switch g.kind {
-	case kindCircle:
-		c := &g.circ
-		if !(target <= c.kMax) {
+	case kindCircle, kindBox:
+		kFull, kMax, yMax, _ := g.FullFlow()
+		if !(target <= kMax) {
 			rs := math.Sqrt(slope)
-			return 0, fmt.Errorf("%w: discharge %.4g exceeds the largest open-channel flow %.4g of the %.4g conduit at slope %.4g (at y/D = %.4f; flowing full it carries %.4g), so it runs full under pressure",
-				ErrNoNormalDepth, q, c.kMax*rs, c.d, slope, circleQmaxDepthRatio, c.kFull*rs)
+			return 0, fmt.Errorf("%w: discharge %.4g exceeds the largest open-channel flow %.4g of the %.4g-high conduit at slope %.4g (at a depth of %.4g; flowing full it carries %.4g), so it runs full under pressure",
+				ErrNoNormalDepth, q, kMax*rs, g.height, slope, yMax, kFull*rs)
 		}
-		return Brent(f, minDepth, c.yQmax, 0)
+		if g.kind == kindBox {
+			// The conveyance rises with depth up to the soffit, where the
+			// perimeter jumps: search just below it.
+			yMax *= 1 - 1e-12
+		}
+		return Brent(f, minDepth, yMax, 0)
 	case kindPoints:
 		y0 := 1.0
 		if len(g.pts.grid) > 0 {
@@ -188,6 +193,19 @@ func CriticalDepth(g *Geometry, q float64) (float64, error) {
 // circle, where it is unique.
 func criticalSingle(g *Geometry, q float64) (float64, error) {
 	f := criticalFn(g, q)
+	if g.kind == kindBox {
+		// yc = (Q²/(g·B²))^(1/3) with B the width of all barrels, below the
+		// soffit (Chow 1959, ch. 4).
+		h, w := g.box.h, g.barrels*g.box.b
+		if !(h > 0 && w > 0) {
+			return 0, ErrNoCriticalDepth
+		}
+		yc := math.Cbrt(q * q / (g.g * w * w))
+		if yc >= h {
+			return h, fmt.Errorf("%w: discharge %.4g is supercritical up to the soffit of the %.4g-high box", ErrNoCriticalDepth, q, h)
+		}
+		return yc, nil
+	}
 	if g.kind == kindCircle {
 		d := g.circ.d
 		if !(d > 0) {

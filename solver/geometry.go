@@ -13,6 +13,7 @@ const (
 	kindPrismatic shapeKind = iota // rectangle, trapezoid, triangle: one trapezoid formula
 	kindCircle
 	kindPoints
+	kindBox
 )
 
 // Depth limits applied by Props. They keep every derived quantity finite
@@ -41,7 +42,12 @@ type Geometry struct {
 	kn      float64 // k/n of the single roughness
 
 	circ circle
+	box  box
 	pts  compound
+	// barrels is the number of identical closed barrels side by side
+	// (1 for every other section): A, P, T, A·z̄ and K are those of one
+	// barrel times barrels, R and the depths those of one.
+	barrels float64
 }
 
 // NewGeometry precomputes the hydraulics of a validated section in the
@@ -50,8 +56,21 @@ type Geometry struct {
 // than two points) still gives a Geometry whose Props are finite; its
 // results mean nothing.
 func NewGeometry(s *model.Section, u model.Units) *Geometry {
-	g := &Geometry{sec: s, k: u.Manning(), g: u.Gravity(), height: s.Height}
+	return NewBarrels(s, u, 1)
+}
+
+// NewBarrels is NewGeometry for n identical closed barrels side by side
+// (a culvert's `barrels`); n is ignored (taken as 1) for an open section
+// and below 1.
+func NewBarrels(s *model.Section, u model.Units, n int) *Geometry {
+	g := &Geometry{sec: s, k: u.Manning(), g: u.Gravity(), height: s.Height, barrels: 1}
+	if n > 1 && s.Closed() {
+		g.barrels = float64(n)
+	}
 	switch s.Shape {
+	case model.Box:
+		g.kind = kindBox
+		g.box = newBox(s.BottomWidth, s.Height, g.k/positive(s.Roughness[1]))
 	case model.Circle:
 		g.kind = kindCircle
 		g.circ = newCircle(s.Diameter, g.k/positive(s.Roughness[1]))
@@ -103,8 +122,28 @@ func (g *Geometry) K() float64 { return g.k }
 // G is standard gravity in the unit system.
 func (g *Geometry) G() float64 { return g.g }
 
-// Closed reports whether the section is a closed conduit (a circle).
-func (g *Geometry) Closed() bool { return g.kind == kindCircle }
+// Closed reports whether the section is a closed conduit (a circle or a
+// box).
+func (g *Geometry) Closed() bool { return g.kind == kindCircle || g.kind == kindBox }
+
+// Barrels is the number of identical barrels of a closed section (1 for
+// an open one).
+func (g *Geometry) Barrels() int { return int(g.barrels) }
+
+// scaled multiplies the extensive properties of one barrel by the number
+// of barrels.
+func (g *Geometry) scaled(p Props) Props {
+	if g.barrels == 1 {
+		return p
+	}
+	n := g.barrels
+	p.Area *= n
+	p.Perimeter *= n
+	p.TopWidth *= n
+	p.FirstMoment *= n
+	p.Conveyance *= n
+	return p
+}
 
 // Props are the hydraulic properties of a section at one depth.
 type Props struct {
@@ -154,12 +193,15 @@ func clampDepth(y float64) float64 {
 //	A = (b + z·y)·y      P = b + 2·y·√(1+z²)      T = b + 2·z·y
 //	A·z̄ = b·y²/2 + z·y³/3
 //
-// Circles are in circle.go and points sections in compound.go.
+// Circles are in circle.go, boxes in box.go and points sections in
+// compound.go.
 func (g *Geometry) Props(y float64) Props {
 	y = clampDepth(y)
 	switch g.kind {
 	case kindCircle:
-		return g.circ.props(y)
+		return g.scaled(g.circ.props(y))
+	case kindBox:
+		return g.scaled(g.box.props(y))
 	case kindPoints:
 		return g.pts.props(y)
 	}

@@ -44,8 +44,12 @@ type reachWork struct {
 // layout splits a reach into runs of one section and collects its stops.
 func (s *solver) layout(r *model.Reach) reachLayout {
 	var lay reachLayout
+	barrels := 1
+	if r.Culvert != nil {
+		barrels = r.Culvert.Barrels
+	}
 	if r.Section != nil {
-		lay.main = s.geometry(r.Section)
+		lay.main = s.geometry(r.Section, barrels)
 	}
 	length := r.Length
 	if !(length > 0) || math.IsInf(length, 0) {
@@ -70,7 +74,7 @@ func (s *solver) layout(r *model.Reach) reachLayout {
 			lay.pieces[n-1].to = b
 			continue
 		}
-		lay.pieces = append(lay.pieces, piece{from: a, to: b, geo: s.geometry(sec)})
+		lay.pieces = append(lay.pieces, piece{from: a, to: b, geo: s.geometry(sec, barrels)})
 	}
 	if len(lay.pieces) == 0 && r.Section != nil {
 		lay.pieces = []piece{{from: 0, to: length, geo: lay.main}}

@@ -130,7 +130,7 @@ type solver struct {
 	tol        float64
 	maxPoints  int
 	order      []*model.Reach // topological, upstream first
-	geos       map[*model.Section]*Geometry
+	geos       map[geoKey]*Geometry
 	depthCache map[depthKey]depthVal
 	layouts    []reachLayout // by reach index
 	work       []reachWork   // by reach index
@@ -147,7 +147,7 @@ func newSolver(m *model.Model, opts Options) *solver {
 		units:      m.Units,
 		tol:        opts.Tolerance,
 		maxPoints:  opts.MaxPoints,
-		geos:       map[*model.Section]*Geometry{},
+		geos:       map[geoKey]*Geometry{},
 		depthCache: map[depthKey]depthVal{},
 	}
 	if !(s.tol > 0) || math.IsInf(s.tol, 0) {
@@ -166,13 +166,22 @@ func newSolver(m *model.Model, opts Options) *solver {
 	return s
 }
 
-// geometry returns the cached Geometry of a section.
-func (s *solver) geometry(sec *model.Section) *Geometry {
-	if g, ok := s.geos[sec]; ok {
+// geoKey identifies a cached Geometry: a section and its number of
+// barrels.
+type geoKey struct {
+	sec     *model.Section
+	barrels int
+}
+
+// geometry returns the cached Geometry of a section with n barrels (1
+// for anything but a culvert barrel).
+func (s *solver) geometry(sec *model.Section, n int) *Geometry {
+	key := geoKey{sec, max(n, 1)}
+	if g, ok := s.geos[key]; ok {
 		return g
 	}
-	g := NewGeometry(sec, s.units)
-	s.geos[sec] = g
+	g := NewBarrels(sec, s.units, key.barrels)
+	s.geos[key] = g
 	return g
 }
 

@@ -14,7 +14,7 @@ reach "main" {
   section = "lined"
   slope   = 0.002
 }
-culvert "pipe" { # want "Unsupported block type"
+weir "spill" { # want "Unsupported block type"
   reach = "main"
 }
 event "q100" {
