@@ -63,21 +63,24 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		val, lim := numPair(s.value, s.limit)
-		var msg string
+		var msg, remedy string
 		if s.kind == flowsFull {
 			head := ""
 			if s.short > 0 {
 				head = ", the hydraulic grade up to " + num(s.short) + " " + lu + " above its crown"
 			}
-			msg = "the " + lim + " " + lu + " closed conduit flows full " + s.where(u) + " (depth " + val + " " + lu + head + "): " +
-				"it runs under pressure, which the free-surface results do not describe; " +
-				"enlarge the conduit or add a barrel, or analyse it for pressure flow"
+			msg = "the " + lim + " " + lu + " closed conduit flows full (depth " + val + " " + lu + head + "): " +
+				"it runs under pressure, which the free-surface results do not describe"
+			remedy = "enlarge the conduit or add a barrel, or analyse it for pressure flow"
 		} else {
-			msg = "depth " + val + " " + lu + " exceeds the section height " + lim + " " + lu + " " + s.where(u) +
-				": the water surface rises " + num(s.short) + " " + lu + " above the top of bank: " +
-				"the channel overtops here; deepen or widen the section or raise the banks by at least " +
-				numUp(s.short) + " " + lu
+			msg = "the channel overtops here: depth " + val + " " + lu + " exceeds the section height " + lim + " " + lu +
+				", the water surface " + num(s.short) + " " + lu + " above the top of bank"
+			remedy = "deepen or widen the section or raise the banks by at least " + numUp(s.short) + " " + lu
 		}
-		report(spanFinding(ev, rr, s, msg))
+		f := spanFinding(ev, rr, s, msg, remedy)
+		if sec := sectionAt(rr, &rr.Points[s.worst]); sec != nil {
+			f.Focus = sec.At("height")
+		}
+		report(f)
 	})
 }

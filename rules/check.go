@@ -135,16 +135,17 @@ func (c *Context) units() model.Units {
 	return model.SI
 }
 
-// cmpFindings orders findings by file, line, column, rule, reach, event,
-// station span and message.
+// cmpFindings orders findings by file, printed line and column (Pos),
+// rule, reach, event, station span and message.
 func cmpFindings(a, b Finding) int { return cmpFindingPtrs(&a, &b) }
 
 // cmpFindingPtrs is cmpFindings without copying the findings.
 func cmpFindingPtrs(a, b *Finding) int {
+	pa, pb := a.Pos(), b.Pos()
 	return cmp.Or(
 		cmp.Compare(a.File, b.File),
-		cmp.Compare(a.Range.Start.Line, b.Range.Start.Line),
-		cmp.Compare(a.Range.Start.Column, b.Range.Start.Column),
+		cmp.Compare(pa.Start.Line, pb.Start.Line),
+		cmp.Compare(pa.Start.Column, pb.Start.Column),
 		cmp.Compare(a.Rule, b.Rule),
 		cmp.Compare(a.Reach, b.Reach),
 		cmp.Compare(a.Event, b.Event),

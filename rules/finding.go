@@ -13,6 +13,8 @@
 package rules
 
 import (
+	"strings"
+
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
@@ -27,11 +29,26 @@ const Caution = "chanlint screens a model against the configured design criteria
 type Finding struct {
 	Rule     string
 	Severity policies.Severity
-	Message  string // measured value and limit in the model's units, and the remedy where it can be computed
-	File     string // model file, forward slashes, as given
-	Range    hcl.Range
-	Reach    string // "" when the finding is not about a reach
-	Event    string // "" when not about an event
+	// Message states what was measured against which limit, in the
+	// model's units, without the reach, event and station span (the
+	// renderers print those from the fields below).
+	Message string
+	// Remedy is what to change, where the rule can compute it: printed on
+	// its own line in text, as `remedy` in JSON, after the message in
+	// SARIF and the report. "" when there is none.
+	Remedy string
+	File   string // model file, forward slashes, as given
+	// Range is the block a designer edits to fix the finding (the reach,
+	// segment, bend or basin); findings sort by it, and exceptions and the
+	// rule goldens refer to it.
+	Range hcl.Range
+	// Focus is the value of the attribute that matters most when there is
+	// one (the section's height for freeboard, its lining for velocity);
+	// outputs print their line and column from Pos. Zero when the block
+	// itself is the place.
+	Focus hcl.Range
+	Reach string // "" when the finding is not about a reach
+	Event string // "" when not about an event
 	// Station span; HasSpan is false for findings without one.
 	FromStation, ToStation float64
 	HasSpan                bool
@@ -71,4 +88,43 @@ type Rule struct {
 	AlwaysOn bool // model, solver, capacity
 	// Check reports findings through report; it never prints.
 	Check func(ctx *Context, report func(Finding))
+}
+
+// Text is the message followed by the remedy, for outputs that have one
+// line of text per finding (SARIF, the report's tables).
+func (f *Finding) Text() string {
+	if f.Remedy == "" {
+		return f.Message
+	}
+	return f.Message + "; " + f.Remedy
+}
+
+// Pos is the position outputs print: Focus when set, else Range.
+func (f *Finding) Pos() hcl.Range {
+	if f.Focus.Start.Line > 0 {
+		return f.Focus
+	}
+	return f.Range
+}
+
+// Where names the place of a finding for a one-line output: "reach R,
+// event E, stations a–b m" (each part only when the finding has it), with
+// unit the model's length unit; "" when the finding has none of them.
+func (f *Finding) Where(unit string) string {
+	var parts []string
+	if f.Reach != "" {
+		parts = append(parts, "reach "+f.Reach)
+	}
+	if f.Event != "" {
+		parts = append(parts, "event "+f.Event)
+	}
+	if f.HasSpan {
+		s := Span(f.FromStation, f.ToStation)
+		word := "stations "
+		if !strings.Contains(s, "–") {
+			word = "station "
+		}
+		parts = append(parts, word+s+" "+unit)
+	}
+	return strings.Join(parts, ", ")
 }

@@ -170,3 +170,13 @@ func finite(xs ...float64) bool {
 	}
 	return z == 0
 }
+
+// Span formats a station span for the outputs as the messages do: "100–200"
+// with both ends to the same decimals, or "400" when the ends are equal.
+func Span(from, to float64) string {
+	a, b := numPair(from, to)
+	if a == b {
+		return a
+	}
+	return a + "–" + b
+}

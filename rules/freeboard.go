@@ -58,11 +58,16 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 		*v = verdict{value: avail, limit: req, short: req - avail}
 		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
-		report(spanFinding(ev, rr, s, freeboardMessage(cfg, rr, s, u)))
+		msg, remedy := freeboardMessage(cfg, rr, s, u)
+		f := spanFinding(ev, rr, s, msg, remedy)
+		if sec := sectionAt(rr, &rr.Points[s.worst]); sec != nil {
+			f.Focus = sec.At("height") // the attribute a designer raises
+		}
+		report(f)
 	})
 }
 
-func freeboardMessage(cfg *policies.RuleConfig, rr *solver.ReachResult, s span, u model.Units) string {
+func freeboardMessage(cfg *policies.RuleConfig, rr *solver.ReachResult, s span, u model.Units) (msg, remedy string) {
 	lu := u.Length()
 	p := &rr.Points[s.worst]
 	val, lim := numPair(s.value, s.limit)
@@ -70,10 +75,10 @@ func freeboardMessage(cfg *policies.RuleConfig, rr *solver.ReachResult, s span, 
 	if cfg.Fraction*p.Depth > cfg.Minimum {
 		basis = " (" + num(cfg.Fraction) + " × depth " + num(p.Depth) + " " + lu + ")"
 	}
-	msg := "freeboard " + val + " " + lu + " is below the required " + lim + " " + lu + basis + " " + s.where(u) +
-		"; raise the top of bank by at least " + numUp(s.short) + " " + lu + " over this span"
+	msg = "freeboard " + val + " " + lu + " is below the required " + lim + " " + lu + basis
 	if s.value < 0 {
-		msg = "the water surface rises " + num(-s.value) + " " + lu + " above the top of bank: the channel overtops here; " + msg
+		msg = "the channel overtops here: the water surface is " + num(-s.value) + " " + lu +
+			" above the top of bank; required freeboard " + lim + " " + lu + basis
 	}
-	return msg
+	return msg, "raise the top of bank by at least " + numUp(s.short) + " " + lu + " over this span"
 }

@@ -55,7 +55,6 @@ func nearestEdge(b policies.Band, x float64) (edge, depth float64) {
 
 func checkFroudeBand(ctx *Context, report func(Finding)) {
 	cfg := ctx.Config
-	u := ctx.units()
 	ctx.scanPoints(nil, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		if p.Depth <= 0 {
 			return false
@@ -76,9 +75,10 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 		} else if math.IsInf(b.High, 1) {
 			side = "below " + lo
 		}
-		msg := "Froude number " + num(s.value) + " lies in the avoided band " + lo + "–" + hi + " " + s.where(u) +
-			": near-critical flow is unstable, with a wavy surface and uncertain depth; " +
-			"change the slope or section so that the flow stays " + side + ", or add freeboard for surface waves"
-		report(spanFinding(ev, rr, s, msg))
+		msg := "Froude number " + num(s.value) + " lies in the avoided band " + lo + "–" + hi
+		f := spanFinding(ev, rr, s, msg, "near-critical flow is unstable, with a wavy surface and uncertain depth: "+
+			"change the slope or section so that the flow stays "+side+", or add freeboard for surface waves")
+		f.Focus = s.block.At("slope") // the grade sets the Froude number
+		report(f)
 	})
 }

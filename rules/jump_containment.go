@@ -56,7 +56,7 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 			}
 			f := Finding{Reach: r.Name, Event: ev.Event.Name, FromStation: toe, ToStation: end,
 				HasSpan: true, Limit: 0, HasValue: true}
-			jump := fmt.Sprintf("the hydraulic jump %s (length %s %s", stations(toe, end, u), num(j.Length), lu)
+			jump := fmt.Sprintf("the hydraulic jump (length %s %s", num(j.Length), lu)
 			if finite(j.Froude) {
 				jump += ", F1 " + num(j.Froude)
 			}
@@ -64,8 +64,8 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 			if b == nil {
 				f.Range, f.Value = r.DefRange, end-toe
 				from, to := numPair(toe, end)
-				f.Message = fmt.Sprintf("%s lies in no basin of reach %q; unprotected channel may scour: "+
-					"build a basin covering at least stations %s–%s %s, or move the jump", jump, r.Name, from, to, lu)
+				f.Message = fmt.Sprintf("%s lies in no basin of reach %q: unprotected channel may scour", jump, r.Name)
+				f.Remedy = fmt.Sprintf("build a basin covering at least stations %s–%s %s, or move the jump", from, to, lu)
 			} else {
 				var by []string
 				if up > tol {
@@ -81,9 +81,9 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 					side = "upstream and downstream"
 				}
 				f.Range, f.Value = b.DefRange, max(up, 0)+max(down, 0)
-				f.Message = fmt.Sprintf("%s escapes basin %q (%s–%s %s) by %s; unprotected channel %s may scour; "+
-					"lengthen the basin or move it", jump, b.Name, num(b.FromStation), num(b.ToStation), lu,
-					strings.Join(by, " and "), side)
+				f.Message = fmt.Sprintf("%s escapes basin %q (%s–%s %s) by %s: unprotected channel %s may scour",
+					jump, b.Name, num(b.FromStation), num(b.ToStation), lu, strings.Join(by, " and "), side)
+				f.Remedy = "lengthen the basin or move it"
 			}
 			report(f)
 		}

@@ -37,7 +37,6 @@ suppressors.`,
 
 func checkJumpType(ctx *Context, report func(Finding)) {
 	cfg := ctx.Config
-	u := ctx.units()
 	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		for _, j := range rr.Jumps {
 			if !usableJump(j) || !finite(j.Froude) {
@@ -58,9 +57,9 @@ func checkJumpType(ctx *Context, report func(Finding)) {
 				Range: blk.DefRange, Reach: rr.Reach.Name, Event: ev.Event.Name,
 				FromStation: j.Station, ToStation: j.End(), HasSpan: true,
 				Value: j.Froude, Limit: edge, HasValue: true,
-				Message: "the hydraulic jump " + stations(j.Station, j.End(), u) + " has upstream Froude number " +
-					num(j.Froude) + kind + ", in the avoided band " + lo + "–" + hi + ": " + jumpHazard(j.Froude) +
-					"; bring F1 out of the band by changing the gate opening or the approach slope, " +
+				Message: "the hydraulic jump has upstream Froude number " +
+					num(j.Froude) + kind + ", in the avoided band " + lo + "–" + hi,
+				Remedy: jumpHazard(j.Froude) + "; bring F1 out of the band by changing the gate opening or the approach slope, " +
 					"or provide a basin designed for it",
 			})
 		}

@@ -68,7 +68,10 @@ func checkVelocity(ctx *Context, report func(Finding), upper bool) {
 		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		sec := sectionAt(rr, &rr.Points[s.worst])
-		report(spanFinding(ev, rr, s, velocityMessage(cfg, sec, s, u, upper)))
+		msg, remedy := velocityMessage(cfg, sec, s, u, upper)
+		f := spanFinding(ev, rr, s, msg, remedy)
+		f.Focus = sec.At("lining") // the limit is the lining's
+		report(f)
 	})
 }
 
@@ -96,19 +99,18 @@ func (l *liningLimits) at(rr *solver.ReachResult, p *solver.Point) (float64, boo
 	return l.lim, l.ok
 }
 
-func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u model.Units, upper bool) string {
+func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u model.Units, upper bool) (msg, remedy string) {
 	vu := velocityUnit(u)
 	val, lim := numPair(s.value, s.limit)
 	for_ := liningText(cfg, sec)
 	if upper {
-		return "velocity " + val + " " + vu + " exceeds " + lim + " " + vu + " for " + for_ + " " + s.where(u) +
-			"; a lining rated for at least " + numUp(s.value) + " " + vu + " is needed, " +
-			"or reduce velocity (flatter slope, rougher or wider section)"
+		return "velocity " + val + " " + vu + " exceeds " + lim + " " + vu + " for " + for_,
+			"a lining rated for at least " + numUp(s.value) + " " + vu + " is needed, " +
+				"or reduce velocity (flatter slope, rougher or wider section)"
 	}
-	return "velocity " + val + " " + vu + " is below the self-cleansing " + lim + " " + vu + " for " + for_ + " " +
-		s.where(u) + "; sediment may deposit here: " +
-		"raise the velocity at this flow (steeper grade, narrower or smoother section, a low-flow channel) " +
-		"or plan for cleaning"
+	return "velocity " + val + " " + vu + " is below the self-cleansing " + lim + " " + vu + " for " + for_,
+		"sediment may deposit here: raise the velocity at this flow (steeper grade, narrower or smoother section, a low-flow channel) " +
+			"or plan for cleaning"
 }
 
 // liningText names what a by-lining limit was taken for: the lining word

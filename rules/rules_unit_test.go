@@ -51,10 +51,10 @@ func TestFreeboardSpansAndMessage(t *testing.T) {
 	assert.Equal(t, r.DefRange, fs[0].Range)
 	assert.Equal(t, "main", fs[0].Reach)
 	assert.Equal(t, "q", fs[0].Event)
-	assert.Equal(t, "freeboard 0.15 m is below the required 0.30 m over stations 100–200 m; "+
-		"raise the top of bank by at least 0.15 m over this span", fs[0].Message)
-	assert.Equal(t, "freeboard 0.1 m is below the required 0.3 m at station 400 m; "+
-		"raise the top of bank by at least 0.2 m over this span", fs[1].Message)
+	assert.Equal(t, "freeboard 0.15 m is below the required 0.30 m", fs[0].Message)
+	assert.Equal(t, "raise the top of bank by at least 0.15 m over this span", fs[0].Remedy)
+	assert.Equal(t, "freeboard 0.1 m is below the required 0.3 m", fs[1].Message)
+	assert.Equal(t, "raise the top of bank by at least 0.2 m over this span", fs[1].Remedy)
 }
 
 func TestFreeboardFractionGovernsAndOvertopping(t *testing.T) {
@@ -66,7 +66,7 @@ func TestFreeboardFractionGovernsAndOvertopping(t *testing.T) {
 	assertSpan(t, fs[0], 100, 200, -0.1, 0.275)
 	assert.Contains(t, fs[0].Message, "the channel overtops here")
 	assert.Contains(t, fs[0].Message, "(0.25 × depth 1.1 m)")
-	assert.Contains(t, fs[0].Message, "by at least 0.375 m") // 0.275 + 0.1
+	assert.Contains(t, fs[0].Remedy, "by at least 0.375 m") // 0.275 + 0.1
 }
 
 func TestFreeboardSkipsClosedAndSplitsAtSegments(t *testing.T) {
@@ -93,8 +93,8 @@ func TestMaxVelocity(t *testing.T) {
 	// 3.0 is not above 3.0; only 4.2 fails.
 	require.Len(t, fs, 1)
 	assertSpan(t, fs[0], 200, 200, 4.2, 3.0)
-	assert.Equal(t, `velocity 4.2 m/s exceeds 3.0 m/s for lining "grass" at station 200 m; a lining rated for `+
-		`at least 4.2 m/s is needed, or reduce velocity (flatter slope, rougher or wider section)`, fs[0].Message)
+	assert.Equal(t, `velocity 4.2 m/s exceeds 3.0 m/s for lining "grass"`, fs[0].Message)
+	assert.Equal(t, `a lining rated for at least 4.2 m/s is needed, or reduce velocity (flatter slope, rougher or wider section)`, fs[0].Remedy)
 
 	// No value for the lining and no default: not checked.
 	cfg = &policies.RuleConfig{Limit: policies.ByLining{Values: map[string]float64{"concrete": 1}}}
@@ -125,8 +125,8 @@ func TestFroudeBand(t *testing.T) {
 	require.Len(t, fs, 2)
 	assertSpan(t, fs[0], 100, 200, 1.0, 1.13)
 	assertSpan(t, fs[1], 400, 400, 0.95, 0.86)
-	assert.Contains(t, fs[0].Message, "Froude number 1 lies in the avoided band 0.86–1.13 over stations 100–200 m")
-	assert.Contains(t, fs[0].Message, "below 0.86 or above 1.13")
+	assert.Contains(t, fs[0].Message, "Froude number 1 lies in the avoided band 0.86–1.13")
+	assert.Contains(t, fs[0].Remedy, "below 0.86 or above 1.13")
 }
 
 func jumpModel() (*model.Model, *model.Reach, *model.Basin) {
@@ -150,9 +150,10 @@ func TestJumpContainment(t *testing.T) {
 	require.Len(t, fs, 3)
 	assertSpan(t, fs[0], 30, 55, 10, 0)
 	assert.Equal(t, b.DefRange, fs[0].Range)
-	assert.Contains(t, fs[0].Message, `escapes basin "pool" (20–45 m) by 10 m downstream; unprotected channel downstream may scour; lengthen the basin or move it`)
+	assert.Contains(t, fs[0].Message, `escapes basin "pool" (20–45 m) by 10 m downstream: unprotected channel downstream may scour`)
+	assert.Equal(t, "lengthen the basin or move it", fs[0].Remedy)
 	assertSpan(t, fs[1], 15, 35, 5, 0)
-	assert.Contains(t, fs[1].Message, "by 5 m upstream; unprotected channel upstream may scour")
+	assert.Contains(t, fs[1].Message, "by 5 m upstream: unprotected channel upstream may scour")
 	assertSpan(t, fs[2], 100, 110, 10, 0)
 	assert.Equal(t, r.DefRange, fs[2].Range)
 	assert.Contains(t, fs[2].Message, `lies in no basin of reach "main"`)
@@ -170,7 +171,7 @@ func TestJumpType(t *testing.T) {
 	assertSpan(t, fs[0], 25, 35, 3.1, 2.5)
 	assert.Equal(t, b.DefRange, fs[0].Range, "toe inside the basin")
 	assert.Contains(t, fs[0].Message, "upstream Froude number 3.1 (oscillating), in the avoided band 2.5–4.5")
-	assert.Contains(t, fs[0].Message, "waves")
+	assert.Contains(t, fs[0].Remedy, "waves")
 	assertSpan(t, fs[1], 80, 90, 4.4, 4.5)
 	assert.Equal(t, r.DefRange, fs[1].Range)
 }
@@ -197,8 +198,8 @@ func TestSuperelevation(t *testing.T) {
 	assert.Greater(t, 1-0.67-dySub, 0.28, "subcritical points fail too (0.2841 < 0.3)")
 	// The radius that passes at the supercritical point: C·V²·T/(g·(top − WSE − minimum)).
 	rc := 1.0 * 9 * 4 / (g * (1 - 0.67 - 0.3))
-	assert.Contains(t, fs[0].Message, "or make the radius at least "+numUp(rc)+" m")
-	assert.Contains(t, fs[0].Message, "raise the outer bank by at least "+numUp(0.3-remSup)+" m")
+	assert.Contains(t, fs[0].Remedy, "or make the radius at least "+numUp(rc)+" m")
+	assert.Contains(t, fs[0].Remedy, "raise the outer bank by at least "+numUp(0.3-remSup)+" m")
 	assert.Contains(t, fs[0].Message, `in bend "elbow" (radius 40 m)`)
 
 	// Unset coefficients take the documented defaults 0.5 and 1.0.
@@ -252,9 +253,9 @@ func TestSolverNotes(t *testing.T) {
 	}
 	fs := runRule(t, "solver", m, result(m, r, pts, nil, notes), nil)
 	require.Len(t, fs, 4)
-	assert.Contains(t, fs[0].Message, "boundary condition could not act as written at station 0 m (outlet depth below critical)")
+	assert.Contains(t, fs[0].Message, "boundary condition could not act as written (outlet depth below critical)")
 	assert.Equal(t, [2]float64{100, 200}, [2]float64{fs[1].FromStation, fs[1].ToStation}, "adjacent points merge")
-	assert.Contains(t, fs[1].Message, "critical depth was taken over stations 100–200 m")
+	assert.Contains(t, fs[1].Message, "critical depth was taken because")
 	assert.Equal(t, [2]float64{400, 400}, [2]float64{fs[2].FromStation, fs[2].ToStation}, "a point between splits")
 	assert.Contains(t, fs[3].Message, "not finite at 1 computed point of reach \"main\"")
 	for _, f := range fs {

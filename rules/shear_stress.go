@@ -76,9 +76,10 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 		sec := sectionAt(rr, &rr.Points[s.worst])
 		val, lim := numPair(s.value, s.limit)
 		msg := "boundary shear stress " + val + " " + su + " (γ·R·Sf) exceeds " + lim + " " + su +
-			" for " + liningText(cfg, sec) + " " + s.where(u) + "; " +
-			"a lining rated for at least " + numUp(s.value) + " " + su + " is needed, or reduce the stress " +
-			"(flatter slope, wider and shallower section)"
-		report(spanFinding(ev, rr, s, msg))
+			" for " + liningText(cfg, sec)
+		f := spanFinding(ev, rr, s, msg, "a lining rated for at least "+numUp(s.value)+" "+su+
+			" is needed, or reduce the stress (flatter slope, wider and shallower section)")
+		f.Focus = sec.At("lining") // the limit is the lining's
+		report(f)
 	})
 }

@@ -6,7 +6,6 @@ import (
 	"slices"
 	"sort"
 
-	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )
@@ -56,7 +55,6 @@ openings, and review the profile with "chanlint solve".`,
 }
 
 func checkSolver(ctx *Context, report func(Finding)) {
-	u := ctx.units()
 	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		r := rr.Reach
 		base := Finding{Range: r.DefRange, Reach: r.Name, Event: ev.Event.Name}
@@ -69,7 +67,7 @@ func checkSolver(ctx *Context, report func(Finding)) {
 		for _, g := range noteGroups(rr) {
 			f := base
 			f.FromStation, f.ToStation, f.HasSpan = g.from, g.to, true
-			f.Message = noteMessage(g, u)
+			f.Message, f.Remedy = noteMessage(g)
 			if g.kind == solver.NoteInfo {
 				f.Severity = policies.Info
 			}
@@ -130,26 +128,27 @@ func pointsStrictlyBetween(rr *solver.ReachResult, a, b float64) int {
 	return max(0, j-i)
 }
 
-func noteMessage(g noteGroup, u model.Units) string {
-	where := stations(g.from, g.to, u)
+// noteMessage is the message and the remedy of a group of notes; the
+// stations are the finding's span.
+func noteMessage(g noteGroup) (msg, remedy string) {
 	detail := ""
 	if g.first != "" {
 		detail = " (" + g.first + ")"
 	}
 	switch g.kind {
 	case solver.NoteCriticalFallback:
-		return "critical depth was taken " + where + " because the energy equation had no solution there" + detail +
-			"; depths and checks near this span are approximate: look for an abrupt change of section or slope, " +
-			"or a control the flow cannot meet"
+		return "critical depth was taken because the energy equation had no solution" + detail +
+				": depths and checks near this span are approximate",
+			"look for an abrupt change of section or slope, or a control the flow cannot meet"
 	case solver.NoteNoConvergence:
-		return "the water-surface iteration did not converge " + where + detail + "; results there are uncertain: " +
+		return "the water-surface iteration did not converge" + detail + ": results there are uncertain",
 			"add computed points (max_spacing) or review the section"
 	case solver.NoteControl:
-		return "a boundary condition could not act as written " + where + detail + "; check the outlet, gate and " +
-			"entrance conditions against the flow regime"
+		return "a boundary condition could not act as written" + detail,
+			"check the outlet, gate and entrance conditions against the flow regime"
 	case solver.NoteInfo:
-		return "the solution rests on an assumption of the method " + where + detail +
-			"; review the results there with that in mind"
+		return "the solution rests on an assumption of the method" + detail,
+			"review the results there with that in mind"
 	}
-	return fmt.Sprintf("the solver noted %s %s%s", g.kind, where, detail)
+	return fmt.Sprintf("the solver noted %s%s", g.kind, detail), ""
 }

@@ -142,9 +142,12 @@ func scan(rr *solver.ReachResult, w worse, judge judgeFunc,
 
 // spanFinding is the finding of a span, without rule, severity and the
 // fields Check fills in.
-func spanFinding(ev *solver.EventResult, rr *solver.ReachResult, s span, msg string) Finding {
+// The finding points at the block of the span; rules that know the
+// attribute that matters set Range to it afterwards.
+func spanFinding(ev *solver.EventResult, rr *solver.ReachResult, s span, msg, remedy string) Finding {
 	return Finding{
 		Message:     msg,
+		Remedy:      remedy,
 		Range:       s.block.DefRange,
 		Reach:       rr.Reach.Name,
 		Event:       ev.Event.Name,
@@ -156,6 +159,3 @@ func spanFinding(ev *solver.EventResult, rr *solver.ReachResult, s span, msg str
 		HasValue:    true,
 	}
 }
-
-// where describes the span's stations for a message.
-func (s span) where(u model.Units) string { return stations(s.from, s.to, u) }

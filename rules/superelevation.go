@@ -101,7 +101,10 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 				ctx.spans = spans
 				for _, s := range spans {
 					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset
-					report(spanFinding(ev, rr, s, superelevationMessage(rr, bend, s, cSub, cSup, u)))
+					msg, remedy := superelevationMessage(rr, bend, s, cSub, cSup, u)
+					f := spanFinding(ev, rr, s, msg, remedy)
+					f.Focus = bend.At("radius")
+					report(f)
 				}
 			}
 		}
@@ -119,7 +122,7 @@ func pointsBetween(rr *solver.ReachResult, lo, hi float64) (*solver.ReachResult,
 	return &cp, i
 }
 
-func superelevationMessage(rr *solver.ReachResult, bend *model.Bend, s span, cSub, cSup float64, u model.Units) string {
+func superelevationMessage(rr *solver.ReachResult, bend *model.Bend, s span, cSub, cSup float64, u model.Units) (msg, remedy string) {
 	lu := u.Length()
 	p := &rr.Points[s.worst]
 	c := cSub
@@ -129,16 +132,16 @@ func superelevationMessage(rr *solver.ReachResult, bend *model.Bend, s span, cSu
 	top := p.Invert + sectionAt(rr, p).Height
 	dy := top - p.WSE - s.value
 	rem, lim := numPair(s.value, s.limit)
-	msg := fmt.Sprintf("in bend %q (radius %s %s) the water surface at the outer bank rises %s %s "+
-		"(Δy = C·V²·T/(g·rc), C = %s, V %s %s, T %s %s), leaving %s %s to the top of bank where %s %s is required %s; "+
-		"raise the outer bank by at least %s %s over the bend",
+	msg = fmt.Sprintf("in bend %q (radius %s %s) the outer bank water surface rises %s %s "+
+		"(Δy = C·V²·T/(g·rc), C = %s, V %s %s, T %s %s), leaving %s %s to the top of bank where %s %s is required",
 		bend.Name, num(bend.Radius), lu, num(dy), lu, num(c), num(p.Velocity), velocityUnit(u), num(p.TopWidth), lu,
-		rem, lu, lim, lu, s.where(u), numUp(s.short), lu)
+		rem, lu, lim, lu)
+	remedy = fmt.Sprintf("raise the outer bank by at least %s %s over the bend", numUp(s.short), lu)
 	if s.aux < math.MaxFloat64 {
-		msg += fmt.Sprintf(", or make the radius at least %s %s", numUp(s.aux), lu)
+		remedy += fmt.Sprintf(", or make the radius at least %s %s", numUp(s.aux), lu)
 	}
 	if s.value < 0 {
-		msg = "the water surface at the outer bank rises above the top of bank: the channel overtops here; " + msg
+		msg = "the channel overtops here at the outer bank of the bend: " + msg
 	}
-	return msg
+	return msg, remedy
 }

@@ -71,9 +71,10 @@ func checkUsage() string {
 
 Finds every *` + model.Suffix + ` model under each PATH (default: the current
 directory), solves each flow event, checks the solved profiles against the
-policy and prints one line per finding:
+policy and prints each finding:
 
-  FILE:LINE:COLUMN: SEVERITY: [rule] message (reach, event, stations)
+  FILE:LINE:COLUMN: SEVERITY: [rule] reach R, event E, stations a–b m: message
+      remedy: what to change
 
 A PATH may be a model file (checked whatever its name) or a directory,
 searched recursively; .git, .hg, .svn, vendor and node_modules directories
@@ -576,7 +577,7 @@ func (c *checkRun) writeText(w io.Writer, p *palette) {
 	}
 	fmt.Fprintf(w, "%s\n", p.bold.Sprintf("%s, %s, %s, %s, %d excepted", files,
 		plural(t.errors, "error", "errors"), plural(t.warnings, "warning", "warnings"),
-		plural(t.infos, "info", "infos"), t.excepted))
+		plural(t.infos, "info", "info"), t.excepted))
 	if c.baselinePath != "" {
 		fmt.Fprintf(w, "baseline: %s recorded in %s not shown\n",
 			plural(c.knownCount, "known finding", "known findings"), c.baselinePath)
@@ -598,6 +599,7 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 		Rules:       rules.All(),
 		Root:        root,
 		Sources:     map[string][]byte{},
+		Units:       map[string]string{},
 		ToolVersion: toolVersion(),
 	}
 	for _, r := range c.results {
@@ -612,6 +614,7 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 		if r.src != nil {
 			in.Sources[abs] = r.src
 		}
+		in.Units[abs] = r.unit()
 	}
 	return sarifout.Write(w, in)
 }

@@ -71,7 +71,7 @@ func TestNoModels(t *testing.T) {
 	code, out, errOut := runIn(dir, runOpts{}, "check", "--color", "never")
 	assert.Equal(t, exitOK, code)
 	assert.Equal(t, "chanlint check: no *.chan.hcl files found under .\n", errOut)
-	assert.Contains(t, out, "0 files, 0 errors, 0 warnings, 0 infos, 0 excepted\n")
+	assert.Contains(t, out, "0 files, 0 errors, 0 warnings, 0 info, 0 excepted\n")
 }
 
 // The JSON document of check has exactly the documented fields, and every
@@ -297,7 +297,7 @@ func TestBaselineRoundTrip(t *testing.T) {
 
 	code, out, _ := runIn(dir, runOpts{}, "check", target, "--baseline", "known.json", "--color", "never")
 	assert.Equal(t, exitOK, code, out)
-	assert.Regexp(t, `(?m)^1 file, 0 errors, 0 warnings, 0 infos, 0 excepted$`, out)
+	assert.Regexp(t, `(?m)^1 file, 0 errors, 0 warnings, 0 info, 0 excepted$`, out)
 	assert.Regexp(t, `(?m)^baseline: [1-9]\d* known findings? recorded in known\.json not shown$`, out)
 
 	// Run from another directory, the baseline still matches: its file

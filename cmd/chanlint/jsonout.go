@@ -23,6 +23,7 @@ type findingJSON struct {
 	Rule            string   `json:"rule"`
 	Severity        string   `json:"severity"`
 	Message         string   `json:"message"`
+	Remedy          string   `json:"remedy,omitempty"`
 	File            string   `json:"file"`
 	Line            int      `json:"line"`
 	Column          int      `json:"column"`
@@ -65,15 +66,17 @@ type toolJSON struct {
 }
 
 func newFindingJSON(f *rules.Finding) findingJSON {
+	pos := f.Pos()
 	j := findingJSON{
 		Rule:            f.Rule,
 		Severity:        string(f.Severity),
 		Message:         f.Message,
+		Remedy:          f.Remedy,
 		File:            f.File,
-		Line:            f.Range.Start.Line,
-		Column:          f.Range.Start.Column,
-		EndLine:         f.Range.End.Line,
-		EndColumn:       f.Range.End.Column,
+		Line:            pos.Start.Line,
+		Column:          pos.Start.Column,
+		EndLine:         pos.End.Line,
+		EndColumn:       pos.End.Column,
 		Reach:           f.Reach,
 		Event:           f.Event,
 		Excepted:        f.Excepted,

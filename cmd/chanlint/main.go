@@ -27,10 +27,12 @@
 //     the working directory itself is looked at. Else the baseline pack.
 //     `extends` paths may not leave the repository root (or, for a policy
 //     file outside the repository, the policy's own directory).
-//   - Text output: one line per finding in the GNU FILE:LINE:COLUMN: layout;
-//     a finding covered by a design exception is printed as a "note" with
-//     its own severity and the exception's reason, so that editors do not
-//     flag it; invalid models get a source snippet under each diagnostic.
+//   - Text output: a first line per finding in the GNU FILE:LINE:COLUMN:
+//     layout with the place (reach, event, stations) before the message,
+//     the remedy and an exception's reason on indented continuation lines;
+//     a finding covered by a design exception says "excepted" where the
+//     severity stands, so that editors do not flag it; invalid models get a
+//     source snippet under each diagnostic.
 //   - Baselines: --baseline hides the findings the file records (invalid
 //     models are never hidden); --write-baseline records today's findings
 //     of the valid models and exits 0 unless some input is invalid.

@@ -183,58 +183,98 @@ func (a *app) writeDiagnostics(w io.Writer, diags hcl.Diagnostics, files map[str
 	}
 }
 
-// writeFindingText prints one finding on one line:
+// textWidth is the width the text output is laid out for: a finding's
+// first line keeps its message short, and continuation lines wrap here.
+const textWidth = 120
+
+// writeFindingText prints one finding: a first line in the GNU layout with
+// the place (reach, event, stations) before the message, and the remedy
+// on an indented continuation line:
 //
-//	FILE:LINE:COL: SEVERITY: [rule] message (reach R, event E, stations a–b m)
+//	FILE:LINE:COL: SEVERITY: [rule] reach R, event E, stations a–b m: message
+//	    remedy: what to change
 //
-// The station span is left out of the parentheses when the message already
-// states it. A finding covered by a design exception is printed as a GNU
-// "note", so that editors and CI annotations do not flag it, with its own
-// severity and the exception's reason:
+// LINE and COL are those of the attribute that matters when the rule names
+// one (the section's height for freeboard), else of the block. A finding
+// covered by a design exception takes the word "excepted" where the
+// severity stands, so that editors and CI annotations do not flag it,
+// followed by its own severity, and the exception's reason on a
+// continuation line:
 //
-//	FILE:LINE:COL: note: [rule] excepted error: message (...); exception: reason
+//	FILE:LINE:COL: excepted: [rule] error, reach R, ...: message
+//	    exception: reason
 //
 // Findings of invalid files (rule `model`) are followed by the source
 // snippet of their range.
 func writeFindingText(w io.Writer, f *rules.Finding, src []byte, unit string, p *palette) {
-	var ctx []string
-	if f.Reach != "" {
-		ctx = append(ctx, "reach "+f.Reach)
+	head := f.Where(unit)
+	if f.Excepted {
+		head = strings.TrimSuffix(string(f.Severity)+", "+head, ", ")
 	}
-	if f.Event != "" {
-		ctx = append(ctx, "event "+f.Event)
+	if head != "" {
+		head += ": "
 	}
-	if f.HasSpan && !strings.Contains(f.Message, "station") {
-		ctx = append(ctx, stationText(f.FromStation, f.ToStation, unit))
-	}
-	body := f.Message
-	if len(ctx) > 0 {
-		body += " (" + strings.Join(ctx, ", ") + ")"
-	}
-	place := p.place.Sprint(gnuPrefix(f.File, f.Range))
+	place := p.place.Sprint(gnuPrefix(f.File, f.Pos()))
 	rule := p.rule.Sprint("[" + f.Rule + "]")
 	if f.Excepted {
 		reason := f.ExceptionReason
 		if reason == "" {
 			reason = "covered by a design exception"
 		}
-		fmt.Fprintf(w, "%s %s: %s %s\n", place, p.info.Sprint("note"), rule,
-			p.dim.Sprintf("excepted %s: %s; exception: %s", f.Severity, body, reason))
+		fmt.Fprintf(w, "%s %s: %s %s\n", place, p.dim.Sprint("excepted"), rule, p.dim.Sprint(head+f.Message))
+		writeContinuation(w, "exception", reason, p)
+		if f.Remedy != "" {
+			writeContinuation(w, "remedy", f.Remedy, p)
+		}
 		return
 	}
-	fmt.Fprintf(w, "%s %s: %s %s\n", place, p.severity(f.Severity), rule, body)
+	fmt.Fprintf(w, "%s %s: %s %s%s\n", place, p.severity(f.Severity), rule, head, f.Message)
+	if f.Remedy != "" {
+		writeContinuation(w, "remedy", f.Remedy, p)
+	}
 	if f.Rule == "model" {
 		fmt.Fprint(w, snippet(src, f.Range, p))
 	}
 }
 
-// stationText is "station 120 m" or "stations 120–180 m".
-func stationText(from, to float64, unit string) string {
-	a, b := formatNumber(from, 2), formatNumber(to, 2)
-	if a == b {
-		return "station " + a + " " + unit
+// writeContinuation prints "    label: text" wrapped at textWidth, the
+// lines after the first indented under the text.
+func writeContinuation(w io.Writer, label, text string, p *palette) {
+	lead := "    " + label + ": "
+	indent := strings.Repeat(" ", len(lead))
+	for i, line := range wrapWords(text, textWidth-len(lead)) {
+		if i == 0 {
+			fmt.Fprintf(w, "    %s %s\n", p.dim.Sprint(label+":"), line)
+			continue
+		}
+		fmt.Fprintf(w, "%s%s\n", indent, line)
 	}
-	return "stations " + a + "–" + b + " " + unit
+}
+
+// wrapWords breaks text at spaces into lines of at most width runes; a
+// word longer than width gets a line of its own.
+func wrapWords(text string, width int) []string {
+	var lines []string
+	var cur strings.Builder
+	n := 0
+	for _, word := range strings.Fields(text) {
+		wl := utf8.RuneCountInString(word)
+		if n > 0 && n+1+wl > width {
+			lines = append(lines, cur.String())
+			cur.Reset()
+			n = 0
+		}
+		if n > 0 {
+			cur.WriteByte(' ')
+			n++
+		}
+		cur.WriteString(word)
+		n += wl
+	}
+	if n > 0 {
+		lines = append(lines, cur.String())
+	}
+	return lines
 }
 
 // plural is "1 error", "2 errors".

@@ -321,7 +321,7 @@ func buildPlot(in plotInput) *Plot {
 		laneEnd[lane] = math.Max(laneEnd[lane], end)
 		b.LaneY = round1(marginT + 2 + float64(lane)*laneH)
 		b.LabelY = round1(b.LaneY + laneH - 4)
-		b.Title = fmt.Sprintf("%s %s: %s (%s %s)", label, f.Rule, f.Message, stationRange(f.FromStation, f.ToStation), lu)
+		b.Title = fmt.Sprintf("%s %s: %s (%s %s)", label, f.Rule, f.Text(), stationRange(f.FromStation, f.ToStation), lu)
 		p.Bands = append(p.Bands, b)
 	}
 

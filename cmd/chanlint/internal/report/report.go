@@ -474,7 +474,7 @@ func reachSummary(rr *solver.ReachResult, u model.Units) reachRow {
 
 func row(n int, f rules.Finding) findingRow {
 	r := findingRow{N: n, Severity: string(f.Severity), Rule: f.Rule, Reach: f.Reach, Event: f.Event,
-		Message: f.Message, Where: where(f.File, f.Range), Short: lineCol(f.Range), Excepted: f.Excepted, Reason: f.ExceptionReason,
+		Message: f.Text(), Where: where(f.File, f.Pos()), Short: lineCol(f.Pos()), Excepted: f.Excepted, Reason: f.ExceptionReason,
 		Class: string(f.Severity)}
 	if f.Excepted {
 		r.Class = "excepted"

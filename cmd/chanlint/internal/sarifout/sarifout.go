@@ -49,8 +49,11 @@ type Input struct {
 	// repository root). When it is absolute, the run maps the base id
 	// SRCROOT to it in originalUriBaseIds; when empty, file names are used
 	// as given (relative to the working directory).
-	Root        string
-	Sources     map[string][]byte // file (as in Finding.File) → bytes, for byte-offset columns
+	Root    string
+	Sources map[string][]byte // file (as in Finding.File) → bytes, for byte-offset columns
+	// Units maps a file (as in Finding.File) to its model's length unit,
+	// for the stations in result messages ("m" when missing).
+	Units       map[string]string
 	ToolVersion string
 }
 
@@ -213,10 +216,10 @@ func (b *builder) result(f rules.Finding) *sarif.Result {
 		WithRuleID(f.Rule).
 		WithRuleIndex(b.ruleIndex[f.Rule]).
 		WithLevel(Level(f.Severity)).
-		WithMessage(sarif.NewTextMessage(f.Message))
+		WithMessage(sarif.NewTextMessage(b.message(&f)))
 	uri := ""
 	if f.File != "" {
-		loc, u := b.location(f.File, f.Range)
+		loc, u := b.location(f.File, f.Pos())
 		uri = u
 		res.AddLocation(loc)
 	}
@@ -435,6 +438,19 @@ func utf16Len(b []byte) int {
 		}
 	}
 	return n
+}
+
+// message is a result's text: the place (reach, event, stations), the
+// message and the remedy, so that a code-scanning alert reads on its own.
+func (b *builder) message(f *rules.Finding) string {
+	unit := b.in.Units[f.File]
+	if unit == "" {
+		unit = "m"
+	}
+	if where := f.Where(unit); where != "" {
+		return where + ": " + f.Text()
+	}
+	return f.Text()
 }
 
 // fingerprint hashes what identifies a finding regardless of where its
