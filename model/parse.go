@@ -5,12 +5,12 @@ import (
 	"cmp"
 	"errors"
 	"fmt"
-	"io"
 	"io/fs"
-	"os"
 	"path/filepath"
 	"slices"
+	"strings"
 
+	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclparse"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
@@ -51,29 +51,27 @@ func Load(filename string) (*Model, hcl.Diagnostics) {
 func ReadFile(filename string) ([]byte, hcl.Diagnostics) {
 	start := hcl.Range{Filename: filepath.ToSlash(filename), Start: hcl.InitialPos, End: hcl.InitialPos}
 	var d diagnoser
-	f, err := os.Open(filename)
+	src, err := safefile.Read(filename, MaxFileSize)
 	if err != nil {
-		detail := err.Error()
-		if errors.Is(err, fs.ErrNotExist) {
+		summary, detail := "Cannot read model", err.Error()
+		switch {
+		case errors.Is(err, fs.ErrNotExist):
 			detail = "The file does not exist; check the path."
-		} else if errors.Is(err, fs.ErrPermission) {
+		case errors.Is(err, fs.ErrPermission):
 			detail = "Permission denied; check the file's permissions."
+		case errors.Is(err, safefile.ErrTooLarge):
+			summary = "Model file too large"
+			detail = fmt.Sprintf("The file is larger than %d MiB; split the network into smaller models.", MaxFileSize>>20)
+		case errors.Is(err, safefile.ErrNotRegular):
+			// Refused before opening: a FIFO or a device is never read.
+			detail = fmt.Sprintf("%s is %s; a model is a regular %s file.", filename, strings.TrimPrefix(err.Error(), safefile.ErrNotRegular.Error()+": "), Suffix)
+		default:
+			var pe *fs.PathError
+			if errors.As(err, &pe) {
+				detail = pe.Err.Error()
+			}
 		}
-		d.errorf(start, "Cannot read model", "%s", detail)
-		return nil, d.diags
-	}
-	defer f.Close()
-	if st, err := f.Stat(); err == nil && st.IsDir() {
-		d.errorf(start, "Cannot read model", "%s is a directory, not a %s file.", filename, Suffix)
-		return nil, d.diags
-	}
-	src, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
-	if err != nil {
-		d.errorf(start, "Cannot read model", "%s", err.Error())
-		return nil, d.diags
-	}
-	if len(src) > MaxFileSize {
-		d.errorf(start, "Model file too large", "The file is larger than %d MiB; split the network into smaller models.", MaxFileSize>>20)
+		d.errorf(start, summary, "%s", detail)
 		return nil, d.diags
 	}
 	return src, nil

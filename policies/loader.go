@@ -5,7 +5,6 @@ import (
 	"cmp"
 	"errors"
 	"fmt"
-	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -13,6 +12,7 @@ import (
 	"strings"
 	"sync"
 
+	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
@@ -197,28 +197,14 @@ func plainError(err error) string {
 	return err.Error()
 }
 
-// readBounded reads a regular file of at most MaxFileSize bytes.
+// readBounded reads a regular file of at most MaxFileSize bytes; a FIFO,
+// socket or device is refused without being opened.
 func readBounded(path string) ([]byte, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	st, err := f.Stat()
-	if err != nil {
-		return nil, err
-	}
-	if !st.Mode().IsRegular() {
-		return nil, errors.New("not a regular file")
-	}
-	src, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
-	if err != nil {
-		return nil, err
-	}
-	if len(src) > MaxFileSize {
+	src, err := safefile.Read(path, MaxFileSize)
+	if errors.Is(err, safefile.ErrTooLarge) {
 		return nil, fmt.Errorf("larger than the limit of %d bytes", MaxFileSize)
 	}
-	return src, nil
+	return src, err
 }
 
 // parse parses a file, or returns the earlier parse of the same text.

@@ -10,6 +10,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime/debug"
+	"slices"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -17,6 +18,7 @@ import (
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/baseline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/sarifout"
+	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
@@ -79,9 +81,11 @@ policy and prints each finding:
 A PATH may be a model file (checked whatever its name) or a directory,
 searched recursively; .git, .hg, .svn, vendor and node_modules directories
 are skipped, and symbolic links are followed only when they stay inside the
-directory being searched. An invalid model is reported with its diagnostics
-and the other files are still checked. Finding no model at all is said on
-stderr and is not an error.
+directory being searched; a file named on the command line that is a link
+leading out of its repository (else its directory), a FIFO, a socket or a
+device is refused unread. An invalid model is reported with its diagnostics
+and the other files are still checked. Finding no model at all is an error
+(exit status 2): nothing checked is never a pass.
 
 The policy is --policy, else the nearest ` + configName + ` in the current
 directory or a parent up to the repository root (the directory holding
@@ -135,6 +139,10 @@ func (a *app) runCheck(args []string) int {
 	var known *baseline.Baseline
 	if cf.baseline != "" {
 		abs := a.abs(cf.baseline)
+		if err := confineInput(abs); err != nil {
+			fmt.Fprintf(a.stderr, "chanlint check: cannot read baseline %s: %v\n", cf.baseline, err)
+			return exitInvalid
+		}
 		b, err := baseline.Read(abs)
 		if err != nil {
 			// The error names the file by the absolute path it was read
@@ -155,7 +163,9 @@ func (a *app) runCheck(args []string) int {
 	// hashes and character offsets).
 	results := a.checkPaths(paths, pol, cf.jobs, keep{source: cf.format.value == "sarif"})
 	if len(results) == 0 {
-		fmt.Fprintf(a.stderr, "chanlint check: no *%s files found under %s\n", model.Suffix, strings.Join(orDot(paths), ", "))
+		// Nothing checked is never a pass: a renamed or misplaced model
+		// must not turn a failing design into a clean run.
+		fmt.Fprintf(a.stderr, "chanlint check: no *%s files found under %s; nothing was checked\n", model.Suffix, strings.Join(orDot(paths), ", "))
 	}
 
 	// The findings to show: a baseline hides those it records.
@@ -191,6 +201,9 @@ func (a *app) runCheck(args []string) int {
 			fmt.Fprintf(a.stderr, "chanlint check: cannot write baseline %s: %v\n", cf.writeBaseline, err)
 			return exitInvalid
 		}
+	}
+	if len(results) == 0 {
+		return exitInvalid
 	}
 	return run.exitCode(policies.Severity(cf.failOn.value), cf.writeBaseline != "")
 }
@@ -466,28 +479,19 @@ func (a *app) writeBaselineFile(path string, results []*fileResult) error {
 	if err := baseline.Write(&buf, all); err != nil {
 		return err
 	}
-	tmp, err := os.CreateTemp(filepath.Dir(abs), ".chanlint-baseline-*")
-	if err != nil {
-		return describePathError(err)
+	return a.writeOutput(abs, buf.Bytes(), results)
+}
+
+// writeOutput replaces the file at abs with data (see safefile.Write): a
+// failed write leaves the previous file intact, a target that is not a
+// regular file is refused, and so is one of the run's input models.
+func (a *app) writeOutput(abs string, data []byte, inputs []*fileResult) error {
+	for _, r := range inputs {
+		if r.file.abs != "" && safefile.SameFile(abs, r.file.abs) {
+			return fmt.Errorf("%w (%s)", safefile.ErrInput, r.file.display)
+		}
 	}
-	_, err = tmp.Write(buf.Bytes())
-	if err == nil {
-		err = tmp.Chmod(0o644)
-	}
-	if err != nil {
-		tmp.Close()
-		os.Remove(tmp.Name())
-		return err
-	}
-	if err := tmp.Close(); err != nil {
-		os.Remove(tmp.Name())
-		return err
-	}
-	if err := os.Rename(tmp.Name(), abs); err != nil {
-		os.Remove(tmp.Name())
-		return describePathError(err)
-	}
-	return nil
+	return describePathError(safefile.Write(abs, data))
 }
 
 // checkRun is one finished check, ready to render.
@@ -628,18 +632,34 @@ func (a *app) loadPolicy(arg string, p *palette) (*policies.Policy, bool) {
 	isFile := false
 	switch {
 	case arg == "":
-		if cfg := findConfig(a.cwd); cfg != "" {
+		cfg, err := findConfig(a.cwd)
+		switch {
+		case err != nil:
+			fmt.Fprintf(a.stderr, "%s %s: cannot read discovered policy: %v\n", p.place.Sprint(a.display(cfg)+":"), p.severity(policies.Error), err)
+			return nil, false
+		case cfg != "":
 			target, isFile = cfg, true
-		} else {
+		default:
 			target = "baseline"
 		}
-	default:
-		if info, err := os.Stat(a.abs(arg)); err == nil && !info.IsDir() {
-			target, isFile = a.abs(arg), true
-		} else if looksLikePath(arg) {
-			fmt.Fprintf(a.stderr, "%s %s: cannot read policy file: %v\n", p.place.Sprint(arg+":"), p.severity(policies.Error), describePathError(errOrNotFile(err, info)))
+	case !looksLikePath(arg):
+		// A bare name is always a built-in pack, never a file of that
+		// name that a submittal may have put in the working directory.
+		if !slices.Contains(policies.PackNames(), arg) {
+			msg := fmt.Sprintf("unknown policy pack %q; the built-in packs are %s", arg, strings.Join(policies.PackNames(), ", "))
+			if _, err := os.Lstat(a.abs(arg)); err == nil {
+				msg += fmt.Sprintf("; to use the file %s, write ./%s", arg, arg)
+			}
+			fmt.Fprintf(a.stderr, "chanlint: %s\n", msg)
 			return nil, false
 		}
+	default:
+		abs := a.abs(arg)
+		if err := confineInput(abs); err != nil {
+			fmt.Fprintf(a.stderr, "%s %s: cannot read policy file: %v\n", p.place.Sprint(arg+":"), p.severity(policies.Error), err)
+			return nil, false
+		}
+		target, isFile = abs, true
 	}
 	root := repoRoot(a.cwd)
 	if isFile && (root == "" || !within(root, target)) {
@@ -664,17 +684,9 @@ func (a *app) loadPolicy(arg string, p *palette) (*policies.Policy, bool) {
 	return pol, true
 }
 
-// looksLikePath tells a policy argument meant as a file from a pack name.
+// looksLikePath tells a policy argument meant as a file from a pack name:
+// a file is named with a path ("./strict", "ci/strict.policy.hcl") or a
+// .hcl name; a bare word is a pack.
 func looksLikePath(arg string) bool {
-	return filepath.Ext(arg) == ".hcl" || filepath.Base(arg) != arg || arg == "." || arg == ".."
-}
-
-func errOrNotFile(err error, info os.FileInfo) error {
-	if err != nil {
-		return err
-	}
-	if info != nil && info.IsDir() {
-		return errors.New("is a directory")
-	}
-	return errors.New("not a file")
+	return filepath.Ext(arg) == ".hcl" || strings.ContainsAny(arg, `/`+string(filepath.Separator)) || arg == "." || arg == ".."
 }

@@ -65,12 +65,12 @@ func TestProgressLine(t *testing.T) {
 	assert.Empty(t, errOut)
 }
 
-// No model found: said on stderr, exit 0.
+// No model found: said on stderr, exit 2 (nothing checked is no pass).
 func TestNoModels(t *testing.T) {
 	dir := t.TempDir()
 	code, out, errOut := runIn(dir, runOpts{}, "check", "--color", "never")
-	assert.Equal(t, exitOK, code)
-	assert.Equal(t, "chanlint check: no *.chan.hcl files found under .\n", errOut)
+	assert.Equal(t, exitInvalid, code)
+	assert.Equal(t, "chanlint check: no *.chan.hcl files found under .; nothing was checked\n", errOut)
 	assert.Contains(t, out, "0 files, 0 errors, 0 warnings, 0 info, 0 excepted\n")
 }
 

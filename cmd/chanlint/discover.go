@@ -9,6 +9,7 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
 )
 
@@ -65,6 +66,13 @@ func (a *app) discover(paths []string) ([]modelFile, []pathProblem) {
 			continue
 		}
 		if !info.IsDir() {
+			// A file named on the command line (or by a shell glob) is
+			// read only when it is, or a link leads to, a regular file
+			// inside its own tree; anything else is refused unopened.
+			if err := confineInput(abs); err != nil {
+				problems = append(problems, pathProblem{display: a.display(abs), err: err})
+				continue
+			}
 			found = append(found, modelFile{abs: abs, display: a.display(abs)})
 			continue
 		}
@@ -153,12 +161,50 @@ func (w *walker) walk(dir, real string) {
 }
 
 // within reports whether path lies in or below dir (both clean, absolute).
-func within(dir, path string) bool {
-	rel, err := filepath.Rel(dir, path)
-	if err != nil {
-		return false
+func within(dir, path string) bool { return safefile.Within(dir, path) }
+
+// inputTree is the tree a file named on the command line may be read
+// from: the repository that holds it, else its own directory.
+func inputTree(abs string) string {
+	dir := filepath.Dir(abs)
+	if root := repoRoot(dir); root != "" {
+		return root
 	}
-	return rel == "." || (rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)))
+	return dir
+}
+
+// confineInput refuses an input path (a model, policy or baseline named on
+// the command line) that is a symbolic link leading outside its tree (see
+// inputTree), or that is not a regular file: a FIFO, socket or device is
+// refused here, before anything opens it. The error never names the
+// link's target.
+func confineInput(abs string) error {
+	if _, err := safefile.Confine(abs, inputTree(abs)); err != nil {
+		return describePathError(err)
+	}
+	info, err := os.Stat(abs)
+	if err != nil {
+		return describePathError(err)
+	}
+	if !info.Mode().IsRegular() {
+		return notRegularError(info.Mode())
+	}
+	return nil
+}
+
+// notRegularError says what kind of non-regular file was found.
+func notRegularError(m fs.FileMode) error {
+	switch {
+	case m.IsDir():
+		return errors.New("is a directory")
+	case m&fs.ModeNamedPipe != 0:
+		return fmt.Errorf("is a FIFO, %w", safefile.ErrNotRegular)
+	case m&fs.ModeSocket != 0:
+		return fmt.Errorf("is a socket, %w", safefile.ErrNotRegular)
+	case m&(fs.ModeDevice|fs.ModeCharDevice) != 0:
+		return fmt.Errorf("is a device, %w", safefile.ErrNotRegular)
+	}
+	return safefile.ErrNotRegular
 }
 
 // describePathError shortens an *fs.PathError to its cause: the path is
@@ -208,20 +254,32 @@ func repoRoot(dir string) string {
 // findConfig looks for .chanlint.hcl in dir and then in each parent up to
 // and including the repository root, and no further. Outside a repository
 // only dir itself is looked at, so a stray file in a home directory never
-// changes a check. It returns "" when there is none.
-func findConfig(dir string) string {
+// changes a check. It returns "" when there is none, and an error for one
+// that cannot be used: not a regular file, or a symbolic link that leads
+// outside the repository (outside dir when there is no repository).
+func findConfig(dir string) (string, error) {
 	root := repoRoot(dir)
+	tree := root
+	if tree == "" {
+		tree = dir
+	}
 	for d := dir; ; {
 		p := filepath.Join(d, configName)
-		if info, err := os.Stat(p); err == nil && !info.IsDir() {
-			return p
+		if info, err := os.Lstat(p); err == nil && !info.IsDir() {
+			if _, err := safefile.Confine(p, tree); err != nil {
+				return p, describePathError(err)
+			}
+			if st, err := os.Stat(p); err == nil && !st.Mode().IsRegular() {
+				return p, notRegularError(st.Mode())
+			}
+			return p, nil
 		}
 		if root == "" || d == root {
-			return ""
+			return "", nil
 		}
 		parent := filepath.Dir(d)
 		if parent == d {
-			return ""
+			return "", nil
 		}
 		d = parent
 	}

@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"flag"
 	"fmt"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -113,6 +112,11 @@ func (a *app) runReport(args []string) int {
 	}
 
 	abs := a.abs(rf.out)
+	for _, r := range results {
+		if r.file.abs != "" {
+			in.Protect = append(in.Protect, r.file.abs)
+		}
+	}
 	if format == "markdown" {
 		name := strings.TrimSuffix(filepath.Base(abs), filepath.Ext(abs))
 		err = report.Markdown(filepath.Dir(abs), name, in)
@@ -120,7 +124,7 @@ func (a *app) runReport(args []string) int {
 	} else {
 		var buf bytes.Buffer
 		if err = report.HTML(&buf, in); err == nil {
-			err = os.WriteFile(abs, buf.Bytes(), 0o644)
+			err = a.writeOutput(abs, buf.Bytes(), results)
 		}
 	}
 	if err != nil {

@@ -15,16 +15,17 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path"
 	"regexp"
 	"sort"
 	"strconv"
 	"strings"
 
+	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/rules"
 )
 
@@ -176,17 +177,12 @@ func Write(w io.Writer, findings []rules.Finding) error {
 // wrong with it: not JSON, another format version, or an entry without a
 // rule, file or fingerprint.
 func Read(p string) (*Baseline, error) {
-	fh, err := os.Open(p)
-	if err != nil {
-		return nil, fmt.Errorf("baseline: %w", err)
-	}
-	defer fh.Close()
-	data, err := io.ReadAll(io.LimitReader(fh, MaxSize+1))
-	if err != nil {
-		return nil, fmt.Errorf("baseline %s: %w", p, err)
-	}
-	if len(data) > MaxSize {
+	data, err := safefile.Read(p, MaxSize)
+	switch {
+	case errors.Is(err, safefile.ErrTooLarge):
 		return nil, fmt.Errorf("baseline %s: larger than %d MiB", p, MaxSize>>20)
+	case err != nil:
+		return nil, fmt.Errorf("baseline: %w", err)
 	}
 	return parse(p, data)
 }

@@ -29,13 +29,13 @@ import (
 	"html/template"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"regexp"
 	"sort"
 	"strconv"
 	"strings"
 
+	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
@@ -52,8 +52,11 @@ type Model struct {
 
 // Input is what a report shows.
 type Input struct {
-	Models      []Model
-	Policy      *policies.Policy
+	Models []Model
+	Policy *policies.Policy
+	// Protect lists the paths a report must never replace: the run's
+	// input models.
+	Protect     []string
 	Caution     string          // normally rules.Caution
 	Invalid     []rules.Finding // diagnostics of files that are not valid models
 	ToolVersion string
@@ -94,6 +97,7 @@ func Markdown(dir, name string, in Input) error {
 		name = "chanlint-report"
 	}
 	pg := build(in)
+	var files []safefile.File
 	k := 0
 	for _, m := range pg.Models {
 		for _, ev := range m.Events {
@@ -104,15 +108,23 @@ func Markdown(dir, name string, in Input) error {
 				if err := tmpl.ExecuteTemplate(&buf, "file.svg.tmpl", p); err != nil {
 					return fmt.Errorf("report: %w", err)
 				}
-				if err := os.WriteFile(filepath.Join(dir, p.File), buf.Bytes(), 0o644); err != nil {
-					return fmt.Errorf("report: %w", err)
-				}
+				files = append(files, safefile.File{Path: filepath.Join(dir, p.File), Data: buf.Bytes()})
 			}
 		}
 	}
 	var md bytes.Buffer
 	writeMarkdown(&md, pg)
-	if err := os.WriteFile(filepath.Join(dir, name+".md"), md.Bytes(), 0o644); err != nil {
+	files = append(files, safefile.File{Path: filepath.Join(dir, name+".md"), Data: md.Bytes()})
+	for _, f := range files {
+		for _, p := range in.Protect {
+			if safefile.SameFile(f.Path, p) {
+				return fmt.Errorf("report: %s: %w", filepath.Base(f.Path), safefile.ErrInput)
+			}
+		}
+	}
+	// The page and its plots are replaced together: nothing is renamed
+	// into place before every file is written.
+	if err := safefile.WriteAll(files); err != nil {
 		return fmt.Errorf("report: %w", err)
 	}
 	return nil

@@ -1,0 +1,152 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"syscall"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// hostileTree is a repository with one good model (overtop, which has
+// findings) and room for hostile entries beside it; secret is a file
+// outside the repository that no run may read or show.
+func hostileTree(t *testing.T) (repo, secret string) {
+	t.Helper()
+	outside := t.TempDir()
+	secret = filepath.Join(outside, "secret.chan.hcl")
+	require.NoError(t, os.WriteFile(secret, []byte("units = \"si\"\n# TOP-SECRET reviewer notes\n"), 0o600))
+	repo = t.TempDir()
+	require.NoError(t, os.Mkdir(filepath.Join(repo, ".git"), 0o755))
+	copyTree(t, filepath.Join("testdata", "models"), filepath.Join(repo, "models"))
+	require.NoError(t, os.Remove(filepath.Join(repo, "models", "broken.chan.hcl")))
+	return repo, secret
+}
+
+func fifo(t *testing.T, path string) {
+	t.Helper()
+	if err := syscall.Mkfifo(path, 0o600); err != nil {
+		t.Skipf("no FIFOs here: %v", err)
+	}
+}
+
+// Explicit model paths (as a shell glob expands them): a link that leads
+// outside the tree and a FIFO are refused, unread, and the good models are
+// still checked and reported.
+func TestExplicitModelPathsHostile(t *testing.T) {
+	repo, secret := hostileTree(t)
+	require.NoError(t, os.Symlink(secret, filepath.Join(repo, "models", "leak.chan.hcl")))
+	fifo(t, filepath.Join(repo, "models", "pipe.chan.hcl"))
+	code, out, errOut := runIn(repo, runOpts{}, "check", "--color", "never",
+		"models/leak.chan.hcl", "models/pipe.chan.hcl", "models/overtop.chan.hcl", "models/clean.chan.hcl")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, out, "models/leak.chan.hcl: error: [model] cannot read: a symbolic link that leads outside the checked directory")
+	assert.Contains(t, out, "models/pipe.chan.hcl: error: [model] cannot read: is a FIFO")
+	assert.Contains(t, out, "models/overtop.chan.hcl:", "the other files are still reported")
+	assert.Contains(t, out, "4 files (2 invalid)")
+	assert.NotContains(t, out+errOut, "TOP-SECRET")
+	assert.NotContains(t, out+errOut, filepath.Dir(secret), "the link's target is never named")
+
+	// Found by a directory walk, the FIFO is not a model (not regular) and
+	// the link is not followed.
+	code, out, errOut = runIn(repo, runOpts{}, "check", "--color", "never", "models")
+	assert.Equal(t, exitFindings, code)
+	assert.Contains(t, out, "3 files,")
+	assert.NotContains(t, out+errOut, "TOP-SECRET")
+}
+
+// --policy: a bare name is the built-in pack even when a file of that name
+// sits in the working directory; a file needs a path, and a linked or
+// non-regular policy or baseline is refused without reading it.
+func TestPolicyAndBaselineHostile(t *testing.T) {
+	repo, secret := hostileTree(t)
+	// A submittal's "strict" file that switches everything off.
+	require.NoError(t, os.WriteFile(filepath.Join(repo, "strict"), []byte("policy \"lax\" {\n  units = \"si\"\n}\n"), 0o644))
+	code, out, _ := runIn(repo, runOpts{}, "check", "--color", "never", "--policy", "strict", "models")
+	assert.Equal(t, exitFindings, code)
+	assert.Contains(t, out, "policy: strict (built-in pack)")
+
+	code, _, errOut := runIn(repo, runOpts{}, "check", "--color", "never", "--policy", "nosuchpack", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, `unknown policy pack "nosuchpack"`)
+
+	require.NoError(t, os.Symlink(secret, filepath.Join(repo, "linked.policy.hcl")))
+	code, out, errOut = runIn(repo, runOpts{}, "check", "--color", "never", "--policy", "./linked.policy.hcl", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "a symbolic link that leads outside the checked directory")
+	assert.NotContains(t, out+errOut, "TOP-SECRET")
+
+	fifo(t, filepath.Join(repo, "pipe.policy.hcl"))
+	code, _, errOut = runIn(repo, runOpts{}, "check", "--color", "never", "--policy", "pipe.policy.hcl", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "is a FIFO")
+
+	fifo(t, filepath.Join(repo, "pipe.json"))
+	code, _, errOut = runIn(repo, runOpts{}, "check", "--color", "never", "--baseline", "pipe.json", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "cannot read baseline pipe.json: is a FIFO")
+	require.NoError(t, os.Symlink(secret, filepath.Join(repo, "leak.json")))
+	code, out, errOut = runIn(repo, runOpts{}, "check", "--color", "never", "--baseline", "leak.json", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.NotContains(t, out+errOut, "TOP-SECRET")
+
+	// extends of a FIFO inside the tree: refused, no hang.
+	require.NoError(t, os.WriteFile(filepath.Join(repo, "child.policy.hcl"), []byte("policy \"c\" {\n  extends = \"./pipe.policy.hcl\"\n}\n"), 0o644))
+	code, _, errOut = runIn(repo, runOpts{}, "check", "--color", "never", "--policy", "./child.policy.hcl", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "not a regular file")
+}
+
+// A discovered .chanlint.hcl that links outside the repository, or is a
+// FIFO, is refused with a message; it never silently falls back.
+func TestDiscoveredPolicyHostile(t *testing.T) {
+	repo, secret := hostileTree(t)
+	cfg := filepath.Join(repo, configName)
+	require.NoError(t, os.Symlink(secret, cfg))
+	code, out, errOut := runIn(repo, runOpts{}, "check", "--color", "never", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, ".chanlint.hcl: error: cannot read discovered policy: a symbolic link that leads outside the checked directory")
+	assert.NotContains(t, out+errOut, "TOP-SECRET")
+
+	require.NoError(t, os.Remove(cfg))
+	fifo(t, cfg)
+	code, _, errOut = runIn(repo, runOpts{}, "check", "--color", "never", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "is a FIFO")
+}
+
+// Outputs never replace an input model, a link or a FIFO, and a refused
+// write leaves the previous file as it was.
+func TestOutputTargetsHostile(t *testing.T) {
+	repo, secret := hostileTree(t)
+	model := filepath.Join(repo, "models", "clean.chan.hcl")
+	before, err := os.ReadFile(model)
+	require.NoError(t, err)
+
+	code, _, errOut := runIn(repo, runOpts{}, "report", "--out", "models/clean.chan.hcl", "--format", "html", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "an input of this run")
+	code, _, errOut = runIn(repo, runOpts{}, "check", "--write-baseline", "models/clean.chan.hcl", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "an input of this run")
+	after, _ := os.ReadFile(model)
+	assert.Equal(t, before, after)
+
+	require.NoError(t, os.Symlink(secret, filepath.Join(repo, "out.html")))
+	code, _, errOut = runIn(repo, runOpts{}, "report", "--out", "out.html", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "refusing to replace a symbolic link")
+	s, _ := os.ReadFile(secret)
+	assert.Contains(t, string(s), "TOP-SECRET", "the link's target is untouched")
+
+	fifo(t, filepath.Join(repo, "out.md"))
+	code, _, errOut = runIn(repo, runOpts{}, "report", "--out", "out.md", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "refusing to replace a FIFO")
+	entries, _ := os.ReadDir(repo)
+	for _, e := range entries {
+		assert.NotRegexp(t, `\.svg$`, e.Name(), "no plot is written when the page cannot be")
+	}
+}
