@@ -26,7 +26,10 @@ into one span; the finding gives the largest depth and the section height.
 
 Formula:
     open:   fails where WSE > invert + height  (value depth, limit height)
-    closed: fails where the solver marks the point full, or depth ≥ diameter
+    closed: fails where the solver marks the point full, or depth ≥ the
+            diameter or box height; not for the barrel of a culvert
+            block, whose pressure flow the HDS-5 outlet-control
+            computation covers (see the headwater rule)
 
 Settings: none; the rule cannot be turned off. A design exception can
 cover a span that is meant to overflow (a spillway crest, say), with its
@@ -52,7 +55,7 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 		}
 		kind := overtops
 		if sec.Closed() {
-			if !p.Full && p.Depth < sec.Height {
+			if !p.Full && p.Depth < sec.Height || rr.Reach != nil && rr.Reach.Culvert != nil {
 				return false
 			}
 			kind = flowsFull

@@ -33,6 +33,7 @@ type reachWork struct {
 	outletReq    float64 // depth the outlet control asks for (outlet reach only)
 	outletKind   model.OutletKind
 	outletNotes  []Note
+	culvert      *CulvertResult // a culvert barrel's result, nil for other reaches
 
 	// Pass 2.
 	endSuper bool
@@ -214,16 +215,37 @@ func (s *solver) subFallbackAt(w *reachWork, pi int32, x float64) bool {
 }
 
 // subcritical computes the reach's subcritical profile upstream from its
-// downstream control into solver.subBuf (pass 1).
+// downstream control into solver.subBuf and the energy it imposes on the
+// reaches above (pass 1): through a gate (gateHead), or, for a culvert
+// barrel, the culvert's headwater (culvertHead).
 func (s *solver) subcritical(w *reachWork, ev *model.Event) {
+	if w.r.Culvert != nil {
+		s.culvertHead(w, ev)
+		return
+	}
 	w.subLo = len(s.subBuf)
+	if w.q == 0 || len(w.pieces) == 0 {
+		s.subProfile(w, 0, true)
+		return
+	}
+	y, crit := s.downstreamBoundary(w, ev)
+	s.subProfile(w, y, crit)
+	if w.subHi > w.subLo {
+		s.gateHead(w)
+	}
+}
+
+// subProfile computes the subcritical profile from the depth y at the
+// downstream end (critical depth when crit) into solver.subBuf from
+// w.subLo on.
+func (s *solver) subProfile(w *reachWork, y float64, crit bool) {
+	s.subBuf = s.subBuf[:w.subLo]
 	w.subHi = w.subLo
 	if w.q == 0 || len(w.pieces) == 0 {
 		w.subPiece = w.subPiece[:0]
 		return
 	}
 	last := len(w.pieces) - 1
-	y, crit := s.downstreamBoundary(w, ev)
 	x := w.pieces[last].to
 	s.subBuf = append(s.subBuf, pt{x: x, y: y, piece: int32(last)})
 	s.count(1)
@@ -272,7 +294,6 @@ func (s *solver) subcritical(w *reachWork, ev *model.Event) {
 		w.subPiece = append(w.subPiece, int32(len(sub)))
 		pi++
 	}
-	s.gateHead(w)
 }
 
 // superControl is an upstream control of a reach.

@@ -147,8 +147,9 @@ func (r *ReachResult) ProfileTypes() []string {
 
 // EventResult is the solution of one event.
 type EventResult struct {
-	Event   *model.Event
-	Reaches []*ReachResult // in model order (Model.Reaches)
+	Event    *model.Event
+	Reaches  []*ReachResult   // in model order (Model.Reaches)
+	Culverts []*CulvertResult // in model order (Model.Culverts)
 }
 
 // Result is the solution of every event of a model.
@@ -169,4 +170,43 @@ type Options struct {
 	MaxPoints int
 	// Events restricts solving to the named events (nil: all).
 	Events []string
+}
+
+// CulvertControl is the control that sets a culvert's headwater.
+type CulvertControl string
+
+const (
+	InletControlled  CulvertControl = "inlet"
+	OutletControlled CulvertControl = "outlet"
+)
+
+// Outlet-control methods of a culvert result.
+const (
+	OutletFullBarrel = "full barrel"  // HDS-5 full-flow energy equation
+	OutletPartlyFull = "partly full"  // the gradually-varied-flow profile in the barrel
+	OutletNoFlow     = "no flow"      // the event puts no discharge through the barrel
+)
+
+// CulvertResult is the hydraulics of one culvert in one event by FHWA
+// HDS-5 (see culvert.go and culvertHead). Levels are elevations; depths
+// are above the inlet invert unless named otherwise.
+type CulvertResult struct {
+	Culvert *model.Culvert
+	Reach   *ReachResult // the barrel
+	Rise    float64      // D: the diameter or the box's height
+	// Headwater is the elevation of the headwater pool: the larger of the
+	// two controls, and the energy level the reach above ends at.
+	Headwater      float64
+	HeadwaterDepth float64 // Headwater − inlet invert
+	HWD            float64 // HeadwaterDepth / Rise
+	Control        CulvertControl
+	// InletHeadwater and OutletHeadwater are the elevations by each control.
+	InletHeadwater, OutletHeadwater float64
+	InletRegime                     InletRegime
+	Intensity                       float64 // Ku·Q/(A·D^0.5) of one barrel
+	OutletMethod                    string  // OutletFullBarrel, OutletPartlyFull or OutletNoFlow
+	Tailwater                       float64 // elevation at the outlet
+	BarrelFlow, RoadFlow            float64 // discharges; they sum to the reach's event flow
+	RoadDepth                       float64 // headwater above the road crest, 0 when it does not overtop
+	OutletDepth, OutletVelocity     float64 // at the barrel's downstream end, from the final profile
 }

@@ -268,6 +268,14 @@ func (s *solver) solveEvent(ev *model.Event) (*EventResult, error) {
 		}
 		s.finish(w)
 	}
+	for _, c := range s.m.Culverts {
+		if r := c.Reach; r != nil && r.Culvert == c && r.Index >= 0 && r.Index < len(s.work) {
+			if cr := s.work[r.Index].culvert; cr != nil {
+				finishCulvert(cr)
+				er.Culverts = append(er.Culverts, cr)
+			}
+		}
+	}
 	return er, nil
 }
 

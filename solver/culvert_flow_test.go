@@ -1,0 +1,169 @@
+package solver
+
+import (
+	"fmt"
+	"math"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"github.com/chanlint/chanlint/model"
+)
+
+// culvertNet is an approach channel, a culvert barrel and, below it, the
+// outlet (the event's outlet control is the tailwater).
+func culvertNet(barrel, culvert string, q, tw float64) string {
+	return fmt.Sprintf(`units = "si"
+section "approach" {
+  shape        = "rectangle"
+  bottom_width = 6
+  height       = 5
+  roughness    = 0.03
+}
+%s
+reach "approach" {
+  from    = "top"
+  to      = "inlet"
+  length  = 200
+  section = "approach"
+  invert  = [10.4, 10.2]
+}
+reach "barrel" {
+  from    = "inlet"
+  to      = "outlet"
+  length  = 40
+  section = "barrel"
+  invert  = [10.0, 9.96]
+}
+%s
+event "e" {
+  inflow = { "approach" = %g }
+  outlet = { depth = %g }
+}
+`, barrel, culvert, q, tw)
+}
+
+func solveCulvert(t *testing.T, src string) (*EventResult, *CulvertResult) {
+	t.Helper()
+	m := parseModel(t, "c.chan.hcl", []byte(src))
+	res, err := Solve(m, Options{})
+	require.NoError(t, err)
+	require.Len(t, res.Events, 1)
+	ev := res.Events[0]
+	require.Len(t, ev.Culverts, 1)
+	return ev, ev.Culverts[0]
+}
+
+const pipe12 = `section "barrel" {
+  shape     = "circle"
+  diameter  = 1.2
+  roughness = 0.013
+}`
+
+func TestCulvertOutletControlFullBarrel(t *testing.T) {
+	// Source: FHWA HDS-5 (2012), outlet control, full flow (from memory):
+	// with the tailwater above the crown, HW = TW + (1 + ke + kf)·V²/2g
+	// above the outlet invert, kf = 2g·n²·L/R^(4/3) (SI). 1.2 m pipe, n
+	// 0.013, L 40 m, Q 3 m³/s, ke 0.5, TW 2.0 m: V = 2.65258 m/s, kf =
+	// 0.660190, H = 0.774960 m (by hand), so HW = 9.96 + 2.0 + 0.77496.
+	ev, cr := solveCulvert(t, culvertNet(pipe12, `culvert "c" {
+  reach = "barrel"
+  inlet = { form = 1, K = 0.0098, M = 2.0, c = 0.0398, Y = 0.67, entrance_loss = 0.5 }
+}`, 3, 2.0))
+	assert.Equal(t, OutletControlled, cr.Control)
+	assert.Equal(t, OutletFullBarrel, cr.OutletMethod)
+	geoClose(t, 9.96+2.0+0.7749596, cr.OutletHeadwater, 1e-7, "outlet-control headwater")
+	geoClose(t, cr.OutletHeadwater, cr.Headwater, 0, "headwater")
+	geoClose(t, (cr.Headwater-10.0)/1.2, cr.HWD, 1e-12, "HW/D")
+	geoClose(t, 9.96+2.0, cr.Tailwater, 1e-12, "tailwater")
+	// Inlet control, submerged: x = 1.811·3/(A·√1.2) = 4.38527; HW/D =
+	// 0.0398·x² + 0.67 − 0.5·0.001 = 1.434879 (by hand).
+	assert.Equal(t, Submerged, cr.InletRegime)
+	geoClose(t, 10.0+1.2*1.4348789, cr.InletHeadwater, 1e-6, "inlet-control headwater")
+	// The reach above ends with its energy at the headwater.
+	up := ev.Reaches[0]
+	end := up.Points[len(up.Points)-1]
+	geoClose(t, cr.Headwater, end.Energy, 1e-6, "energy of the approach at the pool")
+	assert.Equal(t, 3.0, cr.BarrelFlow)
+	assert.Zero(t, cr.RoadFlow)
+	assert.Greater(t, cr.OutletVelocity, 0.0)
+}
+
+func TestCulvertOutletControlPartlyFull(t *testing.T) {
+	// Source: the gradually-varied-flow equation dy/dx = (S0 − Sf)/(1 − F²)
+	// (Chow 1959, ch. 9) integrated independently with gonum quadrature
+	// (gvfTrapezoid, a rectangle here) from the tailwater depth at the
+	// outlet up the 2.0 × 1.5 m box; HDS-5 (2012) outlet control partly
+	// full (from memory): HW = inlet invert + y + (1 + ke)·V²/2g at the inlet.
+	box := `section "barrel" {
+  shape        = "box"
+  bottom_width = 2.0
+  height       = 1.5
+  roughness    = 0.013
+}`
+	const q, tw, ke = 3.0, 0.9, 0.4
+	_, cr := solveCulvert(t, culvertNet(box, `culvert "c" {
+  reach = "barrel"
+  inlet = "box-wingwalls-30-75"
+}`, q, tw))
+	ref := gvfTrapezoid{b: 2, z: 0, n: 0.013, k: 1, g: 9.80665, q: q, s0: 0.001}
+	yn, yc := ref.normalDepth(), ref.criticalDepth()
+	require.Greater(t, tw, yc)
+	require.Less(t, tw, yn) // an M2 profile: the depth rises upstream towards yn
+	y0 := ref.depthAt(40, tw, yn*(1-1e-9), 0)
+	v0 := q / (2 * y0)
+	want := 10.0 + y0 + (1+ke)*v0*v0/(2*9.80665)
+	assert.Equal(t, OutletPartlyFull, cr.OutletMethod)
+	assert.InDelta(t, want, cr.OutletHeadwater, 1e-3, "outlet control against the integrated profile (1 mm)")
+	// Inlet control, unsubmerged form 1 with Hc = 1.5·yc of a rectangle
+	// (Chow 1959, ch. 4), K 0.026, M 1.0, Ks −0.5 (HDS-5 Table A.1, from
+	// memory): HW = Hc + D·(K·x − 0.5·S).
+	x := 1.811 * q / (3.0 * math.Sqrt(1.5))
+	hi := 1.5*yc + 1.5*(0.026*x-0.5*0.001)
+	assert.Equal(t, Unsubmerged, cr.InletRegime)
+	geoClose(t, 10.0+hi, cr.InletHeadwater, 1e-9, "inlet-control headwater")
+	geoClose(t, math.Max(want, 10+hi), cr.Headwater, 1e-3, "the larger governs")
+	assert.InDelta(t, tw, cr.OutletDepth, 1e-9, "the barrel ends at the tailwater depth")
+}
+
+func TestCulvertRoadOvertopping(t *testing.T) {
+	// Source: common practice (no published source) on the split (HDS-5
+	// 2012, roadway overtopping, from memory): the barrel and the road
+	// carry the event's flow at one headwater, to 1 mm; the road's share
+	// follows the weir formula Q = Cr·L·Hr^1.5 at that headwater.
+	_, cr := solveCulvert(t, culvertNet(pipe12, `culvert "c" {
+  reach = "barrel"
+  inlet = "square-edge-headwall"
+  road  = { crest = 12.5, length = 30, width = 10 }
+}`, 12, 1.0))
+	require.Greater(t, cr.RoadFlow, 0.0)
+	geoClose(t, 12, cr.BarrelFlow+cr.RoadFlow, 1e-12, "continuity")
+	hr := cr.Headwater - 12.5
+	geoClose(t, hr, cr.RoadDepth, 1e-12, "depth over the road")
+	road := RoadFlow(RoadWeirCoefficient(model.SI), 30, 12.5, cr.Headwater, cr.Tailwater)
+	assert.InDelta(t, cr.RoadFlow, road, 1e-6, "weir flow at the headwater")
+	// The barrel alone at its share gives the same headwater.
+	hwRoad := roadHeadwater(RoadWeirCoefficient(model.SI), 30, 12.5, cr.Tailwater, cr.RoadFlow)
+	assert.Less(t, math.Abs(hwRoad-cr.Headwater), 1e-3, "one headwater for barrel and road (1 mm)")
+	geoClose(t, cr.BarrelFlow, cr.Reach.Discharge, 0, "the barrel's profile carries its share")
+}
+
+func TestCulvertBarrels(t *testing.T) {
+	// Source: common practice (no published source): two identical
+	// barrels with twice the flow have the headwater of one barrel.
+	one, two := culvertNet(pipe12, `culvert "c" {
+  reach = "barrel"
+  inlet = "square-edge-headwall"
+}`, 2, 0.8), culvertNet(pipe12, `culvert "c" {
+  reach   = "barrel"
+  barrels = 2
+  inlet   = "square-edge-headwall"
+}`, 4, 0.8)
+	_, a := solveCulvert(t, one)
+	_, b := solveCulvert(t, two)
+	geoClose(t, a.Headwater, b.Headwater, 1e-9, "headwater")
+	geoClose(t, a.InletHeadwater, b.InletHeadwater, 1e-9, "inlet control")
+	geoClose(t, a.OutletHeadwater, b.OutletHeadwater, 1e-6, "outlet control")
+	geoClose(t, a.OutletVelocity, b.OutletVelocity, 1e-6, "outlet velocity")
+}
