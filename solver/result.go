@@ -182,9 +182,9 @@ const (
 
 // Outlet-control methods of a culvert result.
 const (
-	OutletFullBarrel = "full barrel"  // HDS-5 full-flow energy equation
-	OutletPartlyFull = "partly full"  // the gradually-varied-flow profile in the barrel
-	OutletNoFlow     = "no flow"      // the event puts no discharge through the barrel
+	OutletFullBarrel = "full barrel" // HDS-5 full-flow energy equation
+	OutletPartlyFull = "partly full" // the gradually-varied-flow profile in the barrel
+	OutletNoFlow     = "no flow"     // the event puts no discharge through the barrel
 )
 
 // CulvertResult is the hydraulics of one culvert in one event by FHWA
