@@ -4,22 +4,22 @@ import (
 	"fmt"
 
 	"github.com/chanlint/chanlint/model"
-	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
 )
 
 // A built-in pack, converted to the units of a model in feet.
-func ExamplePack() {
-	p, diags := policies.Pack("strict")
+func ExampleLanguage_Pack() {
+	p, diags := rules.Language().Pack("strict")
 	if diags.HasErrors() {
 		fmt.Println(diags)
 		return
 	}
 	us := p.In(model.US)
 	fb := us.Rules["freeboard"]
-	concrete, _ := us.Rules["max_velocity"].Limit.For("concrete")
-	_, sandChecked := us.Rules["min_velocity"].Limit.For("sand")
+	concrete, _ := us.Rules["max_velocity"].Table("limit").For("concrete")
+	_, sandChecked := us.Rules["min_velocity"].Table("limit").For("sand")
 	fmt.Println(us.Chain)
-	fmt.Printf("freeboard: at least %.3f ft or %.0f %% of the depth (%s, from %s)\n", fb.Minimum, 100*fb.Fraction, fb.Severity, fb.File)
+	fmt.Printf("freeboard: at least %.3f ft or %.0f %% of the depth (%s, from %s)\n", fb.Number("minimum"), 100*fb.Number("fraction"), fb.Severity, fb.File)
 	fmt.Printf("concrete: at most %.2f ft/s\n", concrete)
 	fmt.Println("minimum velocity checked in sand:", sandChecked)
 	// Output:
@@ -30,9 +30,10 @@ func ExamplePack() {
 }
 
 // Every configurable rule with its default severity.
-func ExampleDefaultSeverity() {
-	for _, id := range policies.Configurable() {
-		fmt.Println(id, policies.DefaultSeverity(id))
+func ExampleLanguage_Configurable() {
+	lang := rules.Language()
+	for _, id := range lang.Configurable() {
+		fmt.Println(id, lang.Spec(id).Severity)
 	}
 	// Output:
 	// freeboard error

@@ -2,6 +2,7 @@ package policies
 
 import (
 	"fmt"
+	"maps"
 	"math"
 	"slices"
 	"strconv"
@@ -32,28 +33,17 @@ func Format(p *Policy) []byte {
 		b.SetAttributeValue("reference", cty.StringVal(p.Reference))
 	}
 	b.SetAttributeValue("exceptions", cty.StringVal(p.Exceptions))
-	for _, spec := range ruleSpecs {
-		rc := p.Rules[spec.id]
-		if rc == nil {
-			continue
-		}
+	for _, id := range slices.Sorted(maps.Keys(p.Rules)) {
+		rc := p.Rules[id]
 		b.AppendNewline()
 		b.AppendUnstructuredTokens(comment(fmt.Sprintf("from %s:%d", rc.File, rc.DefRange.Start.Line)))
-		rb := b.AppendNewBlock(spec.id, nil).Body()
-		for _, s := range spec.settings {
-			switch s {
-			case "minimum":
-				rb.SetAttributeRaw(s, numberTokens(rc.Minimum))
-			case "fraction":
-				rb.SetAttributeRaw(s, numberTokens(rc.Fraction))
-			case "limit":
-				rb.SetAttributeRaw(s, limitTokens(rc.Limit))
-			case "avoid":
-				rb.SetAttributeRaw(s, bandTokens(rc.Avoid))
-			case "subcritical_coefficient":
-				rb.SetAttributeRaw(s, numberTokens(rc.SubcriticalCoefficient))
-			case "supercritical_coefficient":
-				rb.SetAttributeRaw(s, numberTokens(rc.SupercriticalCoefficient))
+		rb := b.AppendNewBlock(id, nil).Body()
+		if rc.Spec != nil {
+			for i := range rc.Spec.Settings {
+				s := &rc.Spec.Settings[i]
+				if toks := settingTokens(s, rc); toks != nil {
+					rb.SetAttributeRaw(s.Name, toks)
+				}
 			}
 		}
 		rb.SetAttributeValue("severity", cty.StringVal(string(rc.Severity)))
@@ -93,6 +83,25 @@ func formatNumber(v float64) string {
 		return strconv.FormatFloat(v, 'g', -1, 64)
 	}
 	return strconv.FormatFloat(v, 'f', -1, 64)
+}
+
+// settingTokens writes the value of a setting; nil for a PerLining or
+// FroudeBands setting that is not set.
+func settingTokens(s *Setting, rc *RuleConfig) hclwrite.Tokens {
+	v, ok := rc.Values[s.Name]
+	switch s.Kind {
+	case Number:
+		return numberTokens(rc.Number(s.Name))
+	case PerLining:
+		if ok {
+			return limitTokens(v.Table)
+		}
+	case FroudeBands:
+		if ok {
+			return bandTokens(v.Bands)
+		}
+	}
+	return nil
 }
 
 func numberTokens(v float64) hclwrite.Tokens {
@@ -148,4 +157,54 @@ func bandTokens(bands []Band) hclwrite.Tokens {
 		elems[i] = hclwrite.TokensForTuple([]hclwrite.Tokens{numberTokens(b.Low), numberTokens(b.High)})
 	}
 	return hclwrite.TokensForTuple(elems)
+}
+
+// Summary describes the settings of a rule block in one line, in the
+// policy's units u, with num formatting each number: "minimum 0.3 m;
+// fraction 0.2" or "limit concrete 6, grass 1.5, sand no limit, other
+// linings 2 m/s". It follows the rule's spec; "" for a block without
+// settings.
+func (rc *RuleConfig) Summary(u model.Units, num func(float64) string) string {
+	if rc.Spec == nil {
+		return ""
+	}
+	var parts []string
+	for i := range rc.Spec.Settings {
+		s := &rc.Spec.Settings[i]
+		unit := s.Quantity.Unit(u)
+		if unit != "" {
+			unit = " " + unit
+		}
+		switch s.Kind {
+		case Number:
+			parts = append(parts, s.Name+" "+num(rc.Number(s.Name))+unit)
+		case PerLining:
+			t, ok := rc.Values[s.Name]
+			if !ok {
+				continue
+			}
+			var items []string
+			for _, w := range slices.Sorted(maps.Keys(t.Table.Values)) {
+				items = append(items, w+" "+num(t.Table.Values[w]))
+			}
+			for _, w := range slices.Sorted(maps.Keys(t.Table.NoLimit)) {
+				if t.Table.NoLimit[w] {
+					items = append(items, w+" no limit")
+				}
+			}
+			if t.Table.HasDefault {
+				items = append(items, "other linings "+num(t.Table.Default))
+			}
+			parts = append(parts, s.Name+" "+strings.Join(items, ", ")+unit)
+		case FroudeBands:
+			var items []string
+			for _, b := range rc.Bands(s.Name) {
+				items = append(items, num(b.Low)+" – "+num(b.High))
+			}
+			if len(items) > 0 {
+				parts = append(parts, s.Name+" "+strings.Join(items, ", "))
+			}
+		}
+	}
+	return strings.Join(parts, "; ")
 }

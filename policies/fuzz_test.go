@@ -1,4 +1,4 @@
-package policies
+package policies_test
 
 import (
 	"math"
@@ -9,6 +9,8 @@ import (
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
 	"github.com/hashicorp/hcl/v2"
 	"gonum.org/v1/gonum/floats/scalar"
 )
@@ -28,11 +30,11 @@ import (
 //
 // Run: go test ./policies -run '^$' -fuzz '^FuzzPolicy$' -fuzztime 4m
 func FuzzPolicy(f *testing.F) {
-	for _, n := range PackNames() {
-		src, _ := PackSource(n)
+	for _, n := range policies.PackNames() {
+		src, _ := policies.PackSource(n)
 		f.Add(src)
 	}
-	examples, err := filepath.Glob(filepath.Join("..", "testdata", "policies", "*"+Suffix))
+	examples, err := filepath.Glob(filepath.Join("..", "testdata", "policies", "*"+policies.Suffix))
 	if err != nil || len(examples) == 0 {
 		f.Fatalf("no example policies: %v", err)
 	}
@@ -68,7 +70,7 @@ func FuzzPolicy(f *testing.F) {
 
 	name := filepath.Join(repo, "fuzz.policy.hcl")
 	f.Fuzz(func(t *testing.T, src []byte) {
-		l := NewLoader(repo)
+		l := rules.Language().NewLoader(repo)
 		p, diags := l.LoadSource(name, src)
 		if (p == nil) != diags.HasErrors() {
 			t.Fatalf("policy %v with errors %v: %s", p != nil, diags.HasErrors(), diags.Error())
@@ -77,7 +79,7 @@ func FuzzPolicy(f *testing.F) {
 			if d.Subject == nil {
 				t.Fatalf("diagnostic without a position: %s: %s", d.Summary, d.Detail)
 			}
-			if f := d.Subject.Filename; !strings.HasPrefix(f, packPrefix) && !strings.HasPrefix(filepath.FromSlash(f), repo) {
+			if f := d.Subject.Filename; !strings.HasPrefix(f, policies.PackPrefix) && !strings.HasPrefix(filepath.FromSlash(f), repo) {
 				t.Fatalf("diagnostic in %q, outside the repository", f)
 			}
 		}
@@ -85,15 +87,15 @@ func FuzzPolicy(f *testing.F) {
 			return
 		}
 		for _, c := range p.Chain {
-			if !strings.HasPrefix(c, packPrefix) && !strings.HasPrefix(filepath.FromSlash(c), repo+string(filepath.Separator)) {
+			if !strings.HasPrefix(c, policies.PackPrefix) && !strings.HasPrefix(filepath.FromSlash(c), repo+string(filepath.Separator)) {
 				t.Fatalf("chain %v leaves the repository", p.Chain)
 			}
 		}
 		for _, u := range []model.Units{p.Units, model.SI, model.US} {
 			checkPolicyValues(t, p.In(u))
 		}
-		text := Format(p)
-		back, bdiags := NewLoader(repo).LoadSource(filepath.Join(repo, "back.policy.hcl"), text)
+		text := policies.Format(p)
+		back, bdiags := rules.Language().NewLoader(repo).LoadSource(filepath.Join(repo, "back.policy.hcl"), text)
 		if bdiags.HasErrors() || back == nil {
 			t.Fatalf("Format's text does not load back: %s\n%s", bdiags.Error(), text)
 		}
@@ -101,21 +103,24 @@ func FuzzPolicy(f *testing.F) {
 	})
 }
 
-func checkPolicyValues(t *testing.T, p *Policy) {
+func checkPolicyValues(t *testing.T, p *policies.Policy) {
 	t.Helper()
 	for id, rc := range p.Rules {
-		if specFor(id) == nil {
+		if s := rules.Language().Spec(id); s == nil || s.AlwaysOn {
 			t.Fatalf("rule %q is not configurable", id)
 		}
 		if rc.Severity.Rank() == 0 {
 			t.Fatalf("%s: unknown severity %q", id, rc.Severity)
 		}
-		nums := []float64{rc.Minimum, rc.Fraction, rc.Limit.Default, rc.SubcriticalCoefficient, rc.SupercriticalCoefficient}
-		for _, v := range rc.Limit.Values {
-			nums = append(nums, v)
-		}
-		for _, b := range rc.Avoid {
-			nums = append(nums, b.Low, b.High)
+		var nums []float64
+		for _, v := range rc.Values {
+			nums = append(nums, v.Number, v.Table.Default)
+			for _, x := range v.Table.Values {
+				nums = append(nums, x)
+			}
+			for _, b := range v.Bands {
+				nums = append(nums, b.Low, b.High)
+			}
 		}
 		for _, v := range nums {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -132,7 +137,7 @@ func checkPolicyValues(t *testing.T, p *Policy) {
 
 // samePolicy compares two policies' settings; Format rounds to six
 // significant digits, at most 5e-6 relative.
-func samePolicy(t *testing.T, want, got *Policy, text []byte) {
+func samePolicy(t *testing.T, want, got *policies.Policy, text []byte) {
 	t.Helper()
 	const rel = 5e-6
 	near := func(a, b float64) bool { return scalar.EqualWithinAbsOrRel(a, b, 1e-12, rel) }
@@ -151,30 +156,36 @@ func samePolicy(t *testing.T, want, got *Policy, text []byte) {
 		if w.Severity != g.Severity || !slices.Equal(w.Events, g.Events) || (w.Events == nil) != (g.Events == nil) {
 			fail(id + " severity or events")
 		}
-		if !near(w.Minimum, g.Minimum) || !near(w.Fraction, g.Fraction) ||
-			!near(w.SubcriticalCoefficient, g.SubcriticalCoefficient) || !near(w.SupercriticalCoefficient, g.SupercriticalCoefficient) {
-			fail(id + " numbers")
+		if len(w.Values) != len(g.Values) {
+			fail(id + " settings")
 		}
-		if w.Limit.HasDefault != g.Limit.HasDefault || !near(w.Limit.Default, g.Limit.Default) || len(w.Limit.Values) != len(g.Limit.Values) {
-			fail(id + " limit")
-		}
-		for k, v := range w.Limit.Values {
-			gv, ok := g.Limit.Values[k]
-			if !ok || !near(v, gv) {
-				fail(id + " limit of " + k)
+		for name, wv := range w.Values {
+			gv, ok := g.Values[name]
+			if !ok || !near(wv.Number, gv.Number) {
+				fail(id + " " + name)
 			}
-		}
-		for k := range w.Limit.NoLimit {
-			if !g.Limit.NoLimit[k] {
-				fail(id + " no-limit " + k)
+			wl, gl := wv.Table, gv.Table
+			if wl.HasDefault != gl.HasDefault || !near(wl.Default, gl.Default) || len(wl.Values) != len(gl.Values) {
+				fail(id + " " + name + " table")
 			}
-		}
-		if len(w.Avoid) != len(g.Avoid) {
-			fail(id + " avoid")
-		}
-		for i := range w.Avoid {
-			if !near(w.Avoid[i].Low, g.Avoid[i].Low) || !near(w.Avoid[i].High, g.Avoid[i].High) {
-				fail(id + " avoid band")
+			for k, v := range wl.Values {
+				x, ok := gl.Values[k]
+				if !ok || !near(v, x) {
+					fail(id + " " + name + " of " + k)
+				}
+			}
+			for k := range wl.NoLimit {
+				if !gl.NoLimit[k] {
+					fail(id + " " + name + " no-limit " + k)
+				}
+			}
+			if len(wv.Bands) != len(gv.Bands) {
+				fail(id + " " + name + " bands")
+			}
+			for i := range wv.Bands {
+				if !near(wv.Bands[i].Low, gv.Bands[i].Low) || !near(wv.Bands[i].High, gv.Bands[i].High) {
+					fail(id + " " + name + " band")
+				}
 			}
 		}
 	}

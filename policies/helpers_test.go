@@ -1,4 +1,4 @@
-package policies
+package policies_test
 
 import (
 	"os"
@@ -6,6 +6,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/stretchr/testify/require"
 )
@@ -25,11 +27,11 @@ func writeTree(t *testing.T, files map[string]string) string {
 }
 
 // loadSource loads one policy text as root/p.policy.hcl.
-func loadSource(t *testing.T, src string) (*Policy, hcl.Diagnostics, string) {
+func loadSource(t *testing.T, src string) (*policies.Policy, hcl.Diagnostics, string) {
 	t.Helper()
 	dir := writeTree(t, map[string]string{"p.policy.hcl": src})
 	path := filepath.Join(dir, "p.policy.hcl")
-	p, diags := NewLoader(dir).Load(path)
+	p, diags := rules.Language().NewLoader(dir).Load(path)
 	return p, diags, path
 }
 

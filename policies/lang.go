@@ -12,95 +12,41 @@ import (
 	"github.com/zclconf/go-cty/cty"
 )
 
-// ruleSpec describes one configurable rule block of the policy language.
-type ruleSpec struct {
-	id       string
-	severity Severity // default severity
-	settings []string // attributes beyond severity, events and enabled
-}
-
-// ruleSpecs lists the configurable rules, sorted by id.
-var ruleSpecs = []ruleSpec{
-	{"freeboard", Error, []string{"minimum", "fraction"}},
-	{"froude_band", Warning, []string{"avoid"}},
-	{"jump_containment", Error, nil},
-	{"jump_type", Warning, []string{"avoid"}},
-	{"max_velocity", Error, []string{"limit"}},
-	{"min_velocity", Warning, []string{"limit"}},
-	{"shear_stress", Error, []string{"limit"}},
-	{"superelevation", Error, []string{"subcritical_coefficient", "supercritical_coefficient", "minimum"}},
-}
-
-// alwaysOn are the rules that run whatever the policy says.
-var alwaysOn = []string{"capacity", "model", "solver"}
-
-// Default bend-superelevation coefficients C in Δy = C·V²·T/(g·rc):
-// 0.5 for tranquil (subcritical) flow and 1.0 for rapid (supercritical)
-// flow in a simple circular curve. Source: U.S. Army Corps of Engineers,
-// EM 1110-2-1601, Hydraulic Design of Flood Control Channels (from memory).
-const (
-	DefaultSubcriticalCoefficient   = 0.5
-	DefaultSupercriticalCoefficient = 1.0
-)
-
 // MaxExtendsDepth bounds the length of an `extends` chain.
 const MaxExtendsDepth = 16
-
-func specFor(id string) *ruleSpec {
-	for i := range ruleSpecs {
-		if ruleSpecs[i].id == id {
-			return &ruleSpecs[i]
-		}
-	}
-	return nil
-}
-
-// Configurable returns the ids of the rules the policy language accepts as
-// blocks, sorted.
-func Configurable() []string {
-	ids := make([]string, len(ruleSpecs))
-	for i, s := range ruleSpecs {
-		ids[i] = s.id
-	}
-	return ids
-}
-
-// DefaultSeverity is the severity of a configurable rule when its block
-// does not set one; "" for an id that is not configurable.
-func DefaultSeverity(rule string) Severity {
-	if s := specFor(rule); s != nil {
-		return s.severity
-	}
-	return ""
-}
 
 var policyFileSchema = &hcl.BodySchema{
 	Blocks: []hcl.BlockHeaderSchema{{Type: "policy", LabelNames: []string{"name"}}},
 }
 
-var policyBodySchema = func() *hcl.BodySchema {
-	s := &hcl.BodySchema{Attributes: []hcl.AttributeSchema{
-		{Name: "units", Required: true},
-		{Name: "reference"},
-		{Name: "exceptions"},
-		{Name: "extends"},
-	}}
-	for _, r := range ruleSpecs {
-		s.Blocks = append(s.Blocks, hcl.BlockHeaderSchema{Type: r.id})
-	}
-	// Accepted by the schema only to say why they cannot be configured.
-	for _, id := range alwaysOn {
-		s.Blocks = append(s.Blocks, hcl.BlockHeaderSchema{Type: id})
-	}
-	return s
-}()
+// bodySchema is the schema of a policy block: its attributes and one block
+// type per rule. Always-on rules are accepted by the schema only to say why
+// they cannot be configured.
+func (l *Language) bodySchema() *hcl.BodySchema {
+	l.schemaOnce.Do(func() {
+		s := &hcl.BodySchema{Attributes: []hcl.AttributeSchema{
+			{Name: "units", Required: true},
+			{Name: "reference"},
+			{Name: "exceptions"},
+			{Name: "extends"},
+		}}
+		for _, r := range l.specs {
+			s.Blocks = append(s.Blocks, hcl.BlockHeaderSchema{Type: r.ID})
+		}
+		l.schema = s
+	})
+	return l.schema
+}
 
-func ruleSchema(spec *ruleSpec) *hcl.BodySchema {
-	s := &hcl.BodySchema{Attributes: []hcl.AttributeSchema{
-		{Name: "severity"}, {Name: "events"}, {Name: "enabled"},
-	}}
-	for _, a := range spec.settings {
-		s.Attributes = append(s.Attributes, hcl.AttributeSchema{Name: a})
+// ruleSchema is the schema of a rule block: the common settings and the
+// rule's own.
+func ruleSchema(spec *RuleSpec) *hcl.BodySchema {
+	s := &hcl.BodySchema{}
+	for _, c := range CommonSettings {
+		s.Attributes = append(s.Attributes, hcl.AttributeSchema{Name: c.Name})
+	}
+	for _, a := range spec.Settings {
+		s.Attributes = append(s.Attributes, hcl.AttributeSchema{Name: a.Name})
 	}
 	return s
 }
@@ -118,6 +64,7 @@ type own struct {
 
 // decoder accumulates the diagnostics of one file.
 type decoder struct {
+	lang  *Language
 	diags hcl.Diagnostics
 }
 
@@ -174,7 +121,7 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 	if strings.TrimSpace(o.policy.Name) == "" {
 		d.errorf(block.LabelRanges[0], "Empty policy name", "Give the policy a name, e.g. policy \"county-drainage\".")
 	}
-	content, diags := block.Body.Content(policyBodySchema)
+	content, diags := block.Body.Content(d.lang.bodySchema())
 	d.diags = append(d.diags, diags...)
 
 	if a := content.Attributes["units"]; a != nil {
@@ -207,8 +154,8 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 
 	first := map[string]*hcl.Block{}
 	for _, b := range content.Blocks {
-		spec := specFor(b.Type)
-		if spec == nil {
+		spec := d.lang.Spec(b.Type)
+		if spec == nil || spec.AlwaysOn {
 			d.errorf(b.DefRange, "Rule is always on",
 				"The %q rule always runs and cannot be configured or switched off; remove this block.", b.Type)
 			continue
@@ -229,18 +176,19 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 	return o
 }
 
-// decodeRule decodes one rule block; enabled is false for enabled = false.
-func (d *decoder) decodeRule(spec *ruleSpec, block *hcl.Block, file string) (rc *RuleConfig, enabled bool) {
+// decodeRule decodes one rule block generically from its spec; enabled is
+// false for enabled = false.
+func (d *decoder) decodeRule(spec *RuleSpec, block *hcl.Block, file string) (rc *RuleConfig, enabled bool) {
 	content, diags := block.Body.Content(ruleSchema(spec))
 	d.diags = append(d.diags, diags...)
 	rc = &RuleConfig{
-		Rule:                     spec.id,
-		Severity:                 spec.severity,
-		File:                     file,
-		DefRange:                 block.DefRange,
-		Attrs:                    map[string]hcl.Range{},
-		SubcriticalCoefficient:   DefaultSubcriticalCoefficient,
-		SupercriticalCoefficient: DefaultSupercriticalCoefficient,
+		Rule:     spec.ID,
+		Spec:     spec,
+		Severity: spec.Severity,
+		File:     file,
+		DefRange: block.DefRange,
+		Attrs:    map[string]hcl.Range{},
+		Values:   map[string]Value{},
 	}
 	enabled = true
 	for name, a := range content.Attributes {
@@ -260,50 +208,74 @@ func (d *decoder) decodeRule(spec *ruleSpec, block *hcl.Block, file string) (rc 
 	if a := content.Attributes["events"]; a != nil {
 		rc.Events = d.events(a)
 	}
-	// After an unknown or malformed argument (likely a misspelt setting) a
-	// second message about a missing setting would only repeat it.
-	has := func(n string) bool { return content.Attributes[n] != nil || diags.HasErrors() }
-	for _, n := range spec.settings {
-		a := content.Attributes[n]
+	for i := range spec.Settings {
+		s := &spec.Settings[i]
+		a := content.Attributes[s.Name]
 		if a == nil {
+			if s.Kind == Number {
+				rc.Values[s.Name] = Value{Number: s.Default}
+			}
 			continue
 		}
-		switch n {
-		case "minimum":
-			rc.Minimum, _ = d.bounded(a, 0, math.Inf(1), false, "a length of at least 0")
-		case "fraction":
-			rc.Fraction, _ = d.bounded(a, 0, 1, false, "a ratio of the flow depth from 0 to 1 (0.2 means 20 %)")
-		case "limit":
-			rc.Limit = d.byLining(a)
-		case "avoid":
-			rc.Avoid = d.bands(a)
-		case "subcritical_coefficient":
-			rc.SubcriticalCoefficient, _ = d.bounded(a, 0, math.Inf(1), true, "a coefficient greater than 0")
-		case "supercritical_coefficient":
-			rc.SupercriticalCoefficient, _ = d.bounded(a, 0, math.Inf(1), true, "a coefficient greater than 0")
+		var v Value
+		switch s.Kind {
+		case Number:
+			v.Number, _ = d.bounded(a, s)
+		case PerLining:
+			v.Table = d.byLining(a, s)
+		case FroudeBands:
+			v.Bands = d.bands(a, s)
 		}
+		rc.Values[s.Name] = v
 	}
-	if enabled {
-		missing := content.MissingItemRange
-		switch spec.id {
-		case "freeboard":
-			if !has("minimum") && !has("fraction") {
-				d.errorf(missing, "Missing freeboard setting",
-					"Set minimum (a length), fraction (of the flow depth) or both; the larger of minimum and fraction × depth governs.")
-			}
-		case "froude_band", "jump_type":
-			if !has("avoid") {
-				d.errorf(missing, "Missing argument \"avoid\"",
-					"The %s rule needs avoid = [[low, high], ...], the Froude-number bands to flag.", spec.id)
-			}
-		case "max_velocity", "min_velocity", "shear_stress":
-			if !has("limit") {
-				d.errorf(missing, "Missing argument \"limit\"",
-					"The %s rule needs limit = NUMBER or limit = { LINING = NUMBER, ..., default = NUMBER }.", spec.id)
-			}
-		}
+	if enabled && !diags.HasErrors() {
+		d.required(spec, content)
 	}
 	return rc, enabled
+}
+
+// required reports the settings an enabled block lacks: a required one,
+// or every one of a group of which at least one is needed, or some of a
+// group whose settings go together. The caller skips it after an unknown
+// or malformed argument (likely a misspelt setting): a second message about
+// a missing setting would only repeat it.
+func (d *decoder) required(spec *RuleSpec, content *hcl.BodyContent) {
+	missing := content.MissingItemRange
+	for i := range spec.Settings {
+		s := &spec.Settings[i]
+		if s.Required && content.Attributes[s.Name] == nil {
+			d.errorf(missing, fmt.Sprintf("Missing argument %q", s.Name),
+				"The %s rule needs %s.", spec.ID, s.Usage())
+		}
+	}
+	for _, g := range spec.Together {
+		var have, lack []string
+		for _, n := range g.Settings {
+			if content.Attributes[n] != nil {
+				have = append(have, n)
+			} else {
+				lack = append(lack, n)
+			}
+		}
+		switch {
+		case g.Need == AtLeastOne && len(have) == 0:
+			parts := make([]string, len(g.Settings))
+			for i, n := range g.Settings {
+				parts[i] = n + " (" + spec.Setting(n).Doc + ")"
+			}
+			detail := "Set at least one of " + joinWords(parts, "and")
+			if len(parts) == 2 {
+				detail = "Set " + parts[0] + ", " + parts[1] + " or both"
+			}
+			if g.Note != "" {
+				detail += "; " + g.Note
+			}
+			d.errorf(missing, fmt.Sprintf("Missing %s setting", spec.ID), "%s.", detail)
+		case g.Need == AllOrNone && len(have) > 0 && len(lack) > 0:
+			d.errorf(missing, fmt.Sprintf("Missing %s setting", spec.ID),
+				"%s go together: with %s also set %s.", joinWords(g.Settings, "and"), joinWords(have, "and"), joinWords(lack, "and"))
+		}
+	}
 }
 
 // value evaluates an attribute without variables or functions and checks
@@ -513,14 +485,14 @@ func (d *decoder) number(expr hcl.Expression, name string) (float64, bool) {
 	return f, true
 }
 
-// bounded reads a number in [lo, hi] (lo excluded when open).
-func (d *decoder) bounded(a *hcl.Attribute, lo, hi float64, open bool, what string) (float64, bool) {
+// bounded reads a Number setting within its bounds.
+func (d *decoder) bounded(a *hcl.Attribute, s *Setting) (float64, bool) {
 	f, ok := d.number(a.Expr, a.Name)
 	if !ok {
 		return 0, false
 	}
-	if f < lo || (open && f == lo) || f > hi {
-		d.errorf(a.Expr.Range(), fmt.Sprintf("Invalid value for %q", a.Name), "%s must be %s; got %g.", a.Name, what, f)
+	if !s.Bounds.Admits(f) {
+		d.errorf(a.Expr.Range(), fmt.Sprintf("Invalid value for %q", a.Name), "%s must be %s; got %g.", a.Name, s.must(), f)
 		return 0, false
 	}
 	return f, true
@@ -563,29 +535,30 @@ func (d *decoder) events(a *hcl.Attribute) []string {
 
 // byLining reads a limit: a number, or an object of lining = number (or
 // null for no limit), with an optional default key.
-func (d *decoder) byLining(a *hcl.Attribute) ByLining {
+func (d *decoder) byLining(a *hcl.Attribute, s *Setting) ByLining {
 	var b ByLining
-	const what = "a number greater than 0, or an object such as { concrete = 6.0, default = 1.0 }"
+	name := s.Name
+	what := "a number " + s.Bounds.String() + ", or an object such as { concrete = 6.0, default = 1.0 }"
 	pairs, mdiags := hcl.ExprMap(a.Expr)
 	if mdiags.HasErrors() {
-		if f, ok := d.positive(a.Expr, "limit", "limit must be "+what); ok {
+		if f, ok := d.inBounds(a.Expr, s, name+" must be "+what); ok {
 			b.Default, b.HasDefault = f, true
 		}
 		return b
 	}
 	if len(pairs) == 0 {
-		d.errorf(a.Expr.Range(), `Empty "limit"`, "Give at least one lining = limit pair or a default.")
+		d.errorf(a.Expr.Range(), fmt.Sprintf("Empty %q", name), "Give at least one lining = %s pair or a default.", name)
 		return b
 	}
 	seen := map[string]hcl.Range{}
 	before := len(d.diags)
 	defer func() {
 		if b.Values == nil && !b.HasDefault && len(d.diags) == before {
-			d.errorf(a.Expr.Range(), `No number in "limit"`, "Give at least one lining a number, or a default; null alone limits nothing.")
+			d.errorf(a.Expr.Range(), fmt.Sprintf("No number in %q", name), "Give at least one lining a number, or a default; null alone limits nothing.")
 		}
 	}()
 	for _, kv := range pairs {
-		kval, ok := d.exprValue(kv.Key, "limit", cty.String, "an object whose keys are lining words")
+		kval, ok := d.exprValue(kv.Key, name, cty.String, "an object whose keys are lining words")
 		if !ok {
 			continue
 		}
@@ -595,7 +568,7 @@ func (d *decoder) byLining(a *hcl.Attribute) ByLining {
 			continue
 		}
 		if prev, dup := seen[key]; dup {
-			d.errorf(kv.Key.Range(), "Duplicate lining in limit", "%q already has a limit at line %d, column %d.", key, prev.Start.Line, prev.Start.Column)
+			d.errorf(kv.Key.Range(), "Duplicate lining in "+name, "%q already has a %s at line %d, column %d.", key, name, prev.Start.Line, prev.Start.Column)
 			continue
 		}
 		seen[key] = kv.Key.Range()
@@ -612,7 +585,7 @@ func (d *decoder) byLining(a *hcl.Attribute) ByLining {
 			b.NoLimit[key] = true
 			continue
 		}
-		f, ok := d.positive(kv.Value, "limit", fmt.Sprintf("The limit for %s must be a number greater than 0, or null for no limit", key))
+		f, ok := d.inBounds(kv.Value, s, fmt.Sprintf("The %s for %s must be a number %s, or null for no %s", name, key, s.Bounds, name))
 		if !ok {
 			continue
 		}
@@ -628,33 +601,36 @@ func (d *decoder) byLining(a *hcl.Attribute) ByLining {
 	return b
 }
 
-// positive reads a number greater than zero; must says what it must be.
-func (d *decoder) positive(expr hcl.Expression, name, must string) (float64, bool) {
-	f, ok := d.number(expr, name)
+// inBounds reads a number within the setting's bounds; must says what it
+// must be.
+func (d *decoder) inBounds(expr hcl.Expression, s *Setting, must string) (float64, bool) {
+	f, ok := d.number(expr, s.Name)
 	if !ok {
 		return 0, false
 	}
-	if f <= 0 {
-		d.errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", name),
+	if !s.Bounds.Admits(f) {
+		d.errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", s.Name),
 			"%s; got %g. To switch the rule off write enabled = false.", must, f)
 		return 0, false
 	}
 	return f, true
 }
 
-// bands reads [[lo, hi], ...] with 0 ≤ lo < hi.
-func (d *decoder) bands(a *hcl.Attribute) []Band {
-	const shape = "avoid must be a list of [low, high] Froude-number pairs, e.g. [[0.86, 1.13]]"
+// bands reads [[lo, hi], ...] with lo < hi, both within the setting's
+// bounds (0 ≤ lo for Froude numbers).
+func (d *decoder) bands(a *hcl.Attribute, s *Setting) []Band {
+	name := s.Name
+	shape := name + " must be a list of [low, high] Froude-number pairs, e.g. [[0.86, 1.13]]"
 	if !d.literal(a.Expr) {
 		return nil
 	}
 	outer, diags := hcl.ExprList(a.Expr)
 	if diags.HasErrors() {
-		d.errorf(a.Expr.Range(), `Invalid value for "avoid"`, "%s.", shape)
+		d.errorf(a.Expr.Range(), fmt.Sprintf("Invalid value for %q", name), "%s.", shape)
 		return nil
 	}
 	if len(outer) == 0 {
-		d.errorf(a.Expr.Range(), `Empty "avoid"`, "%s; to switch the rule off write enabled = false.", shape)
+		d.errorf(a.Expr.Range(), fmt.Sprintf("Empty %q", name), "%s; to switch the rule off write enabled = false.", shape)
 		return nil
 	}
 	var out []Band
@@ -664,14 +640,16 @@ func (d *decoder) bands(a *hcl.Attribute) []Band {
 			d.errorf(e.Range(), "Invalid band", "%s; this element is not a pair.", shape)
 			continue
 		}
-		lo, okLo := d.number(inner[0], "avoid")
-		hi, okHi := d.number(inner[1], "avoid")
+		lo, okLo := d.number(inner[0], name)
+		hi, okHi := d.number(inner[1], name)
 		if !okLo || !okHi {
 			continue
 		}
 		switch {
-		case lo < 0:
-			d.errorf(inner[0].Range(), "Invalid band", "A Froude number is at least 0; got %g.", lo)
+		case !s.Bounds.Admits(lo):
+			d.errorf(inner[0].Range(), "Invalid band", "%s is %s; got %g.", capitalise(s.Quantity.noun()), s.Bounds, lo)
+		case !s.Bounds.Admits(hi):
+			d.errorf(inner[1].Range(), "Invalid band", "%s is %s; got %g.", capitalise(s.Quantity.noun()), s.Bounds, hi)
 		case hi <= lo:
 			d.errorf(e.Range(), "Invalid band", "The low end must be below the high end; got [%g, %g].", lo, hi)
 		default:
@@ -682,19 +660,51 @@ func (d *decoder) bands(a *hcl.Attribute) []Band {
 	return out
 }
 
-// crossCheck warns about settings of the effective policy that contradict
-// each other: a minimum velocity at or above the maximum for a lining
-// leaves no velocity that passes both rules.
-func crossCheck(p *Policy) hcl.Diagnostics {
-	lo, hi := p.Rules["min_velocity"], p.Rules["max_velocity"]
-	if lo == nil || hi == nil {
-		return nil
+// capitalise upper-cases the first letter of an ASCII phrase.
+func capitalise(s string) string {
+	if s == "" || s[0] < 'a' || s[0] > 'z' {
+		return s
 	}
+	return string(s[0]-'a'+'A') + s[1:]
+}
+
+// crossCheck warns about settings of the effective policy that contradict
+// each other: a PerLining setting whose spec says it must stay Below
+// another rule's (a minimum velocity at or above the maximum for a lining
+// leaves no velocity that passes both rules).
+func crossCheck(p *Policy) hcl.Diagnostics {
+	ids := make([]string, 0, len(p.Rules))
+	for id := range p.Rules {
+		ids = append(ids, id)
+	}
+	sort.Strings(ids)
+	var diags hcl.Diagnostics
+	for _, id := range ids {
+		lo := p.Rules[id]
+		if lo.Spec == nil {
+			continue
+		}
+		for i := range lo.Spec.Settings {
+			s := &lo.Spec.Settings[i]
+			rule, setting, ok := strings.Cut(s.Below, ".")
+			if !ok || s.Kind != PerLining || p.Rules[rule] == nil {
+				continue
+			}
+			diags = append(diags, noRoom(p, lo, s, p.Rules[rule], setting)...)
+		}
+	}
+	return diags
+}
+
+// noRoom compares lining by lining the setting s of lo, which must stay
+// below the setting named above of hi.
+func noRoom(p *Policy, lo *RuleConfig, s *Setting, hi *RuleConfig, above string) hcl.Diagnostics {
+	low, high := lo.Table(s.Name), hi.Table(above)
 	linings := map[string]bool{"": true} // "": an unlisted lining, the defaults
-	for k := range lo.Limit.Values {
+	for k := range low.Values {
 		linings[k] = true
 	}
-	for k := range hi.Limit.Values {
+	for k := range high.Values {
 		linings[k] = true
 	}
 	words := make([]string, 0, len(linings))
@@ -704,8 +714,8 @@ func crossCheck(p *Policy) hcl.Diagnostics {
 	sort.Strings(words)
 	var diags hcl.Diagnostics
 	for _, w := range words {
-		vmin, okMin := lo.Limit.For(w)
-		vmax, okMax := hi.Limit.For(w)
+		vmin, okMin := low.For(w)
+		vmax, okMax := high.For(w)
 		if !okMin || !okMax || vmin < vmax {
 			continue
 		}
@@ -713,15 +723,17 @@ func crossCheck(p *Policy) hcl.Diagnostics {
 		if w == "" {
 			what = "linings without a limit of their own"
 		}
-		rng, ok := lo.Attrs["limit"]
+		rng, ok := lo.Attrs[s.Name]
 		if !ok {
 			rng = lo.DefRange
 		}
+		word := s.Quantity.Word()
 		diags = append(diags, &hcl.Diagnostic{
 			Severity: hcl.DiagWarning,
-			Summary:  "Velocity limits leave no room",
-			Detail: fmt.Sprintf("For %s the minimum velocity %s is not below the maximum %s %s/s (max_velocity from %s:%d); every velocity fails one of the two rules. Give the lining its own limits, or null for no minimum.",
-				what, formatNumber(vmin), formatNumber(vmax), p.Units.Length(), hi.File, hi.DefRange.Start.Line),
+			Summary:  capitalise(word) + " limits leave no room",
+			Detail: fmt.Sprintf("For %s the minimum %s %s is not below the maximum %s %s (%s from %s:%d); every %s fails one of the two rules. Give the lining its own limits, or null for no minimum.",
+				what, word, formatNumber(vmin), formatNumber(vmax), s.Quantity.Unit(p.Units),
+				hi.Rule, hi.File, hi.DefRange.Start.Line, word),
 			Subject: rng.Ptr(),
 		})
 	}

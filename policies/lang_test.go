@@ -1,10 +1,12 @@
-package policies
+package policies_test
 
 import (
 	"strings"
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -57,12 +59,12 @@ func TestParseEveryConstruct(t *testing.T) {
 	assert.Equal(t, "Alder County Drainage Manual, ch. 5", p.Reference)
 	assert.Equal(t, "deny", p.Exceptions)
 	assert.Equal(t, []string{path}, p.Chain)
-	assert.ElementsMatch(t, Configurable(), keys(p.Rules))
+	assert.ElementsMatch(t, rules.Language().Configurable(), keys(p.Rules))
 
 	fb := p.Rules["freeboard"]
-	assert.Equal(t, 1.0, fb.Minimum)
-	assert.Equal(t, 0.25, fb.Fraction)
-	assert.Equal(t, Warning, fb.Severity)
+	assert.Equal(t, 1.0, fb.Number("minimum"))
+	assert.Equal(t, 0.25, fb.Number("fraction"))
+	assert.Equal(t, policies.Warning, fb.Severity)
 	assert.Equal(t, []string{"q100", "q10"}, fb.Events)
 	assert.True(t, fb.AppliesTo("q10"))
 	assert.False(t, fb.AppliesTo("q2"))
@@ -72,42 +74,42 @@ func TestParseEveryConstruct(t *testing.T) {
 	assert.Equal(t, start, fb.Attrs["fraction"].Start)
 
 	mv := p.Rules["max_velocity"]
-	assert.Equal(t, Error, mv.Severity, "default severity")
-	v, ok := mv.Limit.For("concrete")
+	assert.Equal(t, policies.Error, mv.Severity, "default severity")
+	v, ok := mv.Table("limit").For("concrete")
 	assert.True(t, ok)
 	assert.Equal(t, 20.0, v)
-	v, ok = mv.Limit.For("dumped riprap")
+	v, ok = mv.Table("limit").For("dumped riprap")
 	assert.True(t, ok)
 	assert.Equal(t, 9.5, v)
-	_, ok = mv.Limit.For("rock")
+	_, ok = mv.Table("limit").For("rock")
 	assert.False(t, ok, "null means no limit for the lining")
-	v, ok = mv.Limit.For("sod")
+	v, ok = mv.Table("limit").For("sod")
 	assert.True(t, ok)
 	assert.Equal(t, 3.0, v)
 	assert.Nil(t, mv.Events)
 	assert.True(t, mv.AppliesTo("anything"))
 
 	mn := p.Rules["min_velocity"]
-	assert.Equal(t, Warning, mn.Severity)
-	v, ok = mn.Limit.For("concrete")
+	assert.Equal(t, policies.Warning, mn.Severity)
+	v, ok = mn.Table("limit").For("concrete")
 	assert.True(t, ok)
 	assert.Equal(t, 2.0, v)
 
 	fr := p.Rules["froude_band"]
-	assert.Equal(t, []Band{{0.86, 1.13}, {1.5, 2.0}}, fr.Avoid, "sorted by low end")
+	assert.Equal(t, []policies.Band{{0.86, 1.13}, {1.5, 2.0}}, fr.Bands("avoid"), "sorted by low end")
 
-	assert.Equal(t, Error, p.Rules["jump_containment"].Severity)
-	assert.Equal(t, Info, p.Rules["jump_type"].Severity)
+	assert.Equal(t, policies.Error, p.Rules["jump_containment"].Severity)
+	assert.Equal(t, policies.Info, p.Rules["jump_type"].Severity)
 
 	se := p.Rules["superelevation"]
-	assert.Equal(t, 0.6, se.SubcriticalCoefficient)
-	assert.Equal(t, DefaultSupercriticalCoefficient, se.SupercriticalCoefficient)
-	assert.Equal(t, 0.5, se.Minimum)
+	assert.Equal(t, 0.6, se.Number("subcritical_coefficient"))
+	assert.Equal(t, 1.0, se.Number("supercritical_coefficient"))
+	assert.Equal(t, 0.5, se.Number("minimum"))
 
 	ss := p.Rules["shear_stress"]
-	_, ok = ss.Limit.For("concrete")
+	_, ok = ss.Table("limit").For("concrete")
 	assert.False(t, ok, "no default: unlisted linings are not checked")
-	v, _ = ss.Limit.For("earth")
+	v, _ = ss.Table("limit").For("earth")
 	assert.Equal(t, 0.075, v)
 }
 
@@ -131,21 +133,22 @@ func TestDefaults(t *testing.T) {
 	se := p.Rules["superelevation"]
 	// Source: U.S. Army Corps of Engineers, EM 1110-2-1601 (from memory):
 	// C = 0.5 subcritical, 1.0 supercritical in a simple curve.
-	assert.Equal(t, 0.5, se.SubcriticalCoefficient)
-	assert.Equal(t, 1.0, se.SupercriticalCoefficient)
-	assert.Equal(t, 0.0, se.Minimum)
-	for _, id := range Configurable() {
-		assert.NotEmpty(t, DefaultSeverity(id), id)
+	assert.Equal(t, 0.5, se.Number("subcritical_coefficient"))
+	assert.Equal(t, 1.0, se.Number("supercritical_coefficient"))
+	assert.Equal(t, 0.0, se.Number("minimum"))
+	lang := rules.Language()
+	for _, id := range lang.Configurable() {
+		assert.NotEmpty(t, lang.Spec(id).Severity, id)
 	}
-	assert.Equal(t, Error, DefaultSeverity("freeboard"))
-	assert.Equal(t, Error, DefaultSeverity("max_velocity"))
-	assert.Equal(t, Warning, DefaultSeverity("min_velocity"))
-	assert.Equal(t, Warning, DefaultSeverity("froude_band"))
-	assert.Equal(t, Error, DefaultSeverity("jump_containment"))
-	assert.Equal(t, Warning, DefaultSeverity("jump_type"))
-	assert.Equal(t, Error, DefaultSeverity("superelevation"))
-	assert.Equal(t, Error, DefaultSeverity("shear_stress"))
-	assert.Equal(t, Severity(""), DefaultSeverity("capacity"))
+	assert.Equal(t, policies.Error, lang.Spec("freeboard").Severity)
+	assert.Equal(t, policies.Error, lang.Spec("max_velocity").Severity)
+	assert.Equal(t, policies.Warning, lang.Spec("min_velocity").Severity)
+	assert.Equal(t, policies.Warning, lang.Spec("froude_band").Severity)
+	assert.Equal(t, policies.Error, lang.Spec("jump_containment").Severity)
+	assert.Equal(t, policies.Warning, lang.Spec("jump_type").Severity)
+	assert.Equal(t, policies.Error, lang.Spec("superelevation").Severity)
+	assert.Equal(t, policies.Error, lang.Spec("shear_stress").Severity)
+	assert.True(t, lang.Spec("capacity").AlwaysOn)
 }
 
 func TestDisabledBlockIsNotInRules(t *testing.T) {
@@ -211,6 +214,18 @@ func TestDiagnostics(t *testing.T) {
     severity = "warning"
   }
 }`, "Rule is always on", `"capacity" rule always runs`, `capacity`, 0},
+		// Every always-on rule is refused alike: the list of always-on
+		// rules is the registry's, not a second list in the loader.
+		{"always-on unused_exception block", `policy "x" {
+  units = "si"
+  unused_exception {
+    enabled = false
+  }
+}`, "Rule is always on", `"unused_exception" rule always runs`, `unused_exception`, 0},
+		{"always-on model block", `policy "x" {
+  units = "si"
+  model {}
+}`, "Rule is always on", `"model" rule always runs`, `model`, 0},
 		{"band reversed", `policy "x" {
   units = "si"
   froude_band { avoid = [[1.13, 0.86]] }
@@ -468,7 +483,7 @@ func TestContradictoryVelocityLimitsWarn(t *testing.T) {
 }
 
 func TestResolveAcceptsPackPrefix(t *testing.T) {
-	p, diags := NewLoader("").Resolve("pack:baseline-us")
+	p, diags := rules.Language().NewLoader("").Resolve("pack:baseline-us")
 	require.Empty(t, diags)
 	assert.Equal(t, "baseline-us", p.Name)
 }
@@ -493,7 +508,7 @@ func TestNestingIsBounded(t *testing.T) {
 		})
 	}
 	// Exactly MaxNesting levels (policy, block, parentheses) load.
-	src := "policy \"x\" {\n  units = \"si\"\n  freeboard { minimum = " + strings.Repeat("(", MaxNesting-2) + "0.3" + strings.Repeat(")", MaxNesting-2) + " }\n}\n"
+	src := "policy \"x\" {\n  units = \"si\"\n  freeboard { minimum = " + strings.Repeat("(", policies.MaxNesting-2) + "0.3" + strings.Repeat(")", policies.MaxNesting-2) + " }\n}\n"
 	_, diags, _ := loadSource(t, src)
 	assert.Empty(t, diags)
 }

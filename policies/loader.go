@@ -25,12 +25,6 @@ const Suffix = ".policy.hcl"
 // 6 KiB), which also bounds the work of parsing a hostile one.
 const MaxFileSize = 256 << 10
 
-// packCache holds the effective policy of each built-in pack once it has
-// loaded without diagnostics: the packs are embedded and never change, and
-// decoding one costs about a third of checking a small model. Callers get
-// a deep copy.
-var packCache sync.Map // pack name → *Policy
-
 // packPrefix starts the File of a built-in pack: "pack:NAME".
 const packPrefix = "pack:"
 
@@ -38,6 +32,7 @@ const packPrefix = "pack:"
 // keeps every parsed file for rendering diagnostics with source snippets.
 // A Loader is safe for concurrent use.
 type Loader struct {
+	lang   *Language
 	mu     sync.Mutex
 	root   string                // as given to NewLoader
 	parsed map[string]parsedFile // by file name
@@ -53,8 +48,8 @@ type parsedFile struct {
 // NewLoader returns a loader whose `extends` paths may not leave root, the
 // repository root (after symbolic links are resolved). With root "", each
 // file given to Load or Resolve confines its own chain to its directory.
-func NewLoader(root string) *Loader {
-	return &Loader{root: root, parsed: map[string]parsedFile{}}
+func (l *Language) NewLoader(root string) *Loader {
+	return &Loader{lang: l, root: root, parsed: map[string]parsedFile{}}
 }
 
 // Files returns the files parsed so far by name (a path, or "pack:NAME"),
@@ -142,14 +137,14 @@ func (l *Loader) top(n node) (*Policy, hcl.Diagnostics) {
 }
 
 func (l *Loader) loadPack(name string) (*Policy, hcl.Diagnostics) {
-	if p, ok := packCache.Load(name); ok {
+	if p, ok := l.lang.packs.Load(name); ok {
 		return p.(*Policy).clone(), nil
 	}
 	l.mu.Lock()
 	defer l.mu.Unlock()
 	p, diags := checked(l.load(node{display: packPrefix + name, key: packPrefix + name, pack: true}, "", nil, nil))
 	if p != nil && len(diags) == 0 {
-		packCache.Store(name, p.clone())
+		l.lang.packs.Store(name, p.clone())
 	}
 	return p, diags
 }
@@ -248,7 +243,7 @@ func (l *Loader) load(n node, root string, stack []node, from *hcl.Range) (*Poli
 	if diags.HasErrors() {
 		return nil, diags
 	}
-	d := &decoder{diags: diags}
+	d := &decoder{lang: l.lang, diags: diags}
 	p, parent := l.decodeAndExtend(d, file, n, root, stack)
 	sortByPosition(d.diags)
 	return p, append(d.diags, parent...)

@@ -1,4 +1,4 @@
-package policies
+package policies_test
 
 import (
 	"fmt"
@@ -7,6 +7,8 @@ import (
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -38,7 +40,7 @@ func TestExtendsChildReplacesParentBlock(t *testing.T) {
 }`,
 	})
 	path := filepath.Join(dir, "team", "child.policy.hcl")
-	p, diags := NewLoader(dir).Load(path)
+	p, diags := rules.Language().NewLoader(dir).Load(path)
 	require.Empty(t, diags)
 
 	assert.Equal(t, "child", p.Name)
@@ -49,8 +51,8 @@ func TestExtendsChildReplacesParentBlock(t *testing.T) {
 	assert.Equal(t, filepath.ToSlash(path), p.File)
 
 	fb := p.Rules["freeboard"]
-	assert.Equal(t, 0.3, fb.Minimum)
-	assert.Equal(t, 0.0, fb.Fraction, "the child's block replaces the parent's entirely")
+	assert.Equal(t, 0.3, fb.Number("minimum"))
+	assert.Equal(t, 0.0, fb.Number("fraction"), "the child's block replaces the parent's entirely")
 	assert.Nil(t, fb.Events, "the parent's events do not leak into the child's block")
 	assert.Equal(t, filepath.ToSlash(path), fb.File)
 
@@ -75,7 +77,7 @@ func TestExtendsChildOverridesTopLevel(t *testing.T) {
   exceptions = "report"
 }`,
 	})
-	p, diags := NewLoader(dir).Load(filepath.Join(dir, "child.policy.hcl"))
+	p, diags := rules.Language().NewLoader(dir).Load(filepath.Join(dir, "child.policy.hcl"))
 	require.Empty(t, diags)
 	assert.Equal(t, "Child manual", p.Reference)
 	assert.Equal(t, "report", p.Exceptions)
@@ -101,23 +103,23 @@ func TestExtendsConvertsParentUnits(t *testing.T) {
   min_velocity { limit = 0.6 }
 }`,
 	})
-	p, diags := NewLoader(dir).Load(filepath.Join(dir, "si.policy.hcl"))
+	p, diags := rules.Language().NewLoader(dir).Load(filepath.Join(dir, "si.policy.hcl"))
 	require.Empty(t, diags)
 	assert.Equal(t, model.SI, p.Units)
 	const tol = 1e-12 // a product of two doubles: rounding only
 	// Source: 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959).
-	assert.True(t, scalar.EqualWithinAbsOrRel(p.Rules["freeboard"].Minimum, 0.3048, tol, tol))
-	assert.Equal(t, 0.2, p.Rules["freeboard"].Fraction, "a fraction has no units")
-	v, _ := p.Rules["max_velocity"].Limit.For("concrete")
+	assert.True(t, scalar.EqualWithinAbsOrRel(p.Rules["freeboard"].Number("minimum"), 0.3048, tol, tol))
+	assert.Equal(t, 0.2, p.Rules["freeboard"].Number("fraction"), "a fraction has no units")
+	v, _ := p.Rules["max_velocity"].Table("limit").For("concrete")
 	assert.True(t, scalar.EqualWithinAbsOrRel(v, 6.096, tol, tol)) // Source: 20 ft/s × 0.3048 (exact definition)
-	v, _ = p.Rules["max_velocity"].Limit.For("grass")
+	v, _ = p.Rules["max_velocity"].Table("limit").For("grass")
 	assert.True(t, scalar.EqualWithinAbsOrRel(v, 0.9144, tol, tol)) // Source: 3 ft/s × 0.3048 (exact definition)
-	v, _ = p.Rules["shear_stress"].Limit.For("earth")
+	v, _ = p.Rules["shear_stress"].Table("limit").For("earth")
 	// Source: NIST SP 811 (2008) Appendix B: 1 lbf/ft² = 4.788026 E+01 Pa.
 	assert.InDelta(t, 47.88026, v, 5e-6)
-	assert.True(t, scalar.EqualWithinAbsOrRel(p.Rules["superelevation"].Minimum, 0.1524, tol, tol))
-	assert.Equal(t, []Band{{0.86, 1.13}}, p.Rules["froude_band"].Avoid, "Froude numbers have no units")
-	v, _ = p.Rules["min_velocity"].Limit.For("")
+	assert.True(t, scalar.EqualWithinAbsOrRel(p.Rules["superelevation"].Number("minimum"), 0.1524, tol, tol))
+	assert.Equal(t, []policies.Band{{0.86, 1.13}}, p.Rules["froude_band"].Bands("avoid"), "Froude numbers have no units")
+	v, _ = p.Rules["min_velocity"].Table("limit").For("")
 	assert.Equal(t, 0.6, v, "the child's own numbers are not converted")
 }
 
@@ -129,14 +131,14 @@ func TestExtendsPack(t *testing.T) {
   min_velocity { limit = { sand = null, default = 2.2 } }
 }`,
 	})
-	p, diags := NewLoader(dir).Load(filepath.Join(dir, "county.policy.hcl"))
+	p, diags := rules.Language().NewLoader(dir).Load(filepath.Join(dir, "county.policy.hcl"))
 	require.Empty(t, diags)
 	assert.Equal(t, model.US, p.Units)
 	assert.Equal(t, []string{filepath.ToSlash(filepath.Join(dir, "county.policy.hcl")), "pack:baseline"}, p.Chain)
 	assert.Equal(t, "pack:baseline", p.Rules["freeboard"].File)
 	// Source: 0.3 m / 0.3048 m/ft (exact definition of the foot).
-	assert.InDelta(t, 0.3/0.3048, p.Rules["freeboard"].Minimum, 1e-12)
-	assert.Len(t, p.Rules, len(Configurable()))
+	assert.InDelta(t, 0.3/0.3048, p.Rules["freeboard"].Number("minimum"), 1e-12)
+	assert.Len(t, p.Rules, len(rules.Language().Configurable()))
 }
 
 func TestExtendsPackPrefix(t *testing.T) {
@@ -175,7 +177,7 @@ func TestExtendsOutsideRepository(t *testing.T) {
 			path := filepath.Join(repo, filepath.FromSlash(tc.file))
 			src, err := os.ReadFile(path)
 			require.NoError(t, err)
-			p, diags := NewLoader(repo).Load(path)
+			p, diags := rules.Language().NewLoader(repo).Load(path)
 			require.Len(t, diags, 1)
 			assert.Nil(t, p)
 			assert.Equal(t, "Extends leaves the repository", diags[0].Summary)
@@ -199,7 +201,7 @@ func TestSymlinkInsideRepositoryIsFine(t *testing.T) {
 }`,
 	})
 	require.NoError(t, os.Symlink(filepath.Join(repo, "real", "base.policy.hcl"), filepath.Join(repo, "base.policy.hcl")))
-	p, diags := NewLoader(repo).Load(filepath.Join(repo, "p.policy.hcl"))
+	p, diags := rules.Language().NewLoader(repo).Load(filepath.Join(repo, "p.policy.hcl"))
 	require.Empty(t, diags)
 	assert.Contains(t, p.Rules, "jump_containment")
 }
@@ -212,10 +214,10 @@ func TestEmptyRootConfinesToTheFilesDirectory(t *testing.T) {
   extends = "../base.policy.hcl"
 }`,
 	})
-	_, diags := NewLoader("").Load(filepath.Join(repo, "sub", "p.policy.hcl"))
+	_, diags := rules.Language().NewLoader("").Load(filepath.Join(repo, "sub", "p.policy.hcl"))
 	require.Len(t, diags, 1)
 	assert.Equal(t, "Extends leaves the repository", diags[0].Summary)
-	_, diags = NewLoader(repo).Load(filepath.Join(repo, "sub", "p.policy.hcl"))
+	_, diags = rules.Language().NewLoader(repo).Load(filepath.Join(repo, "sub", "p.policy.hcl"))
 	assert.Empty(t, diags)
 }
 
@@ -235,7 +237,7 @@ func TestExtendsCycle(t *testing.T) {
   extends = "self.policy.hcl"
 }`,
 	})
-	p, diags := NewLoader(dir).Load(filepath.Join(dir, "a.policy.hcl"))
+	p, diags := rules.Language().NewLoader(dir).Load(filepath.Join(dir, "a.policy.hcl"))
 	assert.Nil(t, p)
 	require.Len(t, diags, 1)
 	d := diags[0]
@@ -247,14 +249,14 @@ func TestExtendsCycle(t *testing.T) {
 	assert.Equal(t, end.Column, d.Subject.End.Column)
 	assert.Contains(t, d.Detail, "a.policy.hcl → ")
 
-	_, diags = NewLoader(dir).Load(filepath.Join(dir, "self.policy.hcl"))
+	_, diags = rules.Language().NewLoader(dir).Load(filepath.Join(dir, "self.policy.hcl"))
 	require.Len(t, diags, 1)
 	assert.Equal(t, "Cycle in extends", diags[0].Summary)
 }
 
 func TestExtendsDepthIsBounded(t *testing.T) {
 	files := map[string]string{}
-	n := MaxExtendsDepth + 4
+	n := policies.MaxExtendsDepth + 4
 	for i := 0; i < n; i++ {
 		ext := ""
 		if i+1 < n {
@@ -263,7 +265,7 @@ func TestExtendsDepthIsBounded(t *testing.T) {
 		files[fmt.Sprintf("p%d.policy.hcl", i)] = fmt.Sprintf("policy \"p%d\" {\n  units = \"si\"%s\n}\n", i, ext)
 	}
 	dir := writeTree(t, files)
-	p, diags := NewLoader(dir).Load(filepath.Join(dir, "p0.policy.hcl"))
+	p, diags := rules.Language().NewLoader(dir).Load(filepath.Join(dir, "p0.policy.hcl"))
 	assert.Nil(t, p)
 	require.Len(t, diags, 1)
 	assert.Equal(t, "Extends chain too long", diags[0].Summary)
@@ -271,28 +273,28 @@ func TestExtendsDepthIsBounded(t *testing.T) {
 
 	// A chain of exactly MaxExtendsDepth policies loads.
 	ok := writeTree(t, map[string]string{})
-	for i := 0; i < MaxExtendsDepth; i++ {
+	for i := 0; i < policies.MaxExtendsDepth; i++ {
 		ext := ""
-		if i+1 < MaxExtendsDepth {
+		if i+1 < policies.MaxExtendsDepth {
 			ext = fmt.Sprintf("\n  extends = \"p%d.policy.hcl\"", i+1)
 		}
 		require.NoError(t, os.WriteFile(filepath.Join(ok, fmt.Sprintf("p%d.policy.hcl", i)),
 			[]byte(fmt.Sprintf("policy \"p%d\" {\n  units = \"si\"%s\n}\n", i, ext)), 0o644))
 	}
-	p, diags = NewLoader(ok).Load(filepath.Join(ok, "p0.policy.hcl"))
+	p, diags = rules.Language().NewLoader(ok).Load(filepath.Join(ok, "p0.policy.hcl"))
 	require.Empty(t, diags)
-	assert.Len(t, p.Chain, MaxExtendsDepth)
+	assert.Len(t, p.Chain, policies.MaxExtendsDepth)
 }
 
 func TestMissingFiles(t *testing.T) {
 	dir := writeTree(t, map[string]string{})
-	p, diags := NewLoader(dir).Load(filepath.Join(dir, "nope.policy.hcl"))
+	p, diags := rules.Language().NewLoader(dir).Load(filepath.Join(dir, "nope.policy.hcl"))
 	assert.Nil(t, p)
 	require.Len(t, diags, 1)
 	assert.Equal(t, "Policy file not found", diags[0].Summary)
 	assert.Contains(t, diags[0].Detail, "nope.policy.hcl")
 
-	_, diags = NewLoader(dir).Load(dir)
+	_, diags = rules.Language().NewLoader(dir).Load(dir)
 	require.Len(t, diags, 1)
 	assert.Contains(t, diags[0].Detail, "not a regular file")
 }
@@ -300,12 +302,12 @@ func TestMissingFiles(t *testing.T) {
 func TestOversizedFile(t *testing.T) {
 	dir := writeTree(t, map[string]string{})
 	path := filepath.Join(dir, "big.policy.hcl")
-	big := make([]byte, MaxFileSize+1)
+	big := make([]byte, policies.MaxFileSize+1)
 	for i := range big {
 		big[i] = '#'
 	}
 	require.NoError(t, os.WriteFile(path, big, 0o644))
-	_, diags := NewLoader(dir).Load(path)
+	_, diags := rules.Language().NewLoader(dir).Load(path)
 	require.Len(t, diags, 1)
 	assert.Contains(t, diags[0].Detail, "larger than the limit")
 }
@@ -323,7 +325,7 @@ func TestParentErrorsAreReported(t *testing.T) {
   jump_type { avoid = [[3, 2]] }
 }`,
 	})
-	p, diags := NewLoader(dir).Load(filepath.Join(dir, "child.policy.hcl"))
+	p, diags := rules.Language().NewLoader(dir).Load(filepath.Join(dir, "child.policy.hcl"))
 	assert.Nil(t, p)
 	require.Len(t, diags, 2)
 	files := []string{diags[0].Subject.Filename, diags[1].Subject.Filename}
@@ -341,7 +343,7 @@ func TestResolve(t *testing.T) {
   extends = "strict"
 }`,
 	})
-	l := NewLoader(dir)
+	l := rules.Language().NewLoader(dir)
 	p, diags := l.Resolve("strict")
 	require.Empty(t, diags)
 	assert.Equal(t, "pack:strict", p.File)
@@ -370,7 +372,7 @@ func TestReloadKeepsDiagnostics(t *testing.T) {
   units = "si"
   freeboard { minimum = }
 }`})
-	l := NewLoader(dir)
+	l := rules.Language().NewLoader(dir)
 	_, first := l.Load(filepath.Join(dir, "p.policy.hcl"))
 	_, second := l.Load(filepath.Join(dir, "p.policy.hcl"))
 	require.True(t, first.HasErrors())
@@ -378,11 +380,11 @@ func TestReloadKeepsDiagnostics(t *testing.T) {
 }
 
 func TestLoaderIsSafeForConcurrentUse(t *testing.T) {
-	l := NewLoader("")
+	l := rules.Language().NewLoader("")
 	done := make(chan hcl.Diagnostics)
 	for i := 0; i < 8; i++ {
 		go func() {
-			_, d := l.Resolve(PackNames()[i%len(PackNames())])
+			_, d := l.Resolve(policies.PackNames()[i%len(policies.PackNames())])
 			done <- d
 		}()
 	}
@@ -395,10 +397,10 @@ func TestLoaderIsSafeForConcurrentUse(t *testing.T) {
 func TestTestdataPolicies(t *testing.T) {
 	root, err := filepath.Abs("..")
 	require.NoError(t, err)
-	matches, err := filepath.Glob(filepath.Join(root, "testdata", "policies", "*"+Suffix))
+	matches, err := filepath.Glob(filepath.Join(root, "testdata", "policies", "*"+policies.Suffix))
 	require.NoError(t, err)
 	require.NotEmpty(t, matches)
-	l := NewLoader(root)
+	l := rules.Language().NewLoader(root)
 	for _, m := range matches {
 		p, diags := l.Load(m)
 		assert.Empty(t, diags, m)
@@ -413,7 +415,7 @@ func TestLoadSource(t *testing.T) {
   jump_containment {}
 }`,
 	})
-	l := NewLoader(dir)
+	l := rules.Language().NewLoader(dir)
 	name := filepath.Join(dir, "buffer.policy.hcl") // does not exist on disk
 	p, diags := l.LoadSource(name, []byte(`policy "buf" {
   units   = "si"
@@ -424,14 +426,14 @@ func TestLoadSource(t *testing.T) {
 	assert.Contains(t, p.Rules, "jump_containment")
 	assert.Contains(t, l.Files(), filepath.ToSlash(name))
 
-	_, diags = NewLoader(dir).LoadSource(filepath.Join(dir, "empty.policy.hcl"), nil)
+	_, diags = rules.Language().NewLoader(dir).LoadSource(filepath.Join(dir, "empty.policy.hcl"), nil)
 	require.Len(t, diags, 1)
 	assert.Equal(t, "Missing policy block", diags[0].Summary)
 }
 
 // A Loader sees a file's new text: an editor may load one buffer many times.
 func TestLoadSourceSeesNewText(t *testing.T) {
-	l := NewLoader("")
+	l := rules.Language().NewLoader("")
 	name := filepath.Join(t.TempDir(), "buf.policy.hcl")
 	_, diags := l.LoadSource(name, []byte(`policy "a" { units = "metric" }`))
 	require.True(t, diags.HasErrors())

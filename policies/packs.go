@@ -47,6 +47,6 @@ func PackSource(name string) ([]byte, bool) {
 
 // Pack returns the effective policy of a built-in pack, with File
 // "pack:NAME". Use a Loader's Resolve to keep the parsed pack for snippets.
-func Pack(name string) (*Policy, hcl.Diagnostics) {
-	return NewLoader("").loadPack(name)
+func (l *Language) Pack(name string) (*Policy, hcl.Diagnostics) {
+	return l.NewLoader("").loadPack(name)
 }

@@ -1,4 +1,4 @@
-package policies
+package policies_test
 
 import (
 	"bufio"
@@ -9,36 +9,38 @@ import (
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 	"gonum.org/v1/gonum/floats/scalar"
 )
 
 func TestPacksLoadWithoutDiagnostics(t *testing.T) {
-	names := PackNames()
+	names := policies.PackNames()
 	assert.Equal(t, []string{"baseline", "baseline-us", "strict"}, names)
 	for _, n := range names {
-		p, diags := Pack(n)
+		p, diags := rules.Language().Pack(n)
 		require.Empty(t, diags, n)
 		require.NotNil(t, p, n)
 		assert.Equal(t, n, p.Name, "a pack's policy block carries the pack's name")
 		assert.Equal(t, "pack:"+n, p.File)
 		assert.NotEmpty(t, p.Reference, n)
-		src, ok := PackSource(n)
+		src, ok := policies.PackSource(n)
 		require.True(t, ok)
 		assert.Contains(t, string(src), `policy "`+n+`"`)
 	}
-	_, ok := PackSource("nope")
+	_, ok := policies.PackSource("nope")
 	assert.False(t, ok)
-	_, diags := Pack("nope")
+	_, diags := rules.Language().Pack("nope")
 	assert.True(t, diags.HasErrors())
 }
 
 func TestBaselineTurnsOnEveryRule(t *testing.T) {
 	for _, n := range []string{"baseline", "baseline-us", "strict"} {
-		p, diags := Pack(n)
+		p, diags := rules.Language().Pack(n)
 		require.Empty(t, diags)
-		assert.ElementsMatch(t, Configurable(), keys(p.Rules), n)
+		assert.ElementsMatch(t, rules.Language().Configurable(), keys(p.Rules), n)
 		for id, rc := range p.Rules {
 			assert.Equal(t, id, rc.Rule)
 		}
@@ -55,8 +57,8 @@ var sourceRe = regexp.MustCompile(`\b(1[89][0-9]{2}|20[0-9]{2})\b|common practic
 // Every number in a pack file carries a comment naming its source, on the
 // same line or in the comment lines directly above.
 func TestEveryPackNumberNamesASource(t *testing.T) {
-	for _, n := range PackNames() {
-		src, _ := PackSource(n)
+	for _, n := range policies.PackNames() {
+		src, _ := policies.PackSource(n)
 		var above []string // comment lines directly above the current line
 		sc := bufio.NewScanner(bytes.NewReader(src))
 		line := 0
@@ -90,45 +92,45 @@ func TestEveryPackNumberNamesASource(t *testing.T) {
 // The US pack says the same as the SI baseline, within the rounding of the
 // SI pack to 0.01 m/s and 3 significant digits of stress.
 func TestBaselineAndBaselineUSAgree(t *testing.T) {
-	si, _ := Pack("baseline")
-	us, _ := Pack("baseline-us")
+	si, _ := rules.Language().Pack("baseline")
+	us, _ := rules.Language().Pack("baseline-us")
 	conv := us.In(model.SI)
 	for id, a := range si.Rules {
 		b := conv.Rules[id]
 		require.NotNil(t, b, id)
 		assert.Equal(t, a.Severity, b.Severity, id)
-		assert.Equal(t, a.Avoid, b.Avoid, id)
-		assert.Equal(t, a.Fraction, b.Fraction, id)
-		assert.Equal(t, a.SubcriticalCoefficient, b.SubcriticalCoefficient, id)
-		assert.Equal(t, a.SupercriticalCoefficient, b.SupercriticalCoefficient, id)
+		assert.Equal(t, a.Bands("avoid"), b.Bands("avoid"), id)
+		assert.Equal(t, a.Number("fraction"), b.Number("fraction"), id)
+		assert.Equal(t, a.Number("subcritical_coefficient"), b.Number("subcritical_coefficient"), id)
+		assert.Equal(t, a.Number("supercritical_coefficient"), b.Number("supercritical_coefficient"), id)
 		// 1 ft = 0.3048 m, so 0.3 m against 1 ft differs by 1.6 %.
-		assert.True(t, scalar.EqualWithinAbsOrRel(a.Minimum, b.Minimum, 1e-9, 0.02), "%s minimum %g vs %g", id, a.Minimum, b.Minimum)
-		assert.Equal(t, a.Limit.HasDefault, b.Limit.HasDefault, id)
+		assert.True(t, scalar.EqualWithinAbsOrRel(a.Number("minimum"), b.Number("minimum"), 1e-9, 0.02), "%s minimum %g vs %g", id, a.Number("minimum"), b.Number("minimum"))
+		assert.Equal(t, a.Table("limit").HasDefault, b.Table("limit").HasDefault, id)
 		// concrete 6.0 m/s against 20 ft/s (6.096 m/s) and riprap 3.0 m/s
 		// against 10 ft/s (3.048 m/s) are the largest roundings, 1.6 %.
-		assert.True(t, scalar.EqualWithinAbsOrRel(a.Limit.Default, b.Limit.Default, 1e-9, 0.02), id)
-		assert.Equal(t, a.Limit.NoLimit, b.Limit.NoLimit, id)
-		require.Equal(t, len(a.Limit.Values), len(b.Limit.Values), id)
-		for k, v := range a.Limit.Values {
-			assert.True(t, scalar.EqualWithinAbsOrRel(v, b.Limit.Values[k], 1e-9, 0.02), "%s %s: %g vs %g", id, k, v, b.Limit.Values[k])
+		assert.True(t, scalar.EqualWithinAbsOrRel(a.Table("limit").Default, b.Table("limit").Default, 1e-9, 0.02), id)
+		assert.Equal(t, a.Table("limit").NoLimit, b.Table("limit").NoLimit, id)
+		require.Equal(t, len(a.Table("limit").Values), len(b.Table("limit").Values), id)
+		for k, v := range a.Table("limit").Values {
+			assert.True(t, scalar.EqualWithinAbsOrRel(v, b.Table("limit").Values[k], 1e-9, 0.02), "%s %s: %g vs %g", id, k, v, b.Table("limit").Values[k])
 		}
 	}
 }
 
 func TestStrictIsTighterThanBaseline(t *testing.T) {
-	base, _ := Pack("baseline")
-	strict, _ := Pack("strict")
+	base, _ := rules.Language().Pack("baseline")
+	strict, _ := rules.Language().Pack("strict")
 	assert.Equal(t, []string{"pack:strict", "pack:baseline"}, strict.Chain)
-	assert.GreaterOrEqual(t, strict.Rules["freeboard"].Minimum, base.Rules["freeboard"].Minimum)
-	assert.Greater(t, strict.Rules["freeboard"].Fraction, base.Rules["freeboard"].Fraction)
+	assert.GreaterOrEqual(t, strict.Rules["freeboard"].Number("minimum"), base.Rules["freeboard"].Number("minimum"))
+	assert.Greater(t, strict.Rules["freeboard"].Number("fraction"), base.Rules["freeboard"].Number("fraction"))
 	for _, lining := range []string{"", "concrete", "earth", "sand", "grass"} {
-		sMin, sOK := strict.Rules["min_velocity"].Limit.For(lining)
-		bMin, bOK := base.Rules["min_velocity"].Limit.For(lining)
+		sMin, sOK := strict.Rules["min_velocity"].Table("limit").For(lining)
+		bMin, bOK := base.Rules["min_velocity"].Table("limit").For(lining)
 		assert.Equal(t, bOK, sOK, lining)
 		assert.GreaterOrEqual(t, sMin, bMin, lining)
 	}
-	sMin, _ := strict.Rules["min_velocity"].Limit.For("concrete")
-	bMin, _ := base.Rules["min_velocity"].Limit.For("concrete")
+	sMin, _ := strict.Rules["min_velocity"].Table("limit").For("concrete")
+	bMin, _ := base.Rules["min_velocity"].Table("limit").For("concrete")
 	assert.Greater(t, sMin, bMin)
 	for id, rc := range strict.Rules {
 		assert.GreaterOrEqual(t, rc.Severity.Rank(), base.Rules[id].Severity.Rank(), id)
@@ -140,16 +142,16 @@ func TestStrictIsTighterThanBaseline(t *testing.T) {
 func TestFormatRoundTrip(t *testing.T) {
 	root, err := filepath.Abs("..")
 	require.NoError(t, err)
-	var cases []*Policy
-	for _, n := range PackNames() {
-		p, _ := Pack(n)
+	var cases []*policies.Policy
+	for _, n := range policies.PackNames() {
+		p, _ := rules.Language().Pack(n)
 		cases = append(cases, p, p.In(model.US), p.In(model.SI))
 	}
-	p, diags := NewLoader(root).Load(filepath.Join(root, "testdata", "policies", "reviewer.policy.hcl"))
+	p, diags := rules.Language().NewLoader(root).Load(filepath.Join(root, "testdata", "policies", "reviewer.policy.hcl"))
 	require.Empty(t, diags)
 	cases = append(cases, p)
 	for _, want := range cases {
-		text := Format(want)
+		text := policies.Format(want)
 		assert.Contains(t, string(text), "# Merged from (child first): "+strings.Join(want.Chain, " → "))
 		assert.Contains(t, string(text), map[model.Units]string{model.SI: "velocities in m/s", model.US: "velocities in ft/s"}[want.Units])
 		got, diags, _ := loadSource(t, string(text))
@@ -166,16 +168,16 @@ func TestFormatRoundTrip(t *testing.T) {
 			const rel = 5e-6
 			assert.Equal(t, w.Severity, g.Severity, id)
 			assert.Equal(t, w.Events, g.Events, id)
-			assert.Equal(t, w.Avoid, g.Avoid, id)
-			assert.True(t, scalar.EqualWithinAbsOrRel(w.Minimum, g.Minimum, 0, rel), id)
-			assert.Equal(t, w.Fraction, g.Fraction, id)
-			assert.Equal(t, w.SubcriticalCoefficient, g.SubcriticalCoefficient, id)
-			assert.Equal(t, w.SupercriticalCoefficient, g.SupercriticalCoefficient, id)
-			assert.Equal(t, w.Limit.HasDefault, g.Limit.HasDefault, id)
-			assert.True(t, scalar.EqualWithinAbsOrRel(w.Limit.Default, g.Limit.Default, 0, rel), id)
-			assert.Equal(t, w.Limit.NoLimit, g.Limit.NoLimit, id)
-			for k, v := range w.Limit.Values {
-				assert.True(t, scalar.EqualWithinAbsOrRel(v, g.Limit.Values[k], 0, rel), "%s %s", id, k)
+			assert.Equal(t, w.Bands("avoid"), g.Bands("avoid"), id)
+			assert.True(t, scalar.EqualWithinAbsOrRel(w.Number("minimum"), g.Number("minimum"), 0, rel), id)
+			assert.Equal(t, w.Number("fraction"), g.Number("fraction"), id)
+			assert.Equal(t, w.Number("subcritical_coefficient"), g.Number("subcritical_coefficient"), id)
+			assert.Equal(t, w.Number("supercritical_coefficient"), g.Number("supercritical_coefficient"), id)
+			assert.Equal(t, w.Table("limit").HasDefault, g.Table("limit").HasDefault, id)
+			assert.True(t, scalar.EqualWithinAbsOrRel(w.Table("limit").Default, g.Table("limit").Default, 0, rel), id)
+			assert.Equal(t, w.Table("limit").NoLimit, g.Table("limit").NoLimit, id)
+			for k, v := range w.Table("limit").Values {
+				assert.True(t, scalar.EqualWithinAbsOrRel(v, g.Table("limit").Values[k], 0, rel), "%s %s", id, k)
 			}
 		}
 	}
@@ -195,10 +197,10 @@ func TestFormatNumber(t *testing.T) {
 		{twenty * 0.3048, "6.096"}, // computed at run time: 6.096000000000001
 		{1234.5678, "1234.5678"},
 		{-0.25, "-0.25"},
-		{PascalsPerPSF, "47.8803"},
+		{policies.PascalsPerPSF, "47.8803"},
 		{1e-9, "1e-09"},
 	} {
-		assert.Equal(t, c.want, formatNumber(c.in), "%v", c.in)
+		assert.Equal(t, c.want, policies.FormatNumber(c.in), "%v", c.in)
 	}
 }
 
@@ -212,7 +214,7 @@ func TestFormatQuotesOddLiningWords(t *testing.T) {
   }
 }`)
 	require.Empty(t, diags)
-	text := string(Format(p))
+	text := string(policies.Format(p))
 	assert.Contains(t, text, `"dumped riprap" = 3`)
 	assert.Contains(t, text, `concrete`)
 	assert.Contains(t, text, `events   = ["q2", "q10"]`)

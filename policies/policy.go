@@ -57,28 +57,50 @@ type Band struct{ Low, High float64 }
 // Contains reports whether Low ≤ x ≤ High.
 func (b Band) Contains(x float64) bool { return x >= b.Low && x <= b.High }
 
-// RuleConfig is one rule block of the effective policy. Which settings are
-// meaningful depends on the rule; lengths, velocities and stresses are in
+// RuleConfig is one rule block of the effective policy. Its settings are
+// those its Spec declares, by name; lengths, velocities and stresses are in
 // the units of Policy.Units.
 type RuleConfig struct {
 	Rule     string
-	Severity Severity // as written, else the rule's default
-	Events   []string // nil: every event
-	File     string   // policy file (or "pack:NAME") the block came from
+	Spec     *RuleSpec // the rule's spec; nil only in hand-made configs
+	Severity Severity  // as written, else the rule's default
+	Events   []string  // nil: every event
+	File     string    // policy file (or "pack:NAME") the block came from
 	DefRange hcl.Range
 	// Attrs holds the value range of every attribute written in the block,
 	// by attribute name, so a report can point at the limit it applied.
 	Attrs map[string]hcl.Range
-
-	Minimum  float64  // freeboard.minimum, superelevation.minimum (length)
-	Fraction float64  // freeboard.fraction (of flow depth)
-	Limit    ByLining // max_velocity, min_velocity (velocity); shear_stress (stress)
-	Avoid    []Band   // froude_band, jump_type (Froude numbers)
-	// superelevation: coefficient C in Δy = C·V²·T/(g·rc), for subcritical
-	// and for supercritical flow.
-	SubcriticalCoefficient   float64
-	SupercriticalCoefficient float64
+	// Values holds the settings by name: every Number setting (written or
+	// defaulted) and the PerLining and FroudeBands settings written.
+	Values map[string]Value
 }
+
+// Value is the value of one setting; the field its Kind names is set.
+type Value struct {
+	Number float64  // Number
+	Table  ByLining // PerLining
+	Bands  []Band   // FroudeBands, sorted by Low
+}
+
+// Number is the value of a Number setting: as written, else the spec's
+// default (0 without a spec).
+func (c *RuleConfig) Number(name string) float64 {
+	if v, ok := c.Values[name]; ok {
+		return v.Number
+	}
+	if c.Spec != nil {
+		if s := c.Spec.Setting(name); s != nil {
+			return s.Default
+		}
+	}
+	return 0
+}
+
+// Table is the value of a PerLining setting (empty when not written).
+func (c *RuleConfig) Table(name string) ByLining { return c.Values[name].Table }
+
+// Bands is the value of a FroudeBands setting (nil when not written).
+func (c *RuleConfig) Bands(name string) []Band { return c.Values[name].Bands }
 
 // AppliesTo reports whether the block applies to an event.
 func (c *RuleConfig) AppliesTo(event string) bool {

@@ -26,24 +26,38 @@ func (p *Policy) In(u model.Units) *Policy {
 	if p.Units == u || (u != model.SI && u != model.US) {
 		return c
 	}
-	length := MetresPerFoot // US → SI
-	stress := PascalsPerPSF
-	if u == model.US {
-		length, stress = 1/MetresPerFoot, 1/PascalsPerPSF
-	}
 	c.Units = u
 	for _, rc := range c.Rules {
-		rc.Minimum *= length
-		f := length // velocities scale as lengths (per second)
-		if rc.Rule == "shear_stress" {
-			f = stress
-		}
-		rc.Limit.Default *= f
-		for k := range rc.Limit.Values {
-			rc.Limit.Values[k] *= f
-		}
+		rc.convert(u)
 	}
 	return c
+}
+
+// convert rescales the values of rc, a deep copy, to u from the other unit
+// system, by the quantity of each setting of its spec.
+func (rc *RuleConfig) convert(u model.Units) {
+	if len(rc.Values) > 0 && rc.Spec == nil {
+		panic("policies: a rule config with values but no spec cannot be converted: " + rc.Rule)
+	}
+	for name, v := range rc.Values {
+		s := rc.Spec.Setting(name)
+		if s == nil {
+			continue
+		}
+		f := s.Quantity.factor() // SI → US
+		if u == model.SI {
+			f = 1 / f
+		}
+		if f == 1 {
+			continue
+		}
+		v.Number *= f
+		v.Table.Default *= f
+		for k := range v.Table.Values {
+			v.Table.Values[k] *= f
+		}
+		rc.Values[name] = v
+	}
 }
 
 // clone is a deep copy of p.
@@ -61,9 +75,13 @@ func (rc *RuleConfig) clone() *RuleConfig {
 	c := *rc
 	c.Events = slices.Clone(rc.Events)
 	c.Attrs = maps.Clone(rc.Attrs)
-	c.Avoid = slices.Clone(rc.Avoid)
-	c.Limit.Values = maps.Clone(rc.Limit.Values)
-	c.Limit.NoLimit = maps.Clone(rc.Limit.NoLimit)
+	c.Values = make(map[string]Value, len(rc.Values))
+	for name, v := range rc.Values {
+		v.Bands = slices.Clone(v.Bands)
+		v.Table.Values = maps.Clone(v.Table.Values)
+		v.Table.NoLimit = maps.Clone(v.Table.NoLimit)
+		c.Values[name] = v
+	}
 	return &c
 }
 

@@ -1,4 +1,4 @@
-package policies
+package policies_test
 
 // A policy file may come from the repository under review (its
 // .chanlint.hcl), so the policy language is treated as untrusted input like
@@ -11,6 +11,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
@@ -63,12 +65,12 @@ func TestPolicyUntrustedExpressionsAreNotEvaluated(t *testing.T) {
 
 func TestPolicyFileSizeLimit(t *testing.T) {
 	src := fmt.Sprintf(untrustedPolicy, `"ok"`)
-	big := src + strings.Repeat("# "+strings.Repeat("x", 77)+"\n", MaxFileSize/80+1)
+	big := src + strings.Repeat("# "+strings.Repeat("x", 77)+"\n", policies.MaxFileSize/80+1)
 	dir := writeTree(t, map[string]string{"big.policy.hcl": big, "fine.policy.hcl": src})
-	_, diags := NewLoader(dir).Load(filepath.Join(dir, "fine.policy.hcl"))
+	_, diags := rules.Language().NewLoader(dir).Load(filepath.Join(dir, "fine.policy.hcl"))
 	require.False(t, diags.HasErrors(), "%s", diags.Error())
 
-	p, diags := NewLoader(dir).Load(filepath.Join(dir, "big.policy.hcl"))
+	p, diags := rules.Language().NewLoader(dir).Load(filepath.Join(dir, "big.policy.hcl"))
 	require.Nil(t, p)
 	require.Len(t, diags, 1)
 	assert.Equal(t, "Cannot read policy file", diags[0].Summary)
@@ -77,7 +79,7 @@ func TestPolicyFileSizeLimit(t *testing.T) {
 	// The same file reached through extends is refused at the extends value.
 	child := "policy \"c\" {\n  units   = \"si\"\n  extends = \"big.policy.hcl\"\n}\n"
 	require.NoError(t, os.WriteFile(filepath.Join(dir, "child.policy.hcl"), []byte(child), 0o644))
-	p, diags = NewLoader(dir).Load(filepath.Join(dir, "child.policy.hcl"))
+	p, diags = rules.Language().NewLoader(dir).Load(filepath.Join(dir, "child.policy.hcl"))
 	require.Nil(t, p)
 	require.Len(t, diags, 1)
 	require.NotNil(t, diags[0].Subject)
@@ -88,7 +90,7 @@ func TestPolicyNotARegularFile(t *testing.T) {
 	if _, err := os.Stat("/dev/zero"); err != nil {
 		t.Skip("no /dev/zero on this system")
 	}
-	p, diags := NewLoader("").Load("/dev/zero")
+	p, diags := rules.Language().NewLoader("").Load("/dev/zero")
 	require.Nil(t, p)
 	require.True(t, diags.HasErrors())
 	assert.Equal(t, "Cannot read policy file", diags[0].Summary)

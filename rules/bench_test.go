@@ -14,7 +14,7 @@ func demo(b *testing.B) (*model.Model, *policies.Policy) {
 	if diags.HasErrors() {
 		b.Fatal(diags)
 	}
-	p, pd := policies.Pack("baseline")
+	p, pd := Language().Pack("baseline")
 	if pd.HasErrors() {
 		b.Fatal(pd)
 	}

@@ -12,36 +12,36 @@ const (
 )
 
 var capacityRule = &Rule{
-	ID:       "capacity",
-	Title:    "The channel overtops, or a closed conduit flows full",
-	Severity: policies.Error,
-	AlwaysOn: true,
-	Doc: `What it checks: (always on) at every computed point, whether the
+	RuleSpec: policies.RuleSpec{
+		ID:       "capacity",
+		Severity: policies.Error,
+		AlwaysOn: true,
+	},
+	Title: "The channel overtops, or a closed conduit flows full",
+	Doc: Doc{
+		Checks: `(always on) at every computed point, whether the
 section carries the flow at all. An open section whose water surface rises
 above its top of bank (or lining) overtops: the water leaves the channel
 and the one-dimensional results no longer describe the flow. A closed
 conduit that flows full runs under pressure, which the free-surface method
 does not compute. Contiguous failing points of one reach and section merge
-into one span; the finding gives the largest depth and the section height.
-
-Formula:
-    open:   fails where WSE > invert + height  (value depth, limit height)
+into one span; the finding gives the largest depth and the section height.`,
+		Formula: `    open:   fails where WSE > invert + height  (value depth, limit height)
     closed: fails where the solver marks the point full, or depth ≥ the
             diameter or box height; not for the barrel of a culvert
             block, whose pressure flow the HDS-5 outlet-control
-            computation covers (see the headwater rule)
-
-Settings: none; the rule cannot be turned off. A design exception can
-cover a span that is meant to overflow (a spillway crest, say), with its
-reason.
-
-Basis: common practice (no published source): a channel is designed to
+            computation covers (see the headwater rule)`,
+		SettingsNote: "A design exception can cover a span that is meant to overflow (a spillway crest, say), with its reason.",
+		Basis: `common practice (no published source): a channel is designed to
 contain its design flow; culverts flowing full are analysed for pressure
-flow with entrance and exit losses instead.
-
-Remedies: enlarge the section (deeper or wider), raise the banks, lower
+flow with entrance and exit losses instead.`,
+		Sources: []string{
+			"common practice (no published source)",
+		},
+		Remedies: `enlarge the section (deeper or wider), raise the banks, lower
 the downstream control, or, for a conduit, a larger diameter or an
 additional barrel, or an inlet- or outlet-control culvert analysis.`,
+	},
 	Check: checkCapacity,
 }
 

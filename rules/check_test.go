@@ -16,7 +16,7 @@ func freeboardCase() (*model.Model, *model.Reach, *solver.Result, *policies.Poli
 	m, r := handModel()
 	pts := depthsPoints(r, []float64{0, 100, 200, 300, 400}, []float64{0.5, 0.8, 0.85, 0.6, 0.9}, []float64{1, 1, 1, 1, 1})
 	p := &policies.Policy{Name: "t", Units: model.SI, Reference: "Manual ch. 5", Rules: map[string]*policies.RuleConfig{
-		"freeboard": {Rule: "freeboard", Minimum: 0.3, Severity: policies.Warning},
+		"freeboard": {Rule: "freeboard", Spec: &Lookup("freeboard").RuleSpec, Values: map[string]policies.Value{"minimum": {Number: 0.3}}, Severity: policies.Warning},
 	}}
 	return m, r, result(m, r, pts, nil, nil), p
 }
@@ -130,10 +130,10 @@ func TestSortAndDedupe(t *testing.T) {
 func TestPolicyUnitsConverted(t *testing.T) {
 	m, _, res, si := freeboardCase()
 	si.Rules["max_velocity"] = &policies.RuleConfig{Rule: "max_velocity",
-		Limit: policies.ByLining{Values: map[string]float64{"grass": 0.9}, Default: 2, HasDefault: true}}
+		Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Values: map[string]float64{"grass": 0.9}, Default: 2, HasDefault: true}}}}
 	us := &policies.Policy{Name: "t", Units: model.US, Reference: si.Reference, Rules: map[string]*policies.RuleConfig{
-		"freeboard":    {Rule: "freeboard", Minimum: 0.3 / 0.3048, Severity: policies.Warning},
-		"max_velocity": {Rule: "max_velocity", Limit: policies.ByLining{Values: map[string]float64{"grass": 0.9 / 0.3048}, Default: 2 / 0.3048, HasDefault: true}},
+		"freeboard":    {Rule: "freeboard", Spec: &Lookup("freeboard").RuleSpec, Values: map[string]policies.Value{"minimum": {Number: 0.3 / 0.3048}}, Severity: policies.Warning},
+		"max_velocity": {Rule: "max_velocity", Spec: &Lookup("max_velocity").RuleSpec, Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Values: map[string]float64{"grass": 0.9 / 0.3048}, Default: 2 / 0.3048, HasDefault: true}}}},
 	}}
 	a, b := Check(m, res, si), Check(m, res, us)
 	require.Len(t, a, 3)

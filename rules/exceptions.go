@@ -56,11 +56,14 @@ func applyExceptions(m *model.Model, fs []Finding) {
 }
 
 var unusedExceptionRule = &Rule{
-	ID:       unusedExceptionID,
-	Title:    "A design exception covers no finding, or the policy does not accept exceptions",
-	Severity: policies.Warning,
-	AlwaysOn: true,
-	Doc: `What it checks: every exception block of the model must cover at least
+	RuleSpec: policies.RuleSpec{
+		ID:       unusedExceptionID,
+		Severity: policies.Warning,
+		AlwaysOn: true,
+	},
+	Title: "A design exception covers no finding, or the policy does not accept exceptions",
+	Doc: Doc{
+		Checks: `every exception block of the model must cover at least
 one finding in some event: a finding of the rule it names, on the reach it
 names, whose station span lies within the exception's span (within a
 millimetre, or a thousandth of a foot). An exception that covers nothing is
@@ -74,17 +77,18 @@ When the policy says exceptions = "deny", no exception is applied: every
 finding is reported in full and fails the run as its severity says, and each
 exception of the model is listed here as an info finding saying it was not
 applied and how many findings it would have covered. A reviewer then sees
-the claims without their taking effect.
-
-Formula: none; it compares station spans.
-
-Basis: common practice for suppressions in code-review tools: a
+the claims without their taking effect.`,
+		Formula: `none; it compares station spans.`,
+		Basis: `common practice for suppressions in code-review tools: a
 suppression must state a reason and one that matches nothing is reported
-(no published source).
-
-Remedies: delete the exception if the problem it excused is gone; otherwise
+(no published source).`,
+		Sources: []string{
+			"common practice for suppressions in code-review tools (no published source)",
+		},
+		Remedies: `delete the exception if the problem it excused is gone; otherwise
 correct its rule id, reach or stations so that it covers the failing span
 the reviewer accepted.`,
+	},
 	Check: checkExceptions,
 }
 

@@ -77,15 +77,14 @@ type Context struct {
 	spans   []span  // scratch space of scan: the spans of one reach, reused
 }
 
-// Rule is one check of the registry.
+// Rule is one check of the registry. Its embedded spec (id, default
+// severity, always-on flag, settings and the settings that go together) is
+// what the policy language decodes its block from; its Doc is what
+// `chanlint explain`, the README, SARIF and the report print.
 type Rule struct {
-	ID       string
-	Title    string            // one line
-	Severity policies.Severity // default
-	// Doc: what it checks, the formula, the published basis, the usual
-	// remedies. `chanlint explain ID` prints Title and Doc.
-	Doc      string
-	AlwaysOn bool // model, solver, capacity
+	policies.RuleSpec
+	Title string // one line
+	Doc   Doc
 	// Check reports findings through report; it never prints.
 	Check func(ctx *Context, report func(Finding))
 }

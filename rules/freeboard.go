@@ -7,43 +7,53 @@ import (
 )
 
 var freeboardRule = &Rule{
-	ID:       "freeboard",
-	Title:    "Freeboard between the water surface and the top of bank or lining",
-	Severity: policies.Error,
-	Doc: `What it checks: at every computed point of an open section, the
+	RuleSpec: policies.RuleSpec{
+		ID:       "freeboard",
+		Severity: policies.Error,
+		Settings: []policies.Setting{
+			{Name: "minimum", Kind: policies.Number, Quantity: policies.Length, Bounds: policies.AtLeast(0),
+				Doc: "the least freeboard"},
+			{Name: "fraction", Kind: policies.Number, Quantity: policies.Ratio, Bounds: policies.Within(0, 1),
+				Doc: "the freeboard as a share of the flow depth", Must: "a ratio of the flow depth from 0 to 1 (0.2 means 20 %)"},
+		},
+		Together: []policies.Group{{Settings: []string{"minimum", "fraction"}, Need: policies.AtLeastOne,
+			Note: "the larger of minimum and fraction × depth governs"}},
+	},
+	Title: "Freeboard between the water surface and the top of bank or lining",
+	Doc: Doc{
+		Checks: `at every computed point of an open section, the
 freeboard available between the water surface and the top of bank (or of
 the lining) against the freeboard the policy requires. Contiguous failing
 points of one reach and section merge into one span; the finding gives the
-smallest freeboard of the span and the requirement there.
-
-Formula:
-    available = invert + height − WSE        (height: section, invert to top)
+smallest freeboard of the span and the requirement there.`,
+		Formula: `    available = invert + height − WSE        (height: section, invert to top)
     required  = max(minimum, fraction · depth)
     fails where available < required
 The bank rise the message asks for is the largest required − available
 over the span.
 
 Closed conduits have no freeboard: whether a culvert or pipe flows full is
-the capacity rule's concern, so closed sections are not checked here.
-
-Settings: minimum (length), fraction (of flow depth); the larger governs.
-
-Basis: a fixed minimum plus a share of the depth is common local practice
+the capacity rule's concern, so closed sections are not checked here.`,
+		Basis: `a fixed minimum plus a share of the depth is common local practice
 (no published source for the combination). The USBR guide for lined and
 unlined canals, F = √(C·y) with C from 1.5 to 2.5 in feet, grows with the
 square root of depth (Chow, Open-Channel Hydraulics, 1959, §7-6, from
 memory); a policy can approximate it over its range of depths with a
-minimum and a fraction.
-
-Remedies: raise the top of bank or the lining over the span, widen or
+minimum and a fraction.`,
+		Sources: []string{
+			"common practice (no published source): a minimum plus a share of the depth",
+			"Chow, Open-Channel Hydraulics (1959), §7-6: the USBR freeboard F = √(C·y) (from memory)",
+		},
+		Remedies: `raise the top of bank or the lining over the span, widen or
 deepen the section so the flow runs lower, flatten a steep backwater by
 lowering the downstream control, or reduce the design flow with upstream
 storage.`,
+	},
 	Check: checkFreeboard,
 }
 
 func checkFreeboard(ctx *Context, report func(Finding)) {
-	cfg := ctx.Config
+	st := freeboardSettings{minimum: ctx.Config.Number("minimum"), fraction: ctx.Config.Number("fraction")}
 	u := ctx.units()
 	ctx.scanPoints(lower, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		sec := sectionAt(rr, p)
@@ -51,14 +61,14 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 			return false
 		}
 		avail := p.Invert + sec.Height - p.WSE
-		req := max(cfg.Minimum, cfg.Fraction*p.Depth)
+		req := max(st.minimum, st.fraction*p.Depth)
 		if avail >= req-1e-12*max(1, req) {
 			return false
 		}
 		*v = verdict{value: avail, limit: req, short: req - avail}
 		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
-		msg, remedy := freeboardMessage(cfg, rr, s, u)
+		msg, remedy := freeboardMessage(st, rr, s, u)
 		f := spanFinding(ev, rr, s, msg, remedy)
 		if sec := sectionAt(rr, &rr.Points[s.worst]); sec != nil {
 			f.Focus = sec.At("height") // the attribute a designer raises
@@ -67,13 +77,16 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 	})
 }
 
-func freeboardMessage(cfg *policies.RuleConfig, rr *solver.ReachResult, s span, u model.Units) (msg, remedy string) {
+// freeboardSettings are the freeboard block's settings, read once per check.
+type freeboardSettings struct{ minimum, fraction float64 }
+
+func freeboardMessage(cfg freeboardSettings, rr *solver.ReachResult, s span, u model.Units) (msg, remedy string) {
 	lu := u.Length()
 	p := &rr.Points[s.worst]
 	val, lim := numPair(s.value, s.limit)
 	basis := ""
-	if cfg.Fraction*p.Depth > cfg.Minimum {
-		basis = " (" + num(cfg.Fraction) + " × depth " + num(p.Depth) + " " + lu + ")"
+	if cfg.fraction*p.Depth > cfg.minimum {
+		basis = " (" + num(cfg.fraction) + " × depth " + num(p.Depth) + " " + lu + ")"
 	}
 	msg = "freeboard " + val + " " + lu + " is below the required " + lim + " " + lu + basis
 	if s.value < 0 {

@@ -8,30 +8,36 @@ import (
 )
 
 var froudeBandRule = &Rule{
-	ID:       "froude_band",
-	Title:    "Froude number inside a band the policy avoids (unstable near-critical flow)",
-	Severity: policies.Warning,
-	Doc: `What it checks: at every computed point, the Froude number against the
+	RuleSpec: policies.RuleSpec{
+		ID:       "froude_band",
+		Severity: policies.Warning,
+		Settings: []policies.Setting{
+			{Name: "avoid", Kind: policies.FroudeBands, Quantity: policies.Froude, Bounds: policies.AtLeast(0),
+				Required: true, Doc: "the bands of Froude number to flag"},
+		},
+	},
+	Title: "Froude number inside a band the policy avoids (unstable near-critical flow)",
+	Doc: Doc{
+		Checks: `at every computed point, the Froude number against the
 bands the policy avoids. Near critical flow a small change of energy gives
 a large change of depth: the surface is wavy and unstable, and the depth
 the design relies on is uncertain. Contiguous failing points of one reach
 and section merge into one span; the finding gives the Froude number
-deepest inside the band and the band edge nearest to it.
-
-Formula:
-    F = V / √(g · A / T)   (the solver's F at the point)
-    fails where low ≤ F ≤ high for some avoided band [low, high]
-
-Settings: avoid = [[low, high], ...] (Froude numbers).
-
-Basis: Froude numbers between 0.89 and 1.13 form an unstable transition
+deepest inside the band and the band edge nearest to it.`,
+		Formula: `    F = V / √(g · A / T)   (the solver's F at the point)
+    fails where low ≤ F ≤ high for some avoided band [low, high]`,
+		Basis: `Froude numbers between 0.89 and 1.13 form an unstable transition
 zone (Brown and Clyde, Design of Riprap Revetment, FHWA HEC-11, 1989,
 p. 38); some flood-control channel guidance quotes 0.86–1.13 (from
-memory).
-
-Remedies: change the slope or the section so that the design flow is
+memory).`,
+		Sources: []string{
+			"Brown and Clyde, Design of Riprap Revetment, FHWA HEC-11 (1989), p. 38",
+			"flood-control channel guidance quoting 0.86–1.13 (from memory)",
+		},
+		Remedies: `change the slope or the section so that the design flow is
 clearly subcritical or clearly supercritical; where the transition cannot
 be avoided, add freeboard for the surface waves over the span.`,
+	},
 	Check: checkFroudeBand,
 }
 
@@ -54,12 +60,12 @@ func nearestEdge(b policies.Band, x float64) (edge, depth float64) {
 }
 
 func checkFroudeBand(ctx *Context, report func(Finding)) {
-	cfg := ctx.Config
+	avoid := ctx.Config.Bands("avoid")
 	ctx.scanPoints(nil, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		if p.Depth <= 0 {
 			return false
 		}
-		b, in := bandOf(cfg.Avoid, p.Froude)
+		b, in := bandOf(avoid, p.Froude)
 		if !in {
 			return false
 		}
@@ -67,7 +73,7 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 		*v = verdict{value: p.Froude, limit: edge, short: depth}
 		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
-		b, _ := bandOf(cfg.Avoid, s.value)
+		b, _ := bandOf(avoid, s.value)
 		lo, hi := numPair(b.Low, b.High)
 		side := "below " + lo + " or above " + hi
 		if b.Low <= 0 {

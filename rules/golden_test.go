@@ -77,7 +77,7 @@ func golden(t testing.TB, modelFile, policyFile string) (*model.Model, *solver.R
 	require.False(t, diags.HasErrors(), "%s: %v", modelFile, diags)
 	res, err := solver.Solve(m, solver.Options{})
 	require.NoError(t, err)
-	p, pd := policies.NewLoader("..").Load(filepath.Join(goldenDir, policyFile))
+	p, pd := Language().NewLoader("..").Load(filepath.Join(goldenDir, policyFile))
 	require.False(t, pd.HasErrors(), "%s: %v", policyFile, pd)
 	return m, res, Check(m, res, p)
 }
@@ -428,7 +428,7 @@ func TestGoldenNoNaNOnDemo(t *testing.T) {
 	require.False(t, diags.HasErrors(), fmt.Sprint(diags))
 	res, err := solver.Solve(m, solver.Options{})
 	require.NoError(t, err)
-	p, pd := policies.Pack("baseline")
+	p, pd := Language().Pack("baseline")
 	require.False(t, pd.HasErrors())
 	fs := Check(m, res, p)
 	assertFinite(t, fs)

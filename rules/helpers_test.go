@@ -60,6 +60,9 @@ func runRule(t *testing.T, id string, m *model.Model, res *solver.Result, cfg *p
 	p := &policies.Policy{Units: m.Units, Rules: map[string]*policies.RuleConfig{}}
 	if cfg != nil {
 		cfg.Rule = id
+		if cfg.Spec == nil {
+			cfg.Spec = &r.RuleSpec
+		}
 		p.Rules[id] = cfg
 	}
 	var out []Finding

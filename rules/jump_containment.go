@@ -10,32 +10,34 @@ import (
 )
 
 var jumpContainmentRule = &Rule{
-	ID:       "jump_containment",
-	Title:    "Hydraulic jump outside a stilling basin",
-	Severity: policies.Error,
-	Doc: `What it checks: every hydraulic jump, from its toe to the end of its
+	RuleSpec: policies.RuleSpec{
+		ID:       "jump_containment",
+		Severity: policies.Error,
+	},
+	Title: "Hydraulic jump outside a stilling basin",
+	Doc: Doc{
+		Checks: `every hydraulic jump, from its toe to the end of its
 length, must lie within one basin block of its reach. A jump dissipates
 energy in intense turbulence that scours an unprotected bed and banks; the
 basin is the hardened zone built for it. A jump that escapes its basin is
 reported at that basin (the one it overlaps most), a jump in no basin at
-the reach, with the distance it escapes by upstream and downstream.
-
-Formula:
-    jump occupies [toe, toe + L],  L from the solver (Peterka's curve,
+the reach, with the distance it escapes by upstream and downstream.`,
+		Formula: `    jump occupies [toe, toe + L],  L from the solver (Peterka's curve,
     about 6·y2 for 4.5 < F1 < 13)
     contained when basin.from ≤ toe and toe + L ≤ basin.to for one basin
     (within a millimetre or a thousandth of a foot)
-The finding's value is the length of channel outside the basin.
-
-Settings: none besides severity and events.
-
-Basis: Peterka, Hydraulic Design of Stilling Basins and Energy
+The finding's value is the length of channel outside the basin.`,
+		Basis: `Peterka, Hydraulic Design of Stilling Basins and Energy
 Dissipators, USBR Engineering Monograph 25 (1958): basin lengths follow
-the length of the jump; Chow, Open-Channel Hydraulics (1959), ch. 15.
-
-Remedies: lengthen the basin or move it to where the jump forms; fix the
+the length of the jump; Chow, Open-Channel Hydraulics (1959), ch. 15.`,
+		Sources: []string{
+			"Peterka, Hydraulic Design of Stilling Basins and Energy Dissipators, USBR Engineering Monograph 25 (1958)",
+			"Chow, Open-Channel Hydraulics (1959), ch. 15",
+		},
+		Remedies: `lengthen the basin or move it to where the jump forms; fix the
 jump's position with a tailwater control (end sill, baffles, a drop) or by
 changing the gate opening or the approach slope.`,
+	},
 	Check: checkJumpContainment,
 }
 

@@ -6,43 +6,49 @@ import (
 )
 
 var jumpTypeRule = &Rule{
-	ID:       "jump_type",
-	Title:    "Hydraulic jump of a type the policy avoids (by upstream Froude number)",
-	Severity: policies.Warning,
-	Doc: `What it checks: the upstream Froude number F1 of every hydraulic jump
+	RuleSpec: policies.RuleSpec{
+		ID:       "jump_type",
+		Severity: policies.Warning,
+		Settings: []policies.Setting{
+			{Name: "avoid", Kind: policies.FroudeBands, Quantity: policies.Froude, Bounds: policies.AtLeast(0),
+				Required: true, Doc: "the bands of upstream Froude number F1 to flag"},
+		},
+	},
+	Title: "Hydraulic jump of a type the policy avoids (by upstream Froude number)",
+	Doc: Doc{
+		Checks: `the upstream Froude number F1 of every hydraulic jump
 against the bands the policy avoids. Oscillating jumps (F1 about 2.5–4.5)
 send an irregular wave train downstream that erodes banks and is hard to
 damp; weak and undular jumps dissipate little energy. The finding is at the
-basin the toe lies in, else at the reach, over the jump's span.
-
-Formula:
-    F1 = V1 / √(g · y1)  (rectangle; the solver's F1 for any shape)
+basin the toe lies in, else at the reach, over the jump's span.`,
+		Formula: `    F1 = V1 / √(g · y1)  (rectangle; the solver's F1 for any shape)
     fails where low ≤ F1 ≤ high for some avoided band; the limit reported
     is the band edge nearest to F1
 Jump types by F1: undular 1–1.7, weak 1.7–2.5, oscillating 2.5–4.5,
-steady 4.5–9, strong > 9.
-
-Settings: avoid = [[low, high], ...] (upstream Froude numbers).
-
-Basis: Peterka, Hydraulic Design of Stilling Basins and Energy
+steady 4.5–9, strong > 9.`,
+		Basis: `Peterka, Hydraulic Design of Stilling Basins and Energy
 Dissipators, USBR Engineering Monograph 25 (1958); Chow, Open-Channel
-Hydraulics (1959), ch. 15.
-
-Remedies: move F1 out of the band by changing the gate opening or the
+Hydraulics (1959), ch. 15.`,
+		Sources: []string{
+			"Peterka, Hydraulic Design of Stilling Basins and Energy Dissipators, USBR Engineering Monograph 25 (1958)",
+			"Chow, Open-Channel Hydraulics (1959), ch. 15",
+		},
+		Remedies: `move F1 out of the band by changing the gate opening or the
 approach slope (a deeper, slower approach lowers F1; a shallower, faster
 one raises it), or use a basin designed for that range with wave
 suppressors.`,
+	},
 	Check: checkJumpType,
 }
 
 func checkJumpType(ctx *Context, report func(Finding)) {
-	cfg := ctx.Config
+	avoid := ctx.Config.Bands("avoid")
 	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		for _, j := range rr.Jumps {
 			if !usableJump(j) || !finite(j.Froude) {
 				continue
 			}
-			b, in := bandOf(cfg.Avoid, j.Froude)
+			b, in := bandOf(avoid, j.Froude)
 			if !in {
 				continue
 			}

@@ -9,32 +9,37 @@ import (
 )
 
 var maxVelocityRule = &Rule{
-	ID:       "max_velocity",
-	Title:    "Mean velocity above the permissible velocity of the lining",
-	Severity: policies.Error,
-	Doc: `What it checks: at every computed point, the mean velocity V = Q/A
+	RuleSpec: policies.RuleSpec{
+		ID:       "max_velocity",
+		Severity: policies.Error,
+		Settings: []policies.Setting{
+			{Name: "limit", Kind: policies.PerLining, Quantity: policies.Velocity, Bounds: policies.Above(0),
+				Required: true, Doc: "the permissible mean velocity by lining word"},
+		},
+	},
+	Title: "Mean velocity above the permissible velocity of the lining",
+	Doc: Doc{
+		Checks: `at every computed point, the mean velocity V = Q/A
 against the permissible (non-eroding) velocity the policy sets for the
 lining word of the section there. Contiguous failing points of one reach
 and section merge into one span; the finding gives the highest velocity of
-the span and its limit.
-
-Formula:
-    V = Q / A;  fails where V > limit(lining)
+the span and its limit.`,
+		Formula: `    V = Q / A;  fails where V > limit(lining)
 limit(lining) is the policy's value for that lining word, else its
-"default"; a point whose lining has no value and no default is not checked.
-
-Settings: limit = number, or { lining = value, ..., default = value }
-(velocity).
-
-Basis: permissible velocities for earth channels after Fortier and Scobey,
+"default"; a point whose lining has no value and no default is not checked.`,
+		Basis: `permissible velocities for earth channels after Fortier and Scobey,
 "Permissible canal velocities", Trans. ASCE 89 (1926), reproduced in Chow,
 Open-Channel Hydraulics (1959), Table 7-3 (e.g. fine sand 2.5 ft/s, stiff
 clay 5.0 ft/s with colloidal silts); concrete-lined flood channels are
-commonly designed to 20–30 ft/s.
-
-Remedies: a lining rated for the velocity (riprap, concrete), a flatter
+commonly designed to 20–30 ft/s.`,
+		Sources: []string{
+			"Fortier and Scobey, \"Permissible canal velocities\", Trans. ASCE 89 (1926)",
+			"Chow, Open-Channel Hydraulics (1959), Table 7-3",
+		},
+		Remedies: `a lining rated for the velocity (riprap, concrete), a flatter
 slope (drop structures), a rougher lining that slows the flow, or a wider
 section that carries the flow shallower and slower.`,
+	},
 	Check: checkMaxVelocity,
 }
 
@@ -51,7 +56,7 @@ func checkVelocity(ctx *Context, report func(Finding), upper bool) {
 	if upper {
 		w = higher
 	}
-	limits := &liningLimits{cfg: cfg}
+	limits := &liningLimits{table: cfg.Table("limit")}
 	ctx.scanPoints(w, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.Area <= 0 {
@@ -79,10 +84,10 @@ func checkVelocity(ctx *Context, report func(Finding), upper bool) {
 // remembering the last section's limit: consecutive points nearly always
 // share a section, so the map is consulted once per section run.
 type liningLimits struct {
-	cfg *policies.RuleConfig
-	sec *model.Section
-	lim float64
-	ok  bool
+	table policies.ByLining
+	sec   *model.Section
+	lim   float64
+	ok    bool
 }
 
 // at is the limit at a wet computed point; false where the point is dry or
@@ -94,7 +99,7 @@ func (l *liningLimits) at(rr *solver.ReachResult, p *solver.Point) (float64, boo
 	}
 	if sec != l.sec {
 		l.sec = sec
-		l.lim, l.ok = l.cfg.Limit.For(sec.Lining)
+		l.lim, l.ok = l.table.For(sec.Lining)
 	}
 	return l.lim, l.ok
 }
@@ -116,7 +121,7 @@ func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u mod
 // liningText names what a by-lining limit was taken for: the lining word
 // when the policy lists it, else the policy's default.
 func liningText(cfg *policies.RuleConfig, sec *model.Section) string {
-	if _, ok := cfg.Limit.Values[sec.Lining]; ok {
+	if _, ok := cfg.Table("limit").Values[sec.Lining]; ok {
 		var buf [64]byte
 		return "lining " + string(strconv.AppendQuote(buf[:0], sec.Lining))
 	}

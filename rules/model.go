@@ -8,11 +8,14 @@ import (
 )
 
 var modelRule = &Rule{
-	ID:       modelID,
-	Title:    "The model file is invalid or inconsistent",
-	Severity: policies.Error,
-	AlwaysOn: true,
-	Doc: `What it checks: (always on) that the model file can be checked at
+	RuleSpec: policies.RuleSpec{
+		ID:       modelID,
+		Severity: policies.Error,
+		AlwaysOn: true,
+	},
+	Title: "The model file is invalid or inconsistent",
+	Doc: Doc{
+		Checks: `(always on) that the model file can be checked at
 all. Every diagnostic of reading and validating a *.chan.hcl file becomes a
 finding at the narrowest range it names (errors as errors, warnings as
 warnings); a file with an error is not solved and no other rule runs on it.
@@ -23,16 +26,15 @@ flow:
     cannot be excepted (error);
   - a bend whose centreline radius is less than half the computed top
     width in it (warning): the inner bank would have a negative radius, and
-    the superelevation formula does not apply.
-
-Formula: none (rc < T/2 for the bend check).
-
-Settings: none; the rule cannot be turned off.
-
-Basis: common practice (no published source).
-
-Remedies: correct the file at the position given; the message says what
+    the superelevation formula does not apply.`,
+		Formula: `none (rc < T/2 for the bend check).`,
+		Basis:   `common practice (no published source).`,
+		Sources: []string{
+			"common practice (no published source)",
+		},
+		Remedies: `correct the file at the position given; the message says what
 was expected there.`,
+	},
 	Check: checkModel,
 }
 

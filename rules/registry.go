@@ -3,11 +3,16 @@ package rules
 import (
 	"slices"
 	"strings"
+
+	"github.com/chanlint/chanlint/policies"
 )
 
 // registry holds every rule sorted by id. It is filled in init because
 // some rules consult the registry (the model rule suggests ids).
 var registry []*Rule
+
+// language is the policy language of the registry's rules.
+var language *policies.Language
 
 func init() {
 	registry = sorted([]*Rule{
@@ -24,7 +29,21 @@ func init() {
 		superelevationRule,
 		unusedExceptionRule,
 	})
+	specs := make([]*policies.RuleSpec, len(registry))
+	for i, r := range registry {
+		specs[i] = &r.RuleSpec
+	}
+	var err error
+	if language, err = policies.NewLanguage(specs); err != nil {
+		panic("rules: " + err.Error()) // a rule file declares an invalid spec
+	}
 }
+
+// Language is the policy language of the registry: its loader decodes and
+// validates every rule block from the rules' specs.
+//
+//	pol, diags := rules.Language().NewLoader(root).Resolve("baseline")
+func Language() *policies.Language { return language }
 
 func sorted(rs []*Rule) []*Rule {
 	slices.SortFunc(rs, func(a, b *Rule) int { return strings.Compare(a.ID, b.ID) })

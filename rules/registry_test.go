@@ -5,7 +5,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/chanlint/chanlint/policies"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
@@ -27,8 +26,17 @@ func TestRegistry(t *testing.T) {
 			assert.NotContains(t, r.Title, "\n", "title is one line")
 			assert.Positive(t, r.Severity.Rank(), "valid default severity")
 			assert.NotNil(t, r.Check)
-			for _, part := range []string{"What it checks", "Formula", "Basis", "Remedies"} {
-				assert.Contains(t, r.Doc, part+":", "doc part %q", part)
+			assert.NotEmpty(t, strings.TrimSpace(r.Doc.Checks), "doc: what it checks")
+			assert.NotEmpty(t, strings.TrimSpace(r.Doc.Formula), "doc: formula")
+			assert.NotEmpty(t, strings.TrimSpace(r.Doc.Basis), "doc: basis")
+			assert.NotEmpty(t, strings.TrimSpace(r.Doc.Remedies), "doc: remedies")
+			if assert.NotEmpty(t, r.Doc.Sources, "doc: at least one source line") {
+				for _, src := range r.Doc.Sources {
+					assert.NotEmpty(t, strings.TrimSpace(src), "empty source line")
+				}
+			}
+			for _, part := range []string{"What it checks", "Formula", "Settings", "Basis", "Sources", "Remedies"} {
+				assert.Contains(t, r.Text(), part, "explain text part %q", part)
 			}
 			assert.Same(t, r, Lookup(r.ID))
 		})
@@ -40,22 +48,18 @@ func TestRegistry(t *testing.T) {
 	}
 }
 
-// TestRegistryMatchesPolicyLanguage: every id the policy language accepts
-// has a rule, every rule that is not always on can be configured, and the
-// default severities agree.
+// TestRegistryMatchesPolicyLanguage: the policy language is built from
+// the registry's specs, so every rule has a block (configurable or refused
+// as always on) with the rule's default severity.
 func TestRegistryMatchesPolicyLanguage(t *testing.T) {
-	configurable := policies.Configurable()
-	for _, id := range configurable {
-		r := Lookup(id)
-		if assert.NotNil(t, r, "policy rule %q has no rule", id) {
-			assert.False(t, r.AlwaysOn, id)
-			assert.Equal(t, policies.DefaultSeverity(id), r.Severity, id)
-		}
-	}
+	lang := Language()
 	for _, r := range All() {
-		if !r.AlwaysOn {
-			assert.Contains(t, configurable, r.ID, "rule %q cannot be configured", r.ID)
+		spec := lang.Spec(r.ID)
+		if assert.NotNil(t, spec, r.ID) {
+			assert.Same(t, &r.RuleSpec, spec, r.ID)
+			assert.NoError(t, spec.Validate(), r.ID)
 		}
+		assert.Equal(t, !r.AlwaysOn, slices.Contains(lang.Configurable(), r.ID), r.ID)
 	}
 }
 

@@ -70,14 +70,14 @@ func TestCheckNeverPanicsOrLeaksNaN(t *testing.T) {
 		band := []policies.Band{{Low: 0.5, High: 1.5}}
 		p := &policies.Policy{Units: model.SI, Exceptions: rapid.SampledFrom([]string{"", "report", "deny"}).Draw(t, "mode"),
 			Rules: map[string]*policies.RuleConfig{
-				"freeboard":        {Minimum: anyFloat(t, "min"), Fraction: 0.2},
-				"max_velocity":     {Limit: lim},
-				"min_velocity":     {Limit: lim},
-				"froude_band":      {Avoid: band},
+				"freeboard":        {Values: map[string]policies.Value{"minimum": {Number: anyFloat(t, "min")}, "fraction": {Number: 0.2}}},
+				"max_velocity":     {Values: map[string]policies.Value{"limit": {Table: lim}}},
+				"min_velocity":     {Values: map[string]policies.Value{"limit": {Table: lim}}},
+				"froude_band":      {Values: map[string]policies.Value{"avoid": {Bands: band}}},
 				"jump_containment": {},
-				"jump_type":        {Avoid: band},
-				"superelevation":   {Minimum: 0.3},
-				"shear_stress":     {Limit: lim},
+				"jump_type":        {Values: map[string]policies.Value{"avoid": {Bands: band}}},
+				"superelevation":   {Values: map[string]policies.Value{"minimum": {Number: 0.3}}},
+				"shear_stress":     {Values: map[string]policies.Value{"limit": {Table: lim}}},
 			}}
 		fs := Check(m, res, p)
 		if !slices.IsSortedFunc(fs, cmpFindings) {

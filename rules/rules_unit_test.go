@@ -41,7 +41,7 @@ func TestFreeboardSpansAndMessage(t *testing.T) {
 	m, r := handModel()
 	st := []float64{0, 100, 200, 300, 400}
 	pts := depthsPoints(r, st, []float64{0.5, 0.8, 0.85, 0.6, 0.9}, []float64{1, 1, 1, 1, 1})
-	fs := runRule(t, "freeboard", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Minimum: 0.3})
+	fs := runRule(t, "freeboard", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Values: map[string]policies.Value{"minimum": {Number: 0.3}}})
 	// Source: common practice (no published source): available = height −
 	// depth = 0.5, 0.2, 0.15, 0.4, 0.1 against 0.3 → failing runs 100–200
 	// (smallest 0.15) and 400 (0.1).
@@ -60,7 +60,7 @@ func TestFreeboardSpansAndMessage(t *testing.T) {
 func TestFreeboardFractionGovernsAndOvertopping(t *testing.T) {
 	m, r := handModel()
 	pts := depthsPoints(r, []float64{0, 100, 200}, []float64{0.5, 0.85, 1.1}, []float64{1, 1, 1})
-	fs := runRule(t, "freeboard", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Minimum: 0.05, Fraction: 0.25})
+	fs := runRule(t, "freeboard", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Values: map[string]policies.Value{"minimum": {Number: 0.05}, "fraction": {Number: 0.25}}})
 	// required = max(0.05, 0.25·d): 0.125, 0.2125, 0.275; available 0.5, 0.15, −0.1.
 	require.Len(t, fs, 1)
 	assertSpan(t, fs[0], 100, 200, -0.1, 0.275)
@@ -77,7 +77,7 @@ func TestFreeboardSkipsClosedAndSplitsAtSegments(t *testing.T) {
 	r.Segments = []*model.Segment{seg}
 	pts := depthsPoints(r, []float64{0, 100, 200, 300, 400}, []float64{0.9, 0.9, 0.9, 0.9, 0.9}, []float64{1, 1, 1, 1, 1})
 	pts[4].Section = pipe
-	fs := runRule(t, "freeboard", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Minimum: 0.3})
+	fs := runRule(t, "freeboard", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Values: map[string]policies.Value{"minimum": {Number: 0.3}}})
 	require.Len(t, fs, 2)
 	assertSpan(t, fs[0], 0, 100, 0.1, 0.3)
 	assert.Equal(t, r.DefRange, fs[0].Range)
@@ -88,7 +88,7 @@ func TestFreeboardSkipsClosedAndSplitsAtSegments(t *testing.T) {
 func TestMaxVelocity(t *testing.T) {
 	m, r := handModel()
 	pts := depthsPoints(r, []float64{0, 100, 200, 300}, []float64{0.5, 0.5, 0.5, 0.5}, []float64{1, 3, 4.2, 2})
-	cfg := &policies.RuleConfig{Limit: policies.ByLining{Values: map[string]float64{"grass": 3.0}, Default: 5, HasDefault: true}}
+	cfg := &policies.RuleConfig{Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Values: map[string]float64{"grass": 3.0}, Default: 5, HasDefault: true}}}}
 	fs := runRule(t, "max_velocity", m, result(m, r, pts, nil, nil), cfg)
 	// 3.0 is not above 3.0; only 4.2 fails.
 	require.Len(t, fs, 1)
@@ -97,7 +97,7 @@ func TestMaxVelocity(t *testing.T) {
 	assert.Equal(t, `a lining rated for at least 4.2 m/s is needed, or reduce velocity (flatter slope, rougher or wider section)`, fs[0].Remedy)
 
 	// No value for the lining and no default: not checked.
-	cfg = &policies.RuleConfig{Limit: policies.ByLining{Values: map[string]float64{"concrete": 1}}}
+	cfg = &policies.RuleConfig{Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Values: map[string]float64{"concrete": 1}}}}}
 	assert.Empty(t, runRule(t, "max_velocity", m, result(m, r, pts, nil, nil), cfg))
 }
 
@@ -105,7 +105,7 @@ func TestMinVelocity(t *testing.T) {
 	m, r := handModel()
 	pts := depthsPoints(r, []float64{0, 100, 200, 300, 400}, []float64{0.5, 0.5, 0.5, 0.5, 0}, []float64{0.5, 0.4, 0.7, 0.3, 0})
 	pts[4].Area = 0 // dry
-	cfg := &policies.RuleConfig{Limit: policies.ByLining{Default: 0.6, HasDefault: true}}
+	cfg := &policies.RuleConfig{Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Default: 0.6, HasDefault: true}}}}
 	fs := runRule(t, "min_velocity", m, result(m, r, pts, nil, nil), cfg)
 	require.Len(t, fs, 2)
 	assertSpan(t, fs[0], 0, 100, 0.4, 0.6)
@@ -119,7 +119,7 @@ func TestFroudeBand(t *testing.T) {
 	for i, f := range []float64{0.5, 0.9, 1.0, 1.2, 0.95} {
 		pts[i].Froude = f
 	}
-	fs := runRule(t, "froude_band", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Avoid: []policies.Band{{Low: 0.86, High: 1.13}}})
+	fs := runRule(t, "froude_band", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Values: map[string]policies.Value{"avoid": {Bands: []policies.Band{{Low: 0.86, High: 1.13}}}}})
 	// 0.9 lies 0.04 inside, 1.0 lies 0.13 inside (nearest edge 1.13): the
 	// worst of 100–200 is 1.0; 0.95 is nearest to 0.86.
 	require.Len(t, fs, 2)
@@ -166,7 +166,7 @@ func TestJumpType(t *testing.T) {
 		{Station: 60, Length: 10, Froude: 5.0, Type: solver.Steady},
 		{Station: 80, Length: 10, Froude: 4.4, Type: solver.Oscillating},
 	}
-	fs := runRule(t, "jump_type", m, result(m, r, nil, jumps, nil), &policies.RuleConfig{Avoid: []policies.Band{{Low: 2.5, High: 4.5}}})
+	fs := runRule(t, "jump_type", m, result(m, r, nil, jumps, nil), &policies.RuleConfig{Values: map[string]policies.Value{"avoid": {Bands: []policies.Band{{Low: 2.5, High: 4.5}}}}})
 	require.Len(t, fs, 2)
 	assertSpan(t, fs[0], 25, 35, 3.1, 2.5)
 	assert.Equal(t, b.DefRange, fs[0].Range, "toe inside the basin")
@@ -185,7 +185,7 @@ func TestSuperelevation(t *testing.T) {
 	st := []float64{250, 300, 340, 380, 420}
 	pts := depthsPoints(r, st, []float64{0.67, 0.67, 0.67, 0.67, 0.67}, []float64{3, 3, 3, 3, 3})
 	pts[2].Froude = 1.5 // take the supercritical coefficient at 340
-	cfg := &policies.RuleConfig{Minimum: 0.3, SubcriticalCoefficient: 0.5, SupercriticalCoefficient: 1.0}
+	cfg := &policies.RuleConfig{Values: map[string]policies.Value{"minimum": {Number: 0.3}, "subcritical_coefficient": {Number: 0.5}, "supercritical_coefficient": {Number: 1.0}}}
 	fs := runRule(t, "superelevation", m, result(m, r, pts, nil, nil), cfg)
 	// Source: USACE EM 1110-2-1601 (from memory): Δy = C·V²·T/(g·rc).
 	g := 9.80665
@@ -203,7 +203,7 @@ func TestSuperelevation(t *testing.T) {
 	assert.Contains(t, fs[0].Message, `in bend "elbow" (radius 40 m)`)
 
 	// Unset coefficients take the documented defaults 0.5 and 1.0.
-	fs2 := runRule(t, "superelevation", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Minimum: 0.3})
+	fs2 := runRule(t, "superelevation", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Values: map[string]policies.Value{"minimum": {Number: 0.3}}})
 	require.Len(t, fs2, 1)
 	assert.InDelta(t, remSup, fs2[0].Value, exact)
 }
@@ -211,7 +211,7 @@ func TestSuperelevation(t *testing.T) {
 func TestShearStress(t *testing.T) {
 	m, r := handModel()
 	pts := depthsPoints(r, []float64{0, 100, 200}, []float64{0.3, 0.5, 0.5}, []float64{1, 1, 1})
-	cfg := &policies.RuleConfig{Limit: policies.ByLining{Values: map[string]float64{"grass": 3.5}}}
+	cfg := &policies.RuleConfig{Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Values: map[string]float64{"grass": 3.5}}}}}
 	fs := runRule(t, "shear_stress", m, result(m, r, pts, nil, nil), cfg)
 	// Source: common practice (no published source): τ = γ·R·Sf with
 	// γ = 9806.65 N/m³; rectangle b = 4: d = 0.3 → R = 1.2/4.6, τ = 2.558;
@@ -343,7 +343,7 @@ func TestSegmentBoundaryPoints(t *testing.T) {
 	r.Segments = []*model.Segment{seg}
 	pts := depthsPoints(r, []float64{0, 100, 200, 200, 300}, []float64{0.9, 0.9, 0.9, 0.9, 0.9}, []float64{1, 1, 1, 1, 1})
 	pts[2].Section = r.Section // the upstream side of the boundary
-	fs := runRule(t, "freeboard", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Minimum: 0.3})
+	fs := runRule(t, "freeboard", m, result(m, r, pts, nil, nil), &policies.RuleConfig{Values: map[string]policies.Value{"minimum": {Number: 0.3}}})
 	require.Len(t, fs, 2)
 	assertSpan(t, fs[0], 0, 200, 0.1, 0.3)
 	assert.Equal(t, r.DefRange, fs[0].Range)

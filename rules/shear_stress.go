@@ -22,36 +22,42 @@ func unitWeight(u model.Units) float64 {
 }
 
 var shearStressRule = &Rule{
-	ID:       "shear_stress",
-	Title:    "Boundary shear (tractive) stress above the permissible stress of the lining",
-	Severity: policies.Error,
-	Doc: `What it checks: at every wet computed point, the mean boundary shear
+	RuleSpec: policies.RuleSpec{
+		ID:       "shear_stress",
+		Severity: policies.Error,
+		Settings: []policies.Setting{
+			{Name: "limit", Kind: policies.PerLining, Quantity: policies.Stress, Bounds: policies.Above(0),
+				Required: true, Doc: "the permissible mean boundary shear stress by lining word"},
+		},
+	},
+	Title: "Boundary shear (tractive) stress above the permissible stress of the lining",
+	Doc: Doc{
+		Checks: `at every wet computed point, the mean boundary shear
 stress of the flow against the permissible shear stress the policy sets for
 the lining word of the section there. Contiguous failing points of one
-reach and section merge into one span.
-
-Formula:
-    τ = γ · R · Sf
+reach and section merge into one span.`,
+		Formula: `    τ = γ · R · Sf
 γ unit weight of water (9806.65 N/m³; 62.428 lb/ft³), R hydraulic radius,
 Sf the friction slope of the computed point (Manning): in uniform flow it
 equals the bed slope, and in varied flow it is the slope that actually
 drags on the boundary, so it is used rather than the bed slope.
 τ is the mean over the wetted perimeter; the local maximum on the bed of a
 trapezoid is about γ·y·Sf (larger in bends), so a policy should set its
-limits for the mean stress, or with that margin.
-
-Settings: limit = number, or { lining = value, ..., default = value }
-(stress: N/m² for si, lb/ft² for us). A point whose lining has no value
-and no default is not checked.
-
-Basis: the tractive force method (Lane, "Design of stable channels",
+limits for the mean stress, or with that margin.`,
+		SettingsNote: "A point whose lining has no value and no default is not checked.",
+		Basis: `the tractive force method (Lane, "Design of stable channels",
 Trans. ASCE 120, 1955; Chow, Open-Channel Hydraulics, 1959, ch. 7, from
 memory); permissible shear stresses of linings are tabulated in FHWA
-HEC-15 (from memory).
-
-Remedies: a lining rated for the stress (riprap of a larger size, turf
+HEC-15 (from memory).`,
+		Sources: []string{
+			"Lane, \"Design of stable channels\", Trans. ASCE 120 (1955) (from memory)",
+			"Chow, Open-Channel Hydraulics (1959), ch. 7 (from memory)",
+			"FHWA HEC-15, permissible shear stresses of linings (from memory)",
+		},
+		Remedies: `a lining rated for the stress (riprap of a larger size, turf
 reinforcement, concrete), a flatter slope, or a wider and shallower section
 (smaller R).`,
+	},
 	Check: checkShearStress,
 }
 
@@ -60,7 +66,7 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	u := ctx.units()
 	gamma := unitWeight(u)
 	su := stressUnit(u)
-	limits := &liningLimits{cfg: cfg}
+	limits := &liningLimits{table: cfg.Table("limit")}
 	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.HydraulicRadius <= 0 {

@@ -11,11 +11,14 @@ import (
 )
 
 var solverRule = &Rule{
-	ID:       "solver",
-	Title:    "The solver fell back, did not converge, could not apply a control, or made an assumption",
-	Severity: policies.Warning,
-	AlwaysOn: true,
-	Doc: `What it checks: (always on) the notes the solver records while
+	RuleSpec: policies.RuleSpec{
+		ID:       "solver",
+		Severity: policies.Warning,
+		AlwaysOn: true,
+	},
+	Title: "The solver fell back, did not converge, could not apply a control, or made an assumption",
+	Doc: Doc{
+		Checks: `(always on) the notes the solver records while
 computing each reach, which mean the results near them are less certain
 than elsewhere, or the assumptions they rest on. Every note becomes a
 finding at the reach, at its station; notes of one kind at contiguous
@@ -37,20 +40,20 @@ Information (severity info):
     profiles there rather than a sequent pair.
 A reach of an event with no computed point, and a computed point with a
 number that is not finite, are also reported as warnings: the other rules
-could not check them.
-
-Formula: none; the standard-step energy balance
+could not check them.`,
+		Formula: `none; the standard-step energy balance
     z1 + y1 + α1V1²/2g = z2 + y2 + α2V2²/2g + hf
-is the solver's (Chow, Open-Channel Hydraulics, 1959, ch. 10).
-
-Settings: none; the rule cannot be turned off.
-
-Basis: common practice (no published source): a screening tool states
-where its own computation is uncertain rather than passing it silently.
-
-Remedies: add computed points (max_spacing), smooth abrupt section or slope
+is the solver's (Chow, Open-Channel Hydraulics, 1959, ch. 10).`,
+		Basis: `common practice (no published source): a screening tool states
+where its own computation is uncertain rather than passing it silently.`,
+		Sources: []string{
+			"common practice (no published source)",
+			"Chow, Open-Channel Hydraulics (1959), ch. 10: the standard-step method",
+		},
+		Remedies: `add computed points (max_spacing), smooth abrupt section or slope
 changes with a transition, check the outlet condition and the gate
 openings, and review the profile with "chanlint solve".`,
+	},
 	Check: checkSolver,
 }
 

@@ -88,7 +88,7 @@ event "q" {
 	require.False(t, diags.HasErrors(), "%s", diags.Error())
 	res, err := solver.Solve(m, solver.Options{})
 	require.NoError(t, err)
-	p, pd := policies.Pack("baseline")
+	p, pd := Language().Pack("baseline")
 	require.False(t, pd.HasErrors())
 	var got []Finding
 	for _, f := range Check(m, res, p) {

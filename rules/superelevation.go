@@ -19,16 +19,25 @@ const (
 )
 
 var superelevationRule = &Rule{
-	ID:       "superelevation",
-	Title:    "Freeboard at the outer bank of a bend after superelevation",
-	Severity: policies.Error,
-	Doc: `What it checks: in every bend block, the water surface rises towards
+	RuleSpec: policies.RuleSpec{
+		ID:       "superelevation",
+		Severity: policies.Error,
+		Settings: []policies.Setting{
+			{Name: "subcritical_coefficient", Kind: policies.Number, Quantity: policies.Coefficient, Bounds: policies.Above(0),
+				Default: defaultSubcriticalC, Doc: "C for subcritical flow (F < 1)"},
+			{Name: "supercritical_coefficient", Kind: policies.Number, Quantity: policies.Coefficient, Bounds: policies.Above(0),
+				Default: defaultSupercriticalC, Doc: "C for supercritical flow"},
+			{Name: "minimum", Kind: policies.Number, Quantity: policies.Length, Bounds: policies.AtLeast(0),
+				Doc: "the freeboard that must remain at the outer bank"},
+		},
+	},
+	Title: "Freeboard at the outer bank of a bend after superelevation",
+	Doc: Doc{
+		Checks: `in every bend block, the water surface rises towards
 the outer bank; at each computed point inside the bend the rise is added
 to the water surface and the freeboard that remains at the outer bank must
-be at least the policy's minimum. The finding is at the bend.
-
-Formula:
-    Δy = C · V² · T / (g · rc)
+be at least the policy's minimum. The finding is at the bend.`,
+		Formula: `    Δy = C · V² · T / (g · rc)
     remaining = invert + height − (WSE + Δy);  fails where remaining < minimum
 V mean velocity, T top width, rc the bend's centreline radius, g gravity;
 C = subcritical_coefficient for subcritical flow (F < 1), else
@@ -36,19 +45,18 @@ supercritical_coefficient. Unset coefficients default to 0.5 and 1.0.
 The message gives the rise, the bank rise needed (minimum − remaining at
 its largest) and the radius that would pass, where one exists.
 Closed conduits are not checked (their crown is the capacity rule's
-concern).
-
-Settings: subcritical_coefficient, supercritical_coefficient, minimum
-(length).
-
-Basis: U.S. Army Corps of Engineers, Hydraulic Design of Flood Control
+concern).`,
+		Basis: `U.S. Army Corps of Engineers, Hydraulic Design of Flood Control
 Channels, EM 1110-2-1601: C = 0.5 for tranquil flow, 1.0 for rapid flow in
 a simple circular curve (from memory). Rapid flow in curves also forms
-cross waves; spiral transitions or banked inverts are the usual measure.
-
-Remedies: raise the outer bank (or lining) over the bend, increase the
+cross waves; spiral transitions or banked inverts are the usual measure.`,
+		Sources: []string{
+			"U.S. Army Corps of Engineers, EM 1110-2-1601, Hydraulic Design of Flood Control Channels (from memory)",
+		},
+		Remedies: `raise the outer bank (or lining) over the bend, increase the
 radius, reduce the velocity in the bend, or for supercritical flow use
 spiral transitions or a banked invert.`,
+	},
 	Check: checkSuperelevation,
 }
 
@@ -56,7 +64,8 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 	cfg := ctx.Config
 	u := ctx.units()
 	g := u.Gravity()
-	cSub, cSup := cfg.SubcriticalCoefficient, cfg.SupercriticalCoefficient
+	cSub, cSup := cfg.Number("subcritical_coefficient"), cfg.Number("supercritical_coefficient")
+	minimum := cfg.Number("minimum")
 	if cSub <= 0 {
 		cSub = defaultSubcriticalC
 	}
@@ -84,18 +93,18 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					dy := c * p.Velocity * p.Velocity * p.TopWidth / (g * bend.Radius)
 					top := p.Invert + sec.Height
 					remaining := top - (p.WSE + dy)
-					if remaining >= cfg.Minimum-1e-12*max(1, cfg.Minimum) {
+					if remaining >= minimum-1e-12*max(1, minimum) {
 						return false
 					}
 					// The radius at which the rise just leaves the minimum:
 					// rc = C·V²·T/(g·(top − WSE − minimum)); none exists when the
 					// straight channel already lacks the minimum.
-					room := top - p.WSE - cfg.Minimum
+					room := top - p.WSE - minimum
 					need := math.MaxFloat64
 					if room > 0 {
 						need = c * p.Velocity * p.Velocity * p.TopWidth / (g * room)
 					}
-					*v = verdict{value: remaining, limit: cfg.Minimum, short: cfg.Minimum - remaining, aux: need}
+					*v = verdict{value: remaining, limit: minimum, short: minimum - remaining, aux: need}
 					return true
 				}, func(*solver.ReachResult, *solver.Point) *model.Src { return &bend.Src }, &ctx.verdict, ctx.spans[:0])
 				ctx.spans = spans

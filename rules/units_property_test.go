@@ -197,7 +197,7 @@ func TestFindingsIndependentOfUnits(t *testing.T) {
 		}
 		return valueTol
 	}
-	pol, diags := policies.Pack("baseline")
+	pol, diags := Language().Pack("baseline")
 	if diags.HasErrors() {
 		t.Fatal(diags.Error())
 	}

@@ -670,7 +670,7 @@ func (a *app) loadPolicy(arg string, p *palette) (*policies.Policy, bool) {
 	if root == "" {
 		root = a.cwd
 	}
-	loader := policies.NewLoader(root)
+	loader := rules.Language().NewLoader(root)
 	pol, diags := loader.Resolve(target)
 	if len(diags) > 0 {
 		a.writeDiagnostics(a.stderr, diags, loader.Files(), p)

@@ -55,7 +55,7 @@ func TestPanicFindingDeterministic(t *testing.T) {
 func TestCheckFileKeeps(t *testing.T) {
 	abs := filepath.Join(repoDir(t), "testdata", "demo", "kestrel-ridge.chan.hcl")
 	f := modelFile{abs: abs, display: "kestrel-ridge.chan.hcl"}
-	pol, diags := policies.Pack("baseline")
+	pol, diags := rules.Language().Pack("baseline")
 	require.False(t, diags.HasErrors(), diags.Error())
 	var stderr bytes.Buffer
 

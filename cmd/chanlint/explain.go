@@ -59,7 +59,7 @@ func (a *app) runExplain(args []string) int {
 	} else {
 		fmt.Fprintf(a.stdout, "default severity: %s; on when the policy has a %q block\n\n", r.Severity, r.ID)
 	}
-	fmt.Fprintln(a.stdout, strings.TrimRight(r.Doc, "\n"))
+	fmt.Fprintln(a.stdout, strings.TrimRight(r.Text(), "\n"))
 	return exitOK
 }
 

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
 )
 
 func policyCommand() *command {
@@ -84,7 +85,7 @@ func (a *app) listPacks() int {
 	status := exitOK
 	fmt.Fprintln(a.stdout, "built-in policy packs (use with --policy NAME, or extends = \"NAME\" in a policy):")
 	for _, n := range names {
-		p, diags := policies.Pack(n)
+		p, diags := rules.Language().Pack(n)
 		if p == nil || diags.HasErrors() {
 			fmt.Fprintf(a.stdout, "  %-*s  (does not load: %s)\n", width, n, diags.Error())
 			status = exitInvalid

@@ -106,7 +106,7 @@ func binaryGC(b *testing.B) {
 // ns/point metric should stay about constant across the cases.
 func BenchmarkScaleChain(b *testing.B) {
 	binaryGC(b)
-	pol, diags := policies.Pack("baseline")
+	pol, diags := rules.Language().Pack("baseline")
 	if diags.HasErrors() {
 		b.Fatal(diags.Error())
 	}
@@ -224,7 +224,7 @@ func BenchmarkScaleFiles(b *testing.B) {
 // (parse, solve, rules) to show where the time goes.
 func BenchmarkScaleChainStages(b *testing.B) {
 	binaryGC(b)
-	pol, diags := policies.Pack("baseline")
+	pol, diags := rules.Language().Pack("baseline")
 	if diags.HasErrors() {
 		b.Fatal(diags.Error())
 	}

@@ -123,7 +123,7 @@ func fixtureInput(t testing.TB, names ...string) Input {
 
 func testPolicy(t testing.TB) *policies.Policy {
 	t.Helper()
-	p, diags := policies.Pack("baseline")
+	p, diags := rules.Language().Pack("baseline")
 	require.False(t, diags.HasErrors(), diags.Error())
 	return p
 }

@@ -520,59 +520,10 @@ func lineCol(r hcl.Range) string {
 	return fmt.Sprintf("%d:%d", r.Start.Line, r.Start.Column)
 }
 
-// settings summarises the numbers of a rule block in the policy's units.
+// settings summarises the numbers of a rule block in the policy's units,
+// from the rule's spec.
 func settings(rc *policies.RuleConfig, u model.Units) string {
-	lu := u.Length()
-	var parts []string
-	switch rc.Rule {
-	case "freeboard":
-		parts = append(parts, "minimum "+num(rc.Minimum)+" "+lu)
-		if rc.Fraction > 0 {
-			parts = append(parts, "or "+num(rc.Fraction)+" × depth, the larger")
-		}
-	case "superelevation":
-		parts = append(parts, fmt.Sprintf("C %s subcritical, %s supercritical", num(rc.SubcriticalCoefficient), num(rc.SupercriticalCoefficient)))
-		if rc.Minimum > 0 {
-			parts = append(parts, "minimum "+num(rc.Minimum)+" "+lu)
-		}
-	case "max_velocity", "min_velocity", "shear_stress":
-		unit := lu + "/s"
-		if rc.Rule == "shear_stress" {
-			unit = "N/m²"
-			if u == model.US {
-				unit = "lb/ft²"
-			}
-		}
-		words := make([]string, 0, len(rc.Limit.Values))
-		for w := range rc.Limit.Values {
-			words = append(words, w)
-		}
-		sort.Strings(words)
-		for _, w := range words {
-			parts = append(parts, w+" "+num(rc.Limit.Values[w]))
-		}
-		nolimit := make([]string, 0, len(rc.Limit.NoLimit))
-		for w, on := range rc.Limit.NoLimit {
-			if on {
-				nolimit = append(nolimit, w)
-			}
-		}
-		sort.Strings(nolimit)
-		for _, w := range nolimit {
-			parts = append(parts, w+" no limit")
-		}
-		if rc.Limit.HasDefault {
-			parts = append(parts, "other linings "+num(rc.Limit.Default))
-		}
-		if len(parts) > 0 {
-			parts[len(parts)-1] += " " + unit
-		}
-	case "froude_band", "jump_type":
-		for _, b := range rc.Avoid {
-			parts = append(parts, "avoid "+num2(b.Low)+" – "+num2(b.High))
-		}
-	}
-	return strings.Join(parts, "; ")
+	return rc.Summary(u, num)
 }
 
 var slugRE = regexp.MustCompile(`[^a-z0-9]+`)

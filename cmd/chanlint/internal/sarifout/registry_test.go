@@ -7,7 +7,6 @@ import (
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
-	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
 	"github.com/owenrumney/go-sarif/v3/pkg/report/v210/sarif"
@@ -25,7 +24,7 @@ func TestRealPipelineLog(t *testing.T) {
 	require.False(t, diags.HasErrors(), diags.Error())
 	res, err := solver.Solve(m, solver.Options{})
 	require.NoError(t, err)
-	p, diags := policies.Pack("baseline")
+	p, diags := rules.Language().Pack("baseline")
 	require.False(t, diags.HasErrors(), diags.Error())
 	fs := rules.Check(m, res, p)
 	require.NotEmpty(t, fs)
@@ -64,7 +63,7 @@ func BenchmarkWrite(b *testing.B) {
 	m, _ := model.Parse(filepath.ToSlash(path), src)
 	res, err := solver.Solve(m, solver.Options{})
 	require.NoError(b, err)
-	p, _ := policies.Pack("baseline")
+	p, _ := rules.Language().Pack("baseline")
 	fs := rules.Check(m, res, p)
 	in := Input{Findings: fs, Rules: rules.All(), Root: "/srv", Sources: map[string][]byte{m.File: src}}
 	var buf bytes.Buffer

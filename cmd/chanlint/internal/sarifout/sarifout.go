@@ -138,7 +138,7 @@ func Build(in Input) (*sarif.Report, error) {
 	}
 	for _, f := range in.Findings {
 		if _, ok := b.ruleIndex[f.Rule]; !ok {
-			b.addRule(&rules.Rule{ID: f.Rule, Title: f.Rule, Severity: f.Severity})
+			b.addRule(&rules.Rule{RuleSpec: policies.RuleSpec{ID: f.Rule, Severity: f.Severity}, Title: f.Rule})
 		}
 	}
 	cautionDesc := sarif.NewReportingDescriptor().
@@ -186,7 +186,10 @@ func (b *builder) addRule(r *rules.Rule) {
 	if title == "" {
 		title = r.ID
 	}
-	doc := strings.TrimSpace(r.Doc)
+	doc := ""
+	if r.Doc.Checks != "" {
+		doc = strings.TrimSpace(r.Text())
+	}
 	full := firstParagraph(doc)
 	if full == "" {
 		full = title

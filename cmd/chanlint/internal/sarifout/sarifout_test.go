@@ -55,13 +55,13 @@ func ranges(t *testing.T) (title, length, label, exc hcl.Range) {
 
 func registry() []*rules.Rule {
 	return []*rules.Rule{
-		{ID: "capacity", Title: "Water surface within the section", Severity: policies.Error, AlwaysOn: true,
-			Doc: "Reports points where the water surface rises above the section height.\n\nRaise the lining or enlarge the section."},
-		{ID: "freeboard", Title: "Freeboard above the water surface", Severity: policies.Error,
-			Doc: "Checks top of bank minus water surface against the larger of a minimum and a fraction of the depth."},
-		{ID: "froude_band", Title: "Froude number outside unstable bands", Severity: policies.Warning,
-			Doc: "Near-critical flow (Froude 0.89–1.13) forms unstable waves (Brown & Clyde, HEC-11, 1989)."},
-		{ID: "model", Title: "Model file is valid", Severity: policies.Error, AlwaysOn: true, Doc: "The file could not be decoded."},
+		{RuleSpec: policies.RuleSpec{ID: "capacity", Severity: policies.Error, AlwaysOn: true}, Title: "Water surface within the section",
+			Doc: rules.Doc{Checks: "Reports points where the water surface rises above the section height.", Remedies: "Raise the lining or enlarge the section."}},
+		{RuleSpec: policies.RuleSpec{ID: "freeboard", Severity: policies.Error}, Title: "Freeboard above the water surface",
+			Doc: rules.Doc{Checks: "Checks top of bank minus water surface against the larger of a minimum and a fraction of the depth."}},
+		{RuleSpec: policies.RuleSpec{ID: "froude_band", Severity: policies.Warning}, Title: "Froude number outside unstable bands",
+			Doc: rules.Doc{Checks: "Near-critical flow (Froude 0.89–1.13) forms unstable waves.", Sources: []string{"Brown & Clyde, HEC-11, 1989"}}},
+		{RuleSpec: policies.RuleSpec{ID: "model", Severity: policies.Error, AlwaysOn: true}, Title: "Model file is valid", Doc: rules.Doc{Checks: "The file could not be decoded."}},
 	}
 }
 
