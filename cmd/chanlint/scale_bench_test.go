@@ -19,6 +19,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
@@ -259,4 +260,34 @@ func BenchmarkScaleChainStages(b *testing.B) {
 			_ = rules.Check(m, res, pol)
 		}
 	})
+}
+
+// BenchmarkScaleReport: `chanlint report` of 100 demo-sized files against
+// `chanlint check` of the same files, both with two workers (target: the
+// report within 2× of the check). Every iteration runs both, so the
+// report/check ratio is measured under the same load.
+func BenchmarkScaleReport(b *testing.B) {
+	binaryGC(b)
+	dir := b.TempDir()
+	demoSized(b, dir, 100)
+	out := filepath.Join(b.TempDir(), "review.html")
+	b.ReportAllocs()
+	var check, report time.Duration
+	for b.Loop() {
+		t0 := time.Now()
+		if code, _, errOut := runIn(dir, runOpts{jobs: 2}, "check", "--color", "never"); code == exitInvalid {
+			b.Fatal(errOut)
+		}
+		t1 := time.Now()
+		if code, _, errOut := runIn(dir, runOpts{jobs: 2}, "report", "--out", out, "--color", "never"); code != exitOK {
+			b.Fatal(errOut)
+		}
+		check, report = check+t1.Sub(t0), report+time.Since(t1)
+	}
+	b.ReportMetric(float64(check.Milliseconds())/float64(b.N), "check-ms")
+	b.ReportMetric(float64(report.Milliseconds())/float64(b.N), "report-ms")
+	b.ReportMetric(float64(report)/float64(check), "report/check")
+	if st, err := os.Stat(out); err == nil {
+		b.ReportMetric(float64(st.Size()), "bytes/report")
+	}
 }

@@ -25,15 +25,20 @@ import (
 	"bufio"
 	"bytes"
 	"embed"
+	"errors"
 	"fmt"
 	"html/template"
 	"io"
 	"math"
 	"path/filepath"
 	"regexp"
+	"runtime"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
+	"sync/atomic"
 
 	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
@@ -67,21 +72,15 @@ var templateFS embed.FS
 
 var tmpl = template.Must(template.New("").Funcs(template.FuncMap{
 	"num": num,
-	// Layout helpers of the SVG template (user units).
-	"add":        func(a, b float64) float64 { return a + b },
-	"half":       func(x float64) float64 { return x / 2 },
-	"tickX":      func(x float64) float64 { return x - 7 },
-	"tickY":      func(y float64) float64 { return y + 16 },
-	"xLabelY":    func(y float64) float64 { return y + 37 },
-	"bendY":      func(y float64) float64 { return y - 4 },
-	"bandColour": bandColour,
-	"spanColour": func(kind string) string { return bandColour(strings.TrimPrefix(kind, "span-")) },
 }).ParseFS(templateFS, "templates/*.tmpl"))
 
 // HTML writes the report as one self-contained HTML page.
 func HTML(w io.Writer, in Input) error {
-	pg := build(in)
-	bw := bufio.NewWriter(w)
+	pg, err := build(in, renderer{plot: inlineSVG, model: modelHTML})
+	if err != nil {
+		return err
+	}
+	bw := bufio.NewWriterSize(w, 64<<10)
 	if err := tmpl.ExecuteTemplate(bw, "page.html.tmpl", pg); err != nil {
 		return fmt.Errorf("report: %w", err)
 	}
@@ -96,7 +95,10 @@ func Markdown(dir, name string, in Input) error {
 	if name == "" || name == "." || name == string(filepath.Separator) {
 		name = "chanlint-report"
 	}
-	pg := build(in)
+	pg, err := build(in, renderer{plot: fileSVG})
+	if err != nil {
+		return err
+	}
 	var files []safefile.File
 	k := 0
 	for _, m := range pg.Models {
@@ -104,11 +106,7 @@ func Markdown(dir, name string, in Input) error {
 			for _, p := range ev.Plots {
 				k++
 				p.File = fmt.Sprintf("%s-%d.svg", name, k)
-				var buf bytes.Buffer
-				if err := tmpl.ExecuteTemplate(&buf, "file.svg.tmpl", p); err != nil {
-					return fmt.Errorf("report: %w", err)
-				}
-				files = append(files, safefile.File{Path: filepath.Join(dir, p.File), Data: buf.Bytes()})
+				files = append(files, safefile.File{Path: filepath.Join(dir, p.File), Data: p.svg})
 			}
 		}
 	}
@@ -128,17 +126,6 @@ func Markdown(dir, name string, in Input) error {
 		return fmt.Errorf("report: %w", err)
 	}
 	return nil
-}
-
-// bandColour is the colour of a failing span by severity.
-func bandColour(kind string) string {
-	switch kind {
-	case "error":
-		return "#c0392b"
-	case "warning":
-		return "#c27c0e"
-	}
-	return "#5d6d7e"
 }
 
 // page is the view the templates render.
@@ -199,6 +186,7 @@ type modelView struct {
 	Findings                   []findingRow
 	Exceptions                 []exceptionRow
 	Unsolved                   string
+	HTML                       template.HTML // the rendered section of the page
 }
 
 type eventView struct {
@@ -210,9 +198,14 @@ type eventView struct {
 
 type plotView struct {
 	*Plot
-	Small bool
-	File  string // Markdown: the SVG file name
+	File string // Markdown: the SVG file name
+	svg  []byte // the rendered markup
 }
+
+// SVG is the plot's markup for the page. It is written in Go from the
+// laid-out plot with every string escaped (plotsvg.go), so the template
+// takes it as it is.
+func (v *plotView) SVG() template.HTML { return template.HTML(v.svg) }
 
 type reachRow struct {
 	Name, Discharge, Slope, Profiles, Velocity, Froude, Freeboard, Jumps, Notes string
@@ -236,7 +229,25 @@ type exceptionRow struct {
 	State                                string
 }
 
-func build(in Input) *page {
+// renderer is what the views are rendered to while they are built: each
+// plot's markup (inline for the page, standalone for SVG files), and for
+// the page each model's section.
+type renderer struct {
+	plot  func(*Plot) []byte
+	model func(*modelView) (template.HTML, error) // nil: no HTML section
+}
+
+// modelHTML renders a model's section of the page.
+func modelHTML(mv *modelView) (template.HTML, error) {
+	var b bytes.Buffer
+	if err := tmpl.ExecuteTemplate(&b, "model", mv); err != nil {
+		return "", fmt.Errorf("report: %w", err)
+	}
+	return template.HTML(b.String()), nil // the template's own escaped output
+}
+
+// build makes the page's view of the input.
+func build(in Input, r renderer) (*page, error) {
 	pg := &page{Title: "Channel design review", ToolVersion: in.ToolVersion, Caution: in.Caution}
 	if pg.Caution == "" {
 		pg.Caution = rules.Caution
@@ -264,12 +275,11 @@ func build(in Input) *page {
 		}
 		pg.Policy = pv
 	}
-	plotN := 0
-	for mi, m := range in.Models {
-		if m.Model == nil {
-			continue
-		}
-		mv := buildModel(m, mi, &plotN)
+	views, err := buildModels(in.Models, r)
+	if err != nil {
+		return nil, err
+	}
+	for _, mv := range views {
 		pg.Models = append(pg.Models, mv)
 		pg.Totals.Errors += mv.Counts.Errors
 		pg.Totals.Warnings += mv.Counts.Warnings
@@ -285,7 +295,7 @@ func build(in Input) *page {
 		}
 	}
 	pg.InvalidN = len(files)
-	return pg
+	return pg, nil
 }
 
 func countInto(c *counts, f rules.Finding) {
@@ -303,7 +313,41 @@ func countInto(c *counts, f rules.Finding) {
 	}
 }
 
-func buildModel(m Model, mi int, plotN *int) *modelView {
+// buildModels lays out the models' views and renders them on as many
+// goroutines as there are CPUs: the models are independent, and their
+// plots and sections are most of a report's work. Entries without a model
+// are skipped; the order is the input's.
+func buildModels(ms []Model, r renderer) ([]*modelView, error) {
+	views := make([]*modelView, len(ms))
+	errs := make([]error, len(ms))
+	next := atomic.Int64{}
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), len(ms)) {
+		wg.Go(func() {
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= len(ms) {
+					return
+				}
+				if ms[i].Model == nil {
+					continue
+				}
+				mv := buildModel(ms[i], i, r.plot)
+				if r.model != nil {
+					mv.HTML, errs[i] = r.model(mv)
+				}
+				views[i] = mv
+			}
+		})
+	}
+	wg.Wait()
+	if err := errors.Join(errs...); err != nil {
+		return nil, err
+	}
+	return slices.DeleteFunc(views, func(mv *modelView) bool { return mv == nil }), nil
+}
+
+func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 	md := m.Model
 	mv := &modelView{
 		Anchor: "m" + strconv.Itoa(mi+1), File: md.File, Title: md.Title, Units: string(md.Units),
@@ -339,6 +383,13 @@ func buildModel(m Model, mi int, plotN *int) *modelView {
 		mv.Unsolved = "The model was not solved, so no profiles are shown."
 		return mv
 	}
+	plotN := 0
+	plot := func(in plotInput) *plotView {
+		plotN++
+		in.id = mv.Anchor + "-plot" + strconv.Itoa(plotN)
+		p := buildPlot(in)
+		return &plotView{Plot: p, svg: render(p)}
+	}
 	stem := mainStem(md)
 	onStem := map[*model.Reach]bool{}
 	for _, r := range stem {
@@ -364,14 +415,12 @@ func buildModel(m Model, mi int, plotN *int) *modelView {
 			off += r.Length
 		}
 		if len(pieces) > 0 {
-			*plotN++
 			title := ev.Name + " — " + reachPath(stem)
 			if len(stem) > 1 {
 				title = ev.Name + " — main stem: " + reachPath(stem)
 			}
-			p := buildPlot(plotInput{id: "plot" + strconv.Itoa(*plotN), title: title, units: md.Units, pieces: pieces,
-				event: ev.Name, findings: nums, w: mainW, h: mainH, stem: true})
-			ev.Plots = append(ev.Plots, &plotView{Plot: p})
+			ev.Plots = append(ev.Plots, plot(plotInput{title: title, units: md.Units, pieces: pieces,
+				event: ev.Name, findings: nums, w: mainW, h: mainH, stem: true}))
 		}
 		// Details of short structure reaches (gates, basins, jumps) that
 		// the main stem's scale squeezes.
@@ -382,21 +431,17 @@ func buildModel(m Model, mi int, plotN *int) *modelView {
 				ps = append(ps, piece{reach: r, rr: byReach[r], offset: off})
 				off += r.Length
 			}
-			*plotN++
-			p := buildPlot(plotInput{id: "plot" + strconv.Itoa(*plotN), title: ev.Name + " — detail: " + reachPath(run),
-				units: md.Units, pieces: ps, event: ev.Name, findings: nums, w: smallW, h: smallH, stem: true,
-				xlabel: "Distance downstream from the head of " + run[0].Name + " (" + md.Units.Length() + ")"})
-			ev.Plots = append(ev.Plots, &plotView{Plot: p, Small: true})
+			ev.Plots = append(ev.Plots, plot(plotInput{title: ev.Name + " — detail: " + reachPath(run),
+				units: md.Units, pieces: ps, event: ev.Name, findings: nums, w: smallW, h: smallH, stem: true, small: true,
+				xlabel: "Distance downstream from the head of " + run[0].Name + " (" + md.Units.Length() + ")"}))
 		}
 		// Other reaches, in model order.
 		for _, r := range md.Reaches {
 			if onStem[r] {
 				continue
 			}
-			*plotN++
-			p := buildPlot(plotInput{id: "plot" + strconv.Itoa(*plotN), title: ev.Name + " — reach " + r.Name + " (to " + r.To + ")",
-				units: md.Units, pieces: []piece{{reach: r, rr: byReach[r]}}, event: ev.Name, findings: nums, w: smallW, h: smallH})
-			ev.Plots = append(ev.Plots, &plotView{Plot: p, Small: true})
+			ev.Plots = append(ev.Plots, plot(plotInput{title: ev.Name + " — reach " + r.Name + " (to " + r.To + ")",
+				units: md.Units, pieces: []piece{{reach: r, rr: byReach[r]}}, event: ev.Name, findings: nums, w: smallW, h: smallH, small: true}))
 		}
 		mv.Events = append(mv.Events, ev)
 	}

@@ -1,0 +1,48 @@
+package report
+
+// addLegend lists only what is drawn, in rows that wrap to the frame's
+// width under the station axis, and sets the plot's height to fit them.
+func (p *Plot) addLegend() {
+	fr := p.Frame
+	x := fr.X
+	y := fr.Bottom() + marginB - 16
+	add := func(kind, label string) {
+		w := 30 + float64(len([]rune(label)))*charW + 18
+		if x > fr.X && x+w-18 > fr.Right() {
+			x = fr.X
+			y += legendRowH
+		}
+		p.Legend = append(p.Legend, LegendItem{X: round1(x), Y: round1(y), Kind: kind, Label: label})
+		x += w
+	}
+	if p.Bed != "" {
+		add("bed", "bed (invert)")
+	}
+	if p.WSE != "" {
+		add("wse", "water surface")
+	}
+	if p.Critical != "" {
+		add("critical", "critical depth")
+	}
+	if p.Energy != "" {
+		add("energy", "energy grade")
+	}
+	if p.Bank != "" {
+		add("bank", p.BankLabel)
+	}
+	if p.HasJmp {
+		add("jump", "hydraulic jump")
+	}
+	if p.HasBasin {
+		add("basin", "basin")
+	}
+	for _, sev := range []string{"error", "warning", "info"} {
+		if p.failing[sev] {
+			add("span-"+sev, sev+" span (#: finding)")
+		}
+	}
+	if p.HasExcepted {
+		add("excepted", "excepted span")
+	}
+	p.H = round1(y + 16)
+}

@@ -1,0 +1,223 @@
+package report
+
+import (
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/solver"
+)
+
+// addLines draws the profile's lines through the computed points (thinned
+// for drawing): bed, water surface, critical depth (invert + yc), top of
+// bank or crown (invert + section height) and energy grade, the filled
+// water between bed and surface, and the ground below the bed. A reach
+// without a solution still shows its bed and bank.
+func (p *Plot) addLines(pieces []piece, sc *scale) {
+	fr := p.Frame
+	var bed, wse, crit, bank, egl, ground, water pathBuilder
+	closedOnly, anyClosed := true, false
+	for _, pc := range pieces {
+		for _, s := range sectionsOf(pc.reach) {
+			if s.Closed() {
+				anyClosed = true
+			} else {
+				closedOnly = false
+			}
+		}
+	}
+	groundStart := -1.0
+	var lastGX float64
+	var wTop, wBot [][2]float64
+	for _, pc := range pieces {
+		pts := thin(pointsOf(pc))
+		bed.start()
+		wse.start()
+		crit.start()
+		bank.start()
+		egl.start()
+		wTop, wBot = wTop[:0], wBot[:0]
+		for i := range pts {
+			pt := &pts[i]
+			x := sc.x(pc.offset + pt.Station)
+			if !isFinite(x) {
+				continue
+			}
+			if isFinite(pt.Invert) {
+				y := sc.y(pt.Invert)
+				bed.to(x, y)
+				if groundStart < 0 {
+					groundStart = x
+					ground.start()
+				}
+				ground.to(x, y)
+				lastGX = x
+				if h := sectionHeight(pt.Section); h > 0 {
+					bank.to(x, sc.y(pt.Invert+h))
+				}
+				if isFinite(pt.CriticalDepth) && pt.CriticalDepth > 0 {
+					crit.to(x, sc.y(pt.Invert+pt.CriticalDepth))
+				}
+				if isFinite(pt.WSE) {
+					wTop = append(wTop, [2]float64{x, sc.y(pt.WSE)})
+					wBot = append(wBot, [2]float64{x, y})
+				}
+			}
+			if isFinite(pt.WSE) {
+				wse.to(x, sc.y(pt.WSE))
+			}
+			if isFinite(pt.Energy) {
+				egl.to(x, sc.y(pt.Energy))
+			}
+		}
+		if len(wTop) > 1 {
+			water.start()
+			for _, q := range wTop {
+				water.to(q[0], q[1])
+			}
+			for i := len(wBot) - 1; i >= 0; i-- {
+				water.to(wBot[i][0], wBot[i][1])
+			}
+			water.close()
+		}
+		if pc.rr == nil || len(pc.rr.Points) == 0 {
+			// No solution: still draw the bed and the bank from the reach.
+			x1, x2 := sc.x(pc.offset), sc.x(pc.offset+pc.reach.Length)
+			y1, y2 := sc.y(pc.reach.InvertUp), sc.y(pc.reach.InvertDown)
+			bed.to(x1, y1)
+			bed.to(x2, y2)
+			if groundStart < 0 {
+				groundStart = x1
+				ground.start()
+			}
+			ground.to(x1, y1)
+			ground.to(x2, y2)
+			lastGX = x2
+			if h := sectionHeight(pc.reach.Section); h > 0 {
+				bank.to(x1, sc.y(pc.reach.InvertUp+h))
+				bank.to(x2, sc.y(pc.reach.InvertDown+h))
+			}
+		}
+	}
+	if groundStart >= 0 {
+		ground.to(lastGX, fr.Bottom())
+		ground.to(groundStart, fr.Bottom())
+		ground.close()
+	}
+	p.Ground, p.Water = ground.String(), water.String()
+	p.Bed, p.WSE, p.Critical, p.Bank, p.Energy = bed.String(), wse.String(), crit.String(), bank.String(), egl.String()
+	p.BankLabel = "top of bank / lining"
+	if closedOnly {
+		p.BankLabel = "crown of conduit"
+	} else if anyClosed {
+		p.BankLabel = "top of bank / lining / crown"
+	}
+}
+
+// sectionsOf lists the sections of a reach: its own and its segments'.
+func sectionsOf(r *model.Reach) []*model.Section {
+	var ss []*model.Section
+	if r.Section != nil {
+		ss = append(ss, r.Section)
+	}
+	for _, sg := range r.Segments {
+		if sg.Section != nil {
+			ss = append(ss, sg.Section)
+		}
+	}
+	return ss
+}
+
+// pointsOf returns the computed points of a piece (nil when unsolved).
+func pointsOf(pc piece) []solver.Point {
+	if pc.rr == nil {
+		return nil
+	}
+	return pc.rr.Points
+}
+
+// thin keeps at most about maxPlotPoints points for drawing: in each of
+// maxPlotPoints/4 station buckets, the first and last points and those of
+// lowest and highest water surface, so that jumps and peaks survive.
+func thin(pts []solver.Point) []solver.Point {
+	if len(pts) <= maxPlotPoints {
+		return pts
+	}
+	buckets := maxPlotPoints / 4
+	s0, s1 := pts[0].Station, pts[len(pts)-1].Station
+	span := s1 - s0
+	if !(span > 0) {
+		return []solver.Point{pts[0], pts[len(pts)-1]}
+	}
+	keep := make([]bool, len(pts))
+	start := 0
+	for b := 0; b < buckets && start < len(pts); b++ {
+		limit := s0 + span*float64(b+1)/float64(buckets)
+		end := start
+		for end < len(pts) && (pts[end].Station <= limit || b == buckets-1) {
+			end++
+		}
+		if end == start {
+			continue
+		}
+		lo, hi := start, start
+		for i := start; i < end; i++ {
+			if pts[i].WSE < pts[lo].WSE {
+				lo = i
+			}
+			if pts[i].WSE > pts[hi].WSE {
+				hi = i
+			}
+		}
+		keep[start], keep[end-1], keep[lo], keep[hi] = true, true, true, true
+		start = end
+	}
+	out := make([]solver.Point, 0, maxPlotPoints)
+	for i, k := range keep {
+		if k {
+			out = append(out, pts[i])
+		}
+	}
+	return out
+}
+
+// pathBuilder writes SVG path data ("M x y L x y ...") with one decimal.
+type pathBuilder struct {
+	b     []byte
+	fresh bool // the next point starts a subpath
+	lines bool // some point was joined to the one before
+}
+
+func (p *pathBuilder) start() { p.fresh = true }
+
+func (p *pathBuilder) to(x, y float64) {
+	if !isFinite(x) || !isFinite(y) {
+		p.fresh = true
+		return
+	}
+	if len(p.b) > 0 {
+		p.b = append(p.b, ' ')
+	}
+	if p.fresh || len(p.b) == 0 {
+		p.b = append(p.b, 'M')
+		p.fresh = false
+	} else {
+		p.b = append(p.b, 'L')
+		p.lines = true
+	}
+	p.b = appendFixed(p.b, x, 10)
+	p.b = append(p.b, ' ')
+	p.b = appendFixed(p.b, y, 10)
+}
+
+func (p *pathBuilder) close() {
+	if len(p.b) > 0 {
+		p.b = append(p.b, " Z"...)
+	}
+	p.fresh = true
+}
+
+// String returns the path data, or "" when it has no line segment.
+func (p *pathBuilder) String() string {
+	if !p.lines {
+		return ""
+	}
+	return string(p.b)
+}
