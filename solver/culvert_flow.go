@@ -1,6 +1,7 @@
 package solver
 
 import (
+	"fmt"
 	"math"
 
 	"github.com/chanlint/chanlint/model"
@@ -157,8 +158,8 @@ func (s *solver) culvertControls(w *reachWork, cr *CulvertResult, tw float64) {
 	}
 }
 
-// culvertNotes records on the barrel which methods applied, with their
-// range of validity.
+// culvertNotes records on the result which methods applied, with their
+// range of validity (CulvertResult.Notes).
 func (s *solver) culvertNotes(w *reachWork, cr *CulvertResult, weir float64) {
 	c := cr.Culvert
 	if cr.OutletMethod == OutletNoFlow {
@@ -183,7 +184,7 @@ func (s *solver) culvertNotes(w *reachWork, cr *CulvertResult, weir float64) {
 			outlet = "barrel full: HW = ho + (1 + ke + kf)·V²/2g above the outlet invert with ho = max(TW, (dc + D)/2), the HDS-5 approximation for a tailwater below the crown (a backwater profile in the barrel would be more exact where the headwater is low)"
 		}
 	}
-	w.res.Notes = append(w.res.Notes, noteInfo(0,
+	cr.Notes = append(cr.Notes, fmt.Sprintf(
 		"culvert %q: headwater %s (HW/D %s) by %s control (FHWA HDS-5, 2012). Inlet control %s with %s, form %s, %s: Ku·Q/(A·D^0.5) = %s (unsubmerged up to 3.5, submerged from 4.0, interpolated between)%s. Outlet control %s, tailwater %s, ke = %s: %s",
 		c.Name, num(cr.Headwater), num(cr.HWD), cr.Control, num(cr.InletHeadwater), inlet, form, cr.InletRegime,
 		num(cr.Intensity), barrels, num(cr.OutletHeadwater), num(cr.Tailwater), num(c.Inlet.EntranceLoss), outlet))
@@ -200,7 +201,7 @@ func (s *solver) culvertNotes(w *reachWork, cr *CulvertResult, weir float64) {
 		} else {
 			msg += "; the head is at most 0.15 of the road width, where the published coefficient runs slightly below Cr, so the road flow is slightly overstated"
 		}
-		w.res.Notes = append(w.res.Notes, noteInfo(0, msg, args...))
+		cr.Notes = append(cr.Notes, fmt.Sprintf(msg, args...))
 	}
 }
 

@@ -209,4 +209,23 @@ type CulvertResult struct {
 	BarrelFlow, RoadFlow            float64 // discharges; they sum to the reach's event flow
 	RoadDepth                       float64 // headwater above the road crest, 0 when it does not overtop
 	OutletDepth, OutletVelocity     float64 // at the barrel's downstream end, from the final profile
+	// Notes say which methods applied, with their range of validity and
+	// the values they used.
+	Notes []string
+}
+
+// Method names the computation that set the headwater, briefly, e.g.
+// "inlet control (HDS-5 form 1, unsubmerged)".
+func (c *CulvertResult) Method() string {
+	if c.OutletMethod == OutletNoFlow {
+		return "no flow"
+	}
+	if c.Control == InletControlled {
+		form := "1"
+		if c.Culvert != nil && c.Culvert.Inlet.Form == 2 {
+			form = "2"
+		}
+		return "inlet control (HDS-5 form " + form + ", " + string(c.InletRegime) + ")"
+	}
+	return "outlet control (HDS-5, " + c.OutletMethod + ")"
 }

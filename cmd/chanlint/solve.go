@@ -152,8 +152,33 @@ type solveJSON struct {
 }
 
 type solveEventJSON struct {
-	Name    string           `json:"name"`
-	Reaches []solveReachJSON `json:"reaches"`
+	Name     string           `json:"name"`
+	Reaches  []solveReachJSON `json:"reaches"`
+	Culverts []culvertJSON    `json:"culverts"`
+}
+
+// culvertJSON is one culvert in one event (FHWA HDS-5): levels are
+// elevations, hw_d is the headwater depth above the inlet invert over the
+// barrel's rise.
+type culvertJSON struct {
+	Name            string   `json:"name"`
+	Reach           string   `json:"reach"`
+	Barrels         int      `json:"barrels"`
+	Headwater       *float64 `json:"headwater"`
+	HeadwaterDepth  *float64 `json:"headwater_depth"`
+	HWD             *float64 `json:"hw_d"`
+	Control         string   `json:"control"`
+	InletHeadwater  *float64 `json:"inlet_headwater"`
+	InletRegime     string   `json:"inlet_regime"`
+	OutletHeadwater *float64 `json:"outlet_headwater"`
+	OutletMethod    string   `json:"outlet_method"`
+	Tailwater       *float64 `json:"tailwater"`
+	BarrelFlow      *float64 `json:"barrel_flow"`
+	RoadFlow        *float64 `json:"road_flow"`
+	RoadDepth       *float64 `json:"road_depth"`
+	OutletDepth     *float64 `json:"outlet_depth"`
+	OutletVelocity  *float64 `json:"outlet_velocity"`
+	Notes           []string `json:"notes"`
 }
 
 type solveReachJSON struct {
@@ -198,7 +223,20 @@ type noteJSON struct {
 func writeSolveJSON(w io.Writer, m *model.Model, res *solver.Result) error {
 	doc := solveJSON{Units: string(m.Units), Title: m.Title, Events: []solveEventJSON{}, Caution: rules.Caution}
 	for _, ev := range res.Events {
-		ej := solveEventJSON{Name: ev.Event.Name, Reaches: []solveReachJSON{}}
+		ej := solveEventJSON{Name: ev.Event.Name, Reaches: []solveReachJSON{}, Culverts: []culvertJSON{}}
+		for _, c := range ev.Culverts {
+			ej.Culverts = append(ej.Culverts, culvertJSON{
+				Name: c.Culvert.Name, Reach: c.Culvert.ReachName, Barrels: c.Culvert.Barrels,
+				Headwater: finite(c.Headwater), HeadwaterDepth: finite(c.HeadwaterDepth), HWD: finite(c.HWD),
+				Control:        string(c.Control),
+				InletHeadwater: finite(c.InletHeadwater), InletRegime: string(c.InletRegime),
+				OutletHeadwater: finite(c.OutletHeadwater), OutletMethod: c.OutletMethod,
+				Tailwater:  finite(c.Tailwater),
+				BarrelFlow: finite(c.BarrelFlow), RoadFlow: finite(c.RoadFlow), RoadDepth: finite(c.RoadDepth),
+				OutletDepth: finite(c.OutletDepth), OutletVelocity: finite(c.OutletVelocity),
+				Notes: append([]string{}, c.Notes...),
+			})
+		}
 		for _, rr := range ev.Reaches {
 			rj := solveReachJSON{
 				Name:       rr.Reach.Name,
@@ -289,6 +327,7 @@ func writeSolveTable(w io.Writer, file string, m *model.Model, res *solver.Resul
 		for _, rr := range ev.Reaches {
 			writeReachTable(w, rr, L)
 		}
+		writeCulvertTable(w, ev.Culverts, L)
 	}
 	fmt.Fprintf(w, "\n%s\n", rules.Caution)
 }
@@ -328,6 +367,28 @@ func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
 	}
 	for _, n := range rr.Notes {
 		fmt.Fprintf(w, "    note at %s %s (%s): %s\n", fixed(n.Station, 2), L, n.Kind, n.Message)
+	}
+}
+
+// writeCulvertTable prints one performance row per culvert of the event.
+func writeCulvertTable(w io.Writer, culverts []*solver.CulvertResult, L string) {
+	if len(culverts) == 0 {
+		return
+	}
+	fmt.Fprintf(w, "\n  culverts (FHWA HDS-5; headwater levels, HW/D over the rise):\n")
+	t := &table{}
+	t.header([]string{"culvert", "headwater", "HW/D", "inlet ctl", "outlet ctl", "barrel Q", "road Q", "over road", "outlet y", "outlet V", "control"},
+		[]string{"", L, "", L, L, L + "³/s", L + "³/s", L, L, L + "/s", ""})
+	for _, c := range culverts {
+		t.row(c.Culvert.Name, fixed(c.Headwater, 3), fixed(c.HWD, 2), fixed(c.InletHeadwater, 3), fixed(c.OutletHeadwater, 3),
+			fixed(c.BarrelFlow, 3), fixed(c.RoadFlow, 3), fixed(c.RoadDepth, 3), fixed(c.OutletDepth, 3), fixed(c.OutletVelocity, 3),
+			string(c.Control))
+	}
+	t.write(w, "    ")
+	for _, c := range culverts {
+		for _, n := range c.Notes {
+			fmt.Fprintf(w, "    note: %s\n", n)
+		}
 	}
 }
 

@@ -112,14 +112,15 @@ reach "chute" {
   slope   = 0.06
 }
 
-# The apron floor is level and sits 0.08 m above the culvert inlet invert,
-# which keeps the tailwater low enough for the jump to stay off the chute.
+# The apron floor is level and sits 0.20 m above the culvert inlet invert,
+# which keeps the culvert's headwater pool low enough for the jump to stay
+# off the chute.
 reach "apron" {
   from    = "apron-head"
   to      = "culvert-inlet"
   length  = 30
   section = "apron"
-  invert  = [0.93, 0.93]
+  invert  = [1.05, 1.05]
 }
 
 reach "quarry-lane-culvert" {
@@ -136,6 +137,15 @@ reach "merrow-brook" {
   length  = 500
   section = "merrow-brook"
   slope   = 0.0015
+}
+
+# Quarry Lane crosses the brook on a 2 m concrete pipe with a square-edged
+# headwall; the lane's low point is 4.6 m, 1.75 m above the pipe's crown.
+culvert "quarry-lane" {
+  reach   = "quarry-lane-culvert"
+  barrels = 1
+  inlet   = "square-edge-headwall"
+  road    = { crest = 4.6, length = 40, width = 10 }
 }
 
 gate "escarpment-gate" {
