@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"slices"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/hashicorp/hcl/v2"
@@ -83,17 +84,52 @@ func ReadFile(filename string) ([]byte, hcl.Diagnostics) {
 func Parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	m, diags := parse(filepath.ToSlash(filename), src)
 	sortDiagnostics(diags)
-	if len(diags) > MaxDiagnostics {
-		rest := len(diags) - MaxDiagnostics
-		next := *diags[MaxDiagnostics].Subject
-		diags = append(diags[:MaxDiagnostics:MaxDiagnostics], &hcl.Diagnostic{
+	return m, boundDiagnostics(diags)
+}
+
+// Bounds of the text of one file's diagnostics, so that a 4 MiB file
+// cannot print gigabytes: each summary and detail is shortened (names
+// quoted in a message can be long), and past MaxDiagnosticBytes in all, or
+// MaxDiagnostics in number, the rest are counted in one last diagnostic.
+const (
+	MaxSummaryBytes    = 200
+	MaxDetailBytes     = 1000
+	MaxDiagnosticBytes = 256 << 10
+)
+
+// boundDiagnostics applies MaxDiagnostics and the byte bounds to diags
+// (sorted by position).
+func boundDiagnostics(diags hcl.Diagnostics) hcl.Diagnostics {
+	total := 0
+	for i, d := range diags {
+		d.Summary = clip(d.Summary, MaxSummaryBytes)
+		d.Detail = clip(d.Detail, MaxDetailBytes)
+		total += len(d.Summary) + len(d.Detail)
+		if i < MaxDiagnostics && total <= MaxDiagnosticBytes {
+			continue
+		}
+		more := &hcl.Diagnostic{
 			Severity: hcl.DiagError,
 			Summary:  "Too many problems",
-			Detail:   fmt.Sprintf("%d more problems from here on are not shown; fix the ones above and check again.", rest),
-			Subject:  &next,
-		})
+			Detail:   fmt.Sprintf("%d more problems from here on are not shown; fix the ones above and check again.", len(diags)-i),
+			Subject:  d.Subject,
+		}
+		return append(diags[:i:i], more)
 	}
-	return m, diags
+	return diags
+}
+
+// clip shortens s to at most n bytes, on a rune boundary, marking the cut
+// with an ellipsis and the number of bytes left out.
+func clip(s string, n int) string {
+	if len(s) <= n {
+		return s
+	}
+	cut := n - 40
+	for cut > 0 && !utf8.RuneStart(s[cut]) {
+		cut--
+	}
+	return fmt.Sprintf("%s… (%d more bytes)", s[:cut], len(s)-cut)
 }
 
 func parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
@@ -150,35 +186,83 @@ func btoi(b bool) int {
 	return 0
 }
 
-// CheckNesting returns an error diagnostic when src nests deeper than
-// MaxNesting (see nestingTooDeep), and nothing otherwise. Parse calls it
-// before handing src to the HCL parser; any other reader of untrusted HCL
-// (policies, configuration) should do the same.
+// Bounds of the pre-scan (see CheckNesting) besides MaxNesting. A model
+// holds only literals, so no valid file comes near them; they stop a file
+// that would drive the HCL parser into deep recursion or large memory.
+const (
+	// MaxChain bounds a run of traversal, index and splat steps
+	// (a.b[0].*…) and of binary operators in one expression.
+	MaxChain = 64
+	// MaxItems bounds the elements of one list, object, block body or
+	// argument list: more than any limit of the model allows (points,
+	// inflow entries, segments). The top level is bounded by the block
+	// limits instead.
+	MaxItems = 2 * MaxReaches
+	// MaxInterpolations bounds the ${…} and %{…} of one string.
+	MaxInterpolations = 64
+)
+
+// Problems found by the pre-scan.
+const (
+	scanOK = iota
+	scanNested
+	scanChain
+	scanItems
+	scanTemplate
+)
+
+// CheckNesting is the cheap pre-scan that runs before the HCL parser on
+// every untrusted file (models and policies alike). It returns an error
+// diagnostic at the first construct beyond a bound, and nothing otherwise:
+// nesting deeper than MaxNesting, a chain of traversals, splats, index
+// expressions or binary operators longer than MaxChain, a list, object or
+// body of more than MaxItems elements, a string of more than
+// MaxInterpolations interpolations. The scan is linear in the size of the
+// file and allocates only its bracket stack.
 func CheckNesting(filename string, src []byte) hcl.Diagnostics {
-	pos, deep := nestingTooDeep(src)
-	if !deep {
+	pos, problem := preScan(src)
+	if problem == scanOK {
 		return nil
 	}
 	p := posAt(src, pos)
+	var summary, detail string
+	switch problem {
+	case scanNested:
+		summary = "Too deeply nested"
+		detail = fmt.Sprintf("Brackets, strings, signs or conditionals nest more than %d deep here; a file needs only a few levels.", MaxNesting)
+	case scanChain:
+		summary = "Expression too long"
+		detail = fmt.Sprintf("More than %d attribute, index or splat steps or operators follow one another here; a file holds only literal values (numbers, strings, lists, objects).", MaxChain)
+	case scanItems:
+		summary = "Too many items"
+		detail = fmt.Sprintf("A list, object or block here holds more than %d elements, more than any limit allows; split the model.", MaxItems)
+	default:
+		summary = "Too many interpolations"
+		detail = fmt.Sprintf("A string here holds more than %d ${…} or %%{…} sequences; a file holds only literal text.", MaxInterpolations)
+	}
 	return hcl.Diagnostics{{
 		Severity: hcl.DiagError,
-		Summary:  "Too deeply nested",
-		Detail:   fmt.Sprintf("Brackets, strings, signs or conditionals nest more than %d deep here; a file needs only a few levels.", MaxNesting),
+		Summary:  summary,
+		Detail:   detail,
 		Subject:  &hcl.Range{Filename: filename, Start: p, End: p},
 	}}
 }
 
-// nestingTooDeep scans src for constructs that the HCL parser handles by
-// recursion and reports the offset where they go beyond MaxNesting:
+// preScan scans src for constructs that the HCL parser handles by
+// recursion or with memory out of proportion to a literal-only file, and
+// reports the offset of the first one beyond a bound (see CheckNesting):
 // brackets, braces and parentheses, quoted strings and heredocs with the
 // template interpolations inside them, runs of prefix operators (- and !),
-// and conditional operators (?). The parser's recursion, and so its stack,
-// then stays bounded: a file of a million "[" or "-" would otherwise
+// conditional operators (?), chains of traversal, index and splat steps
+// and of binary operators, the elements of one bracket, and the
+// interpolations of one string. The parser's recursion, and so its stack,
+// then stays bounded: a file of a million "[" or ".*" would otherwise
 // overflow the stack, which no recover() can catch.
 //
-// The scan follows HCL's lexical rules for comments, strings, escapes and
-// heredocs, so that brackets written inside text or comments do not count.
-func nestingTooDeep(src []byte) (int, bool) {
+// The scan follows HCL's lexical rules for comments, strings, escapes,
+// numbers and heredocs, so that brackets written inside text or comments
+// do not count.
+func preScan(src []byte) (int, int) {
 	const (
 		bracket = iota
 		quoted
@@ -188,91 +272,193 @@ func nestingTooDeep(src []byte) (int, bool) {
 	type frame struct {
 		kind   int
 		marker []byte // closing marker of a heredoc
+		items  int    // separators seen in a bracket
+		interp int    // interpolations of a string
+		brace  bool   // a { } (newlines separate items), not [ ] or ( )
 	}
-	var stack []frame
+	stack := []frame{{kind: bracket, brace: true}} // the file's top-level body
 	prefix, questions := 0, 0
+	// chain counts the steps and operators of the current expression;
+	// value is true when the last token ends a value (a name, a number,
+	// a closing bracket or quote), so that "." and "[" after it are steps;
+	// item is true when something was written since the last separator.
+	chain, value, item := 0, false, false
 	n := len(src)
 	for i := 0; i < n; i++ {
 		c := src[i]
-		top := -1
-		if len(stack) > 0 {
-			top = stack[len(stack)-1].kind
-		}
-		if top == quoted || top == heredoc {
-			if top == heredoc && (i == 0 || src[i-1] == '\n') {
+		top := &stack[len(stack)-1]
+		if top.kind == quoted || top.kind == heredoc {
+			if top.kind == heredoc && (i == 0 || src[i-1] == '\n') {
 				end := i + bytes.IndexByte(src[i:], '\n')
 				if end < i {
 					end = n
 				}
-				if bytes.Equal(bytes.TrimSpace(src[i:end]), stack[len(stack)-1].marker) {
+				if bytes.Equal(bytes.TrimSpace(src[i:end]), top.marker) {
 					stack = stack[:len(stack)-1]
+					value = true
 					i = end - 1
 					continue
 				}
 			}
 			switch {
-			case top == quoted && c == '\\':
+			case top.kind == quoted && c == '\\':
 				i++
-			case top == quoted && (c == '"' || c == '\n'):
+			case top.kind == quoted && (c == '"' || c == '\n'):
 				stack = stack[:len(stack)-1]
+				value = true
 			case (c == '$' || c == '%') && i+2 < n && src[i+1] == c && src[i+2] == '{':
 				i += 2 // $${ and %%{ are literal text
 			case (c == '$' || c == '%') && i+1 < n && src[i+1] == '{':
-				stack = append(stack, frame{kind: interp})
+				if top.interp++; top.interp > MaxInterpolations {
+					return i, scanTemplate
+				}
+				stack = append(stack, frame{kind: interp, brace: true})
+				chain, value = 0, false
 				i++
 			}
-			if len(stack) > MaxNesting {
-				return i, true
+			if len(stack) > MaxNesting+1 {
+				return i, scanNested
 			}
 			continue
 		}
 		switch c {
-		case ' ', '\t', '\r', '\n':
+		case ' ', '\t', '\r':
+			continue
 		case '-', '!':
 			prefix++
 		default:
 			prefix = 0
 		}
+		wasValue := value
+		value = false
+		if c != '\n' {
+			item = true
+		}
 		switch c {
+		case '\n':
+			if top.brace {
+				chain = 0
+				if item && len(stack) > 1 { // the top level is bounded by blockLimits
+					item = false
+					if top.items++; top.items > MaxItems {
+						return i, scanItems
+					}
+				}
+			}
+			value = wasValue && !top.brace
+		case ',':
+			chain, item = 0, false
+			if top.items++; top.items > MaxItems {
+				return i, scanItems
+			}
+		case '=', ':':
+			if i+1 < n && src[i+1] == '=' || c == '=' && i > 0 && (src[i-1] == '!' || src[i-1] == '<' || src[i-1] == '>' || src[i-1] == '=') {
+				chain++ // ==, !=, <=, >=
+				break
+			}
+			chain = 0
+		case '+', '*', '/', '%', '>', '&', '|', '-':
+			if c == '/' && i+1 < n && (src[i+1] == '/' || src[i+1] == '*') {
+				break // a comment, below
+			}
+			if c == '*' && i > 0 && src[i-1] == '.' {
+				value = true // a splat step, counted at the "."
+				break
+			}
+			if c == '-' && !wasValue {
+				break // a sign, counted in prefix
+			}
+			chain++
+		case '.':
+			if wasValue {
+				chain++ // a traversal or splat step
+			}
 		case '"':
 			stack = append(stack, frame{kind: quoted})
 		case '#':
 			for i < n && src[i] != '\n' {
 				i++
 			}
-		case '/':
-			if i+1 < n && src[i+1] == '/' {
-				for i < n && src[i] != '\n' {
-					i++
-				}
-			} else if i+1 < n && src[i+1] == '*' {
-				for i += 2; i+1 < n && !(src[i] == '*' && src[i+1] == '/'); i++ {
-				}
-				i++
-			}
-		case '<':
-			if marker, next, ok := heredocStart(src, i); ok {
-				stack = append(stack, frame{kind: heredoc, marker: marker})
-				i = next - 1
-			}
+			i--
 		case '?':
 			questions++
 		case '[', '{', '(':
-			stack = append(stack, frame{kind: bracket})
+			if c == '[' && wasValue {
+				chain++ // an index or splat step
+			}
+			stack = append(stack, frame{kind: bracket, brace: c == '{'})
 		case ']', ')':
-			if top == bracket {
+			if top.kind == bracket && len(stack) > 1 {
 				stack = stack[:len(stack)-1]
 			}
+			value = true
 		case '}':
-			if top == bracket || top == interp {
+			if (top.kind == bracket || top.kind == interp) && len(stack) > 1 {
 				stack = stack[:len(stack)-1]
+			}
+			value = true
+		default:
+			switch {
+			case '0' <= c && c <= '9':
+				i = skipNumber(src, i) - 1
+				value = true
+			case isIdentByte(c) || c >= 0x80:
+				for i+1 < n && (isIdentByte(src[i+1]) || src[i+1] == '-' || '0' <= src[i+1] && src[i+1] <= '9' || src[i+1] >= 0x80) {
+					i++
+				}
+				value = true
 			}
 		}
-		if len(stack) > MaxNesting || prefix > MaxNesting || questions > MaxNesting {
-			return i, true
+		if c == '/' && i+1 < n && src[i+1] == '/' {
+			for i < n && src[i] != '\n' {
+				i++
+			}
+			i--
+		} else if c == '/' && i+1 < n && src[i+1] == '*' {
+			for i += 2; i+1 < n && !(src[i] == '*' && src[i+1] == '/'); i++ {
+			}
+			i++
+		} else if c == '<' {
+			if marker, next, ok := heredocStart(src, i); ok {
+				stack = append(stack, frame{kind: heredoc, marker: marker})
+				i = next - 1
+			} else {
+				chain++
+			}
+		}
+		switch {
+		case len(stack) > MaxNesting+1 || prefix > MaxNesting || questions > MaxNesting:
+			return i, scanNested
+		case chain > MaxChain:
+			return i, scanChain
 		}
 	}
-	return 0, false
+	return 0, scanOK
+}
+
+// skipNumber returns the offset just past the number literal at src[i]
+// (digits, a fraction, an exponent with its sign).
+func skipNumber(src []byte, i int) int {
+	digits := func(i int) int {
+		for i < len(src) && '0' <= src[i] && src[i] <= '9' {
+			i++
+		}
+		return i
+	}
+	i = digits(i)
+	if i+1 < len(src) && src[i] == '.' && '0' <= src[i+1] && src[i+1] <= '9' {
+		i = digits(i + 1)
+	}
+	if i < len(src) && (src[i] == 'e' || src[i] == 'E') {
+		j := i + 1
+		if j < len(src) && (src[j] == '+' || src[j] == '-') {
+			j++
+		}
+		if j < len(src) && '0' <= src[j] && src[j] <= '9' {
+			i = digits(j)
+		}
+	}
+	return i
 }
 
 // heredocStart recognises `<<MARKER` or `<<-MARKER` at src[i] followed by

@@ -8,6 +8,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"github.com/chanlint/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/fatih/color"
@@ -111,14 +112,47 @@ func snippet(src []byte, r hcl.Range, p *palette) string {
 	if r.End.Line == r.Start.Line && r.End.Byte > r.Start.Byte {
 		endByte = min(len(line), startByte+(r.End.Byte-r.Start.Byte))
 	}
-	lead := utf8.RuneCountInString(line[:startByte])
-	width := max(1, utf8.RuneCountInString(line[startByte:endByte]))
+	// The line is a submittal's text: control characters, escapes and
+	// bidi overrides are made visible, and a long line is cut to an
+	// excerpt around the range, so the carets stay under what they mark.
+	pre := []rune(safetext.Text(line[:startByte]))
+	mid := []rune(safetext.Text(line[startByte:endByte]))
+	post := []rune(safetext.Text(line[endByte:]))
+	pre, mid, post = excerpt(pre, mid, post)
+	lead := len(pre)
+	width := max(1, len(mid))
 	num := fmt.Sprintf("%d", r.Start.Line)
 	pad := strings.Repeat(" ", len(num))
 	var b strings.Builder
-	fmt.Fprintf(&b, "  %s | %s\n", p.dim.Sprint(num), line)
+	fmt.Fprintf(&b, "  %s | %s%s%s\n", p.dim.Sprint(num), string(pre), string(mid), string(post))
 	fmt.Fprintf(&b, "  %s | %s%s\n", pad, strings.Repeat(" ", lead), p.caret.Sprint(strings.Repeat("^", width)))
 	return b.String()
+}
+
+// Bounds of a source excerpt under a diagnostic, in runes.
+const (
+	excerptWidth  = 160 // the whole excerpt
+	excerptBefore = 40  // context kept before the marked range
+)
+
+// excerpt cuts a line, split into the text before, inside and after the
+// marked range, to at most excerptWidth runes around the range; a cut is
+// marked with "…".
+func excerpt(pre, mid, post []rune) ([]rune, []rune, []rune) {
+	if len(pre)+len(mid)+len(post) <= excerptWidth {
+		return pre, mid, post
+	}
+	if len(pre) > excerptBefore {
+		pre = append([]rune("…"), pre[len(pre)-excerptBefore+1:]...)
+	}
+	if room := excerptWidth - len(pre); len(mid) > room {
+		mid = append(mid[:room-1:room-1], '…')
+		return pre, mid, nil
+	}
+	if room := excerptWidth - len(pre) - len(mid); len(post) > room {
+		post = append(post[:max(0, room-1):max(0, room-1)], '…')
+	}
+	return pre, mid, post
 }
 
 // sourceLine returns line n (1-based) of src without its line ending, and
@@ -176,7 +210,7 @@ func (a *app) writeDiagnostics(w io.Writer, diags hcl.Diagnostics, files map[str
 		if shown == "" {
 			shown = "chanlint"
 		}
-		fmt.Fprintf(w, "%s %s: %s\n", p.place.Sprint(gnuPrefix(shown, r)), p.severity(sev), msg)
+		fmt.Fprintf(w, "%s %s: %s\n", p.place.Sprint(gnuPrefix(safetext.Text(shown), r)), p.severity(sev), safetext.Text(msg))
 		if f := files[file]; f != nil {
 			fmt.Fprint(w, snippet(f.Bytes, r, p))
 		}
@@ -214,23 +248,25 @@ func writeFindingText(w io.Writer, f *rules.Finding, src []byte, unit string, p 
 	if head != "" {
 		head += ": "
 	}
-	place := p.place.Sprint(gnuPrefix(f.File, f.Pos()))
+	// Names, messages and reasons carry a submittal's text.
+	head, msg := safetext.Text(head), safetext.Text(f.Message)
+	place := p.place.Sprint(gnuPrefix(safetext.Text(f.File), f.Pos()))
 	rule := p.rule.Sprint("[" + f.Rule + "]")
 	if f.Excepted {
-		reason := f.ExceptionReason
+		reason := safetext.Text(f.ExceptionReason)
 		if reason == "" {
 			reason = "covered by a design exception"
 		}
-		fmt.Fprintf(w, "%s %s: %s %s\n", place, p.dim.Sprint("excepted"), rule, p.dim.Sprint(head+f.Message))
+		fmt.Fprintf(w, "%s %s: %s %s\n", place, p.dim.Sprint("excepted"), rule, p.dim.Sprint(head+msg))
 		writeContinuation(w, "exception", reason, p)
 		if f.Remedy != "" {
-			writeContinuation(w, "remedy", f.Remedy, p)
+			writeContinuation(w, "remedy", safetext.Text(f.Remedy), p)
 		}
 		return
 	}
-	fmt.Fprintf(w, "%s %s: %s %s%s\n", place, p.severity(f.Severity), rule, head, f.Message)
+	fmt.Fprintf(w, "%s %s: %s %s%s\n", place, p.severity(f.Severity), rule, head, msg)
 	if f.Remedy != "" {
-		writeContinuation(w, "remedy", f.Remedy, p)
+		writeContinuation(w, "remedy", safetext.Text(f.Remedy), p)
 	}
 	if f.Rule == "model" {
 		fmt.Fprint(w, snippet(src, f.Range, p))
@@ -293,7 +329,7 @@ func (a *app) policyLine(pol *policies.Policy) string {
 	if pol.Reference != "" {
 		line += " — " + pol.Reference
 	}
-	return line
+	return safetext.Text(line)
 }
 
 // policySource is where a policy came from, as printed: the relative path

@@ -3,6 +3,7 @@ package main
 import (
 	"os"
 	"path/filepath"
+	"strings"
 	"syscall"
 	"testing"
 
@@ -148,5 +149,34 @@ func TestOutputTargetsHostile(t *testing.T) {
 	entries, _ := os.ReadDir(repo)
 	for _, e := range entries {
 		assert.NotRegexp(t, `\.svg$`, e.Name(), "no plot is written when the page cannot be")
+	}
+}
+
+// 4 MiB files that would overflow the HCL parser's stack or exhaust memory
+// are rejected by the pre-scan with a diagnostic at the place; the other
+// files of the run are still checked, at any number of workers.
+func TestHostileExpressionsLoseNoOtherFile(t *testing.T) {
+	repo, _ := hostileTree(t)
+	write := func(name, head, unit string) {
+		var b strings.Builder
+		b.WriteString(head)
+		for b.Len() < 4<<20-16 {
+			b.WriteString(unit)
+		}
+		b.WriteString("\n")
+		require.NoError(t, os.WriteFile(filepath.Join(repo, "models", name), []byte(b.String()), 0o644))
+	}
+	write("splat.chan.hcl", "units = \"si\"\nx = a", "[*]")
+	write("sum.chan.hcl", "units = \"si\"\nx = 1", "+1")
+	write("list.chan.hcl", "units = \"si\"\nx = [", "1,")
+	for _, jobs := range []string{"1", "2"} {
+		code, out, _ := runIn(repo, runOpts{}, "check", "--color", "never", "-j", jobs, "models")
+		assert.Equal(t, exitInvalid, code)
+		assert.Contains(t, out, "models/splat.chan.hcl:2:")
+		assert.Contains(t, out, "Expression too long")
+		assert.Contains(t, out, "Too many items")
+		assert.Contains(t, out, "models/overtop.chan.hcl:", "the other files are still reported")
+		assert.Contains(t, out, "6 files (3 invalid)")
+		assert.Less(t, len(out), 64<<10, "a bounded excerpt, not the 4 MiB line")
 	}
 }
