@@ -81,6 +81,7 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 			remedy = "deepen or widen the section or raise the banks by at least " + numUp(s.short) + " " + lu
 		}
 		f := spanFinding(ev, rr, s, msg, remedy)
+		f.Unit = lu
 		if sec := sectionAt(rr, &rr.Points[s.worst]); sec != nil {
 			f.Focus = sec.At("height")
 		}

@@ -52,9 +52,12 @@ type Finding struct {
 	// Station span; HasSpan is false for findings without one.
 	FromStation, ToStation float64
 	HasSpan                bool
-	// Worst measured value and the limit, in the model's units.
+	// Worst measured value and the limit, in the model's units, and the
+	// symbol of their unit ("m", "m/s", "N/m²"; "" for a pure number
+	// such as the Froude number).
 	Value, Limit float64
 	HasValue     bool
+	Unit         string
 	Reference    string // the policy's reference
 	Excepted     bool
 	// The exception that covers this finding, when Excepted.
@@ -123,7 +126,10 @@ func (f *Finding) Where(unit string) string {
 		if !strings.Contains(s, "–") {
 			word = "station "
 		}
-		parts = append(parts, word+s+" "+unit)
+		if unit != "" {
+			s += " " + unit
+		}
+		parts = append(parts, word+s)
 	}
 	return strings.Join(parts, ", ")
 }

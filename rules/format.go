@@ -8,6 +8,10 @@ import (
 	"github.com/chanlint/chanlint/model"
 )
 
+// Num is num for the outputs: every measured number of chanlint reads the
+// same in text, JSON messages, SARIF and the report.
+func Num(x float64) string { return num(x) }
+
 // num formats a measured value compactly: three significant digits, never
 // fewer digits than the integer part, trailing zeros trimmed. A value that
 // is not finite (which the rules never pass on purpose) prints as "n/a" so

@@ -70,6 +70,7 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		msg, remedy := freeboardMessage(st, rr, s, u)
 		f := spanFinding(ev, rr, s, msg, remedy)
+		f.Unit = u.Length()
 		if sec := sectionAt(rr, &rr.Points[s.worst]); sec != nil {
 			f.Focus = sec.At("height") // the attribute a designer raises
 		}

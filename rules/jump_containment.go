@@ -57,7 +57,7 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 				continue
 			}
 			f := Finding{Reach: r.Name, Event: ev.Event.Name, FromStation: toe, ToStation: end,
-				HasSpan: true, Limit: 0, HasValue: true}
+				HasSpan: true, Limit: 0, HasValue: true, Unit: lu}
 			jump := fmt.Sprintf("the hydraulic jump (length %s %s", num(j.Length), lu)
 			if finite(j.Froude) {
 				jump += ", F1 " + num(j.Froude)

@@ -75,6 +75,7 @@ func checkVelocity(ctx *Context, report func(Finding), upper bool) {
 		sec := sectionAt(rr, &rr.Points[s.worst])
 		msg, remedy := velocityMessage(cfg, sec, s, u, upper)
 		f := spanFinding(ev, rr, s, msg, remedy)
+		f.Unit = velocityUnit(u)
 		f.Focus = sec.At("lining") // the limit is the lining's
 		report(f)
 	})

@@ -86,6 +86,7 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 		f := spanFinding(ev, rr, s, msg, "a lining rated for at least "+numUp(s.value)+" "+su+
 			" is needed, or reduce the stress (flatter slope, wider and shallower section)")
 		f.Focus = sec.At("lining") // the limit is the lining's
+		f.Unit = su
 		report(f)
 	})
 }

@@ -112,6 +112,7 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset
 					msg, remedy := superelevationMessage(rr, bend, s, cSub, cSup, u)
 					f := spanFinding(ev, rr, s, msg, remedy)
+					f.Unit = u.Length()
 					f.Focus = bend.At("radius")
 					report(f)
 				}

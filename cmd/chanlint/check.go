@@ -6,11 +6,15 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"github.com/hashicorp/hcl/v2"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"runtime/debug"
 	"slices"
+	"strconv"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -136,12 +140,34 @@ func (a *app) runCheck(args []string) int {
 	pal := newPalette(a.useColor(cf.color.value, a.stdoutTTY))
 	errPal := newPalette(a.useColor(cf.color.value, a.stderrTTY))
 
+	// A SARIF log is written whatever happens: when the baseline or the
+	// policy cannot be used, the log carries what was said on stderr as
+	// notifications, so that a code-scanning upload shows the cause.
+	var setup *setupLog
+	if cf.format.value == "sarif" {
+		setup = &setupLog{w: a.stderr}
+		stderr := a.stderr
+		a.stderr = setup
+		defer func() { a.stderr = stderr }()
+	}
+	failSetup := func() int {
+		if setup != nil {
+			a.stderr = setup.w
+			run := checkRun{app: a, problems: setup.problems(a)}
+			out := bufio.NewWriter(a.stdout)
+			if err := run.writeSARIF(out); err == nil {
+				out.Flush()
+			}
+		}
+		return exitInvalid
+	}
+
 	var known *baseline.Baseline
 	if cf.baseline != "" {
 		abs := a.abs(cf.baseline)
 		if err := confineInput(abs); err != nil {
 			fmt.Fprintf(a.stderr, "chanlint check: cannot read baseline %s: %v\n", cf.baseline, err)
-			return exitInvalid
+			return failSetup()
 		}
 		b, err := baseline.Read(abs)
 		if err != nil {
@@ -149,14 +175,17 @@ func (a *app) runCheck(args []string) int {
 			// from; print the path as the user wrote it.
 			msg := strings.ReplaceAll(err.Error(), abs, a.display(abs))
 			fmt.Fprintf(a.stderr, "chanlint check: %s\n", msg)
-			return exitInvalid
+			return failSetup()
 		}
 		known = b
 	}
 
 	pol, ok := a.loadPolicy(cf.policy, errPal)
 	if !ok {
-		return exitInvalid
+		return failSetup()
+	}
+	if setup != nil {
+		a.stderr = setup.w
 	}
 
 	// Only SARIF needs the source of a valid model (artifact lengths,
@@ -169,11 +198,11 @@ func (a *app) runCheck(args []string) int {
 	}
 
 	// The findings to show: a baseline hides those it records.
-	shown, knownCount := a.applyBaseline(results, known)
+	view := a.applyBaseline(results, known)
 
 	run := checkRun{
-		app: a, results: results, shown: shown, policy: pol,
-		knownCount: knownCount, baselinePath: cf.baseline,
+		app: a, results: results, shown: view.shown, policy: pol,
+		view: view, baselinePath: cf.baseline,
 	}
 	// The output goes straight to stdout, not through a buffer of its
 	// own: a large run's JSON or SARIF document is tens of megabytes. The
@@ -197,10 +226,16 @@ func (a *app) runCheck(args []string) int {
 	}
 
 	if cf.writeBaseline != "" {
-		if err := a.writeBaselineFile(cf.writeBaseline, results); err != nil {
+		n, excepted, err := a.writeBaselineFile(cf.writeBaseline, results)
+		if err != nil {
 			fmt.Fprintf(a.stderr, "chanlint check: cannot write baseline %s: %v\n", cf.writeBaseline, err)
 			return exitInvalid
 		}
+		msg := fmt.Sprintf("chanlint check: recorded %s in baseline %s", plural(n, "finding", "findings"), cf.writeBaseline)
+		if excepted > 0 {
+			msg += fmt.Sprintf("; %s covered by design exceptions not recorded", plural(excepted, "finding", "findings"))
+		}
+		fmt.Fprintln(a.stderr, msg)
 	}
 	if len(results) == 0 {
 		return exitInvalid
@@ -417,32 +452,64 @@ func solverLimitFinding(m *model.Model, err error) rules.Finding {
 	}
 }
 
-// applyBaseline returns the findings to show for each valid file (by
-// display path) once a baseline hides those it records, and how many it
-// hid. Invalid files are never filtered: their diagnostics always show.
-func (a *app) applyBaseline(results []*fileResult, b *baseline.Baseline) (map[string][]rules.Finding, int) {
-	shown := map[string][]rules.Finding{}
+// baselineView is a check's findings seen through a baseline: those to
+// show (by display path), with the match of each (parallel slices; nil
+// without a baseline), the match of every finding of each file (parallel
+// to its findings, for SARIF's baselineState), how many the baseline hid
+// and the entries no finding matched.
+type baselineView struct {
+	shown map[string][]rules.Finding
+	marks map[string][]baseline.Match
+	every map[string][]baseline.Match
+	known int
+	stale []baseline.Entry
+}
+
+// applyBaseline hides the findings a baseline records. Invalid files are
+// never filtered: their diagnostics always show. Excepted findings are
+// never matched, so they show as excepted.
+func (a *app) applyBaseline(results []*fileResult, b *baseline.Baseline) baselineView {
+	v := baselineView{shown: map[string][]rules.Finding{}}
 	if b == nil {
 		for _, r := range results {
-			shown[r.file.display] = r.findings
+			v.shown[r.file.display] = r.findings
 		}
-		return shown, 0
+		return v
 	}
+	v.marks = map[string][]baseline.Match{}
+	v.every = map[string][]baseline.Match{}
 	var all []rules.Finding
 	for _, r := range results {
 		if r.invalid {
-			shown[r.file.display] = r.findings
+			v.shown[r.file.display] = r.findings
+			v.marks[r.file.display] = make([]baseline.Match, len(r.findings))
+			v.every[r.file.display] = v.marks[r.file.display]
 			continue
 		}
 		all = append(all, r.findings...)
 	}
-	rebased, back := a.rebase(all, filepath.Dir(a.abs(b.Path)))
-	fresh, known := b.Filter(rebased)
-	for _, f := range fresh {
-		f.File = back[f.File]
-		shown[f.File] = append(shown[f.File], f)
+	rebased, _ := a.rebase(all, filepath.Dir(a.abs(b.Path)))
+	matches, stale := b.Compare(rebased)
+	v.stale = stale
+	i := 0
+	for _, r := range results {
+		if r.invalid {
+			continue
+		}
+		d := r.file.display
+		v.every[d] = matches[i : i+len(r.findings)]
+		for k, f := range r.findings {
+			m := matches[i+k]
+			if m.State.Known() {
+				v.known++
+				continue
+			}
+			v.shown[d] = append(v.shown[d], f)
+			v.marks[d] = append(v.marks[d], m)
+		}
+		i += len(r.findings)
 	}
-	return shown, known
+	return v
 }
 
 // rebase returns copies of findings whose File is relative to dir (the
@@ -466,7 +533,9 @@ func (a *app) rebase(findings []rules.Finding, dir string) ([]rules.Finding, map
 
 // writeBaselineFile records the findings of the valid files in path, with
 // file names relative to the baseline's directory, replacing it atomically.
-func (a *app) writeBaselineFile(path string, results []*fileResult) error {
+// It returns how many it recorded and how many it left out because a
+// design exception covers them.
+func (a *app) writeBaselineFile(path string, results []*fileResult) (n, excepted int, err error) {
 	var all []rules.Finding
 	for _, r := range results {
 		if !r.invalid {
@@ -476,10 +545,11 @@ func (a *app) writeBaselineFile(path string, results []*fileResult) error {
 	abs := a.abs(path)
 	all, _ = a.rebase(all, filepath.Dir(abs))
 	var buf bytes.Buffer
-	if err := baseline.Write(&buf, all); err != nil {
-		return err
+	n, err = baseline.Write(&buf, all)
+	if err != nil {
+		return 0, 0, err
 	}
-	return a.writeOutput(abs, buf.Bytes(), results)
+	return n, len(all) - n, a.writeOutput(abs, buf.Bytes(), results)
 }
 
 // writeOutput replaces the file at abs with data (see safefile.Write): a
@@ -500,8 +570,9 @@ type checkRun struct {
 	results      []*fileResult
 	shown        map[string][]rules.Finding // by display path
 	policy       *policies.Policy
-	knownCount   int
+	view         baselineView
 	baselinePath string
+	problems     []sarifout.Problem // why the setup failed (SARIF only)
 }
 
 // tally counts the shown findings.
@@ -566,8 +637,12 @@ func (r *fileResult) unit() string {
 func (c *checkRun) writeText(w io.Writer, p *palette) {
 	any := false
 	for _, r := range c.results {
-		for i := range c.shown[r.file.display] {
-			writeFindingText(w, &c.shown[r.file.display][i], r.src, r.unit(), p)
+		d := r.file.display
+		for i := range c.shown[d] {
+			writeFindingText(w, &c.shown[d][i], r.src, r.unit(), p)
+			if c.view.marks != nil && c.view.marks[d][i].State == baseline.Worse {
+				writeContinuation(w, "baseline", worseText(&c.shown[d][i], c.view.marks[d][i].Entry), p)
+			}
 			any = true
 		}
 	}
@@ -584,7 +659,14 @@ func (c *checkRun) writeText(w io.Writer, p *palette) {
 		plural(t.infos, "info", "info"), t.excepted))
 	if c.baselinePath != "" {
 		fmt.Fprintf(w, "baseline: %s recorded in %s not shown\n",
-			plural(c.knownCount, "known finding", "known findings"), c.baselinePath)
+			plural(c.view.known, "known finding", "known findings"), c.baselinePath)
+		if n := len(c.view.stale); n > 0 {
+			fmt.Fprintf(w, "baseline: %s no longer found (write the baseline again to drop %s):\n",
+				plural(n, "entry", "entries"), map[bool]string{true: "it", false: "them"}[n == 1])
+			for _, e := range c.view.stale {
+				fmt.Fprintf(w, "    %s\n", staleText(e))
+			}
+		}
 	}
 	fmt.Fprintln(w, c.app.policyLine(c.policy))
 	fmt.Fprintln(w, p.dim.Sprint(rules.Caution))
@@ -606,14 +688,39 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 		Units:       map[string]string{},
 		ToolVersion: toolVersion(),
 	}
+	in.Problems = c.problems
+	if c.view.every != nil {
+		in.BaselineStates = []string{}
+	}
 	for _, r := range c.results {
 		abs := r.file.abs
 		if abs == "" {
 			abs = c.app.abs(filepath.FromSlash(r.file.display))
 		}
-		for _, f := range c.shown[r.file.display] {
-			f.File = abs
-			in.Findings = append(in.Findings, f)
+		if c.view.every == nil {
+			for _, f := range c.shown[r.file.display] {
+				f.File = abs
+				in.Findings = append(in.Findings, f)
+			}
+		} else {
+			// With a baseline every finding is a result: known ones are
+			// "unchanged", the others (much worse ones too) "new".
+			for i, f := range r.findings {
+				f.File = abs
+				in.Findings = append(in.Findings, f)
+				state := "new"
+				if c.view.every[r.file.display][i].State.Known() {
+					state = "unchanged"
+				}
+				in.BaselineStates = append(in.BaselineStates, state)
+			}
+		}
+		if r.invalid && len(r.findings) > 0 {
+			f := r.findings[0]
+			in.Problems = append(in.Problems, sarifout.Problem{
+				Message: r.file.display + ": not checked: " + f.Message,
+				File:    abs, Range: f.Pos(),
+			})
 		}
 		if r.src != nil {
 			in.Sources[abs] = r.src
@@ -689,4 +796,75 @@ func (a *app) loadPolicy(arg string, p *palette) (*policies.Policy, bool) {
 // .hcl name; a bare word is a pack.
 func looksLikePath(arg string) bool {
 	return filepath.Ext(arg) == ".hcl" || strings.ContainsAny(arg, `/`+string(filepath.Separator)) || arg == "." || arg == ".."
+}
+
+// worseText says why a finding the baseline records counts as new.
+func worseText(f *rules.Finding, e *baseline.Entry) string {
+	was, _ := e.Shortfall()
+	now := math.Abs(f.Value - f.Limit)
+	unit := ""
+	if f.Unit != "" {
+		unit = " " + f.Unit
+	}
+	return fmt.Sprintf("new: much worse than recorded, %s%s past the limit where the baseline has %s%s (more than %d %% worse)",
+		rules.Num(now), unit, rules.Num(was), unit, int(baseline.WorseShare*100))
+}
+
+// staleText describes a baseline entry that no finding matched.
+func staleText(e baseline.Entry) string {
+	f := rules.Finding{Reach: e.Reach, Event: e.Event}
+	if e.FromStation != nil && e.ToStation != nil {
+		f.FromStation, f.ToStation, f.HasSpan = *e.FromStation, *e.ToStation, true
+	}
+	text := e.File
+	if e.Line > 0 {
+		text += fmt.Sprintf(":%d", e.Line)
+	}
+	text += ": " + e.Severity + " [" + e.Rule + "]"
+	if where := f.Where(""); where != "" {
+		text += " " + where
+	}
+	return text
+}
+
+// setupLog passes on what the setup of a check (baseline, policy) prints
+// on stderr and keeps a copy, so that a SARIF log can carry it when the
+// setup fails.
+type setupLog struct {
+	w   io.Writer
+	buf bytes.Buffer
+}
+
+func (s *setupLog) Write(p []byte) (int, error) {
+	s.buf.Write(p)
+	return s.w.Write(p)
+}
+
+var (
+	ansiEscape = regexp.MustCompile(`\x1b\[[0-9;]*m`)
+	gnuLine    = regexp.MustCompile(`^(.+?):(\d+):(\d+): (?:error|warning): `)
+)
+
+// problems turns the recorded lines into SARIF problems: one per line
+// that is not a source snippet or a usage hint, with the file and
+// position of its GNU prefix when it has one.
+func (s *setupLog) problems(a *app) []sarifout.Problem {
+	var out []sarifout.Problem
+	for _, line := range strings.Split(ansiEscape.ReplaceAllString(s.buf.String(), ""), "\n") {
+		if strings.TrimSpace(line) == "" || strings.HasPrefix(line, " ") || strings.HasPrefix(line, "run 'chanlint") {
+			continue
+		}
+		p := sarifout.Problem{Message: line}
+		if m := gnuLine.FindStringSubmatch(line); m != nil {
+			ln, _ := strconv.Atoi(m[2])
+			col, _ := strconv.Atoi(m[3])
+			p.File = a.abs(filepath.FromSlash(m[1]))
+			p.Range = hcl.Range{Start: hcl.Pos{Line: ln, Column: col, Byte: -1}, End: hcl.Pos{Line: ln, Column: col + 1, Byte: -1}}
+		}
+		out = append(out, p)
+	}
+	if len(out) == 0 {
+		out = append(out, sarifout.Problem{Message: "chanlint check: the policy or baseline could not be used"})
+	}
+	return out
 }

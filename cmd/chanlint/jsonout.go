@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"io"
 
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/baseline"
 	"github.com/chanlint/chanlint/rules"
 )
 
@@ -14,30 +15,39 @@ type checkJSON struct {
 	Summary  summaryJSON   `json:"summary"`
 	Policy   policyJSON    `json:"policy"`
 	Tool     toolJSON      `json:"tool"`
-	Caution  string        `json:"caution"` // last, as in every output
+	// StaleEntries are the baseline entries no finding matched, as
+	// recorded (only with --baseline).
+	StaleEntries []baseline.Entry `json:"stale_entries,omitempty"`
+	Caution      string           `json:"caution"` // last, as in every output
 }
 
 // findingJSON is one finding. Numbers that a finding does not have (a
 // station span, a measured value) are null.
 type findingJSON struct {
-	Rule            string   `json:"rule"`
-	Severity        string   `json:"severity"`
-	Message         string   `json:"message"`
-	Remedy          string   `json:"remedy,omitempty"`
-	File            string   `json:"file"`
-	Line            int      `json:"line"`
-	Column          int      `json:"column"`
-	EndLine         int      `json:"end_line"`
-	EndColumn       int      `json:"end_column"`
-	Reach           string   `json:"reach"`
-	Event           string   `json:"event"`
-	FromStation     *float64 `json:"from_station"`
-	ToStation       *float64 `json:"to_station"`
-	Value           *float64 `json:"value"`
-	Limit           *float64 `json:"limit"`
-	Excepted        bool     `json:"excepted"`
-	ExceptionReason string   `json:"exception_reason,omitempty"`
-	Reference       string   `json:"reference,omitempty"`
+	Rule        string   `json:"rule"`
+	Severity    string   `json:"severity"`
+	Message     string   `json:"message"`
+	Remedy      string   `json:"remedy,omitempty"`
+	File        string   `json:"file"`
+	Line        int      `json:"line"`
+	Column      int      `json:"column"`
+	EndLine     int      `json:"end_line"`
+	EndColumn   int      `json:"end_column"`
+	Reach       string   `json:"reach"`
+	Event       string   `json:"event"`
+	FromStation *float64 `json:"from_station"`
+	ToStation   *float64 `json:"to_station"`
+	Value       *float64 `json:"value"`
+	Limit       *float64 `json:"limit"`
+	// Units is the unit of value and limit ("m", "m/s", "N/m²"; "" for a
+	// pure number such as the Froude number); null without a value.
+	Units           *string `json:"units"`
+	Excepted        bool    `json:"excepted"`
+	ExceptionReason string  `json:"exception_reason,omitempty"`
+	Reference       string  `json:"reference,omitempty"`
+	// Baseline is "new" or "worse" (recorded, but much worse) when a
+	// --baseline was given; known findings are not listed.
+	Baseline string `json:"baseline,omitempty"`
 }
 
 // summaryJSON counts the findings shown; excepted findings are counted
@@ -52,6 +62,9 @@ type summaryJSON struct {
 	// Known is the number of findings a --baseline file hid (omitted
 	// without a baseline).
 	Known *int `json:"known,omitempty"`
+	// Stale is the number of baseline entries no finding matched
+	// (omitted without a baseline); they are listed in stale_entries.
+	Stale *int `json:"stale,omitempty"`
 }
 
 type policyJSON struct {
@@ -91,6 +104,8 @@ func newFindingJSON(f *rules.Finding) findingJSON {
 	}
 	if f.HasValue {
 		j.Value, j.Limit = finite(f.Value), finite(f.Limit)
+		u := f.Unit
+		j.Units = &u
 	}
 	return j
 }
@@ -112,13 +127,23 @@ func (c *checkRun) writeJSON(w io.Writer) error {
 		Tool:    toolJSON{Name: "chanlint", Version: toolVersion()},
 	}
 	if c.baselinePath != "" {
-		k := c.knownCount
-		doc.Summary.Known = &k
+		k, s := c.view.known, len(c.view.stale)
+		doc.Summary.Known, doc.Summary.Stale = &k, &s
+		doc.StaleEntries = c.view.stale
 	}
 	for _, r := range c.results {
 		fs := c.shown[r.file.display]
 		for i := range fs {
-			doc.Findings = append(doc.Findings, newFindingJSON(&fs[i]))
+			j := newFindingJSON(&fs[i])
+			if c.view.marks != nil {
+				switch c.view.marks[r.file.display][i].State {
+				case baseline.Worse:
+					j.Baseline = "worse"
+				case baseline.New:
+					j.Baseline = "new"
+				}
+			}
+			doc.Findings = append(doc.Findings, j)
 		}
 	}
 	return writeIndentedJSON(w, doc)

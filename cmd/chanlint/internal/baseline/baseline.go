@@ -2,13 +2,21 @@
 // later runs of `chanlint check --baseline FILE` fail only on findings that
 // are new.
 //
-// A finding is identified by its key: rule, model file, reach, event, the
-// station span rounded to 0.1 of the model's length unit, and a fingerprint
-// of its message with every number taken out. Line and column are kept in
-// the file for the reader only: an edit elsewhere in the model that moves a
-// block up or down does not make its findings new, while a violation that
-// spreads to other stations, or moves to another reach or event, does.
-// Matching is a multiset: two identical findings need two entries.
+// A finding matches an entry when its identity is the same: rule, model
+// file, reach, event, severity (an escalation from warning to error is
+// new) and a fingerprint of its message with every number taken out. Its
+// station span must also lie close to the recorded one: each end within
+// SpanTolerance of the recorded span's length, or MinSpanTolerance length
+// units, whichever is larger, so that re-solving after a small change of
+// inflow or roughness keeps a finding known while a violation that
+// spreads does not. Measured values are not part of the identity, with
+// one exception: a finding whose shortfall (how far its value lies past
+// its limit) has grown by more than WorseShare of the recorded shortfall
+// counts as new ("much worse"). Line and column are kept for the reader
+// only. Matching is a multiset: two identical findings need two entries.
+//
+// Findings covered by a design exception are never recorded: they do not
+// fail a run, and once the exception is removed the finding must show.
 package baseline
 
 import (
@@ -30,8 +38,22 @@ import (
 )
 
 // Version is the format version written to, and required in, a baseline
-// file.
-const Version = 1
+// file. Version 2 added the severity to the identity and the value and
+// limit for the "much worse" rule.
+const Version = 2
+
+// Matching tolerances (see the package documentation).
+const (
+	// SpanTolerance is the share of the recorded span's length each end
+	// of a finding's span may move.
+	SpanTolerance = 0.10
+	// MinSpanTolerance is the least distance, in the model's length unit,
+	// each end may move.
+	MinSpanTolerance = 2.0
+	// WorseShare is the growth of the shortfall, as a share of the
+	// recorded one, beyond which a finding counts as new.
+	WorseShare = 0.25
+)
 
 // MaxSize bounds the baseline file Read accepts (bytes).
 const MaxSize = 64 << 20
@@ -58,32 +80,37 @@ type Entry struct {
 	FromStation *float64 `json:"from_station,omitempty"` // rounded to 0.1
 	ToStation   *float64 `json:"to_station,omitempty"`   // rounded to 0.1
 	Fingerprint string   `json:"fingerprint"`            // of the number-free message
+	Severity    string   `json:"severity"`
+	// The measured value and limit, for the "much worse" rule; absent
+	// for findings without them.
+	Value *float64 `json:"value,omitempty"`
+	Limit *float64 `json:"limit,omitempty"`
 	// Informational.
-	Severity string `json:"severity,omitempty"`
-	Line     int    `json:"line,omitempty"`
-	Message  string `json:"message,omitempty"`
+	Line    int    `json:"line,omitempty"`
+	Message string `json:"message,omitempty"`
 }
 
 // Baseline is a loaded baseline file, ready to filter findings.
 type Baseline struct {
 	Path    string
 	Entries []Entry
-	counts  map[string]int // key → number of entries
+	byID    map[string][]int // identity → indices of its entries
 }
 
-// Key is the identity of a finding in a baseline: rule, file (as given,
-// cleaned to forward slashes), reach, event, rounded span and the message
-// fingerprint, joined with a separator that cannot occur in them.
-func Key(f rules.Finding) string {
-	return keyOf(entryOf(f))
+// identity is what must be equal for a finding to match an entry: rule,
+// file (cleaned to forward slashes), reach, event, severity and the
+// message fingerprint, joined with a separator that cannot occur in them.
+func identity(e *Entry) string {
+	return strings.Join([]string{e.Rule, e.File, e.Reach, e.Event, e.Severity, e.Fingerprint}, "\x00")
 }
 
+// keyOf orders entries in a written file: identity, then span.
 func keyOf(e Entry) string {
 	span := "-"
 	if e.FromStation != nil && e.ToStation != nil {
 		span = formatStation(*e.FromStation) + ".." + formatStation(*e.ToStation)
 	}
-	return strings.Join([]string{e.Rule, e.File, e.Reach, e.Event, span, e.Fingerprint}, "\x00")
+	return identity(&e) + "\x00" + span
 }
 
 // entryOf builds the entry recorded for a finding.
@@ -95,14 +122,27 @@ func entryOf(f rules.Finding) Entry {
 		Event:       f.Event,
 		Fingerprint: MessageFingerprint(f.Message),
 		Severity:    string(f.Severity),
-		Line:        f.Range.Start.Line,
+		Line:        f.Pos().Start.Line,
 		Message:     f.Message,
 	}
 	if f.HasSpan {
 		from, to := RoundStation(f.FromStation), RoundStation(f.ToStation)
 		e.FromStation, e.ToStation = &from, &to
 	}
+	if f.HasValue && finiteNum(f.Value) && finiteNum(f.Limit) {
+		v, l := roundValue(f.Value), roundValue(f.Limit)
+		e.Value, e.Limit = &v, &l
+	}
 	return e
+}
+
+func finiteNum(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+
+// roundValue keeps six significant digits of a recorded value: enough for
+// the "much worse" rule, short enough to read.
+func roundValue(x float64) float64 {
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'g', 6, 64), 64)
+	return r
 }
 
 // CleanPath returns p with forward slashes and without "./" or "a/../"
@@ -151,10 +191,14 @@ func normalizeMessage(msg string) string {
 }
 
 // Write records findings as a baseline file: entries sorted by key so that
-// the file is the same whatever order the findings came in.
-func Write(w io.Writer, findings []rules.Finding) error {
+// the file is the same whatever order the findings came in. Findings
+// covered by a design exception are left out; n is the number recorded.
+func Write(w io.Writer, findings []rules.Finding) (n int, err error) {
 	doc := File{Version: Version, Tool: "chanlint", Entries: make([]Entry, 0, len(findings))}
 	for _, f := range findings {
+		if f.Excepted {
+			continue
+		}
 		doc.Entries = append(doc.Entries, entryOf(f))
 	}
 	sort.SliceStable(doc.Entries, func(i, j int) bool {
@@ -168,9 +212,9 @@ func Write(w io.Writer, findings []rules.Finding) error {
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)
 	if err := enc.Encode(doc); err != nil {
-		return fmt.Errorf("baseline: %w", err)
+		return 0, fmt.Errorf("baseline: %w", err)
 	}
-	return nil
+	return len(doc.Entries), nil
 }
 
 // Read loads a baseline file. The error names the file and says what is
@@ -195,36 +239,124 @@ func parse(p string, data []byte) (*Baseline, error) {
 	if doc.Version != Version {
 		return nil, fmt.Errorf("baseline %s: format version %d, this chanlint reads version %d; write it again with --write-baseline", p, doc.Version, Version)
 	}
-	b := &Baseline{Path: p, Entries: doc.Entries, counts: make(map[string]int, len(doc.Entries))}
-	for i, e := range doc.Entries {
-		if e.Rule == "" || e.File == "" || e.Fingerprint == "" {
-			return nil, fmt.Errorf("baseline %s: entry %d lacks a rule, file or fingerprint", p, i+1)
+	b := &Baseline{Path: p, Entries: doc.Entries, byID: make(map[string][]int, len(doc.Entries))}
+	for i := range doc.Entries {
+		e := &doc.Entries[i]
+		if e.Rule == "" || e.File == "" || e.Fingerprint == "" || e.Severity == "" {
+			return nil, fmt.Errorf("baseline %s: entry %d lacks a rule, file, severity or fingerprint", p, i+1)
 		}
 		if (e.FromStation == nil) != (e.ToStation == nil) {
 			return nil, fmt.Errorf("baseline %s: entry %d has only one of from_station and to_station", p, i+1)
 		}
-		b.counts[keyOf(e)]++
+		if (e.Value == nil) != (e.Limit == nil) {
+			return nil, fmt.Errorf("baseline %s: entry %d has only one of value and limit", p, i+1)
+		}
+		e.File = CleanPath(e.File)
+		id := identity(e)
+		b.byID[id] = append(b.byID[id], i)
 	}
 	return b, nil
 }
 
-// Filter splits findings into those the baseline does not record (fresh,
-// in their original order) and the number it does. Each entry absorbs at
-// most one finding. Filter does not change the baseline; it can be called
-// again with other findings.
-func (b *Baseline) Filter(findings []rules.Finding) (fresh []rules.Finding, known int) {
-	left := make(map[string]int, len(b.counts))
-	for k, n := range b.counts {
-		left[k] = n
-	}
-	for _, f := range findings {
-		k := Key(f)
-		if left[k] > 0 {
-			left[k]--
-			known++
+// State is how a finding stands against a baseline.
+type State int
+
+const (
+	// New: no entry records it.
+	New State = iota
+	// Unchanged: an entry records it (within the tolerances).
+	Unchanged
+	// Worse: an entry records it, but its shortfall has grown by more
+	// than WorseShare; it counts as new.
+	Worse
+	// Excepted: covered by a design exception, so never matched.
+	Excepted
+)
+
+// Known reports whether a finding in this state is hidden by the baseline.
+func (s State) Known() bool { return s == Unchanged }
+
+// Match is the outcome for one finding: its state and, unless New or
+// Excepted, the entry it matched.
+type Match struct {
+	State State
+	Entry *Entry
+}
+
+// Compare matches findings against the entries, each entry absorbing at
+// most one finding, and returns one Match per finding (in order) and the
+// stale entries, which no finding matched. A finding takes the entry of
+// its identity whose span is nearest, among those within the tolerance.
+// Compare does not change the baseline; it can be called again.
+func (b *Baseline) Compare(findings []rules.Finding) (matches []Match, stale []Entry) {
+	used := make([]bool, len(b.Entries))
+	matches = make([]Match, len(findings))
+	for i := range findings {
+		f := &findings[i]
+		if f.Excepted {
+			matches[i] = Match{State: Excepted}
 			continue
 		}
-		fresh = append(fresh, f)
+		e := entryOf(*f)
+		best, bestD := -1, math.Inf(1)
+		for _, k := range b.byID[identity(&e)] {
+			if used[k] {
+				continue
+			}
+			d, ok := spanDistance(&b.Entries[k], &e)
+			if ok && d < bestD {
+				best, bestD = k, d
+			}
+		}
+		if best < 0 {
+			continue // New
+		}
+		used[best] = true
+		m := Match{State: Unchanged, Entry: &b.Entries[best]}
+		if muchWorse(m.Entry, f) {
+			m.State = Worse
+		}
+		matches[i] = m
 	}
-	return fresh, known
+	for k := range b.Entries {
+		if !used[k] {
+			stale = append(stale, b.Entries[k])
+		}
+	}
+	return matches, stale
+}
+
+// spanDistance is the larger move of a span end between the recorded
+// entry and the finding's entry, and whether both ends lie within the
+// tolerance. Entries without a span match only each other, at distance 0.
+func spanDistance(rec, cur *Entry) (float64, bool) {
+	if rec.FromStation == nil || cur.FromStation == nil {
+		return 0, rec.FromStation == nil && cur.FromStation == nil
+	}
+	tol := max(MinSpanTolerance, SpanTolerance*math.Abs(*rec.ToStation-*rec.FromStation))
+	d := max(math.Abs(*cur.FromStation-*rec.FromStation), math.Abs(*cur.ToStation-*rec.ToStation))
+	return d, d <= tol+1e-9
+}
+
+// muchWorse reports whether f lies past its limit by more than 1 +
+// WorseShare times the recorded entry's shortfall. A shortfall that was
+// zero (a value just at its limit) counts as worse once it exceeds one
+// per cent of the limit.
+func muchWorse(rec *Entry, f *rules.Finding) bool {
+	if rec.Value == nil || !f.HasValue || !finiteNum(f.Value) || !finiteNum(f.Limit) {
+		return false
+	}
+	was := math.Abs(*rec.Value - *rec.Limit)
+	now := math.Abs(f.Value - f.Limit)
+	floor := 0.01 * math.Abs(f.Limit)
+	return now > was*(1+WorseShare) && now-was > floor
+}
+
+// Shortfall is how far the recorded value lies past its limit, for
+// messages; ok is false when the entry has no value.
+func (e *Entry) Shortfall() (float64, bool) {
+	if e.Value == nil || e.Limit == nil {
+		return 0, false
+	}
+	return math.Abs(*e.Value - *e.Limit), true
 }

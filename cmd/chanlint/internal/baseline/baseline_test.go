@@ -40,12 +40,27 @@ func sample() []rules.Finding {
 func roundTrip(t *testing.T, fs []rules.Finding) *Baseline {
 	t.Helper()
 	var buf bytes.Buffer
-	require.NoError(t, Write(&buf, fs))
+	_, err := Write(&buf, fs)
+	require.NoError(t, err)
 	p := filepath.Join(t.TempDir(), "chanlint-baseline.json")
 	require.NoError(t, os.WriteFile(p, buf.Bytes(), 0o644))
 	b, err := Read(p)
 	require.NoError(t, err)
 	return b
+}
+
+// Filter splits findings into those the baseline does not hide (in their
+// order) and the number it hides.
+func (b *Baseline) Filter(findings []rules.Finding) (fresh []rules.Finding, known int) {
+	ms, _ := b.Compare(findings)
+	for i, m := range ms {
+		if m.State.Known() {
+			known++
+			continue
+		}
+		fresh = append(fresh, findings[i])
+	}
+	return fresh, known
 }
 
 func TestRoundTripAllKnown(t *testing.T) {
@@ -92,7 +107,7 @@ func TestNewViolationIsFresh(t *testing.T) {
 func TestChangedSpanIsFresh(t *testing.T) {
 	b := roundTrip(t, sample())
 	fs := sample()
-	fs[0].ToStation = 200 // the failing span grew
+	fs[0].ToStation = 200 // the failing span 120–180 grew by 20, past max(2, 6)
 	fresh, known := b.Filter(fs)
 	require.Len(t, fresh, 1)
 	assert.Equal(t, 200.0, fresh[0].ToStation)
@@ -105,6 +120,68 @@ func TestSpanRoundingAbsorbsNoise(t *testing.T) {
 	fs[1].ToStation = 45.2500001 // re-solve noise far below 0.1
 	fresh, _ := b.Filter(fs)
 	assert.Empty(t, fresh)
+}
+
+// A small hydraulic change moves span ends a little and values a little:
+// the findings stay known. 120–180 may move each end by max(2, 10 % of 60).
+func TestSmallHydraulicChangeStaysKnown(t *testing.T) {
+	b := roundTrip(t, sample())
+	fs := sample()
+	fs[0].FromStation, fs[0].ToStation = 114.5, 185.9
+	fs[0].Value = 0.16 // shortfall 0.14, was 0.12: +17 %
+	fs[1].ToStation = 46.9
+	fresh, known := b.Filter(fs)
+	assert.Empty(t, fresh)
+	assert.Equal(t, len(fs), known)
+
+	fs[0].FromStation = 113.9 // 6.1 away
+	fresh, _ = b.Filter(fs)
+	require.Len(t, fresh, 1)
+}
+
+// A shortfall grown by more than WorseShare makes the finding new, and
+// its match says so; an escalation of severity is new too.
+func TestMuchWorseAndEscalationAreNew(t *testing.T) {
+	b := roundTrip(t, sample())
+	fs := sample()[:1]
+	fs[0].Value = 0.10 // shortfall 0.20 against 0.12 recorded: +67 %
+	ms, stale := b.Compare(fs)
+	assert.Equal(t, Worse, ms[0].State)
+	require.NotNil(t, ms[0].Entry)
+	was, ok := ms[0].Entry.Shortfall()
+	require.True(t, ok)
+	assert.InDelta(t, 0.12, was, 1e-9)
+	assert.Len(t, stale, len(sample())-1, "the worse finding still uses its entry")
+
+	fs = sample()[:1]
+	fs[0].Severity = policies.Warning
+	b = roundTrip(t, fs)
+	fs[0].Severity = policies.Error
+	fresh, known := b.Filter(fs)
+	assert.Len(t, fresh, 1, "warning → error is new")
+	assert.Zero(t, known)
+}
+
+// Excepted findings are not recorded, so removing the exception re-opens
+// the finding; entries no finding matches are stale.
+func TestExceptedNotRecordedAndStale(t *testing.T) {
+	fs := sample()
+	fs[0].Excepted = true
+	var buf bytes.Buffer
+	n, err := Write(&buf, fs)
+	require.NoError(t, err)
+	assert.Equal(t, len(fs)-1, n)
+	b := roundTrip(t, fs)
+	reopened := sample()
+	fresh, _ := b.Filter(reopened)
+	require.Len(t, fresh, 1)
+	assert.Equal(t, "freeboard", fresh[0].Rule)
+
+	ms, stale := b.Compare(sample()[1:2])
+	assert.Equal(t, Unchanged, ms[0].State)
+	assert.Len(t, stale, len(fs)-2)
+	ms, _ = b.Compare(fs[:1])
+	assert.Equal(t, Excepted, ms[0].State, "an excepted finding never takes an entry")
 }
 
 func TestMultiset(t *testing.T) {
@@ -152,10 +229,13 @@ func TestWriteDeterministic(t *testing.T) {
 		rev[len(fs)-1-i] = fs[i]
 	}
 	var a, b bytes.Buffer
-	require.NoError(t, Write(&a, fs))
-	require.NoError(t, Write(&b, rev))
+	_, err := Write(&a, fs)
+	require.NoError(t, err)
+	_, err = Write(&b, rev)
+	require.NoError(t, err)
 	assert.Equal(t, a.String(), b.String())
-	assert.Contains(t, a.String(), `"version": 1`)
+	assert.Contains(t, a.String(), `"version": 2`)
+	assert.Contains(t, a.String(), `"severity": "error"`)
 	assert.Contains(t, a.String(), `"line": 12`, "the line is kept as information")
 }
 
@@ -179,8 +259,10 @@ func TestReadErrors(t *testing.T) {
 	cases := map[string]string{
 		"notjson":  "{",
 		"version":  `{"version": 7, "entries": []}`,
-		"norule":   `{"version": 1, "entries": [{"file": "a.chan.hcl", "fingerprint": "ab"}]}`,
-		"halfspan": `{"version": 1, "entries": [{"rule": "x", "file": "a.chan.hcl", "fingerprint": "ab", "from_station": 1}]}`,
+		"old":      `{"version": 1, "entries": []}`,
+		"norule":   `{"version": 2, "entries": [{"file": "a.chan.hcl", "fingerprint": "ab", "severity": "error"}]}`,
+		"nosev":    `{"version": 2, "entries": [{"rule": "x", "file": "a.chan.hcl", "fingerprint": "ab"}]}`,
+		"halfspan": `{"version": 2, "entries": [{"rule": "x", "file": "a.chan.hcl", "fingerprint": "ab", "severity": "error", "from_station": 1}]}`,
 		"nofile":   "",
 	}
 	for name, body := range cases {

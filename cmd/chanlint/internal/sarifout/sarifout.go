@@ -24,8 +24,10 @@
 package sarifout
 
 import (
+	"bytes"
 	"crypto/sha256"
 	"encoding/hex"
+	"encoding/json"
 	"fmt"
 	"io"
 	"net/url"
@@ -55,6 +57,22 @@ type Input struct {
 	// for the stations in result messages ("m" when missing).
 	Units       map[string]string
 	ToolVersion string
+	// BaselineStates, when not nil, holds the SARIF baselineState of each
+	// finding ("new", "unchanged"), parallel to Findings.
+	BaselineStates []string
+	// Problems are what kept the run from checking everything: an invalid
+	// policy, baseline or model. Each becomes an error-level tool
+	// execution notification, and the invocation is marked unsuccessful,
+	// so that a code-scanning upload shows the cause.
+	Problems []Problem
+}
+
+// Problem is one cause of an unsuccessful run: a message and, when known,
+// the file and range it is about.
+type Problem struct {
+	Message string
+	File    string
+	Range   hcl.Range
 }
 
 // BaseID is the uriBaseId of every relative artifact URI.
@@ -91,11 +109,92 @@ func Write(w io.Writer, in Input) error {
 	if err != nil {
 		return err
 	}
-	if err := rep.PrettyWrite(w); err != nil {
+	raw, err := json.Marshal(rep)
+	if err != nil {
 		return fmt.Errorf("sarif: %w", err)
 	}
-	_, err = io.WriteString(w, "\n")
+	// The library writes every optional array, empty or not; a log
+	// without them is smaller and what readers expect.
+	compact, _, err := pruneEmptyArrays(raw)
+	if err != nil {
+		return fmt.Errorf("sarif: %w", err)
+	}
+	var out bytes.Buffer
+	if err := json.Indent(&out, compact, "", "  "); err != nil {
+		return fmt.Errorf("sarif: %w", err)
+	}
+	out.WriteByte('\n')
+	_, err = w.Write(out.Bytes())
 	return err
+}
+
+// pruneEmptyArrays returns the JSON value raw without the object members
+// whose value is an empty array or an empty object, keeping the order of
+// the members and the bytes of every scalar; keep is false when raw itself
+// is empty. A run's "results" stays even when empty: SARIF reads an empty
+// array as "checked, nothing found" and a missing one as "not checked".
+func pruneEmptyArrays(raw json.RawMessage) (out []byte, keep bool, err error) {
+	raw = bytes.TrimSpace(raw)
+	if len(raw) == 0 {
+		return raw, true, nil
+	}
+	switch raw[0] {
+	case '[':
+		var items []json.RawMessage
+		if err := json.Unmarshal(raw, &items); err != nil {
+			return nil, false, err
+		}
+		if len(items) == 0 {
+			return nil, false, nil
+		}
+		buf := []byte{'['}
+		for i, it := range items {
+			p, _, err := pruneEmptyArrays(it)
+			if err != nil {
+				return nil, false, err
+			}
+			if i > 0 {
+				buf = append(buf, ',')
+			}
+			buf = append(buf, p...)
+		}
+		return append(buf, ']'), true, nil
+	case '{':
+		dec := json.NewDecoder(bytes.NewReader(raw))
+		if _, err := dec.Token(); err != nil {
+			return nil, false, err
+		}
+		buf := []byte{'{'}
+		first := true
+		for dec.More() {
+			tok, err := dec.Token()
+			if err != nil {
+				return nil, false, err
+			}
+			var v json.RawMessage
+			if err := dec.Decode(&v); err != nil {
+				return nil, false, err
+			}
+			p, keep, err := pruneEmptyArrays(v)
+			if err != nil {
+				return nil, false, err
+			}
+			if !keep && tok != "results" {
+				continue
+			}
+			if !keep {
+				p = []byte("[]")
+			}
+			key, _ := json.Marshal(tok.(string))
+			if !first {
+				buf = append(buf, ',')
+			}
+			first = false
+			buf = append(append(append(buf, key...), ':'), p...)
+		}
+		return append(buf, '}'), !first, nil
+	}
+	return raw, true, nil
 }
 
 // Build assembles the SARIF report without writing it, for callers that
@@ -147,13 +246,34 @@ func Build(in Input) (*sarif.Report, error) {
 		WithDefaultConfiguration(sarif.NewReportingConfiguration().WithLevel(sarif.LevelNote))
 	driver.AddNotification(cautionDesc)
 
-	for _, f := range in.Findings {
-		run.AddResult(b.result(f))
+	problemDesc := sarif.NewReportingDescriptor().
+		WithID("input").
+		WithShortDescription(sarif.NewMultiformatMessageString().WithText("An input could not be used")).
+		WithDefaultConfiguration(sarif.NewReportingConfiguration().WithLevel(sarif.LevelError))
+	driver.AddNotification(problemDesc)
+
+	for i, f := range in.Findings {
+		res := b.result(f)
+		if in.BaselineStates != nil && in.BaselineStates[i] != "" {
+			res.WithBaselineState(in.BaselineStates[i])
+		}
+		run.AddResult(res)
 	}
 
 	ref := sarif.NewReportingDescriptorReference().WithID("caution")
 	ref.Index = 0
-	inv := sarif.NewInvocation().WithExecutionSuccessful(true)
+	inv := sarif.NewInvocation().WithExecutionSuccessful(len(in.Problems) == 0)
+	for _, p := range in.Problems {
+		pref := sarif.NewReportingDescriptorReference().WithID("input")
+		pref.Index = 1
+		n := sarif.NewNotification().WithLevel(sarif.LevelError).WithDescriptor(pref).
+			WithMessage(sarif.NewTextMessage(p.Message))
+		if p.File != "" {
+			loc, _ := b.location(p.File, p.Range)
+			n.WithLocations([]*sarif.Location{loc})
+		}
+		inv.AddToolExecutionNotification(n)
+	}
 	inv.AddToolExecutionNotification(sarif.NewNotification().
 		WithLevel(sarif.LevelNote).
 		WithDescriptor(ref).
@@ -170,7 +290,7 @@ type builder struct {
 	root      string // absolute, or "" for none
 	run       *sarif.Run
 	ruleIndex map[string]int
-	artifacts map[string]int // file as given → index
+	artifacts map[string]int // artifact URI → index
 	lines     map[string]*lineIndex
 	seen      map[string]int // fingerprint → occurrences so far
 }
@@ -202,6 +322,8 @@ func (b *builder) addRule(r *rules.Rule) {
 	}
 	d := sarif.NewReportingDescriptor().
 		WithID(r.ID).
+		WithName(RuleName(r.ID)).
+		WithHelpURI(HelpURI(r)).
 		WithShortDescription(sarif.NewMultiformatMessageString().WithText(title)).
 		WithFullDescription(sarif.NewMultiformatMessageString().WithText(full)).
 		WithHelp(sarif.NewMultiformatMessageString().WithText(helpText).WithMarkdown(helpMD)).
@@ -285,7 +407,7 @@ func (b *builder) location(file string, r hcl.Range) (*sarif.Location, string) {
 // it on first use, with its URI and whether the URI is relative to SRCROOT.
 func (b *builder) artifact(file string) (int, string, bool) {
 	uri, base := b.uri(file)
-	if i, ok := b.artifacts[file]; ok {
+	if i, ok := b.artifacts[uri]; ok {
 		return i, uri, base
 	}
 	al := sarif.NewArtifactLocation().WithURI(uri)
@@ -300,7 +422,7 @@ func (b *builder) artifact(file string) (int, string, bool) {
 	}
 	i := len(b.run.Artifacts)
 	b.run.AddArtifact(a)
-	b.artifacts[file] = i
+	b.artifacts[uri] = i // each artifact once, however its file is spelt
 	return i, uri, base
 }
 
@@ -456,15 +578,34 @@ func (b *builder) message(f *rules.Finding) string {
 	return f.Text()
 }
 
-// fingerprint hashes what identifies a finding regardless of where its
-// block sits in the file: rule, artifact URI, reach, event, the span
-// rounded to 0.1 of the model's unit and the number-free message.
-func fingerprint(f rules.Finding, uri string) string {
-	span := "-"
-	if f.HasSpan {
-		span = fmt.Sprintf("%.1f..%.1f", baseline.RoundStation(f.FromStation), baseline.RoundStation(f.ToStation))
+// RuleName is the SARIF name of a rule: its id in upper camel case
+// ("max_velocity" → "MaxVelocity"), as SARIF asks of reportingDescriptor.name.
+func RuleName(id string) string {
+	var b strings.Builder
+	for _, part := range strings.FieldsFunc(id, func(r rune) bool { return r == '_' || r == '-' }) {
+		b.WriteString(strings.ToUpper(part[:1]) + part[1:])
 	}
-	key := strings.Join([]string{f.Rule, uri, f.Reach, f.Event, span, baseline.MessageFingerprint(f.Message)}, "\x00")
+	return b.String()
+}
+
+// HelpURI is where a rule is documented: its section of the README on the
+// project's home page (the heading "`id`", with " (always on)" for the
+// always-on rules, as the README spells them).
+func HelpURI(r *rules.Rule) string {
+	anchor := r.ID
+	if r.AlwaysOn {
+		anchor += "-always-on"
+	}
+	return InformationURI + "#" + anchor
+}
+
+// fingerprint hashes what identifies a finding regardless of where its
+// block sits in the file and of small hydraulic changes: rule, artifact
+// URI, reach, event and the number-free message. The station span is left
+// out, since a 1 % change of inflow moves span ends; findings that share
+// all of these are told apart by their occurrence count, in station order.
+func fingerprint(f rules.Finding, uri string) string {
+	key := strings.Join([]string{f.Rule, uri, f.Reach, f.Event, baseline.MessageFingerprint(f.Message)}, "\x00")
 	sum := sha256.Sum256([]byte(key))
 	return hex.EncodeToString(sum[:16])
 }

@@ -6,6 +6,7 @@ import (
 	"flag"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"github.com/chanlint/chanlint/policies"
@@ -219,11 +220,61 @@ func TestFingerprintsIgnoreLines(t *testing.T) {
 	for i := range base {
 		assert.Equal(t, fp(t, a, i), fp(t, b, i))
 	}
+	// A small hydraulic change (a span end moves, the measured value
+	// drifts) keeps every alert's identity; another kind of message does not.
 	changed := findings(t)
 	changed[0].ToStation = 4.5
+	changed[0].Value = 0.17
+	changed[0].Message = "freeboard 0.17 m is below the required 0.30 m"
 	c := render(t, input(t, changed))
-	assert.NotEqual(t, fp(t, a, 0), fp(t, c, 0), "a span that changes is another finding")
+	assert.Equal(t, fp(t, a, 0), fp(t, c, 0), "a span end that moves keeps the alert")
 	assert.Equal(t, fp(t, a, 1), fp(t, c, 1))
+	changed[0].Message = "the channel overtops here"
+	d := render(t, input(t, changed))
+	assert.NotEqual(t, fp(t, a, 0), fp(t, d, 0))
+}
+
+// The written log has no empty arrays (but a run's results, which SARIF
+// reads as "checked, nothing found"), each artifact once, and every rule
+// with a name and a help URI that points at its README section.
+func TestLogShape(t *testing.T) {
+	for _, fs := range [][]rules.Finding{nil, findings(t)} {
+		out := string(render(t, input(t, fs)))
+		for _, line := range strings.Split(out, "\n") {
+			if strings.HasSuffix(strings.TrimSpace(line), "[]") || strings.HasSuffix(strings.TrimSpace(line), "[],") {
+				assert.Contains(t, line, `"results": []`, "empty array: %s", line)
+			}
+		}
+		rep := validate(t, []byte(out))
+		seen := map[string]bool{}
+		for _, a := range rep.Runs[0].Artifacts {
+			assert.False(t, seen[*a.Location.URI], "artifact %s twice", *a.Location.URI)
+			seen[*a.Location.URI] = true
+		}
+		for _, r := range rep.Runs[0].Tool.Driver.Rules {
+			require.NotNil(t, r.Name, r.ID)
+			require.NotNil(t, r.HelpURI, r.ID)
+		}
+	}
+	assert.Equal(t, "MaxVelocity", RuleName("max_velocity"))
+}
+
+// Problems make the invocation unsuccessful and become error
+// notifications with their location, ahead of the caution.
+func TestProblemsAreNotifications(t *testing.T) {
+	in := input(t, nil)
+	in.Problems = []Problem{{Message: "team.policy.hcl:3:11: error: Invalid units", File: "/srv/drainage/team.policy.hcl",
+		Range: hcl.Range{Start: hcl.Pos{Line: 3, Column: 11}, End: hcl.Pos{Line: 3, Column: 19}}}}
+	rep := validate(t, render(t, in))
+	inv := rep.Runs[0].Invocations[0]
+	require.NotNil(t, inv.ExecutionSuccessful)
+	assert.False(t, *inv.ExecutionSuccessful)
+	require.Len(t, inv.ToolExecutionNotifications, 2)
+	n := inv.ToolExecutionNotifications[0]
+	assert.Equal(t, "error", n.Level)
+	assert.Contains(t, *n.Message.Text, "Invalid units")
+	assert.Equal(t, "team.policy.hcl", *n.Locations[0].PhysicalLocation.ArtifactLocation.URI)
+	assert.Equal(t, rules.Caution, *inv.ToolExecutionNotifications[1].Message.Text)
 }
 
 func TestDuplicateFindingsGetDistinctFingerprints(t *testing.T) {
