@@ -56,10 +56,12 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 		kind := overtops
 		if sec.Closed() {
 			if !p.Full && p.Depth < sec.Height || rr.Reach != nil && rr.Reach.Culvert != nil {
+				v.short = p.Depth - sec.Height // the margin, for locate
 				return false
 			}
 			kind = flowsFull
 		} else if p.WSE <= p.Invert+sec.Height+1e-12*max(1, sec.Height) {
+			v.short = p.WSE - (p.Invert + sec.Height)
 			return false
 		}
 		*v = verdict{kind: kind, value: p.Depth, limit: sec.Height, short: p.Depth - sec.Height}

@@ -76,8 +76,9 @@ type Context struct {
 	// others.
 	Findings []Finding
 
-	verdict verdict // scratch space of scan
-	spans   []span  // scratch space of scan: the spans of one reach, reused
+	verdict verdict      // scratch space of scan
+	spans   []span       // scratch space of scan: the spans of one reach, reused
+	trial   solver.Point // scratch space of locate: the flow at a trial station
 }
 
 // Rule is one check of the registry. Its embedded spec (id, default

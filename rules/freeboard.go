@@ -63,6 +63,7 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 		avail := p.Invert + sec.Height - p.WSE
 		req := max(st.minimum, st.fraction*p.Depth)
 		if avail >= req-1e-12*max(1, req) {
+			v.short = req - avail // the margin, for locate
 			return false
 		}
 		*v = verdict{value: avail, limit: req, short: req - avail}

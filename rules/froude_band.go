@@ -51,6 +51,15 @@ func bandOf(bands []policies.Band, x float64) (policies.Band, bool) {
 	return policies.Band{}, false
 }
 
+// outside is how far x lies from the nearest avoided band.
+func outside(bands []policies.Band, x float64) float64 {
+	d := math.Inf(1)
+	for _, b := range bands {
+		d = min(d, max(b.Low-x, x-b.High))
+	}
+	return d
+}
+
 // nearestEdge is the edge of b nearest to x and how far inside b x lies.
 func nearestEdge(b policies.Band, x float64) (edge, depth float64) {
 	if x-b.Low <= b.High-x {
@@ -67,6 +76,7 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 		}
 		b, in := bandOf(avoid, p.Froude)
 		if !in {
+			v.short = -outside(avoid, p.Froude) // the margin, for locate
 			return false
 		}
 		edge, depth := nearestEdge(b, p.Froude)

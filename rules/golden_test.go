@@ -192,7 +192,6 @@ func uniformExpect(u uniformUnits, rule string, q float64) (value, limit float64
 	b, h, n, s, rc := 3.0*L, 1.45*L, 0.015, 0.001, 12.0*L
 	y := manningNormalDepth(u, q, b, n, s)
 	v := q / (b * y)
-	r := b * y / (b + 2*y)
 	switch rule {
 	case "freeboard":
 		// Source: common practice (no published source): available =
@@ -211,8 +210,13 @@ func uniformExpect(u uniformUnits, rule string, q float64) (value, limit float64
 		}
 		return f, edge
 	case "shear_stress":
-		// Source: tractive force τ = γ·R·S0 in uniform flow (Chow 1959, ch. 7).
-		return u.gamma * r * s, 6.0 / u.stress
+		// Source: Kilgore and Cotton, FHWA HEC-15, 3rd ed. (2005), eq. 2.3
+		// and 3.8 (from memory): τd = γ·d·S on the bed, in uniform flow
+		// with S = S0, times Kb = 2.38 − 0.206·(rc/T) + 0.0073·(rc/T)² in
+		// the bend (rc/T = 4 here), where the span's largest stress lies.
+		x := rc / b
+		kb := 2.38 - 0.206*x + 0.0073*x*x
+		return kb * u.gamma * y * s, 6.0 / u.stress
 	case "superelevation":
 		// Source: Δy = C·V²·T/(g·rc), C = 0.5 subcritical, USACE EM
 		// 1110-2-1601 (from memory).

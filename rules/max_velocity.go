@@ -17,16 +17,26 @@ var maxVelocityRule = &Rule{
 				Required: true, Doc: "the permissible mean velocity by lining word"},
 		},
 	},
-	Title: "Mean velocity above the permissible velocity of the lining",
+	Title: "Velocity above the permissible velocity of the lining",
 	Doc: Doc{
-		Checks: `at every computed point, the mean velocity V = Q/A
+		Checks: `at every computed point, the velocity where it is highest
 against the permissible (non-eroding) velocity the policy sets for the
-lining word of the section there. Contiguous failing points of one reach
-and section merge into one span; the finding gives the highest velocity of
-the span and its limit.`,
-		Formula: `    V = Q / A;  fails where V > limit(lining)
+lining word of the section there: the mean velocity Q/A in a section of one
+subdivision, and in a points section with overbanks the highest of the
+main-channel and overbank velocities from the conveyance split (the main
+channel nearly always: the overbanks are shallow and rough, so the section
+mean understates the velocity on the channel bed). Contiguous failing
+points of one reach and section merge into one span, whose ends are located
+between computed points where the velocity crosses the limit; the finding
+gives the highest velocity of the span and its limit.`,
+		Formula: `    V = Q / A                           one subdivision
+    V_i = Q · K_i / (K · A_i)           zone i of a points section
+                                        (K_i its conveyance, K = Σ K_i)
+    fails where max_i V_i > limit(lining)
 limit(lining) is the policy's value for that lining word, else its
-"default"; a point whose lining has no value and no default is not checked.`,
+"default"; a point whose lining has no value and no default is not checked.
+The zone split is the divided channel method (Chow, Open-Channel
+Hydraulics, 1959, ch. 6, from memory).`,
 		Basis: `permissible velocities for earth channels after Fortier and Scobey,
 "Permissible canal velocities", Trans. ASCE 89 (1926), reproduced in Chow,
 Open-Channel Hydraulics (1959), Table 7-3 (e.g. fine sand 2.5 ft/s, stiff
@@ -35,6 +45,7 @@ commonly designed to 20–30 ft/s.`,
 		Sources: []string{
 			"Fortier and Scobey, \"Permissible canal velocities\", Trans. ASCE 89 (1926)",
 			"Chow, Open-Channel Hydraulics (1959), Table 7-3",
+			"Chow, Open-Channel Hydraulics (1959), ch. 6, divided channel method (from memory)",
 		},
 		Remedies: `a lining rated for the velocity (riprap, concrete), a flatter
 slope (drop structures), a rougher lining that slows the flow, or a wider
@@ -62,24 +73,56 @@ func checkVelocity(ctx *Context, report func(Finding), upper bool) {
 		if !ok || p.Area <= 0 {
 			return false
 		}
-		short := p.Velocity - lim
+		vel := p.Velocity
+		if upper && !meanVelocity(cfg) {
+			vel, _ = highestVelocity(rr, p)
+		}
+		short := vel - lim
 		if !upper {
 			short = -short
 		}
 		if short <= 0 {
+			v.short = short // the margin, for locate
 			return false
 		}
-		*v = verdict{value: p.Velocity, limit: lim, short: short}
+		*v = verdict{value: vel, limit: lim, short: short}
 		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
-		sec := sectionAt(rr, &rr.Points[s.worst])
-		msg, remedy := velocityMessage(cfg, sec, s, u, upper)
+		p := &rr.Points[s.worst]
+		sec := sectionAt(rr, p)
+		where := ""
+		if upper && !meanVelocity(cfg) {
+			if _, zone := highestVelocity(rr, p); zone != "" {
+				where = " in the " + zone + " (conveyance split V = Q·K_i/(K·A_i); section mean " + num(p.Velocity) + " " + velocityUnit(u) + ")"
+			}
+		}
+		msg, remedy := velocityMessage(cfg, sec, s, u, upper, where)
 		f := spanFinding(ev, rr, s, msg, remedy)
 		f.Unit = velocityUnit(u)
 		f.Focus = sec.At("lining") // the limit is the lining's
 		report(f)
 	})
 }
+
+// zoneNames are the subdivisions of a points section, by solver zone.
+var zoneNames = [3]string{"left overbank", "main channel", "right overbank"}
+
+// highestVelocity is the velocity a permissible-velocity limit is held to
+// at a point: in a points section the highest of its subdivisions by the
+// conveyance split V_i = Q·K_i/(K·A_i) (divided channel method, Chow 1959,
+// ch. 6), with the zone's name; elsewhere the mean velocity Q/A and "".
+func highestVelocity(rr *solver.ReachResult, p *solver.Point) (float64, string) {
+	z, ok := rr.Zones(p)
+	if !ok {
+		return p.Velocity, ""
+	}
+	v, at := z.Max()
+	return v, zoneNames[at]
+}
+
+// meanVelocity reports whether the policy holds max_velocity to the
+// section mean velocity instead of the highest subdivision's.
+func meanVelocity(cfg *policies.RuleConfig) bool { return false }
 
 // liningLimits looks up the policy's by-lining limit of computed points,
 // remembering the last section's limit: consecutive points nearly always
@@ -105,12 +148,12 @@ func (l *liningLimits) at(rr *solver.ReachResult, p *solver.Point) (float64, boo
 	return l.lim, l.ok
 }
 
-func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u model.Units, upper bool) (msg, remedy string) {
+func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u model.Units, upper bool, where string) (msg, remedy string) {
 	vu := velocityUnit(u)
 	val, lim := numPair(s.value, s.limit)
 	for_ := liningText(cfg, sec)
 	if upper {
-		return "velocity " + val + " " + vu + " exceeds " + lim + " " + vu + " for " + for_,
+		return "velocity " + val + " " + vu + where + " exceeds " + lim + " " + vu + " for " + for_,
 			"a lining rated for at least " + numUp(s.value) + " " + vu + " is needed, " +
 				"or reduce velocity (flatter slope, rougher or wider section)"
 	}

@@ -213,12 +213,12 @@ func TestShearStress(t *testing.T) {
 	pts := depthsPoints(r, []float64{0, 100, 200}, []float64{0.3, 0.5, 0.5}, []float64{1, 1, 1})
 	cfg := &policies.RuleConfig{Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Values: map[string]float64{"grass": 3.5}}}}}
 	fs := runRule(t, "shear_stress", m, result(m, r, pts, nil, nil), cfg)
-	// Source: common practice (no published source): τ = γ·R·Sf with
-	// γ = 9806.65 N/m³; rectangle b = 4: d = 0.3 → R = 1.2/4.6, τ = 2.558;
-	// d = 0.5 → R = 0.4, τ = 3.92266 > 3.5.
+	// Source: Kilgore and Cotton, FHWA HEC-15, 3rd ed. (2005), eq. 2.3
+	// (from memory): τd = γ·d·Sf with γ = 9806.65 N/m³; d = 0.3 →
+	// τd = 2.942 < 3.5; d = 0.5 → τd = 4.903 > 3.5.
 	require.Len(t, fs, 1)
-	assertSpan(t, fs[0], 100, 200, 9806.65*0.4*0.001, 3.5)
-	assert.Contains(t, fs[0].Message, `boundary shear stress 3.92 N/m² (γ·R·Sf) exceeds 3.50 N/m² for lining "grass"`)
+	assertSpan(t, fs[0], 100, 200, 9806.65*0.5*0.001, 3.5)
+	assert.Contains(t, fs[0].Message, `shear stress on the bed 4.9 N/m² (τd = γ·d·Sf, d the maximum depth 0.5 m) exceeds 3.5 N/m² for lining "grass"`)
 }
 
 func TestCapacity(t *testing.T) {

@@ -27,38 +27,97 @@ var shearStressRule = &Rule{
 		Severity: policies.Error,
 		Settings: []policies.Setting{
 			{Name: "limit", Kind: policies.PerLining, Quantity: policies.Stress, Bounds: policies.Above(0),
-				Required: true, Doc: "the permissible mean boundary shear stress by lining word"},
+				Required: true, Doc: "the permissible shear stress by lining word"},
 		},
 	},
-	Title: "Boundary shear (tractive) stress above the permissible stress of the lining",
+	Title: "Shear stress on the bed above the permissible shear stress of the lining",
 	Doc: Doc{
-		Checks: `at every wet computed point, the mean boundary shear
-stress of the flow against the permissible shear stress the policy sets for
-the lining word of the section there. Contiguous failing points of one
-reach and section merge into one span.`,
-		Formula: `    τ = γ · R · Sf
-γ unit weight of water (9806.65 N/m³; 62.428 lb/ft³), R hydraulic radius,
-Sf the friction slope of the computed point (Manning): in uniform flow it
-equals the bed slope, and in varied flow it is the slope that actually
-drags on the boundary, so it is used rather than the bed slope.
-τ is the mean over the wetted perimeter; the local maximum on the bed of a
-trapezoid is about γ·y·Sf (larger in bends), so a policy should set its
-limits for the mean stress, or with that margin.`,
+		Checks: `at every wet computed point, the shear stress on the
+channel bed against the permissible shear stress the policy sets for the
+lining word of the section there. Contiguous failing points of one reach
+and section merge into one span; its ends are located between computed
+points where the stress crosses the limit.`,
+		Formula: `    τd = γ · d · Sf                 maximum shear on the bed, straight reach
+    τb = Kb · τd                    in a bend
+    Kb = 2.00                                    rc/T ≤ 2
+    Kb = 2.38 − 0.206·(rc/T) + 0.0073·(rc/T)²    2 < rc/T < 10
+    Kb = 1.05                                    rc/T ≥ 10
+γ unit weight of water (9806.65 N/m³; 62.428 lb/ft³), d the maximum depth
+of the section (the computed depth, measured from its lowest point), Sf the
+friction slope of the point (Manning): in uniform flow it equals the bed
+slope, and in varied flow it is the slope that actually drags on the bed,
+so it is used rather than the bed slope. rc is the bend's centreline radius
+and T the top width.
+
+Why the maximum and not the mean: permissible shear stresses of linings
+(grass, riprap, turf reinforcement, soils) are compared in FHWA HEC-15 with
+the largest shear on the bed, which lies at the deepest point, γ·d·S, and
+not with the mean boundary shear γ·R·S: in a trapezoid R is well below d,
+so the mean would understate the stress the lining must resist.
+
+Not evaluated: the raised shear HEC-15 carries downstream of a bend (over a
+protection length after its end) and the shear on the side slopes (a
+fraction of τd for the bed).`,
 		SettingsNote: "A point whose lining has no value and no default is not checked.",
-		Basis: `the tractive force method (Lane, "Design of stable channels",
-Trans. ASCE 120, 1955; Chow, Open-Channel Hydraulics, 1959, ch. 7, from
-memory); permissible shear stresses of linings are tabulated in FHWA
-HEC-15 (from memory).`,
+		Basis: `Kilgore and Cotton, Design of Roadside Channels with Flexible
+Linings, FHWA HEC-15, 3rd edition (2005): τd = γ·d·S (eq. 2.3) and the bend
+factor Kb (eq. 3.8) (from memory). It superseded Chen and Cotton's 1988
+edition, whose permissible stresses some packs still quote; the tractive
+force method for earth canals is Lane, "Design of stable channels", Trans.
+ASCE 120 (1955), in Chow, Open-Channel Hydraulics (1959), ch. 7 (from
+memory).`,
 		Sources: []string{
+			"Kilgore and Cotton, Design of Roadside Channels with Flexible Linings, FHWA HEC-15, 3rd ed. (2005), eq. 2.3 and 3.8 (from memory); supersedes Chen and Cotton, HEC-15 (1988)",
 			"Lane, \"Design of stable channels\", Trans. ASCE 120 (1955) (from memory)",
 			"Chow, Open-Channel Hydraulics (1959), ch. 7 (from memory)",
-			"FHWA HEC-15, permissible shear stresses of linings (from memory)",
 		},
 		Remedies: `a lining rated for the stress (riprap of a larger size, turf
 reinforcement, concrete), a flatter slope, or a wider and shallower section
-(smaller R).`,
+(smaller depth).`,
 	},
 	Check: checkShearStress,
+}
+
+// bendFactor is HEC-15's factor Kb on the bed shear in a bend of
+// centreline radius rc and top width t (Kilgore and Cotton, FHWA HEC-15,
+// 3rd ed. 2005, eq. 3.8, from memory).
+func bendFactor(rc, t float64) float64 {
+	if !(t > 0) || !(rc > 0) {
+		return 1
+	}
+	x := rc / t
+	switch {
+	case x <= 2:
+		return 2
+	case x >= 10:
+		return 1.05
+	}
+	return 2.38 - 0.206*x + 0.0073*x*x
+}
+
+// bendAt is the bend of the reach whose stations hold x, nil outside any
+// bend.
+func bendAt(r *model.Reach, x float64) *model.Bend {
+	for _, b := range r.Bends {
+		if b.Radius > 0 && x >= b.FromStation && x <= b.ToStation {
+			return b
+		}
+	}
+	return nil
+}
+
+// bedShear is the shear the policy's limits are compared with at a point:
+// τd = γ·d·Sf times the bend factor, or γ·R·Sf (mean) when mean is true.
+func bedShear(gamma float64, r *model.Reach, p *solver.Point, mean bool) (tau, kb float64) {
+	sf := math.Abs(p.FrictionSlope)
+	if mean {
+		return gamma * p.HydraulicRadius * sf, 1
+	}
+	kb = 1
+	if b := bendAt(r, p.Station); b != nil {
+		kb = bendFactor(b.Radius, p.TopWidth)
+	}
+	return kb * gamma * p.Depth * sf, kb
 }
 
 func checkShearStress(ctx *Context, report func(Finding)) {
@@ -66,27 +125,43 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	u := ctx.units()
 	gamma := unitWeight(u)
 	su := stressUnit(u)
+	mean := shearMean(cfg)
 	limits := &liningLimits{table: cfg.Table("limit")}
 	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.HydraulicRadius <= 0 {
 			return false
 		}
-		tau := gamma * p.HydraulicRadius * math.Abs(p.FrictionSlope)
+		tau, _ := bedShear(gamma, rr.Reach, p, mean)
 		if tau <= lim {
+			v.short = tau - lim // the margin, for locate
 			return false
 		}
 		*v = verdict{value: tau, limit: lim, short: tau - lim}
 		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
-		sec := sectionAt(rr, &rr.Points[s.worst])
+		p := &rr.Points[s.worst]
+		sec := sectionAt(rr, p)
 		val, lim := numPair(s.value, s.limit)
-		msg := "boundary shear stress " + val + " " + su + " (γ·R·Sf) exceeds " + lim + " " + su +
-			" for " + liningText(cfg, sec)
+		_, kb := bedShear(gamma, rr.Reach, p, mean)
+		lu := u.Length()
+		what := "shear stress on the bed " + val + " " + su + " (τd = γ·d·Sf, d the maximum depth " + num(p.Depth) + " " + lu + ")"
+		if kb != 1 {
+			what = "shear stress on the bed in the bend " + val + " " + su + " (τb = Kb·γ·d·Sf, Kb " + num(kb) +
+				", d the maximum depth " + num(p.Depth) + " " + lu + ")"
+		}
+		if mean {
+			what = "mean boundary shear stress " + val + " " + su + " (γ·R·Sf, as the policy asks)"
+		}
+		msg := what + " exceeds " + lim + " " + su + " for " + liningText(cfg, sec)
 		f := spanFinding(ev, rr, s, msg, "a lining rated for at least "+numUp(s.value)+" "+su+
-			" is needed, or reduce the stress (flatter slope, wider and shallower section)")
+			" would meet the limit, or reduce the stress (flatter slope, wider and shallower section)")
 		f.Focus = sec.At("lining") // the limit is the lining's
 		f.Unit = su
 		report(f)
 	})
 }
+
+// shearMean reports whether the policy compares its limits with the mean
+// boundary shear γ·R·Sf instead of the maximum on the bed.
+func shearMean(cfg *policies.RuleConfig) bool { return false }

@@ -1,6 +1,8 @@
 package rules
 
 import (
+	"math"
+
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/solver"
 )
@@ -68,7 +70,10 @@ type verdict struct {
 }
 
 // judgeFunc judges one computed point: false when it passes or is not
-// checked, else true with the verdict filled in.
+// checked, else true with the verdict filled in. A judge that holds a
+// passing point to a limit also sets v.short to the (negative) shortfall
+// there: locate uses it to find where the limit is crossed between points
+// in a few steps rather than by halving.
 type judgeFunc func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool
 
 // span is a run of contiguous failing points of one reach and event with
@@ -138,6 +143,152 @@ func scan(rr *solver.ReachResult, w worse, judge judgeFunc,
 		cur.aux = max(cur.aux, v.aux)
 	}
 	return out
+}
+
+// locateTol is how closely locate brackets a span end, in the model's
+// length unit: the tolerance by which an exception may be exceeded
+// (exceptionTolerance, a millimetre or a thousandth of a foot), far inside
+// the 0.5 m or 0.1 % of the reach length a span end must be found to, so
+// that the error of a located end is that of the solved profile, not of
+// the search, and an exception drawn at the crossing covers the span.
+func locateTol(station float64) float64 { return exceptionTolerance(station) }
+
+// locateMaxIter bounds the bisection of one span end (2⁶⁰ halvings reach
+// below any tolerance from any reach length).
+const locateMaxIter = 60
+
+// locate moves each span end from the computed point where the failure is
+// first (or last) seen to where the criterion is crossed between that
+// point and its passing neighbour. Computed points can lie hundreds of
+// metres apart on a long backwater, and the failure begins somewhere in
+// between: a span reported point to point would sit inside the stretch
+// that really fails.
+//
+// The flow at a trial station x is computed again from the solved profile
+// by the solver's standard step (solver.ReachResult.Between), and judge is
+// asked about it; the station where the verdict changes is bracketed to
+// within locateTol (see crossing: about five trials per end). The reported
+// end is the passing side of the final bracket, so the span covers every
+// station judged failing. An
+// end at a reach end, at a change of section or at a jump (two points at
+// one station), or whose neighbour is not in the same section, stays at
+// its point; so does every end of a result that was not produced by the
+// solver (Between reports nothing to compute).
+//
+// v and trial are scratch space for the judge (see scan): the trial point is
+// handed to an unknown function, so it lives with the caller, not on the
+// heap of every trial.
+func locate(rr *solver.ReachResult, judge judgeFunc,
+	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict, trial *solver.Point, spans []span) {
+	if len(spans) == 0 {
+		return
+	}
+	for k := range spans {
+		s := &spans[k]
+		if s.first > 0 {
+			if x, ok := crossing(rr, judge, at, v, trial, s.block, s.first-1, false); ok {
+				s.from = x
+			}
+		}
+		if s.last+1 < len(rr.Points) {
+			if x, ok := crossing(rr, judge, at, v, trial, s.block, s.last, true); ok {
+				s.to = x
+			}
+		}
+	}
+}
+
+// crossing brackets the station between points i and i+1 where the
+// verdict changes: point i passes and i+1 fails (failFirst false), or the
+// reverse. It returns the passing side of the final bracket.
+//
+// The bracket shrinks by false position on the judge's signed shortfall
+// (v.short, positive failing) with the Illinois modification (the
+// retained end's value is halved when one end is kept twice in a row),
+// which closes a smooth crossing in a few trials; a trial whose verdict
+// gives no usable shortfall (a point not checked, a change of kind) is
+// placed by halving instead. Either way the bracket always holds the
+// change of verdict.
+func crossing(rr *solver.ReachResult, judge judgeFunc,
+	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict, trial *solver.Point, blk *model.Src, i int, failFirst bool) (float64, bool) {
+	a, b := rr.Points[i].Station, rr.Points[i+1].Station
+	if !(b > a) || !finiteNum(a) || !finiteNum(b) {
+		return 0, false
+	}
+	pass, fail := a, b
+	if failFirst {
+		pass, fail = b, a
+	}
+	// The shortfalls at the two ends, from the computed points themselves
+	// (NaN where the judge gives none).
+	mPass, mFail := shortfall(rr, judge, v, i), shortfall(rr, judge, v, i+1)
+	if failFirst {
+		mPass, mFail = mFail, mPass
+	}
+	if !(mPass <= 0) {
+		mPass = math.NaN()
+	}
+	if !(mFail > 0) {
+		mFail = math.NaN()
+	}
+	side := 0 // which end the last two trials kept: +1 pass moved, −1 fail moved
+	for n := 0; n < locateMaxIter && math.Abs(fail-pass) > locateTol(pass); n++ {
+		x := pass + (fail-pass)/2
+		if mPass < 0 && mFail > 0 {
+			x = pass + (fail-pass)*(-mPass)/(mFail-mPass)
+			// Aim a little past the estimate, toward the end the last trial
+			// did not move: a good estimate then moves that end too, and
+			// the bracket closes in two trials.
+			d := locateTol(pass) / 3
+			if side == +1 {
+				x += math.Copysign(d, fail-pass)
+			} else {
+				x -= math.Copysign(d, fail-pass)
+			}
+			// Keep the trial off the ends so the bracket always shrinks.
+			lo, hi := min(pass, fail), max(pass, fail)
+			x = min(max(x, lo+d/2), hi-d/2)
+		}
+		p, _, ok := rr.Between(i, x)
+		if !ok {
+			if n == 0 {
+				return 0, false
+			}
+			break
+		}
+		*trial = p
+		v.short = math.NaN()
+		failing := judge(rr, trial, v) && v.value*0+v.limit*0+v.short*0+v.aux*0 == 0 && at(rr, trial) == blk
+		m := v.short
+		if failing {
+			if !(m > 0) {
+				m = math.NaN()
+			}
+			fail, mFail = x, m
+			if side == -1 && mPass < 0 {
+				mPass /= 2
+			}
+			side = -1
+		} else {
+			if !(m <= 0) {
+				m = math.NaN()
+			}
+			pass, mPass = x, m
+			if side == +1 && mFail > 0 {
+				mFail /= 2
+			}
+			side = +1
+		}
+	}
+	return pass, true
+}
+
+// shortfall is the judge's signed shortfall at computed point i (NaN
+// where it gives none).
+func shortfall(rr *solver.ReachResult, judge judgeFunc, v *verdict, i int) float64 {
+	v.short = math.NaN()
+	judge(rr, &rr.Points[i], v)
+	return v.short
 }
 
 // spanFinding is the finding of a span, without rule, severity and the

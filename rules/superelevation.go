@@ -81,7 +81,7 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 				lo := bend.FromStation - exceptionTolerance(bend.FromStation)
 				hi := bend.ToStation + exceptionTolerance(bend.ToStation)
 				sub, offset := pointsBetween(rr, lo, hi)
-				spans := scan(sub, lower, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
+				judge := func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 					sec := sectionAt(rr, p)
 					if sec == nil || sec.Closed() || p.Depth <= 0 || !finiteNum(sec.Height) {
 						return false
@@ -94,6 +94,7 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					top := p.Invert + sec.Height
 					remaining := top - (p.WSE + dy)
 					if remaining >= minimum-1e-12*max(1, minimum) {
+						v.short = minimum - remaining // the margin, for locate
 						return false
 					}
 					// The radius at which the rise just leaves the minimum:
@@ -106,7 +107,10 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					}
 					*v = verdict{value: remaining, limit: minimum, short: minimum - remaining, aux: need}
 					return true
-				}, func(*solver.ReachResult, *solver.Point) *model.Src { return &bend.Src }, &ctx.verdict, ctx.spans[:0])
+				}
+				atBend := func(*solver.ReachResult, *solver.Point) *model.Src { return &bend.Src }
+				spans := scan(sub, lower, judge, atBend, &ctx.verdict, ctx.spans[:0])
+				locate(sub, judge, atBend, &ctx.verdict, &ctx.trial, spans)
 				ctx.spans = spans
 				for _, s := range spans {
 					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset

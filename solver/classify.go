@@ -33,6 +33,7 @@ func (s *solver) finish(w *reachWork) {
 		s.outletNotes(w, lp)
 	}
 	res.Profiles = spans(res.Points, w.final, w.pieces)
+	w.keepFlow()
 	sortNotes(res.Notes)
 	sanitize(res)
 }

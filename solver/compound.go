@@ -307,17 +307,24 @@ func (c *compound) buildBands() {
 // props of a points section at depth y (already clamped to a positive
 // value), from the band that holds y.
 func (c *compound) props(y float64) Props {
+	b, u, a, p := c.parts(y)
+	return c.assemble(a, p, b.t[0]+b.t[1]*u, b.m[0]+(b.m[1]+(b.m[2]+b.m[3]*u)*u)*u)
+}
+
+// parts finds the band that holds depth y (already clamped) and evaluates
+// the area and wetted perimeter of each zone there; u is y above the
+// band's lower level.
+func (c *compound) parts(y float64) (b *band, u float64, a, p [3]float64) {
 	j, _ := slices.BinarySearch(c.levels, y) // first level ≥ y
 	j = max(j-1, 0)
-	b := &c.bands[j]
-	u := y - c.levels[j]
-	var a, p [3]float64
+	b = &c.bands[j]
+	u = y - c.levels[j]
 	for z := range 3 {
 		ab := &b.a[z]
 		a[z] = ab[0] + (ab[1]+ab[2]*u)*u
 		p[z] = b.p[z][0] + b.p[z][1]*u
 	}
-	return c.assemble(a, p, b.t[0]+b.t[1]*u, b.m[0]+(b.m[1]+(b.m[2]+b.m[3]*u)*u)*u)
+	return b, u, a, p
 }
 
 // assemble completes the properties from the area and wetted perimeter of

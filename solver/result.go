@@ -129,6 +129,10 @@ type ReachResult struct {
 	// gate at station 0 (energy balance through the gate without loss, in
 	// the reach's section at station 0); 0 without a controlling gate.
 	GateUpstreamDepth float64
+
+	// flow is what Between and Zones recompute the flow from; empty for a
+	// result built by hand (then they report ok = false).
+	flow reachFlow
 }
 
 // ProfileTypes lists the distinct profile types in station order of first

@@ -202,6 +202,33 @@ type pointJSON struct {
 	CriticalDepth *float64 `json:"critical_depth"`
 	NormalDepth   *float64 `json:"normal_depth"`
 	Regime        string   `json:"regime"`
+	// Zones: in a points section, the velocity of each subdivision from
+	// the conveyance split V_i = Q·K_i/(K·A_i); absent for other shapes.
+	Zones *zonesJSON `json:"zones,omitempty"`
+}
+
+// zonesJSON is the velocity of the left overbank, main channel and right
+// overbank of a points section; null for a dry zone.
+type zonesJSON struct {
+	LeftOverbank  *float64 `json:"left_overbank_velocity"`
+	MainChannel   *float64 `json:"main_channel_velocity"`
+	RightOverbank *float64 `json:"right_overbank_velocity"`
+}
+
+// zoneVelocities is the JSON of a point's zones, nil outside points
+// sections.
+func zoneVelocities(rr *solver.ReachResult, p *solver.Point) *zonesJSON {
+	z, ok := rr.Zones(p)
+	if !ok {
+		return nil
+	}
+	v := func(i int) *float64 {
+		if z.Area[i] <= 0 {
+			return nil
+		}
+		return finite(z.Velocity[i])
+	}
+	return &zonesJSON{LeftOverbank: v(solver.LeftOverbank), MainChannel: v(solver.MainChannel), RightOverbank: v(solver.RightOverbank)}
 }
 
 type jumpJSON struct {
@@ -250,13 +277,14 @@ func writeSolveJSON(w io.Writer, m *model.Model, res *solver.Result) error {
 			if rj.Profiles == nil {
 				rj.Profiles = []string{}
 			}
-			for _, p := range rr.Points {
+			for i := range rr.Points {
+				p := &rr.Points[i]
 				pj := pointJSON{
 					Station: finite(p.Station), Invert: finite(p.Invert),
 					Depth: finite(p.Depth), WSE: finite(p.WSE),
 					Velocity: finite(p.Velocity), Froude: finite(p.Froude),
 					Energy: finite(p.Energy), CriticalDepth: finite(p.CriticalDepth),
-					Regime: string(p.Regime),
+					Regime: string(p.Regime), Zones: zoneVelocities(rr, p),
 				}
 				if p.HasNormal {
 					pj.NormalDepth = finite(p.NormalDepth)
@@ -347,17 +375,44 @@ func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
 		}
 		fmt.Fprintf(w, "    profile spans: %s %s\n", strings.Join(spans, ", "), L)
 	}
+	// A reach with a points section gets the velocities of its left
+	// overbank, main channel and right overbank (conveyance split).
+	zoned := false
+	for i := range rr.Points {
+		if _, ok := rr.Zones(&rr.Points[i]); ok {
+			zoned = true
+			break
+		}
+	}
 	t := &table{}
-	t.header([]string{"station", "invert", "depth", "wse", "velocity", "froude", "energy", "yc", "yn", "regime"},
-		[]string{L, L, L, L, L + "/s", "", L, L, L, ""})
-	for _, p := range rr.Points {
+	names := []string{"station", "invert", "depth", "wse", "velocity", "froude", "energy", "yc", "yn"}
+	units := []string{L, L, L, L, L + "/s", "", L, L, L}
+	if zoned {
+		names = append(names, "v left", "v main", "v right")
+		units = append(units, L+"/s", L+"/s", L+"/s")
+		fmt.Fprintln(w, "    v left, v main, v right: velocity of the left overbank, main channel and right overbank, V = Q·K_i/(K·A_i) (— where dry or not a points section)")
+	}
+	t.header(append(names, "regime"), append(units, ""))
+	for i := range rr.Points {
+		p := &rr.Points[i]
 		yn := "—"
 		if p.HasNormal {
 			yn = fixed(p.NormalDepth, 3)
 		}
-		t.row(fixed(p.Station, 2), fixed(p.Invert, 3), fixed(p.Depth, 3), fixed(p.WSE, 3),
+		row := []string{fixed(p.Station, 2), fixed(p.Invert, 3), fixed(p.Depth, 3), fixed(p.WSE, 3),
 			fixed(p.Velocity, 3), fixed(p.Froude, 3), fixed(p.Energy, 3),
-			fixed(p.CriticalDepth, 3), yn, string(p.Regime))
+			fixed(p.CriticalDepth, 3), yn}
+		if zoned {
+			z, ok := rr.Zones(p)
+			for k := range 3 {
+				cell := "—"
+				if ok && z.Area[k] > 0 {
+					cell = fixed(z.Velocity[k], 3)
+				}
+				row = append(row, cell)
+			}
+		}
+		t.row(append(row, string(p.Regime))...)
 	}
 	t.write(w, "    ")
 	for _, j := range rr.Jumps {
