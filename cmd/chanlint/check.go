@@ -3,7 +3,6 @@ package main
 import (
 	"bufio"
 	"bytes"
-	"errors"
 	"flag"
 	"fmt"
 	"github.com/hashicorp/hcl/v2"
@@ -12,21 +11,19 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
-	"runtime/debug"
 	"slices"
 	"strconv"
 	"strings"
 	"sync"
-	"sync/atomic"
 	"time"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/baseline"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/sarifout"
 	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
-	"github.com/chanlint/chanlint/solver"
 )
 
 // progressThreshold is the number of files from which `check` and
@@ -103,30 +100,6 @@ baseline, or a wrong command line.
 `
 }
 
-// fileResult is what is learnt about one model file and kept for the
-// output. The model and its solution are kept only when asked for (by
-// `report`): `check` needs only the findings, the length unit and, for
-// snippets and SARIF, the source bytes, and dropping the rest as soon as
-// the rules have run bounds the memory of a large run.
-type fileResult struct {
-	file     modelFile
-	src      []byte
-	model    *model.Model
-	result   *solver.Result
-	units    string // the model's length unit; "" when there is no model
-	findings []rules.Finding
-	invalid  bool
-}
-
-// keep says what checkFile keeps of a file besides its findings.
-type keep struct {
-	// solved keeps the model and its solution.
-	solved bool
-	// source keeps the source bytes of a valid model; an invalid model's
-	// source is always kept, for the snippets under its diagnostics.
-	source bool
-}
-
 func (a *app) runCheck(args []string) int {
 	c := findCommand("check")
 	cf, fs := newCheckFlags()
@@ -190,7 +163,7 @@ func (a *app) runCheck(args []string) int {
 
 	// Only SARIF needs the source of a valid model (artifact lengths,
 	// hashes and character offsets).
-	results := a.checkPaths(paths, pol, cf.jobs, keep{source: cf.format.value == "sarif"})
+	results := a.checkPaths(paths, pol, cf.jobs, pipeline.Keep{Source: cf.format.value == "sarif"})
 	if len(results) == 0 {
 		// Nothing checked is never a pass: a renamed or misplaced model
 		// must not turn a failing design into a clean run.
@@ -198,10 +171,10 @@ func (a *app) runCheck(args []string) int {
 	}
 
 	// The findings to show: a baseline hides those it records.
-	view := a.applyBaseline(results, known)
+	view := pipeline.ApplyBaseline(results, known, a.cwd)
 
 	run := checkRun{
-		app: a, results: results, shown: view.shown, policy: pol,
+		app: a, results: results, shown: view.Shown, policy: pol,
 		view: view, baselinePath: cf.baseline,
 	}
 	// The output goes straight to stdout, not through a buffer of its
@@ -247,41 +220,27 @@ func (a *app) runCheck(args []string) int {
 // jobs workers (0: the default). Path problems become invalid results; the
 // results are in discovery order, whatever the number of workers; k says
 // what each keeps besides its findings.
-func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k keep) []*fileResult {
-	files, problems := a.discover(paths)
-	results := make([]*fileResult, 0, len(problems)+len(files))
+func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipeline.Keep) []*pipeline.Result {
+	found, problems := a.discover(paths)
+	results := make([]*pipeline.Result, 0, len(problems)+len(found))
 	for _, p := range problems {
-		results = append(results, &fileResult{
-			file:     modelFile{display: p.display},
-			invalid:  true,
-			findings: []rules.Finding{inputFinding(p.display, "cannot read: "+p.err.Error())},
-		})
+		results = append(results, pipeline.Unreadable(p.display, p.err))
 	}
-	checked := make([]*fileResult, len(files))
+	files := make([]pipeline.File, len(found))
+	for i, f := range found {
+		files[i] = f.pipelineFile()
+	}
 	if jobs == 0 {
 		jobs = a.defaultJobs
 	}
 	prog := a.newProgress(len(files))
-	stderr := &lockedWriter{w: a.stderr}
-	parallel(len(files), jobs, func(i int) {
-		checked[i] = checkFile(files[i], pol, k, stderr)
-		prog.step()
-	})
+	checked := pipeline.CheckFiles(files, pol, pipeline.Options{Keep: k, Stderr: a.stderr}, jobs, prog.step)
 	prog.done()
 	return append(results, checked...)
 }
 
-// lockedWriter serialises the writes of the workers to one stream.
-type lockedWriter struct {
-	mu sync.Mutex
-	w  io.Writer
-}
-
-func (l *lockedWriter) Write(p []byte) (int, error) {
-	l.mu.Lock()
-	defer l.mu.Unlock()
-	return l.w.Write(p)
-}
+// pipelineFile is the file as the pipeline names it.
+func (f modelFile) pipelineFile() pipeline.File { return pipeline.File{Name: f.display, Path: f.abs} }
 
 // orDot is paths, or "." when there are none.
 func orDot(paths []string) []string {
@@ -289,31 +248,6 @@ func orDot(paths []string) []string {
 		return []string{"."}
 	}
 	return paths
-}
-
-// parallel calls fn(i) for every i in [0, n) on at most jobs goroutines.
-func parallel(n, jobs int, fn func(i int)) {
-	jobs = max(1, min(jobs, n))
-	if jobs == 1 {
-		for i := range n {
-			fn(i)
-		}
-		return
-	}
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range jobs {
-		wg.Go(func() {
-			for {
-				i := int(next.Add(1)) - 1
-				if i >= n {
-					return
-				}
-				fn(i)
-			}
-		})
-	}
-	wg.Wait()
 }
 
 // progress prints "checked 120/1000 files" on stderr while a long run
@@ -356,194 +290,13 @@ func (p *progress) done() {
 	fmt.Fprint(p.w, "\r\033[K")
 }
 
-// inputFinding is the `model` finding of a file that could not be read.
-func inputFinding(file, msg string) rules.Finding {
-	return rules.Finding{Rule: "model", Severity: policies.Error, Message: msg, File: file}
-}
-
-// checkFile loads, solves and checks one model, keeping what k asks for.
-// It never panics: a failure of a later stage is reported as a finding of
-// the file, with a fixed message so that the output stays deterministic;
-// the stack goes to stderr for the bug report.
-func checkFile(f modelFile, pol *policies.Policy, k keep, stderr io.Writer) (r *fileResult) {
-	r = &fileResult{file: f}
-	defer func() {
-		if v := recover(); v != nil {
-			fmt.Fprintf(stderr, "chanlint: internal error while checking %s: %v\n%s", f.display, v, debug.Stack())
-			r.invalid = true
-			r.findings = append(r.findings, panicFinding(f.display, v))
-		}
-		if !k.solved {
-			r.model, r.result = nil, nil
-		}
-		if !k.source && !r.invalid {
-			r.src = nil
-		}
-	}()
-	r.src, r.model, r.findings, r.invalid = loadModel(f)
-	if r.invalid {
-		return r
-	}
-	r.units = r.model.Units.Length()
-	res, err := solver.Solve(r.model, solver.Options{})
-	if err != nil {
-		r.invalid = true
-		r.findings = append(r.findings, solverLimitFinding(r.model, err))
-		return r
-	}
-	r.result = res
-	r.findings = append(r.findings, checkRules(r.model, res, pol)...)
-	return r
-}
-
-// checkRules is the rules stage of checkFile; a variable so that a test
-// can make the stage fail.
-var checkRules = rules.Check
-
-// panicFinding is the finding of a file whose check ended in a recovered
-// panic v. The message holds v (a fixed text or a runtime error, the same
-// on every run) but never the stack, whose addresses and goroutine
-// numbers vary between runs.
-func panicFinding(file string, v any) rules.Finding {
-	return rules.Finding{
-		Rule: "solver", Severity: policies.Error, File: file,
-		Message: fmt.Sprintf("internal error while checking this model: %v; please report it with the model file and the stack printed on stderr", v),
-	}
-}
-
-// loadModel reads and parses one model file. invalid is true when there
-// is no usable model; findings hold the diagnostics (errors, or warnings
-// of a valid model).
-func loadModel(f modelFile) (src []byte, m *model.Model, findings []rules.Finding, invalid bool) {
-	src, diags := model.ReadFile(f.abs)
-	if diags.HasErrors() {
-		// ReadFile names the file by the absolute path it was given.
-		for _, d := range diags {
-			if d.Subject != nil {
-				d.Subject.Filename = f.display
-			}
-			d.Detail = strings.ReplaceAll(d.Detail, f.abs, f.display)
-		}
-		return nil, nil, rules.FromDiagnostics(f.display, diags), true
-	}
-	m, diags = model.Parse(f.display, src)
-	if len(diags) > 0 {
-		findings = rules.FromDiagnostics(f.display, diags)
-	}
-	if m == nil || diags.HasErrors() {
-		if len(findings) == 0 {
-			findings = []rules.Finding{inputFinding(f.display, "not a valid model")}
-		}
-		return src, nil, findings, true
-	}
-	return src, m, findings, false
-}
-
-// solverLimitFinding reports a model the solver refused to finish because
-// it exceeds a size limit.
-func solverLimitFinding(m *model.Model, err error) rules.Finding {
-	msg := "cannot solve the model: " + err.Error()
-	if errors.Is(err, solver.ErrTooManyPoints) {
-		msg += "; shorten the reaches, raise max_spacing or split the model"
-	}
-	return rules.Finding{
-		Rule: "solver", Severity: policies.Error, File: m.File,
-		Range: m.UnitsRange, Message: msg,
-	}
-}
-
-// baselineView is a check's findings seen through a baseline: those to
-// show (by display path), with the match of each (parallel slices; nil
-// without a baseline), the match of every finding of each file (parallel
-// to its findings, for SARIF's baselineState), how many the baseline hid
-// and the entries no finding matched.
-type baselineView struct {
-	shown map[string][]rules.Finding
-	marks map[string][]baseline.Match
-	every map[string][]baseline.Match
-	known int
-	stale []baseline.Entry
-}
-
-// applyBaseline hides the findings a baseline records. Invalid files are
-// never filtered: their diagnostics always show. Excepted findings are
-// never matched, so they show as excepted.
-func (a *app) applyBaseline(results []*fileResult, b *baseline.Baseline) baselineView {
-	v := baselineView{shown: map[string][]rules.Finding{}}
-	if b == nil {
-		for _, r := range results {
-			v.shown[r.file.display] = r.findings
-		}
-		return v
-	}
-	v.marks = map[string][]baseline.Match{}
-	v.every = map[string][]baseline.Match{}
-	var all []rules.Finding
-	for _, r := range results {
-		if r.invalid {
-			v.shown[r.file.display] = r.findings
-			v.marks[r.file.display] = make([]baseline.Match, len(r.findings))
-			v.every[r.file.display] = v.marks[r.file.display]
-			continue
-		}
-		all = append(all, r.findings...)
-	}
-	rebased, _ := a.rebase(all, filepath.Dir(a.abs(b.Path)))
-	matches, stale := b.Compare(rebased)
-	v.stale = stale
-	i := 0
-	for _, r := range results {
-		if r.invalid {
-			continue
-		}
-		d := r.file.display
-		v.every[d] = matches[i : i+len(r.findings)]
-		for k, f := range r.findings {
-			m := matches[i+k]
-			if m.State.Known() {
-				v.known++
-				continue
-			}
-			v.shown[d] = append(v.shown[d], f)
-			v.marks[d] = append(v.marks[d], m)
-		}
-		i += len(r.findings)
-	}
-	return v
-}
-
-// rebase returns copies of findings whose File is relative to dir (the
-// directory of the baseline file), so that a baseline matches whatever
-// directory chanlint runs in, and the map back to the printed paths.
-func (a *app) rebase(findings []rules.Finding, dir string) ([]rules.Finding, map[string]string) {
-	out := make([]rules.Finding, len(findings))
-	back := map[string]string{}
-	for i, f := range findings {
-		rel, err := filepath.Rel(dir, a.abs(filepath.FromSlash(f.File)))
-		if err == nil {
-			back[filepath.ToSlash(rel)] = f.File
-			f.File = filepath.ToSlash(rel)
-		} else {
-			back[f.File] = f.File
-		}
-		out[i] = f
-	}
-	return out, back
-}
-
 // writeBaselineFile records the findings of the valid files in path, with
 // file names relative to the baseline's directory, replacing it atomically.
 // It returns how many it recorded and how many it left out because a
 // design exception covers them.
-func (a *app) writeBaselineFile(path string, results []*fileResult) (n, excepted int, err error) {
-	var all []rules.Finding
-	for _, r := range results {
-		if !r.invalid {
-			all = append(all, r.findings...)
-		}
-	}
+func (a *app) writeBaselineFile(path string, results []*pipeline.Result) (n, excepted int, err error) {
 	abs := a.abs(path)
-	all, _ = a.rebase(all, filepath.Dir(abs))
+	all := pipeline.BaselineFindings(results, abs, a.cwd)
 	var buf bytes.Buffer
 	n, err = baseline.Write(&buf, all)
 	if err != nil {
@@ -555,10 +308,10 @@ func (a *app) writeBaselineFile(path string, results []*fileResult) (n, excepted
 // writeOutput replaces the file at abs with data (see safefile.Write): a
 // failed write leaves the previous file intact, a target that is not a
 // regular file is refused, and so is one of the run's input models.
-func (a *app) writeOutput(abs string, data []byte, inputs []*fileResult) error {
+func (a *app) writeOutput(abs string, data []byte, inputs []*pipeline.Result) error {
 	for _, r := range inputs {
-		if r.file.abs != "" && safefile.SameFile(abs, r.file.abs) {
-			return fmt.Errorf("%w (%s)", safefile.ErrInput, r.file.display)
+		if r.File.Path != "" && safefile.SameFile(abs, r.File.Path) {
+			return fmt.Errorf("%w (%s)", safefile.ErrInput, r.File.Name)
 		}
 	}
 	return describePathError(safefile.Write(abs, data))
@@ -567,10 +320,10 @@ func (a *app) writeOutput(abs string, data []byte, inputs []*fileResult) error {
 // checkRun is one finished check, ready to render.
 type checkRun struct {
 	app          *app
-	results      []*fileResult
+	results      []*pipeline.Result
 	shown        map[string][]rules.Finding // by display path
 	policy       *policies.Policy
-	view         baselineView
+	view         pipeline.View
 	baselinePath string
 	problems     []sarifout.Problem // why the setup failed (SARIF only)
 }
@@ -585,10 +338,10 @@ func (c *checkRun) tally() tally {
 	var t tally
 	for _, r := range c.results {
 		t.files++
-		if r.invalid {
+		if r.Invalid {
 			t.invalid++
 		}
-		for _, f := range c.shown[r.file.display] {
+		for _, f := range c.shown[r.File.Name] {
 			switch {
 			case f.Excepted:
 				t.excepted++
@@ -609,7 +362,7 @@ func (c *checkRun) tally() tally {
 // today's findings, so it exits 0 unless input is invalid.
 func (c *checkRun) exitCode(failOn policies.Severity, writingBaseline bool) int {
 	for _, r := range c.results {
-		if r.invalid {
+		if r.Invalid {
 			return exitInvalid
 		}
 	}
@@ -626,22 +379,14 @@ func (c *checkRun) exitCode(failOn policies.Severity, writingBaseline bool) int 
 	return exitOK
 }
 
-// unit is the length unit of a file's model ("m" when unknown).
-func (r *fileResult) unit() string {
-	if r.units != "" {
-		return r.units
-	}
-	return "m"
-}
-
 func (c *checkRun) writeText(w io.Writer, p *palette) {
 	any := false
 	for _, r := range c.results {
-		d := r.file.display
+		d := r.File.Name
 		for i := range c.shown[d] {
-			writeFindingText(w, &c.shown[d][i], r.src, r.unit(), p)
-			if c.view.marks != nil && c.view.marks[d][i].State == baseline.Worse {
-				writeContinuation(w, "baseline", worseText(&c.shown[d][i], c.view.marks[d][i].Entry), p)
+			writeFindingText(w, &c.shown[d][i], r.Src, r.Unit(), p)
+			if c.view.Marks != nil && c.view.Marks[d][i].State == baseline.Worse {
+				writeContinuation(w, "baseline", worseText(&c.shown[d][i], c.view.Marks[d][i].Entry), p)
 			}
 			any = true
 		}
@@ -659,11 +404,11 @@ func (c *checkRun) writeText(w io.Writer, p *palette) {
 		plural(t.infos, "info", "info"), t.excepted))
 	if c.baselinePath != "" {
 		fmt.Fprintf(w, "baseline: %s recorded in %s not shown\n",
-			plural(c.view.known, "known finding", "known findings"), c.baselinePath)
-		if n := len(c.view.stale); n > 0 {
+			plural(c.view.Known, "known finding", "known findings"), c.baselinePath)
+		if n := len(c.view.Stale); n > 0 {
 			fmt.Fprintf(w, "baseline: %s no longer found (write the baseline again to drop %s):\n",
 				plural(n, "entry", "entries"), map[bool]string{true: "it", false: "them"}[n == 1])
-			for _, e := range c.view.stale {
+			for _, e := range c.view.Stale {
 				fmt.Fprintf(w, "    %s\n", staleText(e))
 			}
 		}
@@ -689,43 +434,43 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 		ToolVersion: toolVersion(),
 	}
 	in.Problems = c.problems
-	if c.view.every != nil {
+	if c.view.Every != nil {
 		in.BaselineStates = []string{}
 	}
 	for _, r := range c.results {
-		abs := r.file.abs
+		abs := r.File.Path
 		if abs == "" {
-			abs = c.app.abs(filepath.FromSlash(r.file.display))
+			abs = c.app.abs(filepath.FromSlash(r.File.Name))
 		}
-		if c.view.every == nil {
-			for _, f := range c.shown[r.file.display] {
+		if c.view.Every == nil {
+			for _, f := range c.shown[r.File.Name] {
 				f.File = abs
 				in.Findings = append(in.Findings, f)
 			}
 		} else {
 			// With a baseline every finding is a result: known ones are
 			// "unchanged", the others (much worse ones too) "new".
-			for i, f := range r.findings {
+			for i, f := range r.Findings {
 				f.File = abs
 				in.Findings = append(in.Findings, f)
 				state := "new"
-				if c.view.every[r.file.display][i].State.Known() {
+				if c.view.Every[r.File.Name][i].State.Known() {
 					state = "unchanged"
 				}
 				in.BaselineStates = append(in.BaselineStates, state)
 			}
 		}
-		if r.invalid && len(r.findings) > 0 {
-			f := r.findings[0]
+		if r.Invalid && len(r.Findings) > 0 {
+			f := r.Findings[0]
 			in.Problems = append(in.Problems, sarifout.Problem{
-				Message: r.file.display + ": not checked: " + f.Message,
+				Message: r.File.Name + ": not checked: " + f.Message,
 				File:    abs, Range: f.Pos(),
 			})
 		}
-		if r.src != nil {
-			in.Sources[abs] = r.src
+		if r.Src != nil {
+			in.Sources[abs] = r.Src
 		}
-		in.Units[abs] = r.unit()
+		in.Units[abs] = r.Unit()
 	}
 	return sarifout.Write(w, in)
 }

@@ -127,16 +127,16 @@ func (c *checkRun) writeJSON(w io.Writer) error {
 		Tool:    toolJSON{Name: "chanlint", Version: toolVersion()},
 	}
 	if c.baselinePath != "" {
-		k, s := c.view.known, len(c.view.stale)
+		k, s := c.view.Known, len(c.view.Stale)
 		doc.Summary.Known, doc.Summary.Stale = &k, &s
-		doc.StaleEntries = c.view.stale
+		doc.StaleEntries = c.view.Stale
 	}
 	for _, r := range c.results {
-		fs := c.shown[r.file.display]
+		fs := c.shown[r.File.Name]
 		for i := range fs {
 			j := newFindingJSON(&fs[i])
-			if c.view.marks != nil {
-				switch c.view.marks[r.file.display][i].State {
+			if c.view.Marks != nil {
+				switch c.view.Marks[r.File.Name][i].State {
 				case baseline.Worse:
 					j.Baseline = "worse"
 				case baseline.New:

@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/report"
 	"github.com/chanlint/chanlint/rules"
 )
@@ -91,30 +92,30 @@ func (a *app) runReport(args []string) int {
 	if !ok {
 		return exitInvalid
 	}
-	results := a.checkPaths(paths, pol, rf.jobs, keep{solved: true, source: true})
+	results := a.checkPaths(paths, pol, rf.jobs, pipeline.Keep{Solved: true, Source: true})
 
 	in := report.Input{Policy: pol, Caution: rules.Caution, ToolVersion: toolVersion()}
 	status := exitOK
 	for _, r := range results {
-		if r.invalid {
+		if r.Invalid {
 			status = exitInvalid
-			for i := range r.findings {
-				writeFindingText(a.stderr, &r.findings[i], r.src, r.unit(), errPal)
+			for i := range r.Findings {
+				writeFindingText(a.stderr, &r.Findings[i], r.Src, r.Unit(), errPal)
 			}
-			if r.model == nil {
-				in.Invalid = append(in.Invalid, r.findings...)
+			if r.Model == nil {
+				in.Invalid = append(in.Invalid, r.Findings...)
 				continue
 			}
 			// A valid model the solver could not finish (a size limit):
 			// listed with its findings and no profiles.
 		}
-		in.Models = append(in.Models, report.Model{Model: r.model, Result: r.result, Findings: r.findings})
+		in.Models = append(in.Models, report.Model{Model: r.Model, Result: r.Solution, Findings: r.Findings})
 	}
 
 	abs := a.abs(rf.out)
 	for _, r := range results {
-		if r.file.abs != "" {
-			in.Protect = append(in.Protect, r.file.abs)
+		if r.File.Path != "" {
+			in.Protect = append(in.Protect, r.File.Path)
 		}
 	}
 	if format == "markdown" {

@@ -10,6 +10,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
@@ -76,11 +77,12 @@ func (a *app) runSolve(args []string) int {
 	abs := a.abs(pos[0])
 	f := modelFile{abs: abs, display: a.display(abs)}
 	pal := newPalette(a.useColor(sf.color.value, a.stderrTTY))
-	src, m, findings, invalid := loadModel(f)
-	for i := range findings {
-		writeFindingText(a.stderr, &findings[i], src, "m", pal)
+	parsed := pipeline.Load(f.pipelineFile())
+	src, m := parsed.Src, parsed.Model
+	for i := range parsed.Diagnostics {
+		writeFindingText(a.stderr, &parsed.Diagnostics[i], src, "m", pal)
 	}
-	if invalid {
+	if parsed.Invalid {
 		return exitInvalid
 	}
 	opts := solver.Options{}
@@ -105,7 +107,7 @@ func (a *app) runSolve(args []string) int {
 	}
 	res, err := solver.Solve(m, opts)
 	if err != nil {
-		lf := solverLimitFinding(m, err)
+		lf := pipeline.LimitFinding(m, err)
 		writeFindingText(a.stderr, &lf, src, m.Units.Length(), pal)
 		return exitInvalid
 	}
