@@ -132,6 +132,24 @@ type Reach struct {
 	Culvert    *Culvert // the culvert whose barrel this reach is, if any
 	Basins     []*Basin // ordered by station
 	Bends      []*Bend  // ordered by station
+	// EndLoss is the local loss at the node where the reach ends (its To
+	// node: a junction, or the outlet node for the exit loss into the
+	// pool); nil when none is written there.
+	EndLoss *Loss
+	// Losses are the local losses at section changes inside the reach,
+	// ordered by station.
+	Losses []*Loss
+}
+
+// LossAt returns the local loss at a section change at station x of the
+// reach, or nil.
+func (r *Reach) LossAt(x float64) *Loss {
+	for _, l := range r.Losses {
+		if l.Station == x {
+			return l
+		}
+	}
+	return nil
 }
 
 // SectionAt returns the section in force at a station: a segment's section
@@ -168,6 +186,40 @@ type Gate struct {
 
 // VenaContracta is the depth of the contracted jet below the gate.
 func (g *Gate) VenaContracta() float64 { return g.Contraction * g.Opening }
+
+// Loss is a local (transition) loss: at a node, between the reaches
+// meeting there (Node set); at a section change inside a reach (Reach and
+// Station set); or, with neither, the model-wide default that applies at
+// every node and section change without a loss of its own.
+//
+// The head loss is h = k·|α₂V₂²/2g − α₁V₁²/2g|, with k = Contraction where
+// the velocity head rises downstream and k = Expansion where it falls.
+type Loss struct {
+	Src
+	Name        string
+	NodeName    string // "" unless at a node
+	Node        *Node
+	ReachName   string // "" unless at a section change inside a reach
+	Reach       *Reach
+	Station     float64
+	Contraction float64
+	Expansion   float64
+}
+
+// Default reports whether the loss is the model-wide default.
+func (l *Loss) Default() bool { return l.NodeName == "" && l.ReachName == "" }
+
+// Coefficient is k for a velocity head that rises downstream (rising true:
+// the contraction coefficient) or falls (the expansion coefficient).
+func (l *Loss) Coefficient(rising bool) float64 {
+	if l == nil {
+		return 0
+	}
+	if rising {
+		return l.Contraction
+	}
+	return l.Expansion
+}
 
 // Basin is a hardened zone of a reach where a hydraulic jump is allowed.
 type Basin struct {
@@ -248,6 +300,7 @@ type Node struct {
 	Name string
 	In   []*Reach // reaches that end here, in model order
 	Out  *Reach   // the reach that starts here; nil at the outlet
+	Loss *Loss    // the local loss written at this node, if any
 }
 
 // Network is the tree of reaches.
@@ -274,5 +327,40 @@ type Model struct {
 	Bends      []*Bend
 	Events     []*Event
 	Exceptions []*Exception
-	Network    *Network
+	Losses     []*Loss // in source order, the default among them
+	// DefaultLoss is the model-wide default loss (a loss block with neither
+	// node nor reach); nil when none is written, and then no local losses
+	// are modelled except where a loss block names the place.
+	DefaultLoss *Loss
+	Network     *Network
+}
+
+// NodeLoss is the local loss at the node where reach r ends, between r and
+// the reach leaving that node: the loss written at the node, else the
+// model-wide default. At the outlet node only a loss written there applies
+// (it makes the outlet level that of still receiving water, see the
+// README); the default does not.
+func (m *Model) NodeLoss(r *Reach) *Loss {
+	if r == nil {
+		return nil
+	}
+	if r.EndLoss != nil {
+		return r.EndLoss
+	}
+	if r.Downstream == nil {
+		return nil
+	}
+	return m.DefaultLoss
+}
+
+// SectionLoss is the local loss at a section change at station x inside
+// reach r: the loss written there, else the model-wide default.
+func (m *Model) SectionLoss(r *Reach, x float64) *Loss {
+	if r == nil {
+		return nil
+	}
+	if l := r.LossAt(x); l != nil {
+		return l
+	}
+	return m.DefaultLoss
 }

@@ -118,6 +118,7 @@ func (d *decoder) network() {
 		}
 		r.InvertUp = r.InvertDown + r.Slope*r.Length
 	}
+	d.attachNodeLosses(nodes)
 	m.Network = net
 }
 

@@ -530,6 +530,7 @@ var rootSchema = &hcl.BodySchema{
 		{Type: "bend", LabelNames: []string{"name"}},
 		{Type: "event", LabelNames: []string{"name"}},
 		{Type: "exception", LabelNames: []string{"rule"}},
+		{Type: "loss", LabelNames: []string{"name"}},
 	},
 }
 
@@ -537,6 +538,7 @@ var rootSchema = &hcl.BodySchema{
 var blockLimits = map[string]int{
 	"section": MaxSections, "reach": MaxReaches, "event": MaxEvents,
 	"gate": MaxStructure, "culvert": MaxStructure, "basin": MaxStructure, "bend": MaxStructure, "exception": MaxStructure,
+	"loss": MaxStructure,
 }
 
 func (d *decoder) root(body hcl.Body) {
@@ -587,6 +589,8 @@ func (d *decoder) root(body hcl.Body) {
 			m.Events = append(m.Events, d.event(b))
 		case "exception":
 			m.Exceptions = append(m.Exceptions, d.exception(b))
+		case "loss":
+			m.Losses = append(m.Losses, d.loss(b))
 		}
 	}
 	if count["reach"] == 0 {

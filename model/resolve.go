@@ -183,6 +183,7 @@ func (d *decoder) resolve() {
 			en.Reach = d.lookupReach(en.ReachName, en.Range, quoted("The entrance of event", ev.Name))
 		}
 	}
+	d.resolveLosses()
 	for _, r := range m.Reaches {
 		byStation(r.Basins, func(b *Basin) float64 { return b.FromStation })
 		byStation(r.Bends, func(b *Bend) float64 { return b.FromStation })

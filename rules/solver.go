@@ -28,9 +28,10 @@ computed points merge into one span. Warnings:
     section or slope, or a control the flow cannot meet).
   - no_convergence: the iteration did not close within its tolerance.
   - control: a boundary condition could not act as written (an outlet depth
-    that cannot control supercritical flow, a drowned gate or entrance
-    depth, supercritical inflow below the critical energy of the reach it
-    enters, a jump the solver had to place at a junction).
+    that cannot control supercritical flow, a gate that does not touch the
+    water, a drowned entrance depth, supercritical inflow below the
+    critical energy of the reach it enters, a jump the solver had to place
+    at a junction).
 Information (severity info):
   - assumption: the results rest on a simplification of the method, not
     on a failure: supercritical flows meeting at a junction (the depth
@@ -43,12 +44,23 @@ number that is not finite, are also reported as warnings: the other rules
 could not check them.`,
 		Formula: `none; the standard-step energy balance
     z1 + y1 + α1V1²/2g = z2 + y2 + α2V2²/2g + hf
-is the solver's (Chow, Open-Channel Hydraulics, 1959, ch. 10).`,
+is the solver's (Chow, Open-Channel Hydraulics, 1959, ch. 10). Local
+losses at nodes and section changes (loss blocks) add
+    h = k·|α₂V₂²/2g − α₁V₁²/2g|
+with k the contraction coefficient where the velocity head rises
+downstream and the expansion coefficient where it falls. Published
+coefficients by type of transition (Hinds 1928 and USBR, tabulated in
+Chow 1959, Table 17-1; recalled): warped 0.10 / 0.20, cylinder quadrant
+0.15 / 0.25, simplified straight line 0.20 / 0.30, straight line
+0.30 / 0.50, square-ended 0.30 / 0.75 (contraction / expansion); a conduit
+into a pool, expansion 1.0 (FHWA HDS-5). Without loss blocks no local
+losses are modelled, and solve says so.`,
 		Basis: `common practice (no published source): a screening tool states
 where its own computation is uncertain rather than passing it silently.`,
 		Sources: []string{
 			"common practice (no published source)",
 			"Chow, Open-Channel Hydraulics (1959), ch. 10: the standard-step method",
+			"Chow, Open-Channel Hydraulics (1959), ch. 17, Table 17-1: transition loss coefficients after Hinds (1928) and USBR",
 		},
 		Remedies: `add computed points (max_spacing), smooth abrupt section or slope
 changes with a transition, check the outlet condition and the gate

@@ -1,8 +1,10 @@
 package solver
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"slices"
 
 	"github.com/chanlint/chanlint/model"
 )
@@ -32,6 +34,11 @@ func (s *solver) finish(w *reachWork) {
 	if w.r.Downstream == nil {
 		s.outletNotes(w, lp)
 	}
+	s.transitions(w)
+	if w.outletStruct.Kind != "" && !w.endSuper {
+		res.Structures = append(res.Structures, w.outletStruct)
+	}
+	slices.SortStableFunc(res.Structures, func(a, b Structure) int { return cmp.Compare(a.Station, b.Station) })
 	res.Profiles = spans(res.Points, w.final, w.pieces)
 	w.keepFlow()
 	sortNotes(res.Notes)
@@ -270,6 +277,18 @@ func sanitize(res *ReachResult) {
 	for i := range res.Jumps {
 		j := &res.Jumps[i]
 		for _, v := range []*float64{&j.Station, &j.UpstreamDepth, &j.DownstreamDepth, &j.Froude, &j.Length, &j.EnergyLoss} {
+			fix(v)
+		}
+	}
+	for i := range res.Structures {
+		st := &res.Structures[i]
+		for _, v := range []*float64{&st.Station, &st.Coefficient, &st.HeadLoss, &st.UpstreamDepth, &st.DownstreamDepth} {
+			fix(v)
+		}
+	}
+	for i := range res.Drops {
+		d := &res.Drops[i]
+		for _, v := range []*float64{&d.Station, &d.Height, &d.Number, &d.Brink, &d.ToeDepth, &d.PoolDepth, &d.Length, &d.SequentDepth, &d.EnergyLoss} {
 			fix(v)
 		}
 	}

@@ -134,7 +134,9 @@ func TestSubmergedGate(t *testing.T) {
 	rr := solveOne(t, m).Reaches[0]
 	require.Empty(t, rr.Jumps)
 	require.Equal(t, []string{"M1"}, rr.ProfileTypes())
-	require.True(t, hasNote(rr, NoteControl, "submerged"), "notes: %v", rr.Notes)
+	require.True(t, hasNote(rr, NoteInfo, "submerged"), "notes: %v", rr.Notes)
+	require.Len(t, rr.Structures, 1)
+	require.Equal(t, StateSubmerged, rr.Structures[0].State)
 	for _, p := range rr.Points {
 		require.Equal(t, Subcritical, p.Regime)
 	}

@@ -123,20 +123,12 @@ func classOf(s0, yn, yc float64, hasN bool) SlopeClass {
 
 // downstreamBoundary is the depth at the downstream end of a reach that
 // starts its subcritical profile; crit is true when that depth is critical.
+// At a junction it is the node's outlet rule (see nodeOutlet).
 func (s *solver) downstreamBoundary(w *reachWork, ev *model.Event) (y float64, crit bool) {
 	last := &w.pieces[len(w.pieces)-1]
 	z := w.f.invert(w.f.length)
 	if d := w.r.Downstream; d != nil && d.Index >= 0 && d.Index < len(s.work) && s.work[d.Index].q > 0 {
-		dw := &s.work[d.Index]
-		guess := 0.0
-		if dw.subHi > dw.subLo {
-			guess = s.subBuf[dw.subLo].y // exact when the section and invert carry on
-		}
-		y, ok := w.f.solveBranch(last, z, 0, dw.junctionH, false, guess, 0.05*guess)
-		if !ok {
-			return last.yc, true
-		}
-		return y, false
+		return s.nodeOutlet(w, &s.work[d.Index], last, z)
 	}
 	return s.outletBoundary(w, ev, last, z)
 }
@@ -190,57 +182,11 @@ func (s *solver) outletBoundary(w *reachWork, ev *model.Event, last *piece, z fl
 		y = last.yc
 	}
 	w.outletReq = y
+	y = s.outfallLoss(w, last, z, y)
 	if y <= last.yc {
 		return last.yc, true
 	}
 	return y, false
-}
-
-// gateHead sets the energy grade elevation a reach imposes upstream of its
-// station 0 (pass 1, after its subcritical profile).
-//
-// Without a gate it is the energy of the subcritical profile at station 0.
-// With a sluice gate whose vena contracta depth yv = Cc·a is below
-// critical depth, the flow under the gate is taken without loss
-// (Henderson 1966, §6.6):
-//
-//	E_upstream = yv + Q²/(2·g·A(yv)²)
-//
-// and the depth just upstream of the gate is the subcritical depth with
-// that specific energy in the reach's section at station 0
-// (ReachResult.GateUpstreamDepth). If the gate is drowned (the
-// subcritical flow below it has the greater specific force), the larger of
-// that free-flow energy and the energy of the subcritical flow downstream
-// is used: a screening approximation that does not model the submerged
-// gate's extra head loss. A gate whose vena contracta is not below critical
-// depth does not control the flow (NoteControl) and the subcritical energy
-// is passed upstream.
-func (s *solver) gateHead(w *reachWork) {
-	p0 := &w.pieces[0]
-	sub := s.subBuf[w.subLo:w.subHi]
-	z0 := w.f.invert(0)
-	hSub := z0 + w.f.eval(p0, sub[0].y).e
-	w.junctionH = hSub
-	g := w.r.Gate
-	if g == nil {
-		return
-	}
-	yv := g.VenaContracta()
-	if !(yv > 0) || math.IsInf(yv, 0) {
-		return
-	}
-	if yv >= p0.yc {
-		w.res.Notes = append(w.res.Notes, noteControl(0,
-			"gate %q: the vena contracta depth %s (%s × opening %s) is not below critical depth %s, so the gate does not control the flow",
-			g.Name, num(yv), num(g.Contraction), num(g.Opening), num(p0.yc)))
-		return
-	}
-	w.gateActs, w.gateY = true, yv
-	h := math.Max(z0+w.f.eval(p0, yv).e, hSub)
-	w.junctionH = h
-	if y, ok := w.f.solveBranch(p0, z0, 0, h, false, 0, 0); ok {
-		w.res.GateUpstreamDepth = y
-	}
 }
 
 // upstreamControl is the supercritical control at station 0 of a reach:
@@ -251,7 +197,7 @@ func (s *solver) gateHead(w *reachWork) {
 // of a steep reach).
 func (s *solver) upstreamControl(w *reachWork) superControl {
 	p0 := &w.pieces[0]
-	if w.gateActs {
+	if w.gateFree {
 		return superControl{ok: true, y: w.gateY, kind: "gate"}
 	}
 	if ye := s.entrance[w.r.Index]; ye > 0 {
@@ -263,38 +209,7 @@ func (s *solver) upstreamControl(w *reachWork) superControl {
 			"entrance depth %s is not below critical depth %s: subcritical flow is set from downstream, and the computed depth at station 0 is %s",
 			num(ye), num(p0.yc), num(sub[0].y)))
 	}
-	var qs, qh float64
-	anySuper := false
-	for _, u := range w.r.Upstream {
-		if u == nil || u.Index < 0 || u.Index >= len(s.work) {
-			continue
-		}
-		uw := &s.work[u.Index]
-		if uw.q <= 0 {
-			continue
-		}
-		qs += uw.q
-		qh += uw.q * uw.endH
-		anySuper = anySuper || uw.endSuper
-	}
-	if !anySuper || !(qs > 0) {
-		return superControl{}
-	}
-	h := qh / qs
-	z0 := w.f.invert(0)
-	y, ok := w.f.solveBranch(p0, z0, 0, h, true, 0, 0)
-	if !ok {
-		w.res.Notes = append(w.res.Notes, noteControl(0,
-			"supercritical flow arrives with energy grade elevation %s, below the critical energy of this reach (%s): critical depth is taken at its start",
-			num(h), num(z0+p0.ec)))
-		y = p0.yc
-	}
-	if len(w.r.Upstream) > 1 {
-		w.res.Notes = append(w.res.Notes, noteInfo(0,
-			"supercritical flows meet at junction %q, where a one-dimensional model cannot represent the shock waves: the depth %s at the start of this reach is taken from the discharge-weighted energy of the inflows, without loss",
-			w.r.From, num(y)))
-	}
-	return superControl{ok: true, y: y, kind: "inflow", arriving: true}
+	return s.arrival(w)
 }
 
 // drowned records an upstream control that the subcritical flow below it
@@ -309,6 +224,16 @@ func (s *solver) drowned(w *reachWork, c superControl, ySub float64) {
 		w.res.Notes = append(w.res.Notes, noteControl(0,
 			"entrance depth %s is drowned: the subcritical flow from downstream (depth %s at station 0) has a greater specific force, so the flow is computed subcritical",
 			num(c.y), num(ySub)))
+	case "fall":
+		w.res.Notes = append(w.res.Notes, noteInfo(0,
+			"the free fall from the reach above into node %q is drowned in this reach: its subcritical flow (depth %s) has a greater specific force than the jet (depth %s), so the flow is computed subcritical from its start",
+			w.r.From, num(ySub), num(c.y)))
+	case "drop":
+		d := &w.res.Drops[len(w.res.Drops)-1]
+		d.Drowned = true
+		w.res.Notes = append(w.res.Notes, noteInfo(0,
+			"the jump below the drop from reach %q is drowned against the drop face: the tailwater (depth %s at the toe of the nappe) is above the sequent depth %s of the jet (depth %s), so the nappe is submerged and the flow below is computed subcritical",
+			d.From, num(ySub), num(d.SequentDepth), num(c.y)))
 	default:
 		p0 := &w.pieces[0]
 		w.final = append(w.final, pt{x: 0, y: c.y, piece: 0, super: true})

@@ -28,9 +28,14 @@ type reachWork struct {
 	subLo, subHi int     // range of the subcritical profile in solver.subBuf
 	subPiece     []int32 // start index (relative to subLo) of each piece's points, plus the end
 	junctionH    float64 // energy grade elevation the reach imposes on reaches ending at its upstream node
-	gateActs     bool
+	junctionWSE  float64 // the water level there (upstream of a controlling gate: its pool)
+	junctionHV   float64 // the velocity head αV²/2g there
+	gateActs     bool    // a gate holds the water upstream (free or submerged flow)
+	gateFree     bool    // in free flow: the vena contracta starts supercritical flow
 	gateY        float64
-	outletReq    float64 // depth the outlet control asks for (outlet reach only)
+	outletStruct Structure // the outlet into the node below; Kind "" when none is recorded
+	freeFall     bool      // the reach ends in a free fall (critical depth at its end) into the node below
+	outletReq    float64   // depth the outlet control asks for (outlet reach only)
 	outletKind   model.OutletKind
 	outletNotes  []Note
 	culvert      *CulvertResult // a culvert barrel's result, nil for other reaches
@@ -267,11 +272,12 @@ func (s *solver) subProfile(w *reachWork, y float64, crit bool) {
 		}
 		x, y, crit = p.from, st.y, st.atCrit
 		if pi > 0 {
-			// Transition into the section upstream: equal energy, no loss.
+			// Transition into the section upstream: equal energy plus the
+			// local loss there (none unless a loss block applies).
 			up := &w.pieces[pi-1]
 			z := w.f.invert(x)
-			target := z + w.f.eval(p, y).e
-			y2, ok := w.f.solveBranch(up, z, 0, target, false, 0, 0)
+			st := w.f.eval(p, y)
+			y2, _, _, ok := w.f.lossDepth(up, z, z+st.e, st.e-y, s.sectionLoss(w, x), true, false)
 			s.subBuf = append(s.subBuf, pt{x: x, y: y2, piece: int32(pi - 1), fallback: !ok})
 			s.count(1)
 			y, crit = y2, !ok
@@ -299,8 +305,9 @@ func (s *solver) subProfile(w *reachWork, y float64, crit bool) {
 // superControl is an upstream control of a reach.
 type superControl struct {
 	ok       bool
+	x        float64 // station where the supercritical flow starts (the toe of a drop's nappe; else 0)
 	y        float64
-	kind     string // "gate", "entrance", "inflow"
+	kind     string // "gate", "entrance", "inflow", "drop"
 	arriving bool   // supercritical flow arriving from upstream reaches
 }
 
@@ -321,13 +328,24 @@ func (s *solver) combine(w *reachWork) {
 	atCrit := false
 	if ctrl.ok {
 		p0 := &w.pieces[0]
-		fs, fb := w.f.force(p0, ctrl.y), w.f.force(p0, sub[0].y)
+		ys := sub[0].y
+		if ctrl.x > 0 {
+			ys = s.subExact(w, 0, ctrl.x) // the tailwater at the toe of the nappe
+		}
+		fs, fb := w.f.force(p0, ctrl.y), w.f.force(p0, ys)
+		if s.subFallbackAt(w, 0, ctrl.x) {
+			fb = fs // no subcritical flow there to jump to
+		}
 		if fs-fb >= -forceTie*math.Max(fs, fb) {
-			superAt, sx, sy, spi = true, 0, ctrl.y, 0
+			superAt, sx, sy, spi = true, ctrl.x, ctrl.y, 0
 			atCrit = ctrl.y == p0.yc
-			w.final = append(w.final, pt{x: 0, y: ctrl.y, piece: 0, super: true})
+			if ctrl.x > 0 {
+				// The jet from the drop face to the toe of the nappe.
+				w.final = append(w.final, pt{x: 0, y: ctrl.y, piece: 0, super: true})
+			}
+			w.final = append(w.final, pt{x: ctrl.x, y: ctrl.y, piece: 0, super: true})
 		} else {
-			s.drowned(w, ctrl, sub[0].y)
+			s.drowned(w, ctrl, ys)
 		}
 	}
 	for !s.tooMany {
@@ -345,7 +363,8 @@ func (s *solver) combine(w *reachWork) {
 				// holds against the subcritical flow there.
 				p, next := &w.pieces[c.piece], &w.pieces[sub[k].piece]
 				z := w.f.invert(c.x)
-				if y, ok := w.f.solveBranch(next, z, 0, z+w.f.eval(p, c.y).e, true, 0, 0); ok && !s.dominated(w, next, y, sub[k].y) {
+				st := w.f.eval(p, c.y)
+				if y, _, _, ok := w.f.lossDepth(next, z, z+st.e, st.e-c.y, s.sectionLoss(w, c.x), false, true); ok && !s.dominated(w, next, y, sub[k].y) {
 					w.final = append(w.final, pt{x: c.x, y: y, piece: sub[k].piece, super: true})
 					superAt, sx, sy, spi, atCrit = true, c.x, y, sub[k].piece, false
 					k++
@@ -393,11 +412,12 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 	for ; int(pi) < len(w.pieces); pi++ {
 		p := &w.pieces[pi]
 		if prev.piece != pi {
-			// Transition from the previous section: equal energy, no loss.
+			// Transition from the previous section: equal energy less the
+			// local loss there (none unless a loss block applies).
 			z := w.f.invert(p.from)
 			up := &w.pieces[pi-1]
-			target := z + w.f.eval(up, prev.y).e
-			y2, ok := w.f.solveBranch(p, z, 0, target, true, 0, 0)
+			st := w.f.eval(up, prev.y)
+			y2, _, _, ok := w.f.lossDepth(p, z, z+st.e, st.e-prev.y, s.sectionLoss(w, p.from), false, true)
 			c := pt{x: p.from, y: y2, piece: pi, super: true, fallback: !ok}
 			s.count(1)
 			ys := s.subAt(w, pi, c.x)

@@ -126,13 +126,92 @@ type ReachResult struct {
 	Jumps      []Jump        // ordered by station
 	Notes      []Note        // ordered by station
 	// GateUpstreamDepth is the depth just upstream of a controlling sluice
-	// gate at station 0 (energy balance through the gate without loss, in
-	// the reach's section at station 0); 0 without a controlling gate.
+	// gate at station 0 (free flow: energy balance through the gate without
+	// loss; submerged flow: energy to the vena contracta and momentum from
+	// there to the tailwater; in the reach's section at station 0); 0
+	// without a controlling gate.
 	GateUpstreamDepth float64
+	// Structures are the node and structure hydraulics of the reach in
+	// station order: its outlet into the node below (free or drowned), the
+	// local losses at its section changes, its gate. Each names the method
+	// that applied and its range of validity.
+	Structures []Structure
+	// Drops are the drops and free overfalls onto this reach from the
+	// reaches ending at its upstream node.
+	Drops []Drop
 
 	// flow is what Between and Zones recompute the flow from; empty for a
 	// result built by hand (then they report ok = false).
 	flow reachFlow
+}
+
+// StructureKind names what a Structure describes.
+type StructureKind string
+
+const (
+	// StructOutlet: the downstream end of a reach at a junction or at the
+	// outfall, free (a fall at critical depth) or drowned.
+	StructOutlet StructureKind = "outlet"
+	// StructTransition: a change of section inside a reach with a local
+	// loss.
+	StructTransition StructureKind = "transition"
+	// StructGate: a sluice gate at station 0 of the reach.
+	StructGate StructureKind = "gate"
+)
+
+// Structure states.
+const (
+	StateFree        = "free"      // an outlet falling freely, a gate in free flow
+	StateDrowned     = "drowned"   // an outlet below the tailwater's critical level
+	StateSubmerged   = "submerged" // a gate whose tailwater covers the vena contracta
+	StateNoControl   = "not controlling"
+	StateContraction = "contraction" // velocity head rises downstream
+	StateExpansion   = "expansion"   // velocity head falls downstream
+)
+
+// Structure is the hydraulics at a node or structure of a reach.
+type Structure struct {
+	Kind    StructureKind
+	Name    string  // the model block (loss, gate) or node that it is
+	Station float64 // on this reach
+	State   string  // see the State constants
+	// Method names the method that applied; Validity its range and
+	// whether this case lies inside it, or the approximation made.
+	Method   string
+	Validity string
+	// Coefficient is the loss coefficient k used (0 without one).
+	Coefficient float64
+	// HeadLoss is the energy lost across the structure.
+	HeadLoss float64
+	// UpstreamDepth and DownstreamDepth are the depths on its two sides:
+	// for an outlet, the reach's end depth and the depth in the reach
+	// below (or the tailwater); for a gate, the depth upstream and the
+	// tailwater depth downstream.
+	UpstreamDepth, DownstreamDepth float64
+}
+
+// Drop is a drop or free overfall from the end of a reach (the brink) onto
+// the reach below, at station 0 of the lower reach (the drop face).
+type Drop struct {
+	Node      string  // the node at the drop
+	From      string  // the reach whose end is the brink
+	Station   float64 // 0: the face, on the lower reach
+	Height    float64 // brink invert minus the invert at the foot of the face
+	Number    float64 // drop number D = q²/(g·h³); 0 where q is not defined (not a rectangle)
+	Brink     float64 // depth at the brink (critical depth of the reach above)
+	ToeDepth  float64 // y1, the depth where the nappe meets the floor
+	PoolDepth float64 // yp, the pool behind the nappe (Rand only; 0 otherwise)
+	Length    float64 // the drop length from the face to the toe of the nappe (Rand only)
+	// SequentDepth is the depth the tailwater needs for a jump at the toe
+	// (the sequent depth of y1 by specific force).
+	SequentDepth float64
+	// EnergyLoss is the energy lost from the brink to the toe.
+	EnergyLoss float64
+	// Drowned: the tailwater's specific force exceeds that of the jet at
+	// the toe, so the jump is drowned against the drop face.
+	Drowned  bool
+	Method   string
+	Validity string
 }
 
 // ProfileTypes lists the distinct profile types in station order of first
@@ -233,3 +312,21 @@ func (c *CulvertResult) Method() string {
 	}
 	return "outlet control (HDS-5, " + c.OutletMethod + ")"
 }
+
+// Assumptions are model-wide statements the results rest on, for the
+// outputs to print once: today, whether local losses were modelled.
+func (r *Result) Assumptions() []string {
+	if r == nil || r.Model == nil {
+		return nil
+	}
+	if len(r.Model.Losses) == 0 {
+		return []string{NoLocalLosses}
+	}
+	if r.Model.DefaultLoss == nil {
+		return []string{"local losses are modelled only where a loss block names the node or section change; elsewhere nodes and section changes balance energy without loss"}
+	}
+	return nil
+}
+
+// NoLocalLosses is the statement of a model without loss blocks.
+const NoLocalLosses = "no local losses were modelled: nodes and section changes balance energy without loss (add loss blocks, or a model-wide default, with coefficients from a published table of transition losses)"

@@ -147,10 +147,11 @@ func (l *nameList) Set(v string) error {
 
 // Documents of `solve --format json` (outputs.md).
 type solveJSON struct {
-	Units   string           `json:"units"`
-	Title   string           `json:"title,omitempty"`
-	Events  []solveEventJSON `json:"events"`
-	Caution string           `json:"caution"`
+	Units       string           `json:"units"`
+	Title       string           `json:"title,omitempty"`
+	Assumptions []string         `json:"assumptions"`
+	Events      []solveEventJSON `json:"events"`
+	Caution     string           `json:"caution"`
 }
 
 type solveEventJSON struct {
@@ -184,13 +185,45 @@ type culvertJSON struct {
 }
 
 type solveReachJSON struct {
-	Name       string      `json:"name"`
-	Discharge  *float64    `json:"discharge"`
-	SlopeClass string      `json:"slope_class"`
-	Profiles   []string    `json:"profiles"`
-	Points     []pointJSON `json:"points"`
-	Jumps      []jumpJSON  `json:"jumps"`
-	Notes      []noteJSON  `json:"notes"`
+	Name       string          `json:"name"`
+	Discharge  *float64        `json:"discharge"`
+	SlopeClass string          `json:"slope_class"`
+	Profiles   []string        `json:"profiles"`
+	Points     []pointJSON     `json:"points"`
+	Jumps      []jumpJSON      `json:"jumps"`
+	Drops      []dropJSON      `json:"drops"`
+	Structures []structureJSON `json:"structures"`
+	Notes      []noteJSON      `json:"notes"`
+}
+
+type dropJSON struct {
+	Node         string   `json:"node"`
+	From         string   `json:"from"`
+	Station      *float64 `json:"station"`
+	DropHeight   *float64 `json:"drop_height"`
+	DropNumber   *float64 `json:"drop_number"`
+	BrinkDepth   *float64 `json:"brink_depth"`
+	Y1           *float64 `json:"y1"`
+	PoolDepth    *float64 `json:"pool_depth"`
+	DropLength   *float64 `json:"drop_length"`
+	SequentDepth *float64 `json:"sequent_depth"`
+	EnergyLoss   *float64 `json:"energy_loss"`
+	Drowned      bool     `json:"drowned"`
+	Method       string   `json:"method"`
+	Validity     string   `json:"validity"`
+}
+
+type structureJSON struct {
+	Kind            string   `json:"kind"`
+	Name            string   `json:"name"`
+	Station         *float64 `json:"station"`
+	State           string   `json:"state"`
+	Method          string   `json:"method"`
+	Validity        string   `json:"validity"`
+	Coefficient     *float64 `json:"coefficient"`
+	HeadLoss        *float64 `json:"head_loss"`
+	UpstreamDepth   *float64 `json:"upstream_depth"`
+	DownstreamDepth *float64 `json:"downstream_depth"`
 }
 
 type pointJSON struct {
@@ -250,7 +283,10 @@ type noteJSON struct {
 }
 
 func writeSolveJSON(w io.Writer, m *model.Model, res *solver.Result) error {
-	doc := solveJSON{Units: string(m.Units), Title: m.Title, Events: []solveEventJSON{}, Caution: rules.Caution}
+	doc := solveJSON{Units: string(m.Units), Title: m.Title, Assumptions: res.Assumptions(), Events: []solveEventJSON{}, Caution: rules.Caution}
+	if doc.Assumptions == nil {
+		doc.Assumptions = []string{}
+	}
 	for _, ev := range res.Events {
 		ej := solveEventJSON{Name: ev.Event.Name, Reaches: []solveReachJSON{}, Culverts: []culvertJSON{}}
 		for _, c := range ev.Culverts {
@@ -274,6 +310,8 @@ func writeSolveJSON(w io.Writer, m *model.Model, res *solver.Result) error {
 				Profiles:   rr.ProfileTypes(),
 				Points:     []pointJSON{},
 				Jumps:      []jumpJSON{},
+				Drops:      []dropJSON{},
+				Structures: []structureJSON{},
 				Notes:      []noteJSON{},
 			}
 			if rj.Profiles == nil {
@@ -298,6 +336,21 @@ func writeSolveJSON(w io.Writer, m *model.Model, res *solver.Result) error {
 					Station: finite(j.Station), UpstreamDepth: finite(j.UpstreamDepth),
 					DownstreamDepth: finite(j.DownstreamDepth), Froude: finite(j.Froude),
 					Length: finite(j.Length), Type: string(j.Type), EnergyLoss: finite(j.EnergyLoss),
+				})
+			}
+			for _, d := range rr.Drops {
+				rj.Drops = append(rj.Drops, dropJSON{
+					Node: d.Node, From: d.From, Station: finite(d.Station), DropHeight: finite(d.Height),
+					DropNumber: finite(d.Number), BrinkDepth: finite(d.Brink), Y1: finite(d.ToeDepth),
+					PoolDepth: finite(d.PoolDepth), DropLength: finite(d.Length), SequentDepth: finite(d.SequentDepth),
+					EnergyLoss: finite(d.EnergyLoss), Drowned: d.Drowned, Method: d.Method, Validity: d.Validity,
+				})
+			}
+			for _, st := range rr.Structures {
+				rj.Structures = append(rj.Structures, structureJSON{
+					Kind: string(st.Kind), Name: st.Name, Station: finite(st.Station), State: st.State,
+					Method: st.Method, Validity: st.Validity, Coefficient: finite(st.Coefficient),
+					HeadLoss: finite(st.HeadLoss), UpstreamDepth: finite(st.UpstreamDepth), DownstreamDepth: finite(st.DownstreamDepth),
 				})
 			}
 			for _, n := range rr.Notes {
@@ -352,6 +405,9 @@ func writeSolveTable(w io.Writer, file string, m *model.Model, res *solver.Resul
 	}
 	fmt.Fprintf(w, "%s (units: %s; lengths in %s, discharge in %s³/s)\n", title, m.Units, L, L)
 	fmt.Fprintln(w, "columns: wse water surface, energy energy grade, yc critical depth, yn normal depth (— where none)")
+	for _, a := range res.Assumptions() {
+		fmt.Fprintf(w, "assumption: %s\n", a)
+	}
 	for _, ev := range res.Events {
 		fmt.Fprintf(w, "\nevent %s\n", ev.Event.Name)
 		for _, rr := range ev.Reaches {
@@ -421,6 +477,22 @@ func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
 		fmt.Fprintf(w, "    jump at %s %s: depth %s → %s %s, F1 = %s, %s, length %s %s, energy loss %s %s\n",
 			fixed(j.Station, 2), L, fixed(j.UpstreamDepth, 3), fixed(j.DownstreamDepth, 3), L,
 			fixed(j.Froude, 2), j.Type, fixed(j.Length, 2), L, fixed(j.EnergyLoss, 3), L)
+	}
+	for _, d := range rr.Drops {
+		state := "jump below it checked by the jump rules"
+		if d.Drowned {
+			state = "drowned against the drop face"
+		}
+		fmt.Fprintf(w, "    drop from %s at %s %s: height %s %s, drop number %s, y1 %s %s, pool depth %s %s, drop length %s %s, sequent depth %s %s; %s\n",
+			d.From, fixed(d.Station, 2), L, fixed(d.Height, 3), L, formatNumber(d.Number, 4), fixed(d.ToeDepth, 3), L,
+			fixed(d.PoolDepth, 3), L, fixed(d.Length, 2), L, fixed(d.SequentDepth, 3), L, state)
+		fmt.Fprintf(w, "      method: %s\n      validity: %s\n", d.Method, d.Validity)
+	}
+	for _, st := range rr.Structures {
+		fmt.Fprintf(w, "    %s %s at %s %s: %s, depths %s → %s %s, head loss %s %s\n",
+			st.Kind, st.Name, fixed(st.Station, 2), L, st.State, fixed(st.UpstreamDepth, 3), fixed(st.DownstreamDepth, 3), L,
+			fixed(st.HeadLoss, 3), L)
+		fmt.Fprintf(w, "      method: %s\n      validity: %s\n", st.Method, st.Validity)
 	}
 	for _, n := range rr.Notes {
 		fmt.Fprintf(w, "    note at %s %s (%s): %s\n", fixed(n.Station, 2), L, n.Kind, n.Message)
