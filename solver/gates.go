@@ -68,7 +68,8 @@ func (s *solver) gateHead(w *reachWork) {
 	} else {
 		y3, ok := rollerDepth(w, p0, mt-w.q*w.q/(p0.geo.g*av), yv)
 		if !ok {
-			s.gateOpen(w, st, "the flow below it is not deep enough to cover the jet of its opening: the opening passes the flow without holding it back")
+			s.gateOpen(w, st, "passes the flow untouched under its lip",
+				"the flow below it is not deep enough to cover the jet of its opening: the opening passes the flow without holding it back")
 			return
 		}
 		e1 = y3 + jet
@@ -80,7 +81,8 @@ func (s *solver) gateHead(w *reachWork) {
 		y1 = p0.yc
 	}
 	if !(y1 > g.Opening) {
-		s.gateOpen(w, st, "the depth it would hold upstream, "+num(y1)+", does not stand above its lip at opening "+num(g.Opening)+": the water passes under the gate without touching it")
+		s.gateOpen(w, st, "is above the water (depth "+num(y1)+", lip "+num(g.Opening)+")",
+			"the depth it would hold upstream, "+num(y1)+", does not stand above its lip at opening "+num(g.Opening)+": the water passes under the gate without touching it")
 		return
 	}
 	st.UpstreamDepth = y1
@@ -112,14 +114,15 @@ func (w *reachWork) imposeHead(p *piece, z, y float64) {
 	w.junctionH, w.junctionWSE, w.junctionHV = z+e, z+y, e-y
 }
 
-// gateOpen records a gate that does not control the flow.
-func (s *solver) gateOpen(w *reachWork, st Structure, why string) {
+// gateOpen records a gate that does not control the flow: short is the
+// reason for the note, why the full one for the structure record.
+func (s *solver) gateOpen(w *reachWork, st Structure, short, why string) {
 	g := w.r.Gate
 	st.State = StateNoControl
 	st.Method = "no gate control: " + why
 	st.Validity = "a gate controls only when the water upstream stands above its lip (y1 > a)"
 	w.res.Structures = append(w.res.Structures, st)
-	w.res.Notes = append(w.res.Notes, noteControl(0, "gate %q does not control the flow: %s", g.Name, why))
+	w.res.Notes = append(w.res.Notes, noteControl(0, "gate %q %s", g.Name, short))
 }
 
 // rollerDepth solves [A·z̄](y3) = target for the depth y3 over the jet at
