@@ -44,7 +44,7 @@ func (s *solver) culvertHead(w *reachWork, ev *model.Event) {
 	total := w.q
 	if len(w.pieces) == 0 {
 		s.subProfile(w, 0, true)
-		w.junctionH = w.r.InvertUp
+		w.imposePool(w.r.InvertUp)
 		cr.Headwater = w.r.InvertUp
 		return
 	}
@@ -79,7 +79,7 @@ func (s *solver) culvertHead(w *reachWork, ev *model.Event) {
 	if c.Road != nil && cr.Headwater > c.Road.Crest {
 		cr.RoadDepth = cr.Headwater - c.Road.Crest
 	}
-	w.junctionH = cr.Headwater
+	w.imposePool(cr.Headwater)
 	s.culvertNotes(w, cr, weir)
 }
 

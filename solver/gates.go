@@ -114,6 +114,12 @@ func (w *reachWork) imposeHead(p *piece, z, y float64) {
 	w.junctionH, w.junctionWSE, w.junctionHV = z+e, z+y, e-y
 }
 
+// imposePool is imposeHead for a still pool at level h (a culvert's
+// headwater, which HDS-5 takes without velocity head).
+func (w *reachWork) imposePool(h float64) {
+	w.junctionH, w.junctionWSE, w.junctionHV = h, h, 0
+}
+
 // gateOpen records a gate that does not control the flow: short is the
 // reason for the note, why the full one for the structure record.
 func (s *solver) gateOpen(w *reachWork, st Structure, short, why string) {
