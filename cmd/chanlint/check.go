@@ -3,6 +3,7 @@ package main
 import (
 	"bufio"
 	"bytes"
+	"errors"
 	"flag"
 	"fmt"
 	"github.com/hashicorp/hcl/v2"
@@ -42,6 +43,8 @@ func checkCommand() *command {
 // checkFlags are the options of `check`.
 type checkFlags struct {
 	policy        string
+	rules, events listFlag
+	stdinName     string
 	format        *choice
 	color         *choice
 	failOn        *choice
@@ -52,13 +55,16 @@ type checkFlags struct {
 
 func newCheckFlags() (*checkFlags, *flag.FlagSet) {
 	cf := &checkFlags{
-		format: newChoice("text", "text", "json", "sarif"),
+		format: newChoice("text", "text", "json", "sarif", "annotations"),
 		color:  newChoice("auto", "auto", "always", "never"),
 		failOn: newChoice("error", "error", "warning", "info"),
 	}
 	fs := newFlagSet("check")
 	fs.StringVar(&cf.policy, "policy", "", "policy `FILE` or built-in pack name (default: "+configName+", else the baseline pack)")
-	fs.Var(cf.format, "format", "output format")
+	fs.Var(cf.format, "format", "output format (annotations: workflow commands for GitHub Actions)")
+	fs.Var(&cf.rules, "rule", "show only findings of rule `ID` (repeatable, or a comma-separated list)")
+	fs.Var(&cf.events, "event", "show only findings of flow event `NAME` and those of no event (repeatable, or comma-separated)")
+	fs.StringVar(&cf.stdinName, "stdin-name", "", "the `NAME` a model read from standard input (PATH -) is printed with (default "+stdinName+")")
 	fs.Var(cf.color, "color", "colour text output; auto colours a terminal unless NO_COLOR is set")
 	fs.Var(cf.failOn, "fail-on", "lowest severity that makes the exit status 1")
 	fs.StringVar(&cf.baseline, "baseline", "", "fail only on findings not recorded in this baseline `FILE`")
@@ -105,11 +111,28 @@ func (a *app) runCheck(args []string) int {
 	cf, fs := newCheckFlags()
 	paths, err := parseFlags(fs, args)
 	if err != nil {
-		return a.flagError(c, err)
+		return a.flagError(c, fs, err)
 	}
 	if cf.jobs < 0 {
 		return a.usageError(c, "--jobs must not be negative, got %d", cf.jobs)
 	}
+	for _, id := range cf.rules {
+		if rules.Lookup(id) == nil {
+			var ids []string
+			for _, r := range rules.All() {
+				ids = append(ids, r.ID)
+			}
+			msg := fmt.Sprintf("--rule: unknown rule %q", id)
+			if s := suggest(id, ids); s != "" {
+				msg += fmt.Sprintf("; did you mean %q?", s)
+			}
+			return a.usageError(c, "%s (chanlint explain lists the rules)", msg)
+		}
+	}
+	if cf.writeBaseline != "" && (len(cf.rules) > 0 || len(cf.events) > 0) {
+		return a.usageError(c, "--write-baseline records every finding; it cannot be combined with --rule or --event")
+	}
+	a.stdinName = cf.stdinName
 	pal := newPalette(a.useColor(cf.color.value, a.stdoutTTY))
 	errPal := newPalette(a.useColor(cf.color.value, a.stderrTTY))
 
@@ -170,8 +193,19 @@ func (a *app) runCheck(args []string) int {
 		fmt.Fprintf(a.stderr, "chanlint check: no *%s files found under %s; nothing was checked\n", model.Suffix, strings.Join(orDot(paths), ", "))
 	}
 
+	// --rule and --event narrow what is shown (and judged); invalid files
+	// always show their diagnostics.
+	keepFinding := findingFilter(cf.rules, cf.events)
+	for _, r := range results {
+		if !r.Invalid {
+			r.Findings = slices.DeleteFunc(r.Findings, func(f rules.Finding) bool { return !keepFinding(f.Rule, f.Event) })
+		}
+	}
+	a.warnUnknownEvents(cf.events, results)
+
 	// The findings to show: a baseline hides those it records.
 	view := pipeline.ApplyBaseline(results, known, a.cwd)
+	view.Stale = slices.DeleteFunc(view.Stale, func(e baseline.Entry) bool { return !keepFinding(e.Rule, e.Event) })
 
 	run := checkRun{
 		app: a, results: results, shown: view.Shown, policy: pol,
@@ -187,6 +221,8 @@ func (a *app) runCheck(args []string) int {
 		err = run.writeJSON(out)
 	case "sarif":
 		err = run.writeSARIF(out)
+	case "annotations":
+		run.writeAnnotations(out)
 	default:
 		run.writeText(out, pal)
 	}
@@ -221,8 +257,26 @@ func (a *app) runCheck(args []string) int {
 // results are in discovery order, whatever the number of workers; k says
 // what each keeps besides its findings.
 func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipeline.Keep) []*pipeline.Result {
-	found, problems := a.discover(paths)
-	results := make([]*pipeline.Result, 0, len(problems)+len(found))
+	var rest []string
+	for _, p := range paths {
+		if p != "-" {
+			rest = append(rest, p)
+		}
+	}
+	var results []*pipeline.Result
+	if len(rest) < len(paths) {
+		// "-": one model from standard input, first; the other paths as usual.
+		name := a.stdinDisplay()
+		if src, err := a.readStdin(); err != nil {
+			results = append(results, pipeline.Unreadable(name, err))
+		} else {
+			results = append(results, pipeline.Parse(pipeline.File{Name: name}, src).Check(pol, pipeline.Options{Keep: k, Stderr: a.stderr}))
+		}
+		if len(rest) == 0 {
+			return results
+		}
+	}
+	found, problems := a.discover(rest)
 	for _, p := range problems {
 		results = append(results, pipeline.Unreadable(p.display, p.err))
 	}
@@ -237,6 +291,33 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 	checked := pipeline.CheckFiles(files, pol, pipeline.Options{Keep: k, Stderr: a.stderr}, jobs, prog.step)
 	prog.done()
 	return append(results, checked...)
+}
+
+// stdinName is the name a model read from standard input is printed with
+// when --stdin-name does not give one.
+const stdinName = "<stdin>"
+
+// stdinDisplay is the printed name of the model on standard input.
+func (a *app) stdinDisplay() string {
+	if a.stdinName != "" {
+		return filepath.ToSlash(a.stdinName)
+	}
+	return stdinName
+}
+
+// readStdin reads the model of PATH "-", at most model.MaxFileSize bytes.
+func (a *app) readStdin() ([]byte, error) {
+	if a.stdin == nil {
+		return nil, errors.New("no standard input")
+	}
+	data, err := io.ReadAll(io.LimitReader(a.stdin, model.MaxFileSize+1))
+	if err != nil {
+		return nil, err
+	}
+	if len(data) > model.MaxFileSize {
+		return nil, fmt.Errorf("standard input is larger than %d MiB", model.MaxFileSize>>20)
+	}
+	return data, nil
 }
 
 // pipelineFile is the file as the pipeline names it.
@@ -394,6 +475,12 @@ func (c *checkRun) writeText(w io.Writer, p *palette) {
 	if any {
 		fmt.Fprintln(w)
 	}
+	c.writeClosing(w, p)
+}
+
+// writeClosing prints the lines that end the text output: the summary,
+// the baseline's account, the policy and the caution.
+func (c *checkRun) writeClosing(w io.Writer, p *palette) {
 	t := c.tally()
 	files := plural(t.files, "file", "files")
 	if t.invalid > 0 {
@@ -612,4 +699,54 @@ func (s *setupLog) problems(a *app) []sarifout.Problem {
 		out = append(out, sarifout.Problem{Message: "chanlint check: the policy or baseline could not be used"})
 	}
 	return out
+}
+
+// listFlag is a flag that may be repeated, each value a comma-separated
+// list.
+type listFlag []string
+
+func (l *listFlag) String() string { return strings.Join(*l, ",") }
+
+func (l *listFlag) Set(s string) error {
+	for _, v := range strings.Split(s, ",") {
+		if v = strings.TrimSpace(v); v != "" {
+			*l = append(*l, v)
+		}
+	}
+	return nil
+}
+
+// findingFilter says whether a finding of rule and event passes --rule and
+// --event: any rule when none is given, and any event, or no event, when
+// none is given. A finding of no event (about the model itself) passes an
+// --event filter.
+func findingFilter(ruleIDs, events []string) func(rule, event string) bool {
+	return func(rule, event string) bool {
+		if len(ruleIDs) > 0 && !slices.Contains(ruleIDs, rule) {
+			return false
+		}
+		return len(events) == 0 || event == "" || slices.Contains(events, event)
+	}
+}
+
+// warnUnknownEvents says on stderr which --event names no checked model
+// has, since a misspelt event would otherwise show a clean run.
+func (a *app) warnUnknownEvents(events []string, results []*pipeline.Result) {
+	if len(events) == 0 {
+		return
+	}
+	var all []string
+	for _, r := range results {
+		all = append(all, r.Events...)
+	}
+	for _, ev := range events {
+		if slices.Contains(all, ev) {
+			continue
+		}
+		msg := fmt.Sprintf("chanlint check: warning: no checked model has an event named %q", ev)
+		if s := suggest(ev, all); s != "" {
+			msg += fmt.Sprintf("; did you mean %q?", s)
+		}
+		fmt.Fprintln(a.stderr, msg)
+	}
 }

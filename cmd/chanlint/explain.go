@@ -30,7 +30,7 @@ func (a *app) runExplain(args []string) int {
 	fs := newFlagSet("explain")
 	pos, err := parseFlags(fs, args)
 	if err != nil {
-		return a.flagError(c, err)
+		return a.flagError(c, fs, err)
 	}
 	switch len(pos) {
 	case 0:

@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"regexp"
 	"strings"
 
 	"github.com/agext/levenshtein"
@@ -132,12 +133,58 @@ func flagUsage(fs *flag.FlagSet) string {
 
 // flagError prints a command-line error of command cmd and returns the exit
 // code: 0 after printing the usage for -h, 2 otherwise.
-func (a *app) flagError(c *command, err error) int {
+func (a *app) flagError(c *command, fs *flag.FlagSet, err error) int {
 	if errors.Is(err, flag.ErrHelp) {
 		fmt.Fprint(a.stdout, c.help(a))
 		return exitOK
 	}
-	return a.usageError(c, "%v", err)
+	return a.usageError(c, "%s", flagErrorText(fs, err))
+}
+
+// Messages of the flag package, which name flags with one dash.
+var (
+	flagUndefined = regexp.MustCompile(`^flag provided but not defined: -+(.*)$`)
+	flagNamed     = regexp.MustCompile(`(for flag|value:) -+([A-Za-z][\w-]*)`)
+)
+
+// flagErrorText rewrites an error of the flag package the way the usage
+// spells options, with two dashes ("--format"), and suggests the option
+// an unknown one was probably meant to be.
+func flagErrorText(fs *flag.FlagSet, err error) string {
+	msg := err.Error()
+	if m := flagUndefined.FindStringSubmatch(msg); m != nil {
+		text := "unknown option " + dashes(m[1])
+		if fs != nil {
+			var names []string
+			fs.VisitAll(func(f *flag.Flag) {
+				if len(f.Name) > 1 {
+					names = append(names, f.Name)
+				}
+			})
+			if s := suggest(strings.SplitN(m[1], "=", 2)[0], names); s != "" {
+				text += "; did you mean " + dashes(s) + "?"
+			}
+		}
+		return text
+	}
+	msg = strings.Replace(msg, "flag needs an argument: -", "option needs a value: -", 1)
+	msg = strings.Replace(msg, ": parse error", ": not a whole number", 1)
+	return flagNamed.ReplaceAllStringFunc(msg, func(s string) string {
+		m := flagNamed.FindStringSubmatch(s)
+		if m[1] == "for flag" {
+			return "for " + dashes(m[2])
+		}
+		return m[1] + " " + dashes(m[2])
+	})
+}
+
+// dashes is the spelling of an option in messages: "--name", or "-j" for
+// a one-letter one.
+func dashes(name string) string {
+	if len([]rune(name)) == 1 {
+		return "-" + name
+	}
+	return "--" + name
 }
 
 // usageError prints a command-line mistake and the hint to the usage.

@@ -102,15 +102,20 @@ func main() {
 // code. cwd is the directory relative paths are resolved against and
 // printed relative to; stdout and stderr receive the output.
 func run(args []string, stdout, stderr io.Writer, cwd string) int {
-	return newApp(stdout, stderr, cwd, os.Getenv).run(args)
+	a := newApp(stdout, stderr, cwd, os.Getenv)
+	a.stdin = os.Stdin
+	return a.run(args)
 }
 
 // app is the environment one invocation runs in. Tests build it directly
 // to set the environment variables and the worker count.
 type app struct {
 	stdout, stderr io.Writer
-	cwd            string
-	getenv         func(string) string
+	// stdin is read for the PATH "-"; stdinName (--stdin-name) names it.
+	stdin     io.Reader
+	stdinName string
+	cwd       string
+	getenv    func(string) string
 	// stdoutTTY and stderrTTY say whether the streams are terminals; they
 	// decide automatic colour and the progress line.
 	stdoutTTY, stderrTTY bool
@@ -246,7 +251,7 @@ func (a *app) runHelp(args []string) int {
 	}
 	c := findCommand(args[0])
 	if c == nil {
-		if args[0] == "help" {
+		if args[0] == "help" || args[0] == "-h" || args[0] == "--help" || args[0] == "-help" {
 			fmt.Fprint(a.stdout, "usage: chanlint help [COMMAND]\n\nShows the list of commands, or the usage of one command.\n")
 			return exitOK
 		}

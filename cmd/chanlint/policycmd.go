@@ -39,7 +39,7 @@ func (a *app) runPolicy(args []string) int {
 	fs.Var(colorFlag, "color", "colour the diagnostics of an invalid policy")
 	pos, err := parseFlags(fs, args)
 	if err != nil {
-		return a.flagError(c, err)
+		return a.flagError(c, fs, err)
 	}
 	if len(pos) == 0 {
 		return a.usageError(c, "expected 'list' or 'show'")

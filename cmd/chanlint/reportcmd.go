@@ -35,7 +35,7 @@ func newReportFlags() (*reportFlags, *flag.FlagSet) {
 		color:  newChoice("auto", "auto", "always", "never"),
 	}
 	fs := newFlagSet("report")
-	fs.StringVar(&rf.out, "out", "", "write the report to `FILE` (required)")
+	fs.StringVar(&rf.out, "out", "", "write the report to `FILE` (required; - for standard output)")
 	fs.Var(rf.format, "format", "report format (default: markdown when FILE ends in .md, else html)")
 	fs.StringVar(&rf.policy, "policy", "", "policy `FILE` or built-in pack name (default: "+configName+", else the baseline pack)")
 	fs.Var(rf.color, "color", "colour the diagnostics printed on stderr")
@@ -54,8 +54,11 @@ surface, critical depth, top of bank, jumps, failing spans), the findings,
 the design exceptions claimed and the caution.
 
   html      one self-contained file (default)
-  markdown  FILE with the extension .md, and the SVG plots beside it
-            (FILE-1.svg, FILE-2.svg, ...)
+  markdown  FILE, exactly as named, and the SVG plots beside it (for
+            review.md: review-1.svg, review-2.svg, ...)
+
+--out - writes the report to standard output (Markdown with its plots
+inline, since there is no directory to put them in).
 
 Invalid models are listed in the report and their diagnostics printed on
 stderr.
@@ -72,7 +75,7 @@ func (a *app) runReport(args []string) int {
 	rf, fs := newReportFlags()
 	paths, err := parseFlags(fs, args)
 	if err != nil {
-		return a.flagError(c, err)
+		return a.flagError(c, fs, err)
 	}
 	if rf.out == "" {
 		return a.usageError(c, "--out FILE is required")
@@ -80,6 +83,7 @@ func (a *app) runReport(args []string) int {
 	if rf.jobs < 0 {
 		return a.usageError(c, "--jobs must not be negative, got %d", rf.jobs)
 	}
+	toStdout := rf.out == "-"
 	format := rf.format.value
 	if format == "" {
 		format = "html"
@@ -118,11 +122,26 @@ func (a *app) runReport(args []string) int {
 			in.Protect = append(in.Protect, r.File.Path)
 		}
 	}
-	if format == "markdown" {
-		name := strings.TrimSuffix(filepath.Base(abs), filepath.Ext(abs))
-		err = report.Markdown(filepath.Dir(abs), name, in)
-		abs = filepath.Join(filepath.Dir(abs), name+".md") // the file Markdown writes
-	} else {
+	n := 0
+	for _, m := range in.Models {
+		n += len(m.Findings)
+	}
+	switch {
+	case toStdout && format == "markdown":
+		// One stream cannot hold the page and its SVG files: the page
+		// goes out with each plot inline.
+		var buf bytes.Buffer
+		if err = report.MarkdownInline(&buf, in); err == nil {
+			_, err = a.stdout.Write(buf.Bytes())
+		}
+	case toStdout:
+		var buf bytes.Buffer
+		if err = report.HTML(&buf, in); err == nil {
+			_, err = a.stdout.Write(buf.Bytes())
+		}
+	case format == "markdown":
+		err = report.Markdown(filepath.Dir(abs), filepath.Base(abs), in)
+	default:
 		var buf bytes.Buffer
 		if err = report.HTML(&buf, in); err == nil {
 			err = a.writeOutput(abs, buf.Bytes(), results)
@@ -132,9 +151,11 @@ func (a *app) runReport(args []string) int {
 		fmt.Fprintf(a.stderr, "chanlint report: cannot write %s: %v\n", a.display(abs), describePathError(err))
 		return exitInvalid
 	}
-	n := 0
-	for _, m := range in.Models {
-		n += len(m.Findings)
+	if toStdout {
+		// Standard output holds the report: the account goes to stderr.
+		fmt.Fprintf(a.stderr, "chanlint report: %s, %s, policy %s\n",
+			plural(len(in.Models), "model", "models"), plural(n, "finding", "findings"), pol.Name)
+		return status
 	}
 	fmt.Fprintf(a.stdout, "wrote %s: %s, %s, policy %s\n", a.display(abs),
 		plural(len(in.Models), "model", "models"), plural(n, "finding", "findings"), pol.Name)

@@ -3,6 +3,7 @@ package main
 import (
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -30,10 +31,29 @@ func TestReport(t *testing.T) {
 	assert.Equal(t, exitInvalid, code)
 	assert.Contains(t, errOut, "--out FILE is required")
 
-	// --format markdown writes NAME.md whatever the extension given.
+	// --format markdown writes the file as named, its plots beside it.
 	code, out, errOut = runIn(dir, runOpts{}, "report", "set00/demo", "--out", "notes.txt", "--format", "markdown")
 	require.Equal(t, exitOK, code, errOut)
-	assert.Regexp(t, `^wrote notes\.md: `, out)
+	assert.Regexp(t, `^wrote notes\.txt: `, out)
+	_, err = os.Stat(filepath.Join(dir, "notes.txt"))
+	assert.NoError(t, err)
+	_, err = os.Stat(filepath.Join(dir, "notes.md"))
+	assert.True(t, os.IsNotExist(err), "no other name")
 	_, err = os.Stat(filepath.Join(dir, "notes-1.svg"))
 	assert.NoError(t, err)
+	code, out, errOut = runIn(dir, runOpts{}, "report", "set00/demo", "--out", "review.markdown")
+	require.Equal(t, exitOK, code, errOut)
+	assert.Regexp(t, `^wrote review\.markdown: `, out)
+
+	// --out - writes the report to standard output, the account to stderr.
+	code, out, errOut = runIn(dir, runOpts{}, "report", "set00/demo", "--out", "-")
+	require.Equal(t, exitOK, code, errOut)
+	assert.True(t, strings.HasPrefix(out, "<!DOCTYPE html>"), out[:min(len(out), 80)])
+	assert.Regexp(t, `^chanlint report: 1 model, \d+ findings?, policy baseline\n$`, errOut)
+	_, err = os.Stat(filepath.Join(dir, "-"))
+	assert.True(t, os.IsNotExist(err))
+	code, out, errOut = runIn(dir, runOpts{}, "report", "set00/demo", "--out", "-", "--format", "markdown")
+	require.Equal(t, exitOK, code, errOut)
+	assert.Contains(t, out, "# Channel design review")
+	assert.Contains(t, out, "](data:image/svg+xml;base64,")
 }

@@ -180,6 +180,7 @@ type runOpts struct {
 	env                  map[string]string
 	jobs                 int // 0: the default
 	stdoutTTY, stderrTTY bool
+	stdin                string // standard input; none when empty
 }
 
 // runIn runs chanlint in-process in dir.
@@ -190,6 +191,9 @@ func runIn(dir string, o runOpts, args ...string) (int, string, string) {
 		a.defaultJobs = o.jobs
 	}
 	a.stdoutTTY, a.stderrTTY = o.stdoutTTY, o.stderrTTY
+	if o.stdin != "" {
+		a.stdin = strings.NewReader(o.stdin)
+	}
 	code := a.run(args)
 	return code, stdout.String(), stderr.String()
 }

@@ -69,7 +69,7 @@ func (a *app) runSolve(args []string) int {
 	sf, fs := newSolveFlags()
 	pos, err := parseFlags(fs, args)
 	if err != nil {
-		return a.flagError(c, err)
+		return a.flagError(c, fs, err)
 	}
 	if len(pos) != 1 {
 		return a.usageError(c, "expected one MODEL file, got %d arguments", len(pos))

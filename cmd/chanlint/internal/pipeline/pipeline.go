@@ -88,6 +88,8 @@ type Result struct {
 	Solution *solver.Result // see Keep.Solved
 	// Units is the model's unit system; "" when there is no model.
 	Units model.Units
+	// Events are the names of the model's flow events.
+	Events []string
 	// Findings are sorted by position (see rules.Check): the diagnostics
 	// of the file first when it is invalid.
 	Findings []rules.Finding
@@ -177,6 +179,9 @@ func (p *Parsed) Check(pol *policies.Policy, opts Options) (r *Result) {
 		return r
 	}
 	r.Units = p.Model.Units
+	for _, ev := range p.Model.Events {
+		r.Events = append(r.Events, ev.Name)
+	}
 	res, err := solver.Solve(p.Model, opts.Solver)
 	if err != nil {
 		r.Invalid = true

@@ -58,7 +58,7 @@ func TestSolvedModelsRender(t *testing.T) {
 	assert.Contains(t, out, "covers no finding")
 	assert.Equal(t, want, strings.Count(out, "<svg "))
 	dir := t.TempDir()
-	require.NoError(t, Markdown(dir, "review", in))
+	require.NoError(t, Markdown(dir, "review.md", in))
 	files, err := filepath.Glob(filepath.Join(dir, "review-*.svg"))
 	require.NoError(t, err)
 	assert.Len(t, files, want)

@@ -129,7 +129,7 @@ func TestPlotTextPositions(t *testing.T) {
 func TestMarkdownSVGMatchesPage(t *testing.T) {
 	in := fixtureInput(t, "heron-flats.chan.hcl")
 	dir := t.TempDir()
-	require.NoError(t, Markdown(dir, "r", in))
+	require.NoError(t, Markdown(dir, "r.md", in))
 	page := renderHTML(t, in)
 	file, err := os.ReadFile(filepath.Join(dir, "r-1.svg"))
 	require.NoError(t, err)

@@ -25,6 +25,7 @@ import (
 	"bufio"
 	"bytes"
 	"embed"
+	"encoding/base64"
 	"errors"
 	"fmt"
 	"html/template"
@@ -87,13 +88,20 @@ func HTML(w io.Writer, in Input) error {
 	return bw.Flush()
 }
 
-// Markdown writes name.md into dir, with each profile plot as an SVG file
-// beside it (name-1.svg, name-2.svg, ...) linked relatively. name is used
-// as a file name only (any directory part is dropped).
-func Markdown(dir, name string, in Input) error {
-	name = strings.TrimSuffix(filepath.Base(name), ".md")
-	if name == "" || name == "." || name == string(filepath.Separator) {
-		name = "chanlint-report"
+// Markdown writes the page to the file named file in dir, exactly as
+// named, with each profile plot as an SVG file beside it (for review.md:
+// review-1.svg, review-2.svg, ...) linked relatively. file is used as a
+// file name only (any directory part is dropped).
+func Markdown(dir, file string, in Input) error {
+	file = filepath.Base(file)
+	if file == "" || file == "." || file == string(filepath.Separator) {
+		file = "chanlint-report.md"
+	}
+	// The plots are named after the page without its extension:
+	// review.md → review-1.svg.
+	name := strings.TrimSuffix(file, filepath.Ext(file))
+	if name == "" {
+		name = file
 	}
 	pg, err := build(in, renderer{plot: fileSVG})
 	if err != nil {
@@ -112,7 +120,7 @@ func Markdown(dir, name string, in Input) error {
 	}
 	var md bytes.Buffer
 	writeMarkdown(&md, pg)
-	files = append(files, safefile.File{Path: filepath.Join(dir, name+".md"), Data: md.Bytes()})
+	files = append(files, safefile.File{Path: filepath.Join(dir, file), Data: md.Bytes()})
 	for _, f := range files {
 		for _, p := range in.Protect {
 			if safefile.SameFile(f.Path, p) {
@@ -126,6 +134,26 @@ func Markdown(dir, name string, in Input) error {
 		return fmt.Errorf("report: %w", err)
 	}
 	return nil
+}
+
+// MarkdownInline writes the Markdown page to w with each plot inline, as
+// an SVG data URI, for a report sent to standard output.
+func MarkdownInline(w io.Writer, in Input) error {
+	pg, err := build(in, renderer{plot: fileSVG})
+	if err != nil {
+		return err
+	}
+	for _, m := range pg.Models {
+		for _, ev := range m.Events {
+			for _, p := range ev.Plots {
+				p.File = "data:image/svg+xml;base64," + base64.StdEncoding.EncodeToString(p.svg)
+			}
+		}
+	}
+	var md bytes.Buffer
+	writeMarkdown(&md, pg)
+	_, err = w.Write(md.Bytes())
+	return err
 }
 
 // page is the view the templates render.

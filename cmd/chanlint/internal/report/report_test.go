@@ -85,7 +85,7 @@ func TestHTMLEscapesModelStrings(t *testing.T) {
 func TestMarkdown(t *testing.T) {
 	dir := t.TempDir()
 	in := fixtureInput(t, "heron-flats.chan.hcl", "inject.chan.hcl")
-	require.NoError(t, Markdown(dir, "../review", in))
+	require.NoError(t, Markdown(dir, "../review.md", in))
 	md, err := os.ReadFile(filepath.Join(dir, "review.md"))
 	require.NoError(t, err)
 	s := string(md)
@@ -175,7 +175,7 @@ func TestNonFiniteInputNeverReachesOutput(t *testing.T) {
 	assert.NotContains(t, out, "NaN")
 	assert.NotContains(t, out, "Inf")
 	dir := t.TempDir()
-	require.NoError(t, Markdown(dir, "r", in))
+	require.NoError(t, Markdown(dir, "r.md", in))
 	files, _ := filepath.Glob(filepath.Join(dir, "*"))
 	for _, f := range files {
 		b, err := os.ReadFile(f)
