@@ -108,7 +108,21 @@ type Road struct {
 	// Coefficient is the weir discharge coefficient written by the model,
 	// 0 for the published default (see solver.RoadWeirCoefficient).
 	Coefficient float64
+	// Shoulder is the elevation of the edge of the road's shoulder at its
+	// low point, the level freeboard is often measured to; valid when
+	// HasShoulder.
+	Shoulder    float64
+	HasShoulder bool
 	Range       hcl.Range
+}
+
+// FreeboardLevel is the elevation the headwater rule measures freeboard
+// to: the shoulder when the model gives it, else the crest.
+func (r *Road) FreeboardLevel() (float64, string) {
+	if r.HasShoulder {
+		return r.Shoulder, "shoulder"
+	}
+	return r.Crest, "crest"
 }
 
 // Culvert is a road culvert: the closed reach that is its barrel, the
@@ -130,7 +144,7 @@ var culvertSchema = schema("reach", "barrels", "inlet", "road")
 
 var (
 	inletKeys = []string{"form", "K", "M", "c", "Y", "entrance_loss", "Ks"}
-	roadKeys  = []string{"crest", "length", "width", "coefficient"}
+	roadKeys  = []string{"crest", "length", "width", "coefficient", "shoulder"}
 )
 
 func (d *decoder) culvert(b *hcl.Block) *Culvert {
@@ -256,7 +270,8 @@ func (d *decoder) inlet(expr hcl.Expression, what string) Inlet {
 	return in
 }
 
-// road decodes `road = { crest, length, width }`.
+// road decodes `road = { crest, length, width }` with the optional
+// coefficient and shoulder.
 func (d *decoder) road(expr hcl.Expression, what string) *Road {
 	r := &Road{Range: expr.Range()}
 	entries, ok := d.object(expr, "road of "+what, `{ crest = 6.4, length = 40, width = 10 }`)
@@ -274,6 +289,8 @@ func (d *decoder) road(expr hcl.Expression, what string) *Road {
 		switch e.Key {
 		case "crest":
 			r.Crest = v
+		case "shoulder":
+			r.Shoulder, r.HasShoulder = v, true
 		case "length", "width", "coefficient":
 			if !(v > 0) {
 				d.errorf(e.Value.Range(), "Value must be positive", "%s of the road of %s is %g; it must be greater than 0.", e.Key, what, v)
@@ -290,7 +307,7 @@ func (d *decoder) road(expr hcl.Expression, what string) *Road {
 		default:
 			seen[e.Key] = false
 			d.errorf(e.KeyRange, "Unknown road attribute",
-				"%q is not an attribute of a road; use crest (elevation), length (along the crest), width (across it) and optionally coefficient (of the weir).%s",
+				"%q is not an attribute of a road; use crest (elevation), length (along the crest), width (across it) and optionally coefficient (of the weir) and shoulder (elevation).%s",
 				e.Key, suggest(e.Key, roadKeys))
 		}
 	}

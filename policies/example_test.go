@@ -38,10 +38,13 @@ func ExampleLanguage_Configurable() {
 	// Output:
 	// freeboard error
 	// froude_band warning
+	// headwater error
 	// jump_containment error
 	// jump_type warning
 	// max_velocity error
 	// min_velocity warning
+	// outlet_velocity warning
+	// overtopping error
 	// shear_stress error
 	// superelevation error
 }

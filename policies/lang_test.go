@@ -46,6 +46,17 @@ const everyConstruct = `policy "alder-review" {
   shear_stress {
     limit = { grass = 0.6, earth = 0.075 }
   }
+  headwater {
+    max_hw_d  = 1.2
+    freeboard = 1.5
+  }
+  overtopping {
+    max_depth = 0.5
+    events    = ["q100"]
+  }
+  outlet_velocity {
+    limit = { riprap = 10.0, default = 4.0 }
+  }
 }
 `
 

@@ -206,11 +206,18 @@ func (s *solver) culvertNotes(w *reachWork, cr *CulvertResult, weir float64) {
 }
 
 // finishCulvert reads the outlet depth and velocity of a culvert from the
-// barrel's final profile (pass 2) and keeps every number finite.
-func finishCulvert(cr *CulvertResult) {
-	if rr := cr.Reach; rr != nil && len(rr.Points) > 0 {
+// barrel's final profile (pass 2), g the barrel's geometry, and keeps every
+// number finite. A barrel full at its outlet reports the rise as its depth
+// and the full-barrel velocity Q/A (HDS-5 2012, outlet velocity, from
+// memory: the flow area at the outlet is at most that of the full barrel).
+func finishCulvert(cr *CulvertResult, g *Geometry) {
+	if rr := cr.Reach; rr != nil && len(rr.Points) > 0 && g != nil {
 		p := rr.Points[len(rr.Points)-1]
 		cr.OutletDepth, cr.OutletVelocity = p.Depth, p.Velocity
+		if p.Depth >= cr.Rise {
+			cr.OutletDepth = cr.Rise
+			cr.OutletVelocity = g.Props(cr.Rise).Velocity(rr.Discharge)
+		}
 	}
 	for _, v := range []*float64{&cr.Rise, &cr.Headwater, &cr.HeadwaterDepth, &cr.HWD, &cr.InletHeadwater, &cr.OutletHeadwater,
 		&cr.Intensity, &cr.Tailwater, &cr.BarrelFlow, &cr.RoadFlow, &cr.RoadDepth, &cr.OutletDepth, &cr.OutletVelocity} {

@@ -270,8 +270,13 @@ func (s *solver) solveEvent(ev *model.Event) (*EventResult, error) {
 	}
 	for _, c := range s.m.Culverts {
 		if r := c.Reach; r != nil && r.Culvert == c && r.Index >= 0 && r.Index < len(s.work) {
-			if cr := s.work[r.Index].culvert; cr != nil {
-				finishCulvert(cr)
+			w := &s.work[r.Index]
+			if cr := w.culvert; cr != nil {
+				var g *Geometry
+				if n := len(w.pieces); n > 0 {
+					g = w.pieces[n-1].geo
+				}
+				finishCulvert(cr, g)
 				er.Culverts = append(er.Culverts, cr)
 			}
 		}

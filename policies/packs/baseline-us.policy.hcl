@@ -2,8 +2,8 @@
 #
 # The baseline screening policy with every length, velocity and stress
 # written natively in feet, with the values as the sources print them. The
-# rules without units (froude_band, jump_containment, jump_type) come from
-# "baseline" unchanged. Every number names its source beside it or on the
+# rules without units (froude_band, jump_containment, jump_type) and
+# overtopping (no depth allowed) come from "baseline" unchanged. Every number names its source beside it or on the
 # line above; "(from memory)" marks a value recalled rather than re-read, and
 # "common practice" a value of the trade with no single published source.
 #
@@ -76,5 +76,34 @@ policy "baseline-us" {
       default  = 0.075 # an unknown lining is treated as firm loam (earth), Chow 1959 Table 7-3 (from memory)
     }
     severity = "error"
+  }
+
+  headwater {
+    # HW/D of 1.5 at most: the upper end of the 1.2–1.5 commonly allowed for
+    # a design flow (common practice, no published source); FHWA HDS-5
+    # (2012) leaves the allowable headwater to site criteria (from memory).
+    max_hw_d = 1.5
+    # 1.0 ft below the shoulder, else the crest: common practice (no
+    # published source).
+    freeboard = 1.0
+    severity  = "error"
+  }
+
+  # Outlet velocity before outlet protection (ft/s): FHWA HEC-14 (2006)
+  # compares it with what the receiving channel withstands (from memory);
+  # the values are max_velocity's above.
+  outlet_velocity {
+    limit = {
+      concrete = 20.0 # as max_velocity for concrete (common practice)
+      riprap   = 10.0 # screening value for placed riprap (common practice); size the apron by HEC-14
+      grass    = 4.0  # SCS-TP-61 (1954) in Chow 1959 Table 7-5 (from memory)
+      earth    = 2.5  # ordinary firm loam, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      clay     = 3.75 # stiff clay: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      gravel   = 4.0  # coarse gravel: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      sand     = 1.5  # fine sand: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      rock     = 6.0  # shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      default  = 2.5  # an unknown receiving lining is treated as firm loam (earth), Fortier & Scobey 1926
+    }
+    severity = "warning"
   }
 }

@@ -97,4 +97,43 @@ policy "baseline" {
     }
     severity = "error"
   }
+
+  # Culverts (FHWA HDS-5, Hydraulic Design of Highway Culverts, 3rd ed. 2012):
+  # HDS-5 leaves the allowable headwater to site criteria (from memory).
+  headwater {
+    # HW/D of 1.5 at most: the upper end of the 1.2–1.5 that highway agencies
+    # commonly allow for a design flow (common practice, no published source).
+    max_hw_d = 1.5
+    # 0.3 m (about 1 ft) below the shoulder, else the crest: common practice
+    # (no published source).
+    freeboard = 0.3
+    severity  = "error"
+  }
+
+  overtopping {
+    # The road stays dry in every event: a screening stance; the road owner
+    # sets the events and depths allowed (common practice, no published
+    # source). Extend and list the design events, or allow a depth.
+    max_depth = 0
+    severity  = "error"
+  }
+
+  # Culvert outlet velocity above which the receiving channel needs outlet
+  # protection: FHWA HEC-14 (2006) compares it with the velocity the channel
+  # withstands (from memory); the values are max_velocity's permissible
+  # velocities above (Fortier & Scobey 1926, Chow 1959 Table 7-3).
+  outlet_velocity {
+    limit = {
+      concrete = 6.0  # ≈ 20 ft/s, as max_velocity for concrete (common practice)
+      riprap   = 3.0  # ≈ 10 ft/s screening value for placed riprap (common practice); size the apron by HEC-14
+      grass    = 1.22 # 4 ft/s, SCS-TP-61 (1954) in Chow 1959 Table 7-5 (from memory)
+      earth    = 0.76 # 2.5 ft/s ordinary firm loam, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      clay     = 1.14 # 3.75 ft/s stiff clay: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      gravel   = 1.22 # 4.0 ft/s coarse gravel: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      sand     = 0.46 # 1.5 ft/s fine sand: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      rock     = 1.83 # 6.0 ft/s shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      default  = 0.76 # an unknown receiving lining is treated as firm loam (earth), Fortier & Scobey 1926
+    }
+    severity = "warning"
+  }
 }

@@ -43,4 +43,12 @@ policy "strict" {
     avoid    = [[2.5, 4.5]]
     severity = "error"
   }
+
+  headwater {
+    # HW/D of 1.2 at most, the lower end of the 1.2–1.5 commonly allowed
+    # (common practice, no published source).
+    max_hw_d  = 1.2
+    freeboard = 0.3 # as baseline: common practice (no published source)
+    severity  = "error"
+  }
 }
