@@ -6,8 +6,8 @@ import (
 	"strconv"
 	"strings"
 	"unicode"
-	"unicode/utf8"
 
+	suggestpkg "github.com/chanlint/chanlint/internal/suggest"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
 	"github.com/zclconf/go-cty/cty"
@@ -323,63 +323,20 @@ func typeName(t cty.Type) string {
 // suggest returns ` Did you mean "x"?` for the closest candidate within a
 // small edit distance, or "".
 func suggest(got string, candidates []string) string {
-	budget := math.MaxInt
-	return suggestWithin(got, candidates, &budget)
+	return suggestWithin(got, candidates, nil)
 }
 
-// suggestWithin is suggest with a budget of edit-distance cells (the
-// product of the two lengths), spent as candidates are compared; when it
-// runs out the search stops. It keeps the work on a hostile file bounded.
+// suggestWithin is suggest with a budget of edit-distance cells (see
+// suggest.Closest), spent as candidates are compared; when it runs out the
+// search stops. It keeps the work on a hostile file bounded.
 func suggestWithin(got string, candidates []string, budget *int) string {
-	best, bestD := "", 3
+	maxDist := 2
 	if len(got) <= 3 {
-		bestD = 2
+		maxDist = 1
 	}
-	n := utf8.RuneCountInString(got)
-	for _, c := range candidates {
-		// The distance is at least the difference in length, a cheap
-		// filter that skips most names of a large model.
-		m := utf8.RuneCountInString(c)
-		if n-m >= bestD || m-n >= bestD {
-			continue
-		}
-		if *budget -= min(n, 64) * min(m, 64); *budget < 0 {
-			break
-		}
-		if dist := editDistance(got, c); dist < bestD {
-			best, bestD = c, dist
-		}
-	}
+	best := suggestpkg.Closest(got, candidates, maxDist, budget)
 	if best == "" {
 		return ""
 	}
 	return fmt.Sprintf(" Did you mean %q?", best)
-}
-
-// editDistance is the Levenshtein distance between a and b, by runes.
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	if len(ra) > 64 || len(rb) > 64 {
-		if a == b {
-			return 0
-		}
-		return 64
-	}
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(rb)]
 }

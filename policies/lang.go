@@ -3,9 +3,11 @@ package policies
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 
+	"github.com/chanlint/chanlint/internal/suggest"
 	"github.com/chanlint/chanlint/model"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
@@ -422,45 +424,20 @@ var unitAliases = map[string]string{
 	"imperial": "us", "english": "us", "customary": "us", "ft": "us", "feet": "us", "usc": "us",
 }
 
-// suggestWord returns the allowed word that s probably meant, or "".
+// suggestWord returns the allowed word that s probably meant (an alias of
+// a unit system, an abbreviation, or a word within two edits), or "".
 func suggestWord(s string, allowed []string) string {
 	low := strings.ToLower(strings.TrimSpace(s))
 	if alias, ok := unitAliases[low]; ok {
 		low = alias
 	}
-	for _, w := range allowed {
-		if low == w || (len(low) >= 3 && strings.HasPrefix(w, low)) {
-			return w
-		}
+	if slices.Contains(allowed, low) {
+		return low
 	}
-	best, bestD := "", 3
-	for _, w := range allowed {
-		if dist := editDistance(low, w); dist < bestD {
-			best, bestD = w, dist
-		}
+	if w := suggest.Prefix(low, allowed); w != "" {
+		return w
 	}
-	return best
-}
-
-// editDistance is the Levenshtein distance between a and b (bytes).
-func editDistance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
+	return suggest.Closest(low, allowed, 2, nil)
 }
 
 func quoteList(ws []string) string {

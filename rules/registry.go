@@ -4,6 +4,7 @@ import (
 	"slices"
 	"strings"
 
+	suggestpkg "github.com/chanlint/chanlint/internal/suggest"
 	"github.com/chanlint/chanlint/policies"
 )
 
@@ -69,40 +70,12 @@ func Lookup(id string) *Rule {
 }
 
 // suggest returns the registry id closest to a misspelt one (at most a
-// third of its letters wrong), or "".
+// third of its letters wrong, plus one so that two swapped letters count
+// as one mistake), or "".
 func suggest(id string) string {
-	best, bestD := "", len(id)/3+1
-	for _, r := range registry {
-		if d := editDistance(id, r.ID); d < bestD {
-			best, bestD = r.ID, d
-		}
+	ids := make([]string, len(registry))
+	for i, r := range registry {
+		ids[i] = r.ID
 	}
-	return best
-}
-
-// editDistance is the optimal-string-alignment distance between two
-// strings, by bytes (rule ids are ASCII): insertions, deletions,
-// substitutions and transpositions of adjacent letters each count one.
-func editDistance(a, b string) int {
-	d := make([][]int, len(a)+1)
-	for i := range d {
-		d[i] = make([]int, len(b)+1)
-		d[i][0] = i
-	}
-	for j := range d[0] {
-		d[0][j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			d[i][j] = min(d[i-1][j]+1, d[i][j-1]+1, d[i-1][j-1]+cost)
-			if i > 1 && j > 1 && a[i-1] == b[j-2] && a[i-2] == b[j-1] {
-				d[i][j] = min(d[i][j], d[i-2][j-2]+1)
-			}
-		}
-	}
-	return d[len(a)][len(b)]
+	return suggestpkg.Closest(id, ids, len(id)/3+1, nil)
 }

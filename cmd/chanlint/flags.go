@@ -8,7 +8,7 @@ import (
 	"regexp"
 	"strings"
 
-	"github.com/agext/levenshtein"
+	suggestpkg "github.com/chanlint/chanlint/internal/suggest"
 )
 
 // choice is a string flag restricted to a fixed set of words; a wrong word
@@ -196,26 +196,12 @@ func (a *app) usageError(c *command, format string, args ...any) int {
 
 // suggest returns the candidate that word abbreviates, else the one closest
 // to it by edit distance when that is close enough to be a likely typing
-// mistake (Levenshtein distance, the library HCL itself uses for its hints),
-// else "".
+// mistake (at most a third of its letters, at least two, and not all of
+// them), else "".
 func suggest(word string, candidates []string) string {
-	if len(word) >= 3 {
-		for _, c := range candidates {
-			if strings.HasPrefix(strings.ToLower(c), strings.ToLower(word)) {
-				return c // an abbreviation
-			}
-		}
+	if c := suggestpkg.Prefix(word, candidates); c != "" {
+		return c // an abbreviation
 	}
-	best, bestD := "", -1
-	for _, c := range candidates {
-		d := levenshtein.Distance(strings.ToLower(word), strings.ToLower(c), nil)
-		if bestD < 0 || d < bestD {
-			best, bestD = c, d
-		}
-	}
-	limit := max(2, len([]rune(word))/3)
-	if bestD < 0 || bestD > limit || bestD == len([]rune(word)) {
-		return ""
-	}
-	return best
+	n := len([]rune(word))
+	return suggestpkg.Closest(word, candidates, min(max(2, n/3), n-1), nil)
 }
