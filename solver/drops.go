@@ -171,7 +171,7 @@ func (s *solver) randDrop(w, up *reachWork) (superControl, bool) {
 		validity += "; the drop length " + num(r.Length) + " reaches past station " + num(x) + ", where the toe is placed"
 	}
 	y1 := r.ToeDepth
-	e1 := w.f.invert(0) + w.f.eval(p0, y1).e
+	e1 := w.f.invert(x) + w.f.eval(p0, y1).e
 	y2, err := SequentDepth(p0.geo, w.q, y1)
 	if err != nil {
 		y2 = r.SequentDepth

@@ -68,7 +68,7 @@ func (s *solver) gateHead(w *reachWork) {
 	} else {
 		y3, ok := rollerDepth(w, p0, mt-w.q*w.q/(p0.geo.g*av), yv)
 		if !ok {
-			s.gateOpen(w, st, "passes the flow untouched under its lip",
+			s.gateOpen(w, st, "is above the water (jet "+num(yv)+", flow below "+num(yt)+")",
 				"the flow below it is not deep enough to cover the jet of its opening: the opening passes the flow without holding it back")
 			return
 		}
