@@ -184,6 +184,16 @@ func (s *solver) culvertNotes(w *reachWork, cr *CulvertResult, weir float64) {
 			outlet = "barrel full: HW = ho + (1 + ke + kf)·V²/2g above the outlet invert with ho = max(TW, (dc + D)/2), the HDS-5 approximation for a tailwater below the crown (a backwater profile in the barrel would be more exact where the headwater is low)"
 		}
 	}
+	validity := "inlet control: the HDS-5 regression of its nomographs, unsubmerged up to Ku·Q/(A·D^0.5) = 3.5, submerged from 4.0, here " + num(cr.Intensity) +
+		" (" + string(cr.InletRegime) + "); outlet control: one-dimensional energy equation through the barrel, subcritical profile or full flow; equations and named coefficients from memory of HDS-5 (2012)"
+	w.res.Structures = append(w.res.Structures, Structure{
+		Kind: StructCulvert, Name: c.Name, Station: 0, State: string(cr.Control) + " control",
+		Method:        cr.Method() + ": headwater " + num(cr.Headwater) + " (inlet control " + num(cr.InletHeadwater) + ", outlet control " + num(cr.OutletHeadwater) + "); outlet control " + outlet,
+		Validity:      validity,
+		Coefficient:   c.Inlet.EntranceLoss,
+		HeadLoss:      cr.Headwater - cr.Tailwater,
+		UpstreamDepth: cr.HeadwaterDepth, DownstreamDepth: cr.Tailwater - w.r.InvertDown,
+	})
 	cr.Notes = append(cr.Notes, fmt.Sprintf(
 		"culvert %q: headwater %s (HW/D %s) by %s control (FHWA HDS-5, 2012). Inlet control %s with %s, form %s, %s: Ku·Q/(A·D^0.5) = %s (unsubmerged up to 3.5, submerged from 4.0, interpolated between)%s. Outlet control %s, tailwater %s, ke = %s: %s",
 		c.Name, num(cr.Headwater), num(cr.HWD), cr.Control, num(cr.InletHeadwater), inlet, form, cr.InletRegime,

@@ -157,6 +157,10 @@ const (
 	StructTransition StructureKind = "transition"
 	// StructGate: a sluice gate at station 0 of the reach.
 	StructGate StructureKind = "gate"
+	// StructCulvert: the inlet of a culvert barrel at station 0 (FHWA
+	// HDS-5); its state is the governing control, "inlet control" or
+	// "outlet control".
+	StructCulvert StructureKind = "culvert"
 )
 
 // Structure states.
