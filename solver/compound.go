@@ -60,6 +60,47 @@ type compound struct {
 	bands  []band
 	grid   []float64 // ascending scan depths (see gridSub)
 	zmin   float64   // elevation of the lowest point
+	// tab holds the section's hydraulics at every scan depth, filled once
+	// per Geometry (see tabulate): the depth searches compare against it
+	// instead of evaluating Props over the whole grid at every call.
+	tab gridTable
+}
+
+// gridTable is the hydraulics of a points section at each depth of its
+// scan grid, the parts of the depth searches' conditions that do not
+// depend on the discharge:
+//
+//	kmax[i] = max over j ≤ i of K(grid[j])             normal depth: K = Q/√S0
+//	zc[i]   = ln(g·A³) − ln(α·T) at grid[i]            critical depth: zc = ln Q²
+//
+// so that a search finds its bracket by comparisons (a binary search on
+// kmax, a sweep over zc) and spends section evaluations only in Brent's
+// method inside the bracket. The bracket is the one the untabulated sweep
+// finds, and the root Brent's method then converges to is the same.
+type gridTable struct {
+	kmax []float64
+	zc   []float64
+}
+
+// tabulateNear is the distance from a condition's root within which a
+// tabulated grid value is re-evaluated from Props, so that rounding in the
+// table (ln a − ln b against ln(a/b)) can never flip the sign the
+// untabulated search would see.
+const tabulateNear = 1e-9
+
+// tabulate fills g.pts.tab; NewBarrels calls it once the Geometry is
+// complete (Props must be usable).
+func (g *Geometry) tabulate() {
+	c := &g.pts
+	n := len(c.grid)
+	c.tab = gridTable{kmax: make([]float64, n), zc: make([]float64, n)}
+	kmax := 0.0
+	for i, y := range c.grid {
+		p := g.Props(y)
+		kmax = math.Max(kmax, p.Conveyance)
+		c.tab.kmax[i] = kmax
+		c.tab.zc[i] = math.Log(g.g*p.Area*p.Area*p.Area) - math.Log(p.Alpha*p.TopWidth)
+	}
 }
 
 func newCompound(s *model.Section, k float64) compound {

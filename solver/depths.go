@@ -3,6 +3,7 @@ package solver
 import (
 	"fmt"
 	"math"
+	"slices"
 )
 
 // maxScanSteps bounds every bracketing walk over trial depths beyond the
@@ -47,6 +48,32 @@ func bracketUp(g *Geometry, f func(float64) float64, y0 float64) (lo, hi float64
 		}
 	}
 	return walkTo(g, lo, true, func(v float64) bool { return f(v) >= 0 })
+}
+
+// normalBracket is bracketUp from the first scan depth of a points
+// section for f(y) = K(y)/target − 1, with the walk up the grid done on the
+// tabulated running maximum of K (see gridTable): the first grid depth
+// where K reaches target is found by binary search, and the depth before
+// it, where every K is below target, closes the bracket. Beyond the grid
+// (and below its first depth) the walk goes on as in bracketUp.
+func normalBracket(g *Geometry, f func(float64) float64, target float64) (lo, hi float64, ok bool) {
+	grid, kmax := g.pts.grid, g.pts.tab.kmax
+	if len(grid) == 0 || len(kmax) != len(grid) || f(grid[0]) >= 0 {
+		y0 := 1.0
+		if len(grid) > 0 {
+			y0 = grid[0]
+		}
+		return bracketUp(g, f, y0)
+	}
+	i, _ := slices.BinarySearch(kmax, target) // first kmax[i] ≥ target
+	// Near the root the table's value is checked against f itself.
+	for i < len(grid) && i > 0 && math.Abs(kmax[i]/target-1) < tabulateNear && f(grid[i]) < 0 {
+		i++
+	}
+	if i >= len(grid) {
+		return walkTo(g, grid[len(grid)-1], true, func(v float64) bool { return f(v) >= 0 })
+	}
+	return grid[max(i-1, 0)], grid[i], true
 }
 
 // NormalDepth is the depth of uniform flow of discharge q on bed slope
@@ -97,11 +124,7 @@ func NormalDepth(g *Geometry, q, slope float64) (float64, error) {
 		}
 		return Brent(f, minDepth, yMax, 0)
 	case kindPoints:
-		y0 := 1.0
-		if len(g.pts.grid) > 0 {
-			y0 = g.pts.grid[0]
-		}
-		lo, hi, ok := bracketUp(g, f, y0)
+		lo, hi, ok := normalBracket(g, f, target)
 		if !ok {
 			return 0, ErrNoNormalDepth
 		}
@@ -267,7 +290,7 @@ func CriticalDepths(g *Geometry, q float64, dst []float64) []float64 {
 		return dst
 	}
 	f := criticalFn(g, q)
-	grid := g.pts.grid
+	grid, zc := g.pts.grid, g.pts.tab.zc
 	lo, top := 1.0, 0.0
 	if len(grid) > 0 {
 		lo, top = grid[0], grid[len(grid)-1]
@@ -280,9 +303,31 @@ func CriticalDepths(g *Geometry, q float64, dst []float64) []float64 {
 		lo /= 2
 		flo = f(lo)
 	}
+	// Over the grid the condition comes from the table (see gridTable),
+	// f = zc − ln Q², re-evaluated only next to a root; Brent's method
+	// refines each bracket on f itself.
+	lnq2 := 2 * math.Log(q)
+	tabulated := len(zc) == len(grid)
+	j, _ := slices.BinarySearch(grid, lo)
 	for range maxScanSteps + len(grid) {
-		hi := g.scanAbove(lo)
-		fhi := f(hi)
+		// The next scan depth above lo, as scanAbove finds it.
+		for j < len(grid) && !(grid[j] > lo*(1+1e-12)) {
+			j++
+		}
+		var hi, fhi float64
+		switch {
+		case j < len(grid) && tabulated:
+			hi = grid[j]
+			if fhi = zc[j] - lnq2; math.Abs(fhi) < tabulateNear {
+				fhi = f(hi)
+			}
+		case j < len(grid):
+			hi = grid[j]
+			fhi = f(hi)
+		default:
+			hi = 2 * lo
+			fhi = f(hi)
+		}
 		if flo < 0 && fhi >= 0 {
 			if y, err := Brent(f, lo, hi, 0); err == nil {
 				dst = append(dst, y)

@@ -81,6 +81,7 @@ func NewBarrels(s *model.Section, u model.Units, n int) *Geometry {
 		if !(g.height > 0) {
 			g.height = g.pts.defaultHeight()
 		}
+		defer g.tabulate()
 	default:
 		g.kind = kindPrismatic
 		switch s.Shape {

@@ -59,6 +59,7 @@ func (s *solver) depths(g *Geometry, q, s0 float64) (yc, yn float64, hasN bool, 
 	if d, ok := s.depthCache[key]; ok {
 		return d.yc, d.yn, d.hasN, d.class
 	}
+	s.spend(workPerSearch + int64(len(g.pts.grid)/16))
 	yc, yn, hasN, class = computeDepths(g, q, s0)
 	s.depthCache[key] = depthVal{yc, yn, hasN, class}
 	return yc, yn, hasN, class

@@ -255,6 +255,10 @@ type Options struct {
 	// events together (0: DefaultMaxPoints, 1,000,000); exceeding it ends
 	// Solve with ErrTooManyPoints.
 	MaxPoints int
+	// MaxWork bounds the total work of the Solve call, all events
+	// together, in units of about one section evaluation (0:
+	// DefaultMaxWork); exceeding it ends Solve with ErrWorkBudget.
+	MaxWork int64
 	// Events restricts solving to the named events (nil: all).
 	Events []string
 }

@@ -12,6 +12,10 @@ import (
 // needs more computed points than Options.MaxPoints allows.
 var ErrTooManyPoints = errors.New("too many computed points")
 
+// ErrWorkBudget ends Solve when the model needs more work than
+// Options.MaxWork allows (see DefaultMaxWork).
+var ErrWorkBudget = errors.New("work budget exceeded")
+
 // Defaults of Options.
 const (
 	// DefaultTolerance is the closure of the energy equation on the water
@@ -32,6 +36,22 @@ const (
 	// at a peak resident set of 287 MB, where a budget per event needed
 	// about 17 GB.
 	DefaultMaxPoints = 1_000_000
+	// DefaultMaxWork bounds the total work of one Solve call, all events
+	// together, when Options.MaxWork is 0. Work is counted in units of
+	// about one section evaluation: a computed point costs workPerPoint
+	// (a standard step with its step-doubling check), a normal and
+	// critical depth search workPerSearch plus one unit per 16 depths of
+	// a points section's scan grid (see gridTable). The computed-point
+	// limit bounds the profiles; this bound adds the depth searches, which
+	// a model of many reaches and events on large points sections
+	// multiplies (60 sections of 5,000 points under 200 events, each
+	// reach with its own discharge, took about a minute before the grid
+	// was tabulated). At about 0.1–0.3 µs a unit, 50 million units end a
+	// Solve within seconds; a model beyond it gets a diagnostic, not a
+	// kill.
+	DefaultMaxWork = 50_000_000
+	workPerPoint   = 16
+	workPerSearch  = 64
 )
 
 // Solve computes the steady water-surface profiles of every event of m (in
@@ -88,7 +108,8 @@ const (
 //   - Slope classes and profile types: see classOf and profileType.
 //
 // The error is only for limits (ErrTooManyPoints, Options.MaxPoints,
-// default DefaultMaxPoints for the whole call, all events together); numerical trouble and controls that
+// default DefaultMaxPoints for the whole call, all events together;
+// ErrWorkBudget, Options.MaxWork, default DefaultMaxWork); numerical trouble and controls that
 // cannot act are Notes on the reach. Every number of the result is finite.
 func Solve(m *model.Model, opts Options) (*Result, error) {
 	res := &Result{Model: m}
@@ -138,6 +159,9 @@ type solver struct {
 	finBuf     []pt
 	points     int // computed points of the whole Solve call, all events
 	tooMany    bool
+	maxWork    int64
+	spent      int64     // work units of the whole Solve call (see DefaultMaxWork)
+	overBudget bool      // tooMany because of the work budget
 	entrance   []float64 // by reach index, per event; 0 = none
 }
 
@@ -147,6 +171,7 @@ func newSolver(m *model.Model, opts Options) *solver {
 		units:      m.Units,
 		tol:        opts.Tolerance,
 		maxPoints:  opts.MaxPoints,
+		maxWork:    opts.MaxWork,
 		geos:       map[geoKey]*Geometry{},
 		depthCache: map[depthKey]depthVal{},
 	}
@@ -155,6 +180,9 @@ func newSolver(m *model.Model, opts Options) *solver {
 	}
 	if s.maxPoints <= 0 {
 		s.maxPoints = DefaultMaxPoints
+	}
+	if s.maxWork <= 0 {
+		s.maxWork = DefaultMaxWork
 	}
 	s.order = topoOrder(m)
 	s.layouts = make([]reachLayout, len(m.Reaches))
@@ -225,6 +253,15 @@ func (s *solver) count(n int) {
 	if s.points > s.maxPoints {
 		s.tooMany = true
 	}
+	s.spend(int64(n) * workPerPoint)
+}
+
+// spend adds work units to the budget of the Solve call.
+func (s *solver) spend(units int64) {
+	s.spent += units
+	if s.spent > s.maxWork {
+		s.tooMany, s.overBudget = true, true
+	}
 }
 
 // solveEvent runs both passes for one event.
@@ -250,6 +287,9 @@ func (s *solver) solveEvent(ev *model.Event) (*EventResult, error) {
 		s.work[i] = reachWork{r: r, q: q, res: &ReachResult{Reach: r, Discharge: q}}
 		s.prepare(&s.work[i], &s.layouts[i])
 		er.Reaches[i] = s.work[i].res
+		if s.tooMany {
+			return nil, s.limitError(ev)
+		}
 	}
 	// Pass 1: subcritical profiles, outlet first.
 	for i := len(s.order) - 1; i >= 0; i-- {
@@ -285,6 +325,10 @@ func (s *solver) solveEvent(ev *model.Event) (*EventResult, error) {
 }
 
 func (s *solver) limitError(ev *model.Event) error {
+	if s.overBudget {
+		return fmt.Errorf("%w: the model needs more than %d units of work (about one section evaluation each), reached in event %q (the solver's limit for one model, all events together; many events on many reaches with large points sections raise it)",
+			ErrWorkBudget, s.maxWork, ev.Name)
+	}
 	return fmt.Errorf("%w: the model needs more than %d computed points, reached in event %q (the solver's limit for one model, all events together; a very small max_spacing on long reaches, or many events, raise the count)",
 		ErrTooManyPoints, s.maxPoints, ev.Name)
 }

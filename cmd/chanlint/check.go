@@ -25,6 +25,7 @@ import (
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
+	"github.com/chanlint/chanlint/solver"
 )
 
 // progressThreshold is the number of files from which `check` and
@@ -270,7 +271,7 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 		if src, err := a.readStdin(); err != nil {
 			results = append(results, pipeline.Unreadable(name, err))
 		} else {
-			results = append(results, pipeline.Parse(pipeline.File{Name: name}, src).Check(pol, pipeline.Options{Keep: k, Stderr: a.stderr}))
+			results = append(results, pipeline.Parse(pipeline.File{Name: name}, src).Check(pol, pipeline.Options{Keep: k, Stderr: a.stderr, Solver: solveOptions}))
 		}
 		if len(rest) == 0 {
 			return results
@@ -288,7 +289,7 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 		jobs = a.defaultJobs
 	}
 	prog := a.newProgress(len(files))
-	checked := pipeline.CheckFiles(files, pol, pipeline.Options{Keep: k, Stderr: a.stderr}, jobs, prog.step)
+	checked := pipeline.CheckFiles(files, pol, pipeline.Options{Keep: k, Stderr: a.stderr, Solver: solveOptions}, jobs, prog.step)
 	prog.done()
 	return append(results, checked...)
 }
@@ -330,6 +331,10 @@ func orDot(paths []string) []string {
 	}
 	return paths
 }
+
+// solveOptions are the solver's options for every file: the defaults, a
+// variable so that a test can lower the work budget.
+var solveOptions = solver.Options{}
 
 // progress prints "checked 120/1000 files" on stderr while a long run
 // goes on: only when stderr is a terminal and there are many files.

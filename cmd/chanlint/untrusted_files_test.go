@@ -1,12 +1,14 @@
 package main
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
 	"syscall"
 	"testing"
 
+	"github.com/chanlint/chanlint/solver"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
@@ -179,4 +181,35 @@ func TestHostileExpressionsLoseNoOtherFile(t *testing.T) {
 		assert.Contains(t, out, "6 files (3 invalid)")
 		assert.Less(t, len(out), 64<<10, "a bounded excerpt, not the 4 MiB line")
 	}
+}
+
+// A model beyond the work budget ends in a `solver` finding that says so,
+// not a kill or a hang; the other files are still checked.
+func TestWorkBudgetFinding(t *testing.T) {
+	repo, _ := hostileTree(t)
+	var b strings.Builder
+	b.WriteString("units = \"si\"\nsection \"v\" {\n  shape = \"points\"\n  roughness = 0.03\n  points = [")
+	for i := range 2000 {
+		fmt.Fprintf(&b, "[%d, %g], ", i, 3-3*float64(i%1000)/1000*float64(1-i/1000)+3*float64(i/1000)*float64(i%1000)/1000)
+	}
+	b.WriteString("]\n}\n")
+	for r := range 40 {
+		fmt.Fprintf(&b, "reach \"r%d\" {\n  from = \"n%d\"\n  to = \"n%d\"\n  length = 40\n  section = \"v\"\n  slope = 0.001\n}\n", r, r, r+1)
+	}
+	for e := range 50 {
+		fmt.Fprintf(&b, "event \"e%d\" {\n  inflow = {", e)
+		for r := range 40 {
+			fmt.Fprintf(&b, " r%d = %g,", r, 0.5+0.1*float64(e))
+		}
+		b.WriteString(" }\n  outlet = { condition = \"normal\" }\n}\n")
+	}
+	require.NoError(t, os.WriteFile(filepath.Join(repo, "models", "heavy.chan.hcl"), []byte(b.String()), 0o644))
+	defer func(o solver.Options) { solveOptions = o }(solveOptions)
+	solveOptions.MaxWork = 200_000
+	code, out, _ := runIn(repo, runOpts{}, "check", "--color", "never", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, out, "work budget exceeded")
+	assert.Contains(t, out, "split the model or its events")
+	assert.Contains(t, out, "models/overtop.chan.hcl:", "the other files are still reported")
+	assert.Contains(t, out, "4 files (1 invalid)")
 }

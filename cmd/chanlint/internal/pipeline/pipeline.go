@@ -296,8 +296,11 @@ func panicFinding(file string, v any) rules.Finding {
 // exceeds a size limit.
 func LimitFinding(m *model.Model, err error) rules.Finding {
 	msg := "cannot solve the model: " + err.Error()
-	if errors.Is(err, solver.ErrTooManyPoints) {
+	switch {
+	case errors.Is(err, solver.ErrTooManyPoints):
 		msg += "; shorten the reaches, raise max_spacing or split the model"
+	case errors.Is(err, solver.ErrWorkBudget):
+		msg += "; split the model or its events; nothing of this model was checked"
 	}
 	return rules.Finding{
 		Rule: "solver", Severity: policies.Error, File: m.File,
