@@ -100,6 +100,8 @@ func settingTokens(s *Setting, rc *RuleConfig) hclwrite.Tokens {
 		if ok {
 			return bandTokens(v.Bands)
 		}
+	case Choice:
+		return hclwrite.TokensForValue(cty.StringVal(rc.Word(s.Name)))
 	}
 	return nil
 }
@@ -196,6 +198,8 @@ func (rc *RuleConfig) Summary(u model.Units, num func(float64) string) string {
 				items = append(items, "other linings "+num(t.Table.Default))
 			}
 			parts = append(parts, s.Name+" "+strings.Join(items, ", ")+unit)
+		case Choice:
+			parts = append(parts, s.Name+" "+rc.Word(s.Name))
 		case FroudeBands:
 			var items []string
 			for _, b := range rc.Bands(s.Name) {

@@ -214,8 +214,11 @@ func (d *decoder) decodeRule(spec *RuleSpec, block *hcl.Block, file string) (rc 
 		s := &spec.Settings[i]
 		a := content.Attributes[s.Name]
 		if a == nil {
-			if s.Kind == Number {
+			switch s.Kind {
+			case Number:
 				rc.Values[s.Name] = Value{Number: s.Default}
+			case Choice:
+				rc.Values[s.Name] = Value{Word: s.Choices[0]}
 			}
 			continue
 		}
@@ -227,6 +230,11 @@ func (d *decoder) decodeRule(spec *RuleSpec, block *hcl.Block, file string) (rc 
 			v.Table = d.byLining(a, s)
 		case FroudeBands:
 			v.Bands = d.bands(a, s)
+		case Choice:
+			v.Word, _ = d.enum(a, s.Name, s.Choices)
+			if v.Word == "" {
+				v.Word = s.Choices[0]
+			}
 		}
 		rc.Values[s.Name] = v
 	}

@@ -217,6 +217,6 @@ func TestFormatQuotesOddLiningWords(t *testing.T) {
 	text := string(policies.Format(p))
 	assert.Contains(t, text, `"dumped riprap" = 3`)
 	assert.Contains(t, text, `concrete`)
-	assert.Contains(t, text, `events   = ["q2", "q10"]`)
+	assert.Contains(t, text, `events          = ["q2", "q10"]`)
 	assert.NotContains(t, text, "extends", "the effective policy is already merged")
 }

@@ -80,6 +80,7 @@ type Value struct {
 	Number float64  // Number
 	Table  ByLining // PerLining
 	Bands  []Band   // FroudeBands, sorted by Low
+	Word   string   // Choice
 }
 
 // Number is the value of a Number setting: as written, else the spec's
@@ -94,6 +95,20 @@ func (c *RuleConfig) Number(name string) float64 {
 		}
 	}
 	return 0
+}
+
+// Word is the value of a Choice setting: as written, else the spec's
+// default (its first choice; "" without a spec).
+func (c *RuleConfig) Word(name string) string {
+	if v, ok := c.Values[name]; ok && v.Word != "" {
+		return v.Word
+	}
+	if c.Spec != nil {
+		if s := c.Spec.Setting(name); s != nil && s.Kind == Choice {
+			return s.Choices[0]
+		}
+	}
+	return ""
 }
 
 // Table is the value of a PerLining setting (empty when not written).

@@ -31,6 +31,9 @@ const (
 	// FroudeBands is a list of [low, high] Froude-number pairs with
 	// 0 ≤ low < high: avoid = [[0.86, 1.13]].
 	FroudeBands
+	// Choice is one word of a fixed list (Setting.Choices, the first the
+	// default): quantity = "mean". It has no quantity and no bounds.
+	Choice
 )
 
 // Quantity says what a number of a setting measures, and so how it is
@@ -160,12 +163,27 @@ type Setting struct {
 	// Must overrides what messages say the value must be; empty: the
 	// quantity and the bounds ("a length of at least 0").
 	Must string
+	// Choices are the words a Choice setting takes; the first is its
+	// default.
+	Choices []string
+}
+
+// quotedChoices is the choices as prose: "a" or "b".
+func (s *Setting) quotedChoices() string {
+	q := make([]string, len(s.Choices))
+	for i, c := range s.Choices {
+		q[i] = fmt.Sprintf("%q", c)
+	}
+	return joinWords(q, "or")
 }
 
 // must is what a value of the setting must be, for messages.
 func (s *Setting) must() string {
 	if s.Must != "" {
 		return s.Must
+	}
+	if s.Kind == Choice {
+		return s.quotedChoices()
 	}
 	return s.Quantity.noun() + " " + s.Bounds.String()
 }
@@ -177,6 +195,8 @@ func (s *Setting) Usage() string {
 		return s.Name + " = NUMBER or " + s.Name + " = { LINING = NUMBER, ..., default = NUMBER }"
 	case FroudeBands:
 		return s.Name + " = [[low, high], ...], the Froude-number bands to flag"
+	case Choice:
+		return s.Name + " = " + s.quotedChoices()
 	}
 	return s.Name + " = NUMBER"
 }
@@ -195,6 +215,8 @@ func (s *Setting) Line() string {
 		form += ", or { LINING = value or null, ..., default = value }"
 	case FroudeBands:
 		form = "[[low, high], ...], " + q + "s " + s.Bounds.String() + ", low < high"
+	case Choice:
+		form = s.quotedChoices()
 	}
 	line := s.Name + ": " + s.Doc + "; " + form
 	switch {
@@ -202,6 +224,8 @@ func (s *Setting) Line() string {
 		line += "; required"
 	case s.Kind == Number:
 		line += "; default " + formatNumber(s.Default)
+	case s.Kind == Choice:
+		line += fmt.Sprintf("; default %q", s.Choices[0])
 	}
 	return line
 }
@@ -295,8 +319,11 @@ func (r *RuleSpec) Validate() error {
 		switch {
 		case s.Name == "" || seen[s.Name]:
 			return fmt.Errorf("rule %s: setting %q is empty, repeated or reserved", r.ID, s.Name)
-		case s.Kind < Number || s.Kind > FroudeBands:
+		case s.Kind < Number || s.Kind > Choice:
 			return fmt.Errorf("rule %s: setting %s has no kind", r.ID, s.Name)
+		case s.Kind == Choice && (len(s.Choices) < 2 || s.Required || s.Quantity != 0 || s.Bounds != (Bounds{})):
+			return fmt.Errorf("rule %s: choice %s needs two words or more, the first its default, and no quantity or bounds", r.ID, s.Name)
+		case s.Kind == Choice:
 		case s.Quantity < Length || s.Quantity > Froude:
 			return fmt.Errorf("rule %s: setting %s has no quantity", r.ID, s.Name)
 		case s.Bounds == (Bounds{}):

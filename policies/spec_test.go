@@ -77,3 +77,32 @@ func TestNewLanguageRefusesBadSpecs(t *testing.T) {
 		assert.ErrorIs(t, err, policies.ErrSpec, name)
 	}
 }
+
+// TestChoiceSetting: a Choice setting takes one of its words, defaults to
+// the first, is written back by `policy show` and refuses other words with
+// a hint; it is not converted between unit systems.
+func TestChoiceSetting(t *testing.T) {
+	specs := []*policies.RuleSpec{{ID: "stress", Severity: policies.Error, Settings: []policies.Setting{
+		{Name: "quantity", Kind: policies.Choice, Choices: []string{"maximum", "mean"}, Doc: "which stress"},
+	}}}
+	lang, err := policies.NewLanguage(specs)
+	require.NoError(t, err)
+	p, diags := loadWith(t, lang, "policy \"x\" {\n  units = \"si\"\n  stress {}\n}\n")
+	require.Empty(t, diags)
+	assert.Equal(t, "maximum", p.Rules["stress"].Word("quantity"))
+	p, diags = loadWith(t, lang, "policy \"x\" {\n  units = \"si\"\n  stress {\n    quantity = \"mean\"\n  }\n}\n")
+	require.Empty(t, diags)
+	assert.Equal(t, "mean", p.In("us").Rules["stress"].Word("quantity"))
+	assert.Equal(t, "quantity mean", p.Rules["stress"].Summary("si", policies.FormatNumber))
+	assert.Contains(t, string(policies.Format(p)), `quantity = "mean"`)
+	_, diags = loadWith(t, lang, "policy \"x\" {\n  units = \"si\"\n  stress {\n    quantity = \"maen\"\n  }\n}\n")
+	require.Len(t, diags, 1)
+	assert.Equal(t, `Invalid quantity: quantity must be one of "maximum", "mean"; got "maen". Did you mean "mean"?`, diags[0])
+	assert.Equal(t, `quantity: which stress; "maximum" or "mean"; default "maximum"`, specs[0].Settings[0].Line())
+
+	bad := []*policies.RuleSpec{{ID: "stress", Severity: policies.Error, Settings: []policies.Setting{
+		{Name: "quantity", Kind: policies.Choice, Choices: []string{"maximum"}, Doc: "which stress"},
+	}}}
+	_, err = policies.NewLanguage(bad)
+	assert.ErrorIs(t, err, policies.ErrSpec)
+}

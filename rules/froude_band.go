@@ -26,13 +26,16 @@ and section merge into one span; the finding gives the Froude number
 deepest inside the band and the band edge nearest to it.`,
 		Formula: `    F = V / √(g · A / T)   (the solver's F at the point)
     fails where low ≤ F ≤ high for some avoided band [low, high]`,
-		Basis: `Froude numbers between 0.89 and 1.13 form an unstable transition
-zone (Brown and Clyde, Design of Riprap Revetment, FHWA HEC-11, 1989,
-p. 38); some flood-control channel guidance quotes 0.86–1.13 (from
-memory).`,
+		Basis: `avoiding a band of Froude numbers around 1 (roughly 0.86–1.13)
+is common practice in channel design, because the surface is wavy and the
+depth uncertain there; the band is usually cited to the flood-control
+channel guidance of the U.S. Army Corps of Engineers, EM 1110-2-1601
+(from memory: the page is not confirmed, and an attribution of the band to
+FHWA HEC-11 could not be confirmed either). Many local manuals avoid a
+wider band (0.7–1.3, say), so the band is a policy setting.`,
 		Sources: []string{
-			"Brown and Clyde, Design of Riprap Revetment, FHWA HEC-11 (1989), p. 38",
-			"flood-control channel guidance quoting 0.86–1.13 (from memory)",
+			"common practice (no published source confirmed)",
+			"U.S. Army Corps of Engineers, Hydraulic Design of Flood Control Channels, EM 1110-2-1601 (from memory)",
 		},
 		Remedies: `change the slope or the section so that the design flow is
 clearly subcritical or clearly supercritical; where the transition cannot

@@ -519,7 +519,7 @@ func TestGoldenSupercritical(t *testing.T) {
 		case "max_velocity":
 			assert.True(t, scalar.EqualWithinAbsOrRel(f.Value, v, 1e-6, 1e-6), "velocity %g", f.Value)
 			assert.Equal(t, 3.0, f.Limit)
-			assert.Contains(t, f.Message, `lining "concrete" (the policy's default)`)
+			assert.Contains(t, f.Message, `lining "concrete" (unlisted: the policy's default applied)`)
 		}
 	}
 }

@@ -14,7 +14,10 @@ var maxVelocityRule = &Rule{
 		Severity: policies.Error,
 		Settings: []policies.Setting{
 			{Name: "limit", Kind: policies.PerLining, Quantity: policies.Velocity, Bounds: policies.Above(0),
-				Required: true, Doc: "the permissible mean velocity by lining word"},
+				Required: true, Doc: "the permissible velocity by lining word"},
+			{Name: "velocity", Kind: policies.Choice, Choices: []string{"highest_zone", "mean"},
+				Doc: "the velocity held to the limit in a points section: the highest zone of the conveyance split, or the section mean Q/A"},
+			pointsSetting,
 		},
 	},
 	Title: "Velocity above the permissible velocity of the lining",
@@ -35,7 +38,11 @@ gives the highest velocity of the span and its limit.`,
     fails where max_i V_i > limit(lining)
 limit(lining) is the policy's value for that lining word, else its
 "default"; a point whose lining has no value and no default is not checked.
-The zone split is the divided channel method (Chow, Open-Channel
+A closed conduit (circle, box) is held only to a value its lining word has
+in the table: the default is written for erodible channels, and a pipe or
+box barrel has no erosion limit unless the policy names one. With
+velocity = "mean" the section mean Q/A is compared everywhere; with
+points_sections = "excluded" natural channels are not checked. The zone split is the divided channel method (Chow, Open-Channel
 Hydraulics, 1959, ch. 6, from memory).`,
 		Basis: `permissible velocities for earth channels after Fortier and Scobey,
 "Permissible canal velocities", Trans. ASCE 89 (1926), reproduced in Chow,
@@ -67,7 +74,7 @@ func checkVelocity(ctx *Context, report func(Finding), upper bool) {
 	if upper {
 		w = higher
 	}
-	limits := &liningLimits{table: cfg.Table("limit")}
+	limits := newLiningLimits(cfg, upper)
 	ctx.scanPoints(w, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.Area <= 0 {
@@ -122,16 +129,36 @@ func highestVelocity(rr *solver.ReachResult, p *solver.Point) (float64, string) 
 
 // meanVelocity reports whether the policy holds max_velocity to the
 // section mean velocity instead of the highest subdivision's.
-func meanVelocity(cfg *policies.RuleConfig) bool { return false }
+func meanVelocity(cfg *policies.RuleConfig) bool { return cfg.Word("velocity") == "mean" }
+
+// pointsSetting lets a policy keep natural channels (points sections) out
+// of a lining table written for built channels.
+var pointsSetting = policies.Setting{Name: "points_sections", Kind: policies.Choice, Choices: []string{"checked", "excluded"},
+	Doc: "whether points sections (natural channels) are held to the lining table"}
 
 // liningLimits looks up the policy's by-lining limit of computed points,
 // remembering the last section's limit: consecutive points nearly always
 // share a section, so the map is consulted once per section run.
+//
+// Two kinds of section get no limit from the table's default: closed
+// conduits, for an erosion limit (max_velocity, shear_stress), unless the
+// table names their lining (a pipe or box is not the erodible soil a
+// default is written for); and points sections when the policy excludes
+// them (points_sections = "excluded").
 type liningLimits struct {
-	table policies.ByLining
-	sec   *model.Section
-	lim   float64
-	ok    bool
+	table        policies.ByLining
+	conduitNamed bool // closed conduits only by a named lining
+	noPoints     bool // points sections are not checked
+	sec          *model.Section
+	lim          float64
+	ok           bool
+}
+
+// newLiningLimits reads the limit table of a rule block; erosion is true
+// for the rules that limit erosion (max_velocity, shear_stress).
+func newLiningLimits(cfg *policies.RuleConfig, erosion bool) *liningLimits {
+	return &liningLimits{table: cfg.Table("limit"), conduitNamed: erosion,
+		noPoints: cfg.Word("points_sections") == "excluded"}
 }
 
 // at is the limit at a wet computed point; false where the point is dry or
@@ -144,6 +171,12 @@ func (l *liningLimits) at(rr *solver.ReachResult, p *solver.Point) (float64, boo
 	if sec != l.sec {
 		l.sec = sec
 		l.lim, l.ok = l.table.For(sec.Lining)
+		if _, named := l.table.Values[sec.Lining]; !named && l.conduitNamed && sec.Closed() {
+			l.ok = false
+		}
+		if l.noPoints && sec.Shape == model.Points {
+			l.ok = false
+		}
 	}
 	return l.lim, l.ok
 }
@@ -171,7 +204,7 @@ func liningText(cfg *policies.RuleConfig, sec *model.Section) string {
 	}
 	if sec.Lining != "" {
 		var buf [64]byte
-		return "lining " + string(strconv.AppendQuote(buf[:0], sec.Lining)) + " (the policy's default)"
+		return "lining " + string(strconv.AppendQuote(buf[:0], sec.Lining)) + " (unlisted: the policy's default applied)"
 	}
-	return "the policy's default limit"
+	return "a section without a lining word (the policy's default applied)"
 }

@@ -80,6 +80,13 @@ func blockTable() string {
 
 // readmeSetting describes one setting in a table cell.
 func readmeSetting(s *policies.Setting) string {
+	if s.Kind == policies.Choice {
+		words := make([]string, len(s.Choices))
+		for i, c := range s.Choices {
+			words[i] = "`\"" + c + "\"`"
+		}
+		return "`" + s.Name + "` " + s.Doc + " (" + strings.Join(words, " or ") + "; default `\"" + s.Choices[0] + "\"`)"
+	}
 	form := s.Quantity.Word()
 	if si, us := s.Quantity.Unit("si"), s.Quantity.Unit("us"); si != "" {
 		form += ", " + si + " or " + us

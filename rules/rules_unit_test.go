@@ -110,7 +110,7 @@ func TestMinVelocity(t *testing.T) {
 	require.Len(t, fs, 2)
 	assertSpan(t, fs[0], 0, 100, 0.4, 0.6)
 	assertSpan(t, fs[1], 300, 300, 0.3, 0.6)
-	assert.Contains(t, fs[0].Message, `velocity 0.4 m/s is below the self-cleansing 0.6 m/s for lining "grass" (the policy's default)`)
+	assert.Contains(t, fs[0].Message, `velocity 0.4 m/s is below the self-cleansing 0.6 m/s for lining "grass" (unlisted: the policy's default applied)`)
 }
 
 func TestFroudeBand(t *testing.T) {

@@ -28,6 +28,9 @@ var shearStressRule = &Rule{
 		Settings: []policies.Setting{
 			{Name: "limit", Kind: policies.PerLining, Quantity: policies.Stress, Bounds: policies.Above(0),
 				Required: true, Doc: "the permissible shear stress by lining word"},
+			{Name: "quantity", Kind: policies.Choice, Choices: []string{"maximum", "mean"},
+				Doc: "the stress held to the limit: the maximum on the bed γ·d·S (as HEC-15's lining tables), or the mean boundary shear γ·R·S for limits defined that way"},
+			pointsSetting,
 		},
 	},
 	Title: "Shear stress on the bed above the permissible shear stress of the lining",
@@ -53,7 +56,14 @@ Why the maximum and not the mean: permissible shear stresses of linings
 (grass, riprap, turf reinforcement, soils) are compared in FHWA HEC-15 with
 the largest shear on the bed, which lies at the deepest point, γ·d·S, and
 not with the mean boundary shear γ·R·S: in a trapezoid R is well below d,
-so the mean would understate the stress the lining must resist.
+so the mean would understate the stress the lining must resist. A policy
+whose limits are defined for the mean stress (the tractive-force values of
+Lane's method for earth canals, say) writes quantity = "mean"; then γ·R·Sf
+is compared, without a bend factor.
+
+A closed conduit is held only to a value its lining word has in the table
+(no erosion limit by default); with points_sections = "excluded" natural
+channels are not checked.
 
 Not evaluated: the raised shear HEC-15 carries downstream of a bend (over a
 protection length after its end) and the shear on the side slopes (a
@@ -126,7 +136,7 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	gamma := unitWeight(u)
 	su := stressUnit(u)
 	mean := shearMean(cfg)
-	limits := &liningLimits{table: cfg.Table("limit")}
+	limits := newLiningLimits(cfg, true)
 	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.HydraulicRadius <= 0 {
@@ -164,4 +174,4 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 
 // shearMean reports whether the policy compares its limits with the mean
 // boundary shear γ·R·Sf instead of the maximum on the bed.
-func shearMean(cfg *policies.RuleConfig) bool { return false }
+func shearMean(cfg *policies.RuleConfig) bool { return cfg.Word("quantity") == "mean" }

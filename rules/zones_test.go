@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -20,10 +21,8 @@ func solveSource(t *testing.T, src string) (*model.Model, *solver.Result) {
 	return m, res
 }
 
-// TestVDitchShearAndVelocity: a V-ditch (side slopes 3:1, n = 0.03,
-// S0 = 0.002, Q = 0.5 m³/s) in uniform flow against the closed forms.
-func TestVDitchShearAndVelocity(t *testing.T) {
-	m, res := solveSource(t, `units = "si"
+// vDitchSource is a V-ditch in uniform flow.
+const vDitchSource = `units = "si"
 section "vee" {
   shape = "triangle"
   side_slope = 3
@@ -42,7 +41,12 @@ event "q" {
   inflow = { "ditch" = 0.5 }
   outlet = { condition = "normal" }
 }
-`)
+`
+
+// TestVDitchShearAndVelocity: a V-ditch (side slopes 3:1, n = 0.03,
+// S0 = 0.002, Q = 0.5 m³/s) in uniform flow against the closed forms.
+func TestVDitchShearAndVelocity(t *testing.T) {
+	m, res := solveSource(t, vDitchSource)
 	// Source: Manning's equation in a triangle (Chow 1959, ch. 5):
 	// A = z·y², P = 2·y·√(1+z²), so Q = (1/n)·z·y²·(z·y/(2√(1+z²)))^(2/3)·√S
 	// gives y = (Q·n/(z·√S·(z/(2√(1+z²)))^(2/3)))^(3/8).
@@ -123,4 +127,73 @@ func TestCompoundZoneVelocity(t *testing.T) {
 	assert.Contains(t, fs[0].Message, "in the main channel (conveyance split")
 	// The section mean (1.27 m/s) would have passed the 1.6 m/s limit.
 	assert.Less(t, mean, 1.6)
+}
+
+// choiceCfg is limitCfg with Choice settings written.
+func choiceCfg(limit float64, words map[string]string) *policies.RuleConfig {
+	c := limitCfg(limit)
+	for k, w := range words {
+		c.Values[k] = policies.Value{Word: w}
+	}
+	return c
+}
+
+// TestPolicyChoosesMeanQuantities: a policy whose limits are defined for
+// the mean shear or the section mean velocity says so, and gets them; one
+// that excludes natural channels gets no finding on a points section.
+func TestPolicyChoosesMeanQuantities(t *testing.T) {
+	m, res := solveSource(t, vDitchSource)
+	// Source: mean boundary shear γ·R·S (Chow 1959, ch. 7, from memory);
+	// triangle R = z·y/(2√(1+z²)).
+	z, n, s, q := 3.0, 0.03, 0.002, 0.5
+	y := math.Pow(q*n/(z*math.Sqrt(s)*math.Pow(z/(2*math.Sqrt(1+z*z)), 2.0/3)), 3.0/8)
+	fs := runRule(t, "shear_stress", m, res, choiceCfg(1, map[string]string{"quantity": "mean"}))
+	require.Len(t, fs, 1)
+	assert.InEpsilon(t, 9806.65*z*y/(2*math.Sqrt(1+z*z))*s, fs[0].Value, 1e-4)
+	assert.Contains(t, fs[0].Message, "mean boundary shear stress")
+
+	m, res = solveSource(t, compoundSource)
+	fs = runRule(t, "max_velocity", m, res, choiceCfg(1.0, map[string]string{"velocity": "mean"}))
+	require.Len(t, fs, 1)
+	// Source: continuity, the section mean Q/A at the outlet depth 2.5 m
+	// (A = 2·9.625 + 28 by hand, see TestCompoundZoneVelocity).
+	assert.InEpsilon(t, 60/(2*9.625+28), fs[0].Value, 1e-9)
+	assert.NotContains(t, fs[0].Message, "main channel")
+	for _, id := range []string{"max_velocity", "shear_stress", "min_velocity"} {
+		fs = runRule(t, id, m, res, choiceCfg(0.01, map[string]string{"points_sections": "excluded"}))
+		assert.Empty(t, fs, id)
+	}
+}
+
+// TestConduitNoErosionDefault: a closed conduit is held only to a limit its
+// lining word has in the table, not to the default written for erodible
+// channels.
+func TestConduitNoErosionDefault(t *testing.T) {
+	m, res := solveSource(t, `units = "si"
+section "pipe" {
+  shape = "circle"
+  diameter = 1.0
+  roughness = 0.013
+  lining = "pipe"
+}
+reach "drain" {
+  from = "a"
+  to = "b"
+  length = 100
+  section = "pipe"
+  slope = 0.01
+}
+event "q" {
+  inflow = { "drain" = 0.8 }
+  outlet = { condition = "normal" }
+}
+`)
+	assert.Empty(t, runRule(t, "max_velocity", m, res, limitCfg(0.5)))
+	assert.Empty(t, runRule(t, "shear_stress", m, res, limitCfg(0.5)))
+	named := &policies.RuleConfig{Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Values: map[string]float64{"pipe": 0.5}}}}}
+	fs := runRule(t, "max_velocity", m, res, named)
+	require.Len(t, fs, 1)
+	assert.Contains(t, fs[0].Message, `for lining "pipe"`)
+	// The self-cleansing minimum does apply to conduits by default.
+	assert.NotEmpty(t, runRule(t, "min_velocity", m, res, limitCfg(5)))
 }

@@ -8,7 +8,9 @@
 # "common practice" a value of the trade with no single published source.
 #
 # Lining words the limits use (a section's `lining`): concrete, riprap, grass,
-# earth, clay, gravel, sand, rock. Any other word, or none, gets `default`.
+# earth, clay, gravel, sand, shale, hardpan. Any other word, or none, gets
+# `default` in an open channel; a closed conduit (circle, box) whose lining
+# is not listed has no erosion limit (max_velocity, shear_stress).
 
 policy "baseline-us" {
   units      = "us"
@@ -36,7 +38,8 @@ policy "baseline-us" {
       clay     = 3.75 # stiff clay, very colloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       gravel   = 4.0  # coarse gravel, noncolloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       sand     = 1.5  # fine sand, colloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
-      rock     = 6.0  # shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      shale    = 6.0  # shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      hardpan  = 6.0  # shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       default  = 2.5  # an unknown lining is treated as firm loam (earth), Fortier & Scobey 1926
     }
     severity = "error"
@@ -47,7 +50,10 @@ policy "baseline-us" {
       # Fine sand: no velocity is both below its 1.5 ft/s maximum (Fortier &
       # Scobey 1926) and self-cleansing, so only max_velocity applies there.
       sand    = null
-      default = 2.0 # self-cleansing velocity: common practice (no published source)
+      # Self-cleansing velocity: ASCE Manual of Practice 37 (sewers flowing
+      # full, from memory); Chow 1959 §7-3 gives 2–3 ft/s where the silt
+      # load is small (from memory).
+      default = 2.0
     }
     severity = "warning"
   }
@@ -62,18 +68,23 @@ policy "baseline-us" {
     severity = "error"
   }
 
-  # Permissible boundary shear stress, lb/ft².
+  # Permissible shear stress on the bed, lb/ft², compared with the maximum
+  # shear τd = γ·d·S. Riprap and grass: Chen & Cotton, FHWA HEC-15 (1988),
+  # Table 2 (from memory), superseded by the 3rd edition (Kilgore & Cotton
+  # 2005): check against it. Soils: the USBR (Lane 1955) conversion of
+  # Fortier & Scobey's velocities printed in Chow 1959 Table 7-3 (from memory).
   shear_stress {
     limit = {
       concrete = null  # rigid lining: not limited by tractive stress (common practice)
-      riprap   = 2.0   # rock riprap D50 = 6 in: FHWA HEC-15 (Chen & Cotton 1988) Table 2 (from memory)
-      grass    = 0.60  # retardance class D vegetation: FHWA HEC-15 (1988) Table 2 (from memory)
-      earth    = 0.075 # ordinary firm loam, clear water: Fortier & Scobey 1926 via Chow 1959 Table 7-3 (from memory)
-      clay     = 0.26  # stiff clay, very colloidal, clear water: Chow 1959 Table 7-3 (from memory)
-      gravel   = 0.30  # coarse gravel, noncolloidal, clear water: Chow 1959 Table 7-3 (from memory)
-      sand     = 0.027 # fine sand, colloidal, clear water: Chow 1959 Table 7-3 (from memory)
-      rock     = 0.67  # shales and hardpans, clear water: Chow 1959 Table 7-3 (from memory)
-      default  = 0.075 # an unknown lining is treated as firm loam (earth), Chow 1959 Table 7-3 (from memory)
+      riprap   = 2.0   # rock riprap D50 = 6 in: HEC-15 (1988) Table 2 (from memory)
+      grass    = 0.60  # retardance class D vegetation: HEC-15 (1988) Table 2 (from memory)
+      earth    = 0.075 # ordinary firm loam, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      clay     = 0.26  # stiff clay, very colloidal, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      gravel   = 0.30  # coarse gravel, noncolloidal, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      sand     = 0.027 # fine sand, colloidal, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      shale    = 0.67  # shales and hardpans, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      hardpan  = 0.67  # shales and hardpans, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      default  = 0.075 # an unknown open-channel lining is treated as firm loam (earth), USBR/Lane in Chow 1959 Table 7-3 (from memory)
     }
     severity = "error"
   }

@@ -8,7 +8,9 @@
 # your criteria set differently.
 #
 # Lining words the limits use (a section's `lining`): concrete, riprap, grass,
-# earth, clay, gravel, sand, rock. Any other word, or none, gets `default`.
+# earth, clay, gravel, sand, shale, hardpan. Any other word, or none, gets
+# `default` in an open channel; a closed conduit (circle, box) whose lining
+# is not listed has no erosion limit (max_velocity, shear_stress).
 
 policy "baseline" {
   units      = "si"
@@ -37,7 +39,8 @@ policy "baseline" {
       clay     = 1.14 # 3.75 ft/s stiff clay, very colloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       gravel   = 1.22 # 4.0 ft/s coarse gravel, noncolloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       sand     = 0.46 # 1.5 ft/s fine sand, colloidal, clear water: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
-      rock     = 1.83 # 6.0 ft/s shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      shale    = 1.83 # 6.0 ft/s shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      hardpan  = 1.83 # 6.0 ft/s shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       default  = 0.76 # an unknown lining is treated as firm loam (earth), Fortier & Scobey 1926
     }
     severity = "error"
@@ -48,15 +51,21 @@ policy "baseline" {
       # Fine sand: no velocity is both below its 0.46 m/s maximum (Fortier &
       # Scobey 1926) and self-cleansing, so only max_velocity applies there.
       sand    = null
-      default = 0.6 # 2 ft/s self-cleansing velocity: common practice (no published source)
+      # 2 ft/s self-cleansing velocity: ASCE Manual of Practice 37 (sewers
+      # flowing full, from memory); Chow 1959 §7-3 gives 2–3 ft/s where the
+      # silt load is small (from memory). Storm drains are often held to
+      # 3 ft/s (FHWA HEC-22, from memory): see the strict pack.
+      default = 0.6
     }
     severity = "warning"
   }
 
   froude_band {
-    # Unstable near-critical flow: 0.89–1.13 in Brown & Clyde, FHWA HEC-11
-    # (1989) p. 38; flood-control channel guidance (USACE EM 1110-2-1601,
-    # from memory) starts the band at 0.86. The wider band is kept.
+    # Unstable near-critical flow, Froude numbers of roughly 0.86–1.13:
+    # common practice, usually cited to the flood-control channel guidance
+    # of the U.S. Army Corps of Engineers (EM 1110-2-1601, from memory; the
+    # page is not confirmed). Many local manuals avoid a wider band (for
+    # example 0.7–1.3): set your own.
     avoid    = [[0.86, 1.13]]
     severity = "warning"
   }
@@ -82,18 +91,27 @@ policy "baseline" {
     severity = "error"
   }
 
-  # Permissible boundary shear stress, N/m² (lb/ft² × 47.88, rounded).
+  # Permissible shear stress on the bed, N/m² (lb/ft² × 47.88, rounded),
+  # compared with the maximum shear τd = γ·d·S (quantity = "maximum").
+  # Riprap and grass: Chen & Cotton, FHWA HEC-15 (1988), Table 2 (from
+  # memory); that edition was superseded by Kilgore & Cotton's 3rd edition
+  # (2005), which gives the permissible shear of riprap from its D50 and of
+  # vegetation from its cover: check these values against it.
+  # Soils: the tractive-force column of Chow 1959 Table 7-3 is the USBR
+  # (Lane 1955) conversion of Fortier & Scobey's velocities, not figures of
+  # Fortier & Scobey's own (from memory).
   shear_stress {
     limit = {
       concrete = null # rigid lining: not limited by tractive stress (common practice)
-      riprap   = 96   # 2.0 lb/ft², rock riprap D50 = 6 in: FHWA HEC-15 (Chen & Cotton 1988) Table 2 (from memory)
-      grass    = 28.7 # 0.60 lb/ft², retardance class D vegetation: FHWA HEC-15 (1988) Table 2 (from memory)
-      earth    = 3.6  # 0.075 lb/ft² ordinary firm loam, clear water: Fortier & Scobey 1926 via Chow 1959 Table 7-3 (from memory)
-      clay     = 12.4 # 0.26 lb/ft² stiff clay, very colloidal, clear water: Chow 1959 Table 7-3 (from memory)
-      gravel   = 14.4 # 0.30 lb/ft² coarse gravel, noncolloidal, clear water: Chow 1959 Table 7-3 (from memory)
-      sand     = 1.3  # 0.027 lb/ft² fine sand, colloidal, clear water: Chow 1959 Table 7-3 (from memory)
-      rock     = 32   # 0.67 lb/ft² shales and hardpans, clear water: Chow 1959 Table 7-3 (from memory)
-      default  = 3.6  # an unknown lining is treated as firm loam (earth), Chow 1959 Table 7-3 (from memory)
+      riprap   = 96   # 2.0 lb/ft², rock riprap D50 = 6 in (150 mm): HEC-15 (1988) Table 2 (from memory)
+      grass    = 28.7 # 0.60 lb/ft², retardance class D vegetation: HEC-15 (1988) Table 2 (from memory)
+      earth    = 3.6  # 0.075 lb/ft² ordinary firm loam, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      clay     = 12.4 # 0.26 lb/ft² stiff clay, very colloidal, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      gravel   = 14.4 # 0.30 lb/ft² coarse gravel, noncolloidal, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      sand     = 1.3  # 0.027 lb/ft² fine sand, colloidal, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      shale    = 32   # 0.67 lb/ft² shales and hardpans, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      hardpan  = 32   # 0.67 lb/ft² shales and hardpans, clear water: USBR/Lane in Chow 1959 Table 7-3 (from memory)
+      default  = 3.6  # an unknown open-channel lining is treated as firm loam (earth), USBR/Lane in Chow 1959 Table 7-3 (from memory)
     }
     severity = "error"
   }

@@ -20,19 +20,20 @@ policy "strict" {
   min_velocity {
     limit = {
       # 3 ft/s, the higher self-cleansing velocity some agencies require of
-      # lined channels and conduits (common practice). Erodible linings keep
+      # lined channels and storm drains (FHWA HEC-22, from memory). Erodible linings keep
       # baseline's 0.6 m/s: 0.9 m/s is above their permissible maximum
       # (earth 0.76 m/s, Fortier & Scobey 1926).
       concrete = 0.9
       sand     = null # as baseline: fine sand cannot meet a self-cleansing velocity (Fortier & Scobey 1926)
-      default  = 0.6  # 2 ft/s self-cleansing velocity: common practice (no published source)
+      default  = 0.6  # 2 ft/s self-cleansing velocity: common practice for sewers, ASCE Manual of Practice 37 (from memory)
     }
     severity = "warning"
   }
 
   froude_band {
-    # Same band as baseline (HEC-11 1989 p. 38; EM 1110-2-1601, from memory),
-    # reported as an error: near-critical flow must be designed out.
+    # Same band as baseline (common practice, usually cited to USACE
+    # EM 1110-2-1601, from memory), reported as an error: near-critical flow
+    # must be designed out.
     avoid    = [[0.86, 1.13]]
     severity = "error"
   }
