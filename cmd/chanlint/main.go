@@ -156,6 +156,7 @@ type command struct {
 func commands() []*command {
 	return []*command{
 		checkCommand(),
+		initCommand(),
 		solveCommand(),
 		reportCommand(),
 		explainCommand(),
