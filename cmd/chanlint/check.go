@@ -214,8 +214,8 @@ func (a *app) runCheck(args []string) int {
 	}
 	// The output goes straight to stdout, not through a buffer of its
 	// own: a large run's JSON or SARIF document is tens of megabytes. The
-	// encoders marshal the whole document before they write, so a
-	// document that cannot be encoded writes nothing.
+	// JSON encoder marshals the whole document before it writes; the SARIF
+	// writer streams its results in chunks.
 	out := bufio.NewWriterSize(a.stdout, 64<<10)
 	switch cf.format.value {
 	case "json":

@@ -11,8 +11,10 @@ package main
 // reports the process's peak resident memory.
 
 import (
+	"bufio"
 	"bytes"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"runtime/debug"
@@ -21,6 +23,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
@@ -272,22 +275,94 @@ func BenchmarkScaleReport(b *testing.B) {
 	demoSized(b, dir, 100)
 	out := filepath.Join(b.TempDir(), "review.html")
 	b.ReportAllocs()
-	var check, report time.Duration
+	var check, report, checkCPU, reportCPU time.Duration
 	for b.Loop() {
-		t0 := time.Now()
+		t0, c0 := time.Now(), cpuTime()
 		if code, _, errOut := runIn(dir, runOpts{jobs: 2}, "check", "--color", "never"); code == exitInvalid {
 			b.Fatal(errOut)
 		}
-		t1 := time.Now()
+		t1, c1 := time.Now(), cpuTime()
 		if code, _, errOut := runIn(dir, runOpts{jobs: 2}, "report", "--out", out, "--color", "never"); code != exitOK {
 			b.Fatal(errOut)
 		}
 		check, report = check+t1.Sub(t0), report+time.Since(t1)
+		checkCPU, reportCPU = checkCPU+c1-c0, reportCPU+cpuTime()-c1
 	}
 	b.ReportMetric(float64(check.Milliseconds())/float64(b.N), "check-ms")
 	b.ReportMetric(float64(report.Milliseconds())/float64(b.N), "report-ms")
 	b.ReportMetric(float64(report)/float64(check), "report/check")
+	if checkCPU > 0 {
+		b.ReportMetric(float64(reportCPU)/float64(checkCPU), "report/check-cpu")
+	}
 	if st, err := os.Stat(out); err == nil {
 		b.ReportMetric(float64(st.Size()), "bytes/report")
 	}
+}
+
+// BenchmarkOutputFormats10k: the output stage alone for one model of
+// 10,000 reaches whose every reach fails freeboard (the section is too
+// shallow for the flow): 10,000 and more findings in one file, written as
+// text, JSON and SARIF from the same checked run (target: SARIF within 3×
+// of text; a position conversion that rescans the file makes it
+// quadratic).
+func BenchmarkOutputFormats10k(b *testing.B) {
+	binaryGC(b)
+	dir := b.TempDir()
+	src := bytes.Replace(chainModel(10000, 300, 0), []byte("height       = 3.0"), []byte("height       = 0.5"), 1)
+	if err := os.WriteFile(filepath.Join(dir, "trunk.chan.hcl"), src, 0o644); err != nil {
+		b.Fatal(err)
+	}
+	var stdout, stderr bytes.Buffer
+	a := newApp(&stdout, &stderr, dir, func(string) string { return "" })
+	pol, ok := a.loadPolicy("", newPalette(false))
+	if !ok {
+		b.Fatal(stderr.String())
+	}
+	results := a.checkPaths([]string{"."}, pol, 2, pipeline.Keep{Source: true})
+	view := pipeline.ApplyBaseline(results, nil, dir)
+	run := checkRun{app: a, results: results, shown: view.Shown, policy: pol, view: view}
+	n := 0
+	for _, fs := range view.Shown {
+		n += len(fs)
+	}
+	if n < 10000 {
+		b.Fatalf("%d findings, want at least 10,000", n)
+	}
+	pal := newPalette(false)
+	formats := []struct {
+		name  string
+		write func(w io.Writer) error
+	}{
+		{"text", func(w io.Writer) error { run.writeText(w, pal); return nil }},
+		{"json", run.writeJSON},
+		{"sarif", run.writeSARIF},
+	}
+	for _, f := range formats {
+		b.Run(f.name, func(b *testing.B) {
+			b.ReportAllocs()
+			var cw countingWriter
+			cpu0 := cpuTime()
+			for b.Loop() {
+				cw = 0
+				w := bufio.NewWriterSize(&cw, 64<<10)
+				if err := f.write(w); err != nil {
+					b.Fatal(err)
+				}
+				if err := w.Flush(); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64((cpuTime()-cpu0).Microseconds())/1e3/float64(b.N), "cpu-ms/op")
+			b.ReportMetric(float64(n), "findings")
+			b.ReportMetric(float64(cw), "bytes/op")
+		})
+	}
+}
+
+// countingWriter counts and discards what is written.
+type countingWriter int
+
+func (c *countingWriter) Write(p []byte) (int, error) {
+	*c += countingWriter(len(p))
+	return len(p), nil
 }

@@ -28,10 +28,10 @@ import (
 	"io"
 	"math"
 	"path"
-	"regexp"
 	"sort"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/rules"
@@ -181,13 +181,86 @@ func MessageFingerprint(msg string) string {
 	return hex.EncodeToString(sum[:8])
 }
 
-// number matches a decimal number with optional grouping and exponent.
-var number = regexp.MustCompile(`(?:\d+(?:[.,]\d+)*|\.\d+)(?:[eE][-+]?\d+)?`)
-
 // normalizeMessage replaces each number with '#', lower-cases the letters
 // and collapses white space.
 func normalizeMessage(msg string) string {
-	return strings.Join(strings.Fields(strings.ToLower(number.ReplaceAllString(msg, "#"))), " ")
+	s := hashNumbers(msg)
+	for i := 0; i < len(s); i++ {
+		if s[i] >= utf8.RuneSelf {
+			return strings.Join(strings.Fields(strings.ToLower(s)), " ")
+		}
+	}
+	// ASCII: the same in one pass.
+	b := make([]byte, 0, len(s))
+	space := false
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		switch {
+		case c == ' ' || (c >= '\t' && c <= '\r'):
+			space = len(b) > 0
+			continue
+		case c >= 'A' && c <= 'Z':
+			c += 'a' - 'A'
+		}
+		if space {
+			b = append(b, ' ')
+			space = false
+		}
+		b = append(b, c)
+	}
+	return string(b)
+}
+
+// hashNumbers replaces each decimal number of s with '#'. A number is
+// ASCII digits with groups joined by '.' or ',' ("1,234.5"), or a '.' and
+// digits (".5"), either with an exponent ("e-3") when one follows. It is a
+// scanner, not a regular expression, because it runs once per finding of
+// every baseline and SARIF log.
+func hashNumbers(s string) string {
+	isDigit := func(i int) bool { return i < len(s) && s[i] >= '0' && s[i] <= '9' }
+	digits := func(i int) int {
+		for isDigit(i) {
+			i++
+		}
+		return i
+	}
+	var b strings.Builder
+	last := 0
+	for i := 0; i < len(s); {
+		var end int
+		switch {
+		case isDigit(i):
+			end = digits(i)
+			for end < len(s) && (s[end] == '.' || s[end] == ',') && isDigit(end+1) {
+				end = digits(end + 1)
+			}
+		case s[i] == '.' && isDigit(i+1):
+			end = digits(i + 1)
+		default:
+			i++
+			continue
+		}
+		if end < len(s) && (s[end] == 'e' || s[end] == 'E') {
+			j := end + 1
+			if j < len(s) && (s[j] == '-' || s[j] == '+') {
+				j++
+			}
+			if isDigit(j) {
+				end = digits(j)
+			}
+		}
+		if b.Len() == 0 {
+			b.Grow(len(s))
+		}
+		b.WriteString(s[last:i])
+		b.WriteByte('#')
+		last, i = end, end
+	}
+	if last == 0 {
+		return s
+	}
+	b.WriteString(s[last:])
+	return b.String()
 }
 
 // Write records findings as a baseline file: entries sorted by key so that

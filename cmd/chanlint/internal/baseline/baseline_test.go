@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
+	"regexp"
+	"strings"
 	"testing"
 
 	"github.com/chanlint/chanlint/policies"
@@ -11,6 +13,7 @@ import (
 	"github.com/hashicorp/hcl/v2"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+	"pgregory.net/rapid"
 )
 
 // finding builds a finding at a line; the numbers are fixture values, not
@@ -274,4 +277,50 @@ func TestReadErrors(t *testing.T) {
 		require.Error(t, err, name)
 		assert.Contains(t, err.Error(), "baseline", name)
 	}
+}
+
+// numberRE is the regular expression hashNumbers replaced: a decimal
+// number with optional grouping and exponent.
+var numberRE = regexp.MustCompile(`(?:\d+(?:[.,]\d+)*|\.\d+)(?:[eE][-+]?\d+)?`)
+
+// TestHashNumbersMatchesRegexp: the scanner replaces exactly what the
+// regular expression matches (leftmost-first, as Go's regexp does), so
+// fingerprints of existing baselines and SARIF logs do not change.
+//
+// Source: common practice (no published source) — Go's regexp package as
+// the reference matcher.
+func TestHashNumbersMatchesRegexp(t *testing.T) {
+	for _, s := range []string{"", "no numbers", "0.18 m below 0.30 m", "1,234.5e-3x", ".5.6", "1.", "1e", "1e+", "e5", "a1b22c",
+		"v 3.2 m/s > 2.5", "..5", "1,,2", "F₁ 4.50–9.00", "x1.2.3,4e10", "9e-", "3E+7y"} {
+		assert.Equal(t, numberRE.ReplaceAllString(s, "#"), hashNumbers(s), "%q", s)
+	}
+	rapid.Check(t, func(t *rapid.T) {
+		s := rapid.StringOf(rapid.SampledFrom([]rune("0123456789.,eE+- a–"))).Draw(t, "s")
+		if want, got := numberRE.ReplaceAllString(s, "#"), hashNumbers(s); got != want {
+			t.Fatalf("hashNumbers(%q) = %q, want %q", s, got, want)
+		}
+	})
+}
+
+func BenchmarkMessageFingerprint(b *testing.B) {
+	msg := "freeboard 0.18 m is below the required 0.30 m (0.2 × depth 0.9 m)"
+	b.ReportAllocs()
+	for b.Loop() {
+		_ = MessageFingerprint(msg)
+	}
+}
+
+// TestNormalizeMessageMatchesReference: the one-pass ASCII normalisation
+// equals numbers → '#', strings.ToLower, strings.Fields joined by spaces.
+//
+// Source: common practice (no published source) — the standard library's
+// case mapping and field splitting as the reference.
+func TestNormalizeMessageMatchesReference(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		s := rapid.StringOf(rapid.SampledFrom([]rune("aZq09 .,e-\t\n\v\f\r\u00a0\u0085É–"))).Draw(t, "s")
+		want := strings.Join(strings.Fields(strings.ToLower(numberRE.ReplaceAllString(s, "#"))), " ")
+		if got := normalizeMessage(s); got != want {
+			t.Fatalf("normalizeMessage(%q) = %q, want %q", s, got, want)
+		}
+	})
 }

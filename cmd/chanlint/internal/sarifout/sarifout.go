@@ -24,15 +24,21 @@
 package sarifout
 
 import (
+	"bufio"
 	"bytes"
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"net/url"
 	"path/filepath"
+	"runtime"
+	"strconv"
 	"strings"
+	"sync"
+	"sync/atomic"
 	"unicode/utf16"
 	"unicode/utf8"
 
@@ -104,28 +110,72 @@ func Level(s policies.Severity) string {
 // Write renders in as an indented SARIF 2.1.0 log followed by a newline.
 // The output depends only on in (and, for a relative Root or file name, on
 // the working directory): the same findings give byte-identical logs.
+//
+// The log is streamed: everything but the results is encoded first, then
+// the results follow in chunks, each chunk's results encoded on GOMAXPROCS
+// goroutines by appendResult, so that a run of many findings neither holds
+// the whole document nor encodes it on one core. The bytes are those of
+// json.MarshalIndent over the report Build returns (a test holds them
+// equal).
 func Write(w io.Writer, in Input) error {
-	rep, err := Build(in)
+	b, err := newBuilder(in)
 	if err != nil {
 		return err
 	}
-	raw, err := json.Marshal(rep)
+	head, err := encodeFrame(b.report())
 	if err != nil {
 		return fmt.Errorf("sarif: %w", err)
 	}
-	// The library writes every optional array, empty or not; a log
-	// without them is smaller and what readers expect.
+	// The run's results are the only "results" key at this depth: split
+	// the document there.
+	i := bytes.Index(head, []byte(resultsKey+"[]"))
+	if i < 0 {
+		return fmt.Errorf("sarif: %w", errNoResults)
+	}
+	bw := bufio.NewWriterSize(w, 64<<10)
+	bw.Write(head[:i+len(resultsKey)+1])
+	fps := b.fingerprints()
+	const chunk = 512
+	enc := make([][]byte, chunk)
+	for start := 0; start < len(in.Findings); start += chunk {
+		n := min(chunk, len(in.Findings)-start)
+		parallel(n, func(j int) {
+			k := start + j
+			enc[j] = b.appendResult(enc[j][:0], &in.Findings[k], k, fps[k])
+		})
+		for j := range n {
+			if start+j > 0 {
+				bw.WriteByte(',')
+			}
+			bw.WriteString("\n" + resultIndent)
+			bw.Write(enc[j])
+		}
+	}
+	if len(in.Findings) > 0 {
+		bw.WriteString("\n" + resultIndent[:len(resultIndent)-2])
+	}
+	bw.Write(head[i+len(resultsKey)+1:])
+	bw.WriteByte('\n')
+	return bw.Flush()
+}
+
+// encodeFrame encodes the log as it is (without results) the way Write
+// writes it: indented, without the empty arrays the library writes for
+// every optional member (readers expect a log without them).
+func encodeFrame(rep *sarif.Report) ([]byte, error) {
+	raw, err := json.Marshal(rep)
+	if err != nil {
+		return nil, err
+	}
 	compact, _, err := pruneEmptyArrays(raw)
 	if err != nil {
-		return fmt.Errorf("sarif: %w", err)
+		return nil, err
 	}
 	var out bytes.Buffer
 	if err := json.Indent(&out, compact, "", "  "); err != nil {
-		return fmt.Errorf("sarif: %w", err)
+		return nil, err
 	}
-	out.WriteByte('\n')
-	_, err = w.Write(out.Bytes())
-	return err
+	return out.Bytes(), nil
 }
 
 // pruneEmptyArrays returns the JSON value raw without the object members
@@ -197,15 +247,44 @@ func pruneEmptyArrays(raw json.RawMessage) (out []byte, keep bool, err error) {
 	return raw, true, nil
 }
 
+// resultsKey and resultIndent are the run's results key and the
+// indentation of a result in the document json.MarshalIndent writes:
+// report → runs → run → results → result.
+const (
+	resultsKey   = "\n      \"results\": "
+	resultIndent = "        "
+)
+
+// errNoResults is a programmer's error: the run encoded without its
+// results array.
+var errNoResults = errors.New("encoded run has no results array")
+
 // Build assembles the SARIF report without writing it, for callers that
-// want to validate or merge it.
+// want to validate or merge it. Write streams the same report.
 func Build(in Input) (*sarif.Report, error) {
+	b, err := newBuilder(in)
+	if err != nil {
+		return nil, err
+	}
+	rep := b.report()
+	fps := b.fingerprints()
+	for i := range in.Findings {
+		b.run.AddResult(b.result(&in.Findings[i], i, fps[i]))
+	}
+	return rep, nil
+}
+
+// newBuilder prepares everything the results refer to, in the order the
+// results need it: the driver's rules, the artifacts in the order of first
+// use, and a line index of each source. After it, the builder is only read,
+// so results can be built concurrently.
+func newBuilder(in Input) (*builder, error) {
 	b := &builder{
 		in:        in,
 		ruleIndex: map[string]int{},
-		artifacts: map[string]int{},
+		artifacts: map[string]artifactRef{},
+		byURI:     map[string]int{},
 		lines:     map[string]*lineIndex{},
-		seen:      map[string]int{},
 	}
 	if in.Root != "" {
 		abs, err := filepath.Abs(in.Root)
@@ -235,9 +314,16 @@ func Build(in Input) (*sarif.Report, error) {
 	for _, r := range in.Rules {
 		b.addRule(r)
 	}
-	for _, f := range in.Findings {
+	for i := range in.Findings {
+		f := &in.Findings[i]
 		if _, ok := b.ruleIndex[f.Rule]; !ok {
 			b.addRule(&rules.Rule{RuleSpec: policies.RuleSpec{ID: f.Rule, Severity: f.Severity}, Title: f.Rule})
+		}
+		if f.File != "" {
+			b.addArtifact(f.File)
+		}
+		if file, ok := b.exceptionFile(f); ok {
+			b.addArtifact(file)
 		}
 	}
 	cautionDesc := sarif.NewReportingDescriptor().
@@ -252,14 +338,6 @@ func Build(in Input) (*sarif.Report, error) {
 		WithDefaultConfiguration(sarif.NewReportingConfiguration().WithLevel(sarif.LevelError))
 	driver.AddNotification(problemDesc)
 
-	for i, f := range in.Findings {
-		res := b.result(f)
-		if in.BaselineStates != nil && in.BaselineStates[i] != "" {
-			res.WithBaselineState(in.BaselineStates[i])
-		}
-		run.AddResult(res)
-	}
-
 	ref := sarif.NewReportingDescriptorReference().WithID("caution")
 	ref.Index = 0
 	inv := sarif.NewInvocation().WithExecutionSuccessful(len(in.Problems) == 0)
@@ -269,8 +347,8 @@ func Build(in Input) (*sarif.Report, error) {
 		n := sarif.NewNotification().WithLevel(sarif.LevelError).WithDescriptor(pref).
 			WithMessage(sarif.NewTextMessage(p.Message))
 		if p.File != "" {
-			loc, _ := b.location(p.File, p.Range)
-			n.WithLocations([]*sarif.Location{loc})
+			b.addArtifact(p.File)
+			n.WithLocations([]*sarif.Location{b.location(p.File, p.Range)})
 		}
 		inv.AddToolExecutionNotification(n)
 	}
@@ -279,10 +357,57 @@ func Build(in Input) (*sarif.Report, error) {
 		WithDescriptor(ref).
 		WithMessage(sarif.NewTextMessage(rules.Caution)))
 	run.AddInvocation(inv)
+	return b, nil
+}
 
+// report is the log with the run as prepared (no results yet).
+func (b *builder) report() *sarif.Report {
 	rep := sarif.NewReport()
-	rep.AddRun(run)
-	return rep, nil
+	rep.AddRun(b.run)
+	return rep
+}
+
+// fingerprints computes the partial fingerprint of every finding: the
+// hashes on GOMAXPROCS goroutines, then the occurrence numbers that tell
+// identical findings apart, in order.
+func (b *builder) fingerprints() []string {
+	fs := b.in.Findings
+	fps := make([]string, len(fs))
+	parallel(len(fs), func(i int) {
+		uri := ""
+		if fs[i].File != "" {
+			uri = b.artifacts[fs[i].File].uri
+		}
+		fps[i] = fingerprint(&fs[i], uri)
+	})
+	seen := make(map[string]int, len(fs))
+	for i, fp := range fps {
+		seen[fp]++
+		fps[i] = fp + ":" + strconv.Itoa(seen[fp])
+	}
+	return fps
+}
+
+// parallel calls fn(i) for every i in [0, n) on at most GOMAXPROCS
+// goroutines.
+func parallel(n int, fn func(i int)) {
+	workers := min(runtime.GOMAXPROCS(0), n)
+	if workers <= 1 {
+		for i := range n {
+			fn(i)
+		}
+		return
+	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Go(func() {
+			for i := int(next.Add(1)) - 1; i < n; i = int(next.Add(1)) - 1 {
+				fn(i)
+			}
+		})
+	}
+	wg.Wait()
 }
 
 type builder struct {
@@ -290,9 +415,16 @@ type builder struct {
 	root      string // absolute, or "" for none
 	run       *sarif.Run
 	ruleIndex map[string]int
-	artifacts map[string]int // artifact URI → index
+	artifacts map[string]artifactRef // file as given → its artifact
+	byURI     map[string]int         // artifact URI → index: each artifact once, however its file is spelt
 	lines     map[string]*lineIndex
-	seen      map[string]int // fingerprint → occurrences so far
+}
+
+// artifactRef is a file's entry in run.artifacts.
+type artifactRef struct {
+	index int
+	uri   string
+	base  bool // the URI is relative to SRCROOT
 }
 
 func (b *builder) addRule(r *rules.Rule) {
@@ -336,21 +468,21 @@ func (b *builder) addRule(r *rules.Rule) {
 	b.run.Tool.Driver.AddRule(d)
 }
 
-func (b *builder) result(f rules.Finding) *sarif.Result {
+// result is the SARIF result of a finding with its partial fingerprint.
+// It only reads the builder.
+func (b *builder) result(f *rules.Finding, i int, fp string) *sarif.Result {
 	res := sarif.NewResult().
 		WithRuleID(f.Rule).
 		WithRuleIndex(b.ruleIndex[f.Rule]).
 		WithLevel(Level(f.Severity)).
-		WithMessage(sarif.NewTextMessage(b.message(&f)))
-	uri := ""
+		WithMessage(sarif.NewTextMessage(b.message(f)))
 	if f.File != "" {
-		loc, u := b.location(f.File, f.Pos())
-		uri = u
-		res.AddLocation(loc)
+		res.AddLocation(b.location(f.File, f.Pos()))
 	}
-	fp := fingerprint(f, uri)
-	b.seen[fp]++
-	res.WithPartialFingerprints(map[string]string{FingerprintKey: fmt.Sprintf("%s:%d", fp, b.seen[fp])})
+	res.WithPartialFingerprints(map[string]string{FingerprintKey: fp})
+	if st := b.baselineState(i); st != "" {
+		res.WithBaselineState(st)
+	}
 
 	props := sarif.NewPropertyBag()
 	if f.Reach != "" {
@@ -376,54 +508,78 @@ func (b *builder) result(f rules.Finding) *sarif.Result {
 	if f.Excepted {
 		s := sarif.NewSuppression().WithKind("inSource").WithStatus("accepted").
 			WithJustification(f.ExceptionReason)
-		if r := f.ExceptionRange; r.Start.Line > 0 {
-			file := f.File
-			if r.Filename != "" && baseline.CleanPath(r.Filename) != baseline.CleanPath(f.File) {
-				file = r.Filename
-			}
-			loc, _ := b.location(file, r)
-			s.WithLocation(loc)
+		if file, ok := b.exceptionFile(f); ok {
+			s.WithLocation(b.location(file, f.ExceptionRange))
 		}
 		res.AddSuppression(s)
 	}
 	return res
 }
 
-// location is the physical location of a range in a file, and the URI used.
-func (b *builder) location(file string, r hcl.Range) (*sarif.Location, string) {
-	art, uri, base := b.artifact(file)
-	al := sarif.NewArtifactLocation().WithURI(uri).WithIndex(art)
-	if base {
+// baselineState is the SARIF baselineState of the i-th finding ("" for
+// none).
+func (b *builder) baselineState(i int) string {
+	if i < len(b.in.BaselineStates) {
+		return b.in.BaselineStates[i]
+	}
+	return ""
+}
+
+// exceptionFile is the file of the design exception that covers f, when
+// the exception has a position.
+func (b *builder) exceptionFile(f *rules.Finding) (string, bool) {
+	r := f.ExceptionRange
+	if !f.Excepted || r.Start.Line < 1 {
+		return "", false
+	}
+	file := f.File
+	if r.Filename != "" && baseline.CleanPath(r.Filename) != baseline.CleanPath(f.File) {
+		file = r.Filename
+	}
+	return file, true
+}
+
+// location is the physical location of a range in a file (an artifact
+// added by newBuilder).
+func (b *builder) location(file string, r hcl.Range) *sarif.Location {
+	art := b.artifacts[file]
+	al := sarif.NewArtifactLocation().WithURI(art.uri).WithIndex(art.index)
+	if art.base {
 		al.WithURIBaseID(BaseID)
 	}
 	pl := sarif.NewPhysicalLocation().WithArtifactLocation(al)
 	if reg := b.region(file, r); reg != nil {
 		pl.WithRegion(reg)
 	}
-	return sarif.NewLocationWithPhysicalLocation(pl), uri
+	return sarif.NewLocationWithPhysicalLocation(pl)
 }
 
-// artifact returns the index of the file's entry in run.artifacts, adding
-// it on first use, with its URI and whether the URI is relative to SRCROOT.
-func (b *builder) artifact(file string) (int, string, bool) {
+// addArtifact adds a file's entry to run.artifacts on its first use, and
+// the line index of its source.
+func (b *builder) addArtifact(file string) {
+	if _, ok := b.artifacts[file]; ok {
+		return
+	}
 	uri, base := b.uri(file)
-	if i, ok := b.artifacts[uri]; ok {
-		return i, uri, base
+	b.lines[file] = newLineIndex(b.in.Sources[file])
+	if i, ok := b.byURI[uri]; ok {
+		b.artifacts[file] = artifactRef{index: i, uri: uri, base: base}
+		return
 	}
 	al := sarif.NewArtifactLocation().WithURI(uri)
 	if base {
 		al.WithURIBaseID(BaseID)
 	}
 	a := sarif.NewArtifact().WithLocation(al).AddRole("analysisTarget")
-	if src, ok := b.in.Sources[file]; ok {
+	src, ok := b.in.Sources[file]
+	if ok {
 		a.WithLength(len(src))
 		sum := sha256.Sum256(src)
 		a.WithHashes(map[string]string{"sha-256": hex.EncodeToString(sum[:])})
 	}
-	i := len(b.run.Artifacts)
+	b.artifacts[file] = artifactRef{index: len(b.run.Artifacts), uri: uri, base: base}
+	b.byURI[uri] = len(b.run.Artifacts)
 	b.run.AddArtifact(a)
-	b.artifacts[uri] = i // each artifact once, however its file is spelt
-	return i, uri, base
 }
 
 // uri is the artifact URI of a file: relative to Root with forward slashes
@@ -470,16 +626,11 @@ func fileURI(abs string) string {
 // offsets, end exclusive) to a SARIF region (1-based lines, UTF-16
 // columns, end column exclusive). A zero range gives no region.
 func (b *builder) region(file string, r hcl.Range) *sarif.Region {
-	if r.Start.Line < 1 {
+	start, end, ok := b.span(file, r)
+	if !ok {
 		return nil
 	}
-	idx := b.lineIndex(file)
-	start := idx.pos(r.Start)
 	reg := sarif.NewRegion().WithStartLine(start.line).WithStartColumn(start.col)
-	end := start
-	if r.End.Line > r.Start.Line || (r.End.Line == r.Start.Line && r.End.Byte >= r.Start.Byte && r.End.Column >= r.Start.Column) {
-		end = idx.pos(r.End)
-	}
 	reg.WithEndLine(end.line).WithEndColumn(end.col)
 	if start.exact && end.exact {
 		reg.WithByteOffset(r.Start.Byte).WithByteLength(r.End.Byte - r.Start.Byte)
@@ -488,31 +639,58 @@ func (b *builder) region(file string, r hcl.Range) *sarif.Region {
 	return reg
 }
 
-func (b *builder) lineIndex(file string) *lineIndex {
-	if li, ok := b.lines[file]; ok {
-		return li
+// span is the start and end of a range in SARIF terms; ok is false for a
+// zero range (no region).
+func (b *builder) span(file string, r hcl.Range) (start, end sarifPos, ok bool) {
+	if r.Start.Line < 1 {
+		return start, end, false
 	}
-	li := newLineIndex(b.in.Sources[file])
-	b.lines[file] = li
-	return li
+	idx := b.lines[file]
+	if idx == nil {
+		idx = &lineIndex{}
+	}
+	start = idx.pos(r.Start)
+	end = start
+	if r.End.Line > r.Start.Line || (r.End.Line == r.Start.Line && r.End.Byte >= r.Start.Byte && r.End.Column >= r.Start.Column) {
+		end = idx.pos(r.End)
+	}
+	return start, end, true
 }
 
-// lineIndex locates byte offsets in one source.
+// lineIndex locates byte offsets in one source: for each line its start,
+// and the UTF-16 length of the text before it and whether that text is
+// valid UTF-8, so that a position costs only the bytes of its own line.
 type lineIndex struct {
 	src    []byte
-	starts []int // byte offset of each line start
+	starts []int  // byte offset of each line start
+	u16    []int  // UTF-16 code units before each line start
+	valid  []bool // the text before each line start is valid UTF-8
 }
 
+// newLineIndex indexes src in one pass. A line break is ASCII and never
+// inside a multi-byte sequence, so the text before a line start is valid
+// exactly when every earlier line is.
 func newLineIndex(src []byte) *lineIndex {
 	li := &lineIndex{src: src}
 	if src == nil {
 		return li
 	}
-	li.starts = append(li.starts, 0)
-	for i, c := range src {
-		if c == '\n' {
-			li.starts = append(li.starts, i+1)
+	n := bytes.Count(src, []byte{'\n'}) + 1
+	li.starts, li.u16, li.valid = make([]int, 1, n), make([]int, 1, n), make([]bool, 1, n)
+	li.valid[0] = true
+	u16, valid, from := 0, true, 0
+	for {
+		i := bytes.IndexByte(src[from:], '\n')
+		if i < 0 {
+			break
 		}
+		line := src[from : from+i+1]
+		if valid {
+			valid = utf8.Valid(line)
+			u16 += utf16Len(line)
+		}
+		from += i + 1
+		li.starts, li.u16, li.valid = append(li.starts, from), append(li.u16, u16), append(li.valid, valid)
 	}
 	return li
 }
@@ -525,7 +703,8 @@ type sarifPos struct {
 
 // pos converts an HCL position. It trusts the byte offset when it lies on
 // the line the position names; otherwise (no source, or a source that does
-// not match) it keeps HCL's line and column.
+// not match) it keeps HCL's line and column, as it does when the text
+// before the position is not valid UTF-8.
 func (li *lineIndex) pos(p hcl.Pos) sarifPos {
 	fallback := sarifPos{line: p.Line, col: max(p.Column, 1)}
 	if li.src == nil || p.Byte < 0 || p.Byte > len(li.src) || p.Line < 1 || p.Line > len(li.starts) {
@@ -539,13 +718,15 @@ func (li *lineIndex) pos(p hcl.Pos) sarifPos {
 	if p.Byte < ls || p.Byte >= next {
 		return fallback
 	}
-	if !utf8.Valid(li.src[:p.Byte]) {
+	seg := li.src[ls:p.Byte]
+	if !li.valid[p.Line-1] || !utf8.Valid(seg) {
 		return fallback
 	}
+	col := utf16Len(seg)
 	return sarifPos{
 		line:  p.Line,
-		col:   utf16Len(li.src[ls:p.Byte]) + 1,
-		char:  utf16Len(li.src[:p.Byte]),
+		col:   col + 1,
+		char:  li.u16[p.Line-1] + col,
 		exact: true,
 	}
 }
@@ -554,6 +735,11 @@ func (li *lineIndex) pos(p hcl.Pos) sarifPos {
 func utf16Len(b []byte) int {
 	n := 0
 	for len(b) > 0 {
+		if b[0] < utf8.RuneSelf {
+			n++
+			b = b[1:]
+			continue
+		}
 		r, size := utf8.DecodeRune(b)
 		b = b[size:]
 		if l := utf16.RuneLen(r); l > 0 {
@@ -604,8 +790,8 @@ func HelpURI(r *rules.Rule) string {
 // URI, reach, event and the number-free message. The station span is left
 // out, since a 1 % change of inflow moves span ends; findings that share
 // all of these are told apart by their occurrence count, in station order.
-func fingerprint(f rules.Finding, uri string) string {
-	key := strings.Join([]string{f.Rule, uri, f.Reach, f.Event, baseline.MessageFingerprint(f.Message)}, "\x00")
+func fingerprint(f *rules.Finding, uri string) string {
+	key := f.Rule + "\x00" + uri + "\x00" + f.Reach + "\x00" + f.Event + "\x00" + baseline.MessageFingerprint(f.Message)
 	sum := sha256.Sum256([]byte(key))
 	return hex.EncodeToString(sum[:16])
 }
