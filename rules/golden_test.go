@@ -29,13 +29,12 @@ const goldenDir = "../testdata/rules"
 // no event; FROM..TO may be "toe..end" (the jump's span, checked
 // separately) or "-..-" (no span).
 type want struct {
-	label         string
-	line          int
-	rule, event   string
-	from, to      string
-	excepted      bool
-	commentLine   int
-	matchedByLine bool
+	label       string
+	line        int
+	rule, event string
+	from, to    string
+	excepted    bool
+	commentLine int
 }
 
 var wantRE = regexp.MustCompile(`^\s*#\s*want(?::(\w+))?\s+(\S+)\s+(\S+)\s+(\S+)\.\.(\S+)(\s+excepted)?\s*$`)

@@ -4,13 +4,10 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"os"
-	"strconv"
 	"strings"
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
-	"github.com/stretchr/testify/require"
 )
 
 // fuzzInput turns fuzz bytes into bounded parameters: each read takes the
@@ -360,23 +357,6 @@ func checkJunctions(t *testing.T, er *EventResult, src string) {
 			t.Fatalf("reach %s carries %.12g, inflow plus upstream is %.12g\n%s", rr.Reach.Name, rr.Discharge, q, src)
 		}
 	}
-}
-
-// readFuzzFile reads the single []byte value of a "go test fuzz v1" file,
-// to replay an input of testdata/fuzz/FuzzSolve through fuzzModel when
-// debugging.
-func readFuzzFile(t *testing.T, path string) []byte {
-	t.Helper()
-	raw, err := os.ReadFile(path)
-	require.NoError(t, err)
-	lines := strings.SplitN(strings.TrimSpace(string(raw)), "\n", 2)
-	require.Len(t, lines, 2)
-	require.Equal(t, "go test fuzz v1", lines[0])
-	v := strings.TrimSpace(lines[1])
-	require.True(t, strings.HasPrefix(v, "[]byte(") && strings.HasSuffix(v, ")"), "%s", v)
-	s, err := strconv.Unquote(v[len("[]byte(") : len(v)-1])
-	require.NoError(t, err)
-	return []byte(s)
 }
 
 // checkHeldAtJunction: a jump the solver holds at a junction (station 0

@@ -14,8 +14,6 @@ import (
 // and the depth it tends to away from the control (its depth range).
 type refProfile struct{ x0, y0, yFar float64 }
 
-func (t gvfTrapezoid) at(p refProfile, x float64) float64 { return t.depthAt(p.x0, p.y0, p.yFar, x) }
-
 // refJumpStation is where the specific force of the supercritical
 // reference profile equals that of the subcritical one. It searches on the
 // upstream sequent depth y1 within [y1a, y1b] (on the supercritical
