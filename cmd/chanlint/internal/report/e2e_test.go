@@ -76,3 +76,43 @@ func BenchmarkHTMLDemo(b *testing.B) {
 	}
 	b.ReportMetric(float64(buf.Len()), "bytes/page")
 }
+
+// TestCulvertRendered: the demo's culvert has a performance row per event
+// and its plots draw the headwater pool and the road crest at their levels.
+func TestCulvertRendered(t *testing.T) {
+	in := solvedInput(t, demoModel)
+	var buf bytes.Buffer
+	require.NoError(t, HTML(&buf, in))
+	out := buf.String()
+	assert.Equal(t, 2, strings.Count(out, "<caption>Culvert performance"), "one table per event")
+	assert.Contains(t, out, "<td>quarry-lane</td>")
+	assert.Contains(t, out, "culvert headwater")
+	assert.Contains(t, out, "road crest")
+	res := in.Models[0].Result
+	for _, ev := range res.Events {
+		require.Len(t, ev.Culverts, 1)
+		cr := ev.Culverts[0]
+		assert.Contains(t, out, "headwater "+num(cr.Headwater)+" m, HW/D "+num2(cr.HWD))
+	}
+	// The pool is drawn at the headwater's height on the plot's scale.
+	m := in.Models[0].Model
+	var pieces []piece
+	off := 0.0
+	byReach := map[*model.Reach]*solver.ReachResult{}
+	for _, rr := range res.Events[0].Reaches {
+		byReach[rr.Reach] = rr
+	}
+	for _, r := range mainStem(m) {
+		pieces = append(pieces, piece{reach: r, rr: byReach[r], offset: off})
+		off += r.Length
+	}
+	cr := res.Events[0].Culverts[0]
+	p := buildPlot(plotInput{id: "t", units: m.Units, pieces: pieces, w: mainW, h: mainH, stem: true,
+		culverts: map[*model.Reach]*solver.CulvertResult{cr.Culvert.Reach: cr}})
+	require.Len(t, p.Culverts, 1)
+	require.Len(t, p.Roads, 1)
+	sc := newScale(pieces, &Plot{Frame: p.Frame}, map[*model.Reach]*solver.CulvertResult{cr.Culvert.Reach: cr})
+	assert.InDelta(t, round1(sc.y(cr.Headwater)), p.Culverts[0].Y1, 1e-9)
+	assert.InDelta(t, round1(sc.y(cr.Culvert.Road.Crest)), p.Roads[0].Y1, 1e-9)
+	assert.Less(t, p.Culverts[0].X, p.Culverts[0].X2, "the pool extends upstream of the inlet")
+}

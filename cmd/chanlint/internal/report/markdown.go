@@ -98,6 +98,16 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 				}
 				p("\n")
 			}
+			if len(ev.Culverts) > 0 {
+				p("Culvert performance (FHWA HDS-5):\n\n")
+				p("| Culvert | Headwater | HW/D | Governing | Inlet control | Outlet control | Barrel flow | Road flow | Depth over road | Outlet velocity |\n")
+				p("|---|--:|--:|---|--:|--:|--:|--:|--:|--:|\n")
+				for _, c := range ev.Culverts {
+					p("| %s | %s | %s | %s | %s | %s | %s | %s | %s | %s |\n", md(c.Name), c.Headwater, c.HWD, md(c.Control),
+						c.Inlet, c.Outlet, c.Barrel, c.Road, c.OverRoad, c.OutletVelocity)
+				}
+				p("\n")
+			}
 		}
 		p("### Findings\n\n")
 		if len(m.Findings) == 0 {

@@ -27,6 +27,8 @@ type palette struct {
 	Boundary         lineStyle
 	Gate             lineStyle
 	Jump             string
+	Pool             lineStyle // a culvert's headwater level
+	Road             lineStyle
 	Empty            string
 }
 
@@ -49,6 +51,8 @@ var pal = palette{
 	Boundary: lineStyle{Colour: "#55606b", Width: "1", Dash: "1 3"},
 	Gate:     lineStyle{Colour: "#1d2630", Width: "4"},
 	Jump:     "#17324d",
+	Pool:     lineStyle{Colour: "#1f5f99", Width: "1.4", Dash: "6 3"},
+	Road:     lineStyle{Colour: "#3b3b3b", Width: "3"},
 	Empty:    "#8a5a00",
 }
 

@@ -8,7 +8,7 @@ package report
 //	plotaxes.go    the data extent, the scale, ticks and axis labels
 //	plotspans.go   failing and excepted spans in their lanes, basins, bends
 //	plotlines.go   bed, water surface, critical depth, bank, energy grade
-//	plotmarks.go   reach boundaries, hydraulic jumps, gates
+//	plotmarks.go   reach boundaries, hydraulic jumps, gates, culverts
 //	plotlegend.go  the legend rows
 //
 // plotsvg.go then writes the laid-out Plot as SVG markup with the colours
@@ -41,12 +41,16 @@ type Plot struct {
 	Bends      []Band // strips along the bottom of the frame
 	Boundaries []Boundary
 
-	Ground, Water             string // filled paths: below the bed; between bed and water surface
-	Bed, WSE, Critical, Bank  string // line paths
-	Energy                    string
-	BankLabel                 string // "top of bank / lining" or "crown" when every section is closed
-	Jumps                     []Mark
-	Gates                     []Mark
+	Ground, Water            string // filled paths: below the bed; between bed and water surface
+	Bed, WSE, Critical, Bank string // line paths
+	Energy                   string
+	BankLabel                string // "top of bank / lining" or "crown" when every section is closed
+	Jumps                    []Mark
+	Gates                    []Mark
+	// Culverts are the headwater pools in front of culvert inlets (a level
+	// line from X to X2 at Y1, the inlet's headwall from Y1 down to Y2)
+	// and Roads the road crests over them (X to X2 at Y1).
+	Culverts, Roads           []Mark
 	Legend                    []LegendItem
 	ClipEnergy                bool // the energy grade leaves the frame and is clipped
 	failing                   map[string]bool
@@ -54,6 +58,7 @@ type Plot struct {
 	Empty                     string  // message shown instead of lines when nothing was computed
 	HasFailing, HasExcepted   bool
 	HasBasin, HasBend, HasJmp bool
+	HasRoad                   bool
 }
 
 // Rect is an axis-aligned rectangle.
@@ -191,9 +196,10 @@ type plotInput struct {
 	event     string
 	findings  []numbered
 	w, h      float64
-	stem      bool   // draw reach boundaries and names
-	small     bool   // drawn below the main stem, in the smaller size
-	xlabel    string // overrides the station axis label
+	culverts  map[*model.Reach]*solver.CulvertResult // by barrel reach
+	stem      bool                                   // draw reach boundaries and names
+	small     bool                                   // drawn below the main stem, in the smaller size
+	xlabel    string                                 // overrides the station axis label
 }
 
 // numbered is a finding with its row number in the page's findings table.
@@ -220,7 +226,7 @@ func buildPlot(in plotInput) *Plot {
 		p.XLabel = in.xlabel
 	}
 
-	sc := newScale(in.pieces, p)
+	sc := newScale(in.pieces, p, in.culverts)
 	p.addFindingSpans(in, sc, lu) // moves the frame down by its lanes
 	sc.fr = p.Frame
 	p.addAxes(sc)
@@ -234,6 +240,7 @@ func buildPlot(in plotInput) *Plot {
 	p.addLines(in.pieces, sc)
 	p.addJumps(in.pieces, sc, lu)
 	p.addGates(in.pieces, sc, lu)
+	p.addCulverts(in.pieces, sc, lu, in.culverts)
 	p.addLegend()
 	if p.ClipEnergy {
 		note := "The energy grade rises above the frame and is cut off."

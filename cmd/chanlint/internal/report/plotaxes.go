@@ -1,6 +1,8 @@
 package report
 
 import (
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/solver"
 	"math"
 	"strconv"
 )
@@ -23,7 +25,7 @@ func (s *scale) y(v float64) float64 { return s.fr.Bottom() - (v-s.ymin)/(s.ymax
 // bank, water surface and critical depth of every point, and the energy
 // grade unless it stands so high that it would flatten the profile (then
 // p.ClipEnergy is set and it is cut off at the frame).
-func newScale(pieces []piece, p *Plot) *scale {
+func newScale(pieces []piece, p *Plot, culverts map[*model.Reach]*solver.CulvertResult) *scale {
 	s := &scale{fr: p.Frame}
 	for _, pc := range pieces {
 		s.xmax = math.Max(s.xmax, pc.offset+pc.reach.Length)
@@ -43,6 +45,12 @@ func newScale(pieces []piece, p *Plot) *scale {
 		grow(pc.reach.InvertDown)
 		grow(pc.reach.InvertUp + sectionHeight(pc.reach.Section))
 		grow(pc.reach.InvertDown + sectionHeight(pc.reach.SectionAt(pc.reach.Length)))
+		if cr := culverts[pc.reach]; cr != nil {
+			grow(cr.Headwater)
+			if road := cr.Culvert.Road; road != nil {
+				grow(road.Crest)
+			}
+		}
 		if pc.rr == nil {
 			continue
 		}

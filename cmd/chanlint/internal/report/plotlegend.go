@@ -30,6 +30,12 @@ func (p *Plot) addLegend() {
 	if p.Bank != "" {
 		add("bank", p.BankLabel)
 	}
+	if len(p.Culverts) > 0 {
+		add("pool", "culvert headwater")
+	}
+	if p.HasRoad {
+		add("road", "road crest")
+	}
 	if p.HasJmp {
 		add("jump", "hydraulic jump")
 	}

@@ -224,6 +224,19 @@ func (w *svgWriter) svgBody(p *Plot) {
 		w.line(g.X, g.X, g.Y1, g.Y2).stroke(pal.Gate).titled("line", g.Title)
 		w.tag("text").n("x", g.LabelX).n("y", g.LabelY).a("font-size", "10.5").a("fill", pal.Gate.Colour).a("text-anchor", g.Anchor).label(g.Label)
 	}
+	for _, r := range p.Roads {
+		w.tag("g").raw("><title>").text(r.Title).raw("</title>")
+		w.line(r.X, r.X2, r.Y1, r.Y1).stroke(pal.Road).end()
+		w.tag("text").n("x", r.LabelX).n("y", r.LabelY).a("font-size", "10").a("fill", pal.Road.Colour).a("text-anchor", r.Anchor).label(r.Label)
+		w.raw("\n</g>")
+	}
+	for _, c := range p.Culverts {
+		w.tag("g").raw("><title>").text(c.Title).raw("</title>")
+		w.line(c.X, c.X2, c.Y1, c.Y1).stroke(pal.Pool).end()
+		w.line(c.X2, c.X2, c.Y1, c.Y2).stroke(pal.Bank).end()
+		w.tag("text").n("x", c.LabelX).n("y", c.LabelY).a("font-size", "10.5").a("fill", pal.Pool.Colour).a("text-anchor", c.Anchor).label(c.Label)
+		w.raw("\n</g>")
+	}
 	for _, j := range p.Jumps {
 		w.tag("g").raw("><title>").text(j.Title).raw("</title>")
 		w.line(j.X, j.X2, j.Y2, j.Y2).stroke(lineStyle{Colour: pal.Jump, Width: "1", Dash: "3 2"}).end()
@@ -301,6 +314,10 @@ func (w *svgWriter) swatch(it LegendItem) {
 		line(pal.Energy)
 	case "bank":
 		line(pal.Bank)
+	case "pool":
+		line(pal.Pool)
+	case "road":
+		line(pal.Road)
 	case "jump":
 		w.raw("<line").n("x1", x+12).n("x2", x+12).n("y1", y-7).n("y2", y+5).stroke(lineStyle{Colour: pal.Jump, Width: "2.2"}).end()
 	case "basin":

@@ -218,10 +218,16 @@ type modelView struct {
 }
 
 type eventView struct {
-	Name    string
-	Anchor  string
-	Reaches []reachRow
-	Plots   []*plotView
+	Name     string
+	Anchor   string
+	Reaches  []reachRow
+	Culverts []culvertRow
+	Plots    []*plotView
+}
+
+// culvertRow is the performance of one culvert in one event.
+type culvertRow struct {
+	Name, Headwater, HWD, Control, Inlet, Outlet, Barrel, Road, OverRoad, OutletVelocity string
 }
 
 type plotView struct {
@@ -435,6 +441,13 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 				ev.Reaches = append(ev.Reaches, reachSummary(rr, md.Units))
 			}
 		}
+		culverts := map[*model.Reach]*solver.CulvertResult{}
+		for _, cr := range er.Culverts {
+			if cr != nil && cr.Culvert != nil && cr.Culvert.Reach != nil {
+				culverts[cr.Culvert.Reach] = cr
+				ev.Culverts = append(ev.Culverts, culvertSummary(cr))
+			}
+		}
 		// Main stem.
 		var pieces []piece
 		off := 0.0
@@ -448,7 +461,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 				title = ev.Name + " — main stem: " + reachPath(stem)
 			}
 			ev.Plots = append(ev.Plots, plot(plotInput{title: title, units: md.Units, pieces: pieces,
-				event: ev.Name, findings: nums, w: mainW, h: mainH, stem: true}))
+				event: ev.Name, findings: nums, w: mainW, h: mainH, stem: true, culverts: culverts}))
 		}
 		// Details of short structure reaches (gates, basins, jumps) that
 		// the main stem's scale squeezes.
@@ -460,7 +473,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 				off += r.Length
 			}
 			ev.Plots = append(ev.Plots, plot(plotInput{title: ev.Name + " — detail: " + reachPath(run),
-				units: md.Units, pieces: ps, event: ev.Name, findings: nums, w: smallW, h: smallH, stem: true, small: true,
+				units: md.Units, pieces: ps, event: ev.Name, findings: nums, w: smallW, h: smallH, stem: true, small: true, culverts: culverts,
 				xlabel: "Distance downstream from the head of " + run[0].Name + " (" + md.Units.Length() + ")"}))
 		}
 		// Other reaches, in model order.
@@ -469,7 +482,8 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 				continue
 			}
 			ev.Plots = append(ev.Plots, plot(plotInput{title: ev.Name + " — reach " + r.Name + " (to " + r.To + ")",
-				units: md.Units, pieces: []piece{{reach: r, rr: byReach[r]}}, event: ev.Name, findings: nums, w: smallW, h: smallH, small: true}))
+				units: md.Units, pieces: []piece{{reach: r, rr: byReach[r]}}, event: ev.Name, findings: nums, w: smallW, h: smallH, small: true,
+				culverts: culverts}))
 		}
 		mv.Events = append(mv.Events, ev)
 	}
@@ -555,6 +569,18 @@ func reachSummary(rr *solver.ReachResult, u model.Units) reachRow {
 		row.Notes = plural(n, "solver note")
 	}
 	return row
+}
+
+// culvertSummary is a culvert's performance row: levels and depths with
+// three decimals, the governing control with its method.
+func culvertSummary(cr *solver.CulvertResult) culvertRow {
+	r := culvertRow{Name: cr.Culvert.Name, Headwater: num(cr.Headwater), HWD: num2(cr.HWD), Control: cr.Method(),
+		Inlet: num(cr.InletHeadwater), Outlet: num(cr.OutletHeadwater), Barrel: num(cr.BarrelFlow),
+		Road: "—", OverRoad: "—", OutletVelocity: num(cr.OutletVelocity)}
+	if cr.Culvert.Road != nil {
+		r.Road, r.OverRoad = num(cr.RoadFlow), num(cr.RoadDepth)
+	}
+	return r
 }
 
 func row(n int, f rules.Finding) findingRow {
