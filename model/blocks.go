@@ -26,7 +26,7 @@ func schema(names ...string) *hcl.BodySchema {
 
 var (
 	reachSchema = func() *hcl.BodySchema {
-		s := schema("from", "to", "length", "section", "slope", "invert", "max_spacing")
+		s := schema("from", "to", "length", "section", "slope", "invert", "max_spacing", "class")
 		s.Blocks = []hcl.BlockHeaderSchema{{Type: "segment"}}
 		return s
 	}()
@@ -34,9 +34,46 @@ var (
 	gateSchema      = schema("reach", "opening", "contraction")
 	basinSchema     = schema("reach", "from_station", "to_station")
 	bendSchema      = schema("reach", "from_station", "to_station", "radius")
-	eventSchema     = schema("inflow", "outlet", "entrance")
+	eventSchema     = schema("inflow", "outlet", "entrance", "return_period", "class")
 	exceptionSchema = schema("reach", "from_station", "to_station", "reason")
 )
+
+// MaxClassWord bounds the length of a class word (`class` of a reach or
+// an event).
+const MaxClassWord = 64
+
+// classWord decodes an optional class word: letters, digits, "-" and "_",
+// at most MaxClassWord of them, matched by policy selectors exactly.
+func (a attrSet) classWord(name, example string) string {
+	if !a.has(name) {
+		return ""
+	}
+	w, ok := a.text(name)
+	if !ok {
+		return ""
+	}
+	if !IsClassWord(w) {
+		a.d.errorf(a.m[name].Expr.Range(), "Invalid class word",
+			"%s of %s must be one word of letters, digits, \"-\" or \"_\" (at most %d), e.g. %s.", name, a.what, MaxClassWord, example)
+		return ""
+	}
+	return w
+}
+
+// IsClassWord reports whether w is a valid class word: 1 to MaxClassWord
+// ASCII letters, digits, "-" or "_". Policies hold their selector words to
+// the same form.
+func IsClassWord(w string) bool {
+	if w == "" || len(w) > MaxClassWord {
+		return false
+	}
+	for _, c := range w {
+		if !(c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' || c == '-' || c == '_') {
+			return false
+		}
+	}
+	return true
+}
 
 // DefaultContraction is the contraction coefficient of a vertical sluice
 // gate in free flow used when a gate does not give one. Source: Henry
@@ -83,6 +120,7 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 	if a.has("max_spacing") {
 		r.MaxSpacing, _ = a.positive("max_spacing", unit)
 	}
+	r.Class = a.classWord("class", `"roadside-ditch"`)
 	if len(content.Blocks) > MaxSegments {
 		d.errorf(content.Blocks[MaxSegments].DefRange, "Too many segments",
 			"%s has %d segment blocks; at most %d are accepted.", a.what, len(content.Blocks), MaxSegments)
@@ -205,6 +243,10 @@ func (d *decoder) event(b *hcl.Block) *Event {
 	if at, ok := a.m["outlet"]; ok {
 		d.outlet(ev, a, at)
 	}
+	if a.has("return_period") {
+		ev.ReturnPeriod, _ = a.positive("return_period", " years")
+	}
+	ev.Class = a.classWord("class", `"major"`)
 	if at, ok := a.m["entrance"]; ok {
 		vals, _ := d.reachValues(at.Expr, a.what, "entrance", "entrance depth of", `{ "chute" = 0.4 }`, "Depth must be positive",
 			"give the known depth in "+unit+" at the upstream end, or remove the entry")

@@ -69,6 +69,10 @@ const (
 	Points    Shape = "points"
 )
 
+// ShapeNames are the shape words of the model language, in the order the
+// documentation lists them.
+var ShapeNames = []string{string(Rectangle), string(Trapezoid), string(Triangle), string(Circle), string(Box), string(Points)}
+
 // Point is one [offset, elevation] pair of a points section.
 type Point struct {
 	Offset, Elevation float64
@@ -123,7 +127,10 @@ type Reach struct {
 	// MaxSpacing limits the distance between computed points (`max_spacing`);
 	// 0 means the solver's step control alone decides.
 	MaxSpacing float64
-	Segments   []*Segment // ordered by station, not overlapping
+	// Class is the reach's facility class word (`class`, e.g.
+	// "roadside-ditch"), matched by policy selectors; "" when not written.
+	Class    string
+	Segments []*Segment // ordered by station, not overlapping
 
 	// Filled by the network pass.
 	Upstream   []*Reach // reaches that end at From, in model order
@@ -276,7 +283,13 @@ type Entrance struct {
 // Event is one steady-flow case.
 type Event struct {
 	Src
-	Name      string
+	Name string
+	// ReturnPeriod is the event's return period in years
+	// (`return_period`, > 0); 0 when not written.
+	ReturnPeriod float64
+	// Class is the event's storm class word (`class`, e.g. "minor" or
+	// "major"), matched by policy selectors; "" when not written.
+	Class     string
 	Inflows   []Inflow // in source order
 	Outlet    Outlet
 	Entrances []Entrance // in source order

@@ -32,30 +32,82 @@ func Format(p *Policy) []byte {
 	if p.Reference != "" {
 		b.SetAttributeValue("reference", cty.StringVal(p.Reference))
 	}
+	if p.Version != "" {
+		b.SetAttributeValue("version", cty.StringVal(p.Version))
+	}
 	b.SetAttributeValue("exceptions", cty.StringVal(p.Exceptions))
 	for _, id := range slices.Sorted(maps.Keys(p.Rules)) {
-		rc := p.Rules[id]
-		b.AppendNewline()
-		b.AppendUnstructuredTokens(comment(fmt.Sprintf("from %s:%d", rc.File, rc.DefRange.Start.Line)))
-		rb := b.AppendNewBlock(id, nil).Body()
-		if rc.Spec != nil {
-			for i := range rc.Spec.Settings {
-				s := &rc.Spec.Settings[i]
-				if toks := settingTokens(s, rc); toks != nil {
-					rb.SetAttributeRaw(s.Name, toks)
-				}
+		blocks := p.Rules[id].Blocks()
+		if len(blocks) > 1 {
+			b.AppendNewline()
+			b.AppendUnstructuredTokens(comment(id + ": the most specific matching block applies:"))
+			for i, rc := range ordered(blocks) {
+				b.AppendUnstructuredTokens(comment(fmt.Sprintf("  %d. %s (specificity %d, %s:%d)", i+1, rc.SelectorText(), rc.Specificity(), rc.File, rc.DefRange.Start.Line)))
 			}
 		}
-		rb.SetAttributeValue("severity", cty.StringVal(string(rc.Severity)))
-		if rc.Events != nil {
-			ev := make([]cty.Value, len(rc.Events))
-			for i, e := range rc.Events {
-				ev[i] = cty.StringVal(e)
-			}
-			rb.SetAttributeValue("events", cty.ListVal(ev))
+		for _, rc := range blocks {
+			b.AppendNewline()
+			b.AppendUnstructuredTokens(comment(fmt.Sprintf("from %s:%d", rc.File, rc.DefRange.Start.Line)))
+			writeBlock(b.AppendNewBlock(id, nil).Body(), rc)
 		}
 	}
 	return hclwrite.Format(f.Bytes())
+}
+
+// ordered lists a rule's blocks from the most specific down, in source
+// order among equals: the order in which they are tried.
+func ordered(blocks []*RuleConfig) []*RuleConfig {
+	out := slices.Clone(blocks)
+	slices.SortStableFunc(out, func(a, b *RuleConfig) int { return b.Specificity() - a.Specificity() })
+	return out
+}
+
+// writeBlock writes one rule block: its settings, severity, section and
+// selectors.
+func writeBlock(rb *hclwrite.Body, rc *RuleConfig) {
+	if rc.Spec != nil {
+		for i := range rc.Spec.Settings {
+			s := &rc.Spec.Settings[i]
+			if toks := settingTokens(s, rc); toks != nil {
+				rb.SetAttributeRaw(s.Name, toks)
+			}
+		}
+	}
+	rb.SetAttributeValue("severity", cty.StringVal(string(rc.Severity)))
+	if rc.Section != "" {
+		rb.SetAttributeValue("section", cty.StringVal(rc.Section))
+	}
+	if rc.Events != nil {
+		rb.SetAttributeValue("events", stringList(rc.Events))
+	}
+	sel := &rc.Select
+	if sel.HasReturnPeriod {
+		ends := make([]hclwrite.Tokens, 2)
+		for i, v := range sel.ReturnPeriod {
+			if v == 0 || math.IsInf(v, 1) {
+				ends[i] = hclwrite.TokensForValue(cty.NullVal(cty.Number))
+			} else {
+				ends[i] = numberTokens(v)
+			}
+		}
+		rb.SetAttributeRaw("return_period", hclwrite.TokensForTuple(ends))
+	}
+	for _, w := range []struct {
+		name  string
+		words []string
+	}{{"event_classes", sel.EventClasses}, {"reach_classes", sel.ReachClasses}, {"shapes", sel.Shapes}, {"linings", sel.Linings}} {
+		if w.words != nil {
+			rb.SetAttributeValue(w.name, stringList(w.words))
+		}
+	}
+}
+
+func stringList(ws []string) cty.Value {
+	vals := make([]cty.Value, len(ws))
+	for i, w := range ws {
+		vals[i] = cty.StringVal(w)
+	}
+	return cty.ListVal(vals)
 }
 
 // unitNote says what the numbers of p are in.

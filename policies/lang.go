@@ -29,6 +29,7 @@ func (l *Language) bodySchema() *hcl.BodySchema {
 		s := &hcl.BodySchema{Attributes: []hcl.AttributeSchema{
 			{Name: "units", Required: true},
 			{Name: "reference"},
+			{Name: "version"},
 			{Name: "exceptions"},
 			{Name: "extends"},
 		}}
@@ -47,6 +48,9 @@ func ruleSchema(spec *RuleSpec) *hcl.BodySchema {
 	for _, c := range CommonSettings {
 		s.Attributes = append(s.Attributes, hcl.AttributeSchema{Name: c.Name})
 	}
+	for _, c := range SelectorSettings {
+		s.Attributes = append(s.Attributes, hcl.AttributeSchema{Name: c.Name})
+	}
 	for _, a := range spec.Settings {
 		s.Attributes = append(s.Attributes, hcl.AttributeSchema{Name: a.Name})
 	}
@@ -60,8 +64,9 @@ type own struct {
 	extendsRange  hcl.Range
 	hasExtends    bool
 	hasReference  bool
+	hasVersion    bool
 	hasExceptions bool
-	disabled      map[string]bool // rule blocks written with enabled = false
+	disabled      map[string]bool // rules with a block written with enabled = false
 }
 
 // decoder accumulates the diagnostics of one file.
@@ -137,6 +142,12 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 			o.hasReference = true
 		}
 	}
+	if a := content.Attributes["version"]; a != nil {
+		if s, ok := d.str(a); ok {
+			o.policy.Version = strings.TrimSpace(s)
+			o.hasVersion = true
+		}
+	}
 	if a := content.Attributes["exceptions"]; a != nil {
 		if s, ok := d.enum(a, "exceptions", []string{"report", "deny"}); ok {
 			o.policy.Exceptions = s
@@ -154,7 +165,7 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 		o.extendsRange = a.Expr.Range()
 	}
 
-	first := map[string]*hcl.Block{}
+	seen := map[string][]*RuleConfig{}
 	for _, b := range content.Blocks {
 		spec := d.lang.Spec(b.Type)
 		if spec == nil || spec.AlwaysOn {
@@ -163,19 +174,39 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 			continue
 		}
 		rc, enabled := d.decodeRule(spec, b, name) // a duplicate too, for its own problems
-		if prev := first[b.Type]; prev != nil {
+		if prev := sameAs(seen[b.Type], rc); prev != nil {
 			d.errorf(b.DefRange, "Duplicate rule block",
-				"The %s rule is already configured at line %d; a policy file configures each rule once.", b.Type, prev.DefRange.Start.Line)
+				"The %s rule is already configured at line %d for %s; a policy file configures each rule once per selection (give this block a selector, e.g. reach_classes, to apply it to part of the model).",
+				b.Type, prev.DefRange.Start.Line, rc.SelectorText())
 			continue
 		}
-		first[b.Type] = b
+		seen[b.Type] = append(seen[b.Type], rc)
 		if enabled {
-			o.policy.Rules[b.Type] = rc
+			o.policy.Rules[b.Type] = o.policy.Rules[b.Type].with(rc)
 		} else {
 			o.disabled[b.Type] = true
 		}
 	}
 	return o
+}
+
+// sameAs returns the block of blocks with the same selector as rc, or nil.
+func sameAs(blocks []*RuleConfig, rc *RuleConfig) *RuleConfig {
+	for _, b := range blocks {
+		if sameSelector(b, rc) {
+			return b
+		}
+	}
+	return nil
+}
+
+// with returns the rule's blocks with rc added (rc itself when c is nil).
+func (c *RuleConfig) with(rc *RuleConfig) *RuleConfig {
+	if c == nil {
+		return rc
+	}
+	c.More = append(c.More, rc)
+	return c
 }
 
 // decodeRule decodes one rule block generically from its spec; enabled is
@@ -209,6 +240,12 @@ func (d *decoder) decodeRule(spec *RuleSpec, block *hcl.Block, file string) (rc 
 	}
 	if a := content.Attributes["events"]; a != nil {
 		rc.Events = d.events(a)
+	}
+	d.selector(content, &rc.Select)
+	if a := content.Attributes["section"]; a != nil {
+		if s, ok := d.str(a); ok {
+			rc.Section = strings.TrimSpace(s)
+		}
 	}
 	for i := range spec.Settings {
 		s := &spec.Settings[i]

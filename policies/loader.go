@@ -152,7 +152,11 @@ func (l *Loader) loadPack(name string) (*Policy, hcl.Diagnostics) {
 // checked adds the warnings about the effective policy as a whole.
 func checked(p *Policy, diags hcl.Diagnostics) (*Policy, hcl.Diagnostics) {
 	if p != nil {
+		diags = append(diags, ties(p)...)
 		diags = append(diags, crossCheck(p)...)
+		if diags.HasErrors() {
+			return nil, diags
+		}
 	}
 	return p, diags
 }

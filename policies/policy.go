@@ -4,6 +4,8 @@
 package policies
 
 import (
+	"strings"
+
 	"github.com/chanlint/chanlint/model"
 	"github.com/hashicorp/hcl/v2"
 )
@@ -65,7 +67,16 @@ type RuleConfig struct {
 	Spec     *RuleSpec // the rule's spec; nil only in hand-made configs
 	Severity Severity  // as written, else the rule's default
 	Events   []string  // nil: every event
-	File     string    // policy file (or "pack:NAME") the block came from
+	// Select is the block's selector on events and reaches besides names.
+	Select Selector
+	// Section is the block's reference into the policy's manual
+	// (`section`, e.g. "5.3.2"); "" when not written.
+	Section string
+	// More holds the rule's other blocks, each with its own selector;
+	// Blocks lists them all and Resolve picks the one that applies. Set
+	// on the block held in Policy.Rules only.
+	More     []*RuleConfig
+	File     string // policy file (or "pack:NAME") the block came from
 	DefRange hcl.Range
 	// Attrs holds the value range of every attribute written in the block,
 	// by attribute name, so a report can point at the limit it applied.
@@ -132,12 +143,40 @@ func (c *RuleConfig) AppliesTo(event string) bool {
 
 // Policy is an effective policy after `extends`.
 type Policy struct {
-	Name       string
-	Units      model.Units
-	Reference  string
+	Name      string
+	Units     model.Units
+	Reference string
+	// Version is the version of the manual or pack (`version`); "" when
+	// not written.
+	Version    string
 	Exceptions string                 // "report" (default) or "deny"
 	File       string                 // where it was loaded from ("pack:NAME" for a built-in)
 	Chain      []string               // the files and packs merged, child first
 	Rules      map[string]*RuleConfig // enabled configurable rules by id
 	DefRange   hcl.Range
+}
+
+// Cite is what a finding from block rc of p cites: the policy's reference,
+// its version and the block's section, each where written ("County
+// Drainage Criteria Manual, ch. 5 (version 2026.1), section 5.3.2").
+func Cite(p *Policy, rc *RuleConfig) string {
+	s := p.Reference
+	if p.Version != "" {
+		s = strings.TrimSpace(s + " (version " + p.Version + ")")
+	}
+	if rc != nil && rc.Section != "" {
+		if s != "" {
+			s += ", "
+		}
+		s += "section " + rc.Section
+	}
+	return s
+}
+
+// Title names the policy with its version: "county-drainage version 2026.1".
+func (p *Policy) Title() string {
+	if p.Version == "" {
+		return p.Name
+	}
+	return p.Name + " version " + p.Version
 }

@@ -311,7 +311,7 @@ func (r *RuleSpec) Validate() error {
 		return fmt.Errorf("rule %s: an always-on rule has no policy block, so no settings", r.ID)
 	}
 	seen := map[string]bool{}
-	for _, c := range CommonSettings {
+	for _, c := range slices.Concat(CommonSettings, SelectorSettings) {
 		seen[c.Name] = true
 	}
 	for i := range r.Settings {
@@ -359,6 +359,7 @@ var CommonSettings = []CommonSetting{
 	{"severity", `"error", "warning" or "info"; default: the rule's own`},
 	{"events", "a list of event names; default: every event"},
 	{"enabled", "true (default) or false, which switches off a rule that an extended policy turns on"},
+	{"section", "the block's reference into the policy's manual, e.g. \"5.3.2\"; printed with every finding"},
 }
 
 // Language is the policy language for one set of rules. It is safe for

@@ -28,7 +28,9 @@ func (p *Policy) In(u model.Units) *Policy {
 	}
 	c.Units = u
 	for _, rc := range c.Rules {
-		rc.convert(u)
+		for _, b := range rc.Blocks() {
+			b.convert(u)
+		}
 	}
 	return c
 }
@@ -73,7 +75,15 @@ func (p *Policy) clone() *Policy {
 
 func (rc *RuleConfig) clone() *RuleConfig {
 	c := *rc
+	c.More = nil
+	for _, b := range rc.More {
+		c.More = append(c.More, b.clone())
+	}
 	c.Events = slices.Clone(rc.Events)
+	c.Select.EventClasses = slices.Clone(rc.Select.EventClasses)
+	c.Select.ReachClasses = slices.Clone(rc.Select.ReachClasses)
+	c.Select.Shapes = slices.Clone(rc.Select.Shapes)
+	c.Select.Linings = slices.Clone(rc.Select.Linings)
 	c.Attrs = maps.Clone(rc.Attrs)
 	c.Values = make(map[string]Value, len(rc.Values))
 	for name, v := range rc.Values {
@@ -86,15 +96,19 @@ func (rc *RuleConfig) clone() *RuleConfig {
 }
 
 // merge applies a child file on top of its effective parent: the parent is
-// converted to the child's units, each rule block of the child replaces the
-// parent's block of that rule entirely (enabled = false removes it), and the
-// child's top-level attributes override the parent's where written.
+// converted to the child's units, the blocks a child writes for a rule
+// replace every block of that rule in the parent (enabled = false removes
+// them), and the child's top-level attributes override the parent's where
+// written.
 func merge(parent *Policy, o *own) *Policy {
 	out := parent.In(o.policy.Units)
 	child := o.policy
 	out.Name, out.Units, out.File, out.DefRange = child.Name, child.Units, child.File, child.DefRange
 	if o.hasReference {
 		out.Reference = child.Reference
+	}
+	if o.hasVersion {
+		out.Version = child.Version
 	}
 	if o.hasExceptions {
 		out.Exceptions = child.Exceptions

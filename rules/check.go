@@ -70,11 +70,38 @@ func (rn *runner) run(r *Rule, prior []Finding) {
 	if !r.AlwaysOn && cfg == nil {
 		return
 	}
-	rn.rule, rn.cfg = r, cfg
-	// The span buffer is kept from rule to rule: each rule uses it only
-	// while it walks one reach.
-	rn.ctx = Context{Model: rn.m, Result: rn.res, Policy: rn.p, Config: cfg, Findings: prior, spans: rn.ctx.spans[:0]}
-	r.Check(&rn.ctx, rn.bound)
+	// A rule with several blocks runs once per block, each run on the
+	// events and reaches for which that block is the most specific match.
+	for _, b := range cfg.Blocks() {
+		rn.rule, rn.cfg = r, b
+		var head *policies.RuleConfig
+		if len(cfg.More) > 0 || b.Selective() {
+			head = cfg
+		}
+		// The span buffer is kept from rule to rule: each rule uses it only
+		// while it walks one reach.
+		rn.ctx = Context{Model: rn.m, Result: rn.res, Policy: rn.p, Config: b, Findings: prior, spans: rn.ctx.spans[:0], head: head}
+		r.Check(&rn.ctx, rn.bound)
+	}
+	if r.AlwaysOn && cfg == nil {
+		rn.rule, rn.cfg = r, nil
+		rn.ctx = Context{Model: rn.m, Result: rn.res, Policy: rn.p, Findings: prior, spans: rn.ctx.spans[:0]}
+		r.Check(&rn.ctx, rn.bound)
+	}
+}
+
+// Selects reports whether the running block is the one that applies to
+// an event on a reach: always for a rule with a single block without
+// selectors (and for always-on rules), else when it is the most specific
+// matching block of the rule.
+func (c *Context) Selects(ev *model.Event, r *model.Reach) bool {
+	if c.Config == nil {
+		return true
+	}
+	if c.head == nil {
+		return c.Config.AppliesTo(ev.Name)
+	}
+	return c.head.Resolve(ev, r) == c.Config
 }
 
 // report appends a finding of the running rule, filling in what the rule
@@ -93,7 +120,7 @@ func (rn *runner) report(f Finding) {
 		f.File = rn.m.File
 	}
 	if cfg != nil && f.Reference == "" {
-		f.Reference = rn.p.Reference
+		f.Reference = policies.Cite(rn.p, cfg)
 	}
 	rn.out = append(rn.out, f)
 }
@@ -109,18 +136,28 @@ func (c *Context) events() []*solver.EventResult {
 		if ev == nil || ev.Event == nil {
 			continue
 		}
-		if c.Config == nil || c.Config.AppliesTo(ev.Event.Name) {
+		if c.Config == nil || c.eventSelected(ev.Event) {
 			out = append(out, ev)
 		}
 	}
 	return out
 }
 
-// reaches are the reach results of an event that carry a reach.
-func reaches(ev *solver.EventResult) []*solver.ReachResult {
+// eventSelected reports whether the running block may apply to some reach
+// in an event: its event selectors admit it.
+func (c *Context) eventSelected(ev *model.Event) bool {
+	if c.head == nil {
+		return c.Config.AppliesTo(ev.Name)
+	}
+	return c.Config.MatchesEvent(ev)
+}
+
+// reaches are the reach results of an event that carry a reach and that
+// the running block applies to.
+func (c *Context) reaches(ev *solver.EventResult) []*solver.ReachResult {
 	out := make([]*solver.ReachResult, 0, len(ev.Reaches))
 	for _, rr := range ev.Reaches {
-		if rr != nil && rr.Reach != nil {
+		if rr != nil && rr.Reach != nil && c.Selects(ev.Event, rr.Reach) {
 			out = append(out, rr)
 		}
 	}
@@ -209,11 +246,11 @@ func (c *Context) eachReach(fn func(ev *solver.EventResult, rr *solver.ReachResu
 	// The same filters as events and reaches, without building the slices:
 	// every rule walks every reach of every event.
 	for _, ev := range c.Result.Events {
-		if ev == nil || ev.Event == nil || (c.Config != nil && !c.Config.AppliesTo(ev.Event.Name)) {
+		if ev == nil || ev.Event == nil || (c.Config != nil && !c.eventSelected(ev.Event)) {
 			continue
 		}
 		for _, rr := range ev.Reaches {
-			if rr != nil && rr.Reach != nil {
+			if rr != nil && rr.Reach != nil && c.Selects(ev.Event, rr.Reach) {
 				fn(ev, rr)
 			}
 		}

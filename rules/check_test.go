@@ -49,7 +49,10 @@ func TestCheckFillsRegistryFields(t *testing.T) {
 func TestCheckEventFilterAndDisabledRules(t *testing.T) {
 	m, _, res, p := freeboardCase()
 	p.Rules["freeboard"].Events = []string{"q500"}
-	assert.Empty(t, Check(m, res, p))
+	fs := Check(m, res, p)
+	require.Len(t, fs, 1, "no freeboard finding, and a warning that the block matches no event")
+	assert.Equal(t, unmatchedSelectorID, fs[0].Rule)
+	assert.Equal(t, policies.Warning, fs[0].Severity)
 	p.Rules["freeboard"].Events = []string{"q"}
 	assert.Len(t, Check(m, res, p), 2)
 	delete(p.Rules, "freeboard")

@@ -58,7 +58,7 @@ type Finding struct {
 	Value, Limit float64
 	HasValue     bool
 	Unit         string
-	Reference    string // the policy's reference
+	Reference    string // the policy's reference, version and the block's section (policies.Cite)
 	Excepted     bool
 	// The exception that covers this finding, when Excepted.
 	ExceptionReason string
@@ -75,6 +75,10 @@ type Context struct {
 	// applied, for a rule that judges them (unused_exception); nil for the
 	// others.
 	Findings []Finding
+
+	// head is the rule's first block when it has several or a selector
+	// (Selects resolves against it); nil otherwise.
+	head *policies.RuleConfig
 
 	verdict verdict      // scratch space of scan
 	spans   []span       // scratch space of scan: the spans of one reach, reused

@@ -31,6 +31,7 @@ func init() {
 		shearStressRule,
 		solverRule,
 		superelevationRule,
+		unmatchedSelectorRule,
 		unusedExceptionRule,
 	})
 	specs := make([]*policies.RuleSpec, len(registry))

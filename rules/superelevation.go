@@ -73,7 +73,7 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 		cSup = defaultSupercriticalC
 	}
 	for _, ev := range ctx.events() {
-		for _, rr := range reaches(ev) {
+		for _, rr := range ctx.reaches(ev) {
 			for _, bend := range rr.Reach.Bends {
 				if bend.Radius <= 0 {
 					continue

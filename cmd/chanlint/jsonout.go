@@ -70,6 +70,7 @@ type summaryJSON struct {
 type policyJSON struct {
 	Name      string `json:"name"`
 	Reference string `json:"reference"`
+	Version   string `json:"version,omitempty"`
 	Source    string `json:"source"`
 }
 
@@ -121,6 +122,7 @@ func (c *checkRun) writeJSON(w io.Writer) error {
 		Policy: policyJSON{
 			Name:      c.policy.Name,
 			Reference: c.policy.Reference,
+			Version:   c.policy.Version,
 			Source:    c.app.policySource(c.policy),
 		},
 		Caution: rules.Caution,

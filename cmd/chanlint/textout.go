@@ -325,7 +325,7 @@ func plural(n int, one, many string) string {
 // text output.
 func (a *app) policyLine(pol *policies.Policy) string {
 	where := a.policySource(pol)
-	line := fmt.Sprintf("policy: %s (%s)", pol.Name, where)
+	line := fmt.Sprintf("policy: %s (%s)", pol.Title(), where)
 	if pol.Reference != "" {
 		line += " — " + pol.Reference
 	}

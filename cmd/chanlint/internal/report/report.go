@@ -287,7 +287,7 @@ func build(in Input, r renderer) (*page, error) {
 		pg.Caution = rules.Caution
 	}
 	if p := in.Policy; p != nil {
-		pv := &policyView{Name: p.Name, Reference: p.Reference, Source: p.File, Units: string(p.Units), Exceptions: p.Exceptions}
+		pv := &policyView{Name: p.Title(), Reference: p.Reference, Source: p.File, Units: string(p.Units), Exceptions: p.Exceptions}
 		if pv.Exceptions == "" {
 			pv.Exceptions = "report"
 		}
