@@ -29,7 +29,7 @@ import (
 //     y2/h = 1.66·D^0.27 (sequent depth of y1).
 //     Source: Rand, W., Flow geometry at straight drop spillways, Proc.
 //     ASCE 81 (1955); as given in Chow, Open-Channel Hydraulics (1959),
-//     §15-? "straight drop spillway" (from memory). The relations were
+//     ch. 15, the straight drop spillway (from memory). The relations were
 //     fitted to experiments over 0.045 ≤ yc/h ≤ 1, i.e. about
 //     1e-4 ≤ D ≤ 1 (from memory); outside that range, or for other shapes,
 //     slopes or several incoming reaches, the next rule applies. The

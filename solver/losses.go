@@ -2,6 +2,7 @@ package solver
 
 import (
 	"math"
+	"slices"
 
 	"github.com/chanlint/chanlint/model"
 )
@@ -212,13 +213,26 @@ func (s *solver) transitions(w *reachWork) {
 			continue
 		}
 		l := s.sectionLoss(w, a.x)
-		if l.none() {
+		borda := !a.super && !b.super && a.y == b.y && slices.Contains(w.borda, a.x)
+		if l.none() && !borda {
 			continue
 		}
 		pa, pb := &w.pieces[a.piece], &w.pieces[b.piece]
 		ea, eb := w.f.eval(pa, a.y), w.f.eval(pb, b.y)
 		hva, hvb := ea.e-a.y, eb.e-b.y
 		_, k := l.headLoss(hva, hvb)
+		if borda {
+			w.res.Structures = append(w.res.Structures, Structure{
+				Kind: StructTransition, Name: l.name, Station: a.x, State: StateExpansion,
+				Method:      "drowned change of section: the energy balance has no subcritical solution upstream while the water below stands above the upstream section's critical level, so the water level carries across and the upstream velocity head is lost in the expansion (Borda–Carnot, k = 1)",
+				Validity:    "an abrupt expansion in subcritical flow; write a loss block there to use a published coefficient instead",
+				Coefficient: 1, HeadLoss: ea.e - eb.e, UpstreamDepth: a.y, DownstreamDepth: b.y,
+			})
+			w.res.Notes = append(w.res.Notes, noteInfo(a.x,
+				"the change of section at station %s is drowned: the water level %s carries across it and the velocity head upstream is lost in the expansion (k = 1), as the energy balance has no subcritical solution",
+				num(a.x), num(w.f.invert(a.x)+a.y)))
+			continue
+		}
 		state := StateExpansion
 		if hvb > hva {
 			state = StateContraction

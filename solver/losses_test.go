@@ -277,3 +277,66 @@ event "q" {
 	require.Equal(t, StateDrowned, rr.Structures[0].State)
 	require.InDelta(t, end.Energy-end.WSE, rr.Structures[0].HeadLoss, 1e-9)
 }
+
+// TestAbruptExpansionIsNotAControl: a lined trapezoid opening abruptly
+// into a wide natural section, subcritical on both sides. The balance
+// without loss has no subcritical solution upstream (the narrow channel's
+// velocity head exceeds what the wide section's energy allows), which
+// used to put a critical control and a drawdown at the change. The water
+// below stands above the upstream critical level, so the change is
+// drowned: the level carries across, the upstream velocity head is lost
+// (Borda–Carnot), and the flow stays subcritical with a note.
+//
+// Source: Chow, Open-Channel Hydraulics (1959), §17-2 (sudden expansion
+// loss, from memory); common practice (no published source) for the
+// continuity of the water level across a drowned expansion.
+func TestAbruptExpansionIsNotAControl(t *testing.T) {
+	src := []byte(`
+units = "si"
+section "lined" {
+  shape        = "trapezoid"
+  bottom_width = 2
+  side_slope   = 1.5
+  height       = 3
+  roughness    = 0.014
+}
+section "valley" {
+  shape     = "points"
+  points    = [[0, 3], [10, 1.2], [14, 0.1], [16, 0], [18, 0.1], [22, 1.2], [40, 3]]
+  banks     = [10, 22]
+  roughness = [0.06, 0.035, 0.06]
+}
+reach "trunk" {
+  from    = "top"
+  to      = "end"
+  length  = 600
+  section = "lined"
+  slope   = 0.0008
+  segment {
+    from_station = 300
+    to_station   = 600
+    section      = "valley"
+  }
+}
+event "q" {
+  inflow = { "trunk" = 12 }
+  outlet = { depth = 0.9 }
+}
+`)
+	rr := solveOne(t, parseModel(t, "expansion.chan.hcl", src)).Reaches[0]
+	require.Empty(t, rr.Jumps)
+	for _, n := range rr.Notes {
+		require.NotEqual(t, NoteCriticalFallback, n.Kind, n.Message)
+	}
+	for i, p := range rr.Points {
+		require.Equal(t, Subcritical, p.Regime, "point %d at %v", i, p.Station)
+		if i > 0 {
+			require.LessOrEqual(t, p.Energy, rr.Points[i-1].Energy+1e-9, "energy at %v", p.Station)
+		}
+	}
+	a, b := pairAt(t, rr, 300)
+	require.InDelta(t, a.WSE, b.WSE, 1e-12)
+	require.True(t, hasNote(rr, NoteInfo, "drowned"), "notes: %v", rr.Notes)
+	require.Len(t, rr.Structures, 1)
+	require.InDelta(t, a.Energy-b.Energy, rr.Structures[0].HeadLoss, 1e-9)
+}

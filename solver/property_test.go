@@ -42,6 +42,21 @@ func drawSection(t *rapid.T, name string) *model.Section {
 	return s
 }
 
+// drawLayout draws a network of one reach, a chain of two, or a junction
+// of two reaches above a third: the layout number and, per reach, its
+// name, upstream and downstream node.
+func drawLayout(t *rapid.T) (int, [][3]string) {
+	layout := rapid.IntRange(0, 2).Draw(t, "layout")
+	names := [][3]string{{"r0", "a", "out"}}
+	switch layout {
+	case 1:
+		names = [][3]string{{"r0", "a", "b"}, {"r1", "b", "out"}}
+	case 2:
+		names = [][3]string{{"r0", "a", "j"}, {"r1", "c", "j"}, {"r2", "j", "out"}}
+	}
+	return layout, names
+}
+
 // TestSolveAlwaysFinite: on random valid networks (one to three reaches in
 // a chain or a junction, every shape, slopes from adverse to very steep,
 // gates, entrances, segments, basins, every outlet kind) Solve returns
@@ -56,14 +71,7 @@ func TestSolveAlwaysFinite(t *testing.T) {
 		if rapid.Bool().Draw(t, "us") {
 			units = model.US
 		}
-		layout := rapid.IntRange(0, 2).Draw(t, "layout") // single, chain of two, junction
-		names := [][3]string{{"r0", "a", "out"}}
-		switch layout {
-		case 1:
-			names = [][3]string{{"r0", "a", "b"}, {"r1", "b", "out"}}
-		case 2:
-			names = [][3]string{{"r0", "a", "j"}, {"r1", "c", "j"}, {"r2", "j", "out"}}
-		}
+		layout, names := drawLayout(t)
 		var specs []netReach
 		for i, nm := range names {
 			slope := rapid.SampledFrom([]float64{-0.003, 0, 1e-4, 5e-4, 0.001, 0.003, 0.01, 0.03, 0.08}).Draw(t, fmt.Sprint("slope", i))

@@ -34,6 +34,7 @@ type reachWork struct {
 	gateFree     bool    // in free flow: the vena contracta starts supercritical flow
 	gateY        float64
 	outletStruct Structure // the outlet into the node below; Kind "" when none is recorded
+	borda        []float64 // section changes drowned at the level below (subcritical pass)
 	freeFall     bool      // the reach ends in a free fall (critical depth at its end) into the node below
 	outletReq    float64   // depth the outlet control asks for (outlet reach only)
 	outletKind   model.OutletKind
@@ -278,6 +279,13 @@ func (s *solver) subProfile(w *reachWork, y float64, crit bool) {
 			z := w.f.invert(x)
 			st := w.f.eval(p, y)
 			y2, _, _, ok := w.f.lossDepth(up, z, z+st.e, st.e-y, s.sectionLoss(w, x), true, false)
+			if !ok && !crit && y > up.yc && w.f.velocityHead(up, y) >= st.e-y {
+				// The water below stands above the critical level of the
+				// section upstream: the change is drowned, not a control
+				// (see nodes.go, Borda–Carnot).
+				y2, ok = y, true
+				w.borda = append(w.borda, x)
+			}
 			s.subBuf = append(s.subBuf, pt{x: x, y: y2, piece: int32(pi - 1), fallback: !ok})
 			s.count(1)
 			y, crit = y2, !ok
@@ -613,6 +621,19 @@ func (s *solver) addJump(w *reachWork, p *piece, x, y1, y2 float64, why string) 
 		w.res.Notes = append(w.res.Notes, noteInfo(x,
 			"the jump is held at station %s (%s): the specific forces on its two sides differ by %s %%, so its depths are those of the two profiles there, not a sequent pair",
 			num(x), why, num(100*math.Abs(m1-m2)/math.Max(m1, m2))))
+	}
+	if e1, e2 := w.f.eval(p, y1).e, w.f.eval(p, y2).e; e2 > e1 {
+		w.res.Notes = append(w.res.Notes, noteInfo(x,
+			"the jump at station %s balances in specific force but gains %s of energy: the energy coefficient α of the section changes between its depths and the momentum coefficient is taken as 1, so its depths are approximate",
+			num(x), num(e2-e1)))
+	}
+	if p.class == Steep {
+		// Specific force balances the two sides of a jump on a horizontal
+		// bed; on a steep bed the weight of the roller pushes downstream
+		// and the sequent depth and length are larger (Chow 1959, ch. 15,
+		// jumps in sloping channels, from memory). No correction is applied.
+		w.res.Notes = append(w.res.Notes, noteInfo(x,
+			"jump at %s on bed slope %s uses the horizontal-bed relation", num(x), num(w.f.s0)))
 	}
 	j := Jump{
 		Station:         x,

@@ -489,8 +489,12 @@ func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
 		fmt.Fprintf(w, "      method: %s\n      validity: %s\n", d.Method, d.Validity)
 	}
 	for _, st := range rr.Structures {
-		fmt.Fprintf(w, "    %s %s at %s %s: %s, depths %s → %s %s, head loss %s %s\n",
-			st.Kind, st.Name, fixed(st.Station, 2), L, st.State, fixed(st.UpstreamDepth, 3), fixed(st.DownstreamDepth, 3), L,
+		what := string(st.Kind)
+		if st.Name != "" {
+			what += " " + st.Name
+		}
+		fmt.Fprintf(w, "    %s at %s %s: %s, depths %s → %s %s, head loss %s %s\n",
+			what, fixed(st.Station, 2), L, st.State, fixed(st.UpstreamDepth, 3), fixed(st.DownstreamDepth, 3), L,
 			fixed(st.HeadLoss, 3), L)
 		fmt.Fprintf(w, "      method: %s\n      validity: %s\n", st.Method, st.Validity)
 	}
