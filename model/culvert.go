@@ -368,12 +368,24 @@ func (d *decoder) resolveCulverts() {
 	}
 }
 
-// culvertLevels checks, once the inverts are known, that each road crest
-// stands above the crown of its culvert's inlet.
+// culvertLevels checks, once the network and the inverts are known, that
+// no loss block stands at a culvert's inlet or outlet node (the culvert's
+// entrance and exit losses are part of its HDS-5 computation) and that
+// each road crest stands above the crown of its culvert's inlet.
 func (d *decoder) culvertLevels() {
 	for _, c := range d.m.Culverts {
 		r := c.Reach
-		if r == nil || r.Culvert != c || c.Road == nil || r.Section == nil {
+		if r == nil || r.Culvert != c || r.Section == nil {
+			continue
+		}
+		for _, l := range []*Loss{r.EndLoss, upstreamLoss(r)} {
+			if l != nil {
+				d.errorf(l.At("node"), "Loss at a culvert",
+					"loss %q is at node %q, an end of culvert %q, whose entrance and exit losses are part of its HDS-5 computation (the inlet's entrance_loss, and the exit into the tailwater); remove the loss block.",
+					l.Name, l.NodeName, c.Name)
+			}
+		}
+		if c.Road == nil {
 			continue
 		}
 		if crown := r.InvertUp + r.Section.Height; c.Road.Crest <= crown {
@@ -382,4 +394,15 @@ func (d *decoder) culvertLevels() {
 				c.Name, c.Road.Crest, crown, r.InvertUp, r.Section.Height)
 		}
 	}
+}
+
+// upstreamLoss is the loss written at the node where reach r starts (that
+// of the reaches ending there), or nil.
+func upstreamLoss(r *Reach) *Loss {
+	for _, u := range r.Upstream {
+		if u.EndLoss != nil {
+			return u.EndLoss
+		}
+	}
+	return nil
 }

@@ -160,3 +160,25 @@ func TestSplitFlowBalancesHeadwater(t *testing.T) {
 	s := SplitFlow(40, barrel, cr, 0, crest, tw)
 	assert.Equal(t, 40.0, s.Barrel)
 }
+
+func TestInletControlMoreFormsAndUnits(t *testing.T) {
+	// Source: FHWA HDS-5 (2012), Appendix A (from memory), US Ku = 1.0 and
+	// SI Ku = 1.811, coefficients given explicitly; values by hand:
+	//   form 2, US, 6 × 4 ft box, 150 ft³/s: x = 150/(24·2) = 3.125,
+	//     HW = 4·0.5·x^0.667 = 4.27656 ft;
+	//   submerged, US, same box, 400 ft³/s, S = 0.02: x = 8.3333,
+	//     HW = 4·(0.0347·x² + 0.81 − 0.01) = 12.83889 ft;
+	//   form 1 submerged, SI, 1.2 m pipe, 5 m³/s, S = 0.01: x = 7.30879,
+	//     HW = 1.2·(0.0398·x² + 0.67 − 0.005) = 3.34926 m.
+	form2 := model.Coefficients{Form: 2, K: 0.5, M: 0.667, C: 0.0347, Y: 0.81, SlopeTerm: -0.5}
+	r := InletHeadwater(form2, model.US, 150, 24, 4, 0.02, nil)
+	assert.Equal(t, Unsubmerged, r.Regime)
+	geoClose(t, 4.2765638, r.HW, 1e-7, "form 2, US")
+	s := InletHeadwater(form2, model.US, 400, 24, 4, 0.02, nil)
+	assert.Equal(t, Submerged, s.Regime)
+	geoClose(t, 12.8388889, s.HW, 1e-7, "submerged, US")
+	const d = 1.2
+	si := InletHeadwater(squareEdge, model.SI, 5, math.Pi*d*d/4, d, 0.01, constHead(0.9))
+	assert.Equal(t, Submerged, si.Regime)
+	geoClose(t, 3.3492630, si.HW, 1e-7, "form 1 submerged, SI")
+}
