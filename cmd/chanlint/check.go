@@ -22,6 +22,7 @@ import (
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/sarifout"
 	"github.com/chanlint/chanlint/internal/safefile"
+	"github.com/chanlint/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
@@ -210,7 +211,7 @@ func (a *app) runCheck(args []string) int {
 
 	run := checkRun{
 		app: a, results: results, shown: view.Shown, policy: pol,
-		view: view, baselinePath: cf.baseline,
+		view: view, baselinePath: cf.baseline, info: a.describePolicy(pol, paths),
 	}
 	// The output goes straight to stdout, not through a buffer of its
 	// own: a large run's JSON or SARIF document is tens of megabytes. The
@@ -409,6 +410,7 @@ type checkRun struct {
 	results      []*pipeline.Result
 	shown        map[string][]rules.Finding // by display path
 	policy       *policies.Policy
+	info         policyInfo
 	view         pipeline.View
 	baselinePath string
 	problems     []sarifout.Problem // why the setup failed (SARIF only)
@@ -505,7 +507,14 @@ func (c *checkRun) writeClosing(w io.Writer, p *palette) {
 			}
 		}
 	}
-	fmt.Fprintln(w, c.app.policyLine(c.policy))
+	fmt.Fprintln(w, c.app.policyLine(c.policy, c.info))
+	for _, n := range c.info.Notes() {
+		if n.Warn {
+			fmt.Fprintln(w, p.severity(policies.Warning)+": "+safetext.Text(n.Text))
+			continue
+		}
+		fmt.Fprintln(w, safetext.Text(n.Text))
+	}
 	fmt.Fprintln(w, p.dim.Sprint(rules.Caution))
 }
 
@@ -526,6 +535,9 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 		ToolVersion: toolVersion(),
 	}
 	in.Problems = c.problems
+	for _, n := range c.info.Notes() {
+		in.PolicyNotes = append(in.PolicyNotes, sarifout.Note{Text: n.Text, Warn: n.Warn})
+	}
 	if c.view.Every != nil {
 		in.BaselineStates = []string{}
 	}
@@ -583,6 +595,7 @@ func (a *app) loadPolicy(arg string, p *palette) (*policies.Policy, bool) {
 			return nil, false
 		case cfg != "":
 			target, isFile = cfg, true
+			a.discovered = cfg
 		default:
 			target = "baseline"
 		}

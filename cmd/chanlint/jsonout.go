@@ -72,6 +72,15 @@ type policyJSON struct {
 	Reference string `json:"reference"`
 	Version   string `json:"version,omitempty"`
 	Source    string `json:"source"`
+	// Discovered is the path of the .chanlint.hcl applied when no
+	// --policy was given ("" otherwise); InCheckedTree is true when it
+	// lies inside a checked directory (the files chose their own
+	// criteria). RulesOff are the rules on in the pack the policy extends
+	// (else baseline) that it turns off. Notes say the same in words.
+	Discovered    string   `json:"discovered"`
+	InCheckedTree bool     `json:"in_checked_tree"`
+	RulesOff      []string `json:"rules_off"`
+	Notes         []string `json:"notes"`
 }
 
 type toolJSON struct {
@@ -120,10 +129,14 @@ func (c *checkRun) writeJSON(w io.Writer) error {
 			Warnings: t.warnings, Infos: t.infos, Excepted: t.excepted,
 		},
 		Policy: policyJSON{
-			Name:      c.policy.Name,
-			Reference: c.policy.Reference,
-			Version:   c.policy.Version,
-			Source:    c.app.policySource(c.policy),
+			Name:          c.policy.Name,
+			Reference:     c.info.Reference,
+			Version:       c.policy.Version,
+			Source:        c.app.policySource(c.policy),
+			Discovered:    c.info.Discovered,
+			InCheckedTree: c.info.InTree,
+			RulesOff:      append([]string{}, c.info.RulesOff...),
+			Notes:         append([]string{}, c.info.NoteTexts()...),
 		},
 		Caution: rules.Caution,
 		Tool:    toolJSON{Name: "chanlint", Version: toolVersion()},

@@ -121,6 +121,9 @@ type app struct {
 	stdoutTTY, stderrTTY bool
 	// defaultJobs is the worker count when --jobs is not given.
 	defaultJobs int
+	// discovered is the absolute path of the .chanlint.hcl that
+	// loadPolicy applied ("" when --policy was given or none was found).
+	discovered string
 }
 
 func newApp(stdout, stderr io.Writer, cwd string, getenv func(string) string) *app {

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"flag"
 	"fmt"
+	"github.com/chanlint/chanlint/internal/safetext"
 	"path/filepath"
 	"strings"
 
@@ -98,7 +99,13 @@ func (a *app) runReport(args []string) int {
 	}
 	results := a.checkPaths(paths, pol, rf.jobs, pipeline.Keep{Solved: true, Source: true})
 
-	in := report.Input{Policy: pol, Caution: rules.Caution, ToolVersion: toolVersion()}
+	info := a.describePolicy(pol, paths)
+	shownPol := *pol // as every output shows it: its own reference, its printed path
+	shownPol.Reference, shownPol.File = info.Reference, a.policySource(pol)
+	in := report.Input{Policy: &shownPol, Caution: rules.Caution, ToolVersion: toolVersion()}
+	for _, n := range info.Notes() {
+		in.PolicyNotes = append(in.PolicyNotes, report.PolicyNote{Text: n.Text, Warn: n.Warn})
+	}
 	status := exitOK
 	for _, r := range results {
 		if r.Invalid {
@@ -158,6 +165,9 @@ func (a *app) runReport(args []string) int {
 		return status
 	}
 	fmt.Fprintf(a.stdout, "wrote %s: %s, %s, policy %s\n", a.display(abs),
-		plural(len(in.Models), "model", "models"), plural(n, "finding", "findings"), pol.Name)
+		plural(len(in.Models), "model", "models"), plural(n, "finding", "findings"), safetext.Text(pol.Name))
+	for _, n := range info.NoteTexts() {
+		fmt.Fprintln(a.stdout, safetext.Text(n))
+	}
 	return status
 }

@@ -323,11 +323,13 @@ func plural(n int, one, many string) string {
 
 // policyLine describes the policy in force for the closing lines of the
 // text output.
-func (a *app) policyLine(pol *policies.Policy) string {
+func (a *app) policyLine(pol *policies.Policy, info policyInfo) string {
 	where := a.policySource(pol)
 	line := fmt.Sprintf("policy: %s (%s)", pol.Title(), where)
-	if pol.Reference != "" {
-		line += " — " + pol.Reference
+	if info.Reference != "" {
+		line += " — " + info.Reference
+	} else if !isPack(pol.File) {
+		line += " — extends the " + info.Pack + " pack; no reference of its own"
 	}
 	return safetext.Text(line)
 }

@@ -45,6 +45,13 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 	}
 	if pv := pg.Policy; pv != nil {
 		p("### Policy applied\n\n")
+		for _, n := range pv.Notes {
+			if n.Warn {
+				p("**Warning: %s**\n\n", md(n.Text))
+			} else {
+				p("%s\n\n", md(n.Text))
+			}
+		}
 		p("- Policy: %s\n", md(pv.Name))
 		if pv.Reference != "" {
 			p("- Reference: %s\n", md(pv.Reference))

@@ -62,7 +62,10 @@ type Input struct {
 	Policy *policies.Policy
 	// Protect lists the paths a report must never replace: the run's
 	// input models.
-	Protect     []string
+	Protect []string
+	// PolicyNotes say where the policy came from and what it turns off;
+	// shown under "Policy applied", a Warn note as a warning.
+	PolicyNotes []PolicyNote
 	Caution     string          // normally rules.Caution
 	Invalid     []rules.Finding // diagnostics of files that are not valid models
 	ToolVersion string
@@ -168,7 +171,14 @@ type page struct {
 	InvalidN    int // distinct invalid files
 }
 
+// PolicyNote is one line about the policy.
+type PolicyNote struct {
+	Text string
+	Warn bool
+}
+
 type policyView struct {
+	Notes                                      []PolicyNote
 	Name, Reference, Source, Units, Exceptions string
 	Chain                                      []string
 	Rules                                      []ruleRow
@@ -287,7 +297,7 @@ func build(in Input, r renderer) (*page, error) {
 		pg.Caution = rules.Caution
 	}
 	if p := in.Policy; p != nil {
-		pv := &policyView{Name: p.Title(), Reference: p.Reference, Source: p.File, Units: string(p.Units), Exceptions: p.Exceptions}
+		pv := &policyView{Name: p.Title(), Reference: p.Reference, Source: p.File, Units: string(p.Units), Exceptions: p.Exceptions, Notes: in.PolicyNotes}
 		if pv.Exceptions == "" {
 			pv.Exceptions = "report"
 		}

@@ -71,6 +71,17 @@ type Input struct {
 	// execution notification, and the invocation is marked unsuccessful,
 	// so that a code-scanning upload shows the cause.
 	Problems []Problem
+	// PolicyNotes say where the policy came from and what it turns off
+	// (a discovered file, criteria chosen by the checked tree, rules
+	// off); each becomes a notification of the invocation, a warning when
+	// Warn is set.
+	PolicyNotes []Note
+}
+
+// Note is one policy notification.
+type Note struct {
+	Text string
+	Warn bool
 }
 
 // Problem is one cause of an unsuccessful run: a message and, when known,
@@ -351,6 +362,22 @@ func newBuilder(in Input) (*builder, error) {
 			n.WithLocations([]*sarif.Location{b.location(p.File, p.Range)})
 		}
 		inv.AddToolExecutionNotification(n)
+	}
+	if len(in.PolicyNotes) > 0 {
+		driver.AddNotification(sarif.NewReportingDescriptor().
+			WithID("policy").
+			WithShortDescription(sarif.NewMultiformatMessageString().WithText("Where the policy came from")).
+			WithDefaultConfiguration(sarif.NewReportingConfiguration().WithLevel(sarif.LevelNote)))
+	}
+	for _, pn := range in.PolicyNotes {
+		nref := sarif.NewReportingDescriptorReference().WithID("policy")
+		nref.Index = 2
+		level := sarif.LevelNote
+		if pn.Warn {
+			level = sarif.LevelWarning
+		}
+		inv.AddToolExecutionNotification(sarif.NewNotification().WithLevel(level).
+			WithDescriptor(nref).WithMessage(sarif.NewTextMessage(pn.Text)))
 	}
 	inv.AddToolExecutionNotification(sarif.NewNotification().
 		WithLevel(sarif.LevelNote).
