@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )
@@ -45,6 +46,32 @@ additional barrel, or an inlet- or outlet-control culvert analysis.`,
 	Check: checkCapacity,
 }
 
+// capacityRemedy is what would contain an overtopping flow, worded for
+// the object: a built channel's banks, or a natural channel (a points
+// section), whose surveyed cross-section the water leaves. When the
+// policy requires freeboard, the bank rise that would also meet it is
+// given: freeboard does not report the overtopping stretch again.
+func capacityRemedy(ctx *Context, ev *solver.EventResult, rr *solver.ReachResult, s span, u model.Units) string {
+	lu := u.Length()
+	p := &rr.Points[s.worst]
+	rise := practicalUp(s.short, heightStep, u)
+	var r string
+	if sec := sectionAt(rr, p); sec != nil && sec.Shape == model.Points {
+		r = "the flow leaves the surveyed cross-section onto the land beside it: extend the section's points to ground above the " +
+			"water surface (at least " + rise + " " + lu + " higher) to check the flood extent, or carry the flow with a levee, " +
+			"a wider floodplain or upstream storage"
+	} else {
+		r = "deepen or widen the section, or raise the banks by at least " + rise + " " + lu + " to contain the flow"
+	}
+	if cfg := ctx.Policy.Rules["freeboard"]; cfg != nil && cfg.AppliesTo(ev.Event.Name) {
+		req := max(cfg.Number("minimum"), cfg.Number("fraction")*p.Depth)
+		if req > 0 {
+			r += " and by " + practicalUp(s.short+req, heightStep, u) + " " + lu + " to keep the freeboard the policy requires (" + num(req) + " " + lu + ")"
+		}
+	}
+	return r
+}
+
 func checkCapacity(ctx *Context, report func(Finding)) {
 	u := ctx.units()
 	lu := u.Length()
@@ -80,7 +107,7 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 		} else {
 			msg = "the channel overtops here: depth " + val + " " + lu + " exceeds the section height " + lim + " " + lu +
 				", the water surface " + num(s.short) + " " + lu + " above the top of bank"
-			remedy = "deepen or widen the section or raise the banks by at least " + numUp(s.short) + " " + lu
+			remedy = capacityRemedy(ctx, ev, rr, s, u)
 		}
 		f := spanFinding(ev, rr, s, msg, remedy)
 		f.Unit = lu

@@ -264,7 +264,7 @@ func (c *Context) scanPoints(w worse, judge judgeFunc,
 	emit func(ev *solver.EventResult, rr *solver.ReachResult, s span)) {
 	c.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		c.spans = scan(rr, w, judge, reachBlock, &c.verdict, c.spans[:0])
-		locate(rr, judge, reachBlock, &c.verdict, &c.trial, c.spans)
+		locate(rr, w, judge, reachBlock, &c.verdict, &c.trial, c.spans)
 		for _, s := range c.spans {
 			emit(ev, rr, s)
 		}

@@ -130,6 +130,71 @@ func numUp(x float64) string {
 	return num(up)
 }
 
+// Practical increments a remedy is rounded up to, by quantity and unit
+// system: a height to 0.01 m or 0.05 ft (a survey and construction
+// tolerance), a velocity to 0.1 m/s or 0.5 ft/s and a shear stress to
+// 1 N/m² or 0.05 lb/ft² (the steps of published lining tables), a bend
+// radius to 1 m or 5 ft. Source: common practice (no published source).
+type increment int
+
+const (
+	heightStep increment = iota
+	velocityStep
+	stressStep
+	radiusStep
+)
+
+func (k increment) step(u model.Units) float64 {
+	us := u == model.US
+	switch k {
+	case velocityStep:
+		if us {
+			return 0.5
+		}
+		return 0.1
+	case stressStep:
+		if us {
+			return 0.05
+		}
+		return 1
+	case radiusStep:
+		if us {
+			return 5
+		}
+		return 1
+	}
+	if us {
+		return 0.05
+	}
+	return 0.01
+}
+
+// practicalUp formats an amount a remedy asks for, rounded up to the
+// practical increment of its quantity (see increment), so that what is
+// printed is buildable and never short of what is needed. An amount below
+// one increment is printed as one increment; one too large for the
+// increment (beyond 1e12 steps) falls back to numUp.
+func practicalUp(x float64, k increment, u model.Units) string {
+	step := k.step(u)
+	if !finite(x) || math.Abs(x/step) > 1e12 {
+		return numUp(x)
+	}
+	n := math.Ceil(x/step*(1-1e-12) - 1e-9)
+	if n < 1 {
+		n = 1
+	}
+	return strconv.FormatFloat(n*step, 'f', stepDecimals(step), 64)
+}
+
+// stepDecimals is how many decimals a multiple of step needs.
+func stepDecimals(step float64) int {
+	d := 0
+	for s := step; d < 6 && math.Abs(s-math.Round(s)) > 1e-9; s *= 10 {
+		d++
+	}
+	return d
+}
+
 // stations describes a span: "at station 120 m" or "over stations 120–180 m".
 func stations(from, to float64, u model.Units) string {
 	if finite(from) && finite(to) {

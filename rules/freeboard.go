@@ -1,6 +1,8 @@
 package rules
 
 import (
+	"strings"
+
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
@@ -61,6 +63,10 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 			return false
 		}
 		avail := p.Invert + sec.Height - p.WSE
+		if avail < -1e-12*max(1, sec.Height) {
+			// The channel overtops here: capacity reports it, once.
+			return false
+		}
 		req := max(st.minimum, st.fraction*p.Depth)
 		if avail >= req-1e-12*max(1, req) {
 			v.short = req - avail // the margin, for locate
@@ -70,6 +76,7 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		msg, remedy := freeboardMessage(st, rr, s, u)
+		msg += overtopsBeside(rr, s, u)
 		f := spanFinding(ev, rr, s, msg, remedy)
 		f.Unit = u.Length()
 		if sec := sectionAt(rr, &rr.Points[s.worst]); sec != nil {
@@ -77,6 +84,30 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 		}
 		report(f)
 	})
+}
+
+// overtopsBeside is the related note of a freeboard or superelevation
+// span next to a stretch where the channel overtops: capacity reports that
+// stretch once, and this span stops where it begins.
+func overtopsBeside(rr *solver.ReachResult, s span, u model.Units) string {
+	var at []string
+	for _, i := range [2]int{s.first - 1, s.last + 1} {
+		if i < 0 || i >= len(rr.Points) {
+			continue
+		}
+		p := &rr.Points[i]
+		if sec := sectionAt(rr, p); sec != nil && !sec.Closed() && p.WSE > p.Invert+sec.Height+1e-12*max(1, sec.Height) {
+			x := s.from
+			if i > s.last {
+				x = s.to
+			}
+			at = append(at, num(x))
+		}
+	}
+	if len(at) == 0 {
+		return ""
+	}
+	return "; the channel overtops beyond station " + strings.Join(at, " and ") + " " + u.Length() + " (reported once, by capacity)"
 }
 
 // freeboardSettings are the freeboard block's settings, read once per check.
@@ -95,5 +126,10 @@ func freeboardMessage(cfg freeboardSettings, rr *solver.ReachResult, s span, u m
 		msg = "the channel overtops here: the water surface is " + num(-s.value) + " " + lu +
 			" above the top of bank; required freeboard " + lim + " " + lu + basis
 	}
-	return msg, "raise the top of bank by at least " + numUp(s.short) + " " + lu + " over this span"
+	rise := practicalUp(s.short, heightStep, u)
+	if sec := sectionAt(rr, p); sec != nil && sec.Shape == model.Points {
+		return msg, "raise the bank or levee by at least " + rise + " " + lu + " over this span (or lower the water surface: " +
+			"a wider floodplain, a lower downstream control, upstream storage)"
+	}
+	return msg, "raise the top of bank by at least " + rise + " " + lu + " over this span"
 }

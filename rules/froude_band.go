@@ -14,6 +14,9 @@ var froudeBandRule = &Rule{
 		Settings: []policies.Setting{
 			{Name: "avoid", Kind: policies.FroudeBands, Quantity: policies.Froude, Bounds: policies.AtLeast(0),
 				Required: true, Doc: "the bands of Froude number to flag"},
+			{Name: "control_buffer", Kind: policies.Number, Quantity: policies.Coefficient, Bounds: policies.AtLeast(0),
+				Default: defaultControlBuffer,
+				Doc:     "the stretch next to a critical-depth control the solver imposed that is not checked, in critical depths"},
 		},
 	},
 	Title: "Froude number inside a band the policy avoids (unstable near-critical flow)",
@@ -25,7 +28,19 @@ the design relies on is uncertain. Contiguous failing points of one reach
 and section merge into one span; the finding gives the Froude number
 deepest inside the band and the band edge nearest to it.`,
 		Formula: `    F = V / √(g · A / T)   (the solver's F at the point)
-    fails where low ≤ F ≤ high for some avoided band [low, high]`,
+    fails where low ≤ F ≤ high for some avoided band [low, high]
+    not checked within control_buffer × yc of a critical-depth control
+
+A critical-depth control the solver imposes (a free outfall or brink, a
+reach that ends in a free fall at a junction, the head of a steep reach, a
+change of section that chokes the flow) passes the flow through F = 1 by
+construction, so the profile next to it always crosses the band: that
+stretch is the control's, not a design choice, and reporting it would be
+noise. Points within control_buffer critical depths (yc of the control
+point, default 10) of such a control are not checked; the output's "not
+evaluated" statement counts them. A near-critical stretch that reaches
+beyond the buffer (a slope close to critical, say) is reported from where
+the buffer ends. Set control_buffer = 0 to check every point.`,
 		Basis: `avoiding a band of Froude numbers around 1 (roughly 0.86–1.13)
 is common practice in channel design, because the surface is wavy and the
 depth uncertain there; the band is usually cited to the flood-control
@@ -71,10 +86,58 @@ func nearestEdge(b policies.Band, x float64) (edge, depth float64) {
 	return b.High, b.High - x
 }
 
+// defaultControlBuffer is the stretch next to a critical-depth control not
+// checked by froude_band, in critical depths: on a mild slope the M2
+// drawdown to a brink crosses F = 0.86 about 1.5·ε²·yc/(Sc − S0) upstream
+// of it (ε = 0.106 the relative depth above yc there), a few critical
+// depths unless the slope is near critical. Source: common practice (no
+// published source).
+const defaultControlBuffer = 10
+
+// controls are the critical-depth controls of a reach result that the
+// solver imposed: points at critical depth (regime critical) at a reach
+// end or at a change of section (two points at one station). near reports
+// whether station x lies within buffer critical depths of one.
+type controls struct {
+	rr  *solver.ReachResult
+	at  []float64 // stations
+	len []float64 // buffer lengths
+}
+
+func (c *controls) near(rr *solver.ReachResult, x, buffer float64) bool {
+	if buffer <= 0 {
+		return false
+	}
+	if c.rr != rr {
+		c.rr, c.at, c.len = rr, c.at[:0], c.len[:0]
+		pts := rr.Points
+		for i := range pts {
+			p := &pts[i]
+			if p.Regime != solver.Critical || !(p.CriticalDepth > 0) {
+				continue
+			}
+			end := i == 0 || i == len(pts)-1
+			change := (i > 0 && pts[i-1].Station == p.Station) || (i+1 < len(pts) && pts[i+1].Station == p.Station)
+			if end || change {
+				c.at = append(c.at, p.Station)
+				c.len = append(c.len, buffer*p.CriticalDepth)
+			}
+		}
+	}
+	for i, s := range c.at {
+		if math.Abs(x-s) <= c.len[i] {
+			return true
+		}
+	}
+	return false
+}
+
 func checkFroudeBand(ctx *Context, report func(Finding)) {
 	avoid := ctx.Config.Bands("avoid")
+	buffer := ctx.Config.Number("control_buffer")
+	var ctrl controls
 	ctx.scanPoints(nil, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
-		if p.Depth <= 0 {
+		if p.Depth <= 0 || ctrl.near(rr, p.Station, buffer) {
 			return false
 		}
 		b, in := bandOf(avoid, p.Froude)

@@ -27,7 +27,8 @@ const goldenDir = "../testdata/rules"
 // EVENT FROM..TO [excepted]" comment, which applies to the next line that
 // is not a comment (the header of the responsible block). EVENT "-" means
 // no event; FROM..TO may be "toe..end" (the jump's span, checked
-// separately) or "-..-" (no span).
+// separately), "~..~" (a located span, checked separately against an
+// independent computation) or "-..-" (no span).
 type want struct {
 	label       string
 	line        int
@@ -112,7 +113,7 @@ func matchWants(t *testing.T, src []byte, label string, fs []Finding) map[*want]
 				continue
 			}
 			switch {
-			case w.from == "toe":
+			case w.from == "toe" || w.from == "~":
 			case w.from == "-":
 				if f.HasSpan {
 					continue

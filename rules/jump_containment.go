@@ -13,6 +13,12 @@ var jumpContainmentRule = &Rule{
 	RuleSpec: policies.RuleSpec{
 		ID:       "jump_containment",
 		Severity: policies.Error,
+		Settings: []policies.Setting{
+			{Name: "min_froude", Kind: policies.Number, Quantity: policies.Froude, Bounds: policies.AtLeast(0),
+				Doc: "jumps with a lower upstream Froude number F1 need no basin (0: every jump needs one)"},
+			{Name: "min_energy_loss", Kind: policies.Number, Quantity: policies.Length, Bounds: policies.AtLeast(0),
+				Doc: "jumps that dissipate less energy (head) need no basin (0: every jump needs one)"},
+		},
 	},
 	Title: "Hydraulic jump outside a stilling basin",
 	Doc: Doc{
@@ -26,7 +32,19 @@ the reach, with the distance it escapes by upstream and downstream.`,
     about 6·y2 for 4.5 < F1 < 13)
     contained when basin.from ≤ toe and toe + L ≤ basin.to for one basin
     (within a millimetre or a thousandth of a foot)
-The finding's value is the length of channel outside the basin.`,
+    exempt when F1 < min_froude or E1 − E2 < min_energy_loss
+The finding's value is the length of channel outside the basin.
+
+A jump whose roller runs past the downstream end of its reach continues
+into the reach below (or out of the outlet): its span is clipped to the
+reach and the message says where it continues. It is contained when the
+part in its reach lies in a basin that runs to the reach end and the rest
+lies in a basin that starts at station 0 of the reach below.
+
+Undular jumps (F1 below about 1.7) are a train of standing waves with
+little loss of energy; a policy may exempt them, or any jump below a head
+loss it names, from needing a basin (min_froude, min_energy_loss). The
+output's "not evaluated" statement lists the jumps so exempted.`,
 		Basis: `Peterka, Hydraulic Design of Stilling Basins and Energy
 Dissipators, USBR Engineering Monograph 25 (1958): basin lengths follow
 the length of the jump; Chow, Open-Channel Hydraulics (1959), ch. 15.`,
@@ -41,19 +59,78 @@ changing the gate opening or the approach slope.`,
 	Check: checkJumpContainment,
 }
 
+// exemptJump reports whether a policy's thresholds exempt a jump from
+// needing a basin: F1 below min_froude, or an energy loss below
+// min_energy_loss.
+func exemptJump(cfg *policies.RuleConfig, j solver.Jump) bool {
+	if cfg == nil {
+		return false
+	}
+	minF, minE := cfg.Number("min_froude"), cfg.Number("min_energy_loss")
+	return (minF > 0 && j.Froude < minF) || (minE > 0 && j.EnergyLoss < minE)
+}
+
+// jumpReach is where a jump lies: the part of [toe, toe + L] in its reach
+// and how far it runs past the reach end (over, 0 when it ends inside),
+// into the reach below (next; nil at the outlet).
+type jumpReach struct {
+	toe, end, over float64
+	next           *model.Reach
+}
+
+func clipJump(r *model.Reach, j solver.Jump) jumpReach {
+	jr := jumpReach{toe: j.Station, end: j.End()}
+	if l := r.Length; l > 0 && jr.end > l+exceptionTolerance(l) {
+		jr.toe, jr.end, jr.over, jr.next = min(jr.toe, l), l, j.End()-l, r.Downstream
+	}
+	return jr
+}
+
+// continues says where a clipped jump's roller goes on, "" when it ends in
+// its reach.
+func (jr jumpReach) continues(r *model.Reach, u model.Units) string {
+	if jr.over <= 0 {
+		return ""
+	}
+	into := fmt.Sprintf("beyond the outlet node %q", r.To)
+	if jr.next != nil {
+		into = fmt.Sprintf("into reach %q through node %q", jr.next.Name, r.To)
+	}
+	return fmt.Sprintf("; its roller continues %s %s past the reach end, %s", num(jr.over), u.Length(), into)
+}
+
 func checkJumpContainment(ctx *Context, report func(Finding)) {
 	u := ctx.units()
 	lu := u.Length()
+	cfg := ctx.Config
 	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		r := rr.Reach
 		for _, j := range rr.Jumps {
-			if !usableJump(j) {
+			if !usableJump(j) || exemptJump(cfg, j) {
 				continue
 			}
-			toe, end := j.Station, j.End()
+			jr := clipJump(r, j)
+			toe, end := jr.toe, jr.end
 			b, up, down := bestBasin(r, toe, end)
 			tol := exceptionTolerance(end)
-			if b != nil && up <= tol && down <= tol {
+			// The part past the reach end must lie in a basin of the reach
+			// below that starts at its station 0.
+			var nb *model.Basin
+			nextDown := 0.0
+			if jr.over > 0 {
+				nextDown = jr.over
+				if jr.next != nil {
+					if nb, _, nextDown = bestBasin(jr.next, 0, jr.over); nb != nil && nb.FromStation > exceptionTolerance(0) {
+						nextDown = jr.over // it starts downstream of the node: the roller lands on bare channel
+						nb = nil
+					}
+				}
+			}
+			inReach := b != nil && up <= tol && down <= tol
+			if end-toe <= tol && jr.over > 0 {
+				inReach = true // the toe at the reach end: the whole body lies below
+			}
+			if inReach && nextDown <= exceptionTolerance(jr.over) {
 				continue
 			}
 			f := Finding{Reach: r.Name, Event: ev.Event.Name, FromStation: toe, ToStation: end,
@@ -63,10 +140,27 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 				jump += ", F1 " + num(j.Froude)
 			}
 			jump += ")"
+			cont := jr.continues(r, u)
+			if inReach {
+				// Contained in its reach; the part below is not.
+				f.Range, f.Value = r.DefRange, max(nextDown, 0)
+				if b != nil {
+					f.Range = b.DefRange
+				}
+				where := "beyond the outlet, where no basin of the model protects the channel"
+				if jr.next != nil {
+					where = fmt.Sprintf("into reach %q, whose channel below node %q is not in a basin for %s %s", jr.next.Name, r.To, num(nextDown), lu)
+				}
+				f.Message = fmt.Sprintf("%s runs %s %s past the end of reach %q %s: unprotected channel may scour",
+					jump, num(jr.over), lu, r.Name, where)
+				f.Remedy = "extend the protection past the node, with a basin from station 0 of the reach below, or move the jump upstream"
+				report(f)
+				continue
+			}
 			if b == nil {
 				f.Range, f.Value = r.DefRange, end-toe
 				from, to := numPair(toe, end)
-				f.Message = fmt.Sprintf("%s lies in no basin of reach %q: unprotected channel may scour", jump, r.Name)
+				f.Message = fmt.Sprintf("%s lies in no basin of reach %q: unprotected channel may scour%s", jump, r.Name, cont)
 				f.Remedy = fmt.Sprintf("build a basin covering at least stations %s–%s %s, or move the jump", from, to, lu)
 			} else {
 				var by []string
@@ -83,8 +177,8 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 					side = "upstream and downstream"
 				}
 				f.Range, f.Value = b.DefRange, max(up, 0)+max(down, 0)
-				f.Message = fmt.Sprintf("%s escapes basin %q (%s–%s %s) by %s: unprotected channel %s may scour",
-					jump, b.Name, num(b.FromStation), num(b.ToStation), lu, strings.Join(by, " and "), side)
+				f.Message = fmt.Sprintf("%s escapes basin %q (%s–%s %s) by %s: unprotected channel %s may scour%s",
+					jump, b.Name, num(b.FromStation), num(b.ToStation), lu, strings.Join(by, " and "), side, cont)
 				f.Remedy = "lengthen the basin or move it"
 			}
 			report(f)

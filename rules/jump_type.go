@@ -59,12 +59,13 @@ func checkJumpType(ctx *Context, report func(Finding)) {
 				kind = " (" + string(j.Type) + ")"
 			}
 			blk := jumpBlock(rr.Reach, j)
+			jr := clipJump(rr.Reach, j)
 			report(Finding{
 				Range: blk.DefRange, Reach: rr.Reach.Name, Event: ev.Event.Name,
-				FromStation: j.Station, ToStation: j.End(), HasSpan: true,
+				FromStation: jr.toe, ToStation: jr.end, HasSpan: true,
 				Value: j.Froude, Limit: edge, HasValue: true,
 				Message: "the hydraulic jump has upstream Froude number " +
-					num(j.Froude) + kind + ", in the avoided band " + lo + "–" + hi,
+					num(j.Froude) + kind + ", in the avoided band " + lo + "–" + hi + jr.continues(rr.Reach, ctx.units()),
 				Remedy: jumpHazard(j.Froude) + "; bring F1 out of the band by changing the gate opening or the approach slope, " +
 					"or provide a basin designed for it",
 			})

@@ -53,7 +53,7 @@ func (c backwater) froude(y float64) float64 {
 //
 //	dx/dy = (1 − F²)/(S0 − Sf)
 //
-// from the outlet depth up to y, split into 64 panels of 32 nodes each: an
+// from depth y to the outlet depth, split into 64 panels of 32 nodes each: an
 // integration independent of the solver's standard step.
 // Source: Chow, Open-Channel Hydraulics (1959), eq. 9-13 and §10-2 (direct
 // integration); gonum's quad.Fixed as the quadrature.
@@ -63,13 +63,17 @@ func (c backwater) stationOf(y float64) float64 {
 		return (1 - fr*fr) / (c.s0 - c.sf(eta))
 	}
 	const panels = 64
+	lo, hi, sign := y, c.yOut, 1.0
+	if lo > hi {
+		lo, hi, sign = hi, lo, -1
+	}
 	sum := 0.0
 	for i := range panels {
-		a := y + (c.yOut-y)*float64(i)/panels
-		b := y + (c.yOut-y)*float64(i+1)/panels
+		a := lo + (hi-lo)*float64(i)/panels
+		b := lo + (hi-lo)*float64(i+1)/panels
 		sum += quad.Fixed(f, a, b, 32, quad.Legendre{}, 0)
 	}
-	return c.length - sum
+	return c.length - sign*sum
 }
 
 // depthWhere finds the depth in [lo, hi] where fn changes sign, by

@@ -187,7 +187,7 @@ func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u mod
 	for_ := liningText(cfg, sec)
 	if upper {
 		return "velocity " + val + " " + vu + where + " exceeds " + lim + " " + vu + " for " + for_,
-			"a lining rated for at least " + numUp(s.value) + " " + vu + " is needed, " +
+			"a lining rated for at least " + practicalUp(s.value, velocityStep, u) + " " + vu + " would meet the limit, " +
 				"or reduce velocity (flatter slope, rougher or wider section)"
 	}
 	return "velocity " + val + " " + vu + " is below the self-cleansing " + lim + " " + vu + " for " + for_,

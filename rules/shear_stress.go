@@ -164,7 +164,7 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 			what = "mean boundary shear stress " + val + " " + su + " (γ·R·Sf, as the policy asks)"
 		}
 		msg := what + " exceeds " + lim + " " + su + " for " + liningText(cfg, sec)
-		f := spanFinding(ev, rr, s, msg, "a lining rated for at least "+numUp(s.value)+" "+su+
+		f := spanFinding(ev, rr, s, msg, "a lining rated for at least "+practicalUp(s.value, stressStep, u)+" "+su+
 			" would meet the limit, or reduce the stress (flatter slope, wider and shallower section)")
 		f.Focus = sec.At("lining") // the limit is the lining's
 		f.Unit = su

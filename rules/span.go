@@ -178,7 +178,7 @@ const locateMaxIter = 60
 // v and trial are scratch space for the judge (see scan): the trial point is
 // handed to an unknown function, so it lives with the caller, not on the
 // heap of every trial.
-func locate(rr *solver.ReachResult, judge judgeFunc,
+func locate(rr *solver.ReachResult, w worse, judge judgeFunc,
 	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict, trial *solver.Point, spans []span) {
 	if len(spans) == 0 {
 		return
@@ -186,21 +186,40 @@ func locate(rr *solver.ReachResult, judge judgeFunc,
 	for k := range spans {
 		s := &spans[k]
 		if s.first > 0 {
-			if x, ok := crossing(rr, judge, at, v, trial, s.block, s.first-1, false); ok {
+			if x, worst, ok := crossing(rr, judge, at, v, trial, s.block, s.first-1, false); ok {
 				s.from = x
+				s.absorb(w, worst)
 			}
 		}
 		if s.last+1 < len(rr.Points) {
-			if x, ok := crossing(rr, judge, at, v, trial, s.block, s.last, true); ok {
+			if x, worst, ok := crossing(rr, judge, at, v, trial, s.block, s.last, true); ok {
 				s.to = x
+				s.absorb(w, worst)
 			}
 		}
 	}
 }
 
+// absorb takes the verdict of a failing trial station into the span's
+// worst value when it is worse than every computed point's: a span that
+// ends where checking stops rather than where the limit is met (at the
+// buffer next to a control, say) is worst at its end, between points.
+func (s *span) absorb(w worse, t verdict) {
+	if !(t.short > 0) {
+		return
+	}
+	if (w != nil && w(t.value, s.value)) || (w == nil && t.short > s.short) {
+		s.value, s.limit = t.value, t.limit
+	}
+	s.short = max(s.short, t.short)
+	s.aux = max(s.aux, t.aux)
+}
+
 // crossing brackets the station between points i and i+1 where the
 // verdict changes: point i passes and i+1 fails (failFirst false), or the
-// reverse. It returns the passing side of the final bracket.
+// reverse. It returns the passing side of the final bracket and the
+// verdict of the failing trial nearest to it (short 0 when no trial
+// failed).
 //
 // The bracket shrinks by false position on the judge's signed shortfall
 // (v.short, positive failing) with the Illinois modification (the
@@ -210,10 +229,11 @@ func locate(rr *solver.ReachResult, judge judgeFunc,
 // placed by halving instead. Either way the bracket always holds the
 // change of verdict.
 func crossing(rr *solver.ReachResult, judge judgeFunc,
-	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict, trial *solver.Point, blk *model.Src, i int, failFirst bool) (float64, bool) {
+	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict, trial *solver.Point, blk *model.Src, i int, failFirst bool) (float64, verdict, bool) {
+	var worst verdict
 	a, b := rr.Points[i].Station, rr.Points[i+1].Station
 	if !(b > a) || !finiteNum(a) || !finiteNum(b) {
-		return 0, false
+		return 0, worst, false
 	}
 	pass, fail := a, b
 	if failFirst {
@@ -252,7 +272,7 @@ func crossing(rr *solver.ReachResult, judge judgeFunc,
 		p, _, ok := rr.Between(i, x)
 		if !ok {
 			if n == 0 {
-				return 0, false
+				return 0, worst, false
 			}
 			break
 		}
@@ -261,6 +281,7 @@ func crossing(rr *solver.ReachResult, judge judgeFunc,
 		failing := judge(rr, trial, v) && v.value*0+v.limit*0+v.short*0+v.aux*0 == 0 && at(rr, trial) == blk
 		m := v.short
 		if failing {
+			worst = *v
 			if !(m > 0) {
 				m = math.NaN()
 			}
@@ -280,7 +301,7 @@ func crossing(rr *solver.ReachResult, judge judgeFunc,
 			side = +1
 		}
 	}
-	return pass, true
+	return pass, worst, true
 }
 
 // shortfall is the judge's signed shortfall at computed point i (NaN

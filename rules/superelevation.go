@@ -92,6 +92,10 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					}
 					dy := c * p.Velocity * p.Velocity * p.TopWidth / (g * bend.Radius)
 					top := p.Invert + sec.Height
+					if p.WSE > top+1e-12*max(1, sec.Height) {
+						// The straight channel overtops: capacity reports it, once.
+						return false
+					}
 					remaining := top - (p.WSE + dy)
 					if remaining >= minimum-1e-12*max(1, minimum) {
 						v.short = minimum - remaining // the margin, for locate
@@ -110,11 +114,12 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 				}
 				atBend := func(*solver.ReachResult, *solver.Point) *model.Src { return &bend.Src }
 				spans := scan(sub, lower, judge, atBend, &ctx.verdict, ctx.spans[:0])
-				locate(sub, judge, atBend, &ctx.verdict, &ctx.trial, spans)
+				locate(sub, lower, judge, atBend, &ctx.verdict, &ctx.trial, spans)
 				ctx.spans = spans
 				for _, s := range spans {
 					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset
 					msg, remedy := superelevationMessage(rr, bend, s, cSub, cSup, u)
+					msg += overtopsBeside(rr, s, u)
 					f := spanFinding(ev, rr, s, msg, remedy)
 					f.Unit = u.Length()
 					f.Focus = bend.At("radius")
@@ -150,9 +155,9 @@ func superelevationMessage(rr *solver.ReachResult, bend *model.Bend, s span, cSu
 		"(Δy = C·V²·T/(g·rc), C = %s, V %s %s, T %s %s), leaving %s %s to the top of bank where %s %s is required",
 		bend.Name, num(bend.Radius), lu, num(dy), lu, num(c), num(p.Velocity), velocityUnit(u), num(p.TopWidth), lu,
 		rem, lu, lim, lu)
-	remedy = fmt.Sprintf("raise the outer bank by at least %s %s over the bend", numUp(s.short), lu)
+	remedy = fmt.Sprintf("raise the outer bank by at least %s %s over the bend", practicalUp(s.short, heightStep, u), lu)
 	if s.aux < math.MaxFloat64 {
-		remedy += fmt.Sprintf(", or make the radius at least %s %s", numUp(s.aux), lu)
+		remedy += fmt.Sprintf(", or make the radius at least %s %s", practicalUp(s.aux, radiusStep, u), lu)
 	}
 	if s.value < 0 {
 		msg = "the channel overtops here at the outer bank of the bend: " + msg

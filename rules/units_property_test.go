@@ -326,7 +326,11 @@ func criticalNear(res *solver.Result, k findingKey, from, to float64) bool {
 			}
 			slack := spacingAround(res, k, from, to)
 			for _, p := range rr.Points {
-				if p.Station >= from-slack && p.Station <= to+slack && (p.Regime == solver.Critical || math.Abs(p.Froude-1) < 0.05) {
+				// froude_band leaves defaultControlBuffer critical depths
+				// next to a control unchecked, so its spans end that far
+				// from one, still on the singular part of the profile.
+				sl := slack + defaultControlBuffer*p.CriticalDepth
+				if p.Station >= from-sl && p.Station <= to+sl && (p.Regime == solver.Critical || math.Abs(p.Froude-1) < 0.05) {
 					return true
 				}
 			}

@@ -20,7 +20,6 @@ section "cut" {
 # want froude_band q-design 0..6561.679790026246
 # want shear_stress q-design 0..6561.679790026246
 # want capacity q-flood 0..6561.679790026246
-# want freeboard q-flood 0..6561.679790026246
 # want max_velocity q-flood 0..6561.679790026246
 # want shear_stress q-flood 0..6561.679790026246
 reach "interceptor" {
@@ -32,7 +31,6 @@ reach "interceptor" {
 }
 
 # want superelevation q-design 2624.6719160104985..3280.839895013123
-# want superelevation q-flood 2624.6719160104985..3280.839895013123
 bend "mill-curve" {
   reach        = "interceptor"
   from_station = 2624.6719160104985

@@ -24,7 +24,6 @@ section "cut" {
 # want froude_band q-design 0..2000
 # want shear_stress q-design 0..2000
 # want capacity q-flood 0..2000
-# want freeboard q-flood 0..2000
 # want max_velocity q-flood 0..2000
 # want shear_stress q-flood 0..2000
 reach "interceptor" {
@@ -36,7 +35,6 @@ reach "interceptor" {
 }
 
 # want superelevation q-design 800..1000
-# want superelevation q-flood 800..1000
 bend "mill-curve" {
   reach        = "interceptor"
   from_station = 800
