@@ -352,7 +352,7 @@ type Model struct {
 // the reach leaving that node: the loss written at the node, else the
 // model-wide default. At the outlet node only a loss written there applies
 // (it makes the outlet level that of still receiving water, see the
-// README); the default does not.
+// README); the default does not, nor at the ends of a culvert barrel.
 func (m *Model) NodeLoss(r *Reach) *Loss {
 	if r == nil {
 		return nil
@@ -360,7 +360,9 @@ func (m *Model) NodeLoss(r *Reach) *Loss {
 	if r.EndLoss != nil {
 		return r.EndLoss
 	}
-	if r.Downstream == nil {
+	if r.Downstream == nil || r.Culvert != nil || r.Downstream.Culvert != nil {
+		// The outlet node, and a culvert's ends, whose entrance and exit
+		// losses are part of its HDS-5 computation.
 		return nil
 	}
 	return m.DefaultLoss

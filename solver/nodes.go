@@ -85,6 +85,9 @@ func (s *solver) nodeOutlet(w *reachWork, dw *reachWork, last *piece, z float64)
 		st.State = StateFree
 		st.UpstreamDepth = last.yc
 		st.Method = "choked: with the local loss of the node the energy below cannot be reached on the subcritical branch, so the reach ends at critical depth"
+		w.res.Notes = append(w.res.Notes, noteControl(L,
+			"node %q cannot balance: energy below %s with loss %q is less than subcritical flow here needs; critical depth %s is taken",
+			w.r.To, num(hK), loss.name, num(last.yc)))
 		st.Validity = "critical depth at the end of the reach"
 		w.outletStruct = st
 		return last.yc, true
