@@ -148,6 +148,16 @@ culvert "quarry-lane" {
   road    = { crest = 4.6, length = 40, width = 10 }
 }
 
+# The trunk narrows into its lined throat over a warped transition; the
+# coefficients are those tabulated for warped transitions (Hinds 1928, USBR,
+# in Chow 1959, ch. 17).
+loss "throat" {
+  reach       = "trunk"
+  station     = 570
+  contraction = 0.1
+  expansion   = 0.2
+}
+
 gate "escarpment-gate" {
   reach   = "chute"
   opening = 0.8
