@@ -20,10 +20,11 @@ var overtoppingRule = &Rule{
 events select, whether the headwater rises above the road crest, so that
 part of the flow crosses the road as a broad-crested weir. With max_depth
 0 (the default) any overtopping fails; otherwise the depth over the crest
-must not exceed max_depth. Select the events where the road must stay dry
-with events = [...]; a policy can allow a flood event a shallow depth by a
-second policy that extends this one. The finding points at the culvert's
-road and gives the depth and the flow over the road.`,
+must not exceed max_depth. Select the events the block applies to with
+events = [...] (the design events where the road must stay dry, say); a
+flood event allowed a shallow depth is checked with another policy whose
+block sets max_depth and selects that event. The finding points at the
+culvert's road and gives the depth and the flow over the road.`,
 		Formula: `    Hr = HW − crest,  Qr = kt·Cr·L·Hr^1.5        (HDS-5 roadway overtopping)
     fails where Hr > max_depth (max_depth 0: where Qr > 0)
 HW is the headwater at which barrel and road together pass the event's

@@ -131,19 +131,15 @@ func (g *Geometry) Closed() bool { return g.kind == kindCircle || g.kind == kind
 // an open one).
 func (g *Geometry) Barrels() int { return int(g.barrels) }
 
-// scaled multiplies the extensive properties of one barrel by the number
+// scale multiplies the extensive properties of one barrel by the number
 // of barrels.
-func (g *Geometry) scaled(p Props) Props {
-	if g.barrels == 1 {
-		return p
-	}
+func (g *Geometry) scale(p *Props) {
 	n := g.barrels
 	p.Area *= n
 	p.Perimeter *= n
 	p.TopWidth *= n
 	p.FirstMoment *= n
 	p.Conveyance *= n
-	return p
 }
 
 // Props are the hydraulic properties of a section at one depth.
@@ -200,9 +196,17 @@ func (g *Geometry) Props(y float64) Props {
 	y = clampDepth(y)
 	switch g.kind {
 	case kindCircle:
-		return g.scaled(g.circ.props(y))
+		p := g.circ.props(y)
+		if g.barrels != 1 {
+			g.scale(&p)
+		}
+		return p
 	case kindBox:
-		return g.scaled(g.box.props(y))
+		p := g.box.props(y)
+		if g.barrels != 1 {
+			g.scale(&p)
+		}
+		return p
 	case kindPoints:
 		return g.pts.props(y)
 	}

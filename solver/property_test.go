@@ -16,7 +16,9 @@ import (
 func drawSection(t *rapid.T, name string) *model.Section {
 	n := rapid.Float64Range(0.010, 0.08).Draw(t, name+"-n")
 	s := &model.Section{Name: name, Roughness: [3]float64{n, n, n}, Height: rapid.Float64Range(0.3, 6).Draw(t, name+"-height")}
-	switch rapid.IntRange(0, 4).Draw(t, name+"-shape") {
+	switch rapid.IntRange(0, 5).Draw(t, name+"-shape") {
+	case 5:
+		s.Shape, s.BottomWidth = model.Box, rapid.Float64Range(0.3, 6).Draw(t, name+"-b")
 	case 0:
 		s.Shape, s.BottomWidth = model.Rectangle, rapid.Float64Range(0.2, 30).Draw(t, name+"-b")
 	case 1:
