@@ -63,7 +63,18 @@ func NewGeometry(s *model.Section, u model.Units) *Geometry {
 // (a culvert's `barrels`); n is ignored (taken as 1) for an open section
 // and below 1.
 func NewBarrels(s *model.Section, u model.Units, n int) *Geometry {
-	g := &Geometry{sec: s, k: u.Manning(), g: u.Gravity(), height: s.Height, barrels: 1}
+	return newScaled(s, u, n, 1)
+}
+
+// newScaled is NewBarrels with every Manning's n of the section multiplied
+// by nScale (a sensitivity run, see Vary). Conveyance is (k/n)·A·R^(2/3),
+// so scaling n by nScale is the same as dividing k by it; the Geometry
+// keeps the section itself, so identity comparisons still hold.
+func newScaled(s *model.Section, u model.Units, n int, nScale float64) *Geometry {
+	if !(nScale > 0) || math.IsInf(nScale, 0) {
+		nScale = 1
+	}
+	g := &Geometry{sec: s, k: u.Manning() / nScale, g: u.Gravity(), height: s.Height, barrels: 1}
 	if n > 1 && s.Closed() {
 		g.barrels = float64(n)
 	}
@@ -117,7 +128,8 @@ func (g *Geometry) Section() *model.Section { return g.sec }
 // for a prismatic section whose height was not written (no bank known).
 func (g *Geometry) Height() float64 { return g.height }
 
-// K is Manning's constant of the unit system (1.0 SI, 1.486 US).
+// K is Manning's constant of the unit system (1.0 SI, 1.486 US), divided
+// by the roughness scale of a sensitivity run (see Vary).
 func (g *Geometry) K() float64 { return g.k }
 
 // G is standard gravity in the unit system.

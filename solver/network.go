@@ -152,20 +152,24 @@ func (s *solver) outletBoundary(w *reachWork, ev *model.Event, last *piece, z fl
 	w.outletKind = out.Kind
 	L := w.f.length
 	y := last.yc
+	tw := s.vary.Tailwater // a sensitivity run's offset; 0 as written
+	if math.IsNaN(tw) || math.IsInf(tw, 0) {
+		tw = 0
+	}
 	switch out.Kind {
 	case model.OutletDepth:
-		y = out.Value
+		y = out.Value + tw
 	case model.OutletElevation:
-		y = out.Value - z
+		y = out.Value + tw - z
 		if !(y > 0) {
 			w.outletNotes = append(w.outletNotes, noteControl(L,
 				"outlet water level %s is at or below the invert %s: the outlet is a free outfall and critical depth %s is taken",
-				num(out.Value), num(z), num(last.yc)))
+				num(out.Value+tw), num(z), num(last.yc)))
 			y = last.yc
 		}
 	case model.OutletNormal:
 		if last.hasN {
-			y = last.yn
+			y = last.yn + tw
 		} else {
 			why := "the bed is horizontal or adverse"
 			if w.f.s0 > slopeHorizontal {

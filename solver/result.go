@@ -7,7 +7,11 @@
 // never a panic and never a NaN.
 package solver
 
-import "github.com/chanlint/chanlint/model"
+import (
+	"math"
+
+	"github.com/chanlint/chanlint/model"
+)
 
 // Regime of the flow at a computed point.
 type Regime string
@@ -261,6 +265,32 @@ type Options struct {
 	MaxWork int64
 	// Events restricts solving to the named events (nil: all).
 	Events []string
+	// Vary perturbs the model's inputs for a sensitivity run; the zero
+	// value solves the model as written.
+	Vary Vary
+}
+
+// Vary is one perturbed case of a sensitivity run: the same model solved
+// with its roughness, discharges and tailwater changed by stated amounts.
+type Vary struct {
+	// Roughness multiplies every Manning's n of every section (0: 1).
+	Roughness float64
+	// Discharge multiplies the discharge of every reach in every event
+	// (0: 1).
+	Discharge float64
+	// Tailwater is added to the outlet's depth, elevation or normal depth,
+	// in the model's length unit. A critical-depth outlet (a free fall)
+	// has no tailwater to vary and is left as it is; a lowered tailwater
+	// never goes below the outlet's critical depth.
+	Tailwater float64
+}
+
+// scale is f, or 1 when f is not a positive finite factor.
+func scale(f float64) float64 {
+	if !(f > 0) || math.IsInf(f, 0) {
+		return 1
+	}
+	return f
 }
 
 // CulvertControl is the control that sets a culvert's headwater.

@@ -163,6 +163,7 @@ type solver struct {
 	spent      int64     // work units of the whole Solve call (see DefaultMaxWork)
 	overBudget bool      // tooMany because of the work budget
 	entrance   []float64 // by reach index, per event; 0 = none
+	vary       Vary      // a sensitivity run's perturbation (zero: none)
 }
 
 func newSolver(m *model.Model, opts Options) *solver {
@@ -172,6 +173,7 @@ func newSolver(m *model.Model, opts Options) *solver {
 		tol:        opts.Tolerance,
 		maxPoints:  opts.MaxPoints,
 		maxWork:    opts.MaxWork,
+		vary:       opts.Vary,
 		geos:       map[geoKey]*Geometry{},
 		depthCache: map[depthKey]depthVal{},
 	}
@@ -208,7 +210,7 @@ func (s *solver) geometry(sec *model.Section, n int) *Geometry {
 	if g, ok := s.geos[key]; ok {
 		return g
 	}
-	g := NewBarrels(sec, s.units, key.barrels)
+	g := newScaled(sec, s.units, key.barrels, scale(s.vary.Roughness))
 	s.geos[key] = g
 	return g
 }
@@ -279,7 +281,7 @@ func (s *solver) solveEvent(ev *model.Event) (*EventResult, error) {
 	for i, r := range s.m.Reaches {
 		q := 0.0
 		if i < len(ev.Discharge) {
-			q = ev.Discharge[i]
+			q = ev.Discharge[i] * scale(s.vary.Discharge)
 		}
 		if !(q > 0) || math.IsInf(q, 0) {
 			q = 0
