@@ -5,6 +5,7 @@ import (
 	"math"
 	"regexp"
 	"strings"
+	"unicode"
 
 	"github.com/hashicorp/hcl/v2"
 )
@@ -214,13 +215,54 @@ func (d *decoder) exception(b *hcl.Block) *Exception {
 	e.ReachName, e.FromStation, e.ToStation = a.span(b.Body)
 	a.require(b.Body, "reason")
 	if reason, ok := a.text("reason"); ok {
-		if strings.TrimSpace(reason) == "" {
+		switch {
+		case strings.TrimSpace(reason) == "":
 			d.errorf(a.m["reason"].Expr.Range(), "Empty reason",
 				"A design exception must say why it is acceptable and who reviewed it; write the reason.")
+		case !sentence(reason):
+			d.errorf(a.m["reason"].Expr.Range(), "Reason too short",
+				"The reason of a design exception must be at least a sentence (%d words and %d letters) saying why the design is acceptable and who reviewed it, not a placeholder such as \"ok\" or \"TODO\".",
+				MinReasonWords, MinReasonLetters)
 		}
 		e.Reason = reason
 	}
 	return e
+}
+
+// Bounds of a design exception's reason: a waiver must say why, in at
+// least a sentence, so that "." or "ok" cannot excuse a failing design.
+const (
+	MinReasonWords   = 3
+	MinReasonLetters = 10
+)
+
+// placeholderWords are words that alone make a reason a placeholder.
+var placeholderWords = map[string]bool{
+	"todo": true, "tbd": true, "fixme": true, "xxx": true, "n/a": true, "na": true,
+	"none": true, "ok": true, "okay": true, "reason": true, "placeholder": true,
+	"ignore": true, "ignored": true, "wip": true, "test": true, "see": true, "above": true,
+	"below": true, "later": true, "fine": true, "reviewed": true, "approved": true, "-": true, ".": true,
+}
+
+// sentence reports whether a reason is at least a sentence: MinReasonWords
+// words, MinReasonLetters letters, and not only placeholder words.
+func sentence(reason string) bool {
+	words := strings.Fields(reason)
+	letters := 0
+	for _, r := range reason {
+		if unicode.IsLetter(r) {
+			letters++
+		}
+	}
+	if len(words) < MinReasonWords || letters < MinReasonLetters {
+		return false
+	}
+	for _, w := range words {
+		if !placeholderWords[strings.ToLower(strings.Trim(w, ".,;:!?\"'()"))] {
+			return true
+		}
+	}
+	return false
 }
 
 var outletKeys = []string{"depth", "elevation", "condition"}

@@ -228,7 +228,7 @@ exception "froude_band" {
   reach = "r"
   from_station = 0
   to_station = 20
-  reason = "Reviewed"
+  reason = "Reviewed with the drainage engineer on site"
 }
 reach "r2" {
   from = "b"
@@ -253,7 +253,7 @@ reach "r2" {
 	e := m.Exceptions[0]
 	assert.Equal(t, "froude_band", e.Rule)
 	assert.Same(t, r, e.Reach)
-	assert.Equal(t, "Reviewed", e.Reason)
+	assert.Equal(t, "Reviewed with the drainage engineer on site", e.Reason)
 	assert.Equal(t, e.DefRange.Start.Line, e.LabelRange.Start.Line)
 }
 

@@ -36,6 +36,13 @@ func Format(p *Policy) []byte {
 		b.SetAttributeValue("version", cty.StringVal(p.Version))
 	}
 	b.SetAttributeValue("exceptions", cty.StringVal(p.Exceptions))
+	if len(p.WaiveAlwaysOn) > 0 {
+		vals := make([]cty.Value, len(p.WaiveAlwaysOn))
+		for i, w := range p.WaiveAlwaysOn {
+			vals[i] = cty.StringVal(w)
+		}
+		b.SetAttributeValue("waive_always_on", cty.ListVal(vals))
+	}
 	for _, id := range slices.Sorted(maps.Keys(p.Rules)) {
 		blocks := p.Rules[id].Blocks()
 		if len(blocks) > 1 {

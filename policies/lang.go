@@ -31,6 +31,7 @@ func (l *Language) bodySchema() *hcl.BodySchema {
 			{Name: "reference"},
 			{Name: "version"},
 			{Name: "exceptions"},
+			{Name: "waive_always_on"},
 			{Name: "extends"},
 		}}
 		for _, r := range l.specs {
@@ -66,6 +67,7 @@ type own struct {
 	hasReference  bool
 	hasVersion    bool
 	hasExceptions bool
+	hasWaive      bool
 	disabled      map[string]bool // rules with a block written with enabled = false
 }
 
@@ -153,6 +155,11 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 			o.policy.Exceptions = s
 			o.hasExceptions = true
 		}
+	}
+	if a := content.Attributes["waive_always_on"]; a != nil {
+		isAlwaysOn := func(w string) bool { spec := d.lang.Spec(w); return spec != nil && spec.AlwaysOn }
+		o.policy.WaiveAlwaysOn = d.words(a, "always-on rule id", `["capacity"]`, isAlwaysOn)
+		o.hasWaive = true
 	}
 	if a := content.Attributes["extends"]; a != nil {
 		if s, ok := d.str(a); ok {

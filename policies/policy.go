@@ -4,6 +4,7 @@
 package policies
 
 import (
+	"slices"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
@@ -149,11 +150,22 @@ type Policy struct {
 	// Version is the version of the manual or pack (`version`); "" when
 	// not written.
 	Version    string
-	Exceptions string                 // "report" (default) or "deny"
-	File       string                 // where it was loaded from ("pack:NAME" for a built-in)
-	Chain      []string               // the files and packs merged, child first
-	Rules      map[string]*RuleConfig // enabled configurable rules by id
-	DefRange   hcl.Range
+	Exceptions string // "report" (default) or "deny"
+	// WaiveAlwaysOn lists the always-on rules (e.g. "capacity") whose
+	// findings a model's design exception may waive (`waive_always_on`);
+	// by default none: a submittal cannot excuse an overtopping channel.
+	WaiveAlwaysOn []string
+	File          string                 // where it was loaded from ("pack:NAME" for a built-in)
+	Chain         []string               // the files and packs merged, child first
+	Rules         map[string]*RuleConfig // enabled configurable rules by id
+	DefRange      hcl.Range
+}
+
+// Waives reports whether a design exception may waive findings of the
+// rule: every configurable rule, and the always-on rules the policy lists
+// in WaiveAlwaysOn.
+func (p *Policy) Waives(rule string, alwaysOn bool) bool {
+	return !alwaysOn || p != nil && slices.Contains(p.WaiveAlwaysOn, rule)
 }
 
 // Cite is what a finding from block rc of p cites: the policy's reference,

@@ -66,6 +66,7 @@ func (rc *RuleConfig) convert(u model.Units) {
 func (p *Policy) clone() *Policy {
 	c := *p
 	c.Chain = slices.Clone(p.Chain)
+	c.WaiveAlwaysOn = slices.Clone(p.WaiveAlwaysOn)
 	c.Rules = make(map[string]*RuleConfig, len(p.Rules))
 	for id, rc := range p.Rules {
 		c.Rules[id] = rc.clone()
@@ -112,6 +113,9 @@ func merge(parent *Policy, o *own) *Policy {
 	}
 	if o.hasExceptions {
 		out.Exceptions = child.Exceptions
+	}
+	if o.hasWaive {
+		out.WaiveAlwaysOn = slices.Clone(child.WaiveAlwaysOn)
 	}
 	for id := range o.disabled {
 		delete(out.Rules, id)

@@ -45,7 +45,7 @@ func Check(m *model.Model, res *solver.Result, p *policies.Policy) []Finding {
 	rn.run(last, rn.out)
 	found := rn.out
 	if p.Exceptions != "deny" {
-		applyExceptions(m, found)
+		applyExceptions(m, found, p)
 	}
 	return sortFindings(found)
 }

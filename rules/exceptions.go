@@ -39,11 +39,24 @@ func covers(ex *model.Exception, f *Finding) bool {
 		f.ToStation <= ex.ToStation+exceptionTolerance(ex.ToStation)
 }
 
+// waivable reports whether policy p lets a design exception waive
+// findings of rule id: every configurable rule, and an always-on rule
+// (capacity, solver) only when the policy lists it in waive_always_on.
+func waivable(p *policies.Policy, id string) bool {
+	r := Lookup(id)
+	return p.Waives(id, r != nil && r.AlwaysOn)
+}
+
 // applyExceptions marks the findings a design exception covers. The first
 // exception in source order that covers a finding is the one recorded.
-func applyExceptions(m *model.Model, fs []Finding) {
+// Findings of an always-on rule the policy does not let exceptions waive
+// are never covered.
+func applyExceptions(m *model.Model, fs []Finding, p *policies.Policy) {
 	for i := range fs {
 		f := &fs[i]
+		if !waivable(p, f.Rule) {
+			continue
+		}
 		for _, ex := range m.Exceptions {
 			if covers(ex, f) {
 				f.Excepted = true
@@ -72,6 +85,11 @@ changed and the problem it excused is gone), or its rule, reach or stations
 are wrong, and a stale exception would silently excuse a future problem.
 When a finding overlaps the exception but reaches beyond it, the message
 says so.
+
+An exception for an always-on rule (capacity, solver) is not applied
+unless the policy lists that rule in waive_always_on: a submittal cannot
+excuse its own overtopping channel. Such an exception is reported here as a
+warning saying what it would have covered.
 
 When the policy says exceptions = "deny", no exception is applied: every
 finding is reported in full and fails the run as its severity says, and each
@@ -110,7 +128,8 @@ func checkExceptions(ctx *Context, report func(Finding)) {
 				partial = f
 			}
 		}
-		if !deny && n > 0 {
+		locked := !waivable(ctx.Policy, ex.Rule) && Lookup(ex.Rule) != nil
+		if !deny && !locked && n > 0 {
 			continue // covered: nothing to report
 		}
 		what := fmt.Sprintf("the exception for rule %q on reach %q", ex.Rule, ex.ReachName)
@@ -120,6 +139,10 @@ func checkExceptions(ctx *Context, report func(Finding)) {
 			f.FromStation, f.ToStation, f.HasSpan = ex.FromStation, ex.ToStation, true
 		}
 		switch {
+		case locked && !deny:
+			f.Severity = policies.Warning
+			f.Message = fmt.Sprintf("%s was not applied: %s is always on and the policy does not let design exceptions waive it "+
+				"(waive_always_on); %s", what, ex.Rule, wouldCover(n))
 		case deny:
 			f.Severity = policies.Info
 			f.Message = fmt.Sprintf("%s was not applied: the policy does not accept design exceptions "+

@@ -22,5 +22,5 @@ exception "" { # want "Invalid rule id"
   reach        = "main"
   from_station = 0
   to_station   = 50
-  reason       = "Reviewed"
+  reason       = "Reviewed with the drainage engineer on site"
 }
