@@ -116,7 +116,7 @@ func (a *app) runSolve(args []string) int {
 	case "json":
 		err = writeSolveJSON(&out, m, res)
 	case "csv":
-		err = writeSolveCSV(&out, res)
+		err = writeSolveCSV(&out, m.Units, res)
 	default:
 		writeSolveTable(&out, f.display, m, res)
 	}
@@ -363,15 +363,22 @@ func writeSolveJSON(w io.Writer, m *model.Model, res *solver.Result) error {
 	return writeIndentedJSON(w, doc)
 }
 
-// csvHeader is the header row of `solve --format csv`.
-var csvHeader = []string{"event", "reach", "station", "invert", "depth", "wse", "velocity",
-	"froude", "energy", "critical_depth", "normal_depth", "regime"}
+// csvHeader is the header row of `solve --format csv` for a model in
+// units u: each column of a quantity with a unit names it after an
+// underscore ("depth_m", "velocity_ft_s"), so that a spreadsheet keeps
+// the unit with the number; the Froude number has none.
+func csvHeader(u model.Units) []string {
+	l := u.Length()
+	v := l + "_s"
+	return []string{"event", "reach", "station_" + l, "invert_" + l, "depth_" + l, "wse_" + l, "velocity_" + v,
+		"froude", "energy_" + l, "critical_depth_" + l, "normal_depth_" + l, "regime"}
+}
 
 // writeSolveCSV writes one row per computed point; normal_depth is empty
 // where no normal depth exists.
-func writeSolveCSV(w io.Writer, res *solver.Result) error {
+func writeSolveCSV(w io.Writer, u model.Units, res *solver.Result) error {
 	cw := csv.NewWriter(w)
-	if err := cw.Write(csvHeader); err != nil {
+	if err := cw.Write(csvHeader(u)); err != nil {
 		return err
 	}
 	num := func(x float64) string { return formatNumber(x, jsonDecimals) }

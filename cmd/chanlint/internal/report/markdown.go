@@ -32,10 +32,10 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 
 	p("## Summary\n\n")
 	t := pg.Totals
-	p("**Overall: %s.** %d errors, %d warnings, %d notes, %d covered by exceptions, %d invalid files.\n\n",
+	p("**Overall: %s.** %d errors, %d warnings, %d info, %d covered by exceptions, %d invalid files.\n\n",
 		md(t.Verdict()), t.Errors, t.Warnings, t.Infos, t.Excepted, pg.InvalidN)
 	if len(pg.Models) > 0 {
-		p("| Model | File | Units | Reaches | Events | Errors | Warnings | Notes | Excepted | Status |\n")
+		p("| Model | File | Units | Reaches | Events | Errors | Warnings | Info | Excepted | Status |\n")
 		p("|---|---|---|--:|--:|--:|--:|--:|--:|---|\n")
 		for _, m := range pg.Models {
 			p("| %s | `%s` | %s | %d | %d | %d | %d | %d | %d | %s |\n", md(orFile(m.Title, m.File)), code(m.File), md(m.Units),
