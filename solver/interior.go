@@ -25,6 +25,10 @@ func (w *reachWork) keepFlow() {
 	w.res.flow.f.noConv = 0
 }
 
+// evaluations is the number of section evaluations the reach's profiles
+// cost in Solve (for the benchmarks).
+func (r *ReachResult) evaluations() int { return r.flow.f.evals }
+
 // pieceAt is the run of the reach with section sec that holds station x.
 func (rf *reachFlow) pieceAt(sec *model.Section, x float64) (int, bool) {
 	eps := 1e-9 * math.Max(rf.f.length, 1)
@@ -76,11 +80,12 @@ func (r *ReachResult) Between(i int, x float64) (p Point, approx, ok bool) {
 	y, stepped := lin, false
 	subA, subB := a.Depth >= pc.yc, b.Depth >= pc.yc
 	superA, superB := a.Depth <= pc.yc, b.Depth <= pc.yc
+	f := rf.f // a copy: the step counts its work, and the result is read-only
 	switch {
 	case subA && subB && a.Depth > 0:
-		y, stepped = rf.f.standardStep(pc, b.Station, b.Depth, x, false, lin)
+		y, stepped = f.standardStep(pc, b.Station, b.Depth, x, false, lin)
 	case superA && superB && a.Depth > 0:
-		y, stepped = rf.f.standardStep(pc, a.Station, a.Depth, x, true, lin)
+		y, stepped = f.standardStep(pc, a.Station, a.Depth, x, true, lin)
 	}
 	if !stepped || !(y > 0) || math.IsInf(y, 0) {
 		y, approx = lin, true

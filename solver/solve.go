@@ -39,7 +39,7 @@ const (
 	// DefaultMaxWork bounds the total work of one Solve call, all events
 	// together, when Options.MaxWork is 0. Work is counted in units of
 	// about one section evaluation: a computed point costs workPerPoint
-	// (a standard step with its step-doubling check), a normal and
+	// (a standard step with its error control), a normal and
 	// critical depth search workPerSearch plus one unit per 16 depths of
 	// a points section's scan grid (see gridTable). The computed-point
 	// limit bounds the profiles; this bound adds the depth searches, which
@@ -75,18 +75,24 @@ const (
 // Conventions of the method:
 //   - Standard step: z₁ + y₁ + α₁V₁²/2g = z₂ + y₂ + α₂V₂²/2g + hf with
 //     hf = Δx·(Sf₁ + Sf₂)/2, the average friction slope (Chow 1959,
-//     §10-3), solved for the unknown depth by Brent's method on the
-//     branch of the regime (see flowCtx.solveBranch). Where it has no
+//     §10-3), solved for the unknown depth by Newton's method from a
+//     predicted depth, or by Brent's method on the branch of the regime
+//     where that fails (see flowCtx.solveBranch). Where it has no
 //     solution on that branch, critical depth is taken and a
 //     NoteCriticalFallback records it (one note per run of points).
-//   - Step control: step doubling. Each step is taken whole and as two
-//     halves; the difference estimates the error, which is held under
-//     1e-4 of the depth per step, and the step grows by up to four times
-//     per step as the profile nears normal depth. Against an independent
-//     quadrature of the varied-flow equation the depths agree within
-//     3e-4 (TestProfileAgainstQuadrature). Both half-step points are
-//     kept, so the energy equation holds between all neighbouring points.
-//     Reach.MaxSpacing caps the distance between points.
+//   - Step control: a predicted depth (Adams–Bashforth on
+//     dy/dx = (S0 − Sf)/(1 − F²)) corrected by the standard step solved by
+//     Newton's method, the difference estimating the error (Milne's
+//     device), which is held under 1e-4 of the depth per step; the step
+//     grows by up to four times per step as the profile nears normal
+//     depth. Next to critical depth the depth is stepped and the distance
+//     solved (direct step); the first step of a run is taken by step
+//     doubling (see stepper). Against an independent quadrature of the
+//     varied-flow equation the depths agree within 3e-4
+//     (TestProfileAgainstQuadrature). Every point is a solution of the
+//     energy equation from its neighbour, so the equation holds between
+//     all neighbouring points. Reach.MaxSpacing caps the distance between
+//     points.
 //   - Points are always computed at the reach ends, segment boundaries,
 //     basin and bend ends, and at station 0 where a gate stands.
 //   - A change of section (a segment boundary) is a transition without

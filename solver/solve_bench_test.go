@@ -29,18 +29,14 @@ func BenchmarkChain1000(b *testing.B) {
 	m := chainModel(b, 1000)
 	b.ReportAllocs()
 	b.ResetTimer()
-	points := 0
+	var res *Result
 	for b.Loop() {
-		res, err := Solve(m, Options{})
-		if err != nil {
+		var err error
+		if res, err = Solve(m, Options{}); err != nil {
 			b.Fatal(err)
 		}
-		points = 0
-		for _, rr := range res.Events[0].Reaches {
-			points += len(rr.Points)
-		}
 	}
-	b.ReportMetric(float64(points), "points")
+	reportWork(b, res)
 }
 
 // BenchmarkStep is one adaptive double step of the standard-step
@@ -110,11 +106,33 @@ func BenchmarkChain1000Varied(b *testing.B) {
 	}
 	b.ReportAllocs()
 	b.ResetTimer()
+	var res *Result
 	for b.Loop() {
-		if _, err := Solve(m, Options{}); err != nil {
+		var err error
+		if res, err = Solve(m, Options{}); err != nil {
 			b.Fatal(err)
 		}
 	}
+	reportWork(b, res)
+}
+
+// reportWork reports the section evaluations per computed point and the
+// time per point of the benchmark's Solve calls. The evaluations are
+// those the profiles cost (the standard steps, their root finding and
+// error control, the transitions and jumps), not the normal and critical
+// depths of each reach.
+func reportWork(b *testing.B, res *Result) {
+	evals, points := 0, 0
+	for _, er := range res.Events {
+		for _, rr := range er.Reaches {
+			evals += rr.evaluations()
+			points += len(rr.Points)
+		}
+	}
+	b.ReportMetric(float64(evals), "evals/op")
+	b.ReportMetric(float64(points), "points/op")
+	b.ReportMetric(float64(evals)/float64(points), "evals/point")
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(points), "ns/point")
 }
 
 // BenchmarkPointMemory measures the memory a computed point costs, the
@@ -148,4 +166,31 @@ func BenchmarkPointMemory(b *testing.B) {
 	}
 	b.ReportMetric(float64(points), "points/op")
 	b.ReportMetric(float64(heap)/float64(points), "heapB/point")
+}
+
+// BenchmarkStepPredicted is a run of steps on an M1 backwater after the
+// first (doubled) one: each a predicted depth corrected by Newton's
+// method. It must not allocate; evals/step is the section evaluations of
+// one accepted step.
+func BenchmarkStepPredicted(b *testing.B) {
+	sec := trapezoid("lined", 3, 2, 0.015, 4)
+	g := NewGeometry(sec, model.SI)
+	f := flowCtx{q: 10, zUp: 3, s0: 0.001, length: 3000, tol: DefaultTolerance}
+	p := piece{from: 0, to: 3000, geo: g}
+	p.yc, _ = CriticalDepth(g, 10)
+	p.yn, _ = NormalDepth(g, 10, 0.001)
+	p.hasN, p.class = true, Mild
+	var st stepper
+	var out [2]pt
+	steps := 0
+	b.ReportAllocs()
+	b.ResetTimer()
+	for b.Loop() {
+		st.init(&f, &p, 0, false, 3000, 2.0, false, 0)
+		st.dx = 5
+		for range 10 {
+			steps += st.step(0, &out)
+		}
+	}
+	b.ReportMetric(float64(f.evals)/float64(steps), "evals/point")
 }

@@ -1,0 +1,76 @@
+package solver
+
+import (
+	"math"
+	"testing"
+
+	"github.com/chanlint/chanlint/model"
+	"pgregory.net/rapid"
+)
+
+// TestNewtonStepMatchesBrent: the Newton solution of a standard step from
+// a predicted depth is the root Brent's method brackets on the same
+// branch, for random trapezoids, circles, discharges, slopes, depths,
+// step lengths and predictions (good and poor), within the tolerance.
+//
+// Source: common practice (no published source) — a bracketed Brent
+// root (Brent 1973, ch. 4) as the reference for another root finder of
+// the same equation.
+func TestNewtonStepMatchesBrent(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		var sec *model.Section
+		if rapid.Bool().Draw(t, "circle") {
+			d := rapid.Float64Range(0.5, 4).Draw(t, "d")
+			sec = &model.Section{Name: "c", Shape: model.Circle, Diameter: d, Height: d, Roughness: [3]float64{0.013, 0.013, 0.013}}
+		} else {
+			sec = trapezoid("t", rapid.Float64Range(0.5, 10).Draw(t, "b"), rapid.Float64Range(0, 3).Draw(t, "z"), 0.015, 6)
+		}
+		g := NewGeometry(sec, model.SI)
+		q := rapid.Float64Range(0.2, 20).Draw(t, "q")
+		s0 := rapid.Float64Range(1e-4, 0.05).Draw(t, "s0")
+		yc, err := CriticalDepth(g, q)
+		if err != nil {
+			t.Skip("no critical depth")
+		}
+		f := flowCtx{q: q, zUp: 10, s0: s0, length: 1000, tol: DefaultTolerance}
+		p := piece{from: 0, to: 1000, geo: g, yc: yc, ycF: yc}
+		super := rapid.Bool().Draw(t, "super")
+		yk := yc * rapid.Float64Range(1.05, 2).Draw(t, "above")
+		if super {
+			yk = yc * rapid.Float64Range(0.3, 0.95).Draw(t, "below")
+		}
+		if sec.Shape == model.Circle && yk > 0.95*sec.Diameter {
+			t.Skip("near the crown")
+		}
+		xk := 500.0
+		h := rapid.Float64Range(0.1, 200).Draw(t, "h")
+		xu := xk - h
+		if super {
+			xu = xk + h
+		}
+		k := f.eval(&p, yk)
+		yp := yk * rapid.Float64Range(0.9, 1.1).Draw(t, "prediction")
+		y, ok, st := f.newtonStep(&p, xk, k, xu, super, yp, yk)
+		half := h / 2
+		zk, zu := f.invert(xk), f.invert(xu)
+		w, target := -half, zk+k.e+half*k.sf
+		if super {
+			w, target = half, zk+k.e-half*k.sf
+		}
+		ref, okRef := f.solveBranch(&p, zu, w, target, super, 0, 0)
+		if ok != okRef {
+			t.Fatalf("newton ok %v, brent ok %v (y %v, ref %v)", ok, okRef, y, ref)
+		}
+		if !ok {
+			return
+		}
+		if math.Abs(y-ref) > 10*DefaultTolerance {
+			t.Fatalf("newton %.12g, brent %.12g", y, ref)
+		}
+		// The state returned is that at the depth found.
+		want := f.eval(&p, y)
+		if math.Abs(st.e-want.e) > 1e-9*want.e || math.Abs(st.sf-want.sf) > 1e-6*want.sf {
+			t.Fatalf("state %+v, want %+v", st, want)
+		}
+	})
+}
