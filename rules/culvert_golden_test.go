@@ -93,3 +93,19 @@ func TestGoldenCulvertRules(t *testing.T) {
 	assert.InDelta(t, hwSmall, res.Events[0].Culverts[0].Headwater, 1e-6)
 	assert.Greater(t, 7.2-hwSmall, 0.3)
 }
+
+// TestGoldenCulvertPolicyUnits: the culvert criteria written in feet check
+// the SI model as the same criteria in metres do.
+// Source: common practice (no published source): 1 ft = 0.3048 m exactly.
+func TestGoldenCulvertPolicyUnits(t *testing.T) {
+	_, _, a := golden(t, "culvert-road.chan.hcl", "culvert.policy.hcl")
+	_, _, b := golden(t, "culvert-road.chan.hcl", "culvert-us.policy.hcl")
+	require.Len(t, b, len(a))
+	for i := range a {
+		assert.Equal(t, a[i].Rule, b[i].Rule)
+		assert.Equal(t, a[i].Event, b[i].Event)
+		assert.InDelta(t, a[i].Value, b[i].Value, 1e-12)
+		assert.InDelta(t, a[i].Limit, b[i].Limit, 1e-9)
+		assert.Equal(t, a[i].Message, b[i].Message)
+	}
+}

@@ -25,7 +25,12 @@ against two limits: the largest headwater depth over the barrel's rise
 the road's shoulder when the model gives one (road = { ..., shoulder = ELEV
 }) and to its crest otherwise. A culvert without a road is checked for HW/D
 only. The finding points at the culvert block, at station 0 of the barrel
-(the inlet), and names the control that governs.`,
+(the inlet), and names the control that governs.
+
+Not evaluated: the freeboard of a culvert without a road; blockage by
+debris or sediment, which raises the headwater; the stability of the
+embankment and of the barrel; the headwater of floods beyond the model's
+events.`,
 		Formula: `    HW   = max(HW_inlet, HW_outlet)            (elevations, HDS-5)
     HW/D = (HW − inlet invert) / rise          fails where HW/D > max_hw_d
     freeboard = level − HW                     fails where freeboard < freeboard

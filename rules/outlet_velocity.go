@@ -24,7 +24,10 @@ barrel's outlet against the largest velocity the receiving channel's
 lining takes without outlet protection. The receiving lining is that of the
 section at the start of the reach below the barrel; when the barrel is the
 model's outlet reach it is unknown and the limit's default applies. The
-finding points at the culvert block, at the outlet station of the barrel.`,
+finding points at the culvert block, at the outlet station of the barrel.
+
+Not evaluated: scour of the receiving bed beyond the velocity comparison
+(the scour hole depth of HEC-14), and the size of the protection needed.`,
 		Formula: `    V_out = Q_barrel / A(y_out)   y_out from the barrel's profile, at most the rise
     fails where V_out > limit(receiving lining)`,
 		Basis: `FHWA HEC-14, Hydraulic Design of Energy Dissipators for Culverts

@@ -112,7 +112,8 @@ policy "baseline-us" {
       clay     = 3.75 # stiff clay: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       gravel   = 4.0  # coarse gravel: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       sand     = 1.5  # fine sand: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
-      rock     = 6.0  # shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      shale    = 6.0  # shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      hardpan  = 6.0  # shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       default  = 2.5  # an unknown receiving lining is treated as firm loam (earth), Fortier & Scobey 1926
     }
     severity = "warning"

@@ -149,7 +149,8 @@ policy "baseline" {
       clay     = 1.14 # 3.75 ft/s stiff clay: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       gravel   = 1.22 # 4.0 ft/s coarse gravel: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       sand     = 0.46 # 1.5 ft/s fine sand: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
-      rock     = 1.83 # 6.0 ft/s shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      shale    = 1.83 # 6.0 ft/s shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
+      hardpan  = 1.83 # 6.0 ft/s shales and hardpans: Fortier & Scobey 1926 (Chow 1959 Table 7-3)
       default  = 0.76 # an unknown receiving lining is treated as firm loam (earth), Fortier & Scobey 1926
     }
     severity = "warning"
