@@ -81,6 +81,9 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 		if m.Unsolved != "" {
 			p("_%s_\n\n", md(m.Unsolved))
 		}
+		for _, a := range m.Assumptions {
+			p("_%s_\n\n", md(a))
+		}
 		q := "m³/s"
 		if m.Units == "us" {
 			q = "ft³/s"

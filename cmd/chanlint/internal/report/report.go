@@ -224,6 +224,7 @@ type modelView struct {
 	Findings                   []findingRow
 	Exceptions                 []exceptionRow
 	Unsolved                   string
+	Assumptions                []string      // model-wide statements of the solution (solver.Result.Assumptions)
 	HTML                       template.HTML // the rendered section of the page
 }
 
@@ -426,6 +427,9 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 	if m.Result == nil {
 		mv.Unsolved = "The model was not solved, so no profiles are shown."
 		return mv
+	}
+	for _, a := range m.Result.Assumptions() {
+		mv.Assumptions = append(mv.Assumptions, "Solved on this assumption: "+a+".")
 	}
 	plotN := 0
 	plot := func(in plotInput) *plotView {
