@@ -55,10 +55,59 @@ func Format(p *Policy) []byte {
 		for _, rc := range blocks {
 			b.AppendNewline()
 			b.AppendUnstructuredTokens(comment(fmt.Sprintf("from %s:%d", rc.File, rc.DefRange.Start.Line)))
+			for _, c := range packCitations(rc) {
+				b.AppendUnstructuredTokens(comment("  " + c))
+			}
 			writeBlock(b.AppendNewBlock(id, nil).Body(), rc)
 		}
 	}
 	return hclwrite.Format(f.Bytes())
+}
+
+// packCitations are the source notes a built-in pack writes beside a rule
+// block, so that `policy show` keeps the citation of every number it
+// shows: the comment lines just above the block and inside it, an inline
+// comment prefixed with the setting or lining word it follows ("concrete:
+// ≈ 20 ft/s ..."). Nil for a block that does not come from a pack.
+func packCitations(rc *RuleConfig) []string {
+	name, ok := strings.CutPrefix(rc.File, packPrefix)
+	if !ok {
+		return nil
+	}
+	src, ok := packSources[name]
+	if !ok {
+		return nil
+	}
+	lines := strings.Split(string(src), "\n")
+	start := rc.DefRange.Start.Line - 1 // 0-based line of the block header
+	if start < 0 || start >= len(lines) {
+		return nil
+	}
+	first := start
+	for first > 0 && strings.HasPrefix(strings.TrimSpace(lines[first-1]), "#") {
+		first--
+	}
+	var out []string
+	depth := 0
+	for i := first; i < len(lines); i++ {
+		line := strings.TrimSpace(lines[i])
+		if text, ok := strings.CutPrefix(line, "#"); ok {
+			out = append(out, strings.TrimSpace(text))
+			continue
+		}
+		code, note, inline := strings.Cut(line, "#")
+		if inline {
+			key, _, _ := strings.Cut(code, "=")
+			out = append(out, strings.TrimSpace(key)+": "+strings.TrimSpace(note))
+		}
+		if i >= start {
+			depth += strings.Count(code, "{") - strings.Count(code, "}")
+			if depth <= 0 && strings.Contains(code, "}") {
+				break
+			}
+		}
+	}
+	return out
 }
 
 // ordered lists a rule's blocks from the most specific down, in source

@@ -220,3 +220,16 @@ func TestFormatQuotesOddLiningWords(t *testing.T) {
 	assert.Contains(t, text, `events          = ["q2", "q10"]`)
 	assert.NotContains(t, text, "extends", "the effective policy is already merged")
 }
+
+// TestFormatKeepsPackCitations: `policy show` of a pack keeps the source
+// notes the pack writes beside its numbers, inline ones with their key.
+func TestFormatKeepsPackCitations(t *testing.T) {
+	p, diags := rules.Language().Pack("baseline")
+	require.False(t, diags.HasErrors(), "%v", diags)
+	text := string(policies.Format(p))
+	// Source: the pack's own comments (policies/packs/baseline.policy.hcl).
+	assert.Contains(t, text, "#   concrete: ≈ 20 ft/s")
+	assert.Contains(t, text, "Peterka, USBR")
+	assert.Contains(t, text, "superseded by Kilgore & Cotton's 3rd edition")
+	assert.NotContains(t, text, "HEC-11 (1989) p. 38")
+}
