@@ -18,7 +18,7 @@ var unmatchedSelectorRule = &Rule{
 		Severity: policies.Warning,
 		AlwaysOn: true,
 	},
-	Title: "A policy block's selector matches no event or reach of the model",
+	Title: "A policy block's selector or names match no event, reach or lining of the model",
 	Doc: Doc{
 		Checks: `every rule block of the policy that selects events (events,
 return_period, event_classes) or reaches (reach_classes, shapes, linings)
@@ -27,7 +27,18 @@ that matches nothing is a criterion the run silently did not apply: the
 model names its events or classes differently from the manual the policy
 carries, or lacks the return_period or class the selector reads. The
 warning is reported at the top of the model file and names the block, its
-selection and where the policy wrote it.`,
+selection and where the policy wrote it.
+
+It also compares the names a block writes with the model's: an events list
+with a name that matches no event of the model but resembles one that the
+block then leaves unchecked, and a per-lining table (limit = { concrete =
+…, grass = … }) with a key that matches no lining of the model but
+resembles one that then falls through to the default (or to no limit).
+Both are how a renamed event or lining ("Q100" for "q100", "Concrete" for
+"concrete") silently skips a criterion. The warning names the unmatched
+keys and the model's names, and calls out names that differ only in case
+(names are case-sensitive). A block that matches no event at all gets the
+unmatched names in its warning too.`,
 		Formula: `none; it compares the block's selector with the model's events and reaches.`,
 		Basis: `a check that applied to nothing must not read as a pass
 (common practice, no published source).`,
@@ -48,15 +59,22 @@ func checkUnmatchedSelectors(ctx *Context, report func(Finding)) {
 	top := hcl.Range{Filename: m.File, Start: hcl.InitialPos, End: hcl.InitialPos}
 	for _, id := range slices.Sorted(maps.Keys(p.Rules)) {
 		for _, b := range p.Rules[id].Blocks() {
-			if !b.Selective() || matchesSome(b, m) {
+			where := fmt.Sprintf("the %s block at %s:%d", id, b.File, b.DefRange.Start.Line)
+			events, renamed := eventKeys(b, m)
+			if b.Selective() && !matchesSome(b, m) {
+				msg := fmt.Sprintf("%s (%s) matches no event on any reach of this model, so it was not applied", where, b.SelectorText())
+				if events != "" {
+					msg += "; " + events
+				}
+				report(Finding{Range: top, Message: msg, Reference: policies.Cite(p, b)})
 				continue
 			}
-			report(Finding{
-				Range: top,
-				Message: fmt.Sprintf("the %s block at %s:%d (%s) matches no event on any reach of this model, so it was not applied",
-					id, b.File, b.DefRange.Start.Line, b.SelectorText()),
-				Reference: policies.Cite(p, b),
-			})
+			if renamed {
+				report(Finding{Range: top, Message: where + ": " + events, Reference: policies.Cite(p, b)})
+			}
+			for _, lk := range liningKeys(b, m) {
+				report(Finding{Range: top, Message: where + ": " + lk, Reference: policies.Cite(p, b)})
+			}
 		}
 	}
 }
