@@ -109,3 +109,25 @@ func TestGoldenCulvertPolicyUnits(t *testing.T) {
 		assert.Equal(t, a[i].Message, b[i].Message)
 	}
 }
+
+func TestGoldenBoxFull(t *testing.T) {
+	m, res, fs := golden(t, "box-full.chan.hcl", "jumps.policy.hcl")
+	assertFinite(t, fs)
+	got := matchWants(t, m.Source, "", fs)
+	require.Len(t, got, 1)
+	for _, f := range got {
+		// Source: FHWA HDS-5 (2012), full flow (from memory): with the
+		// barrel full, the hydraulic grade rises upstream by the full-barrel
+		// friction Sf·L, Sf = (n·Q/(A·R^(2/3)))², A = b·h, R = b·h/(2(b + h)),
+		// less the fall of the bed; the largest depth is at the inlet.
+		const b, h, n, q, l, s0 = 2.0, 1.2, 0.013, 4.0, 80.0, 0.001
+		a, r := b*h, b*h/(2*(b+h))
+		sf := math.Pow(n*q/(a*math.Pow(r, 2.0/3)), 2)
+		assert.Equal(t, h, f.Limit)
+		// The slot's storage changes the velocity head by far less than
+		// 1 mm over this surcharge.
+		assert.InDelta(t, 1.6+(sf-s0)*l, f.Value, 1e-3, "depth at the inlet")
+		assert.Contains(t, f.Message, "flows full")
+	}
+	require.Len(t, res.Events[0].Culverts, 0, "a box without a culvert block is a conduit, not a culvert")
+}
