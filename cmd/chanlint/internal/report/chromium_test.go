@@ -6,6 +6,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 	"time"
@@ -61,6 +62,18 @@ func TestHTMLInChromium(t *testing.T) {
 	assert.NotContains(t, dom, "<script", "a model string became markup")
 	for _, bad := range []string{"Uncaught", "ERROR:CONSOLE", "CONSOLE("} {
 		assert.NotContains(t, logs, bad, "console error in the browser log")
+	}
+	// The legend names every kind of marker the demo's plots draw, with
+	// the hatching that codes severity apart from colour.
+	for _, entry := range []string{"water surface", "critical depth", "energy grade", "hydraulic jump", "basin",
+		"gate", "bend", "reach boundary", "error span, cross-hatched", "warning span, hatched", "excepted span"} {
+		assert.Contains(t, dom, ">"+entry, "legend entry %q", entry)
+	}
+	// Every #N tag of a plot links to a findings row that exists.
+	links := regexp.MustCompile(`<a href="#(m\d+-f\d+)">`).FindAllStringSubmatch(dom, -1)
+	require.NotEmpty(t, links, "plot tags link to the findings rows")
+	for _, l := range links {
+		assert.Contains(t, dom, `id="`+l[1]+`"`, "link target %s", l[1])
 	}
 
 	shot := filepath.Join(dir, "report.png")

@@ -32,26 +32,42 @@ type palette struct {
 	Empty            string
 }
 
+// The hues are those of the eight-colour set of Okabe and Ito (Color
+// Universal Design, 2008), chosen to stay apart for readers with any of
+// the common colour-vision deficiencies. Colour is never the only code:
+// every line has its own dash and width, and each severity of a failing
+// span its own hatching (see spanHatch), so a greyscale print or a
+// colour-blind reader tells them apart too.
+const (
+	okBlack     = "#000000"
+	okOrange    = "#e69f00"
+	okSkyBlue   = "#56b4e9"
+	okGreen     = "#009e73" // bluish green
+	okBlue      = "#0072b2"
+	okVermilion = "#d55e00"
+	okPurple    = "#cc79a7" // reddish purple
+)
+
 var pal = palette{
 	Paper: "#ffffff", Title: "#1d2630", TickText: "#55606b", Label: "#3b4650",
 	GridY: "#e7e9ec", GridX: "#f0f1f3",
 	Frame: lineStyle{Colour: "#8b949e", Width: "1"},
 
-	Bed:      lineStyle{Colour: "#6b5644", Width: "1.7"},
-	WSE:      lineStyle{Colour: "#1f5f99", Width: "1.9", Join: "round"},
-	Critical: lineStyle{Colour: "#b0472a", Width: "1.2", Dash: "7 4"},
-	Energy:   lineStyle{Colour: "#4d7c3a", Width: "1.1", Dash: "2 3"},
-	Bank:     lineStyle{Colour: "#39434d", Width: "1.3"},
-	Ground:   "#efe8dc",
-	Water:    "#d4e6f4",
+	Bed:      lineStyle{Colour: "#5a4634", Width: "2.2"},                    // solid, heaviest
+	WSE:      lineStyle{Colour: okBlue, Width: "1.9", Join: "round"},        // solid
+	Critical: lineStyle{Colour: okVermilion, Width: "1.3", Dash: "8 3 2 3"}, // dash-dot
+	Energy:   lineStyle{Colour: okGreen, Width: "1.2", Dash: "2 3"},         // dotted
+	Bank:     lineStyle{Colour: okBlack, Width: "1.3", Dash: "12 3"},        // long dash
+	Ground:   "#ece4d6",
+	Water:    "#d6ebf7",
 
-	Basin: "#2e8b77", BasinText: "#1f6b5b",
-	Bend: "#6c5b9b", BendText: "#4e4175",
-	Excepted: "#7b8794", ExceptedText: "#4b5560",
+	Basin: okGreen, BasinText: "#00664a",
+	Bend: okPurple, BendText: "#8a3f68",
+	Excepted: "#6b7580", ExceptedText: "#4b5560",
 	Boundary: lineStyle{Colour: "#55606b", Width: "1", Dash: "1 3"},
 	Gate:     lineStyle{Colour: "#1d2630", Width: "4"},
 	Jump:     "#17324d",
-	Pool:     lineStyle{Colour: "#1f5f99", Width: "1.4", Dash: "6 3"},
+	Pool:     lineStyle{Colour: okSkyBlue, Width: "1.6", Dash: "6 3"},
 	Road:     lineStyle{Colour: "#3b3b3b", Width: "3"},
 	Empty:    "#8a5a00",
 }
@@ -60,9 +76,22 @@ var pal = palette{
 func bandColour(kind string) string {
 	switch kind {
 	case "error":
-		return "#c0392b"
+		return okVermilion
 	case "warning":
-		return "#c27c0e"
+		return okOrange
 	}
-	return "#5d6d7e"
+	return okSkyBlue
+}
+
+// spanHatch is the hatching that codes a failing span's severity apart
+// from its colour: cross-hatched errors, single-hatched warnings, and
+// info spans left plain; "" for none.
+func spanHatch(kind string) string {
+	switch kind {
+	case "error":
+		return "M0 6 L6 0 M-1 1 L1 -1 M5 7 L7 5 M0 0 L6 6 M-1 5 L1 7 M5 -1 L7 1"
+	case "warning":
+		return "M0 6 L6 0 M-1 1 L1 -1 M5 7 L7 5"
+	}
+	return ""
 }

@@ -100,6 +100,9 @@ type Band struct {
 	// whether the label fits inside it (else it is drawn to its right).
 	LaneY       float64
 	LabelInside bool
+	// Href links a failing span's strip to its row of the findings table
+	// ("#m1-f3"); "" for other bands.
+	Href string
 }
 
 // Boundary is a reach boundary on a main-stem plot.
@@ -202,10 +205,12 @@ type plotInput struct {
 	xlabel    string                                 // overrides the station axis label
 }
 
-// numbered is a finding with its row number in the page's findings table.
+// numbered is a finding with its row number in the page's findings table
+// and the id of that row.
 type numbered struct {
-	N int
-	F rules.Finding
+	Anchor string
+	N      int
+	F      rules.Finding
 }
 
 // buildPlot lays out a profile plot, part by part. The order matters: the

@@ -42,9 +42,22 @@ func (p *Plot) addLegend() {
 	if p.HasBasin {
 		add("basin", "basin")
 	}
+	if len(p.Gates) > 0 {
+		add("gate", "gate")
+	}
+	if p.HasBend {
+		add("bend", "bend")
+	}
+	for _, b := range p.Boundaries {
+		if !b.First {
+			add("boundary", "reach boundary")
+			break
+		}
+	}
+	hatch := map[string]string{"error": "cross-hatched", "warning": "hatched", "info": "plain"}
 	for _, sev := range []string{"error", "warning", "info"} {
 		if p.failing[sev] {
-			add("span-"+sev, sev+" span (#: finding)")
+			add("span-"+sev, sev+" span, "+hatch[sev]+" (#N: finding row)")
 		}
 	}
 	if p.HasExcepted {

@@ -47,6 +47,9 @@ func (p *Plot) addFindingSpans(in plotInput, sc *scale, lu string) {
 		}
 		label := "#" + strconv.Itoa(nf.N)
 		b := sc.band(pc.offset+f.FromStation, pc.offset+f.ToStation, kind, label, "", 0)
+		if nf.Anchor != "" {
+			b.Href = "#" + nf.Anchor
+		}
 		textW := float64(len(label))*charW + 4
 		b.LabelInside = b.W >= textW+4
 		if b.LabelInside {

@@ -134,6 +134,7 @@ func (w *svgWriter) svgBody(p *Plot) {
 		w.raw(" ").text(p.Caption)
 	}
 	w.raw("</desc>")
+	w.hatches(p)
 	w.rect(0, 0, p.W, p.H).a("fill", pal.Paper).end()
 	w.tag("text").n("x", p.Text.TitleX).n("y", p.Text.TitleY).a("font-size", "13").a("font-weight", "600").a("fill", pal.Title).label(p.Title)
 
@@ -160,6 +161,9 @@ func (w *svgWriter) svgBody(p *Plot) {
 		switch b.Kind {
 		case "error", "warning", "info":
 			w.rect(b.X, fr.Y, b.W, fr.H).a("fill", bandColour(b.Kind)).a("fill-opacity", "0.1").titled("rect", b.Title)
+			if spanHatch(b.Kind) != "" {
+				w.rect(b.X, fr.Y, b.W, fr.H).a("fill", "url(#"+hatchID(p.ID, b.Kind)+")").a("fill-opacity", "0.3").end()
+			}
 		case "excepted":
 			w.rect(b.X, fr.Y, b.W, fr.H).a("fill", pal.Excepted).a("fill-opacity", "0.05").
 				stroke(lineStyle{Colour: pal.Excepted, Width: "0.6", Dash: "4 3"}).titled("rect", b.Title)
@@ -180,7 +184,7 @@ func (w *svgWriter) svgBody(p *Plot) {
 		}
 	}
 	for _, b := range p.Bands {
-		w.laneStrip(b)
+		w.laneStrip(p.ID, b)
 	}
 	w.raw("\n</g>")
 	for _, b := range p.Bends {
@@ -262,25 +266,55 @@ func (w *svgWriter) svgBody(p *Plot) {
 
 	w.tag("g").a("font-size", "11").a("fill", pal.Label).raw(">")
 	for _, it := range p.Legend {
-		w.swatch(it)
+		w.swatch(p.ID, it)
 		w.tag("text").n("x", it.X+30).n("y", it.Y).a("dy", "3.5").label(it.Label)
 	}
 	w.raw("\n</g>\n</svg>")
 }
 
+// hatchID is the id of a plot's hatch pattern for a severity.
+func hatchID(plotID, kind string) string { return plotID + "-hatch-" + kind }
+
+// hatches defines the hatch patterns of the severities the plot shows
+// (see spanHatch), stroked dark so that they read in greyscale too.
+func (w *svgWriter) hatches(p *Plot) {
+	var kinds []string
+	for _, k := range []string{"error", "warning"} {
+		if p.failing[k] {
+			kinds = append(kinds, k)
+		}
+	}
+	if len(kinds) == 0 {
+		return
+	}
+	w.raw("\n<defs>")
+	for _, k := range kinds {
+		w.raw("<pattern").a("id", hatchID(p.ID, k)).a("width", "6").a("height", "6").a("patternUnits", "userSpaceOnUse").raw(">")
+		w.raw("<path").a("d", spanHatch(k)).a("stroke", "#1d2630").a("stroke-width", "0.9").raw("/></pattern>")
+	}
+	w.raw("</defs>")
+}
+
 // laneStrip writes the strip of a failing or excepted span in its lane,
-// with its row number inside or beside it.
-func (w *svgWriter) laneStrip(b Band) {
+// with its row number inside or beside it, linked to its row of the
+// findings table when the span has one.
+func (w *svgWriter) laneStrip(plotID string, b Band) {
 	switch b.Kind {
 	case "error", "warning", "info", "excepted":
 	default:
 		return
+	}
+	if b.Href != "" {
+		w.tag("a").a("href", b.Href).raw(">")
 	}
 	w.tag("g").raw("><title>").text(b.Title).raw("</title>")
 	if b.Kind == "excepted" {
 		w.rect(b.X, b.LaneY, b.W, 11).a("fill", "#ffffff").stroke(lineStyle{Colour: pal.Excepted, Width: "0.8", Dash: "3 2"}).end()
 	} else {
 		w.rect(b.X, b.LaneY, b.W, 11).a("fill", bandColour(b.Kind)).end()
+		if spanHatch(b.Kind) != "" {
+			w.rect(b.X, b.LaneY, b.W, 11).a("fill", "url(#"+hatchID(plotID, b.Kind)+")").a("fill-opacity", "0.35").end()
+		}
 	}
 	w.tag("text").n("x", b.LabelX).n("y", b.LabelY).a("font-size", "9.5").a("font-weight", "600")
 	switch {
@@ -293,11 +327,14 @@ func (w *svgWriter) laneStrip(b Band) {
 	}
 	w.label(b.Label)
 	w.raw("\n</g>")
+	if b.Href != "" {
+		w.raw("\n</a>")
+	}
 }
 
 // swatch writes the legend symbol of an entry (24 units wide, centred on
 // the entry's baseline). Its first element follows without a line break.
-func (w *svgWriter) swatch(it LegendItem) {
+func (w *svgWriter) swatch(plotID string, it LegendItem) {
 	x, y := it.X, it.Y
 	line := func(s lineStyle) {
 		w.raw("<line").n("x1", x).n("x2", x+24).n("y1", y).n("y2", y).stroke(s).end()
@@ -323,9 +360,19 @@ func (w *svgWriter) swatch(it LegendItem) {
 	case "basin":
 		w.raw("<rect").n("x", x).n("y", y-6).n("width", 24).n("height", 12).a("fill", pal.Basin).a("fill-opacity", "0.2").end()
 	case "span-error", "span-warning", "span-info":
-		c := bandColour(it.Kind[len("span-"):])
+		kind := it.Kind[len("span-"):]
+		c := bandColour(kind)
 		w.raw("<rect").n("x", x).n("y", y-6).n("width", 24).n("height", 12).a("fill", c).a("fill-opacity", "0.1").end()
+		if spanHatch(kind) != "" {
+			w.rect(x, y-6, 24, 12).a("fill", "url(#"+hatchID(plotID, kind)+")").a("fill-opacity", "0.3").end()
+		}
 		w.raw("<rect").n("x", x).n("y", y-6).n("width", 24).n("height", 4).a("fill", c).end()
+	case "gate":
+		w.raw("<line").n("x1", x+12).n("x2", x+12).n("y1", y-7).n("y2", y+5).stroke(pal.Gate).end()
+	case "bend":
+		w.raw("<rect").n("x", x).n("y", y-2).n("width", 24).n("height", 4).a("fill", pal.Bend).a("fill-opacity", "0.75").end()
+	case "boundary":
+		w.raw("<line").n("x1", x+12).n("x2", x+12).n("y1", y-7).n("y2", y+5).stroke(pal.Boundary).end()
 	case "excepted":
 		w.raw("<rect").n("x", x).n("y", y-6).n("width", 24).n("height", 12).a("fill", pal.Excepted).a("fill-opacity", "0.08").
 			stroke(lineStyle{Colour: pal.Excepted, Width: "0.8", Dash: "4 3"}).end()

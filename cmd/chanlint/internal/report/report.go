@@ -258,6 +258,7 @@ type reachRow struct {
 
 type findingRow struct {
 	N                               int
+	Anchor                          string // id of the row, which the plot's #N tags link to
 	Severity, Rule, Reach, Event    string
 	Stations, Value, Limit, Message string
 	Where                           string // file:line:col
@@ -404,8 +405,10 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 	}
 	var nums []numbered
 	for i, f := range m.Findings {
-		mv.Findings = append(mv.Findings, row(i+1, f))
-		nums = append(nums, numbered{N: i + 1, F: f})
+		r := row(i+1, f)
+		r.Anchor = mv.Anchor + "-f" + strconv.Itoa(i+1)
+		mv.Findings = append(mv.Findings, r)
+		nums = append(nums, numbered{N: i + 1, F: f, Anchor: r.Anchor})
 		countInto(&mv.Counts, f)
 	}
 	for _, ex := range md.Exceptions {

@@ -47,6 +47,10 @@ func TestHTMLStructure(t *testing.T) {
 	}
 	assert.NotContains(t, out, "NaN")
 	assert.NotRegexp(t, `\bInf\b`, out) // "Info" is a word of the page
+	// Printed pages carry the report and model names at the top (escaped
+	// for the CSS string) and a page counter.
+	assert.Regexp(t, `@top-left \{ content: "Channel design review — [^"<>]+";`, out)
+	assert.Contains(t, out, `@bottom-right { content: "page " counter(page) " of " counter(pages);`)
 	// One word for the lowest severity, as in text, JSON and SARIF.
 	assert.Contains(t, out, `<span class="l">info</span>`)
 	assert.NotRegexp(t, `(?i)>notes?<|\binfos\b`, out)
@@ -79,10 +83,27 @@ func TestHTMLEscapesModelStrings(t *testing.T) {
 		"p": true, "h1": true, "h2": true, "h3": true, "h4": true, "span": true, "aside": true, "strong": true, "section": true,
 		"div": true, "table": true, "thead": true, "tbody": true, "tr": true, "th": true, "td": true, "a": true, "dl": true,
 		"dt": true, "dd": true, "nav": true, "ol": true, "li": true, "figure": true, "figcaption": true, "svg": true,
-		"desc": true, "rect": true, "text": true, "g": true, "line": true, "path": true, "em": true, "br": true, "footer": true}
+		"desc": true, "rect": true, "text": true, "g": true, "line": true, "path": true, "em": true, "br": true, "footer": true,
+		"defs": true, "pattern": true, "clipPath": true}
 	for _, m := range tags {
 		assert.True(t, allowed[m[1]], "unexpected tag <%s>", m[1])
 	}
+}
+
+// Each failing span's tag in a plot links to its row of the findings
+// table, and the legend names every marker of the plot.
+func TestPlotLinksAndLegend(t *testing.T) {
+	out := renderHTML(t, solvedInput(t, demoModel))
+	links := regexp.MustCompile(`<a href="#(m1-f\d+)">`).FindAllStringSubmatch(out, -1)
+	require.NotEmpty(t, links)
+	for _, l := range links {
+		assert.Contains(t, out, `<tr class="`, l[1])
+		assert.Regexp(t, `<tr class="[a-z]+" id="`+l[1]+`">`, out)
+	}
+	for _, entry := range []string{">gate<", ">bend<", ">reach boundary<", ">error span, cross-hatched (#N: finding row)<"} {
+		assert.Contains(t, out, entry)
+	}
+	assert.Contains(t, out, `<pattern id="`, "severity hatching")
 }
 
 func TestMarkdown(t *testing.T) {
