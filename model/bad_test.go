@@ -5,21 +5,16 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
-	"regexp"
 	"strings"
 	"testing"
 
+	"github.com/chanlint/chanlint/internal/want"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files of testdata/bad")
-
-// wantComment is an expectation written in a bad model: `# want "regexp"`
-// on the line where an error must be reported, the regexp matching its
-// summary.
-var wantComment = regexp.MustCompile(`#\s*want\s+"([^"]*)"`)
 
 // formatDiagnostics renders diagnostics one per line as
 // FILE:LINE:COL: SEVERITY: SUMMARY; DETAIL with the file's base name.
@@ -40,8 +35,8 @@ func formatDiagnostics(diags hcl.Diagnostics) string {
 }
 
 // TestBadModels checks every broken model of testdata/bad: it must fail
-// with no model, every error must sit on a line that carries a matching
-// `# want`, every `# want` must be met, and the full diagnostics must equal
+// with no model, every error must be expected by a `# want model "..."`
+// comment of its line, every `# want` must be met, and the full diagnostics must equal
 // the golden file (regenerate with go test ./model -update).
 func TestBadModels(t *testing.T) {
 	files, err := filepath.Glob("../testdata/bad/*" + Suffix)
@@ -56,31 +51,29 @@ func TestBadModels(t *testing.T) {
 			require.Nil(t, m)
 			require.True(t, diags.HasErrors(), "no error reported")
 
-			wants := map[int][]*regexp.Regexp{}
-			for i, line := range strings.Split(string(src), "\n") {
-				for _, w := range wantComment.FindAllStringSubmatch(line, -1) {
-					wants[i+1] = append(wants[i+1], regexp.MustCompile(w[1]))
-				}
-			}
+			// Expectations: `# want model "REGEXP"` (see internal/want) on
+			// or above the line of each error, the pattern matching its
+			// "Summary; Detail".
+			wants, err := want.Parse(src)
+			require.NoError(t, err)
 			require.NotEmpty(t, wants, "the file has no # want comment")
-			met := map[*regexp.Regexp]bool{}
+			met := make([]bool, len(wants))
 			for _, d := range diags {
 				require.NotNil(t, d.Subject, "%s has no position", d.Summary)
 				if d.Severity != hcl.DiagError {
 					continue
 				}
 				matched := false
-				for _, re := range wants[d.Subject.Start.Line] {
-					if re.MatchString(d.Summary) {
-						met[re], matched = true, true
+				for i := range wants {
+					w := &wants[i]
+					if w.Rule == "model" && w.Line == d.Subject.Start.Line && w.Matches(d.Summary+"; "+d.Detail) {
+						met[i], matched = true, true
 					}
 				}
 				assert.True(t, matched, "unexpected error at line %d: %s; %s", d.Subject.Start.Line, d.Summary, d.Detail)
 			}
-			for line, res := range wants {
-				for _, re := range res {
-					assert.True(t, met[re], "line %d: no error matching %q", line, re)
-				}
+			for i := range wants {
+				assert.True(t, met[i], "no error for %s", &wants[i])
 			}
 
 			got := formatDiagnostics(diags)

@@ -64,7 +64,7 @@ func TestGoldenCulvertRules(t *testing.T) {
 
 	var hwd, freeboard int
 	for w, f := range got {
-		switch w.rule {
+		switch w.Rule {
 		case "headwater":
 			if f.Limit == 2.0 {
 				hwd++

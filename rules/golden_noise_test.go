@@ -99,13 +99,13 @@ func TestGoldenOvertopOnce(t *testing.T) {
 	require.Len(t, got, 3)
 	var capFrom float64
 	for w, f := range got {
-		if w.rule == "capacity" {
+		if w.Rule == "capacity" {
 			capFrom = f.FromStation
 		}
 	}
 	assert.InDelta(t, overtop, capFrom, tol, "overtopping begins")
 	for w, f := range got {
-		switch w.rule {
+		switch w.Rule {
 		case "freeboard":
 			assert.InDelta(t, short, f.FromStation, tol, "freeboard short")
 			assert.InDelta(t, capFrom, f.ToStation, 2*locateTol(capFrom), "freeboard ends where capacity begins")
@@ -140,7 +140,7 @@ func TestGoldenJumpClipped(t *testing.T) {
 				assert.InDelta(t, toe, f.FromStation, 0.5, "toe")
 				assert.InDelta(t, 12, f.ToStation, 1e-9, "clipped at the reach end")
 				assert.Contains(t, f.Message, `into reach "tail"`)
-				if w.rule == "jump_containment" {
+				if w.Rule == "jump_containment" {
 					assert.InDelta(t, over-tc.tailBasin, f.Value, 1e-9, "unprotected length below the node")
 				}
 			}

@@ -1,18 +1,16 @@
 package rules
 
 import (
-	"bufio"
 	"bytes"
 	"fmt"
 	"math"
 	"os"
 	"path/filepath"
-	"regexp"
 	"slices"
 	"strconv"
-	"strings"
 	"testing"
 
+	wantpkg "github.com/chanlint/chanlint/internal/want"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
@@ -23,52 +21,22 @@ import (
 
 const goldenDir = "../testdata/rules"
 
-// want is one expected finding of a golden model: a "# want[:LABEL] RULE
-// EVENT FROM..TO [excepted]" comment, which applies to the next line that
-// is not a comment (the header of the responsible block). EVENT "-" means
-// no event; FROM..TO may be "toe..end" (the jump's span, checked
+// want is one expected finding of a golden model, written as
+// "# want[:LABEL] RULE EVENT FROM..TO [excepted] ["REGEXP" ...]" (see
+// internal/want) above the header of the responsible block. EVENT "-"
+// means no event; FROM..TO may be "toe..end" (the jump's span, checked
 // separately), "~..~" (a located span, checked separately against an
-// independent computation) or "-..-" (no span).
-type want struct {
-	label       string
-	line        int
-	rule, event string
-	from, to    string
-	excepted    bool
-	commentLine int
-}
-
-var wantRE = regexp.MustCompile(`^\s*#\s*want(?::(\w+))?\s+(\S+)\s+(\S+)\s+(\S+)\.\.(\S+)(\s+excepted)?\s*$`)
+// independent computation) or "-..-" (no span); each REGEXP must match the message.
+type want = wantpkg.Want
 
 func parseWants(t *testing.T, src []byte) []want {
 	t.Helper()
-	var out, pending []want
-	sc := bufio.NewScanner(bytes.NewReader(src))
-	n := 0
-	for sc.Scan() {
-		n++
-		line := sc.Text()
-		trim := strings.TrimSpace(line)
-		if strings.HasPrefix(trim, "#") {
-			if m := wantRE.FindStringSubmatch(line); m != nil {
-				pending = append(pending, want{label: m[1], rule: m[2], event: m[3], from: m[4], to: m[5],
-					excepted: m[6] != "", commentLine: n})
-			} else if strings.Contains(trim, "# want") && strings.Index(trim, "# want") == 0 {
-				t.Fatalf("line %d: malformed want comment %q", n, line)
-			}
-			continue
-		}
-		if trim == "" {
-			continue
-		}
-		for _, w := range pending {
-			w.line = n
-			out = append(out, w)
-		}
-		pending = nil
+	ws, err := wantpkg.Parse(src)
+	require.NoError(t, err)
+	for _, w := range ws {
+		require.True(t, w.HasSpan(), "line %d: a rules golden names EVENT and FROM..TO", w.CommentLine)
 	}
-	require.Empty(t, pending, "want comments at the end of the file")
-	return out
+	return ws
 }
 
 // golden loads a model and a policy from testdata and checks it.
@@ -100,7 +68,7 @@ func matchWants(t *testing.T, src []byte, label string, fs []Finding) map[*want]
 	used := make([]bool, len(fs))
 	for i := range ws {
 		w := &ws[i]
-		if w.label != "" && w.label != label {
+		if w.Label != "" && w.Label != label {
 			continue
 		}
 		found := false
@@ -109,24 +77,24 @@ func matchWants(t *testing.T, src []byte, label string, fs []Finding) map[*want]
 			if ev == "" {
 				ev = "-"
 			}
-			if used[j] || f.Range.Start.Line != w.line || f.Rule != w.rule || ev != w.event || f.Excepted != w.excepted {
+			if used[j] || f.Range.Start.Line != w.Line || f.Rule != w.Rule || ev != w.Event || f.Excepted != w.Excepted || !w.Matches(f.Message) {
 				continue
 			}
 			switch {
-			case w.from == "toe" || w.from == "~":
-			case w.from == "-":
+			case w.From == "toe" || w.From == "~":
+			case w.From == "-":
 				if f.HasSpan {
 					continue
 				}
-			case !f.HasSpan || !(scalar.EqualWithinAbsOrRel(f.FromStation, stationOf(w.from), 1e-9, 1e-9) &&
-				scalar.EqualWithinAbsOrRel(f.ToStation, stationOf(w.to), 1e-9, 1e-9)):
+			case !f.HasSpan || !(scalar.EqualWithinAbsOrRel(f.FromStation, stationOf(w.From), 1e-9, 1e-9) &&
+				scalar.EqualWithinAbsOrRel(f.ToStation, stationOf(w.To), 1e-9, 1e-9)):
 				continue
 			}
 			used[j], found = true, true
 			got[w] = f
 			break
 		}
-		assert.True(t, found, "missing finding: %s %s %s..%s at line %d (want on line %d)", w.rule, w.event, w.from, w.to, w.line, w.commentLine)
+		assert.True(t, found, "missing finding: %s", w)
 	}
 	for j, f := range fs {
 		if !used[j] {
@@ -232,11 +200,11 @@ var uniformFlows = map[string]float64{"q-low": 0.25, "q-design": 6.0, "q-flood":
 func checkUniform(t *testing.T, u uniformUnits, got map[*want]Finding) {
 	t.Helper()
 	for w, f := range got {
-		if w.rule == unusedExceptionID {
+		if w.Rule == unusedExceptionID {
 			continue
 		}
-		q := uniformFlows[w.event] / math.Pow(u.length, 3)
-		value, limit := uniformExpect(u, w.rule, q)
+		q := uniformFlows[w.Event] / math.Pow(u.length, 3)
+		value, limit := uniformExpect(u, w.Rule, q)
 		// Tolerance: every point of uniform flow sits at the normal depth,
 		// which a bracketed root finder closes to far below a micrometre;
 		// 1e-6 (absolute in model units, or relative) leaves room for that
@@ -244,16 +212,16 @@ func checkUniform(t *testing.T, u uniformUnits, got map[*want]Finding) {
 		// constant is off by orders of magnitude more.
 		const tolAbs, tolRel = 1e-6, 1e-6
 		assert.True(t, scalar.EqualWithinAbsOrRel(f.Value, value, tolAbs, tolRel),
-			"%s %s value %.6g, want %.6g", w.rule, w.event, f.Value, value)
+			"%s %s value %.6g, want %.6g", w.Rule, w.Event, f.Value, value)
 		if os.Getenv("GOLDEN_DEBUG") != "" {
-			t.Logf("%s %s value %.9g want %.9g (diff %.2g)", w.rule, w.event, f.Value, value, f.Value-value)
+			t.Logf("%s %s value %.9g want %.9g (diff %.2g)", w.Rule, w.Event, f.Value, value, f.Value-value)
 		}
 		limAbs, limRel := 1e-9, 1e-9
-		if w.rule == "freeboard" { // fraction·depth may govern
+		if w.Rule == "freeboard" { // fraction·depth may govern
 			limAbs, limRel = tolAbs, tolRel
 		}
 		assert.True(t, scalar.EqualWithinAbsOrRel(f.Limit, limit, limAbs, limRel),
-			"%s %s limit %.9g, want %.9g", w.rule, w.event, f.Limit, limit)
+			"%s %s limit %.9g, want %.9g", w.Rule, w.Event, f.Limit, limit)
 	}
 }
 
@@ -334,7 +302,7 @@ func TestGoldenExceptions(t *testing.T) {
 			got := matchWants(t, src, tc.label, fs)
 			checkUniform(t, siUnits, got)
 			for w, f := range got {
-				if w.rule != unusedExceptionID {
+				if w.Rule != unusedExceptionID {
 					continue
 				}
 				if tc.label == "deny" {
@@ -413,7 +381,7 @@ func TestGoldenJumps(t *testing.T) {
 				// (from memory).
 				length := f.ToStation - f.FromStation
 				assert.True(t, length >= 4.8*y2 && length <= 6.3*y2, "jump length %g = %g·y2", length, length/y2)
-				switch w.rule {
+				switch w.Rule {
 				case "jump_type":
 					assert.InDelta(t, f1, f.Value, 0.01*f1, "F1")
 					assert.Equal(t, 2.5, f.Limit)
@@ -447,18 +415,18 @@ func TestGoldenAlwaysOn(t *testing.T) {
 	got := matchWants(t, m.Source, "", fs)
 	for w, f := range got {
 		switch {
-		case w.rule == "solver":
+		case w.Rule == "solver":
 			assert.Equal(t, policies.Warning, f.Severity)
 			assert.Contains(t, f.Message, "boundary condition could not act as written")
-		case w.rule == "model" && f.Severity == policies.Warning:
+		case w.Rule == "model" && f.Severity == policies.Warning:
 			// Source: common practice (no published source): rc = 1.0 m is
 			// less than half the 3.0 m top width of the rectangle.
 			assert.Equal(t, 1.0, f.Value)
 			assert.Equal(t, 1.5, f.Limit)
-		case w.rule == "model":
+		case w.Rule == "model":
 			assert.Equal(t, policies.Error, f.Severity)
 			assert.Contains(t, f.Message, `did you mean "freeboard"?`)
-		case w.rule == unusedExceptionID:
+		case w.Rule == unusedExceptionID:
 			assert.Contains(t, f.Message, "no rule has that id")
 		}
 	}
@@ -511,7 +479,7 @@ func TestGoldenSupercritical(t *testing.T) {
 	assertFinite(t, fs)
 	got := matchWants(t, m.Source, "", fs)
 	for w, f := range got {
-		switch w.rule {
+		switch w.Rule {
 		case "superelevation":
 			assert.True(t, scalar.EqualWithinAbsOrRel(f.Value, h-y-1.0*v*v*b/(g*rc), 1e-6, 1e-6), "remaining %g", f.Value)
 			assert.Equal(t, 0.3, f.Limit)

@@ -35,16 +35,16 @@ func TestGoldenClasses(t *testing.T) {
 	// Source: Manning's equation (Chow 1959, ch. 5); freeboard = height −
 	// depth (common practice, no published source).
 	for w, f := range got {
-		y := manningNormalDepth(siUnits, flows[w.event], 3.0, 0.015, 0.001)
-		switch w.rule {
+		y := manningNormalDepth(siUnits, flows[w.Event], 3.0, 0.015, 0.001)
+		switch w.Rule {
 		case "freeboard":
-			limit := map[string]float64{"design": 0.8, "flood": 0.6}[w.event]
-			assert.True(t, scalar.EqualWithinAbsOrRel(f.Value, 1.45-y, 1e-6, 1e-6), "%s %s: %g", w.event, f.Reach, f.Value)
-			assert.Equal(t, limit, f.Limit, "%s %s", w.event, f.Reach)
-			section := map[string]string{"design": "4.4", "flood": "4.2"}[w.event]
+			limit := map[string]float64{"design": 0.8, "flood": 0.6}[w.Event]
+			assert.True(t, scalar.EqualWithinAbsOrRel(f.Value, 1.45-y, 1e-6, 1e-6), "%s %s: %g", w.Event, f.Reach, f.Value)
+			assert.Equal(t, limit, f.Limit, "%s %s", w.Event, f.Reach)
+			section := map[string]string{"design": "4.4", "flood": "4.2"}[w.Event]
 			assert.Equal(t, "golden test manual (version 2026.1), section "+section, f.Reference)
 		case "max_velocity":
-			assert.True(t, scalar.EqualWithinAbsOrRel(f.Value, flows[w.event]/(3*y), 1e-6, 1e-6), "%g", f.Value)
+			assert.True(t, scalar.EqualWithinAbsOrRel(f.Value, flows[w.Event]/(3*y), 1e-6, 1e-6), "%g", f.Value)
 			assert.Equal(t, 1.4, f.Limit)
 		}
 	}

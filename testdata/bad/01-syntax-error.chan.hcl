@@ -9,5 +9,5 @@ section "lined" {
 }
 reach "main" {
   from = "top"
-  to   = "outfall" "oops" # want "Missing newline|Invalid"
+  to   = "outfall" "oops" # want model "Missing newline|Invalid"
 }

@@ -1,4 +1,4 @@
-# units is required.  # want "Missing required argument"
+# units is required.  # want model "Missing required argument"
 section "lined" {
   shape        = "rectangle"
   bottom_width = 2.0

@@ -1,5 +1,5 @@
 # Only si and us are units.
-units = "metric" # want "Unknown units"
+units = "metric" # want model "Unknown units"
 section "lined" {
   shape        = "rectangle"
   bottom_width = 2.0

@@ -13,7 +13,7 @@ reach "main" {
   length  = 400
   section = "lined"
   slope   = 0.002
-  lenght  = 40 # want "Unsupported argument"
+  lenght  = 40 # want model "Unsupported argument"
 }
 event "q100" {
   inflow = { "main" = 3.0 }

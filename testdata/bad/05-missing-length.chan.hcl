@@ -7,7 +7,7 @@ section "lined" {
   roughness    = 0.015
   lining       = "concrete"
 }
-reach "main" { # want "Missing required argument"
+reach "main" { # want model "Missing required argument"
   from    = "top"
   to      = "outfall"
   section = "lined"

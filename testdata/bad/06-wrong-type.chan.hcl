@@ -10,7 +10,7 @@ section "lined" {
 reach "main" {
   from    = "top"
   to      = "outfall"
-  length  = "400" # want "Number required"
+  length  = "400" # want model "Number required"
   section = "lined"
   slope   = 0.002
 }

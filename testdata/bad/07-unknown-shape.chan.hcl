@@ -1,7 +1,7 @@
 # A shape that does not exist.
 units = "si"
 section "other" {
-  shape        = "rectangel" # want "Unknown section shape"
+  shape        = "rectangel" # want model "Unknown section shape"
   bottom_width = 2.0
   height       = 1.2
   roughness    = 0.015

@@ -5,7 +5,7 @@ section "lined" {
   bottom_width = 2.0
   height       = 1.2
   roughness    = 0.015
-  side_slope   = 1.5 # want "Argument not used by this shape"
+  side_slope   = 1.5 # want model "Argument not used by this shape"
   lining       = "concrete"
 }
 reach "main" {

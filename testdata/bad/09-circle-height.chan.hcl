@@ -3,7 +3,7 @@ units = "si"
 section "lined" {
   shape     = "circle"
   diameter  = 1.2
-  height    = 1.2 # want "Argument not used by this shape"
+  height    = 1.2 # want model "Argument not used by this shape"
   roughness = 0.013
 }
 reach "main" {

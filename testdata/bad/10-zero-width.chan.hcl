@@ -2,7 +2,7 @@
 units = "si"
 section "lined" {
   shape        = "rectangle"
-  bottom_width = 0 # want "Value must be positive"
+  bottom_width = 0 # want model "Value must be positive"
   height       = 1.2
   roughness    = 0.015
   lining       = "concrete"

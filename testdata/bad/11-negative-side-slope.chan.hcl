@@ -3,7 +3,7 @@ units = "si"
 section "lined" {
   shape        = "trapezoid"
   bottom_width = 2.0
-  side_slope   = -1 # want "Negative side slope"
+  side_slope   = -1 # want model "Negative side slope"
   height       = 1.2
   roughness    = 0.015
 }

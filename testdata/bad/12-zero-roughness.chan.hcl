@@ -4,7 +4,7 @@ section "lined" {
   shape        = "rectangle"
   bottom_width = 2.0
   height       = 1.2
-  roughness    = 0 # want "Value must be positive"
+  roughness    = 0 # want model "Value must be positive"
   lining       = "concrete"
 }
 reach "main" {

@@ -4,7 +4,7 @@ section "lined" {
   shape        = "rectangle"
   bottom_width = 2.0
   height       = 1.2
-  roughness    = 1.5 # want "Implausible roughness"
+  roughness    = 1.5 # want model "Implausible roughness"
   lining       = "concrete"
 }
 reach "main" {

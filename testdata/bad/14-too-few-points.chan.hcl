@@ -2,7 +2,7 @@
 units = "si"
 section "lined" {
   shape     = "points"
-  points    = [[0, 1], [4, 1]] # want "Too few points"
+  points    = [[0, 1], [4, 1]] # want model "Too few points"
   roughness = 0.03
 }
 reach "main" {

@@ -2,7 +2,7 @@
 units = "si"
 section "lined" {
   shape     = "points"
-  points    = [[0, 2], [5, 0], [3, 0.5], [10, 2]] # want "Offsets out of order"
+  points    = [[0, 2], [5, 0], [3, 0.5], [10, 2]] # want model "Offsets out of order"
   roughness = 0.03
 }
 reach "main" {

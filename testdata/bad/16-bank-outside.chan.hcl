@@ -3,7 +3,7 @@ units = "si"
 section "lined" {
   shape     = "points"
   points    = [[0, 2], [5, 0], [10, 2]]
-  banks     = [2, 12] # want "Bank outside the section"
+  banks     = [2, 12] # want model "Bank outside the section"
   roughness = 0.03
 }
 reach "main" {

@@ -3,7 +3,7 @@ units = "si"
 section "lined" {
   shape     = "points"
   points    = [[0, 2], [5, 0], [10, 2]]
-  roughness = [0.05, 0.03] # want "Three roughness values required"
+  roughness = [0.05, 0.03] # want model "Three roughness values required"
 }
 reach "main" {
   from    = "top"

@@ -7,7 +7,7 @@ section "lined" {
   roughness    = 0.015
   lining       = "concrete"
 }
-section "lined" { # want "Duplicate name"
+section "lined" { # want model "Duplicate name"
   shape        = "rectangle"
   bottom_width = 2.0
   height       = 1.2

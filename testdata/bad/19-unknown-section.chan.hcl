@@ -11,7 +11,7 @@ reach "main" {
   from    = "top"
   to      = "outfall"
   length  = 400
-  section = "linned" # want "Unknown section"
+  section = "linned" # want model "Unknown section"
   slope   = 0.002
 }
 event "q100" {

@@ -15,7 +15,7 @@ reach "main" {
   slope   = 0.002
 }
 gate "head" {
-  reach   = "mian" # want "Unknown reach"
+  reach   = "mian" # want model "Unknown reach"
   opening = 0.3
 }
 event "q100" {

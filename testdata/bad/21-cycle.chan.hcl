@@ -9,7 +9,7 @@ section "lined" {
 }
 reach "a" {
   from    = "n1"
-  to      = "n2" # want "Reaches form a loop"
+  to      = "n2" # want model "Reaches form a loop"
   length  = 400
   section = "lined"
   slope   = 0.002

@@ -16,7 +16,7 @@ reach "main" {
 }
 reach "side" {
   from    = "hill"
-  to      = "pond" # want "More than one outlet"
+  to      = "pond" # want model "More than one outlet"
   
   length  = 400
   section = "lined"

@@ -15,7 +15,7 @@ reach "main" {
   slope   = 0.002
 }
 reach "branch" {
-  from    = "top" # want "Two reaches leave one node"
+  from    = "top" # want model "Two reaches leave one node"
   to      = "pond"
   length  = 100
   section = "lined"

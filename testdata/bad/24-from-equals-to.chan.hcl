@@ -9,7 +9,7 @@ section "lined" {
 }
 reach "main" {
   from    = "top"
-  to      = "top" # want "Reach ends where it starts"
+  to      = "top" # want model "Reach ends where it starts"
   length  = 400
   section = "lined"
   slope   = 0.002

@@ -17,7 +17,7 @@ reach "main" {
 basin "pool" {
   reach        = "main"
   from_station = 380
-  to_station   = 420 # want "Station outside the reach"
+  to_station   = 420 # want model "Station outside the reach"
 }
 event "q100" {
   inflow = { "main" = 3.0 }

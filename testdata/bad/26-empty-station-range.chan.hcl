@@ -17,7 +17,7 @@ reach "main" {
 bend "curve" {
   reach        = "main"
   from_station = 200
-  to_station   = 150 # want "Empty station range"
+  to_station   = 150 # want model "Empty station range"
   radius       = 30
 }
 event "q100" {

@@ -26,7 +26,7 @@ reach "main" {
     section      = "wide"
   }
   segment {
-    from_station = 150 # want "Overlapping segments"
+    from_station = 150 # want model "Overlapping segments"
     to_station   = 300
     section      = "wide"
   }

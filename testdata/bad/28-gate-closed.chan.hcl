@@ -16,7 +16,7 @@ reach "main" {
 }
 gate "head" {
   reach   = "main"
-  opening = 0 # want "Value must be positive"
+  opening = 0 # want model "Value must be positive"
 }
 event "q100" {
   inflow = { "main" = 3.0 }

@@ -17,7 +17,7 @@ reach "main" {
 gate "head" {
   reach       = "main"
   opening     = 0.3
-  contraction = 1.2 # want "Contraction out of range"
+  contraction = 1.2 # want model "Contraction out of range"
 }
 event "q100" {
   inflow = { "main" = 3.0 }

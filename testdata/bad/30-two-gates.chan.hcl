@@ -20,7 +20,7 @@ gate "head" {
 }
 
 gate "second" {
-  reach   = "main" # want "More than one gate on a reach"
+  reach   = "main" # want model "More than one gate on a reach"
   opening = 0.4
 }
 event "q100" {

@@ -15,6 +15,6 @@ reach "main" {
   slope   = 0.002
 }
 event "q100" {
-  inflow = { "main" = 3.0, "north" = 1.0 } # want "Unknown reach"
+  inflow = { "main" = 3.0, "north" = 1.0 } # want model "Unknown reach"
   outlet = { depth = 0.8 }
 }

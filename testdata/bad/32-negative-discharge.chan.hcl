@@ -15,6 +15,6 @@ reach "main" {
   slope   = 0.002
 }
 event "q100" {
-  inflow = { "main" = -3.0 } # want "Discharge must be positive"
+  inflow = { "main" = -3.0 } # want model "Discharge must be positive"
   outlet = { depth = 0.8 }
 }

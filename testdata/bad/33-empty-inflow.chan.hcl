@@ -15,6 +15,6 @@ reach "main" {
   slope   = 0.002
 }
 event "q100" {
-  inflow = {} # want "No inflow"
+  inflow = {} # want model "No inflow"
   outlet = { depth = 0.8 }
 }

@@ -33,6 +33,6 @@ event "q100" {
   outlet = { depth = 0.8 }
 }
 event "q10" {
-  inflow = { "main" = 1.0 } # want "Reach receives no discharge"
+  inflow = { "main" = 1.0 } # want model "Reach receives no discharge"
   outlet = { depth = 0.8 }
 }

@@ -24,5 +24,5 @@ reach "lower" {
 event "q100" {
   inflow = { "main" = 3.0 }
   outlet = { depth = 0.8 }
-  entrance = { "lower" = 0.5 } # want "Entrance on a reach with inflow from upstream"
+  entrance = { "lower" = 0.5 } # want model "Entrance on a reach with inflow from upstream"
 }

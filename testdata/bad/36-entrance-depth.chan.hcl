@@ -17,5 +17,5 @@ reach "main" {
 event "q100" {
   inflow = { "main" = 3.0 }
   outlet = { depth = 0.8 }
-  entrance = { "main" = 0 } # want "Depth must be positive"
+  entrance = { "main" = 0 } # want model "Depth must be positive"
 }

@@ -16,5 +16,5 @@ reach "main" {
 }
 event "q100" {
   inflow = { "main" = 3.0 }
-  outlet = { depth = -0.5 } # want "Depth must be positive"
+  outlet = { depth = -0.5 } # want model "Depth must be positive"
 }

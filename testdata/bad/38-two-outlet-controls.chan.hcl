@@ -16,5 +16,5 @@ reach "main" {
 }
 event "q100" {
   inflow = { "main" = 3.0 }
-  outlet = { depth = 0.8, condition = "normal" } # want "More than one outlet control"
+  outlet = { depth = 0.8, condition = "normal" } # want model "More than one outlet control"
 }

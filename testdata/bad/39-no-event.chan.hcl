@@ -1,4 +1,4 @@
-# A model with nothing flowing.  # want "No event"
+# A model with nothing flowing.  # want model "No event"
 units = "si"
 section "lined" {
   shape        = "rectangle"

@@ -1,4 +1,4 @@
-# A model with no channel.  # want "No reach"
+# A model with no channel.  # want model "No reach"
 units = "si"
 section "lined" {
   shape        = "rectangle"
@@ -8,6 +8,6 @@ section "lined" {
   lining       = "concrete"
 }
 event "q100" {
-  inflow = {} # want "No inflow"
+  inflow = {} # want model "No inflow"
   outlet = { depth = 0.8 }
 }

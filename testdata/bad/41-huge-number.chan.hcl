@@ -10,7 +10,7 @@ section "lined" {
 reach "main" {
   from    = "top"
   to      = "outfall"
-  length  = 4e12 # want "Number too large"
+  length  = 4e12 # want model "Number too large"
   section = "lined"
   slope   = 0.002
 }

@@ -18,7 +18,7 @@ bend "curve" {
   reach        = "main"
   from_station = 100
   to_station   = 150
-  radius       = 0 # want "Value must be positive"
+  radius       = 0 # want model "Value must be positive"
 }
 event "q100" {
   inflow = { "main" = 3.0 }

@@ -18,7 +18,7 @@ event "q100" {
   inflow = { "main" = 3.0 }
   outlet = { depth = 0.8 }
 }
-exception "" { # want "Invalid rule id"
+exception "" { # want model "Invalid rule id"
   reach        = "main"
   from_station = 0
   to_station   = 50

@@ -22,5 +22,5 @@ exception "froude_band" {
   reach        = "main"
   from_station = 0
   to_station   = 50
-  reason       = "  " # want "Empty reason"
+  reason       = "  " # want model "Empty reason"
 }

@@ -10,7 +10,7 @@ section "lined" {
 reach "main" {
   from    = "top"
   to      = "outfall"
-  length  = max(300, 400) # want "Function calls not allowed"
+  length  = max(300, 400) # want model "Function calls not allowed"
   section = "lined"
   slope   = 0.002
 }

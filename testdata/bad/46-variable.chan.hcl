@@ -1,7 +1,7 @@
 # A bare word is a variable, not text.
 units = "si"
 section "lined" {
-  shape        = rectangle # want "Variables not allowed"
+  shape        = rectangle # want model "Variables not allowed"
   bottom_width = 2.0
   height       = 1.2
   roughness    = 0.015

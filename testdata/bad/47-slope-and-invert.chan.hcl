@@ -13,7 +13,7 @@ reach "main" {
   length  = 400
   section = "lined"
   slope   = 0.002
-  invert  = [10.8, 10.0] # want "Both slope and invert"
+  invert  = [10.8, 10.0] # want model "Both slope and invert"
 }
 event "q100" {
   inflow = { "main" = 3.0 }

@@ -16,5 +16,5 @@ reach "main" {
 }
 event "q100" {
   inflow = { "main" = 3.0 }
-  outlet = { condition = "normal" } # want "No normal depth at the outlet"
+  outlet = { condition = "normal" } # want model "No normal depth at the outlet"
 }

@@ -10,7 +10,7 @@ section "lined" {
 reach "main" {
   from    = "top"
   to      = "outfall"
-  length  = -400 # want "Value must be positive"
+  length  = -400 # want model "Value must be positive"
   section = "lined"
   slope   = 0.002
 }

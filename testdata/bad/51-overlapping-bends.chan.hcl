@@ -23,7 +23,7 @@ bend "first" {
 
 bend "second" {
   reach        = "main"
-  from_station = 180 # want "Overlapping bends"
+  from_station = 180 # want model "Overlapping bends"
   to_station   = 250
   radius       = 40
 }

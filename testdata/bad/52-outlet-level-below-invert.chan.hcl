@@ -16,5 +16,5 @@ reach "main" {
 }
 event "q100" {
   inflow = { "main" = 3.0 }
-  outlet = { elevation = 9.5 } # want "Outlet level at or below the invert"
+  outlet = { elevation = 9.5 } # want model "Outlet level at or below the invert"
 }

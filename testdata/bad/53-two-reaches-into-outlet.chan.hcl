@@ -16,7 +16,7 @@ reach "main" {
 }
 reach "side" {
   from    = "hill"
-  to      = "outfall" # want "Several reaches end at the outlet"
+  to      = "outfall" # want model "Several reaches end at the outlet"
   length  = 400
   section = "lined"
   slope   = 0.002

@@ -7,7 +7,7 @@ section "lined" {
   roughness    = 0.015
   lining       = "concrete"
 }
-reach "main" { # want "Missing bed slope"
+reach "main" { # want model "Missing bed slope"
   from    = "top"
   to      = "outfall"
   length  = 400

@@ -7,7 +7,7 @@ section "lined" {
   roughness    = 0.015
   lining       = "concrete"
 }
-reach "" { # want "Empty name"
+reach "" { # want model "Empty name"
   from    = "top"
   to      = "outfall"
   length  = 400
@@ -15,6 +15,6 @@ reach "" { # want "Empty name"
   slope   = 0.002
 }
 event "q100" {
-  inflow = { "main" = 3.0 } # want "Unknown reach"
+  inflow = { "main" = 3.0 } # want model "Unknown reach"
   outlet = { depth = 0.8 }
 }

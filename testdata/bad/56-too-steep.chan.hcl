@@ -12,7 +12,7 @@ reach "main" {
   to      = "outfall"
   length  = 400
   section = "lined"
-  slope   = 2 # want "Bed slope too steep"
+  slope   = 2 # want model "Bed slope too steep"
 }
 event "q100" {
   inflow = { "main" = 3.0 }

@@ -14,7 +14,7 @@ reach "main" {
   section = "lined"
   slope   = 0.002
 }
-weir "spill" { # want "Unsupported block type"
+weir "spill" { # want model "Unsupported block type"
   reach = "main"
 }
 event "q100" {

@@ -2,7 +2,7 @@
 units = "si"
 section "lined" {
   shape     = "points"
-  points    = [[0, 2], [0, 1], [0, 0], [6, 0], [6, 2]] # want "Three points at one offset"
+  points    = [[0, 2], [0, 1], [0, 0], [6, 0], [6, 2]] # want model "Three points at one offset"
   roughness = 0.03
 }
 reach "main" {

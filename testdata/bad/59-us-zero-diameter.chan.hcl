@@ -2,7 +2,7 @@
 units = "us"
 section "pipe" {
   shape     = "circle"
-  diameter  = 0 # want "Value must be positive"
+  diameter  = 0 # want model "Value must be positive"
   roughness = 0.013
 }
 reach "main" {

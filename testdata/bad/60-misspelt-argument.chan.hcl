@@ -7,10 +7,10 @@ section "lined" {
   roughness    = 0.015
   lining       = "concrete"
 }
-reach "main" { # want "Missing required argument"
+reach "main" { # want model "Missing required argument"
   from    = "top"
   to      = "outfall"
-  lenght  = 400 # want "Unsupported argument"
+  lenght  = 400 # want model "Unsupported argument"
   section = "lined"
   slope   = 0.002
 

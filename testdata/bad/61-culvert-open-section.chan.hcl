@@ -29,7 +29,7 @@ reach "under-road" {
   invert  = [2.06, 2.0]
 }
 culvert "wrong" {
-  reach = "above" # want "Culvert on an open section"
+  reach = "above" # want model "Culvert on an open section"
   inlet = "box-wingwalls-30-75"
 }
 event "q100" {

@@ -30,7 +30,7 @@ reach "under-road" {
 }
 culvert "road" {
   reach = "under-road"
-  inlet = "box-wingwall-30-75" # want "Unknown inlet type"
+  inlet = "box-wingwall-30-75" # want model "Unknown inlet type"
 }
 event "q100" {
   inflow = { "above" = 3.0 }

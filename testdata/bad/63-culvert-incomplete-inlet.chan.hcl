@@ -30,7 +30,7 @@ reach "under-road" {
 }
 culvert "road" {
   reach = "under-road"
-  inlet = { form = 1, K = 0.026, M = 1.0, Y = 0.81, entrance = 0.4 } # want "Unknown inlet coefficient" # want "Incomplete inlet coefficients"
+  inlet = { form = 1, K = 0.026, M = 1.0, Y = 0.81, entrance = 0.4 } # want model "Unknown inlet coefficient" # want model "Incomplete inlet coefficients"
 }
 event "q100" {
   inflow = { "above" = 3.0 }

@@ -30,7 +30,7 @@ reach "under-road" {
 }
 culvert "road" {
   reach = "under-road"
-  inlet = "square-edge-headwall" # want "Inlet type for another barrel shape"
+  inlet = "square-edge-headwall" # want model "Inlet type for another barrel shape"
 }
 event "q100" {
   inflow = { "above" = 3.0 }

@@ -31,7 +31,7 @@ reach "under-road" {
 culvert "road" {
   reach   = "under-road"
   inlet   = "box-wingwalls-30-75"
-  road    = { crest = 3.0, length = 40, width = 10 } # want "Road crest below the barrel crown"
+  road    = { crest = 3.0, length = 40, width = 10 } # want model "Road crest below the barrel crown"
 }
 event "q100" {
   inflow = { "above" = 3.0 }

@@ -4,7 +4,7 @@ section "barrel" {
   shape        = "box"
   bottom_width = 1.8
   height       = 1.2
-  diameter     = 1.2 # want "Argument not used by this shape"
+  diameter     = 1.2 # want model "Argument not used by this shape"
   roughness    = 0.013
 }
 reach "main" {

@@ -30,7 +30,7 @@ reach "under-road" {
 }
 culvert "road" {
   reach   = "under-road"
-  barrels = 1.5 # want "Invalid number of barrels"
+  barrels = 1.5 # want model "Invalid number of barrels"
   inlet   = "box-wingwalls-30-75"
 }
 event "q100" {

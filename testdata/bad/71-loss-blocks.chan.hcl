@@ -37,26 +37,26 @@ event "q100" {
 }
 loss "throat" {
   reach       = "main"
-  station     = 150 # want "No section change at the station"
+  station     = 150 # want model "No section change at the station"
   contraction = 0.1
 }
 loss "default" {
   contraction = 0.1
   expansion   = 0.2
 }
-loss "other" { # want "Second default loss"
+loss "other" { # want model "Second default loss"
   contraction = 0.3
 }
 loss "inlet" {
   node        = "mid"
-  contraction = -0.2 # want "Loss coefficient out of range"
+  contraction = -0.2 # want model "Loss coefficient out of range"
 }
 loss "both" {
   node        = "mid"
-  reach       = "main" # want "Loss at a node and in a reach"
+  reach       = "main" # want model "Loss at a node and in a reach"
   station     = 200
   contraction = 0.2
 }
-loss "bare" { # want "Missing loss coefficient"
+loss "bare" { # want model "Missing loss coefficient"
   node = "mid"
 }

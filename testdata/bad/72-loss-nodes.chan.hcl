@@ -36,10 +36,10 @@ event "q100" {
   outlet = { depth = 0.8 }
 }
 loss "inlet" {
-  node      = "midd" # want "Unknown node"
+  node      = "midd" # want model "Unknown node"
   expansion = 0.3
 }
 loss "entry" {
-  node        = "top" # want "Loss at a headwater node"
+  node        = "top" # want model "Loss at a headwater node"
   contraction = 0.2
 }

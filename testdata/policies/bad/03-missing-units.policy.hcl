@@ -1,0 +1,3 @@
+policy "x" { # want policy "Missing required argument" "\x22units\x22"
+  reference = "r"
+}

@@ -1,0 +1,4 @@
+policy "x" {
+  units     = "si"
+  reference = "manual ${edition}" # want policy "Variables not allowed"
+}

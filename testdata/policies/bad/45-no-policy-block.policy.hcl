@@ -1,0 +1,1 @@
+# nothing here # want policy "Missing policy block" "one block"

@@ -1,0 +1,3 @@
+policy "" { # want policy "Empty policy name"
+  units = "si"
+}

@@ -1,0 +1,4 @@
+policy "x" {
+  units = "si"
+  freeboard { minimum = } # want policy "Invalid expression"
+}
