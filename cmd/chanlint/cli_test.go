@@ -12,6 +12,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chanlint/chanlint/internal/want"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
@@ -248,10 +249,6 @@ func TestSolveCSVMatchesJSON(t *testing.T) {
 	assert.Equal(t, len(rows), i)
 }
 
-// wantRE matches the expectation comments of the bad corpus:
-// `# want "regexp"` on the line the diagnostic must point at.
-var wantRE = regexp.MustCompile(`#\s*want\s+"((?:[^"\\]|\\.)*)"`)
-
 // Every file of the bad corpus is invalid (exit 2) and its diagnostics
 // point at the lines its `# want` comments mark, in the GNU layout.
 func TestBadCorpus(t *testing.T) {
@@ -267,17 +264,21 @@ func TestBadCorpus(t *testing.T) {
 			require.Equal(t, exitInvalid, code, out)
 			src, err := os.ReadFile(path)
 			require.NoError(t, err)
+			// The expectations of the corpus (see internal/want): each
+			// `# want model "REGEXP"` names a line the text output must
+			// point at with a model error whose message matches.
+			ws, err := want.Parse(src)
+			require.NoError(t, err)
 			wants := 0
-			for n, line := range strings.Split(string(src), "\n") {
-				m := wantRE.FindStringSubmatch(line)
-				if m == nil {
+			for _, w := range ws {
+				if w.Rule != "model" {
 					continue
 				}
 				wants++
-				pattern, err := strconv.Unquote(`"` + m[1] + `"`)
-				require.NoError(t, err)
-				re := regexp.MustCompile(fmt.Sprintf(`(?m)^%s:%d:\d+: error: \[model\] .*%s`, regexp.QuoteMeta(name), n+1, pattern))
-				assert.Regexp(t, re, out, "line %d", n+1)
+				for _, p := range w.Patterns {
+					re := regexp.MustCompile(fmt.Sprintf(`(?m)^%s:%d:\d+: error: \[model\] .*%s`, regexp.QuoteMeta(name), w.Line, p))
+					assert.Regexp(t, re, out, "line %d", w.Line)
+				}
 			}
 			assert.NotZero(t, wants, "the corpus file marks no expected line")
 			assert.Contains(t, out, "1 file (1 invalid)")

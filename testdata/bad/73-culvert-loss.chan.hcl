@@ -38,10 +38,10 @@ event "q100" {
   outlet = { depth = 0.8 }
 }
 loss "entry" {
-  node        = "inlet" # want "Loss at a culvert"
+  node        = "inlet" # want model "Loss at a culvert"
   contraction = 0.5
 }
 loss "exit" {
-  node      = "outfall" # want "Loss at a culvert"
+  node      = "outfall" # want model "Loss at a culvert"
   expansion = 1.0
 }

@@ -13,11 +13,11 @@ reach "main" {
   length  = 400
   section = "lined"
   slope   = 0.002
-  class   = "roadside ditch" # want "Invalid class word"
+  class   = "roadside ditch" # want model "Invalid class word"
 }
 event "q100" {
   inflow        = { "main" = 3.0 }
   outlet        = { depth = 0.8 }
-  return_period = 0 # want "Value must be positive"
-  class         = "" # want "Invalid class word"
+  return_period = 0 # want model "Value must be positive"
+  class         = "" # want model "Invalid class word"
 }
