@@ -22,17 +22,17 @@ exception "freeboard" {
   reach        = "main"
   from_station = 0
   to_station   = 50
-  reason       = "." # want "Reason too short"
+  reason       = "." # want model "Reason too short"
 }
 exception "freeboard" {
   reach        = "main"
   from_station = 50
   to_station   = 60
-  reason       = "TODO: see above" # want "Reason too short"
+  reason       = "TODO: see above" # want model "Reason too short"
 }
 exception "freeboard" {
   reach        = "main"
   from_station = 60
   to_station   = 70
-  reason       = "ok ok ok ok" # want "Reason too short"
+  reason       = "ok ok ok ok" # want model "Reason too short"
 }
