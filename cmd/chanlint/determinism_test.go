@@ -14,24 +14,6 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-// buildBinary builds chanlint into a temporary directory once per test.
-func buildBinary(t *testing.T) string {
-	t.Helper()
-	if testing.Short() {
-		t.Skip("builds the binary")
-	}
-	// go test puts its own GOROOT/bin first on the PATH of the test.
-	goTool, err := exec.LookPath("go")
-	if err != nil {
-		t.Skipf("no go tool on PATH: %v", err)
-	}
-	bin := filepath.Join(t.TempDir(), "chanlint")
-	cmd := exec.Command(goTool, "build", "-o", bin, ".")
-	out, err := cmd.CombinedOutput()
-	require.NoError(t, err, "%s", out)
-	return bin
-}
-
 // determinismTree is a tree with the demo, the test models (one broken),
 // the repository's valid models and part of the bad corpus, three times
 // over, so that the worker pool interleaves files of every kind.
@@ -56,7 +38,7 @@ func determinismTree(t *testing.T) string {
 // Source: common practice (no published source): ARCHITECTURE.md, "the
 // same input gives byte-identical output whatever the number of cores".
 func TestOutputDeterministicAcrossCores(t *testing.T) {
-	bin := buildBinary(t)
+	bin := cliBinary(t)
 	dir := determinismTree(t)
 	for _, format := range []string{"text", "json", "sarif"} {
 		t.Run(format, func(t *testing.T) {

@@ -57,6 +57,11 @@ func TestReadmeSetups(t *testing.T) {
 	env := append(os.Environ(),
 		"GOMODCACHE="+strings.TrimSpace(string(modcache)),
 		"GOBIN="+bin, "PATH="+bin+string(os.PathListSeparator)+os.Getenv("PATH"),
+		// Builds from the clone, which lies in a new directory every
+		// run, hit the build cache only when paths are trimmed: a warm
+		// run then links instead of compiling chanlint again (14 s of
+		// CPU down to 5 s).
+		"GOFLAGS="+strings.TrimSpace(os.Getenv("GOFLAGS")+" -trimpath"),
 		"PRE_COMMIT_HOME="+filepath.Join(tmp, "pre-commit-cache"),
 		"GIT_CONFIG_GLOBAL="+filepath.Join(tmp, "gitconfig"), "GIT_CONFIG_NOSYSTEM=1",
 		"GIT_AUTHOR_NAME=chanlint test", "GIT_AUTHOR_EMAIL=test@example.invalid",
