@@ -36,9 +36,13 @@ Information (severity info):
   - assumption: the results rest on a simplification of the method, not
     on a failure: supercritical flows meeting at a junction (the depth
     below it is taken from the discharge-weighted energy, without the
-    shock waves), a reach that carries no discharge in the event, or a
+    shock waves), a reach that carries no discharge in the event, a
     jump held at a change of section, whose depths are those of the two
-    profiles there rather than a sequent pair.
+    profiles there rather than a sequent pair, a drowned outlet or change
+    of section where the water level carries across (Borda–Carnot), a
+    submerged gate, a jump drowned against a drop face, a jump on a steep
+    reach placed by the horizontal-bed relation, or a jump in a points
+    section that balances in force but not in energy.
 A reach of an event with no computed point, and a computed point with a
 number that is not finite, are also reported as warnings: the other rules
 could not check them.`,

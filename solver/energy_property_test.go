@@ -132,7 +132,16 @@ func TestEnergyNeverRises(t *testing.T) {
 			t.Fatalf("Solve: %v", err)
 		}
 		ev := res.Events[0]
-		tol := func(e float64) float64 { return 1e-6 * math.Max(1, math.Abs(e)) }
+		// The depths close to DefaultTolerance, so the energy of a point
+		// is known to |dE/dy|·tolerance = |1 − F²|·tolerance (large in a
+		// fast, shallow jet) on top of rounding.
+		tol := func(e float64, ps ...Point) float64 {
+			t := 1e-6 * math.Max(1, math.Abs(e))
+			for _, p := range ps {
+				t += 2 * DefaultTolerance * math.Abs(1-p.Froude*p.Froude)
+			}
+			return t
+		}
 		noted := func(rr *ReachResult, a, b float64) bool {
 			for _, n := range rr.Notes {
 				if n.Station >= a-1e-9 && n.Station <= b+1e-9 {
@@ -145,7 +154,7 @@ func TestEnergyNeverRises(t *testing.T) {
 			pts := rr.Points
 			for i := 1; i < len(pts); i++ {
 				p, c := pts[i-1], pts[i]
-				if c.Energy <= p.Energy+tol(p.Energy) || noted(rr, p.Station, c.Station) ||
+				if c.Energy <= p.Energy+tol(p.Energy, p, c) || noted(rr, p.Station, c.Station) ||
 					p.Regime == Critical || c.Regime == Critical {
 					continue
 				}
@@ -161,7 +170,7 @@ func TestEnergyNeverRises(t *testing.T) {
 				continue
 			}
 			end, start := pts[len(pts)-1], dr.Points[0]
-			if start.Energy <= end.Energy+tol(end.Energy) || noted(rr, rr.Reach.Length, rr.Reach.Length) || noted(dr, 0, 0) {
+			if start.Energy <= end.Energy+tol(end.Energy, end, start) || noted(rr, rr.Reach.Length, rr.Reach.Length) || noted(dr, 0, 0) {
 				continue
 			}
 			t.Fatalf("node %s: energy rises from %.9g at the end of %s to %.9g at the start of %s without a note\nnotes: %v / %v\n%s",

@@ -62,7 +62,9 @@ func (s *solver) gateHead(w *reachWork) {
 	var e1 float64 // specific energy upstream of the gate
 	free := yv < p0.yc && mv >= mt*(1-forceTie)
 	if free {
-		e1 = yv + jet
+		// The energy of the jet as the profile below reports it (with the
+		// section's α, 1 in a prismatic section).
+		e1 = w.f.eval(p0, yv).e
 		st.State = StateFree
 		st.Method = "free flow under a sluice gate: energy conserved from upstream to the vena contracta, depth Cc·a = " + num(g.Contraction) + " × " + num(g.Opening) + " = " + num(yv) + " (Henderson 1966, §6.2)"
 	} else {

@@ -340,3 +340,34 @@ event "q" {
 	require.Len(t, rr.Structures, 1)
 	require.InDelta(t, a.Energy-b.Energy, rr.Structures[0].HeadLoss, 1e-9)
 }
+
+// TestJunctionContractionLoss: a wide channel entering a narrow one at a
+// node with a loss block, subcritical: the energy at the end of the reach
+// above exceeds the energy at the start of the reach below by
+// k·(hv_down − hv_up) with the contraction coefficient.
+func TestJunctionContractionLoss(t *testing.T) {
+	const k = 0.5
+	wide := trapezoid("wide", 6, 2, 0.03, 5)
+	narrow := trapezoid("narrow", 2.5, 0, 0.014, 5)
+	m := buildNet(t, model.SI, []netReach{
+		{name: "above", from: "a", to: "n", length: 300, slope: 0.001, sec: wide, inflow: 9},
+		{name: "below", from: "n", to: "out", length: 300, slope: 0.001, sec: narrow},
+	}, model.Outlet{Kind: model.OutletDepth, Value: 2.0})
+	l := &model.Loss{Name: "entry", NodeName: "n", Contraction: k, Expansion: 0.3}
+	m.Losses = []*model.Loss{l}
+	m.Reaches[0].EndLoss = l
+	ev := solveOne(t, m)
+	end, start := ev.Reaches[0].Points[len(ev.Reaches[0].Points)-1], ev.Reaches[1].Points[0]
+	require.Equal(t, Subcritical, end.Regime)
+	require.Equal(t, Subcritical, start.Regime)
+	hv := func(a float64) float64 { return (9 / a) * (9 / a) / (2 * 9.80665) }
+	hvUp, hvDown := hv((6+2*end.Depth)*end.Depth), hv(2.5*start.Depth)
+	require.Greater(t, hvDown, hvUp)
+	// Source: Chow 1959, §17-2: h = k·|Δ(αV²/2g)|, contraction coefficient
+	// where the velocity head rises downstream.
+	require.InDelta(t, k*(hvDown-hvUp), (end.WSE+hvUp)-(start.WSE+hvDown), 1e-6)
+	st := ev.Reaches[0].Structures
+	require.Len(t, st, 1)
+	require.Equal(t, StateDrowned, st[0].State)
+	require.InDelta(t, k, st[0].Coefficient, 0)
+}
