@@ -176,6 +176,11 @@ func (c *Context) units() model.Units {
 // rule, reach, event, station span and message.
 func cmpFindings(a, b Finding) int { return cmpFindingPtrs(&a, &b) }
 
+// Compare orders findings as Check returns them: by file, position, then
+// rule and the rest (a caller that adds findings of its own, such as a
+// sensitivity run, sorts with it).
+func Compare(a, b *Finding) int { return cmpFindingPtrs(a, b) }
+
 // cmpFindingPtrs is cmpFindings without copying the findings.
 func cmpFindingPtrs(a, b *Finding) int {
 	pa, pb := a.Pos(), b.Pos()

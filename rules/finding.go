@@ -13,6 +13,7 @@
 package rules
 
 import (
+	"strconv"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
@@ -63,6 +64,33 @@ type Finding struct {
 	// The exception that covers this finding, when Excepted.
 	ExceptionReason string
 	ExceptionRange  hcl.Range
+	// Envelope is the finding's verdict over a sensitivity run; nil when
+	// none was made or the finding does not depend on the flow.
+	Envelope *Envelope
+}
+
+// Verdicts of a finding over a sensitivity run.
+const (
+	RobustFail  = "robust_fail" // fails in the nominal case and every perturbed one
+	KnifeEdge   = "knife_edge"  // fails in the nominal case, passes in some perturbed one
+	Sensitivity = "sensitivity" // passes in the nominal case, fails in some perturbed one
+)
+
+// Envelope is a finding's verdict over the cases of a sensitivity run.
+type Envelope struct {
+	Verdict string // RobustFail, KnifeEdge or Sensitivity
+	Cases   int    // perturbed cases solved (the nominal one not counted)
+	Failing int    // of those, the cases in which the finding fails
+	// Driver names what flips the verdict: the parameter ("roughness",
+	// "tailwater", "discharge") whose own cases flip it, several joined by
+	// " and ", or "combined" when only a corner flips it; "" for a
+	// robust fail.
+	Driver string
+	// Case is the first case, in case order, that flips the verdict (for
+	// a knife edge the first that passes, for a sensitivity finding the
+	// first that fails): "roughness +20 %", or a corner
+	// "roughness +20 %, discharge −10 %". "" for a robust fail.
+	Case string
 }
 
 // Context is what a rule's Check reads.
@@ -137,4 +165,33 @@ func (f *Finding) Where(unit string) string {
 		parts = append(parts, word+s)
 	}
 	return strings.Join(parts, ", ")
+}
+
+// Text is the verdict in words for an output line: "robust fail: fails in
+// all 14 cases", "knife-edge: fails in 9 of 14 cases; passes under
+// roughness −20 % (driven by roughness)", "sensitivity: passes as
+// designed, fails in 3 of 14 cases, first under discharge +10 % (driven by
+// discharge)".
+func (e *Envelope) Text() string {
+	if e == nil {
+		return ""
+	}
+	driven := ""
+	switch e.Driver {
+	case "":
+	case "combined":
+		driven = " (no parameter flips it alone, only several varied together)"
+	default:
+		driven = " (driven by " + e.Driver + ")"
+	}
+	of := strconv.Itoa(e.Failing) + " of " + strconv.Itoa(e.Cases) + " cases"
+	switch e.Verdict {
+	case RobustFail:
+		return "robust fail: fails in all " + strconv.Itoa(e.Cases) + " perturbed cases"
+	case KnifeEdge:
+		return "knife-edge: fails in " + of + "; passes under " + e.Case + driven
+	case Sensitivity:
+		return "sensitivity finding: passes as designed, fails in " + of + ", first under " + e.Case + driven
+	}
+	return e.Verdict
 }

@@ -28,6 +28,7 @@ func init() {
 		modelRule,
 		outletVelocityRule,
 		overtoppingRule,
+		sensitivityRule,
 		shearStressRule,
 		solverRule,
 		superelevationRule,

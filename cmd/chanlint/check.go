@@ -47,6 +47,7 @@ type checkFlags struct {
 	policy        string
 	rules, events listFlag
 	stdinName     string
+	vary          string
 	format        *choice
 	color         *choice
 	failOn        *choice
@@ -66,6 +67,7 @@ func newCheckFlags() (*checkFlags, *flag.FlagSet) {
 	fs.Var(cf.format, "format", "output format (annotations: workflow commands for GitHub Actions)")
 	fs.Var(&cf.rules, "rule", "show only findings of rule `ID` (repeatable, or a comma-separated list)")
 	fs.Var(&cf.events, "event", "show only findings of flow event `NAME` and those of no event (repeatable, or comma-separated)")
+	fs.StringVar(&cf.vary, "vary", "", "solve each event again over a sensitivity envelope `SPEC`, e.g. roughness=0.2,tailwater=0.3,discharge=0.1 (replaces the policy's sensitivity block)")
 	fs.StringVar(&cf.stdinName, "stdin-name", "", "the `NAME` a model read from standard input (PATH -) is printed with (default "+stdinName+")")
 	fs.Var(cf.color, "color", "colour text output; auto colours a terminal unless NO_COLOR is set")
 	fs.Var(cf.failOn, "fail-on", "lowest severity that makes the exit status 1")
@@ -135,6 +137,13 @@ func (a *app) runCheck(args []string) int {
 		return a.usageError(c, "--write-baseline records every finding; it cannot be combined with --rule or --event")
 	}
 	a.stdinName = cf.stdinName
+	if cf.vary != "" {
+		s, err := pipeline.ParseSensitivity(cf.vary)
+		if err != nil {
+			return a.usageError(c, "--vary: %v", err)
+		}
+		a.vary = &s
+	}
 	pal := newPalette(a.useColor(cf.color.value, a.stdoutTTY))
 	errPal := newPalette(a.useColor(cf.color.value, a.stderrTTY))
 
@@ -272,7 +281,7 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 		if src, err := a.readStdin(); err != nil {
 			results = append(results, pipeline.Unreadable(name, err))
 		} else {
-			results = append(results, pipeline.Parse(pipeline.File{Name: name}, src).Check(pol, pipeline.Options{Keep: k, Stderr: a.stderr, Solver: solveOptions}))
+			results = append(results, pipeline.Parse(pipeline.File{Name: name}, src).CheckVaried(pol, a.pipelineOptions(k), max(jobs, a.defaultJobs)))
 		}
 		if len(rest) == 0 {
 			return results
@@ -290,9 +299,14 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 		jobs = a.defaultJobs
 	}
 	prog := a.newProgress(len(files))
-	checked := pipeline.CheckFiles(files, pol, pipeline.Options{Keep: k, Stderr: a.stderr, Solver: solveOptions}, jobs, prog.step)
+	checked := pipeline.CheckFiles(files, pol, a.pipelineOptions(k), jobs, prog.step)
 	prog.done()
 	return append(results, checked...)
+}
+
+// pipelineOptions are the options of every check of this run.
+func (a *app) pipelineOptions(k pipeline.Keep) pipeline.Options {
+	return pipeline.Options{Keep: k, Stderr: a.stderr, Solver: solveOptions, Vary: a.vary}
 }
 
 // stdinName is the name a model read from standard input is printed with
@@ -507,6 +521,9 @@ func (c *checkRun) writeClosing(w io.Writer, p *palette) {
 			}
 		}
 	}
+	for _, line := range c.sensitivityLines() {
+		fmt.Fprintln(w, line)
+	}
 	fmt.Fprintln(w, c.app.policyLine(c.policy, c.info))
 	for _, n := range c.info.Notes() {
 		if n.Warn {
@@ -516,6 +533,48 @@ func (c *checkRun) writeClosing(w io.Writer, p *palette) {
 		fmt.Fprintln(w, safetext.Text(n.Text))
 	}
 	fmt.Fprintln(w, p.dim.Sprint(rules.Caution))
+}
+
+// sensitivityLines account for the sensitivity runs made, one line for
+// each size of run: "sensitivity: each event solved in 14 more cases
+// (roughness ±20 %, ...): 1 robust fail, 2 knife-edge, 3 sensitivity
+// findings".
+func (c *checkRun) sensitivityLines() []string {
+	type tally struct{ cases, robust, knife, extra int }
+	var order []string
+	runs := map[string]*tally{}
+	for _, r := range c.results {
+		if !r.Sensitivity.Active() {
+			continue
+		}
+		desc := r.Sensitivity.String()
+		t := runs[desc]
+		if t == nil {
+			t = &tally{cases: len(r.Cases)}
+			runs[desc] = t
+			order = append(order, desc)
+		}
+		for _, f := range c.shown[r.File.Name] {
+			if f.Envelope == nil {
+				continue
+			}
+			switch f.Envelope.Verdict {
+			case rules.RobustFail:
+				t.robust++
+			case rules.KnifeEdge:
+				t.knife++
+			case rules.Sensitivity:
+				t.extra++
+			}
+		}
+	}
+	var lines []string
+	for _, desc := range order {
+		t := runs[desc]
+		lines = append(lines, fmt.Sprintf("sensitivity: each event solved in %d more cases (%s): %d robust fail, %d knife-edge, %s",
+			t.cases, desc, t.robust, t.knife, plural(t.extra, "sensitivity finding", "sensitivity findings")))
+	}
+	return lines
 }
 
 func (c *checkRun) writeSARIF(w io.Writer) error {

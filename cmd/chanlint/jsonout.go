@@ -48,6 +48,19 @@ type findingJSON struct {
 	// Baseline is "new" or "worse" (recorded, but much worse) when a
 	// --baseline was given; known findings are not listed.
 	Baseline string `json:"baseline,omitempty"`
+	// Envelope is the verdict over a sensitivity run (--vary or the
+	// policy's sensitivity block); omitted without one and for findings
+	// that do not depend on the flow.
+	Envelope *envelopeJSON `json:"envelope,omitempty"`
+}
+
+// envelopeJSON is rules.Envelope.
+type envelopeJSON struct {
+	Verdict string `json:"verdict"` // robust_fail, knife_edge or sensitivity
+	Cases   int    `json:"cases"`
+	Failing int    `json:"failing"`
+	Driver  string `json:"driver,omitempty"`
+	Case    string `json:"case,omitempty"`
 }
 
 // summaryJSON counts the findings shown; excepted findings are counted
@@ -111,6 +124,9 @@ func newFindingJSON(f *rules.Finding) findingJSON {
 	}
 	if f.HasSpan {
 		j.FromStation, j.ToStation = finite(f.FromStation), finite(f.ToStation)
+	}
+	if e := f.Envelope; e != nil {
+		j.Envelope = &envelopeJSON{Verdict: e.Verdict, Cases: e.Cases, Failing: e.Failing, Driver: e.Driver, Case: e.Case}
 	}
 	if f.HasValue {
 		j.Value, j.Limit = finite(f.Value), finite(f.Limit)

@@ -45,6 +45,7 @@ package main
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"io"
 	"os"
 	"runtime"
@@ -114,8 +115,11 @@ type app struct {
 	// stdin is read for the PATH "-"; stdinName (--stdin-name) names it.
 	stdin     io.Reader
 	stdinName string
-	cwd       string
-	getenv    func(string) string
+	// vary is the sensitivity run asked on the command line (--vary); nil
+	// leaves it to the policy's sensitivity block.
+	vary   *pipeline.Sensitivity
+	cwd    string
+	getenv func(string) string
 	// stdoutTTY and stderrTTY say whether the streams are terminals; they
 	// decide automatic colour and the progress line.
 	stdoutTTY, stderrTTY bool

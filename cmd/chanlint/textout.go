@@ -262,11 +262,17 @@ func writeFindingText(w io.Writer, f *rules.Finding, src []byte, unit string, p 
 		if f.Remedy != "" {
 			writeContinuation(w, "remedy", safetext.Text(f.Remedy), p)
 		}
+		if f.Envelope != nil {
+			writeContinuation(w, "envelope", f.Envelope.Text(), p)
+		}
 		return
 	}
 	fmt.Fprintf(w, "%s %s: %s %s%s\n", place, p.severity(f.Severity), rule, head, msg)
 	if f.Remedy != "" {
 		writeContinuation(w, "remedy", safetext.Text(f.Remedy), p)
+	}
+	if f.Envelope != nil {
+		writeContinuation(w, "envelope", f.Envelope.Text(), p)
 	}
 	if f.Rule == "model" {
 		fmt.Fprint(w, snippet(src, f.Range, p))

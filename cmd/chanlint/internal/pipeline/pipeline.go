@@ -78,6 +78,13 @@ type Options struct {
 	Keep   Keep
 	// Stderr receives the stack of a recovered panic; nil discards it.
 	Stderr io.Writer
+	// Vary asks for a sensitivity run of these sizes in place of the
+	// policy's sensitivity block; nil: the policy's block, if any, decides
+	// (see CheckVaried).
+	Vary *Sensitivity
+	// jobs is the number of workers of a sensitivity run's cases (set by
+	// CheckFiles).
+	jobs int
 }
 
 // Result is what is learnt about one model file.
@@ -96,6 +103,14 @@ type Result struct {
 	// Invalid is true when the file could not be read, parsed or solved,
 	// or its check failed: the run must exit with status 2.
 	Invalid bool
+	// Sensitivity is the sensitivity run made, in the model's units; zero
+	// when none was.
+	Sensitivity Sensitivity
+	// Cases are the perturbed cases of the sensitivity run, in order.
+	Cases []Case
+	// Bands are the water-surface ranges of the sensitivity run (see
+	// Keep.Solved); nil without one.
+	Bands []Band
 }
 
 // Unit is the length unit of the result's model ("m" when unknown).
@@ -222,7 +237,7 @@ func CheckFile(f File, pol *policies.Policy, opts Options) (r *Result) {
 			r.recovered(v, opts.Stderr)
 		}
 	}()
-	return Load(f).Check(pol, opts)
+	return Load(f).CheckVaried(pol, opts, opts.jobs)
 }
 
 // CheckFiles checks files on up to jobs goroutines (at least one) and
@@ -232,6 +247,7 @@ func CheckFile(f File, pol *policies.Policy, opts Options) (r *Result) {
 // the workers and serialised.
 func CheckFiles(files []File, pol *policies.Policy, opts Options, jobs int, done func()) []*Result {
 	out := make([]*Result, len(files))
+	opts.jobs = jobs
 	if opts.Stderr != nil {
 		opts.Stderr = &lockedWriter{w: opts.Stderr}
 	}
