@@ -45,6 +45,7 @@ func ExampleLanguage_Configurable() {
 	// min_velocity warning
 	// outlet_velocity warning
 	// overtopping error
+	// sensitivity warning
 	// shear_stress error
 	// superelevation error
 }

@@ -70,7 +70,7 @@ func TestParseEveryConstruct(t *testing.T) {
 	assert.Equal(t, "Alder County Drainage Manual, ch. 5", p.Reference)
 	assert.Equal(t, "deny", p.Exceptions)
 	assert.Equal(t, []string{path}, p.Chain)
-	assert.ElementsMatch(t, rules.Language().Configurable(), keys(p.Rules))
+	assert.ElementsMatch(t, rules.Language().Criteria(), keys(p.Rules))
 
 	fb := p.Rules["freeboard"]
 	assert.Equal(t, 1.0, fb.Number("minimum"))

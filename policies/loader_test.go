@@ -138,7 +138,7 @@ func TestExtendsPack(t *testing.T) {
 	assert.Equal(t, "pack:baseline", p.Rules["freeboard"].File)
 	// Source: 0.3 m / 0.3048 m/ft (exact definition of the foot).
 	assert.InDelta(t, 0.3/0.3048, p.Rules["freeboard"].Number("minimum"), 1e-12)
-	assert.Len(t, p.Rules, len(rules.Language().Configurable()))
+	assert.Len(t, p.Rules, len(rules.Language().Criteria()))
 }
 
 func TestExtendsPackPrefix(t *testing.T) {

@@ -40,7 +40,7 @@ func TestBaselineTurnsOnEveryRule(t *testing.T) {
 	for _, n := range []string{"baseline", "baseline-us", "strict"} {
 		p, diags := rules.Language().Pack(n)
 		require.Empty(t, diags)
-		assert.ElementsMatch(t, rules.Language().Configurable(), keys(p.Rules), n)
+		assert.ElementsMatch(t, rules.Language().Criteria(), keys(p.Rules), n)
 		for id, rc := range p.Rules {
 			assert.Equal(t, id, rc.Rule)
 		}

@@ -281,6 +281,10 @@ type RuleSpec struct {
 	// AlwaysOn rules run whatever the policy says; a block for one is an
 	// error (a submittal's policy cannot switch them off).
 	AlwaysOn bool
+	// OptIn marks a block that is not a design criterion of its own but
+	// asks for more work (a sensitivity run): the built-in packs leave it
+	// out, and a policy that does not write it turns nothing off.
+	OptIn    bool
 	Settings []Setting
 	Together []Group
 }
@@ -418,6 +422,19 @@ func (l *Language) Spec(id string) *RuleSpec {
 
 // Configurable returns the ids of the rules the policy language accepts
 // as blocks, sorted.
+// Criteria are the configurable rules that are design criteria: every
+// configurable rule but the opt-in blocks. The built-in packs turn on all
+// of them.
+func (l *Language) Criteria() []string {
+	var ids []string
+	for _, s := range l.specs {
+		if !s.AlwaysOn && !s.OptIn {
+			ids = append(ids, s.ID)
+		}
+	}
+	return ids
+}
+
 func (l *Language) Configurable() []string {
 	var ids []string
 	for _, s := range l.specs {

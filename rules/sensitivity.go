@@ -12,6 +12,7 @@ var sensitivityRule = &Rule{
 	RuleSpec: policies.RuleSpec{
 		ID:       SensitivityID,
 		Severity: policies.Warning,
+		OptIn:    true,
 		Settings: []policies.Setting{
 			{Name: "roughness", Kind: policies.Number, Quantity: policies.Ratio, Bounds: policies.Within(0, 0.9),
 				Doc: "the share by which every Manning's n is raised and lowered (0.2: n × 0.8 and n × 1.2)"},
