@@ -612,6 +612,10 @@ func row(n int, f rules.Finding) findingRow {
 	}
 	if f.HasValue {
 		r.Value, r.Limit = num(f.Value), num(f.Limit)
+		if f.Unit != "" {
+			r.Value += " " + f.Unit
+			r.Limit += " " + f.Unit
+		}
 	}
 	return r
 }
@@ -653,28 +657,14 @@ func slug(s string) string {
 	return s
 }
 
-// num prints a measured value with three significant figures at most and
-// at most three decimals (a finite number always; "–" otherwise).
+// num prints a measured value as every output of chanlint does
+// (rules.Num: three significant figures, never fewer digits than the
+// integer part); "–" for a number that is not finite.
 func num(x float64) string {
 	if !isFinite(x) {
 		return "–"
 	}
-	ax := math.Abs(x)
-	d := 3
-	switch {
-	case ax >= 100:
-		d = 1
-	case ax >= 10:
-		d = 2
-	}
-	s := strconv.FormatFloat(x, 'f', d, 64)
-	if strings.Contains(s, ".") {
-		s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
-	}
-	if s == "-0" {
-		s = "0"
-	}
-	return s
+	return rules.Num(x)
 }
 
 // num2 prints a dimensionless number with two decimals.
@@ -685,11 +675,13 @@ func num2(x float64) string {
 	return strconv.FormatFloat(x, 'f', 2, 64)
 }
 
+// stationRange is a station span as the text output prints it (both ends
+// to the same decimals).
 func stationRange(from, to float64) string {
-	if from == to {
-		return num(from)
+	if !isFinite(from) || !isFinite(to) {
+		return num(from) + " – " + num(to)
 	}
-	return num(from) + " – " + num(to)
+	return strings.Replace(rules.Span(from, to), "–", " – ", 1)
 }
 
 func plural(n int, word string) string {

@@ -168,9 +168,12 @@ func TestNumNeverPrintsNaN(t *testing.T) {
 	nan := 0.0
 	nan = nan / nan
 	assert.Equal(t, "–", num(nan))
-	assert.Equal(t, "0.18", num(0.18))
-	assert.Equal(t, "1234.5", num(1234.5))
-	assert.Equal(t, "0", num(-0.0001))
+	// The report prints numbers as the text output does (rules.Num).
+	for _, x := range []float64{0.18, 1234.5, -0.0001, 6.6438} {
+		assert.Equal(t, rules.Num(x), num(x))
+	}
+	assert.Equal(t, "6.64", num(6.6438))
+	assert.Equal(t, "305 – 350", stationRange(305.2855, 350))
 }
 
 func TestUnsolvedAndEmpty(t *testing.T) {
