@@ -233,3 +233,94 @@ func TestCulvertProperties(t *testing.T) {
 		}
 	})
 }
+
+// TestCulvertSIAndUS: the same culvert written in metres and in feet gives
+// the same headwaters, flows and velocities once converted.
+// Source: common practice (no published source): 1 ft = 0.3048 m exactly;
+// the constants differ by their rounding only (Ku 1.811 for √3.28084,
+// Manning's 1.486 for 1.48592, the weir's 3.0 ft^0.5/s exact in both),
+// hence the 0.2 % tolerance.
+func TestCulvertSIAndUS(t *testing.T) {
+	const ft = 1 / 0.3048
+	src := func(units string, l float64) string {
+		return fmt.Sprintf(`units = %q
+section "approach" {
+  shape        = "rectangle"
+  bottom_width = %g
+  height       = %g
+  roughness    = 0.03
+}
+section "barrel" {
+  shape        = "box"
+  bottom_width = %g
+  height       = %g
+  roughness    = 0.013
+}
+reach "approach" {
+  from    = "top"
+  to      = "inlet"
+  length  = %g
+  section = "approach"
+  invert  = [%g, %g]
+}
+reach "barrel" {
+  from    = "inlet"
+  to      = "outlet"
+  length  = %g
+  section = "barrel"
+  invert  = [%g, %g]
+}
+culvert "c" {
+  reach   = "barrel"
+  barrels = 2
+  inlet   = "box-wingwalls-30-75"
+  road    = { crest = %g, length = %g, width = %g }
+}
+event "low" {
+  inflow = { "approach" = %g }
+  outlet = { depth = %g }
+}
+event "flood" {
+  inflow = { "approach" = %g }
+  outlet = { depth = %g }
+}
+`, units, 8*l, 5*l, 1.8*l, 1.2*l, 150*l, 10.4*l, 10.2*l, 30*l, 10.0*l, 9.94*l, 11.9*l, 25*l, 10*l,
+			3*l*l*l, 0.6*l, 25*l*l*l, 1.1*l)
+	}
+	_, si := solveCulvert2(t, src("si", 1))
+	_, us := solveCulvert2(t, src("us", ft))
+	for i := range si {
+		a, b := si[i], us[i]
+		for _, c := range []struct {
+			what   string
+			si, us float64
+			scale  float64
+		}{
+			{"headwater", a.Headwater, b.Headwater, ft},
+			{"inlet control", a.InletHeadwater, b.InletHeadwater, ft},
+			{"outlet control", a.OutletHeadwater, b.OutletHeadwater, ft},
+			{"barrel flow", a.BarrelFlow, b.BarrelFlow, ft * ft * ft},
+			{"outlet velocity", a.OutletVelocity, b.OutletVelocity, ft},
+		} {
+			geoClose(t, c.us, c.si*c.scale, 2e-3, "%s, event %d", c.what, i)
+		}
+		assert.Equal(t, a.Control, b.Control)
+		assert.Equal(t, a.InletRegime, b.InletRegime)
+	}
+	assert.Greater(t, si[1].RoadFlow, 0.0, "the flood overtops the road")
+	geoClose(t, us[1].RoadFlow, si[1].RoadFlow*ft*ft*ft, 2e-2, "road flow") // a small share: its relative error is larger
+}
+
+// solveCulvert2 solves a model and returns the first culvert of every event.
+func solveCulvert2(t *testing.T, src string) (*Result, []*CulvertResult) {
+	t.Helper()
+	m := parseModel(t, "c.chan.hcl", []byte(src))
+	res, err := Solve(m, Options{})
+	require.NoError(t, err)
+	var out []*CulvertResult
+	for _, ev := range res.Events {
+		require.Len(t, ev.Culverts, 1)
+		out = append(out, ev.Culverts[0])
+	}
+	return res, out
+}
