@@ -217,6 +217,19 @@ func (d *decoder) points(s *Section, a attrSet) {
 	}
 	if a.has("height") {
 		s.Height, _ = a.positive("height", d.unitSuffix())
+		// A height above the surveyed ground at an end would put the top
+		// of bank on imaginary walls: water above the ground there spills
+		// out of the section, and a capacity check against the height
+		// would pass a flow that overtops the real ground.
+		if ground := min(first.Elevation, last.Elevation) - low; s.Height > ground*(1+1e-9) {
+			end, elev := "left", first.Elevation
+			if last.Elevation < first.Elevation {
+				end, elev = "right", last.Elevation
+			}
+			d.errorf(a.m["height"].Expr.Range(), "Height above the ground",
+				"height of %s is %g%s above its lowest point, but the surveyed ground at its %s end (elevation %g) is only %g%s above it: water above the ground would spill out of the section. Lower height to at most %g, or extend the points to higher ground.",
+				a.what, s.Height, d.unitSuffix(), end, elev, ground, d.unitSuffix(), ground)
+		}
 	} else {
 		s.Height = min(first.Elevation, last.Elevation) - low
 		if s.Height <= 0 {

@@ -50,3 +50,35 @@ exception "capacity" {
 	assert.Contains(t, out, "Reason too short")
 	assert.Contains(t, out, "models/slow.chan.hcl", "the other files are still checked")
 }
+
+// A points section whose height reaches above the surveyed ground at an
+// end (imaginary banks that would let a flow above the ground pass the
+// capacity check) is an error at the height; the other files are still
+// reported.
+func TestImaginaryBanksAreRefused(t *testing.T) {
+	repo, _ := hostileTree(t)
+	m := `units = "si"
+section "valley" {
+  shape     = "points"
+  points    = [[0, 1.2], [4, 0], [8, 0], [12, 2.5]]
+  height    = 2.5
+  roughness = 0.035
+}
+reach "brook" {
+  from    = "a"
+  to      = "b"
+  length  = 100
+  section = "valley"
+  slope   = 0.001
+}
+event "q100" {
+  inflow = { brook = 8 }
+  outlet = { condition = "normal" }
+}
+`
+	require.NoError(t, os.WriteFile(filepath.Join(repo, "models", "valley.chan.hcl"), []byte(m), 0o644))
+	code, out, _ := runIn(repo, runOpts{}, "check", "--color", "never", "models")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, out, "models/valley.chan.hcl:5:15: error: [model] Height above the ground: height of section \"valley\" is 2.5 m above its lowest point, but the surveyed ground at its left end (elevation 1.2) is only 1.2 m above it")
+	assert.Contains(t, out, "models/slow.chan.hcl", "the other files are still reported")
+}
