@@ -3,7 +3,7 @@ units = "si"
 section "lined" {
   shape     = "points"
   points    = [[0, 2], [5, 0], [10, 2.4]]
-  height    = 3.5 # want "Height above the ground"
+  height    = 3.5 # want model "Height above the ground"
   roughness = 0.03
 }
 reach "main" {
