@@ -106,6 +106,13 @@ func fuzzModel(data []byte) string {
 		}
 		b.WriteString("}\n")
 	}
+	// Local losses: at the junction node, and a model-wide default.
+	if len(reaches) > 1 && f.pick(3) == 0 {
+		fmt.Fprintf(&b, "loss \"node\" {\n  node = \"mid\"\n  contraction = %.4g\n  expansion = %.4g\n}\n", f.in(0, 1), f.in(0, 2))
+	}
+	if f.pick(3) == 0 {
+		fmt.Fprintf(&b, "loss \"default\" {\n  contraction = %.4g\n  expansion = %.4g\n}\n", f.in(0, 1), f.in(0, 2))
+	}
 	b.WriteString("event \"e\" {\n  inflow = {")
 	for i, r := range reaches {
 		if r.name == "main" && len(reaches) > 1 && f.pick(2) == 0 {

@@ -10,18 +10,19 @@ import (
 // control, junctions, sluice gates and entrance depths.
 //
 // Junction rules (dendritic network):
-//   - Subcritical: energy balance without loss. Every reach ending at a
-//     node gets as its downstream control the energy grade elevation H at
-//     the start of the reach leaving the node; its end depth solves
-//     z + E(y) = H on the subcritical branch of its own section. If H is
-//     below the reach's critical energy (a drop at the junction), the reach
-//     ends at critical depth: a free fall into the junction, which is a
-//     control and not a numerical fallback.
+//   - Subcritical: every reach ending at a node gets as its downstream
+//     control the water level, velocity head and energy grade elevation H
+//     at the start of the reach leaving the node, and ends free (critical
+//     depth, when the level below is under its critical level) or drowned
+//     (z + E(y) = H plus the node's local loss, on the subcritical branch
+//     of its own section); see nodes.go. A free fall is a control, not a
+//     numerical fallback, and passes the brink's energy to the reach below
+//     (drops.go).
 //   - Supercritical inflow: when at least one incoming reach arrives
 //     supercritical, the outgoing reach starts on its supercritical branch
 //     at the discharge-weighted energy grade elevation of all incoming
-//     flows, H = Σ Qᵢ·Hᵢ / Σ Qᵢ (conservation of energy flux without
-//     loss), and its supercritical profile is then compared with its
+//     flows, H = Σ Qᵢ·Hᵢ / Σ Qᵢ (conservation of energy flux), less the
+//     node's local loss, and its supercritical profile is then compared with its
 //     subcritical one as for any upstream control. With more than one
 //     incoming reach a NoteInfo records the rule. If H is below the
 //     outgoing reach's critical energy, critical depth is taken, with a

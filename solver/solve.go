@@ -97,7 +97,9 @@ const (
 //     basin and bend ends, and at station 0 where a gate stands.
 //   - A change of section (a segment boundary) is a transition without
 //     friction loss: two points share the station, one in each section,
-//     with equal energy.
+//     with equal energy less the local loss there (losses.go), or, where
+//     that has no subcritical solution under a level above the upstream
+//     critical level, drowned at that level (Borda–Carnot).
 //   - Jumps: the toe is where the specific forces of the two profiles are
 //     equal; the profile reports the supercritical depth y1 and the
 //     subcritical depth y2 at the toe (two points at one station) and the
@@ -110,7 +112,9 @@ const (
 //     profile zones use the latter. A jump whose two depths cannot balance
 //     in specific force (held at a section change, a junction, or the start
 //     of the subcritical profile) carries a NoteInfo at its toe.
-//   - Junctions, gates and outlet controls: see network.go.
+//   - Junctions, gates and outlet controls: see network.go; free and
+//     drowned outlets nodes.go, local losses losses.go, drops and free
+//     overfalls drops.go, sluice gates gates.go.
 //   - Slope classes and profile types: see classOf and profileType.
 //
 // The error is only for limits (ErrTooManyPoints, Options.MaxPoints,
