@@ -298,6 +298,7 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 	if jobs == 0 {
 		jobs = a.defaultJobs
 	}
+	scaleMemoryLimit(heldBytes(found, jobs, k))
 	prog := a.newProgress(len(files))
 	checked := pipeline.CheckFiles(files, pol, a.pipelineOptions(k), jobs, prog.step)
 	prog.done()
@@ -307,6 +308,33 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 // pipelineOptions are the options of every check of this run.
 func (a *app) pipelineOptions(k pipeline.Keep) pipeline.Options {
 	return pipeline.Options{Keep: k, Stderr: a.stderr, Solver: solveOptions, Vary: a.vary}
+}
+
+// heldBytes estimates what a run holds in memory at once, for the soft
+// memory limit: the model text being decoded and solved (every file when
+// the models and solutions are kept, as by report, else the largest files
+// the workers have in flight at a time) and the sources kept as they are
+// (SARIF's artifacts).
+func heldBytes(found []modelFile, jobs int, k pipeline.Keep) (solving, kept int64) {
+	sizes := make([]int64, 0, len(found))
+	var total int64
+	for _, f := range found {
+		if fi, err := os.Stat(f.abs); err == nil && fi.Mode().IsRegular() {
+			sizes = append(sizes, fi.Size())
+			total += fi.Size()
+		}
+	}
+	if k.Source {
+		kept = total
+	}
+	if k.Solved {
+		return total, kept
+	}
+	slices.Sort(sizes)
+	for i := len(sizes) - 1; i >= 0 && i >= len(sizes)-max(jobs, 1); i-- {
+		solving += sizes[i]
+	}
+	return solving, kept
 }
 
 // stdinName is the name a model read from standard input is printed with

@@ -3,6 +3,7 @@
 package main
 
 import (
+	"os"
 	"syscall"
 	"time"
 )
@@ -15,4 +16,13 @@ func cpuTime() time.Duration {
 		return 0
 	}
 	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
+}
+
+// childPeakRSS is the peak resident set size in bytes of a finished child
+// process (ru_maxrss is in kilobytes on Linux).
+func childPeakRSS(ps *os.ProcessState) float64 {
+	if ru, ok := ps.SysUsage().(*syscall.Rusage); ok {
+		return float64(ru.Maxrss) * 1024
+	}
+	return 0
 }

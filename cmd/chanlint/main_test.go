@@ -25,7 +25,7 @@ func TestMain(m *testing.M) {
 // cliBinary is the path of a chanlint binary for subprocesses: this test
 // binary, with cliEnv set for the test's duration so that the processes it
 // starts with os.Environ() run as chanlint.
-func cliBinary(t *testing.T) string {
+func cliBinary(t testing.TB) string {
 	t.Helper()
 	bin, err := os.Executable()
 	if err != nil {

@@ -16,6 +16,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"runtime/debug"
 	"strconv"
@@ -95,10 +96,12 @@ func checkChain(b *testing.B, src []byte, pol *policies.Policy) int {
 func binaryGC(b *testing.B) {
 	pct := debug.SetGCPercent(100)
 	lim := debug.SetMemoryLimit(-1) // a negative limit only reads it
+	tuned := gcLimitTuned.Load()
 	tuneGC(os.Getenv)
 	b.Cleanup(func() {
 		debug.SetGCPercent(pct)
 		debug.SetMemoryLimit(lim)
+		gcLimitTuned.Store(tuned)
 	})
 }
 
@@ -365,4 +368,37 @@ type countingWriter int
 func (c *countingWriter) Write(p []byte) (int, error) {
 	*c += countingWriter(len(p))
 	return len(p), nil
+}
+
+// BenchmarkMemoryLimit10k: `chanlint check` of one 10,000-reach chain
+// (1.15 MB) as a process, under the fixed 100 MiB soft limit, the limit
+// scaled with the input (the binary's default) and no limit: wall and
+// CPU time and the peak resident set of the process.
+func BenchmarkMemoryLimit10k(b *testing.B) {
+	dir := b.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "trunk.chan.hcl"), chainModel(10000, 3000, 0), 0o644); err != nil {
+		b.Fatal(err)
+	}
+	bin := cliBinary(b)
+	for _, c := range []struct{ name, limit string }{{"fixed-100MiB", "100MiB"}, {"scaled", ""}, {"none", "off"}} {
+		b.Run(c.name, func(b *testing.B) {
+			var cpu time.Duration
+			peak := 0.0
+			for b.Loop() {
+				cmd := exec.Command(bin, "check", "--color", "never", "trunk.chan.hcl")
+				cmd.Dir = dir
+				// An empty GOMEMLIMIT is no setting of the user's.
+				cmd.Env = append(os.Environ(), "GOMEMLIMIT="+c.limit)
+				if err := cmd.Run(); err != nil {
+					if _, ok := err.(*exec.ExitError); !ok {
+						b.Fatal(err)
+					}
+				}
+				cpu += cmd.ProcessState.UserTime() + cmd.ProcessState.SystemTime()
+				peak = max(peak, childPeakRSS(cmd.ProcessState))
+			}
+			b.ReportMetric(float64(cpu.Milliseconds())/float64(b.N), "cpu-ms/op")
+			b.ReportMetric(peak/1e6, "peak-MB")
+		})
+	}
 }
