@@ -219,6 +219,7 @@ func (c *RuleConfig) with(rc *RuleConfig) *RuleConfig {
 // decodeRule decodes one rule block generically from its spec; enabled is
 // false for enabled = false.
 func (d *decoder) decodeRule(spec *RuleSpec, block *hcl.Block, file string) (rc *RuleConfig, enabled bool) {
+	before := len(d.diags)
 	content, diags := block.Body.Content(ruleSchema(spec))
 	d.diags = append(d.diags, diags...)
 	rc = &RuleConfig{
@@ -284,6 +285,10 @@ func (d *decoder) decodeRule(spec *RuleSpec, block *hcl.Block, file string) (rc 
 	}
 	if enabled && !diags.HasErrors() {
 		d.required(spec, content)
+		if spec.NeedsEvents && !d.diags[before:].HasErrors() && rc.Events == nil && !rc.Select.HasReturnPeriod && rc.Select.EventClasses == nil {
+			d.errorf(block.DefRange, fmt.Sprintf("Missing %s events", spec.ID),
+				"The %s rule applies only to the events the policy names: write events = [...], return_period = [low, high] or event_classes = [...], e.g. return_period = [null, 2] for frequent flows.", spec.ID)
+		}
 	}
 	return rc, enabled
 }

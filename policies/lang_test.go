@@ -28,12 +28,29 @@ const everyConstruct = `policy "alder-review" {
     limit = { concrete = 20.0, "dumped riprap" = 9.5, rock = null, default = 3.0 }
   }
   min_velocity {
-    limit   = 2.0
-    enabled = true
+    limit         = 2.0
+    enabled       = true
+    return_period = [null, 2]
   }
   froude_band {
     avoid = [[1.5, 2.0], [0.86, 1.13]]
   }
+  side_slope {
+    minimum       = 4
+    reach_classes = ["roadside-ditch"]
+    section       = "5.4.1"
+  }
+  bottom_width {
+    minimum = 2
+  }
+  bed_slope {
+    minimum = { grass = 0.005, default = 0.002 }
+    maximum = 0.05
+  }
+  public_safety {
+    depth_velocity = 4.3
+  }
+  bend_radius {}
   jump_containment {}
   jump_type {
     avoid    = [[2.5, 4.5]]
@@ -227,7 +244,10 @@ func TestContradictoryVelocityLimitsWarn(t *testing.T) {
 	src := `policy "x" {
   units = "us"
   max_velocity { limit = { grass = 1.5, concrete = 20, default = 3.0 } }
-  min_velocity { limit = 2.0 }
+  min_velocity {
+    limit  = 2.0
+    events = ["q10"]
+  }
 }`
 	p, diags, _ := loadSource(t, src)
 	require.NotNil(t, p, "a warning does not stop the load")

@@ -5,6 +5,7 @@ import (
 	"bytes"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
@@ -18,7 +19,7 @@ import (
 
 func TestPacksLoadWithoutDiagnostics(t *testing.T) {
 	names := policies.PackNames()
-	assert.Equal(t, []string{"baseline", "baseline-us", "strict"}, names)
+	assert.Equal(t, []string{"baseline", "baseline-us", "review", "strict"}, names)
 	for _, n := range names {
 		p, diags := rules.Language().Pack(n)
 		require.Empty(t, diags, n)
@@ -36,11 +37,30 @@ func TestPacksLoadWithoutDiagnostics(t *testing.T) {
 	assert.True(t, diags.HasErrors())
 }
 
+// manualRules are the criteria a local manual sets by facility class or
+// storm class (side slopes, bottom width, bed slope, public safety, bend
+// radius, minimum velocity for the events it names): the screening packs
+// leave them off; the review pack turns on those with a published value.
+var manualRules = []string{"bed_slope", "bend_radius", "bottom_width", "min_velocity", "public_safety", "side_slope"}
+
 func TestBaselineTurnsOnEveryRule(t *testing.T) {
+	var screening []string
+	for _, id := range rules.Language().Criteria() {
+		if !slices.Contains(manualRules, id) {
+			screening = append(screening, id)
+		}
+	}
 	for _, n := range []string{"baseline", "baseline-us", "strict"} {
 		p, diags := rules.Language().Pack(n)
 		require.Empty(t, diags)
-		assert.ElementsMatch(t, rules.Language().Criteria(), keys(p.Rules), n)
+		assert.ElementsMatch(t, screening, keys(p.Rules), n)
+	}
+	review, diags := rules.Language().Pack("review")
+	require.Empty(t, diags)
+	assert.ElementsMatch(t, append(screening, "bend_radius", "min_velocity", "side_slope"), keys(review.Rules))
+	assert.Equal(t, "2026.1", review.Version)
+	for _, n := range []string{"baseline", "baseline-us", "strict", "review"} {
+		p, _ := rules.Language().Pack(n)
 		for id, rc := range p.Rules {
 			assert.Equal(t, id, rc.Rule)
 		}
@@ -123,15 +143,6 @@ func TestStrictIsTighterThanBaseline(t *testing.T) {
 	assert.Equal(t, []string{"pack:strict", "pack:baseline"}, strict.Chain)
 	assert.GreaterOrEqual(t, strict.Rules["freeboard"].Number("minimum"), base.Rules["freeboard"].Number("minimum"))
 	assert.Greater(t, strict.Rules["freeboard"].Number("fraction"), base.Rules["freeboard"].Number("fraction"))
-	for _, lining := range []string{"", "concrete", "earth", "sand", "grass"} {
-		sMin, sOK := strict.Rules["min_velocity"].Table("limit").For(lining)
-		bMin, bOK := base.Rules["min_velocity"].Table("limit").For(lining)
-		assert.Equal(t, bOK, sOK, lining)
-		assert.GreaterOrEqual(t, sMin, bMin, lining)
-	}
-	sMin, _ := strict.Rules["min_velocity"].Table("limit").For("concrete")
-	bMin, _ := base.Rules["min_velocity"].Table("limit").For("concrete")
-	assert.Greater(t, sMin, bMin)
 	for id, rc := range strict.Rules {
 		assert.GreaterOrEqual(t, rc.Severity.Rank(), base.Rules[id].Severity.Rank(), id)
 	}

@@ -70,6 +70,12 @@ func TestSelectorDiagnostics(t *testing.T) {
     minimum       = 0.3
   }
 }`, "Invalid class word", "letters, digits", `"roadside ditch"`},
+		{"min velocity for every event", `policy "x" {
+  units = "si"
+  min_velocity {
+    limit = 0.6
+  }
+}`, "Missing min_velocity events", "return_period = [null, 2]", "min_velocity"},
 		{"empty list", `policy "x" {
   units = "si"
   freeboard {

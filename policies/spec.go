@@ -53,6 +53,13 @@ const (
 	Coefficient
 	// Froude is a Froude number.
 	Froude
+	// Grade is a longitudinal bed slope, rise over run (0.005 is 0.5 %).
+	Grade
+	// SideSlope is a bank's slope as horizontal per unit vertical (3 is
+	// 3H:1V); a larger number is a flatter bank.
+	SideSlope
+	// UnitDischarge is a depth × velocity product, in m²/s or ft²/s.
+	UnitDischarge
 )
 
 // noun is the quantity as messages name it: "a length".
@@ -70,6 +77,12 @@ func (q Quantity) noun() string {
 		return "a coefficient"
 	case Froude:
 		return "a Froude number"
+	case Grade:
+		return "a grade"
+	case SideSlope:
+		return "a side slope"
+	case UnitDischarge:
+		return "a depth × velocity product"
 	}
 	return "a number"
 }
@@ -90,6 +103,8 @@ func (q Quantity) Unit(u model.Units) string {
 			return "lb/ft²"
 		}
 		return "N/m²"
+	case UnitDischarge:
+		return u.Length() + "²/s"
 	}
 	return ""
 }
@@ -102,6 +117,8 @@ func (q Quantity) factor() float64 {
 		return 1 / MetresPerFoot
 	case Stress:
 		return 1 / PascalsPerPSF
+	case UnitDischarge: // a length times a velocity
+		return 1 / (MetresPerFoot * MetresPerFoot)
 	}
 	return 1
 }
@@ -284,9 +301,13 @@ type RuleSpec struct {
 	// OptIn marks a block that is not a design criterion of its own but
 	// asks for more work (a sensitivity run): the built-in packs leave it
 	// out, and a policy that does not write it turns nothing off.
-	OptIn    bool
-	Settings []Setting
-	Together []Group
+	OptIn bool
+	// NeedsEvents: a block applies only to the events it names, so an
+	// enabled block must select events (events, return_period or
+	// event_classes); the loader refuses one that does not.
+	NeedsEvents bool
+	Settings    []Setting
+	Together    []Group
 }
 
 // Setting returns the setting of the spec named name, or nil.
@@ -328,7 +349,7 @@ func (r *RuleSpec) Validate() error {
 		case s.Kind == Choice && (len(s.Choices) < 2 || s.Required || s.Quantity != 0 || s.Bounds != (Bounds{})):
 			return fmt.Errorf("rule %s: choice %s needs two words or more, the first its default, and no quantity or bounds", r.ID, s.Name)
 		case s.Kind == Choice:
-		case s.Quantity < Length || s.Quantity > Froude:
+		case s.Quantity < Length || s.Quantity > UnitDischarge:
 			return fmt.Errorf("rule %s: setting %s has no quantity", r.ID, s.Name)
 		case s.Bounds == (Bounds{}):
 			return fmt.Errorf("rule %s: setting %s has no bounds", r.ID, s.Name)

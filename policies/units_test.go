@@ -28,7 +28,10 @@ func TestInConvertsEveryQuantity(t *testing.T) {
     fraction = 0.2
   }
   max_velocity { limit = { concrete = 20.0, rock = null, default = 5.0 } }
-  min_velocity { limit = 2.0 }
+  min_velocity {
+    limit  = 2.0
+    events = ["q10"]
+  }
   froude_band { avoid = [[0.86, 1.13]] }
   jump_type { avoid = [[2.5, 4.5]] }
   superelevation {

@@ -149,16 +149,19 @@ type liningLimits struct {
 	table        policies.ByLining
 	conduitNamed bool // closed conduits only by a named lining
 	noPoints     bool // points sections are not checked
-	sec          *model.Section
-	lim          float64
-	ok           bool
+	// vegetatedNamed: grass and natural linings only by a named lining
+	// (min_velocity: a default never applies to them).
+	vegetatedNamed bool
+	sec            *model.Section
+	lim            float64
+	ok             bool
 }
 
 // newLiningLimits reads the limit table of a rule block; erosion is true
 // for the rules that limit erosion (max_velocity, shear_stress).
 func newLiningLimits(cfg *policies.RuleConfig, erosion bool) *liningLimits {
 	return &liningLimits{table: cfg.Table("limit"), conduitNamed: erosion,
-		noPoints: cfg.Word("points_sections") == "excluded"}
+		noPoints: cfg.Word("points_sections") == "excluded", vegetatedNamed: !erosion}
 }
 
 // at is the limit at a wet computed point; false where the point is dry or
@@ -174,12 +177,20 @@ func (l *liningLimits) at(rr *solver.ReachResult, p *solver.Point) (float64, boo
 		if _, named := l.table.Values[sec.Lining]; !named && l.conduitNamed && sec.Closed() {
 			l.ok = false
 		}
+		if _, named := l.table.Values[sec.Lining]; !named && l.vegetatedNamed && vegetated(sec.Lining) {
+			l.ok = false
+		}
 		if l.noPoints && sec.Shape == model.Points {
 			l.ok = false
 		}
 	}
 	return l.lim, l.ok
 }
+
+// vegetated reports whether a lining word names a grassed or natural
+// channel, where deposits and growth are the channel's nature and a
+// self-cleansing velocity applies only where the policy names the lining.
+func vegetated(lining string) bool { return lining == "grass" || lining == "natural" }
 
 func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u model.Units, upper bool, where string) (msg, remedy string) {
 	vu := velocityUnit(u)

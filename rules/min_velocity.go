@@ -4,8 +4,9 @@ import "github.com/chanlint/chanlint/policies"
 
 var minVelocityRule = &Rule{
 	RuleSpec: policies.RuleSpec{
-		ID:       "min_velocity",
-		Severity: policies.Warning,
+		ID:          "min_velocity",
+		Severity:    policies.Warning,
+		NeedsEvents: true,
 		Settings: []policies.Setting{
 			{Name: "limit", Kind: policies.PerLining, Quantity: policies.Velocity, Bounds: policies.Above(0),
 				Required: true, Doc: "the self-cleansing mean velocity by lining word", Below: "max_velocity.limit"},

@@ -3,7 +3,9 @@ package rules
 import (
 	"fmt"
 
+	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
 	"github.com/hashicorp/hcl/v2"
 )
 
@@ -99,14 +101,9 @@ func checkModel(ctx *Context, report func(Finding)) {
 		widest, at := 0.0, 0.0
 		for _, ev := range ctx.events() {
 			for _, rr := range ev.Reaches {
-				if rr == nil || rr.Reach != bend.Reach {
-					continue
-				}
-				sub, _ := pointsBetween(rr, bend.FromStation, bend.ToStation)
-				for i := range sub.Points {
-					p := &sub.Points[i]
-					if usable(p) && p.TopWidth > widest {
-						widest, at = p.TopWidth, p.Station
+				if rr != nil && rr.Reach == bend.Reach {
+					if w, x := widestInBend(rr, bend); w > widest {
+						widest, at = w, x
 					}
 				}
 			}
@@ -124,4 +121,17 @@ func checkModel(ctx *Context, report func(Finding)) {
 			})
 		}
 	}
+}
+
+// widestInBend is the widest top width of the flow in a bend and its
+// station, over the computed points of one reach result (0 when none).
+func widestInBend(rr *solver.ReachResult, bend *model.Bend) (widest, at float64) {
+	sub, _ := pointsBetween(rr, bend.FromStation, bend.ToStation)
+	for i := range sub.Points {
+		p := &sub.Points[i]
+		if usable(p) && p.TopWidth > widest {
+			widest, at = p.TopWidth, p.Station
+		}
+	}
+	return widest, at
 }

@@ -17,6 +17,9 @@ var language *policies.Language
 
 func init() {
 	registry = sorted([]*Rule{
+		bedSlopeRule,
+		bendRadiusRule,
+		bottomWidthRule,
 		capacityRule,
 		freeboardRule,
 		froudeBandRule,
@@ -26,10 +29,12 @@ func init() {
 		maxVelocityRule,
 		minVelocityRule,
 		modelRule,
+		publicSafetyRule,
 		outletVelocityRule,
 		overtoppingRule,
 		sensitivityRule,
 		shearStressRule,
+		sideSlopeRule,
 		solverRule,
 		superelevationRule,
 		unmatchedSelectorRule,

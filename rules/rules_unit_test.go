@@ -109,11 +109,19 @@ func TestMinVelocity(t *testing.T) {
 	pts := depthsPoints(r, []float64{0, 100, 200, 300, 400}, []float64{0.5, 0.5, 0.5, 0.5, 0}, []float64{0.5, 0.4, 0.7, 0.3, 0})
 	pts[4].Area = 0 // dry
 	cfg := &policies.RuleConfig{Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Default: 0.6, HasDefault: true}}}}
+	assert.Empty(t, runRule(t, "min_velocity", m, result(m, r, pts, nil, nil), cfg),
+		"a default minimum never applies to a grass (or natural) lining")
+	r.Section.Lining = "earth"
 	fs := runRule(t, "min_velocity", m, result(m, r, pts, nil, nil), cfg)
 	require.Len(t, fs, 2)
 	assertSpan(t, fs[0], 0, 100, 0.4, 0.6)
 	assertSpan(t, fs[1], 300, 300, 0.3, 0.6)
-	assert.Contains(t, fs[0].Message, `velocity 0.4 m/s is below the self-cleansing 0.6 m/s for lining "grass" (unlisted: the policy's default applied)`)
+	assert.Contains(t, fs[0].Message, `velocity 0.4 m/s is below the self-cleansing 0.6 m/s for lining "earth" (unlisted: the policy's default applied)`)
+	r.Section.Lining = "grass"
+	cfg = &policies.RuleConfig{Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Values: map[string]float64{"grass": 0.6}}}}}
+	fs = runRule(t, "min_velocity", m, result(m, r, pts, nil, nil), cfg)
+	require.Len(t, fs, 2, "a grass lining named in the table is checked")
+	assert.Contains(t, fs[0].Message, `velocity 0.4 m/s is below the self-cleansing 0.6 m/s for lining "grass"`)
 }
 
 func TestFroudeBand(t *testing.T) {

@@ -3,6 +3,7 @@ package rules
 import (
 	"fmt"
 	"maps"
+	"path"
 	"slices"
 
 	"github.com/chanlint/chanlint/model"
@@ -26,7 +27,7 @@ must match at least one event on at least one reach of the model. A block
 that matches nothing is a criterion the run silently did not apply: the
 model names its events or classes differently from the manual the policy
 carries, or lacks the return_period or class the selector reads. The
-warning is reported at the top of the model file and names the block, its
+warning is reported at the model's units attribute and names the block, its
 selection and where the policy wrote it.
 
 It also compares the names a block writes with the model's: an events list
@@ -56,10 +57,13 @@ func checkUnmatchedSelectors(ctx *Context, report func(Finding)) {
 	if m == nil || p == nil {
 		return
 	}
-	top := hcl.Range{Filename: m.File, Start: hcl.InitialPos, End: hcl.InitialPos}
+	top := m.UnitsRange // the model's first statement, where a model-wide finding points
+	if top.Filename == "" {
+		top = hcl.Range{Filename: m.File, Start: hcl.InitialPos, End: hcl.InitialPos}
+	}
 	for _, id := range slices.Sorted(maps.Keys(p.Rules)) {
 		for _, b := range p.Rules[id].Blocks() {
-			where := fmt.Sprintf("the %s block at %s:%d", id, b.File, b.DefRange.Start.Line)
+			where := fmt.Sprintf("the %s block at %s:%d", id, path.Base(b.File), b.DefRange.Start.Line)
 			events, renamed := eventKeys(b, m)
 			if b.Selective() && !matchesSome(b, m) {
 				msg := fmt.Sprintf("%s (%s) matches no event on any reach of this model, so it was not applied", where, b.SelectorText())

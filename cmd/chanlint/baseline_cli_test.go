@@ -25,6 +25,18 @@ func slowModel(t *testing.T) string {
 	return string(src)
 }
 
+// slowPolicy is the baseline with a minimum velocity for the slow model's
+// event: the packs leave min_velocity to the events a policy names.
+const slowPolicy = `policy "slow" {
+  units   = "si"
+  extends = "baseline"
+  min_velocity {
+    events = ["base", "q25"]
+    limit  = { concrete = 0.6 }
+  }
+}
+`
+
 const exceptionBlock = `
 exception "min_velocity" {
   reach        = "drain"
@@ -41,6 +53,7 @@ func TestBaselineExceptedAndStale(t *testing.T) {
 	dir := t.TempDir()
 	model := filepath.Join(dir, "drain.chan.hcl")
 	require.NoError(t, os.WriteFile(model, []byte(slowModel(t)+exceptionBlock), 0o644))
+	require.NoError(t, os.WriteFile(filepath.Join(dir, ".chanlint.hcl"), []byte(slowPolicy), 0o644))
 	copyTree(t, filepath.Join("testdata", "models", "overtop.chan.hcl"), filepath.Join(dir, "overtop.chan.hcl"))
 
 	code, _, errOut := runIn(dir, runOpts{}, "check", "--write-baseline", "known.json")
@@ -88,6 +101,7 @@ func TestBaselineExceptedAndStale(t *testing.T) {
 func TestBaselineSARIFStates(t *testing.T) {
 	dir := t.TempDir()
 	copyTree(t, filepath.Join("testdata", "models", "overtop.chan.hcl"), filepath.Join(dir, "overtop.chan.hcl"))
+	require.NoError(t, os.WriteFile(filepath.Join(dir, ".chanlint.hcl"), []byte(slowPolicy), 0o644))
 	code, _, errOut := runIn(dir, runOpts{}, "check", "--write-baseline", "known.json")
 	require.Equal(t, exitOK, code, errOut)
 	require.NoError(t, os.WriteFile(filepath.Join(dir, "drain.chan.hcl"), []byte(slowModel(t)), 0o644))

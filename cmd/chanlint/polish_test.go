@@ -37,10 +37,10 @@ func TestCheckStdin(t *testing.T) {
 // warning; --write-baseline refuses them.
 func TestCheckRuleEventFilters(t *testing.T) {
 	dir := workspace(t, 1)
-	code, out, _ := runIn(dir, runOpts{}, "check", "set00/demo", "--rule", "jump_type,min_velocity", "--color", "never")
+	code, out, _ := runIn(dir, runOpts{}, "check", "set00/demo", "--rule", "jump_type,froude_band", "--color", "never")
 	assert.Equal(t, exitOK, code, "only warnings left")
 	assert.Regexp(t, `(?m)^\S+: warning: \[jump_type\] `, out)
-	assert.Regexp(t, `(?m)^\S+: warning: \[min_velocity\] `, out)
+	assert.Regexp(t, `(?m)^\S+: warning: \[froude_band\] `, out)
 	assert.NotContains(t, out, "[freeboard]")
 
 	code, out, _ = runIn(dir, runOpts{}, "check", "set00/demo", "--event", "q10", "--rule", "jump_type", "--rule", "shear_stress", "--color", "never")

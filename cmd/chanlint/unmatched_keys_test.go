@@ -36,8 +36,8 @@ func TestRenamedEventsAndLiningsAreReported(t *testing.T) {
 }
 `), 0o644))
 	_, out, _ := runIn(repo, runOpts{}, "check", "--color", "never", "--policy", "./p.policy.hcl", "models")
-	assert.Regexp(t, `overtop\.chan\.hcl:1:1: warning: \[unmatched_selector\] the freeboard block at \S*p\.policy\.hcl:4: its events "Q100" match no event of this model \(its events: "q25", "q100"\); "Q100" differs from "q100" only in case \(names are case-sensitive\); "q100" is not checked by this block`, out)
-	assert.Regexp(t, `overtop\.chan\.hcl:1:1: warning: \[unmatched_selector\] the froude_band block at \S*p\.policy\.hcl:8 \(events Q25\) matches no event on any reach of this model, so it was not applied; its events "Q25" match no event of this model \(its events: "q25", "q100"\); "Q25" differs from "q25" only in case`, out)
-	assert.Regexp(t, `overtop\.chan\.hcl:1:1: warning: \[unmatched_selector\] the max_velocity block at \S*p\.policy\.hcl:12: its limit keys "Concrete" match no lining of this model \(its linings: "concrete"\); "Concrete" differs from "concrete" only in case \(names are case-sensitive\); "concrete" gets the default limit`, out)
+	assert.Regexp(t, `overtop\.chan\.hcl:\d+:\d+: warning: \[unmatched_selector\] the freeboard block at \S*p\.policy\.hcl:4: its events "Q100" match no event of this model \(its events: "q25", "q100"\); "Q100" differs from "q100" only in case \(names are case-sensitive\); "q100" is not checked by this block`, out)
+	assert.Regexp(t, `overtop\.chan\.hcl:\d+:\d+: warning: \[unmatched_selector\] the froude_band block at \S*p\.policy\.hcl:8 \(events Q25\) matches no event on any reach of this model, so it was not applied; its events "Q25" match no event of this model \(its events: "q25", "q100"\); "Q25" differs from "q25" only in case`, out)
+	assert.Regexp(t, `overtop\.chan\.hcl:\d+:\d+: warning: \[unmatched_selector\] the max_velocity block at \S*p\.policy\.hcl:12: its limit keys "Concrete" match no lining of this model \(its linings: "concrete"\); "Concrete" differs from "concrete" only in case \(names are case-sensitive\); "concrete" gets the default limit`, out)
 	assert.Contains(t, out, "models/slow.chan.hcl", "the other files are still reported")
 }

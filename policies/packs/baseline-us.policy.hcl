@@ -45,18 +45,10 @@ policy "baseline-us" {
     severity = "error"
   }
 
-  min_velocity {
-    limit = {
-      # Fine sand: no velocity is both below its 1.5 ft/s maximum (Fortier &
-      # Scobey 1926) and self-cleansing, so only max_velocity applies there.
-      sand    = null
-      # Self-cleansing velocity: ASCE Manual of Practice 37 (sewers flowing
-      # full, from memory); Chow 1959 §7-3 gives 2–3 ft/s where the silt
-      # load is small (from memory).
-      default = 2.0
-    }
-    severity = "warning"
-  }
+  # min_velocity is not switched on: a self-cleansing velocity applies only
+  # to the events a policy names (frequent flows, e.g. return_period =
+  # [null, 2]) and the pack cannot know a model's events; see the review
+  # pack.
 
   superelevation {
     # Δy = C·V²·T/(g·rc), rc the centreline radius, T the top width.

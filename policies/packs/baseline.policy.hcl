@@ -46,19 +46,10 @@ policy "baseline" {
     severity = "error"
   }
 
-  min_velocity {
-    limit = {
-      # Fine sand: no velocity is both below its 0.46 m/s maximum (Fortier &
-      # Scobey 1926) and self-cleansing, so only max_velocity applies there.
-      sand    = null
-      # 2 ft/s self-cleansing velocity: ASCE Manual of Practice 37 (sewers
-      # flowing full, from memory); Chow 1959 §7-3 gives 2–3 ft/s where the
-      # silt load is small (from memory). Storm drains are often held to
-      # 3 ft/s (FHWA HEC-22, from memory): see the strict pack.
-      default = 0.6
-    }
-    severity = "warning"
-  }
+  # min_velocity is not switched on: a self-cleansing velocity applies only
+  # to the events a policy names (frequent flows, e.g. return_period =
+  # [null, 2]) and the pack cannot know a model's events; see the review
+  # pack.
 
   froude_band {
     # Unstable near-critical flow, Froude numbers of roughly 0.86–1.13:

@@ -17,18 +17,10 @@ policy "strict" {
     severity = "error"
   }
 
-  min_velocity {
-    limit = {
-      # 3 ft/s, the higher self-cleansing velocity some agencies require of
-      # lined channels and storm drains (FHWA HEC-22, from memory). Erodible linings keep
-      # baseline's 0.6 m/s: 0.9 m/s is above their permissible maximum
-      # (earth 0.76 m/s, Fortier & Scobey 1926).
-      concrete = 0.9
-      sand     = null # as baseline: fine sand cannot meet a self-cleansing velocity (Fortier & Scobey 1926)
-      default  = 0.6  # 2 ft/s self-cleansing velocity: common practice for sewers, ASCE Manual of Practice 37 (from memory)
-    }
-    severity = "warning"
-  }
+  # min_velocity is not switched on: a self-cleansing velocity applies only
+  # to the events a policy names (frequent flows, e.g. return_period =
+  # [null, 2]) and the pack cannot know a model's events; see the review
+  # pack.
 
   froude_band {
     # Same band as baseline (common practice, usually cited to USACE

@@ -18,6 +18,7 @@ policy "millbrook-county-drainage" {
   }
 
   min_velocity {
-    limit = 2.5
+    return_period = [null, 2] # frequent flows
+    limit         = 2.5
   }
 }

@@ -7,6 +7,8 @@
 # Expectations: "# want RULE EVENT FROM..TO" names a finding whose block
 # starts on the next line that is not a comment.
 
+# The golden policy's min_velocity block names event q-low only.
+# want unmatched_selector - -..-
 units = "si"
 title = "Hollinsclough spillway chute"
 

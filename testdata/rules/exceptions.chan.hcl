@@ -8,6 +8,8 @@
 # block starts on the next line that is not a comment; "# want:report" and
 # "# want:deny" hold only under that policy.
 
+# The golden policy's min_velocity block names event q-low only.
+# want unmatched_selector - -..-
 units = "si"
 title = "Harrowgate Fields interceptor cut, with exceptions"
 

@@ -14,7 +14,8 @@ policy "golden-us" {
     limit = { grass = 4.921259842519685, default = 9.84251968503937 }
   }
   min_velocity {
-    limit = 1.9685039370078738
+    events = ["q-low"]
+    limit  = { grass = 1.9685039370078738 }
   }
   froude_band {
     avoid = [[0.44, 0.5]]

@@ -13,7 +13,8 @@ policy "golden" {
     limit = { grass = 1.5, default = 3.0 }
   }
   min_velocity {
-    limit = 0.6
+    events = ["q-low"]
+    limit  = { grass = 0.6 }
   }
   froude_band {
     avoid = [[0.44, 0.5]]
