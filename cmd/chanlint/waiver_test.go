@@ -31,7 +31,7 @@ exception "capacity" {
 	assert.Equal(t, exitFindings, code)
 	assert.Regexp(t, `overtop\.chan\.hcl:\d+:\d+: error: \[capacity\]`, out, "still an error, not excepted")
 	assert.Regexp(t, `\[unused_exception\] .*the exception for rule "capacity" on reach "lane".* was not applied: capacity is always on and the policy does not let design exceptions waive it \(waive_always_on\)`, out)
-	assert.Contains(t, out, "models/slow.chan.hcl", "the other files are still checked")
+	assert.Contains(t, out, "3 files", "the other files are still checked")
 
 	pol := filepath.Join(repo, "lenient.policy.hcl")
 	require.NoError(t, os.WriteFile(pol, []byte("policy \"reviewer\" {\n  units = \"si\"\n  extends = \"baseline\"\n  reference = \"Reviewer's notes\"\n  waive_always_on = [\"capacity\"]\n}\n"), 0o644))
@@ -48,7 +48,7 @@ exception "capacity" {
 	code, out, _ = runIn(repo, runOpts{}, "check", "--color", "never", "models")
 	assert.Equal(t, exitInvalid, code)
 	assert.Contains(t, out, "Reason too short")
-	assert.Contains(t, out, "models/slow.chan.hcl", "the other files are still checked")
+	assert.Contains(t, out, "3 files", "the other files are still checked")
 }
 
 // A points section whose height reaches above the surveyed ground at an
