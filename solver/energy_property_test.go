@@ -59,7 +59,17 @@ func energyNetwork(t *rapid.T) string {
 		rs[i] = reach{from: down + s0*length, to: down, length: length, s0: s0}
 		up[nm[1]] = rs[i].from
 	}
+	// One rectangle throughout, half the time, so that drops meet Rand's
+	// conditions (rectangles of one width onto a level or mild apron).
+	uniform := rapid.Bool().Draw(t, "uniform")
+	width := rapid.Float64Range(0.8, 8).Draw(t, "width")
 	for i := range names {
+		if uniform {
+			for _, n := range []string{"s", "seg"} {
+				fmt.Fprintf(&b, "section \"%s%d\" {\n  shape = \"rectangle\"\n  bottom_width = %g\n  height = 8\n  roughness = 0.015\n}\n", n, i, width)
+			}
+			continue
+		}
 		energySection(t, &b, fmt.Sprint("s", i))
 		energySection(t, &b, fmt.Sprint("seg", i))
 	}
