@@ -4,12 +4,12 @@ import (
 	"bytes"
 	"flag"
 	"fmt"
-	"github.com/chanlint/chanlint/internal/safetext"
 	"path/filepath"
 	"strings"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/report"
+	"github.com/chanlint/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/rules"
 )
 

@@ -11,6 +11,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
+	"github.com/chanlint/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
@@ -389,7 +390,9 @@ func writeSolveCSV(w io.Writer, u model.Units, res *solver.Result) error {
 				if p.HasNormal {
 					normal = num(p.NormalDepth)
 				}
-				row := []string{ev.Event.Name, rr.Reach.Name, num(p.Station), num(p.Invert),
+				// Names are a submittal's text: a cell starting with = + - @
+				// would run as a formula in a spreadsheet.
+				row := []string{safetext.CSVCell(ev.Event.Name), safetext.CSVCell(rr.Reach.Name), num(p.Station), num(p.Invert),
 					num(p.Depth), num(p.WSE), num(p.Velocity), num(p.Froude), num(p.Energy),
 					num(p.CriticalDepth), normal, string(p.Regime)}
 				if err := cw.Write(row); err != nil {
@@ -410,13 +413,13 @@ func writeSolveTable(w io.Writer, file string, m *model.Model, res *solver.Resul
 	if m.Title != "" {
 		title = m.Title + " — " + file
 	}
-	fmt.Fprintf(w, "%s (units: %s; lengths in %s, discharge in %s³/s)\n", title, m.Units, L, L)
+	fmt.Fprintf(w, "%s (units: %s; lengths in %s, discharge in %s³/s)\n", safetext.Text(title), m.Units, L, L)
 	fmt.Fprintln(w, "columns: wse water surface, energy energy grade, yc critical depth, yn normal depth (— where none)")
 	for _, a := range res.Assumptions() {
 		fmt.Fprintf(w, "assumption: %s\n", a)
 	}
 	for _, ev := range res.Events {
-		fmt.Fprintf(w, "\nevent %s\n", ev.Event.Name)
+		fmt.Fprintf(w, "\nevent %s\n", tableName(ev.Event.Name))
 		for _, rr := range ev.Reaches {
 			writeReachTable(w, rr, L)
 		}
@@ -431,7 +434,7 @@ func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
 		profiles = "none"
 	}
 	fmt.Fprintf(w, "\n  reach %s: Q = %s %s³/s, %s slope (S0 = %s), profiles %s, %s\n",
-		rr.Reach.Name, fixed(rr.Discharge, 3), L, rr.SlopeClass,
+		tableName(rr.Reach.Name), fixed(rr.Discharge, 3), L, rr.SlopeClass,
 		formatNumber(rr.Reach.Slope, 6), profiles, plural(len(rr.Jumps), "jump", "jumps"))
 	if len(rr.Profiles) > 1 {
 		var spans []string
@@ -520,7 +523,7 @@ func writeCulvertTable(w io.Writer, culverts []*solver.CulvertResult, L string) 
 	t.header([]string{"culvert", "headwater", "HW/D", "inlet ctl", "outlet ctl", "barrel Q", "road Q", "over road", "outlet y", "outlet V", "control"},
 		[]string{"", L, "", L, L, L + "³/s", L + "³/s", L, L, L + "/s", ""})
 	for _, c := range culverts {
-		t.row(c.Culvert.Name, fixed(c.Headwater, 3), fixed(c.HWD, 2), fixed(c.InletHeadwater, 3), fixed(c.OutletHeadwater, 3),
+		t.row(tableName(c.Culvert.Name), fixed(c.Headwater, 3), fixed(c.HWD, 2), fixed(c.InletHeadwater, 3), fixed(c.OutletHeadwater, 3),
 			fixed(c.BarrelFlow, 3), fixed(c.RoadFlow, 3), fixed(c.RoadDepth, 3), fixed(c.OutletDepth, 3), fixed(c.OutletVelocity, 3),
 			string(c.Control))
 	}
@@ -534,6 +537,14 @@ func writeCulvertTable(w io.Writer, culverts []*solver.CulvertResult, L string) 
 
 // table aligns columns: every column but the last is right-aligned (the
 // last, a word, is left-aligned). The first rows are headers.
+// tableNameWidth bounds a name in the solve table, in characters, so that
+// a very long name cannot push the values off the screen.
+const tableNameWidth = 40
+
+// tableName is a submittal's name as the table prints it: neutralised and
+// shortened in the middle to tableNameWidth.
+func tableName(s string) string { return safetext.Clip(safetext.Text(s), tableNameWidth) }
+
 type table struct {
 	rows    [][]string
 	headers int

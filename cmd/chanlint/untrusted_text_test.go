@@ -44,3 +44,24 @@ func TestTextOutputNeutralisesUntrustedText(t *testing.T) {
 	assert.Contains(t, out, `\rall clear \u009B31m`)
 	assert.Contains(t, out, "models/overtop.chan.hcl:", "the other files are still reported")
 }
+
+// CSV cells that a spreadsheet would run as formulas are neutralised, and
+// a very long name is shortened in the solve table so that its values stay
+// on screen.
+func TestSolveOutputsNeutraliseNames(t *testing.T) {
+	dir := t.TempDir()
+	long := strings.Repeat("very-long-reach-name-", 20)
+	model := hostileNamesModel(`=HYPERLINK(\"http://evil\")`, `@SUM(A1)`)
+	require.NoError(t, os.WriteFile(filepath.Join(dir, "f.chan.hcl"), []byte(model), 0o644))
+	code, out, _ := runIn(dir, runOpts{}, "solve", "--format", "csv", "f.chan.hcl")
+	assert.Equal(t, exitOK, code)
+	assert.Contains(t, out, "\n'@SUM(A1),\"'=HYPERLINK(\"\"http://evil\"\")\",")
+	assert.NotContains(t, out, "\n@SUM")
+
+	require.NoError(t, os.WriteFile(filepath.Join(dir, "g.chan.hcl"), []byte(hostileNamesModel(long+`\u202e`, "q25")), 0o644))
+	code, out, _ = runIn(dir, runOpts{}, "solve", "g.chan.hcl")
+	assert.Equal(t, exitOK, code)
+	assert.NotContains(t, out, long, "shortened")
+	assert.Contains(t, out, `  reach very-long-reach-nam…ng-reach-name-\u202E: Q =`)
+	assert.NotContains(t, out, "\u202e")
+}

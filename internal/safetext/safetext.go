@@ -100,39 +100,23 @@ func Clip(s string, n int) string {
 	return string(runes[:head]) + "…" + string(runes[count-tail:])
 }
 
-// Markdown escapes s for the text of a Markdown table cell or paragraph:
-// it is first neutralised by Text, then every character that Markdown or
-// the HTML it may carry gives a meaning is backslash-escaped (links and
-// images, emphasis, code, headings, tables, HTML tags and entities), and
-// a URL scheme's colon is broken so that no autolink forms.
-func Markdown(s string) string {
-	s = Text(s)
-	var b strings.Builder
-	b.Grow(len(s) + 8)
-	for i := 0; i < len(s); i++ {
-		c := s[i]
-		switch c {
-		case '\\', '`', '*', '_', '{', '}', '[', ']', '(', ')', '#', '+', '-', '!', '|', '~', '>', '<', '&', '"', '\'':
-			b.WriteByte('\\')
-			b.WriteByte(c)
-		case ':':
-			// "http://x" and "www.x" autolink in common renderers; an
-			// escaped colon keeps the text and breaks the link.
-			b.WriteString(`\:`)
-		case '.':
-			if i >= 3 && strings.EqualFold(s[i-3:i], "www") {
-				b.WriteString(`\.`)
-			} else {
-				b.WriteByte(c)
-			}
-		case '@':
-			b.WriteString(`\@`) // e-mail autolinks
-		default:
-			b.WriteByte(c)
-		}
-	}
-	return b.String()
-}
+// mdReplacer makes text inert in Markdown: HTML is escaped (a renderer
+// passes raw HTML through), the characters that start emphasis, code,
+// links, images, headings, lists or table cells are backslash-escaped, and
+// the starts of autolinks (a URL scheme's "://", "www.", an e-mail's "@")
+// are defanged visibly, as "[:]//", "www[.]" and "[@]", since a renderer
+// may link them whatever the escapes around them.
+var mdReplacer = strings.NewReplacer(
+	"&", "&amp;", "<", "&lt;", ">", "&gt;",
+	`\`, `\\`, "`", "\\`", "*", `\*`, "_", `\_`, "[", `\[`, "]", `\]`,
+	"(", `\(`, ")", `\)`, "|", `\|`, "#", `\#`, "!", `\!`, "~", `\~`,
+	"://", `\[:\]//`, "www.", `www\[.\]`, "WWW.", `WWW\[.\]`, "@", `\[@\]`,
+)
+
+// Markdown escapes s for the text of a Markdown paragraph or table cell:
+// first neutralised by Text (so a line break cannot end a table row), then
+// made inert by mdReplacer.
+func Markdown(s string) string { return mdReplacer.Replace(Text(s)) }
 
 // CSVCell neutralises a spreadsheet cell: text that begins with '=', '+',
 // '-', '@', a tab or a carriage return would run as a formula when the

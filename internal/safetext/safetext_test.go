@@ -35,13 +35,14 @@ func TestClip(t *testing.T) {
 }
 
 func TestMarkdown(t *testing.T) {
-	assert.Equal(t, `\[click\]\(http\://evil\)`, Markdown("[click](http://evil)"))
-	assert.Equal(t, `\<https\://evil\>`, Markdown("<https://evil>"))
-	assert.Equal(t, `www\.evil.com`, Markdown("www.evil.com"))
-	assert.Equal(t, `a\@b.com`, Markdown("a@b.com"))
+	assert.Equal(t, `\[click\]\(http\[:\]//evil\)`, Markdown("[click](http://evil)"))
+	assert.Equal(t, `&lt;https\[:\]//evil&gt;`, Markdown("<https://evil>"))
+	assert.Equal(t, `www\[.\]evil.com`, Markdown("www.evil.com"))
+	assert.Equal(t, `a\[@\]b.com`, Markdown("a@b.com"))
 	assert.Equal(t, `\!\[x\]\(y\) \| \*b\* \_i\_ \`+"`"+`c\`+"`", Markdown("![x](y) | *b* _i_ `c`"))
 	assert.Equal(t, `\\x1b\[2J`, Markdown("\x1b[2J"), "renders as the visible escape")
-	assert.Equal(t, `\&lt; \<b\>`, Markdown("&lt; <b>"))
+	assert.Equal(t, `row\\nbreak \| cell`, Markdown("row\nbreak | cell"), "a line break cannot end a table row")
+	assert.Equal(t, `&amp;lt; &lt;b&gt;`, Markdown("&lt; <b>"))
 }
 
 func TestCSVCell(t *testing.T) {

@@ -85,7 +85,7 @@ func TestCulvertRendered(t *testing.T) {
 	require.NoError(t, HTML(&buf, in))
 	out := buf.String()
 	assert.Equal(t, 2, strings.Count(out, "<caption>Culvert performance"), "one table per event")
-	assert.Contains(t, out, "<td>quarry-lane</td>")
+	assert.Contains(t, out, `<td dir="auto">quarry-lane</td>`)
 	assert.Contains(t, out, "culvert headwater")
 	assert.Contains(t, out, "road crest")
 	res := in.Models[0].Result

@@ -5,20 +5,14 @@ import (
 	"fmt"
 	"net/url"
 	"strings"
+
+	"github.com/chanlint/chanlint/internal/safetext"
 )
 
-// mdReplacer makes a model string inert in Markdown: HTML is escaped (a
-// Markdown renderer passes raw HTML through), and the characters that start
-// emphasis, code, links, headings, lists or table cells are backslash-escaped.
-var mdReplacer = strings.NewReplacer(
-	"&", "&amp;", "<", "&lt;", ">", "&gt;",
-	`\`, `\\`, "`", "\\`", "*", `\*`, "_", `\_`, "[", `\[`, "]", `\]`,
-	"|", `\|`, "#", `\#`, "!", `\!`, "~", `\~`,
-	"\r\n", " ", "\n", " ", "\r", " ",
-)
-
-// md escapes a string for Markdown text and table cells.
-func md(s string) string { return mdReplacer.Replace(s) }
+// md escapes a string for Markdown text and table cells (see
+// safetext.Markdown: control and bidi characters made visible, HTML and
+// Markdown syntax escaped, autolinks defanged).
+func md(s string) string { return safetext.Markdown(s) }
 
 // writeMarkdown renders the page as GitHub-flavoured Markdown; plots are
 // image links to the SVG files named in plotView.File.

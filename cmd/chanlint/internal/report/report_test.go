@@ -84,7 +84,7 @@ func TestHTMLEscapesModelStrings(t *testing.T) {
 		"div": true, "table": true, "thead": true, "tbody": true, "tr": true, "th": true, "td": true, "a": true, "dl": true,
 		"dt": true, "dd": true, "nav": true, "ol": true, "li": true, "figure": true, "figcaption": true, "svg": true,
 		"desc": true, "rect": true, "text": true, "g": true, "line": true, "path": true, "em": true, "br": true, "footer": true,
-		"defs": true, "pattern": true, "clipPath": true}
+		"defs": true, "pattern": true, "clipPath": true, "bdi": true}
 	for _, m := range tags {
 		assert.True(t, allowed[m[1]], "unexpected tag <%s>", m[1])
 	}
@@ -236,4 +236,21 @@ func TestThinKeepsExtremes(t *testing.T) {
 	assert.True(t, hasSpike)
 	short := pts[:10]
 	assert.Equal(t, short, thin(short))
+}
+
+// Names with bidi controls are isolated in the page (bdi, dir=auto), so
+// an override in one name cannot reorder the cells and values after it;
+// the Markdown report makes them visible and defangs link syntax.
+func TestBidiAndLinksIsolated(t *testing.T) {
+	in := fixtureInput(t, "heron-flats.chan.hcl")
+	in.Models[0].Model.Title = "Mill \u202eroad [click](http://evil.example) www.evil.example"
+	out := renderHTML(t, in)
+	assert.Regexp(t, `<h2><bdi>Mill \x{202e}road`, out)
+	assert.Regexp(t, `<td class="name" dir="auto">`, out)
+	dir := t.TempDir()
+	require.NoError(t, Markdown(dir, "r.md", in))
+	md, err := os.ReadFile(filepath.Join(dir, "r.md"))
+	require.NoError(t, err)
+	assert.Contains(t, string(md), `Mill \\u202Eroad \[click\]\(http\[:\]//evil.example\) www\[.\]evil.example`)
+	assert.NotContains(t, string(md), "\u202e")
 }
