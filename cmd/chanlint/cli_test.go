@@ -455,6 +455,21 @@ func BenchmarkCheckDemo(b *testing.B) {
 	}
 }
 
+// BenchmarkCheckDemoEnvelope is BenchmarkCheckDemo with the full
+// sensitivity envelope (three parameters: 14 more solves of every event);
+// the target is under ten times BenchmarkCheckDemo.
+func BenchmarkCheckDemoEnvelope(b *testing.B) {
+	dir := b.TempDir()
+	copyTree(b, filepath.Join(repoDir(b), "testdata", "demo"), filepath.Join(dir, "demo"))
+	b.ReportAllocs()
+	for b.Loop() {
+		code, _, _ := runIn(dir, runOpts{}, "check", "demo", "--color", "never", "--vary", "roughness=0.2,tailwater=0.3,discharge=0.1")
+		if code == exitInvalid {
+			b.Fatal("the demo is invalid")
+		}
+	}
+}
+
 // BenchmarkCheckTree checks 60 models (the demo and the test models, twelve
 // times over) with the default worker pool.
 func BenchmarkCheckTree(b *testing.B) {

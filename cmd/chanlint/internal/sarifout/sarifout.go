@@ -530,6 +530,16 @@ func (b *builder) result(f *rules.Finding, i int, fp string) *sarif.Result {
 		props.Add("reference", f.Reference)
 	}
 	props.Add("severity", string(f.Severity))
+	if e := f.Envelope; e != nil {
+		env := map[string]any{"verdict": e.Verdict, "cases": e.Cases, "failing": e.Failing}
+		if e.Driver != "" {
+			env["driver"] = e.Driver
+		}
+		if e.Case != "" {
+			env["case"] = e.Case
+		}
+		props.Add("envelope", env)
+	}
 	res.WithProperties(props)
 
 	if f.Excepted {
