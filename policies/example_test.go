@@ -46,6 +46,7 @@ func ExampleLanguage_Configurable() {
 	// jump_type warning
 	// max_velocity error
 	// min_velocity warning
+	// no_rise error
 	// outlet_velocity warning
 	// overtopping error
 	// public_safety error

@@ -29,6 +29,7 @@ func init() {
 		maxVelocityRule,
 		minVelocityRule,
 		modelRule,
+		noRiseRule,
 		publicSafetyRule,
 		outletVelocityRule,
 		overtoppingRule,

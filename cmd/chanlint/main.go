@@ -188,6 +188,7 @@ type command struct {
 func commands() []*command {
 	return []*command{
 		checkCommand(),
+		diffCommand(),
 		initCommand(),
 		solveCommand(),
 		reportCommand(),

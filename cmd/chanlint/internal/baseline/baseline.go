@@ -433,3 +433,29 @@ func (e *Entry) Shortfall() (float64, bool) {
 	}
 	return math.Abs(*e.Value - *e.Limit), true
 }
+
+// Of is a baseline recording findings in memory, as Write would record
+// them (excepted findings are left out), for comparing two runs such as
+// two revisions of a model.
+func Of(findings []rules.Finding) *Baseline {
+	b := &Baseline{byID: map[string][]int{}}
+	for _, f := range findings {
+		if f.Excepted {
+			continue
+		}
+		e := entryOf(f)
+		b.byID[identity(&e)] = append(b.byID[identity(&e)], len(b.Entries))
+		b.Entries = append(b.Entries, e)
+	}
+	return b
+}
+
+// Records reports whether entry e is the one Of or Write records for f.
+func Records(e *Entry, f *rules.Finding) bool {
+	c := entryOf(*f)
+	if identity(&c) != identity(e) {
+		return false
+	}
+	d, ok := spanDistance(e, &c)
+	return ok && d == 0
+}

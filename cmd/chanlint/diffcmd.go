@@ -1,0 +1,541 @@
+package main
+
+import (
+	"bufio"
+	"bytes"
+	"encoding/json"
+	"flag"
+	"fmt"
+	"io"
+	"os/exec"
+	"path/filepath"
+	"strings"
+
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
+	"github.com/chanlint/chanlint/internal/safetext"
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
+)
+
+func diffCommand() *command {
+	return &command{
+		name:    "diff",
+		summary: "compare two revisions of a model: findings, water surface, no-rise",
+		run:     func(a *app, args []string) int { return a.runDiff(args) },
+		help:    func(*app) string { return diffUsage() },
+	}
+}
+
+type diffFlags struct {
+	policy string
+	git    string
+	format *choice
+	color  *choice
+	failOn *choice
+}
+
+func newDiffFlags() (*diffFlags, *flag.FlagSet) {
+	df := &diffFlags{
+		format: newChoice("text", "text", "json", "markdown"),
+		color:  newChoice("auto", "auto", "always", "never"),
+		failOn: newChoice("error", "error", "warning", "info"),
+	}
+	fs := newFlagSet("diff")
+	fs.StringVar(&df.policy, "policy", "", "policy `FILE` or built-in pack name (default: "+configName+", else the baseline pack)")
+	fs.StringVar(&df.git, "git", "", "compare each model under PATH with its version at git revision `REV`")
+	fs.Var(df.format, "format", "output format (markdown: for a pull-request comment)")
+	fs.Var(df.color, "color", "colour text output; auto colours a terminal unless NO_COLOR is set")
+	fs.Var(df.failOn, "fail-on", "lowest severity of a new finding that makes the exit status 1")
+	return df, fs
+}
+
+func diffUsage() string {
+	_, fs := newDiffFlags()
+	return `usage: chanlint diff OLD NEW [options]
+       chanlint diff --git REV [PATH...] [options]
+
+Solves and checks two revisions of a model under one policy and reports
+what the revision changed: findings new, fixed and changed (matched as a
+baseline matches them), the largest rise and fall of the water surface,
+of the velocity and of the freeboard on every reach and event both have,
+with their stations, and the reaches added or removed. A policy's no_rise
+block is judged here: the proposed water surface may rise no more than its
+limit over the existing one.
+
+OLD is the existing model and NEW the proposed one. With --git REV, each
+model under PATH (default: the current directory) is compared with the
+same file at the git revision REV; a model that did not exist there is
+new as a whole.
+
+options:
+` + flagUsage(fs) + `
+exit status: 0 nothing new at or above --fail-on; 1 a new finding (or a
+no_rise finding) at or above it; 2 an unreadable or invalid model or
+policy, or a wrong command line.
+`
+}
+
+// diffPair is one comparison: the existing and the proposed revision.
+type diffPair struct {
+	old, new *pipeline.Result
+}
+
+func (a *app) runDiff(args []string) int {
+	c := findCommand("diff")
+	df, fs := newDiffFlags()
+	paths, err := parseFlags(fs, args)
+	if err != nil {
+		return a.flagError(c, fs, err)
+	}
+	if df.git == "" && len(paths) != 2 {
+		return a.usageError(c, "give the existing and the proposed model (OLD NEW), or --git REV")
+	}
+	if df.git != "" && (strings.HasPrefix(df.git, "-") || strings.ContainsAny(df.git, " \t\n\r\x00")) {
+		return a.usageError(c, "--git: %q is not a revision", df.git)
+	}
+	errPal := newPalette(a.useColor(df.color.value, a.stderrTTY))
+	pal := newPalette(a.useColor(df.color.value, a.stdoutTTY))
+	pol, ok := a.loadPolicy(df.policy, errPal)
+	if !ok {
+		return exitInvalid
+	}
+	opts := pipeline.Options{Keep: pipeline.Keep{Solved: true, Source: true}, Stderr: a.stderr, Solver: solveOptions}
+	var pairs []diffPair
+	if df.git == "" {
+		files := make([]pipeline.File, 2)
+		for i, p := range paths {
+			abs := a.abs(p)
+			if err := confineInput(abs); err != nil {
+				fmt.Fprintf(a.stderr, "chanlint diff: cannot read %s: %v\n", p, err)
+				return exitInvalid
+			}
+			files[i] = pipeline.File{Name: filepath.ToSlash(p), Path: abs}
+		}
+		pairs = append(pairs, diffPair{pipeline.CheckFile(files[0], pol, opts), pipeline.CheckFile(files[1], pol, opts)})
+	} else {
+		found, problems := a.discover(orDot(paths))
+		for _, p := range problems {
+			fmt.Fprintf(a.stderr, "chanlint diff: cannot read %s: %v\n", p.display, p.err)
+		}
+		if len(problems) > 0 {
+			return exitInvalid
+		}
+		if len(found) == 0 {
+			fmt.Fprintf(a.stderr, "chanlint diff: no *%s files found under %s; nothing was compared\n", model.Suffix, strings.Join(orDot(paths), ", "))
+			return exitInvalid
+		}
+		for _, f := range found {
+			pf := f.pipelineFile()
+			proposed := pipeline.CheckFile(pf, pol, opts)
+			src, err := a.gitShow(df.git, pf.Path)
+			if err != nil {
+				fmt.Fprintf(a.stderr, "chanlint diff: %s at %s: %v\n", pf.Name, df.git, err)
+				return exitInvalid
+			}
+			var existing *pipeline.Result
+			if src != nil {
+				existing = pipeline.Parse(pipeline.File{Name: pf.Name + "@" + df.git}, src).Check(pol, opts)
+			}
+			pairs = append(pairs, diffPair{existing, proposed})
+		}
+	}
+
+	diffs := make([]*revdiff.Diff, len(pairs))
+	invalid := false
+	for i, p := range pairs {
+		if p.old == nil { // a model new at this revision
+			diffs[i] = newModelDiff(p.new)
+		} else {
+			diffs[i] = revdiff.Compare(p.old, p.new, pol)
+		}
+		invalid = invalid || diffs[i].Invalid
+		for _, r := range []*pipeline.Result{p.old, p.new} {
+			if r != nil && r.Invalid {
+				for j := range r.Findings {
+					writeFindingText(a.stderr, &r.Findings[j], r.Src, r.Unit(), errPal)
+				}
+			}
+		}
+	}
+	out := bufio.NewWriter(a.stdout)
+	switch df.format.value {
+	case "json":
+		err = writeDiffJSON(out, diffs)
+	case "markdown":
+		writeDiffMarkdown(out, diffs, a.policyLine(pol, a.describePolicy(pol, paths)))
+	default:
+		a.writeDiffText(out, diffs, pol, paths, pal)
+	}
+	if err == nil {
+		err = out.Flush()
+	}
+	if err != nil || invalid {
+		return exitInvalid
+	}
+	failOn := policies.Severity(df.failOn.value)
+	for _, d := range diffs {
+		for _, f := range d.New {
+			if !f.Excepted && f.Severity.Rank() >= failOn.Rank() {
+				return exitFindings
+			}
+		}
+	}
+	return exitOK
+}
+
+// newModelDiff is the comparison of a model that did not exist at the
+// revision: every reach added, every failing finding new.
+func newModelDiff(r *pipeline.Result) *revdiff.Diff {
+	d := &revdiff.Diff{OldFile: "(none)", NewFile: r.File.Name, Units: r.Units, Invalid: r.Invalid}
+	for _, f := range r.Findings {
+		if !f.Excepted {
+			d.New = append(d.New, f)
+		}
+	}
+	if r.Model != nil {
+		for _, rc := range r.Model.Reaches {
+			d.Added = append(d.Added, rc.Name)
+		}
+	}
+	return d
+}
+
+// gitShow reads file abs as it was at revision rev of its repository; nil
+// and no error when the file did not exist there. The revision comes from
+// the command line (never from a model) and is passed after
+// --end-of-options, so it cannot be read as an option.
+func (a *app) gitShow(rev, abs string) ([]byte, error) {
+	root := repoRoot(filepath.Dir(abs))
+	if root == "" {
+		return nil, fmt.Errorf("not inside a git repository")
+	}
+	rel, err := filepath.Rel(root, abs)
+	if err != nil {
+		return nil, err
+	}
+	spec := rev + ":" + filepath.ToSlash(rel)
+	exists := exec.Command("git", "-C", root, "cat-file", "-e", "--end-of-options", spec)
+	if exists.Run() != nil {
+		check := exec.Command("git", "-C", root, "rev-parse", "--verify", "--quiet", "--end-of-options", rev+"^{commit}")
+		if check.Run() != nil {
+			return nil, fmt.Errorf("unknown revision %q", rev)
+		}
+		return nil, nil
+	}
+	cmd := exec.Command("git", "-C", root, "cat-file", "blob", "--end-of-options", spec)
+	var buf bytes.Buffer
+	var stderr strings.Builder
+	cmd.Stdout = &limitedBuffer{buf: &buf, max: model.MaxFileSize}
+	cmd.Stderr = &stderr
+	if err := cmd.Run(); err != nil {
+		return nil, fmt.Errorf("git: %s", safetext.Text(strings.TrimSpace(stderr.String())))
+	}
+	return buf.Bytes(), nil
+}
+
+// limitedBuffer keeps at most max bytes and fails the write beyond them.
+type limitedBuffer struct {
+	buf *bytes.Buffer
+	max int
+}
+
+func (l *limitedBuffer) Write(p []byte) (int, error) {
+	if l.buf.Len()+len(p) > l.max {
+		return 0, fmt.Errorf("the file at that revision is larger than %d bytes", l.max)
+	}
+	return l.buf.Write(p)
+}
+
+// writeDiffText prints each comparison, then the policy and the caution.
+func (a *app) writeDiffText(w io.Writer, diffs []*revdiff.Diff, pol *policies.Policy, paths []string, p *palette) {
+	var newN, fixedN, changedN int
+	for _, d := range diffs {
+		unit := d.Units.Length()
+		fmt.Fprintf(w, "%s\n", p.bold.Sprintf("%s → %s", safetext.Text(d.OldFile), safetext.Text(d.NewFile)))
+		section := func(title string, fs []rules.Finding) {
+			if len(fs) == 0 {
+				return
+			}
+			fmt.Fprintf(w, "%s (%d):\n", title, len(fs))
+			for i := range fs {
+				writeFindingText(w, &fs[i], nil, unit, p)
+			}
+		}
+		section("new findings", d.New)
+		section("fixed findings", d.Fixed)
+		if len(d.Changed) > 0 {
+			fmt.Fprintf(w, "changed findings (%d):\n", len(d.Changed))
+			for _, c := range d.Changed {
+				fmt.Fprintf(w, "%s %s\n", p.rule.Sprint("["+c.New.Rule+"]"), safetext.Text(changeText(&c, unit)))
+			}
+		}
+		if len(d.Added) > 0 {
+			fmt.Fprintf(w, "reaches added: %s\n", safetext.Text(strings.Join(d.Added, ", ")))
+		}
+		if len(d.Removed) > 0 {
+			fmt.Fprintf(w, "reaches removed: %s\n", safetext.Text(strings.Join(d.Removed, ", ")))
+		}
+		same := 0
+		for i := range d.Profiles {
+			pr := &d.Profiles[i]
+			if unchanged(pr) {
+				same++
+				continue
+			}
+			fmt.Fprintf(w, "reach %s, event %s: %s\n", safetext.Text(pr.Reach), safetext.Text(pr.Event), profileText(pr, unit))
+		}
+		if same > 0 {
+			fmt.Fprintf(w, "%s of reach and event unchanged (water surface, velocity and freeboard within %s %s)\n",
+				plural(same, "pair", "pairs"), rules.Num(profileTolerance), unit)
+		}
+		newN, fixedN, changedN = newN+len(d.New), fixedN+len(d.Fixed), changedN+len(d.Changed)
+		fmt.Fprintln(w)
+	}
+	fmt.Fprintf(w, "%s\n", p.bold.Sprintf("%s, %d new, %d fixed, %d changed", plural(len(diffs), "comparison", "comparisons"), newN, fixedN, changedN))
+	fmt.Fprintln(w, a.policyLine(pol, a.describePolicy(pol, paths)))
+	fmt.Fprintln(w, p.dim.Sprint(rules.Caution))
+}
+
+// profileTolerance is the change below which a profile counts as the same
+// (half the 0.001 the outputs print).
+const profileTolerance = 0.0005
+
+// unchanged reports whether a compared profile moved by less than
+// profileTolerance everywhere.
+func unchanged(p *revdiff.Profile) bool {
+	small := func(e revdiff.Extreme) bool { return abs(e.Delta) < profileTolerance }
+	return p.Compared == 0 || (small(p.Rise) && small(p.Fall) && small(p.Faster) && small(p.Slower) &&
+		(!p.HasFreeboard || (small(p.LessFree) && small(p.MoreFree))))
+}
+
+func abs(x float64) float64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+// profileText is "water surface +0.052 m at 410 m, −0.010 m at 20 m;
+// velocity ...; freeboard ...": the largest increase and decrease of each
+// quantity, each only where it moved by profileTolerance or more.
+func profileText(p *revdiff.Profile, unit string) string {
+	quantity := func(name, u string, up, down revdiff.Extreme) string {
+		var moves []string
+		if up.Delta >= profileTolerance {
+			moves = append(moves, signedNum(up.Delta)+" "+u+" at "+rules.Num(up.Station)+" "+unit)
+		}
+		if down.Delta <= -profileTolerance {
+			moves = append(moves, signedNum(down.Delta)+" "+u+" at "+rules.Num(down.Station)+" "+unit)
+		}
+		if len(moves) == 0 {
+			return ""
+		}
+		return name + " " + strings.Join(moves, ", ")
+	}
+	var parts []string
+	for _, q := range []string{
+		quantity("water surface", unit, p.Rise, p.Fall),
+		quantity("velocity", unit+"/s", p.Faster, p.Slower),
+	} {
+		if q != "" {
+			parts = append(parts, q)
+		}
+	}
+	if p.HasFreeboard {
+		if q := quantity("freeboard", unit, p.MoreFree, p.LessFree); q != "" {
+			parts = append(parts, q)
+		}
+	}
+	return strings.Join(parts, "; ")
+}
+
+// signedNum is a change with its sign: "+0.052", "−0.01", "0".
+func signedNum(x float64) string {
+	switch {
+	case abs(x) < profileTolerance:
+		return "0"
+	case x > 0:
+		return "+" + rules.Num(x)
+	}
+	return "−" + rules.Num(-x)
+}
+
+// changeText describes a finding that changed: "reach R, event E:
+// value 0.162 → 0.201 m, stations 305–350 → 310–350 m: message".
+func changeText(c *revdiff.Change, unit string) string {
+	var parts []string
+	if w := c.New.Where(unit); w != "" {
+		parts = append(parts, w)
+	}
+	if c.New.HasValue {
+		parts = append(parts, "value "+rules.Num(c.Old.Value)+" → "+rules.Num(c.New.Value)+" "+c.New.Unit)
+	}
+	if c.New.HasSpan {
+		parts = append(parts, "stations "+rules.Span(c.Old.FromStation, c.Old.ToStation)+" → "+rules.Span(c.New.FromStation, c.New.ToStation)+" "+unit)
+	}
+	return strings.Join(parts, ", ") + ": " + c.New.Message
+}
+
+// diffJSON is the document of `diff --format json`.
+type diffJSON struct {
+	Comparisons []comparisonJSON `json:"comparisons"`
+	Summary     struct {
+		New     int `json:"new"`
+		Fixed   int `json:"fixed"`
+		Changed int `json:"changed"`
+	} `json:"summary"`
+	Caution string `json:"caution"`
+}
+
+type comparisonJSON struct {
+	Old      string        `json:"old"`
+	New      string        `json:"new"`
+	Units    string        `json:"units"`
+	Invalid  bool          `json:"invalid"`
+	NewF     []findingJSON `json:"new_findings"`
+	Fixed    []findingJSON `json:"fixed_findings"`
+	Changed  []changeJSON  `json:"changed_findings"`
+	Added    []string      `json:"reaches_added"`
+	Removed  []string      `json:"reaches_removed"`
+	Profiles []profileJSON `json:"profiles"`
+}
+
+type changeJSON struct {
+	Old findingJSON `json:"old"`
+	New findingJSON `json:"new"`
+}
+
+type extremeJSON struct {
+	Delta   *float64 `json:"delta"`
+	Station *float64 `json:"station"`
+}
+
+type profileJSON struct {
+	Event        string       `json:"event"`
+	Reach        string       `json:"reach"`
+	Compared     int          `json:"compared"`
+	WSERise      extremeJSON  `json:"wse_rise"`
+	WSEFall      extremeJSON  `json:"wse_fall"`
+	VelocityUp   extremeJSON  `json:"velocity_increase"`
+	VelocityDown extremeJSON  `json:"velocity_decrease"`
+	FreeboardOut *extremeJSON `json:"freeboard_loss"`
+	FreeboardIn  *extremeJSON `json:"freeboard_gain"`
+}
+
+func extreme(e revdiff.Extreme) extremeJSON {
+	return extremeJSON{Delta: finite(e.Delta), Station: finite(e.Station)}
+}
+
+func writeDiffJSON(w io.Writer, diffs []*revdiff.Diff) error {
+	doc := diffJSON{Comparisons: []comparisonJSON{}, Caution: rules.Caution}
+	list := func(fs []rules.Finding) []findingJSON {
+		out := []findingJSON{}
+		for i := range fs {
+			out = append(out, newFindingJSON(&fs[i]))
+		}
+		return out
+	}
+	for _, d := range diffs {
+		c := comparisonJSON{
+			Old: d.OldFile, New: d.NewFile, Units: string(d.Units), Invalid: d.Invalid,
+			NewF: list(d.New), Fixed: list(d.Fixed), Changed: []changeJSON{},
+			Added: append([]string{}, d.Added...), Removed: append([]string{}, d.Removed...), Profiles: []profileJSON{},
+		}
+		for i := range d.Changed {
+			c.Changed = append(c.Changed, changeJSON{Old: newFindingJSON(&d.Changed[i].Old), New: newFindingJSON(&d.Changed[i].New)})
+		}
+		for _, p := range d.Profiles {
+			pj := profileJSON{Event: p.Event, Reach: p.Reach, Compared: p.Compared,
+				WSERise: extreme(p.Rise), WSEFall: extreme(p.Fall), VelocityUp: extreme(p.Faster), VelocityDown: extreme(p.Slower)}
+			if p.HasFreeboard {
+				lo, hi := extreme(p.LessFree), extreme(p.MoreFree)
+				pj.FreeboardOut, pj.FreeboardIn = &lo, &hi
+			}
+			c.Profiles = append(c.Profiles, pj)
+		}
+		doc.Summary.New += len(d.New)
+		doc.Summary.Fixed += len(d.Fixed)
+		doc.Summary.Changed += len(d.Changed)
+		doc.Comparisons = append(doc.Comparisons, c)
+	}
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(doc)
+}
+
+// writeDiffMarkdown writes the comparison for a pull-request comment.
+// Every name and message is escaped (safetext.Markdown).
+func writeDiffMarkdown(w io.Writer, diffs []*revdiff.Diff, policyLine string) {
+	md := safetext.Markdown
+	cell := func(s string) string { return strings.ReplaceAll(md(s), "|", `\|`) }
+	fmt.Fprintln(w, "## chanlint: what this revision changes")
+	fmt.Fprintln(w)
+	for _, d := range diffs {
+		unit := d.Units.Length()
+		fmt.Fprintf(w, "### %s → %s\n\n", md(d.OldFile), md(d.NewFile))
+		table := func(title string, fs []rules.Finding) {
+			if len(fs) == 0 {
+				return
+			}
+			fmt.Fprintf(w, "**%s (%d)**\n\n| rule | severity | where | message |\n| --- | --- | --- | --- |\n", title, len(fs))
+			for i := range fs {
+				f := &fs[i]
+				fmt.Fprintf(w, "| `%s` | %s | %s | %s |\n", f.Rule, f.Severity, cell(f.Where(unit)), cell(f.Message))
+			}
+			fmt.Fprintln(w)
+		}
+		table("New findings", d.New)
+		table("Fixed findings", d.Fixed)
+		if len(d.Changed) > 0 {
+			fmt.Fprintf(w, "**Changed findings (%d)**\n\n| rule | change |\n| --- | --- |\n", len(d.Changed))
+			for i := range d.Changed {
+				fmt.Fprintf(w, "| `%s` | %s |\n", d.Changed[i].New.Rule, cell(changeText(&d.Changed[i], unit)))
+			}
+			fmt.Fprintln(w)
+		}
+		if len(d.Added)+len(d.Removed) > 0 {
+			fmt.Fprintf(w, "Reaches added: %s. Reaches removed: %s.\n\n", orNone(md(strings.Join(d.Added, ", "))), orNone(md(strings.Join(d.Removed, ", "))))
+		}
+		var rows []string
+		for i := range d.Profiles {
+			p := &d.Profiles[i]
+			if unchanged(p) {
+				continue
+			}
+			free := "–"
+			if p.HasFreeboard {
+				free = moveCell(p.LessFree, false)
+			}
+			rows = append(rows, fmt.Sprintf("| %s | %s | %s | %s | %s |", cell(p.Reach), cell(p.Event),
+				moveCell(p.Rise, true), moveCell(p.Fall, false), free))
+		}
+		if len(rows) > 0 {
+			fmt.Fprintf(w, "| reach | event | largest rise (%s, at station) | largest fall | freeboard lost |\n| --- | --- | --- | --- | --- |\n", unit)
+			fmt.Fprintln(w, strings.Join(rows, "\n"))
+			fmt.Fprintln(w)
+		} else if len(d.Profiles) > 0 {
+			fmt.Fprintf(w, "The water surface, velocity and freeboard are unchanged on every reach and event (within %s %s).\n\n", rules.Num(profileTolerance), unit)
+		}
+	}
+	fmt.Fprintln(w, md(policyLine))
+	fmt.Fprintln(w)
+	fmt.Fprintf(w, "_%s_\n", md(rules.Caution))
+}
+
+// moveCell is "+0.114 at 570" for an increase (up) or a decrease of at
+// least profileTolerance, else "–".
+func moveCell(e revdiff.Extreme, up bool) string {
+	if (up && e.Delta >= profileTolerance) || (!up && e.Delta <= -profileTolerance) {
+		return signedNum(e.Delta) + " at " + rules.Num(e.Station)
+	}
+	return "–"
+}
+
+func orNone(s string) string {
+	if s == "" {
+		return "none"
+	}
+	return s
+}
