@@ -334,7 +334,14 @@ func TestGoldenExceptions(t *testing.T) {
 // Source: gradually varied flow equation (Chow 1959, ch. 9); Belanger
 // y1/y2 = ½(√(1+8F2²) − 1) (Chow 1959, ch. 15); Manning's equation.
 func jumpExpect() (toe, f1, y2 float64) {
-	const g, b, n, s, q, opening, cc = 9.80665, 2.5, 0.014, 0.0007, 4.0, 0.43, 0.61
+	const opening, cc = 0.43, 0.61
+	return jumpExpectFrom(cc*opening, 0)
+}
+
+// jumpExpectFrom is jumpExpect for the jet starting at depth y0 at station
+// x0 in the same channel (rectangle 2.5 m, n 0.014, S0 0.0007, 4 m³/s).
+func jumpExpectFrom(y0, x0 float64) (toe, f1, y2 float64) {
+	const g, b, n, s, q = 9.80665, 2.5, 0.014, 0.0007, 4.0
 	y2 = manningNormalDepth(siUnits, q, b, n, s)
 	f2 := q / (b * y2) / math.Sqrt(g*y2)
 	ys := y2 * 0.5 * (math.Sqrt(1+8*f2*f2) - 1)
@@ -345,7 +352,7 @@ func jumpExpect() (toe, f1, y2 float64) {
 		sf := n * n * v * v / math.Pow(r, 4.0/3)
 		return (s - sf) / (1 - v*v/(g*y))
 	}
-	y, x, h := cc*opening, 0.0, 1e-3
+	y, x, h := y0, x0, 1e-3
 	for range 1_000_000 {
 		k1 := dydx(y)
 		k2 := dydx(y + h/2*k1)
@@ -394,6 +401,28 @@ func TestGoldenJumps(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestGoldenDropJump: the jump below a straight drop is checked by the
+// jump rules like any other; its toe lies where the M3 curve from Rand's
+// toe depth, at Rand's drop length, reaches the sequent of the normal
+// depth.
+func TestGoldenDropJump(t *testing.T) {
+	const g, q, b, h = 9.80665, 4.0, 2.5, 1.5
+	// Source: Rand (1955), as given in Chow 1959 ch. 15 (from memory):
+	// y1/h = 0.54·D^0.425, Ld/h = 4.30·D^0.27, D = q²/(g·h³).
+	d := (q / b) * (q / b) / (g * h * h * h)
+	toe, f1, _ := jumpExpectFrom(0.54*math.Pow(d, 0.425)*h, 4.30*math.Pow(d, 0.27)*h)
+	m, _, fs := golden(t, "drop-basin.chan.hcl", "jumps.policy.hcl")
+	assertFinite(t, fs)
+	got := matchWants(t, m.Source, "", fs)
+	require.Len(t, got, 2)
+	for w, f := range got {
+		assert.InDelta(t, toe, f.FromStation, 0.5, "toe")
+		if w.Rule == "jump_type" {
+			assert.InDelta(t, f1, f.Value, 0.01*f1, "F1")
+		}
 	}
 }
 
