@@ -151,7 +151,7 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 		}
 	}
 	if a := content.Attributes["exceptions"]; a != nil {
-		if s, ok := d.enum(a, "exceptions", []string{"report", "deny"}); ok {
+		if s, ok := d.enum(a, "exceptions", []string{"report", "deny", Approved}); ok {
 			o.policy.Exceptions = s
 			o.hasExceptions = true
 		}

@@ -150,7 +150,7 @@ type Policy struct {
 	// Version is the version of the manual or pack (`version`); "" when
 	// not written.
 	Version    string
-	Exceptions string // "report" (default) or "deny"
+	Exceptions string // "report" (default), "deny" or "approved"
 	// WaiveAlwaysOn lists the always-on rules (e.g. "capacity") whose
 	// findings a model's design exception may waive (`waive_always_on`);
 	// by default none: a submittal cannot excuse an overtopping channel.
@@ -159,6 +159,11 @@ type Policy struct {
 	Chain         []string               // the files and packs merged, child first
 	Rules         map[string]*RuleConfig // enabled configurable rules by id
 	DefRange      hcl.Range
+	// Approvals are the reviewer's accepted exceptions (--approvals), which
+	// count under exceptions = "approved"; ApprovalsFile is where they
+	// were read from ("" for none).
+	Approvals     []Approval
+	ApprovalsFile string
 }
 
 // Waives reports whether a design exception may waive findings of the

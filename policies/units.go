@@ -66,6 +66,7 @@ func (rc *RuleConfig) convert(u model.Units) {
 func (p *Policy) clone() *Policy {
 	c := *p
 	c.Chain = slices.Clone(p.Chain)
+	c.Approvals = slices.Clone(p.Approvals)
 	c.WaiveAlwaysOn = slices.Clone(p.WaiveAlwaysOn)
 	c.Rules = make(map[string]*RuleConfig, len(p.Rules))
 	for id, rc := range p.Rules {

@@ -51,21 +51,63 @@ func waivable(p *policies.Policy, id string) bool {
 // exception in source order that covers a finding is the one recorded.
 // Findings of an always-on rule the policy does not let exceptions waive
 // are never covered.
+//
+// Under exceptions = "approved" an exception covers a finding only when
+// one of the reviewer's approvals matches the finding too; the reason then
+// carries the approval's date and note.
 func applyExceptions(m *model.Model, fs []Finding, p *policies.Policy) {
+	approved := p.Exceptions == policies.Approved
 	for i := range fs {
 		f := &fs[i]
 		if !waivable(p, f.Rule) {
 			continue
 		}
 		for _, ex := range m.Exceptions {
-			if covers(ex, f) {
-				f.Excepted = true
-				f.ExceptionReason = ex.Reason
-				f.ExceptionRange = ex.DefRange
-				break
+			if !covers(ex, f) {
+				continue
 			}
+			reason := ex.Reason
+			if approved {
+				a := approvalFor(m, p, f)
+				if a == nil {
+					break // claimed, not approved: unused_exception lists it
+				}
+				reason += " (" + a.Text() + ")"
+			}
+			f.Excepted = true
+			f.ExceptionReason = reason
+			f.ExceptionRange = ex.DefRange
+			break
 		}
 	}
+}
+
+// approvalFor is the first of the policy's approvals that matches a
+// finding of model m: same rule, model file, reach and event (or the
+// event's class), and the finding's span within the approved span; nil
+// when none does.
+func approvalFor(m *model.Model, p *policies.Policy, f *Finding) *policies.Approval {
+	for i := range p.Approvals {
+		a := &p.Approvals[i]
+		if a.Rule != f.Rule || a.Reach != f.Reach || !f.HasSpan || !a.ModelMatches(m.File) || !a.EventMatches(eventNamed(m, f.Event)) {
+			continue
+		}
+		if f.FromStation >= a.FromStation-exceptionTolerance(a.FromStation) &&
+			f.ToStation <= a.ToStation+exceptionTolerance(a.ToStation) {
+			return a
+		}
+	}
+	return nil
+}
+
+// eventNamed is the model's event of a name, or nil.
+func eventNamed(m *model.Model, name string) *model.Event {
+	for _, ev := range m.Events {
+		if ev != nil && ev.Name == name {
+			return ev
+		}
+	}
+	return nil
 }
 
 var unusedExceptionRule = &Rule{
@@ -95,7 +137,15 @@ When the policy says exceptions = "deny", no exception is applied: every
 finding is reported in full and fails the run as its severity says, and each
 exception of the model is listed here as an info finding saying it was not
 applied and how many findings it would have covered. A reviewer then sees
-the claims without their taking effect.`,
+the claims without their taking effect.
+
+When the policy says exceptions = "approved" (the review pack does), an
+exception covers a finding only when an approval of the reviewer's
+--approvals file matches it too: same rule, model file, reach, event (or
+the event's class) and a span within the approved one. Each covered finding
+without an approval is listed here as an info finding, "claimed, not
+approved", and keeps its severity; each approval of the model that matches
+no excepted finding is a warning at the approval ("stale approval").`,
 		Formula: `none; it compares station spans.`,
 		Basis: `common practice for suppressions in code-review tools: a
 suppression must state a reason and one that matches nothing is reported
@@ -116,13 +166,23 @@ func checkExceptions(ctx *Context, report func(Finding)) {
 	}
 	u := ctx.units()
 	deny := ctx.Policy != nil && ctx.Policy.Exceptions == "deny"
+	approved := ctx.Policy != nil && ctx.Policy.Exceptions == policies.Approved
+	used := map[*policies.Approval]bool{}
 	for _, ex := range ctx.Model.Exceptions {
 		n := 0
 		var partial *Finding
+		var claimed []*Finding // covered, but no approval matches (approved mode)
 		for i := range ctx.Findings {
 			f := &ctx.Findings[i]
 			if covers(ex, f) {
 				n++
+				if approved {
+					if a := approvalFor(ctx.Model, ctx.Policy, f); a != nil {
+						used[a] = true
+					} else {
+						claimed = append(claimed, f)
+					}
+				}
 			} else if partial == nil && f.Rule == ex.Rule && f.Reach == ex.ReachName && f.HasSpan &&
 				f.FromStation <= ex.ToStation && f.ToStation >= ex.FromStation {
 				partial = f
@@ -130,7 +190,16 @@ func checkExceptions(ctx *Context, report func(Finding)) {
 		}
 		locked := !waivable(ctx.Policy, ex.Rule) && Lookup(ex.Rule) != nil
 		if !deny && !locked && n > 0 {
-			continue // covered: nothing to report
+			for _, c := range claimed {
+				report(Finding{
+					Severity: policies.Info, Range: ex.DefRange, Reach: ex.ReachName, Event: c.Event,
+					FromStation: c.FromStation, ToStation: c.ToStation, HasSpan: true,
+					Message: fmt.Sprintf("claimed, not approved: the exception for rule %q on reach %q covers the %s finding %s, "+
+						"but no approval %smatches it (exceptions = \"approved\"), so the finding stands", ex.Rule, ex.ReachName,
+						c.Rule, stations(c.FromStation, c.ToStation, u), approvalsIn(ctx.Policy)),
+				})
+			}
+			continue // covered: nothing else to report
 		}
 		what := fmt.Sprintf("the exception for rule %q on reach %q", ex.Rule, ex.ReachName)
 		f := Finding{Range: ex.DefRange, Reach: ex.ReachName}
@@ -164,6 +233,36 @@ func checkExceptions(ctx *Context, report func(Finding)) {
 			f.Message = fmt.Sprintf("%s covers no finding in any event: %s", what, strings.Join(why, "; "))
 		}
 		report(f)
+	}
+	if approved {
+		staleApprovals(ctx, used, report)
+	}
+}
+
+// approvalsIn names the approvals file for messages: "in FILE ", or "" .
+func approvalsIn(p *policies.Policy) string {
+	if p == nil || p.ApprovalsFile == "" {
+		return "(none was given with --approvals) "
+	}
+	return "in " + p.ApprovalsFile + " "
+}
+
+// staleApprovals reports the approvals for this model that matched no
+// claimed finding: the design changed, or the approval's rule, reach,
+// stations or event are wrong. The finding points at the approval block.
+func staleApprovals(ctx *Context, used map[*policies.Approval]bool, report func(Finding)) {
+	u := ctx.units()
+	for i := range ctx.Policy.Approvals {
+		a := &ctx.Policy.Approvals[i]
+		if used[a] || !a.ModelMatches(ctx.Model.File) {
+			continue
+		}
+		report(Finding{
+			Severity: policies.Warning, File: a.DefRange.Filename, Range: a.DefRange, Reach: a.Reach,
+			FromStation: a.FromStation, ToStation: a.ToStation, HasSpan: true,
+			Message: fmt.Sprintf("stale approval: the approval of %q on reach %q %s (%s) matches no excepted finding of %s; "+
+				"remove it, or correct its rule, reach, stations or event", a.Rule, a.Reach, stations(a.FromStation, a.ToStation, u), a.Text(), ctx.Model.File),
+		})
 	}
 }
 

@@ -27,6 +27,7 @@ import (
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
 )
 
 // progressThreshold is the number of files from which `check` and
@@ -45,6 +46,7 @@ func checkCommand() *command {
 // checkFlags are the options of `check`.
 type checkFlags struct {
 	policy        string
+	approvals     string
 	rules, events listFlag
 	stdinName     string
 	vary          string
@@ -64,6 +66,7 @@ func newCheckFlags() (*checkFlags, *flag.FlagSet) {
 	}
 	fs := newFlagSet("check")
 	fs.StringVar(&cf.policy, "policy", "", "policy `FILE` or built-in pack name (default: "+configName+", else the baseline pack)")
+	fs.StringVar(&cf.approvals, "approvals", "", "the reviewer's approved exceptions `FILE`, counted under a policy with exceptions = \"approved\"")
 	fs.Var(cf.format, "format", "output format (annotations: workflow commands for GitHub Actions)")
 	fs.Var(&cf.rules, "rule", "show only findings of rule `ID` (repeatable, or a comma-separated list)")
 	fs.Var(&cf.events, "event", "show only findings of flow event `NAME` and those of no event (repeatable, or comma-separated)")
@@ -188,6 +191,9 @@ func (a *app) runCheck(args []string) int {
 	}
 
 	pol, ok := a.loadPolicy(cf.policy, errPal)
+	if ok {
+		ok = a.loadApprovals(cf.approvals, pol, errPal)
+	}
 	if !ok {
 		return failSetup()
 	}
@@ -726,6 +732,41 @@ func (a *app) loadPolicy(arg string, p *palette) (*policies.Policy, bool) {
 		return nil, false
 	}
 	return pol, true
+}
+
+// loadApprovals reads the approvals file onto the policy ("" for none); a
+// file that does not load is a diagnostic and exit status 2.
+func (a *app) loadApprovals(path string, pol *policies.Policy, p *palette) bool {
+	if path == "" {
+		return true
+	}
+	abs := a.abs(path)
+	if err := confineInput(abs); err != nil {
+		fmt.Fprintf(a.stderr, "%s %s: cannot read approvals file: %v\n", p.place.Sprint(path+":"), p.severity(policies.Error), err)
+		return false
+	}
+	src, err := safefile.Read(abs, policies.MaxFileSize)
+	if err != nil {
+		fmt.Fprintf(a.stderr, "%s %s: cannot read approvals file: %v\n", p.place.Sprint(path+":"), p.severity(policies.Error), err)
+		return false
+	}
+	name := filepath.ToSlash(path)
+	approvals, diags := policies.ParseApprovals(name, src)
+	if len(diags) > 0 {
+		files := map[string]*hcl.File{}
+		if f, _ := hclsyntax.ParseConfig(src, name, hcl.InitialPos); f != nil {
+			files[name] = f
+		}
+		a.writeDiagnostics(a.stderr, diags, files, p)
+	}
+	if diags.HasErrors() {
+		return false
+	}
+	pol.Approvals, pol.ApprovalsFile = approvals, name
+	if pol.Exceptions != policies.Approved {
+		fmt.Fprintf(a.stderr, "chanlint: %s: the policy's exceptions mode is %q, so the approvals do not decide which exceptions count; use a policy with exceptions = \"approved\"\n", name, pol.Exceptions)
+	}
+	return true
 }
 
 // looksLikePath tells a policy argument meant as a file from a pack name:

@@ -23,11 +23,12 @@ func reportCommand() *command {
 }
 
 type reportFlags struct {
-	out    string
-	format *choice
-	policy string
-	color  *choice
-	jobs   int
+	out       string
+	format    *choice
+	policy    string
+	approvals string
+	color     *choice
+	jobs      int
 }
 
 func newReportFlags() (*reportFlags, *flag.FlagSet) {
@@ -39,6 +40,7 @@ func newReportFlags() (*reportFlags, *flag.FlagSet) {
 	fs.StringVar(&rf.out, "out", "", "write the report to `FILE` (required; - for standard output)")
 	fs.Var(rf.format, "format", "report format (default: markdown when FILE ends in .md, else html)")
 	fs.StringVar(&rf.policy, "policy", "", "policy `FILE` or built-in pack name (default: "+configName+", else the baseline pack)")
+	fs.StringVar(&rf.approvals, "approvals", "", "the reviewer's approved exceptions `FILE`, counted under a policy with exceptions = \"approved\"")
 	fs.Var(rf.color, "color", "colour the diagnostics printed on stderr")
 	fs.IntVar(&rf.jobs, "jobs", 0, "solve `N` files at once (default: the number of CPUs)")
 	fs.IntVar(&rf.jobs, "j", 0, "short for --jobs")
@@ -94,7 +96,7 @@ func (a *app) runReport(args []string) int {
 	}
 	errPal := newPalette(a.useColor(rf.color.value, a.stderrTTY))
 	pol, ok := a.loadPolicy(rf.policy, errPal)
-	if !ok {
+	if !ok || !a.loadApprovals(rf.approvals, pol, errPal) {
 		return exitInvalid
 	}
 	results := a.checkPaths(paths, pol, rf.jobs, pipeline.Keep{Solved: true, Source: true})

@@ -8,6 +8,9 @@ policy "review" {
   units     = "si"
   extends   = "strict"
   version   = "2026.1"
+  # A reviewer's pack: a model's design exceptions count only where the
+  # reviewer's --approvals file accepts them.
+  exceptions = "approved"
   reference = "chanlint review pack (strict screening plus facility-class criteria, not a local design code)"
 
   min_velocity {
