@@ -76,12 +76,33 @@ func (s *solver) culvertHead(w *reachWork, ev *model.Event) {
 	}
 	headwater(split.Barrel) // leave the work in the state of the final split
 	cr.BarrelFlow, cr.RoadFlow = split.Barrel, total-split.Barrel
+	if road := c.Road; cr.RoadFlow > 0 {
+		// The outlet-control headwater jumps where the barrel's outlet
+		// method changes (partly full profile below, HDS-5 full-barrel
+		// equation once the profile reaches the crown): there the split
+		// settles on the jump and no barrel flow balances the road
+		// exactly. The pool then stands at the road's level, between the
+		// two values the barrel gives, with the barrel at its transition.
+		if hw := roadHeadwater(weir, road.Length, road.Crest, tw, cr.RoadFlow); math.Abs(hw-cr.Headwater) > splitTolerance && hw > cr.InletHeadwater {
+			cr.Transition = cr.Headwater - hw
+			cr.OutletHeadwater, cr.Headwater, cr.Control = hw, hw, OutletControlled
+			cr.HeadwaterDepth = hw - w.f.invert(0)
+			if cr.Rise > 0 {
+				cr.HWD = cr.HeadwaterDepth / cr.Rise
+			}
+		}
+	}
 	if c.Road != nil && cr.Headwater > c.Road.Crest {
 		cr.RoadDepth = cr.Headwater - c.Road.Crest
 	}
 	w.imposePool(cr.Headwater)
 	s.culvertNotes(w, cr, weir)
 }
+
+// splitTolerance is the headwater difference between barrel and road, in
+// the model's length unit, above which a flow split has not balanced (the
+// split itself closes to about 1e-12 of the flow where it can).
+const splitTolerance = 1e-4
 
 // tailwater is the water level at the outlet of a barrel: the start of the
 // subcritical profile of the reach below, or the outlet control.
@@ -198,6 +219,11 @@ func (s *solver) culvertNotes(w *reachWork, cr *CulvertResult, weir float64) {
 		"culvert %q: headwater %s (HW/D %s) by %s control (FHWA HDS-5, 2012). Inlet control %s with %s, form %s, %s: Ku·Q/(A·D^0.5) = %s (unsubmerged up to 3.5, submerged from 4.0, interpolated between)%s. Outlet control %s, tailwater %s, ke = %s: %s",
 		c.Name, num(cr.Headwater), num(cr.HWD), cr.Control, num(cr.InletHeadwater), inlet, form, cr.InletRegime,
 		num(cr.Intensity), barrels, num(cr.OutletHeadwater), num(cr.Tailwater), num(c.Inlet.EntranceLoss), outlet))
+	if cr.Transition != 0 {
+		cr.Notes = append(cr.Notes, fmt.Sprintf(
+			"culvert %q is at its transition to full flow: at %s through the barrel the partly full profile and the HDS-5 full-barrel equation give outlet-control headwaters %s apart, so no flow split balances barrel and road exactly; the headwater %s is the road weir's, between the two (an approximation of the method, not of the culvert)",
+			c.Name, num(cr.BarrelFlow), num(math.Abs(cr.Transition)), num(cr.Headwater)))
+	}
 	if cr.RoadFlow > 0 {
 		hr := cr.RoadDepth
 		kt := 1.0
@@ -230,7 +256,7 @@ func finishCulvert(cr *CulvertResult, g *Geometry) {
 		}
 	}
 	for _, v := range []*float64{&cr.Rise, &cr.Headwater, &cr.HeadwaterDepth, &cr.HWD, &cr.InletHeadwater, &cr.OutletHeadwater,
-		&cr.Intensity, &cr.Tailwater, &cr.BarrelFlow, &cr.RoadFlow, &cr.RoadDepth, &cr.OutletDepth, &cr.OutletVelocity} {
+		&cr.Intensity, &cr.Tailwater, &cr.Transition, &cr.BarrelFlow, &cr.RoadFlow, &cr.RoadDepth, &cr.OutletDepth, &cr.OutletVelocity} {
 		if math.IsNaN(*v) || math.IsInf(*v, 0) {
 			*v = 0
 		}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"reflect"
+	"strings"
 	"testing"
 
 	"pgregory.net/rapid"
@@ -323,4 +324,33 @@ func solveCulvert2(t *testing.T, src string) (*Result, []*CulvertResult) {
 		out = append(out, ev.Culverts[0])
 	}
 	return res, out
+}
+
+// TestCulvertSplitAtOutletMethodSwitch: a pipe whose road overtops while
+// the barrel's outlet control changes from the partly full profile to the
+// HDS-5 full-barrel equation (a jump of about 0.056 m in the barrel's
+// headwater): the pool takes the road weir's level, between the two, the
+// barrel and road carry the flow, and a note says the method switched.
+// The case is the one random draw of TestCulvertProperties that first
+// showed it.
+// Source: common practice (no published source): continuity and one
+// headwater for barrel and road (HDS-5 2012, roadway overtopping, from
+// memory).
+func TestCulvertSplitAtOutletMethodSwitch(t *testing.T) {
+	barrel := "section \"barrel\" {\n shape = \"circle\"\n diameter = 0.75\n roughness = 0.024\n}"
+	culvert := "culvert \"c\" {\n reach = \"barrel\"\n barrels = 1\n inlet = \"square-edge-headwall\"\n road = { crest = 10.8125, length = 10.75, width = 12 }\n}"
+	m, diags := model.Parse("p.chan.hcl", []byte(culvertNet(barrel, culvert, 0.75, 0.25)))
+	require.False(t, diags.HasErrors(), diags.Error())
+	res, err := Solve(m, Options{})
+	require.NoError(t, err)
+	cr := res.Events[0].Culverts[0]
+	require.Greater(t, cr.RoadFlow, 0.0)
+	geoClose(t, 0.75, cr.BarrelFlow+cr.RoadFlow, 1e-12, "continuity")
+	hw := roadHeadwater(RoadWeirCoefficient(model.SI), 10.75, 10.8125, cr.Tailwater, cr.RoadFlow)
+	assert.InDelta(t, hw, cr.Headwater, 1e-9, "the pool stands at the road's level")
+	assert.Equal(t, cr.Headwater, math.Max(cr.InletHeadwater, cr.OutletHeadwater))
+	assert.NotZero(t, cr.Transition)
+	assert.Less(t, math.Abs(cr.Transition), 0.1)
+	joined := strings.Join(cr.Notes, "\n")
+	assert.Contains(t, joined, "transition to full flow")
 }

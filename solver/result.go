@@ -326,10 +326,14 @@ type CulvertResult struct {
 	InletRegime                     InletRegime
 	Intensity                       float64 // Ku·Q/(A·D^0.5) of one barrel
 	OutletMethod                    string  // OutletFullBarrel, OutletPartlyFull or OutletNoFlow
-	Tailwater                       float64 // elevation at the outlet
-	BarrelFlow, RoadFlow            float64 // discharges; they sum to the reach's event flow
-	RoadDepth                       float64 // headwater above the road crest, 0 when it does not overtop
-	OutletDepth, OutletVelocity     float64 // at the barrel's downstream end, from the final profile
+	// Transition is, for a culvert whose road overtops with the barrel at
+	// the switch between its two outlet-control methods, the barrel's
+	// headwater minus the road's (the pool takes the road's); 0 otherwise.
+	Transition                  float64
+	Tailwater                   float64 // elevation at the outlet
+	BarrelFlow, RoadFlow        float64 // discharges; they sum to the reach's event flow
+	RoadDepth                   float64 // headwater above the road crest, 0 when it does not overtop
+	OutletDepth, OutletVelocity float64 // at the barrel's downstream end, from the final profile
 	// Notes say which methods applied, with their range of validity and
 	// the values they used.
 	Notes []string
