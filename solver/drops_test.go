@@ -15,8 +15,14 @@ import (
 // trapezoid), with the outlet control given and an optional loss block.
 func dropModel(t *testing.T, q, h float64, lower, outlet, loss string) *model.Model {
 	t.Helper()
+	return dropModelIn(t, "si", q, h, lower, outlet, loss)
+}
+
+// dropModelIn is dropModel in the given units (lengths as written).
+func dropModelIn(t *testing.T, units string, q, h float64, lower, outlet, loss string) *model.Model {
+	t.Helper()
 	src := fmt.Sprintf(`
-units = "si"
+units = %q
 section "rect" {
   shape        = "rectangle"
   bottom_width = 3
@@ -49,7 +55,7 @@ event "q" {
   inflow = { "upper" = %g }
   outlet = %s
 }
-`, 10+h+0.06, 10+h, lower, loss, q, outlet)
+`, units, 10+h+0.06, 10+h, lower, loss, q, outlet)
 	return parseModel(t, "drop.chan.hcl", []byte(src))
 }
 
@@ -106,6 +112,22 @@ func TestStraightDropRand(t *testing.T) {
 			require.InDelta(t, e0-e1, dr.EnergyLoss, 1e-9)
 		})
 	}
+}
+
+// TestStraightDropRandUS: Rand's relations are dimensionless; in US units
+// (feet, g = 32.174 ft/s²) a 6 ft drop of drop number 0.05 gives the same
+// ratios.
+func TestStraightDropRandUS(t *testing.T) {
+	const g, b, h, d = 32.174, 3.0, 6.0, 0.05
+	q := math.Sqrt(d * g * h * h * h)
+	low := solveOne(t, dropModelIn(t, "us", q*b, h, "rect", `{ condition = "critical" }`, "")).Reaches[1]
+	require.Len(t, low.Drops, 1)
+	dr := low.Drops[0]
+	// Source: Rand (1955) as given in Chow 1959 ch. 15 (from memory).
+	require.InDelta(t, d, dr.Number, 1e-9*d)
+	require.InDelta(t, 0.54*math.Pow(d, 0.425)*h, dr.ToeDepth, 1e-9*h)
+	require.InDelta(t, math.Pow(d, 0.22)*h, dr.PoolDepth, 1e-9*h)
+	require.InDelta(t, 4.30*math.Pow(d, 0.27)*h, dr.Length, 1e-9*h)
 }
 
 // TestDropDrownedByTailwater: a tailwater above the sequent depth of the
