@@ -4,6 +4,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 )
 
@@ -72,4 +73,51 @@ func checkFinite(t *testing.T, m *Model) {
 	if m.Network == nil || len(m.Network.Order) != len(m.Reaches) {
 		t.Fatalf("network order incomplete")
 	}
+}
+
+// FuzzParseRepeated reaches large inputs: the fuzzer chooses a head, a
+// construct and a tail, and the construct is repeated until the file
+// reaches size bytes (at most a little over MaxFileSize), so that chains,
+// long lists, deep nesting and floods of diagnostics are explored at the
+// sizes a hostile submittal can use. Besides FuzzParse's invariants, the
+// diagnostics stay within their bounds in count and bytes.
+//
+// Run: go test ./model -run '^$' -fuzz '^FuzzParseRepeated$' -fuzztime 60s
+func FuzzParseRepeated(f *testing.F) {
+	for _, h := range hostileExpressions {
+		f.Add([]byte(h.head), []byte(h.unit), []byte(h.tail), uint32(MaxFileSize))
+	}
+	f.Add([]byte("units = \"si\"\nsection \"s\" {\n  shape = \"points\"\n  roughness = 0.03\n  points = [\n"),
+		[]byte("[1.5, 2.0],\n"), []byte("]\n}\n"), uint32(200_000))
+	f.Add([]byte("units = \"si\"\n"), []byte("reach \"r\" {\n  from = \"a\"\n  to = \"b\"\n}\n"), []byte(""), uint32(1<<20))
+	f.Add([]byte("units = \"si\"\nsection \"s\" {\n"), []byte("  "+strings.Repeat("w", 300)+" = 1\n"), []byte("}\n"), uint32(MaxFileSize))
+	f.Fuzz(func(t *testing.T, head, unit, tail []byte, size uint32) {
+		if len(unit) == 0 {
+			return
+		}
+		src := repeatTo(string(head), string(unit), string(tail), int(size%uint32(MaxFileSize+4096)))
+		m, diags := Parse("fuzz.chan.hcl", src)
+		if (m == nil) != diags.HasErrors() {
+			t.Fatalf("model %v with errors=%v", m != nil, diags.HasErrors())
+		}
+		if len(diags) > MaxDiagnostics+1 {
+			t.Fatalf("%d diagnostics", len(diags))
+		}
+		total := 0
+		for _, d := range diags {
+			if d.Subject == nil {
+				t.Fatalf("diagnostic without position: %s", d.Summary)
+			}
+			if len(d.Summary) > MaxSummaryBytes || len(d.Detail) > MaxDetailBytes {
+				t.Fatalf("diagnostic of %d+%d bytes", len(d.Summary), len(d.Detail))
+			}
+			total += len(d.Summary) + len(d.Detail)
+		}
+		if total > MaxDiagnosticBytes+MaxSummaryBytes+MaxDetailBytes+200 {
+			t.Fatalf("%d bytes of diagnostics", total)
+		}
+		if m != nil {
+			checkFinite(t, m)
+		}
+	})
 }

@@ -199,3 +199,46 @@ func diagSummaries(diags hcl.Diagnostics) []string {
 	}
 	return out
 }
+
+// FuzzPolicyRepeated reaches large policy files: a head, a construct the
+// fuzzer chooses repeated until the text reaches size bytes (up to a little
+// over the policy size limit), and a tail. A policy is returned exactly
+// when there is no error, every diagnostic has a position, and every
+// number is finite.
+//
+// Run: go test ./policies -run '^$' -fuzz '^FuzzPolicyRepeated$' -fuzztime 60s
+func FuzzPolicyRepeated(f *testing.F) {
+	head := "policy \"x\" {\n  units = \"si\"\n"
+	f.Add([]byte(head+"  max_velocity {\n    limit = {\n"), []byte("      l = 1.5\n"), []byte("      default = 3\n    }\n  }\n}\n"), uint32(policies.MaxFileSize))
+	f.Add([]byte(head+"  reference = a"), []byte(".*"), []byte("\n}\n"), uint32(policies.MaxFileSize))
+	f.Add([]byte(head+"  reference = 1"), []byte("+1"), []byte("\n}\n"), uint32(policies.MaxFileSize))
+	f.Add([]byte(head+"  freeboard {\n    events = ["), []byte("\"q\","), []byte("]\n  }\n}\n"), uint32(policies.MaxFileSize))
+	f.Add([]byte(head), []byte("  froude_band {}\n"), []byte("}\n"), uint32(1<<16))
+	dir := f.TempDir()
+	f.Fuzz(func(t *testing.T, h, unit, tail []byte, size uint32) {
+		if len(unit) == 0 {
+			return
+		}
+		n := int(size % uint32(policies.MaxFileSize+4096))
+		var b strings.Builder
+		b.Write(h)
+		for b.Len()+len(unit)+len(tail) <= n {
+			b.Write(unit)
+		}
+		b.Write(tail)
+		p, diags := rules.Language().NewLoader(dir).LoadSource(filepath.Join(dir, "fuzz.policy.hcl"), []byte(b.String()))
+		if (p == nil) != diags.HasErrors() {
+			t.Fatalf("policy %v with errors %v", p != nil, diags.HasErrors())
+		}
+		for _, d := range diags {
+			if d.Subject == nil {
+				t.Fatalf("diagnostic without a position: %s", d.Summary)
+			}
+		}
+		if p != nil {
+			for _, u := range []model.Units{p.Units, model.SI, model.US} {
+				checkPolicyValues(t, p.In(u))
+			}
+		}
+	})
+}

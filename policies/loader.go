@@ -114,7 +114,9 @@ func (l *Loader) LoadSource(filename string, src []byte) (*Policy, hcl.Diagnosti
 		key = filepath.Join(dir, filepath.Base(key))
 	}
 	if len(src) > MaxFileSize {
-		return nil, hcl.Diagnostics{readError(display, fmt.Errorf("larger than the limit of %d bytes", MaxFileSize), nil)}
+		// At the top of the file: every diagnostic of a file has a place.
+		start := &hcl.Range{Filename: display, Start: hcl.InitialPos, End: hcl.InitialPos}
+		return nil, hcl.Diagnostics{readError(display, fmt.Errorf("larger than the limit of %d bytes", MaxFileSize), start)}
 	}
 	if src == nil {
 		src = []byte{}
