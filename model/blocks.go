@@ -8,6 +8,7 @@ import (
 	"unicode"
 
 	"github.com/hashicorp/hcl/v2"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
 )
 
 // maxBedSlope is the steepest bed (rise over run) accepted: at a slope of
@@ -337,7 +338,7 @@ func hasErrorAt(diags hcl.Diagnostics, rng hcl.Range) bool {
 	return false
 }
 
-func (d *decoder) outlet(ev *Event, a attrSet, at *hcl.Attribute) {
+func (d *decoder) outlet(ev *Event, a attrSet, at *hclsyntax.Attribute) {
 	ev.Outlet.Range = at.Expr.Range()
 	entries, ok := d.object(at.Expr, "outlet of "+a.what, `{ depth = 1.5 }`)
 	if !ok {

@@ -51,7 +51,7 @@ func TestDemoRanges(t *testing.T) {
 	assert.Contains(t, text(m, ex.At("reason")), "Chute slab")
 	for _, r := range m.Reaches {
 		for _, name := range []string{"from", "to", "length", "section"} {
-			assert.Contains(t, r.Attrs, name, "reach %s", r.Name)
+			assert.True(t, r.Has(name), "reach %s: %s", r.Name, name)
 		}
 	}
 }

@@ -92,7 +92,7 @@ func (d *decoder) resolveLosses() {
 	}
 }
 
-func (l *Loss) hasStation() bool { _, ok := l.Attrs["station"]; return ok }
+func (l *Loss) hasStation() bool { return l.Has("station") }
 
 // checkLossStation checks that a loss inside a reach stands at a change
 // of section and is the only one there.

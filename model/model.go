@@ -5,7 +5,10 @@
 // no other package of the project.
 package model
 
-import "github.com/hashicorp/hcl/v2"
+import (
+	"github.com/hashicorp/hcl/v2"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
+)
 
 // Units is the unit system of a model or a policy.
 type Units string
@@ -41,11 +44,15 @@ func (u Units) Length() string {
 }
 
 // Src is the source position of a decoded block: its header, its first
-// label (the name) and the value range of every attribute that was present.
+// label (the name) and the value range of every attribute that was present
+// (At). A decoded block keeps its attributes' syntax nodes for that, rather
+// than a map of ranges built for every block; Attrs holds ranges given
+// directly (a block made in code), and is consulted first.
 type Src struct {
 	DefRange   hcl.Range
 	LabelRange hcl.Range
 	Attrs      map[string]hcl.Range
+	syn        hclsyntax.Attributes // the decoded block's attributes
 }
 
 // At returns the value range of attribute name, or the block's DefRange
@@ -54,7 +61,19 @@ func (s Src) At(name string) hcl.Range {
 	if r, ok := s.Attrs[name]; ok {
 		return r
 	}
+	if a, ok := s.syn[name]; ok {
+		return a.Expr.Range()
+	}
 	return s.DefRange
+}
+
+// Has says whether attribute name was written.
+func (s Src) Has(name string) bool {
+	if _, ok := s.Attrs[name]; ok {
+		return true
+	}
+	_, ok := s.syn[name]
+	return ok
 }
 
 // Shape of a cross-section.

@@ -603,7 +603,7 @@ func (d *decoder) root(body hcl.Body) {
 
 // newSrc starts the Src of a block.
 func newSrc(b *hcl.Block) Src {
-	s := Src{DefRange: b.DefRange, LabelRange: b.DefRange, Attrs: map[string]hcl.Range{}}
+	s := Src{DefRange: b.DefRange, LabelRange: b.DefRange}
 	if len(b.LabelRanges) > 0 {
 		s.LabelRange = b.LabelRanges[0]
 	}
@@ -619,11 +619,11 @@ func (d *decoder) blockName(b *hcl.Block) string {
 	return b.Labels[0]
 }
 
-// attrSet wraps the attributes of one block for typed access; every read
-// attribute's value range goes into src.Attrs.
+// attrSet wraps the attributes of one block for typed access; src keeps
+// them for the attributes' value ranges (Src.At).
 type attrSet struct {
 	d    *decoder
-	m    hcl.Attributes
+	m    hclsyntax.Attributes // the block's own when it fits its schema (see attrs)
 	src  *Src
 	what string // e.g. `reach "main"`
 }
@@ -647,18 +647,14 @@ func bodyContent(body hcl.Body, schema *hcl.BodySchema) (*hcl.BodyContent, hcl.D
 	if !ok || !fits(sb, schema) {
 		return body.Content(schema)
 	}
+	// One allocation for the body's attributes, not one each.
 	attrs := make(hcl.Attributes, len(sb.Attributes))
+	vals := make([]hcl.Attribute, 0, len(sb.Attributes))
 	for name, a := range sb.Attributes {
-		attrs[name] = a.AsHCLAttribute()
+		vals = append(vals, hcl.Attribute{Name: a.Name, Expr: a.Expr, Range: a.SrcRange, NameRange: a.NameRange})
+		attrs[name] = &vals[len(vals)-1]
 	}
-	var blocks hcl.Blocks
-	if len(sb.Blocks) > 0 {
-		blocks = make(hcl.Blocks, len(sb.Blocks))
-		for i, b := range sb.Blocks {
-			blocks[i] = b.AsHCLBlock()
-		}
-	}
-	return &hcl.BodyContent{Attributes: attrs, Blocks: blocks, MissingItemRange: sb.MissingItemRange()}, nil
+	return &hcl.BodyContent{Attributes: attrs, Blocks: syntaxBlocks(sb), MissingItemRange: sb.MissingItemRange()}, nil
 }
 
 // fits reports whether every attribute and block of sb is one the schema
@@ -684,17 +680,56 @@ func fits(sb *hclsyntax.Body, schema *hcl.BodySchema) bool {
 	return true
 }
 
+// attrs decodes a block's body against its schema. A body that fits the
+// schema (a valid model's) is read from the syntax tree without copying its
+// attributes: the attribute set is the body's own map, and only the
+// nested blocks are converted (see bodyContent). Any other body goes
+// through Content for its diagnostics, and its attributes are taken back
+// to their syntax nodes.
 func (d *decoder) attrs(b *hcl.Block, schema *hcl.BodySchema, src *Src) (attrSet, *hcl.BodyContent) {
-	content, diags := bodyContent(b.Body, schema)
-	d.diags = append(d.diags, diags...)
-	for name, a := range content.Attributes {
-		src.Attrs[name] = a.Expr.Range()
+	var m hclsyntax.Attributes
+	var content *hcl.BodyContent
+	if sb, ok := b.Body.(*hclsyntax.Body); ok && fits(sb, schema) {
+		m = sb.Attributes
+		content = &hcl.BodyContent{Blocks: syntaxBlocks(sb), MissingItemRange: sb.MissingItemRange()}
+	} else {
+		var diags hcl.Diagnostics
+		content, diags = b.Body.Content(schema)
+		d.diags = append(d.diags, diags...)
+		m = make(hclsyntax.Attributes, len(content.Attributes))
+		for name, a := range content.Attributes {
+			m[name] = syntaxAttr(a)
+		}
 	}
+	src.syn = m
 	what := b.Type
 	if len(b.Labels) > 0 {
 		what = quoted(b.Type, b.Labels[0])
 	}
-	return attrSet{d: d, m: content.Attributes, src: src, what: what}, content
+	return attrSet{d: d, m: m, src: src, what: what}, content
+}
+
+// syntaxAttr is the syntax node of an attribute Content returned. A model
+// is parsed as native HCL syntax only, so every expression is a syntax
+// node; anything else is a programmer's error.
+func syntaxAttr(a *hcl.Attribute) *hclsyntax.Attribute {
+	expr, ok := a.Expr.(hclsyntax.Expression)
+	if !ok {
+		panic("model: attribute " + a.Name + " is not native HCL syntax")
+	}
+	return &hclsyntax.Attribute{Name: a.Name, Expr: expr, SrcRange: a.Range, NameRange: a.NameRange}
+}
+
+// syntaxBlocks converts the nested blocks of a syntax body (nil for none).
+func syntaxBlocks(sb *hclsyntax.Body) hcl.Blocks {
+	if len(sb.Blocks) == 0 {
+		return nil
+	}
+	blocks := make(hcl.Blocks, len(sb.Blocks))
+	for i, b := range sb.Blocks {
+		blocks[i] = b.AsHCLBlock()
+	}
+	return blocks
 }
 
 func (a attrSet) has(name string) bool { _, ok := a.m[name]; return ok }

@@ -5,6 +5,7 @@ import (
 	"strings"
 
 	"github.com/hashicorp/hcl/v2"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
 )
 
 // Plausible range of Manning's n. Published tables run from about 0.010
@@ -122,7 +123,7 @@ func (a attrSet) sideSlope(positive bool) (float64, bool) {
 }
 
 // roughness decodes one Manning's n.
-func (a attrSet) roughness(at *hcl.Attribute) (float64, bool) {
+func (a attrSet) roughness(at *hclsyntax.Attribute) (float64, bool) {
 	if at == nil {
 		return 0, false
 	}
@@ -259,7 +260,7 @@ func (d *decoder) points(s *Section, a attrSet) {
 
 // zoneRoughness decodes the roughness of a points section: one number for
 // the whole section or [left overbank, main channel, right overbank].
-func (d *decoder) zoneRoughness(s *Section, a attrSet, r *hcl.Attribute) {
+func (d *decoder) zoneRoughness(s *Section, a attrSet, r *hclsyntax.Attribute) {
 	if _, isList := hcl.ExprList(r.Expr); isList.HasErrors() {
 		if n, ok := a.manning(r.Expr); ok {
 			s.Roughness = [3]float64{n, n, n}
@@ -304,11 +305,11 @@ func (d *diagnoser) pair(expr hcl.Expression, what label, form string) ([2]float
 }
 
 // inSourceOrder returns the attribute names in the order they were written.
-func inSourceOrder(m hcl.Attributes) []string {
+func inSourceOrder(m hclsyntax.Attributes) []string {
 	keys := make([]string, 0, len(m))
 	for k := range m {
 		keys = append(keys, k)
 	}
-	slices.SortFunc(keys, func(x, y string) int { return m[x].Range.Start.Byte - m[y].Range.Start.Byte })
+	slices.SortFunc(keys, func(x, y string) int { return m[x].SrcRange.Start.Byte - m[y].SrcRange.Start.Byte })
 	return keys
 }
