@@ -70,7 +70,7 @@ func newCheckFlags() (*checkFlags, *flag.FlagSet) {
 	fs.Var(cf.format, "format", "output format (annotations: workflow commands for GitHub Actions)")
 	fs.Var(&cf.rules, "rule", "show only findings of rule `ID` (repeatable, or a comma-separated list)")
 	fs.Var(&cf.events, "event", "show only findings of flow event `NAME` and those of no event (repeatable, or comma-separated)")
-	fs.StringVar(&cf.vary, "vary", "", "solve each event again over a sensitivity envelope `SPEC`, e.g. roughness=0.2,tailwater=0.3,discharge=0.1 (replaces the policy's sensitivity block)")
+	fs.StringVar(&cf.vary, "vary", "", varyUsage)
 	fs.StringVar(&cf.stdinName, "stdin-name", "", "the `NAME` a model read from standard input (PATH -) is printed with (default "+stdinName+")")
 	fs.Var(cf.color, "color", "colour text output; auto colours a terminal unless NO_COLOR is set")
 	fs.Var(cf.failOn, "fail-on", "lowest severity that makes the exit status 1")
@@ -140,12 +140,8 @@ func (a *app) runCheck(args []string) int {
 		return a.usageError(c, "--write-baseline records every finding; it cannot be combined with --rule or --event")
 	}
 	a.stdinName = cf.stdinName
-	if cf.vary != "" {
-		s, err := pipeline.ParseSensitivity(cf.vary)
-		if err != nil {
-			return a.usageError(c, "--vary: %v", err)
-		}
-		a.vary = &s
+	if err := a.setVary(cf.vary); err != nil {
+		return a.usageError(c, "--vary: %v", err)
 	}
 	pal := newPalette(a.useColor(cf.color.value, a.stdoutTTY))
 	errPal := newPalette(a.useColor(cf.color.value, a.stderrTTY))
@@ -309,6 +305,23 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 	checked := pipeline.CheckFiles(files, pol, a.pipelineOptions(k), jobs, prog.step)
 	prog.done()
 	return append(results, checked...)
+}
+
+// varyUsage is the help of --vary (check and report).
+const varyUsage = "solve each event again over a sensitivity envelope `SPEC`, e.g. roughness=0.2,tailwater=0.3,discharge=0.1 (replaces the policy's sensitivity block)"
+
+// setVary reads the --vary SPEC of check or report into a.vary; an empty
+// spec leaves it nil (the policy's sensitivity block, if any, decides).
+func (a *app) setVary(spec string) error {
+	if spec == "" {
+		return nil
+	}
+	s, err := pipeline.ParseSensitivity(spec)
+	if err != nil {
+		return err
+	}
+	a.vary = &s
+	return nil
 }
 
 // pipelineOptions are the options of every check of this run.
@@ -574,7 +587,10 @@ func (c *checkRun) writeClosing(w io.Writer, p *palette) {
 // (roughness ±20 %, ...): 1 robust fail, 2 knife-edge, 3 sensitivity
 // findings".
 func (c *checkRun) sensitivityLines() []string {
-	type tally struct{ cases, robust, knife, extra int }
+	type tally struct {
+		cases int
+		pipeline.Tally
+	}
 	var order []string
 	runs := map[string]*tally{}
 	for _, r := range c.results {
@@ -588,25 +604,15 @@ func (c *checkRun) sensitivityLines() []string {
 			runs[desc] = t
 			order = append(order, desc)
 		}
-		for _, f := range c.shown[r.File.Name] {
-			if f.Envelope == nil {
-				continue
-			}
-			switch f.Envelope.Verdict {
-			case rules.RobustFail:
-				t.robust++
-			case rules.KnifeEdge:
-				t.knife++
-			case rules.Sensitivity:
-				t.extra++
-			}
+		for i := range c.shown[r.File.Name] {
+			t.Add(&c.shown[r.File.Name][i])
 		}
 	}
 	var lines []string
 	for _, desc := range order {
 		t := runs[desc]
 		lines = append(lines, fmt.Sprintf("sensitivity: each event solved in %d more cases (%s): %d robust fail, %d knife-edge, %s",
-			t.cases, desc, t.robust, t.knife, plural(t.extra, "sensitivity finding", "sensitivity findings")))
+			t.cases, desc, t.RobustFail, t.KnifeEdge, plural(t.Sensitivity, "sensitivity finding", "sensitivity findings")))
 	}
 	return lines
 }

@@ -29,6 +29,7 @@ type reportFlags struct {
 	approvals string
 	color     *choice
 	jobs      int
+	vary      string
 }
 
 func newReportFlags() (*reportFlags, *flag.FlagSet) {
@@ -44,6 +45,7 @@ func newReportFlags() (*reportFlags, *flag.FlagSet) {
 	fs.Var(rf.color, "color", "colour the diagnostics printed on stderr")
 	fs.IntVar(&rf.jobs, "jobs", 0, "solve `N` files at once (default: the number of CPUs)")
 	fs.IntVar(&rf.jobs, "j", 0, "short for --jobs")
+	fs.StringVar(&rf.vary, "vary", "", varyUsage)
 	return rf, fs
 }
 
@@ -55,6 +57,10 @@ Checks the models under each PATH like 'chanlint check' and writes a review
 report for a person: per model and event a longitudinal profile (bed, water
 surface, critical depth, top of bank, jumps, failing spans), the findings,
 the design exceptions claimed and the caution.
+
+With --vary (or a policy's sensitivity block) every event is solved again
+over the envelope as in 'chanlint check': each finding shows its verdict,
+and the profiles draw the range of the water surface as a hatched band.
 
   html      one self-contained file (default)
   markdown  FILE, exactly as named, and the SVG plots beside it (for
@@ -85,6 +91,9 @@ func (a *app) runReport(args []string) int {
 	}
 	if rf.jobs < 0 {
 		return a.usageError(c, "--jobs must not be negative, got %d", rf.jobs)
+	}
+	if err := a.setVary(rf.vary); err != nil {
+		return a.usageError(c, "--vary: %v", err)
 	}
 	toStdout := rf.out == "-"
 	format := rf.format.value
@@ -122,7 +131,15 @@ func (a *app) runReport(args []string) int {
 			// A valid model the solver could not finish (a size limit):
 			// listed with its findings and no profiles.
 		}
-		in.Models = append(in.Models, report.Model{Model: r.Model, Result: r.Solution, Findings: r.Findings})
+		m := report.Model{Model: r.Model, Result: r.Solution, Findings: r.Findings}
+		if r.Sensitivity.Active() {
+			m.Envelope = &report.Envelope{Sizes: r.Sensitivity.String(), Cases: len(r.Cases), Bands: r.Bands}
+			in.SensitivitySource = "the policy's sensitivity block"
+			if a.vary != nil {
+				in.SensitivitySource = "--vary"
+			}
+		}
+		in.Models = append(in.Models, m)
 	}
 
 	abs := a.abs(rf.out)

@@ -57,3 +57,40 @@ func TestReport(t *testing.T) {
 	assert.Contains(t, out, "# Channel design review")
 	assert.Contains(t, out, "](data:image/svg+xml;base64,")
 }
+
+// report --vary runs the sensitivity envelope as check does, and so does a
+// policy's sensitivity block: the findings carry their verdicts, the run
+// is stated and the plots draw the band.
+func TestReportVary(t *testing.T) {
+	dir := workspace(t, 1)
+	code, _, errOut := runIn(dir, runOpts{}, "report", "set00/demo", "--vary", "roughness=0.2", "--out", "review.html")
+	require.Equal(t, exitOK, code, errOut)
+	data, err := os.ReadFile(filepath.Join(dir, "review.html"))
+	require.NoError(t, err)
+	page := string(data)
+	assert.Contains(t, page, `<p class="run">Sensitivity run, asked by --vary: each event solved in 2 more cases, roughness ±20 %, each lowered and raised; `)
+	assert.Contains(t, page, `<span class="envelope knife_edge">Envelope: knife-edge: fails in 1 of 2 cases; passes under roughness `)
+	assert.Contains(t, page, `<g class="envelope"><title>Water-surface envelope over 2 sensitivity cases (roughness ±20 %)`)
+
+	require.NoError(t, os.WriteFile(filepath.Join(dir, "vary.policy.hcl"), []byte(`policy "vary" {
+  units   = "si"
+  extends = "baseline"
+  sensitivity {
+    discharge = 0.1
+  }
+}
+`), 0o644))
+	code, _, errOut = runIn(dir, runOpts{}, "report", "set00/demo", "--policy", "vary.policy.hcl", "--out", "review.md")
+	require.Equal(t, exitOK, code, errOut)
+	data, err = os.ReadFile(filepath.Join(dir, "review.md"))
+	require.NoError(t, err)
+	assert.Contains(t, string(data), "**Sensitivity run, asked by the policy's sensitivity block: each event solved in 2 more cases, discharge ±10 %, each lowered and raised; ")
+	assert.Contains(t, string(data), " — envelope: _")
+	svg, err := os.ReadFile(filepath.Join(dir, "review-1.svg"))
+	require.NoError(t, err)
+	assert.Contains(t, string(svg), `<g class="envelope">`)
+
+	code, _, errOut = runIn(dir, runOpts{}, "report", "set00/demo", "--vary", "roughnes=0.2", "--out", "review.html")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, `--vary: unknown parameter "roughnes"`)
+}

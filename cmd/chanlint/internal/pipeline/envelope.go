@@ -405,6 +405,24 @@ func combine(nominal *Result, cases []Case, runs []*Result, sev policies.Severit
 	return nominal
 }
 
+// Tally counts the verdicts of findings over a sensitivity run.
+type Tally struct{ RobustFail, KnifeEdge, Sensitivity int }
+
+// Add counts the verdict of f, if it has one.
+func (t *Tally) Add(f *rules.Finding) {
+	if f.Envelope == nil {
+		return
+	}
+	switch f.Envelope.Verdict {
+	case rules.RobustFail:
+		t.RobustFail++
+	case rules.KnifeEdge:
+		t.KnifeEdge++
+	case rules.Sensitivity:
+		t.Sensitivity++
+	}
+}
+
 // verdict is the envelope of a finding that fails in the cases marked
 // failed; extra is true for a finding the nominal case does not show.
 func verdict(cases []Case, failed []bool, extra bool) *rules.Envelope {

@@ -34,7 +34,10 @@ func TestHTMLInChromium(t *testing.T) {
 	}
 	page := filepath.Join(dir, "report.html")
 	var buf bytes.Buffer
-	in := solvedInput(t, demoModel, filepath.Join("testdata", "heron-flats.chan.hcl"), filepath.Join("testdata", "inject.chan.hcl"))
+	// The demo over a sensitivity envelope (verdicts, water-surface
+	// bands), then two models without one.
+	in := variedInput(t, "roughness=0.2,tailwater=0.3,discharge=0.1", demoModel)
+	in.Models = append(in.Models, solvedInput(t, filepath.Join("testdata", "heron-flats.chan.hcl"), filepath.Join("testdata", "inject.chan.hcl")).Models...)
 	require.NoError(t, HTML(&buf, in))
 	require.NoError(t, os.WriteFile(page, buf.Bytes(), 0o644))
 	url := "file://" + filepath.ToSlash(page)
@@ -66,9 +69,14 @@ func TestHTMLInChromium(t *testing.T) {
 	// The legend names every kind of marker the demo's plots draw, with
 	// the hatching that codes severity apart from colour.
 	for _, entry := range []string{"water surface", "critical depth", "energy grade", "hydraulic jump", "basin",
-		"gate", "bend", "reach boundary", "error span, cross-hatched", "warning span, hatched", "excepted span"} {
+		"gate", "bend", "reach boundary", "error span, cross-hatched", "warning span, hatched", "excepted span",
+		"water-surface envelope, hatched"} {
 		assert.Contains(t, dom, ">"+entry, "legend entry %q", entry)
 	}
+	// The envelope's band, verdicts and run survive the browser's parse.
+	assert.Contains(t, dom, `<g class="envelope"><title>Water-surface envelope over 14 sensitivity cases`)
+	assert.Contains(t, dom, "Envelope: knife-edge: fails in ")
+	assert.Contains(t, dom, "Sensitivity run, asked by --vary: each event solved in 14 more cases")
 	// Every #N tag of a plot links to a findings row that exists.
 	links := regexp.MustCompile(`<a href="#(m\d+-f\d+)">`).FindAllStringSubmatch(dom, -1)
 	require.NotEmpty(t, links, "plot tags link to the findings rows")

@@ -68,6 +68,9 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 			p("\n")
 		}
 	}
+	for _, s := range pg.Sensitivity {
+		p("**%s**\n\n", md(s))
+	}
 
 	for _, m := range pg.Models {
 		p("## %s\n\n", md(orFile(m.Title, m.File)))
@@ -122,6 +125,9 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 			for _, f := range m.Findings {
 				sev := md(f.Severity)
 				msg := md(f.Message)
+				if f.Envelope != "" {
+					msg += " — envelope: _" + md(f.Envelope) + "_"
+				}
 				if f.Excepted {
 					sev = "excepted (" + sev + ")"
 					msg += " — _exception: " + md(f.Reason) + "_"

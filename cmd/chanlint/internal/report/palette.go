@@ -19,6 +19,10 @@ type palette struct {
 
 	Bed, WSE, Critical, Energy, Bank lineStyle
 	Ground, Water                    string // fills
+	// Envelope outlines the water surface's range over a sensitivity
+	// run; EnvelopeFill fills it under its hatching (envelopeHatch).
+	Envelope     lineStyle
+	EnvelopeFill string
 
 	Basin, BasinText string
 	Bend, BendText   string
@@ -60,6 +64,11 @@ var pal = palette{
 	Bank:     lineStyle{Colour: okBlack, Width: "1.3", Dash: "12 3"},        // long dash
 	Ground:   "#ece4d6",
 	Water:    "#d6ebf7",
+	// The envelope is a band, not a line: sky blue under blue hatching
+	// falling to the right (the spans' hatching rises), outlined thinly,
+	// so that it reads apart from the water below it in greyscale too.
+	Envelope:     lineStyle{Colour: okBlue, Width: "0.8"},
+	EnvelopeFill: okSkyBlue,
 
 	Basin: okGreen, BasinText: "#00664a",
 	Bend: okPurple, BendText: "#8a3f68",
@@ -82,6 +91,10 @@ func bandColour(kind string) string {
 	}
 	return okSkyBlue
 }
+
+// envelopeHatch is the hatching of the water-surface envelope: lines
+// falling to the right, apart from every span's rising ones.
+const envelopeHatch = "M0 0 L6 6 M-1 5 L1 7 M5 -1 L7 1"
 
 // spanHatch is the hatching that codes a failing span's severity apart
 // from its colour: cross-hatched errors, single-hatched warnings, and

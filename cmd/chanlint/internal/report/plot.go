@@ -7,7 +7,8 @@ package report
 //	plot.go        the Plot type, the main stem and the order of the parts
 //	plotaxes.go    the data extent, the scale, ticks and axis labels
 //	plotspans.go   failing and excepted spans in their lanes, basins, bends
-//	plotlines.go   bed, water surface, critical depth, bank, energy grade
+//	plotlines.go   bed, water surface, critical depth, bank, energy grade,
+//	               the water surface's envelope over a sensitivity run
 //	plotmarks.go   reach boundaries, hydraulic jumps, gates, culverts
 //	plotlegend.go  the legend rows
 //
@@ -18,6 +19,7 @@ package report
 import (
 	"math"
 
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
@@ -44,9 +46,14 @@ type Plot struct {
 	Ground, Water            string // filled paths: below the bed; between bed and water surface
 	Bed, WSE, Critical, Bank string // line paths
 	Energy                   string
-	BankLabel                string // "top of bank / lining" or "crown" when every section is closed
-	Jumps                    []Mark
-	Gates                    []Mark
+	// Envelope is the filled path of the water surface's range over a
+	// sensitivity run (between the lowest and highest water surface of
+	// all its cases), drawn behind the water-surface line; EnvelopeTitle
+	// says what it is and where it is widest.
+	Envelope, EnvelopeTitle string
+	BankLabel               string // "top of bank / lining" or "crown" when every section is closed
+	Jumps                   []Mark
+	Gates                   []Mark
 	// Culverts are the headwater pools in front of culvert inlets (a level
 	// line from X to X2 at Y1, the inlet's headwall from Y1 down to Y2)
 	// and Roads the road crests over them (X to X2 at Y1).
@@ -152,6 +159,7 @@ type piece struct {
 	reach  *model.Reach
 	rr     *solver.ReachResult
 	offset float64
+	band   *pipeline.Band // the water surface's range over a sensitivity run; nil without one
 }
 
 // mainStem returns the longest path from a headwater to the outlet (by
@@ -203,6 +211,7 @@ type plotInput struct {
 	stem      bool                                   // draw reach boundaries and names
 	small     bool                                   // drawn below the main stem, in the smaller size
 	xlabel    string                                 // overrides the station axis label
+	envelope  *Envelope                              // the model's sensitivity run; nil without one
 }
 
 // numbered is a finding with its row number in the page's findings table
@@ -243,19 +252,24 @@ func buildPlot(in plotInput) *Plot {
 		p.Empty = "No computed profile for this event."
 	}
 	p.addLines(in.pieces, sc)
+	p.addEnvelope(in.pieces, sc, in.envelope, lu)
 	p.addJumps(in.pieces, sc, lu)
 	p.addGates(in.pieces, sc, lu)
 	p.addCulverts(in.pieces, sc, lu, in.culverts)
 	p.addLegend()
 	if p.ClipEnergy {
-		note := "The energy grade rises above the frame and is cut off."
-		if p.Caption != "" {
-			p.Caption += " " + note
-		} else {
-			p.Caption = note
-		}
+		p.addNote("The energy grade rises above the frame and is cut off.")
 	}
 	return p
+}
+
+// addNote adds a sentence to the plot's caption.
+func (p *Plot) addNote(note string) {
+	if p.Caption != "" {
+		p.Caption += " " + note
+	} else {
+		p.Caption = note
+	}
 }
 
 // sectionHeight is the invert-to-top height of a section (0 when unknown).

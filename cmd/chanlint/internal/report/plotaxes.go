@@ -22,7 +22,8 @@ func (s *scale) x(v float64) float64 { return s.fr.X + (v-s.xmin)/(s.xmax-s.xmin
 func (s *scale) y(v float64) float64 { return s.fr.Bottom() - (v-s.ymin)/(s.ymax-s.ymin)*s.fr.H }
 
 // newScale finds the extent of what the pieces draw: inverts, tops of
-// bank, water surface and critical depth of every point, and the energy
+// bank, water surface and critical depth of every point, the water
+// surface's envelope over a sensitivity run, and the energy
 // grade unless it stands so high that it would flatten the profile (then
 // p.ClipEnergy is set and it is cut off at the frame).
 func newScale(pieces []piece, p *Plot, culverts map[*model.Reach]*solver.CulvertResult) *scale {
@@ -49,6 +50,12 @@ func newScale(pieces []piece, p *Plot, culverts map[*model.Reach]*solver.Culvert
 			grow(cr.Headwater)
 			if road := cr.Culvert.Road; road != nil {
 				grow(road.Crest)
+			}
+		}
+		if b := pc.band; b != nil {
+			for i := range b.Station {
+				grow(b.Low[i])
+				grow(b.High[i])
 			}
 		}
 		if pc.rr == nil {

@@ -140,35 +140,8 @@ func thin(pts []solver.Point) []solver.Point {
 	if len(pts) <= maxPlotPoints {
 		return pts
 	}
-	buckets := maxPlotPoints / 4
-	s0, s1 := pts[0].Station, pts[len(pts)-1].Station
-	span := s1 - s0
-	if !(span > 0) {
-		return []solver.Point{pts[0], pts[len(pts)-1]}
-	}
-	keep := make([]bool, len(pts))
-	start := 0
-	for b := 0; b < buckets && start < len(pts); b++ {
-		limit := s0 + span*float64(b+1)/float64(buckets)
-		end := start
-		for end < len(pts) && (pts[end].Station <= limit || b == buckets-1) {
-			end++
-		}
-		if end == start {
-			continue
-		}
-		lo, hi := start, start
-		for i := start; i < end; i++ {
-			if pts[i].WSE < pts[lo].WSE {
-				lo = i
-			}
-			if pts[i].WSE > pts[hi].WSE {
-				hi = i
-			}
-		}
-		keep[start], keep[end-1], keep[lo], keep[hi] = true, true, true, true
-		start = end
-	}
+	wse := func(i int) float64 { return pts[i].WSE }
+	keep := thinKeep(len(pts), func(i int) float64 { return pts[i].Station }, wse, wse)
 	out := make([]solver.Point, 0, maxPlotPoints)
 	for i, k := range keep {
 		if k {
@@ -176,6 +149,98 @@ func thin(pts []solver.Point) []solver.Point {
 		}
 	}
 	return out
+}
+
+// thinKeep marks which of n values ordered by station (n > maxPlotPoints)
+// to draw: in each of maxPlotPoints/4 station buckets, the first and the
+// last, the one of lowest low and the one of highest high.
+func thinKeep(n int, station, low, high func(int) float64) []bool {
+	keep := make([]bool, n)
+	buckets := maxPlotPoints / 4
+	s0, s1 := station(0), station(n-1)
+	span := s1 - s0
+	if !(span > 0) {
+		keep[0], keep[n-1] = true, true
+		return keep
+	}
+	start := 0
+	for b := 0; b < buckets && start < n; b++ {
+		limit := s0 + span*float64(b+1)/float64(buckets)
+		end := start
+		for end < n && (station(end) <= limit || b == buckets-1) {
+			end++
+		}
+		if end == start {
+			continue
+		}
+		lo, hi := start, start
+		for i := start; i < end; i++ {
+			if low(i) < low(lo) {
+				lo = i
+			}
+			if high(i) > high(hi) {
+				hi = i
+			}
+		}
+		keep[start], keep[end-1], keep[lo], keep[hi] = true, true, true, true
+		start = end
+	}
+	return keep
+}
+
+// addEnvelope draws the water surface's envelope over a sensitivity run:
+// for each piece with a band, a closed path along the highest water
+// surface downstream and back along the lowest. Its title names the run
+// and where the band is widest, so that the range is said in words as
+// well as drawn.
+func (p *Plot) addEnvelope(pieces []piece, sc *scale, env *Envelope, lu string) {
+	if env == nil {
+		return
+	}
+	var path pathBuilder
+	widest, at, where := -1.0, 0.0, ""
+	for _, pc := range pieces {
+		b := pc.band
+		if b == nil || len(b.Station) < 2 || len(b.Low) != len(b.Station) || len(b.High) != len(b.Station) {
+			continue
+		}
+		idx := make([]int, 0, min(len(b.Station), maxPlotPoints))
+		if len(b.Station) <= maxPlotPoints {
+			for i := range b.Station {
+				idx = append(idx, i)
+			}
+		} else {
+			st := func(i int) float64 { return b.Station[i] }
+			for i, k := range thinKeep(len(b.Station), st, func(i int) float64 { return b.Low[i] }, func(i int) float64 { return b.High[i] }) {
+				if k {
+					idx = append(idx, i)
+				}
+			}
+		}
+		path.start()
+		for _, i := range idx {
+			path.to(sc.x(pc.offset+b.Station[i]), sc.y(b.High[i]))
+		}
+		for j := len(idx) - 1; j >= 0; j-- {
+			i := idx[j]
+			path.to(sc.x(pc.offset+b.Station[i]), sc.y(b.Low[i]))
+		}
+		path.close()
+		for i, x := range b.Station {
+			if w := b.High[i] - b.Low[i]; isFinite(w) && w > widest {
+				widest, at, where = w, x, pc.reach.Name
+			}
+		}
+	}
+	p.Envelope = path.String()
+	if p.Envelope == "" {
+		return
+	}
+	p.EnvelopeTitle = "Water-surface envelope over " + plural(env.Cases, "sensitivity case") + " (" + env.Sizes + "): widest " +
+		num(widest) + " " + lu + ", at station " + num(at) + " " + lu + " of " + where
+	note := "The hatched band is the range of the water surface over the " + plural(env.Cases, "sensitivity case") +
+		" and the nominal one; it is widest (" + num(widest) + " " + lu + ") at station " + num(at) + " " + lu + " of " + where + "."
+	p.addNote(note)
 }
 
 // pathBuilder writes SVG path data ("M x y L x y ...") with one decimal.

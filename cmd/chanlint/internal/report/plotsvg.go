@@ -176,6 +176,12 @@ func (w *svgWriter) svgBody(p *Plot) {
 	if p.Water != "" {
 		w.tag("path").d(p.Water).a("fill", pal.Water).a("stroke", "none").end()
 	}
+	if p.Envelope != "" {
+		w.tag("g").a("class", "envelope").raw("><title>").text(p.EnvelopeTitle).raw("</title>")
+		w.tag("path").d(p.Envelope).a("fill", pal.EnvelopeFill).a("fill-opacity", "0.35").a("stroke", "none").end()
+		w.tag("path").d(p.Envelope).a("fill", "url(#"+envelopeHatchID(p.ID)+")").stroke(pal.Envelope).end()
+		w.raw("\n</g>")
+	}
 
 	w.tag("g").raw(">")
 	for _, b := range p.Bands {
@@ -275,8 +281,13 @@ func (w *svgWriter) svgBody(p *Plot) {
 // hatchID is the id of a plot's hatch pattern for a severity.
 func hatchID(plotID, kind string) string { return plotID + "-hatch-" + kind }
 
+// envelopeHatchID is the id of a plot's hatch pattern for the
+// water-surface envelope.
+func envelopeHatchID(plotID string) string { return plotID + "-hatch-envelope" }
+
 // hatches defines the hatch patterns of the severities the plot shows
-// (see spanHatch), stroked dark so that they read in greyscale too.
+// (see spanHatch), stroked dark so that they read in greyscale too, and
+// that of the water-surface envelope when it is drawn.
 func (w *svgWriter) hatches(p *Plot) {
 	var kinds []string
 	for _, k := range []string{"error", "warning"} {
@@ -284,13 +295,19 @@ func (w *svgWriter) hatches(p *Plot) {
 			kinds = append(kinds, k)
 		}
 	}
-	if len(kinds) == 0 {
+	if len(kinds) == 0 && p.Envelope == "" {
 		return
+	}
+	pattern := func(id, d, colour string) {
+		w.raw("<pattern").a("id", id).a("width", "6").a("height", "6").a("patternUnits", "userSpaceOnUse").raw(">")
+		w.raw("<path").a("d", d).a("stroke", colour).a("stroke-width", "0.9").raw("/></pattern>")
 	}
 	w.raw("\n<defs>")
 	for _, k := range kinds {
-		w.raw("<pattern").a("id", hatchID(p.ID, k)).a("width", "6").a("height", "6").a("patternUnits", "userSpaceOnUse").raw(">")
-		w.raw("<path").a("d", spanHatch(k)).a("stroke", "#1d2630").a("stroke-width", "0.9").raw("/></pattern>")
+		pattern(hatchID(p.ID, k), spanHatch(k), "#1d2630")
+	}
+	if p.Envelope != "" {
+		pattern(envelopeHatchID(p.ID), envelopeHatch, pal.Envelope.Colour)
 	}
 	w.raw("</defs>")
 }
@@ -345,6 +362,9 @@ func (w *svgWriter) swatch(plotID string, it LegendItem) {
 	case "wse":
 		w.raw("<rect").n("x", x).n("y", y-5).n("width", 24).n("height", 10).a("fill", pal.Water).end()
 		w.raw("<line").n("x1", x).n("x2", x+24).n("y1", y-5).n("y2", y-5).stroke(lineStyle{Colour: pal.WSE.Colour, Width: pal.WSE.Width}).end()
+	case "envelope":
+		w.raw("<rect").n("x", x).n("y", y-6).n("width", 24).n("height", 12).a("fill", pal.EnvelopeFill).a("fill-opacity", "0.35").end()
+		w.rect(x, y-6, 24, 12).a("fill", "url(#"+envelopeHatchID(plotID)+")").stroke(pal.Envelope).end()
 	case "critical":
 		line(pal.Critical)
 	case "energy":

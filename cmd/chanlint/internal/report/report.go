@@ -13,7 +13,10 @@
 // reach boundaries named) followed by a smaller plot of every other reach.
 // Then the findings table, the design exceptions claimed (with their
 // reasons and whether each covered a finding), the files that are not
-// valid models with their diagnostics, and the caution.
+// valid models with their diagnostics, and the caution. A model checked
+// over a sensitivity envelope (Model.Envelope) adds the run's account
+// under the policy, each finding's verdict under its message, and on each
+// profile the range of the water surface over the cases as a hatched band.
 //
 // Every string that comes from a model or a policy is escaped by
 // html/template (HTML text, attributes and SVG text alike), so a submittal
@@ -41,6 +44,7 @@ import (
 	"sync"
 	"sync/atomic"
 
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
@@ -54,6 +58,20 @@ type Model struct {
 	Model    *model.Model
 	Result   *solver.Result // nil when the model could not be solved
 	Findings []rules.Finding
+	// Envelope is the sensitivity run the model was checked over; nil
+	// without one.
+	Envelope *Envelope
+}
+
+// Envelope describes a model's sensitivity run (pipeline.CheckVaried):
+// the findings carry their verdicts (rules.Finding.Envelope), the plots
+// draw the range of the water surface.
+type Envelope struct {
+	Sizes string // pipeline.Sensitivity.String(), in the model's units
+	Cases int    // perturbed cases solved per event (the nominal not counted)
+	// Bands are the water surface's range per event and reach
+	// (pipeline.Result.Bands).
+	Bands []pipeline.Band
 }
 
 // Input is what a report shows.
@@ -66,9 +84,13 @@ type Input struct {
 	// PolicyNotes say where the policy came from and what it turns off;
 	// shown under "Policy applied", a Warn note as a warning.
 	PolicyNotes []PolicyNote
-	Caution     string          // normally rules.Caution
-	Invalid     []rules.Finding // diagnostics of files that are not valid models
-	ToolVersion string
+	Caution     string // normally rules.Caution
+	// SensitivitySource says who asked for the models' sensitivity runs
+	// ("--vary", "the policy's sensitivity block");
+	// shown with the run's sizes under "Policy applied".
+	SensitivitySource string
+	Invalid           []rules.Finding // diagnostics of files that are not valid models
+	ToolVersion       string
 }
 
 //go:embed templates/*.tmpl
@@ -169,6 +191,9 @@ type page struct {
 	Models      []*modelView
 	Invalid     []findingRow
 	InvalidN    int // distinct invalid files
+	// Sensitivity accounts for the sensitivity runs made, a line for
+	// each size of run (see sensitivityLines).
+	Sensitivity []string
 }
 
 // PolicyNote is one line about the policy.
@@ -261,6 +286,8 @@ type findingRow struct {
 	Anchor                          string // id of the row, which the plot's #N tags link to
 	Severity, Rule, Reach, Event    string
 	Stations, Value, Limit, Message string
+	Envelope                        string // the verdict over a sensitivity run in words; "" without one
+	Verdict                         string // rules.RobustFail, KnifeEdge, Sensitivity or ""
 	Where                           string // file:line:col
 	Short                           string // line:col
 	Excepted                        bool
@@ -341,7 +368,50 @@ func build(in Input, r renderer) (*page, error) {
 		}
 	}
 	pg.InvalidN = len(files)
+	pg.Sensitivity = sensitivityLines(in)
 	return pg, nil
+}
+
+// sensitivityLines account for the models' sensitivity runs, one line for
+// each size of run, in model order: "Sensitivity run, asked by --vary:
+// each event solved in 14 more cases, roughness ±20 %, ..., each lowered
+// and raised alone and together in every corner; 1 robust fail, 2
+// knife-edge, 3 sensitivity findings."
+func sensitivityLines(in Input) []string {
+	type run struct {
+		sizes string
+		cases int
+		pipeline.Tally
+	}
+	var runs []*run
+	for _, m := range in.Models {
+		e := m.Envelope
+		if e == nil {
+			continue
+		}
+		i := slices.IndexFunc(runs, func(r *run) bool { return r.sizes == e.Sizes && r.cases == e.Cases })
+		if i < 0 {
+			i = len(runs)
+			runs = append(runs, &run{sizes: e.Sizes, cases: e.Cases})
+		}
+		for j := range m.Findings {
+			runs[i].Add(&m.Findings[j])
+		}
+	}
+	from := ""
+	if in.SensitivitySource != "" {
+		from = ", asked by " + in.SensitivitySource
+	}
+	var lines []string
+	for _, t := range runs {
+		how := "each lowered and raised"
+		if t.cases > 2 {
+			how += " alone and together in every corner"
+		}
+		lines = append(lines, fmt.Sprintf("Sensitivity run%s: each event solved in %d more cases, %s, %s; %d robust fail, %d knife-edge, %s.",
+			from, t.cases, t.sizes, how, t.RobustFail, t.KnifeEdge, plural(t.Sensitivity, "sensitivity finding")))
+	}
+	return lines
 }
 
 func countInto(c *counts, f rules.Finding) {
@@ -437,6 +507,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 	plotN := 0
 	plot := func(in plotInput) *plotView {
 		plotN++
+		in.envelope = m.Envelope
 		in.id = mv.Anchor + "-plot" + strconv.Itoa(plotN)
 		p := buildPlot(in)
 		return &plotView{Plot: p, svg: render(p)}
@@ -458,6 +529,17 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 				ev.Reaches = append(ev.Reaches, reachSummary(rr, md.Units))
 			}
 		}
+		bands := map[string]*pipeline.Band{} // by reach name
+		if m.Envelope != nil {
+			for i := range m.Envelope.Bands {
+				if b := &m.Envelope.Bands[i]; b.Event == er.Event.Name {
+					bands[b.Reach] = b
+				}
+			}
+		}
+		newPiece := func(r *model.Reach, off float64) piece {
+			return piece{reach: r, rr: byReach[r], offset: off, band: bands[r.Name]}
+		}
 		culverts := map[*model.Reach]*solver.CulvertResult{}
 		for _, cr := range er.Culverts {
 			if cr != nil && cr.Culvert != nil && cr.Culvert.Reach != nil {
@@ -469,7 +551,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 		var pieces []piece
 		off := 0.0
 		for _, r := range stem {
-			pieces = append(pieces, piece{reach: r, rr: byReach[r], offset: off})
+			pieces = append(pieces, newPiece(r, off))
 			off += r.Length
 		}
 		if len(pieces) > 0 {
@@ -486,7 +568,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 			var ps []piece
 			off := 0.0
 			for _, r := range run {
-				ps = append(ps, piece{reach: r, rr: byReach[r], offset: off})
+				ps = append(ps, newPiece(r, off))
 				off += r.Length
 			}
 			ev.Plots = append(ev.Plots, plot(plotInput{title: ev.Name + " — detail: " + reachPath(run),
@@ -499,7 +581,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 				continue
 			}
 			ev.Plots = append(ev.Plots, plot(plotInput{title: ev.Name + " — reach " + r.Name + " (to " + r.To + ")",
-				units: md.Units, pieces: []piece{{reach: r, rr: byReach[r]}}, event: ev.Name, findings: nums, w: smallW, h: smallH, small: true,
+				units: md.Units, pieces: []piece{newPiece(r, 0)}, event: ev.Name, findings: nums, w: smallW, h: smallH, small: true,
 				culverts: culverts}))
 		}
 		mv.Events = append(mv.Events, ev)
@@ -609,6 +691,9 @@ func row(n int, f rules.Finding) findingRow {
 	}
 	if f.HasSpan {
 		r.Stations = stationRange(f.FromStation, f.ToStation)
+	}
+	if f.Envelope != nil {
+		r.Envelope, r.Verdict = f.Envelope.Text(), f.Envelope.Verdict
 	}
 	if f.HasValue {
 		r.Value, r.Limit = num(f.Value), num(f.Limit)
