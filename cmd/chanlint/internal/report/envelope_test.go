@@ -72,9 +72,9 @@ func TestReportShowsEnvelope(t *testing.T) {
 		"the band is drawn before (behind) the water-surface line")
 
 	// Markdown: the same run and verdicts.
-	var md bytes.Buffer
-	require.NoError(t, MarkdownInline(&md, in))
-	page := md.String()
+	var mdOut bytes.Buffer
+	require.NoError(t, MarkdownInline(&mdOut, in))
+	page := mdOut.String()
 	assert.Contains(t, page, "**"+run)
 	for _, f := range in.Models[0].Findings {
 		if f.Envelope != nil {
