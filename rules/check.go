@@ -122,7 +122,28 @@ func (rn *runner) report(f Finding) {
 	if cfg != nil && f.Reference == "" {
 		f.Reference = policies.Cite(rn.p, cfg)
 	}
+	if cfg != nil {
+		f.Related = append(f.Related, policyRelated(cfg)...)
+	}
 	rn.out = append(rn.out, f)
+}
+
+// policyRelated are the places of the policy that set a finding's limits:
+// the settings written in the rule's block, else the block itself (its
+// settings are the defaults, or it has none).
+func policyRelated(cfg *policies.RuleConfig) []Related {
+	var out []Related
+	if cfg.Spec != nil {
+		for _, s := range cfg.Spec.Settings {
+			if rng, ok := cfg.Attrs[s.Name]; ok {
+				out = append(out, Related{Label: "limit " + cfg.Rule + "." + s.Name, Range: rng})
+			}
+		}
+	}
+	if len(out) == 0 && cfg.DefRange.Start.Line > 0 {
+		out = append(out, Related{Label: "policy block " + cfg.Rule, Range: cfg.DefRange})
+	}
+	return out
 }
 
 // events are the event results a rule runs on: all of them for an
@@ -235,7 +256,7 @@ func sortFindings(fs []Finding) []Finding {
 	}
 	n := 1
 	for i := 1; i < len(fs); i++ {
-		if fs[i] != fs[n-1] { // drop exact duplicates, as slices.Compact does
+		if !fs[i].Equal(&fs[n-1]) { // drop exact duplicates, as slices.Compact does
 			fs[n] = fs[i]
 			n++
 		}

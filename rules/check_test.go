@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"reflect"
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
@@ -148,5 +149,35 @@ func TestPolicyUnitsConverted(t *testing.T) {
 		assert.InDelta(t, a[i].Value, b[i].Value, 1e-12)
 		assert.InDelta(t, a[i].Limit, b[i].Limit, 1e-12)
 		assert.Equal(t, a[i].Message, b[i].Message)
+	}
+}
+
+// TestFindingEqualCoversEveryField changes each field of a finding in turn
+// and requires Equal to see the difference, so that a new field cannot be
+// forgotten in the comparison that removes duplicates.
+func TestFindingEqualCoversEveryField(t *testing.T) {
+	var base Finding
+	v := reflect.ValueOf(&base).Elem()
+	for i := range v.NumField() {
+		other := base
+		field := reflect.ValueOf(&other).Elem().Field(i)
+		switch field.Kind() {
+		case reflect.String:
+			field.SetString("x")
+		case reflect.Float64:
+			field.SetFloat(1)
+		case reflect.Bool:
+			field.SetBool(true)
+		case reflect.Struct: // hcl.Range
+			field.FieldByName("Filename").SetString("x")
+		case reflect.Slice:
+			field.Set(reflect.ValueOf([]Related{{Label: "x"}}))
+		case reflect.Pointer: // *Envelope
+			field.Set(reflect.ValueOf(&Envelope{Verdict: "x"}))
+		default:
+			t.Fatalf("field %s of kind %s: extend this test", v.Type().Field(i).Name, field.Kind())
+		}
+		assert.False(t, base.Equal(&other), "Equal ignores %s", v.Type().Field(i).Name)
+		assert.True(t, other.Equal(&other))
 	}
 }

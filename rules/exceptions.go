@@ -77,6 +77,7 @@ func applyExceptions(m *model.Model, fs []Finding, p *policies.Policy) {
 			f.Excepted = true
 			f.ExceptionReason = reason
 			f.ExceptionRange = ex.DefRange
+			f.Related = append(f.Related, Related{Label: "exception", Range: ex.DefRange})
 			break
 		}
 	}

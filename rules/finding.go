@@ -13,6 +13,7 @@
 package rules
 
 import (
+	"slices"
 	"strconv"
 	"strings"
 
@@ -67,6 +68,37 @@ type Finding struct {
 	// Envelope is the finding's verdict over a sensitivity run; nil when
 	// none was made or the finding does not depend on the flow.
 	Envelope *Envelope
+	// Related are the other places that explain the finding, each with a
+	// short label: the policy settings that set its limit, the design
+	// exception that covers it. Their ranges may lie in a policy file
+	// ("pack:NAME" for a built-in pack).
+	Related []Related
+}
+
+// Related is a place that explains a finding.
+type Related struct {
+	Label string // "limit freeboard.minimum", "policy block jump_containment", "exception"
+	Range hcl.Range
+}
+
+// Equal reports whether f and g are the same finding, field by field
+// (TestFindingEqualCoversEveryField keeps the list complete).
+func (f *Finding) Equal(g *Finding) bool {
+	return f.Rule == g.Rule && f.Severity == g.Severity && f.Message == g.Message && f.Remedy == g.Remedy &&
+		f.File == g.File && f.Range == g.Range && f.Focus == g.Focus && f.Reach == g.Reach && f.Event == g.Event &&
+		f.FromStation == g.FromStation && f.ToStation == g.ToStation && f.HasSpan == g.HasSpan &&
+		f.Value == g.Value && f.Limit == g.Limit && f.HasValue == g.HasValue && f.Unit == g.Unit &&
+		f.Reference == g.Reference && f.Excepted == g.Excepted && f.ExceptionReason == g.ExceptionReason &&
+		f.ExceptionRange == g.ExceptionRange && sameEnvelope(f.Envelope, g.Envelope) && slices.Equal(f.Related, g.Related)
+}
+
+// sameEnvelope reports whether two verdicts are equal (both nil, or equal
+// values).
+func sameEnvelope(a, b *Envelope) bool {
+	if a == nil || b == nil {
+		return a == b
+	}
+	return *a == *b
 }
 
 // Verdicts of a finding over a sensitivity run.

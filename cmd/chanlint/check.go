@@ -617,6 +617,26 @@ func (c *checkRun) sensitivityLines() []string {
 	return lines
 }
 
+// absRelated is a copy of related with the ranges in the model (named
+// name) or in a policy file given absolute paths, as SARIF's artifacts are;
+// built-in packs keep their "pack:NAME".
+func (c *checkRun) absRelated(related []rules.Related, name, abs string) []rules.Related {
+	if len(related) == 0 {
+		return nil
+	}
+	out := slices.Clone(related)
+	for i := range out {
+		fn := out[i].Range.Filename
+		switch {
+		case fn == name || fn == "":
+			out[i].Range.Filename = abs
+		case !strings.HasPrefix(fn, "pack:"):
+			out[i].Range.Filename = c.app.abs(filepath.FromSlash(fn))
+		}
+	}
+	return out
+}
+
 func (c *checkRun) writeSARIF(w io.Writer) error {
 	// Artifact URIs are relative to the repository root (else the working
 	// directory), as code-scanning services expect. The files are handed
@@ -647,6 +667,7 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 		}
 		if c.view.Every == nil {
 			for _, f := range c.shown[r.File.Name] {
+				f.Related = c.absRelated(f.Related, r.File.Name, abs)
 				f.File = abs
 				in.Findings = append(in.Findings, f)
 			}
@@ -654,6 +675,7 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 			// With a baseline every finding is a result: known ones are
 			// "unchanged", the others (much worse ones too) "new".
 			for i, f := range r.Findings {
+				f.Related = c.absRelated(f.Related, r.File.Name, abs)
 				f.File = abs
 				in.Findings = append(in.Findings, f)
 				state := "new"

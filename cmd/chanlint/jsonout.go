@@ -48,6 +48,9 @@ type findingJSON struct {
 	// Baseline is "new" or "worse" (recorded, but much worse) when a
 	// --baseline was given; known findings are not listed.
 	Baseline string `json:"baseline,omitempty"`
+	// Related are the other places that explain the finding: the policy
+	// settings that set its limit, the exception that covers it.
+	Related []relatedJSON `json:"related,omitempty"`
 	// Envelope is the verdict over a sensitivity run (--vary or the
 	// policy's sensitivity block); omitted without one and for findings
 	// that do not depend on the flow.
@@ -61,6 +64,17 @@ type envelopeJSON struct {
 	Failing int    `json:"failing"`
 	Driver  string `json:"driver,omitempty"`
 	Case    string `json:"case,omitempty"`
+}
+
+// relatedJSON is one related place: its label and range ("pack:NAME" as
+// the file of a built-in pack).
+type relatedJSON struct {
+	Label     string `json:"label"`
+	File      string `json:"file"`
+	Line      int    `json:"line"`
+	Column    int    `json:"column"`
+	EndLine   int    `json:"end_line"`
+	EndColumn int    `json:"end_column"`
 }
 
 // summaryJSON counts the findings shown; excepted findings are counted
@@ -121,6 +135,10 @@ func newFindingJSON(f *rules.Finding) findingJSON {
 	}
 	if j.EndLine < j.Line {
 		j.EndLine, j.EndColumn = j.Line, j.Column
+	}
+	for _, r := range f.Related {
+		j.Related = append(j.Related, relatedJSON{Label: r.Label, File: r.Range.Filename,
+			Line: r.Range.Start.Line, Column: r.Range.Start.Column, EndLine: r.Range.End.Line, EndColumn: r.Range.End.Column})
 	}
 	if f.HasSpan {
 		j.FromStation, j.ToStation = finite(f.FromStation), finite(f.ToStation)

@@ -265,6 +265,7 @@ func writeFindingText(w io.Writer, f *rules.Finding, src []byte, unit string, p 
 		if f.Envelope != nil {
 			writeContinuation(w, "envelope", f.Envelope.Text(), p)
 		}
+		writeRelated(w, f, p)
 		return
 	}
 	fmt.Fprintf(w, "%s %s: %s %s%s\n", place, p.severity(f.Severity), rule, head, msg)
@@ -274,8 +275,18 @@ func writeFindingText(w io.Writer, f *rules.Finding, src []byte, unit string, p 
 	if f.Envelope != nil {
 		writeContinuation(w, "envelope", f.Envelope.Text(), p)
 	}
+	writeRelated(w, f, p)
 	if f.Rule == "model" {
 		fmt.Fprint(w, snippet(src, f.Range, p))
+	}
+}
+
+// writeRelated prints the related places of a finding as notes, one a
+// line: "    see: limit freeboard.minimum at team.policy.hcl:7:13".
+func writeRelated(w io.Writer, f *rules.Finding, p *palette) {
+	for _, r := range f.Related {
+		at := strings.TrimSuffix(gnuPrefix(safetext.Text(r.Range.Filename), r.Range), ":")
+		writeContinuation(w, "see", r.Label+" at "+at, p)
 	}
 }
 

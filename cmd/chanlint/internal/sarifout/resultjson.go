@@ -48,6 +48,17 @@ func (b *builder) appendResult(dst []byte, f *rules.Finding, i int, fp string) [
 	appendProperties(&e, f)
 	e.key("rank")
 	e.raw("-1")
+	if b.hasRelated(f) {
+		e.key("relatedLocations")
+		e.open('[')
+		for i, r := range f.Related {
+			if file, ok := relatedFile(f, r); ok {
+				e.elem()
+				b.appendLocationAs(&e, file, r.Range, i, &r.Label)
+			}
+		}
+		e.close(']')
+	}
 	e.key("ruleId")
 	e.str(f.Rule)
 	e.key("ruleIndex")
@@ -74,12 +85,35 @@ func (b *builder) appendResult(dst []byte, f *rules.Finding, i int, fp string) [
 	return e.b
 }
 
+// hasRelated reports whether f has a related place that is a location.
+func (b *builder) hasRelated(f *rules.Finding) bool {
+	for _, r := range f.Related {
+		if _, ok := relatedFile(f, r); ok {
+			return true
+		}
+	}
+	return false
+}
+
 // appendLocation writes the physical location of a range in a file.
 func (b *builder) appendLocation(e *jsonWriter, file string, r hcl.Range) {
+	b.appendLocationAs(e, file, r, -1, nil)
+}
+
+// appendLocationAs writes a location with its id and, when label is not
+// nil, a message (a related location), in go-sarif's field order.
+func (b *builder) appendLocationAs(e *jsonWriter, file string, r hcl.Range, id int, label *string) {
 	art := b.artifacts[file]
 	e.open('{')
 	e.key("id")
-	e.raw("-1")
+	e.int(id)
+	if label != nil {
+		e.key("message")
+		e.open('{')
+		e.key("text")
+		e.str(*label)
+		e.close('}')
+	}
 	e.key("physicalLocation")
 	e.open('{')
 	e.key("artifactLocation")

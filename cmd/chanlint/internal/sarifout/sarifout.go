@@ -336,6 +336,11 @@ func newBuilder(in Input) (*builder, error) {
 		if file, ok := b.exceptionFile(f); ok {
 			b.addArtifact(file)
 		}
+		for _, r := range f.Related {
+			if file, ok := relatedFile(f, r); ok {
+				b.addArtifact(file)
+			}
+		}
 	}
 	cautionDesc := sarif.NewReportingDescriptor().
 		WithID("caution").
@@ -542,6 +547,14 @@ func (b *builder) result(f *rules.Finding, i int, fp string) *sarif.Result {
 	}
 	res.WithProperties(props)
 
+	for i, r := range f.Related {
+		if file, ok := relatedFile(f, r); ok {
+			loc := b.location(file, r.Range).WithMessage(sarif.NewTextMessage(r.Label))
+			loc.ID = i
+			res.AddRelatedLocation(loc)
+		}
+	}
+
 	if f.Excepted {
 		s := sarif.NewSuppression().WithKind("inSource").WithStatus("accepted").
 			WithJustification(f.ExceptionReason)
@@ -574,6 +587,19 @@ func (b *builder) exceptionFile(f *rules.Finding) (string, bool) {
 		file = r.Filename
 	}
 	return file, true
+}
+
+// relatedFile is the file of a related place of f when it can be a SARIF
+// location: a range in a file, not in a built-in pack (which has no
+// artifact). A range without a file name is in f's file.
+func relatedFile(f *rules.Finding, r rules.Related) (string, bool) {
+	if r.Range.Start.Line < 1 || strings.HasPrefix(r.Range.Filename, "pack:") {
+		return "", false
+	}
+	if r.Range.Filename == "" {
+		return f.File, f.File != ""
+	}
+	return r.Range.Filename, true
 }
 
 // location is the physical location of a range in a file (an artifact

@@ -74,7 +74,11 @@ func findings(t *testing.T) []rules.Finding {
 			File: file, Range: length, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q100",
 			FromStation: 1.5, ToStation: 4.25, HasSpan: true, Value: 0.18, Limit: 0.30, HasValue: true,
 			Reference: "County Drainage Criteria Manual, ch. 5",
-			Excepted:  true, ExceptionReason: "Reviewed with the <drainage> authority & \"county\"", ExceptionRange: exc},
+			Excepted:  true, ExceptionReason: "Reviewed with the <drainage> authority & \"county\"", ExceptionRange: exc,
+			Related: []rules.Related{
+				{Label: "limit freeboard.minimum", Range: hcl.Range{Filename: "pack:baseline", Start: hcl.Pos{Line: 22, Column: 15}, End: hcl.Pos{Line: 22, Column: 18}}},
+				{Label: "exception", Range: exc},
+			}},
 		{Rule: "froude_band", Severity: policies.Info, Message: "Froude number 0.95 in the avoided band 0.89–1.13",
 			File: file, Range: label, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q10",
 			FromStation: 0, ToStation: 5, HasSpan: true, Value: 0.95, Limit: 0.89, HasValue: true},

@@ -42,6 +42,10 @@ func TestStreamedResults(t *testing.T) {
 				HasSpan: rapid.Bool().Draw(t, "span"), FromStation: num.Draw(t, "from"), ToStation: num.Draw(t, "to"),
 				HasValue: rapid.Bool().Draw(t, "value"), Value: num.Draw(t, "v"), Limit: num.Draw(t, "l"),
 			}
+			for range rapid.IntRange(0, 3).Draw(t, "related") {
+				f.Related = append(f.Related, rules.Related{Label: text.Draw(t, "label"),
+					Range: hcl.Range{Filename: rapid.SampledFrom(append(files, "pack:baseline")).Draw(t, "relfile"), Start: pos.Draw(t, "relstart"), End: pos.Draw(t, "relend")}})
+			}
 			if rapid.Bool().Draw(t, "excepted") {
 				f.Excepted, f.ExceptionReason = true, text.Draw(t, "reason")
 				if rapid.Bool().Draw(t, "exrange") {
