@@ -286,6 +286,7 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 			results = append(results, pipeline.Parse(pipeline.File{Name: name}, src).CheckVaried(pol, a.pipelineOptions(k), max(jobs, a.defaultJobs)))
 		}
 		if len(rest) == 0 {
+			a.displayRelated(results)
 			return results
 		}
 	}
@@ -304,7 +305,25 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 	prog := a.newProgress(len(files))
 	checked := pipeline.CheckFiles(files, pol, a.pipelineOptions(k), jobs, prog.step)
 	prog.done()
-	return append(results, checked...)
+	results = append(results, checked...)
+	a.displayRelated(results)
+	return results
+}
+
+// displayRelated prints the related places in a policy file found by
+// absolute path (a discovered .chanlint.hcl, a --policy given as a path)
+// relative to the working directory, as every other path of the output.
+func (a *app) displayRelated(results []*pipeline.Result) {
+	for _, r := range results {
+		for i := range r.Findings {
+			for j := range r.Findings[i].Related {
+				rng := &r.Findings[i].Related[j].Range
+				if filepath.IsAbs(rng.Filename) {
+					rng.Filename = a.display(rng.Filename)
+				}
+			}
+		}
+	}
 }
 
 // varyUsage is the help of --vary (check and report).
