@@ -91,7 +91,9 @@ func (s *solver) arrival(w *reachWork) superControl {
 		switch {
 		case uw.endSuper:
 			arrivals++
-		case uw.freeFall && uw.endY == uw.lastPiece().yc:
+		case uw.freeFall && uw.endY == uw.lastPiece().yc && w.r.Culvert == nil:
+			// (A reach falling into a culvert's headwater pool: the
+			// barrel's inlet is its own control, by HDS-5.)
 			arrivals++
 			falling = uw
 		}
