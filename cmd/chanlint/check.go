@@ -60,14 +60,14 @@ type checkFlags struct {
 
 func newCheckFlags() (*checkFlags, *flag.FlagSet) {
 	cf := &checkFlags{
-		format: newChoice("text", "text", "json", "sarif", "annotations"),
+		format: newChoice("text", "text", "json", "sarif", "annotations", "checklist", "checklist-csv"),
 		color:  newChoice("auto", "auto", "always", "never"),
 		failOn: newChoice("error", "error", "warning", "info"),
 	}
 	fs := newFlagSet("check")
 	fs.StringVar(&cf.policy, "policy", "", "policy `FILE` or built-in pack name (default: "+configName+", else the baseline pack)")
 	fs.StringVar(&cf.approvals, "approvals", "", "the reviewer's approved exceptions `FILE`, counted under a policy with exceptions = \"approved\"")
-	fs.Var(cf.format, "format", "output format (annotations: workflow commands for GitHub Actions)")
+	fs.Var(cf.format, "format", "output format (annotations: workflow commands for GitHub Actions; checklist, checklist-csv: the reviewer's coverage matrix in Markdown or CSV)")
 	fs.Var(&cf.rules, "rule", "show only findings of rule `ID` (repeatable, or a comma-separated list)")
 	fs.Var(&cf.events, "event", "show only findings of flow event `NAME` and those of no event (repeatable, or comma-separated)")
 	fs.StringVar(&cf.vary, "vary", "", varyUsage)
@@ -199,7 +199,8 @@ func (a *app) runCheck(args []string) int {
 
 	// Only SARIF needs the source of a valid model (artifact lengths,
 	// hashes and character offsets).
-	results := a.checkPaths(paths, pol, cf.jobs, pipeline.Keep{Source: cf.format.value == "sarif"})
+	checklistOut := strings.HasPrefix(cf.format.value, "checklist")
+	results := a.checkPaths(paths, pol, cf.jobs, pipeline.Keep{Source: cf.format.value == "sarif" || checklistOut, Solved: checklistOut})
 	if len(results) == 0 {
 		// Nothing checked is never a pass: a renamed or misplaced model
 		// must not turn a failing design into a clean run.
@@ -236,6 +237,8 @@ func (a *app) runCheck(args []string) int {
 		err = run.writeSARIF(out)
 	case "annotations":
 		run.writeAnnotations(out)
+	case "checklist", "checklist-csv":
+		err = run.writeChecklist(out, cf.format.value == "checklist-csv")
 	default:
 		run.writeText(out, pal)
 	}
