@@ -200,6 +200,13 @@ const (
 	MaxItems = 2 * MaxReaches
 	// MaxInterpolations bounds the ${…} and %{…} of one string.
 	MaxInterpolations = 64
+	// MaxAdjacent bounds names, numbers and strings that follow one
+	// another with nothing between them but spaces (a block type and its
+	// labels are the only valid case: two or three of them).
+	MaxAdjacent = 8
+	// MaxTopItems bounds the lines of the top level (blocks and
+	// arguments): more than every block limit together allows.
+	MaxTopItems = MaxSections + MaxReaches + MaxEvents + 6*MaxStructure + 64
 )
 
 // Problems found by the pre-scan.
@@ -209,6 +216,7 @@ const (
 	scanChain
 	scanItems
 	scanTemplate
+	scanAdjacent
 )
 
 // CheckNesting is the cheap pre-scan that runs before the HCL parser on
@@ -235,7 +243,10 @@ func CheckNesting(filename string, src []byte) hcl.Diagnostics {
 		detail = fmt.Sprintf("More than %d attribute, index or splat steps or operators follow one another here; a file holds only literal values (numbers, strings, lists, objects).", MaxChain)
 	case scanItems:
 		summary = "Too many items"
-		detail = fmt.Sprintf("A list, object or block here holds more than %d elements, more than any limit allows; split the model.", MaxItems)
+		detail = fmt.Sprintf("A list, object or block here holds more than %d elements (the top level more than %d blocks and arguments), more than any limit allows; split the model.", MaxItems, MaxTopItems)
+	case scanAdjacent:
+		summary = "Not a model"
+		detail = fmt.Sprintf("More than %d names, numbers or strings follow one another here with nothing between them; this is not HCL a model or policy can hold.", MaxAdjacent)
 	default:
 		summary = "Too many interpolations"
 		detail = fmt.Sprintf("A string here holds more than %d ${…} or %%{…} sequences; a file holds only literal text.", MaxInterpolations)
@@ -283,6 +294,7 @@ func preScan(src []byte) (int, int) {
 	// a closing bracket or quote), so that "." and "[" after it are steps;
 	// item is true when something was written since the last separator.
 	chain, value, item := 0, false, false
+	adjacent := 0 // names, numbers and strings in a row
 	n := len(src)
 	for i := 0; i < n; i++ {
 		c := src[i]
@@ -313,7 +325,7 @@ func preScan(src []byte) (int, int) {
 					return i, scanTemplate
 				}
 				stack = append(stack, frame{kind: interp, brace: true})
-				chain, value = 0, false
+				chain, value, adjacent = 0, false, 0
 				i++
 			}
 			if len(stack) > MaxNesting+1 {
@@ -331,16 +343,27 @@ func preScan(src []byte) (int, int) {
 		}
 		wasValue := value
 		value = false
-		if c != '\n' {
-			item = true
+		if comment := c == '#' || c == '/' && i+1 < n && (src[i+1] == '/' || src[i+1] == '*'); c != '\n' && !comment {
+			item = true // a comment alone makes no item
+		}
+		if c == '"' || '0' <= c && c <= '9' || isIdentByte(c) || c >= 0x80 {
+			if adjacent++; adjacent > MaxAdjacent {
+				return i, scanAdjacent
+			}
+		} else {
+			adjacent = 0
 		}
 		switch c {
 		case '\n':
 			if top.brace {
 				chain = 0
-				if item && len(stack) > 1 { // the top level is bounded by blockLimits
+				if item {
 					item = false
-					if top.items++; top.items > MaxItems {
+					limit := MaxItems
+					if len(stack) == 1 {
+						limit = MaxTopItems // the top level: blocks and arguments
+					}
+					if top.items++; top.items > limit {
 						return i, scanItems
 					}
 				}

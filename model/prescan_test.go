@@ -52,6 +52,15 @@ var hostileExpressions = []struct {
 	{"templates", "units = \"si\"\nx = \"", "${a}", "\"\n", "Too many interpolations"},
 	{"template directives", "units = \"si\"\nx = \"", "%{if a}b%{endif}", "\"\n", "Too many interpolations"},
 	{"heredoc templates", "units = \"si\"\nx = <<EOT\n", "${a}", "\nEOT\n", "Too many interpolations"},
+	// Token soup: content that is not HCL a model can hold, which the
+	// parser would otherwise tokenise whole and report line by line.
+	{"names on lines", "units = \"si\"\n", "a\n", "", "Too many items"},
+	{"numbers on lines", "units = \"si\"\n", "1\n", "", "Too many items"},
+	{"arguments on lines", "units = \"si\"\n", "x = 1\n", "", "Too many items"},
+	{"empty blocks on lines", "units = \"si\"\n", "b {}\n", "", "Too many items"},
+	{"names in a row", "units = \"si\"\n", "a ", "\n", "Not a model"},
+	{"strings in a row", "units = \"si\"\n", `"a"`, "\n", "Not a model"},
+	{"numbers in a row", "units = \"si\"\n", "1 ", "\n", "Not a model"},
 }
 
 // Every hostile construct is rejected by the pre-scan, before the parser
@@ -132,4 +141,10 @@ func TestDiagnosticsBoundedInBytes(t *testing.T) {
 	last := diags[len(diags)-1]
 	assert.Equal(t, "Too many problems", last.Summary)
 	assert.Less(t, len(diags), MaxDiagnostics, "the byte bound cut first")
+}
+
+// Comment lines are no items: a heavily commented model stays valid.
+func TestPreScanIgnoresCommentLines(t *testing.T) {
+	src := repeatTo("units = \"si\"\n", "# a comment line that explains the model\n// and another one\n/* and a block */\n", "", MaxFileSize)
+	assert.Empty(t, CheckNesting("c.chan.hcl", src))
 }
