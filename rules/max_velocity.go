@@ -62,19 +62,28 @@ section that carries the flow shallower and slower.`,
 }
 
 func checkMaxVelocity(ctx *Context, report func(Finding)) {
-	checkVelocity(ctx, report, true)
+	checkVelocity(ctx, report, failAbove)
 }
 
 // checkVelocity holds the mean velocity of every wet point to the policy's
 // limit for its lining: above it (max_velocity) or below it (min_velocity).
-func checkVelocity(ctx *Context, report func(Finding), upper bool) {
+// limitSide says which side of a limit fails: a maximum or a minimum.
+type limitSide int
+
+const (
+	failAbove limitSide = iota + 1 // a maximum: values above it fail
+	failBelow                      // a minimum: values below it fail
+)
+
+func checkVelocity(ctx *Context, report func(Finding), side limitSide) {
+	upper := side == failAbove
 	cfg := ctx.Config
 	u := ctx.units()
 	w := lower
 	if upper {
 		w = higher
 	}
-	limits := newLiningLimits(cfg, upper)
+	limits := newLiningLimits(cfg, side)
 	ctx.scanPoints(w, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.Area <= 0 {
@@ -103,7 +112,7 @@ func checkVelocity(ctx *Context, report func(Finding), upper bool) {
 				where = " in the " + zone + " (conveyance split V = Q·K_i/(K·A_i); section mean " + num(p.Velocity) + " " + velocityUnit(u) + ")"
 			}
 		}
-		msg, remedy := velocityMessage(cfg, sec, s, u, upper, where)
+		msg, remedy := velocityMessage(cfg, sec, s, u, side, where)
 		f := spanFinding(ev, rr, s, msg, remedy)
 		f.Unit = velocityUnit(u)
 		f.Focus = sec.At("lining") // the limit is the lining's
@@ -157,9 +166,11 @@ type liningLimits struct {
 	ok             bool
 }
 
-// newLiningLimits reads the limit table of a rule block; erosion is true
-// for the rules that limit erosion (max_velocity, shear_stress).
-func newLiningLimits(cfg *policies.RuleConfig, erosion bool) *liningLimits {
+// newLiningLimits reads the limit table of a rule block; failAbove for
+// the rules that limit erosion (max_velocity, shear_stress), failBelow for
+// the self-cleansing minimum.
+func newLiningLimits(cfg *policies.RuleConfig, side limitSide) *liningLimits {
+	erosion := side == failAbove
 	return &liningLimits{table: cfg.Table("limit"), conduitNamed: erosion,
 		noPoints: cfg.Word("points_sections") == "excluded", vegetatedNamed: !erosion}
 }
@@ -192,7 +203,8 @@ func (l *liningLimits) at(rr *solver.ReachResult, p *solver.Point) (float64, boo
 // self-cleansing velocity applies only where the policy names the lining.
 func vegetated(lining string) bool { return lining == "grass" || lining == "natural" }
 
-func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u model.Units, upper bool, where string) (msg, remedy string) {
+func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u model.Units, side limitSide, where string) (msg, remedy string) {
+	upper := side == failAbove
 	vu := velocityUnit(u)
 	val, lim := numPair(s.value, s.limit)
 	for_ := liningText(cfg, sec)

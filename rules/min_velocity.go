@@ -45,5 +45,5 @@ memory).`,
 channel (trickle channel) inside a wide section, or a maintenance plan for
 removing deposits.`,
 	},
-	Check: func(ctx *Context, report func(Finding)) { checkVelocity(ctx, report, false) },
+	Check: func(ctx *Context, report func(Finding)) { checkVelocity(ctx, report, failBelow) },
 }

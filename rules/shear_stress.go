@@ -136,7 +136,7 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	gamma := unitWeight(u)
 	su := stressUnit(u)
 	mean := shearMean(cfg)
-	limits := newLiningLimits(cfg, true)
+	limits := newLiningLimits(cfg, failAbove)
 	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.HydraulicRadius <= 0 {

@@ -1,10 +1,3 @@
-// Package solver computes steady gradually-varied flow over a channel
-// network: section hydraulics, normal and critical depth, water-surface
-// profiles by the standard-step energy method with Manning friction,
-// supercritical, subcritical and mixed regimes with hydraulic jumps located
-// by specific force, sluice gates and junctions. It imports model and knows
-// nothing of rules or output. Numerical failure is a Note on the result,
-// never a panic and never a NaN.
 package solver
 
 import (
