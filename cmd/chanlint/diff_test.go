@@ -117,3 +117,61 @@ func TestDiffCommand(t *testing.T) {
 	assert.Equal(t, exitInvalid, code)
 	assert.Contains(t, errOut, "unknown revision")
 }
+
+// narrowModel is diffModel with the bottom width as the parameter.
+func narrowModel(width string) string {
+	return strings.Replace(diffModel("0.8"), "bottom_width = 1.5", "bottom_width = "+width, 1)
+}
+
+// TestDiffReport: `diff --out` writes the proposed model's review report
+// with the existing water surface drawn on each profile and the revision's
+// changes, as HTML, as Markdown with SVG files beside it, and to standard
+// output; the comparison itself still goes to standard output.
+//
+// Source: common practice (no published source).
+func TestDiffReport(t *testing.T) {
+	dir := t.TempDir()
+	for name, src := range map[string]string{"old.chan.hcl": narrowModel("2.5"), "new.chan.hcl": narrowModel("1.0")} {
+		require.NoError(t, os.WriteFile(filepath.Join(dir, name), []byte(src), 0o644))
+	}
+	code, out, errOut := runIn(dir, runOpts{}, "diff", "old.chan.hcl", "new.chan.hcl", "--out", "review.html", "--color", "never")
+	require.Equal(t, exitFindings, code, errOut) // the narrowed ditch loses its freeboard
+	assert.Contains(t, out, "reach ditch, event q10: water surface +")
+	assert.Contains(t, errOut, "chanlint diff: wrote review.html")
+	data, err := os.ReadFile(filepath.Join(dir, "review.html"))
+	require.NoError(t, err)
+	page := string(data)
+	assert.True(t, strings.HasPrefix(page, "<!DOCTYPE html>"))
+	assert.True(t, strings.HasSuffix(strings.TrimSpace(page), "</html>"))
+	assert.Contains(t, page, `<g class="existing"><title>Water surface of the existing revision old.chan.hcl</title>`)
+	assert.Contains(t, page, ">existing water surface<")
+	assert.Contains(t, page, "<h3>Revision changes</h3>")
+	assert.Contains(t, page, "<caption>New findings (1)</caption>")
+	assert.Regexp(t, `<td class="name" dir="auto">ditch</td><td class="name" dir="auto">q10</td><td class="num">&#43;[0-9.]+ at [0-9.]+</td>`, page)
+	assert.Equal(t, strings.Count(page, "<svg "), strings.Count(page, "</svg>"))
+
+	code, _, errOut = runIn(dir, runOpts{}, "diff", "old.chan.hcl", "new.chan.hcl", "--out", "review.md")
+	require.Equal(t, exitFindings, code, errOut)
+	md, err := os.ReadFile(filepath.Join(dir, "review.md"))
+	require.NoError(t, err)
+	assert.Contains(t, string(md), "### Revision changes")
+	assert.Contains(t, string(md), "**New findings (1)**")
+	assert.Contains(t, string(md), "![")
+	svg, err := os.ReadFile(filepath.Join(dir, "review-1.svg"))
+	require.NoError(t, err)
+	assert.Contains(t, string(svg), `<g class="existing">`)
+	assert.Contains(t, string(svg), ">existing water surface<")
+
+	code, out, errOut = runIn(dir, runOpts{}, "diff", "old.chan.hcl", "new.chan.hcl", "--out", "-")
+	require.Equal(t, exitFindings, code, errOut)
+	assert.True(t, strings.HasPrefix(out, "<!DOCTYPE html>"), "only the report goes to standard output")
+	assert.Contains(t, out, "<h3>Revision changes</h3>")
+
+	// The report never replaces an input model.
+	code, _, errOut = runIn(dir, runOpts{}, "diff", "old.chan.hcl", "new.chan.hcl", "--out", "old.chan.hcl")
+	assert.Equal(t, exitInvalid, code)
+	assert.Contains(t, errOut, "cannot write old.chan.hcl")
+	src, err := os.ReadFile(filepath.Join(dir, "old.chan.hcl"))
+	require.NoError(t, err)
+	assert.Equal(t, narrowModel("2.5"), string(src))
+}

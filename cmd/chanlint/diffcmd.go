@@ -12,6 +12,7 @@ import (
 	"strings"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/report"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
 	"github.com/chanlint/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/model"
@@ -31,6 +32,7 @@ func diffCommand() *command {
 type diffFlags struct {
 	policy string
 	git    string
+	out    string
 	format *choice
 	color  *choice
 	failOn *choice
@@ -46,6 +48,7 @@ func newDiffFlags() (*diffFlags, *flag.FlagSet) {
 	fs.StringVar(&df.policy, "policy", "", "policy `FILE` or built-in pack name (default: "+configName+", else the baseline pack)")
 	fs.StringVar(&df.git, "git", "", "compare each model under PATH with its version at git revision `REV`")
 	fs.Var(df.format, "format", "output format (markdown: for a pull-request comment)")
+	fs.StringVar(&df.out, "out", "", "also write the review report of the proposed models, with the revision's changes, to `FILE` (.md: Markdown with SVG plots beside it, else HTML; - for standard output)")
 	fs.Var(df.color, "color", "colour text output; auto colours a terminal unless NO_COLOR is set")
 	fs.Var(df.failOn, "fail-on", "lowest severity of a new finding that makes the exit status 1")
 	return df, fs
@@ -68,6 +71,15 @@ OLD is the existing model and NEW the proposed one. With --git REV, each
 model under PATH (default: the current directory) is compared with the
 same file at the git revision REV; a model that did not exist there is
 new as a whole.
+
+--out FILE writes the review report of the proposed models as 'chanlint
+report' does (HTML, or Markdown with the SVG plots beside it when FILE
+ends in .md), each profile also drawing the existing water surface as a
+dash-dot-dot line, and a "Revision changes" section per model: findings
+new, fixed and changed, the largest rise and fall of the water surface per
+reach and event, reaches added or removed, no_rise findings. The
+comparison is still printed in --format; with --out - the report goes to
+standard output instead.
 
 options:
 ` + flagUsage(fs) + `
@@ -159,6 +171,16 @@ func (a *app) runDiff(args []string) int {
 			}
 		}
 	}
+	if df.out != "" {
+		if err := a.writeDiffReport(df.out, pol, paths, pairs, diffs); err != nil {
+			fmt.Fprintf(a.stderr, "chanlint diff: cannot write %s: %v\n", a.display(a.abs(df.out)), describePathError(err))
+			return exitInvalid
+		}
+		if df.out == "-" {
+			return a.diffStatus(diffs, invalid, policies.Severity(df.failOn.value))
+		}
+		fmt.Fprintf(a.stderr, "chanlint diff: wrote %s\n", a.display(a.abs(df.out)))
+	}
 	out := bufio.NewWriter(a.stdout)
 	switch df.format.value {
 	case "json":
@@ -171,10 +193,18 @@ func (a *app) runDiff(args []string) int {
 	if err == nil {
 		err = out.Flush()
 	}
-	if err != nil || invalid {
+	if err != nil {
 		return exitInvalid
 	}
-	failOn := policies.Severity(df.failOn.value)
+	return a.diffStatus(diffs, invalid, policies.Severity(df.failOn.value))
+}
+
+// diffStatus is the exit status of a comparison: invalid, a new finding
+// at or above failOn, or none.
+func (a *app) diffStatus(diffs []*revdiff.Diff, invalid bool, failOn policies.Severity) int {
+	if invalid {
+		return exitInvalid
+	}
 	for _, d := range diffs {
 		for _, f := range d.New {
 			if !f.Excepted && f.Severity.Rank() >= failOn.Rank() {
@@ -183,6 +213,27 @@ func (a *app) runDiff(args []string) int {
 		}
 	}
 	return exitOK
+}
+
+// writeDiffReport writes the review report of the proposed models to out,
+// each with its comparison (report.Model.Revision). A proposed revision
+// that is not a valid model is listed with its diagnostics.
+func (a *app) writeDiffReport(out string, pol *policies.Policy, paths []string, pairs []diffPair, diffs []*revdiff.Diff) error {
+	in, _ := a.reportInput(pol, paths)
+	var inputs []*pipeline.Result
+	for i, p := range pairs {
+		for _, r := range []*pipeline.Result{p.old, p.new} {
+			if r != nil {
+				inputs = append(inputs, r)
+			}
+		}
+		if p.new.Model == nil {
+			in.Invalid = append(in.Invalid, p.new.Findings...)
+			continue
+		}
+		in.Models = append(in.Models, report.Model{Model: p.new.Model, Result: p.new.Solution, Findings: p.new.Findings, Revision: diffs[i]})
+	}
+	return a.writeReport(out, reportFormat(out, ""), in, inputs)
 }
 
 // newModelDiff is the comparison of a model that did not exist at the

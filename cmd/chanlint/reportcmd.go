@@ -10,6 +10,7 @@ import (
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/report"
 	"github.com/chanlint/chanlint/internal/safetext"
+	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 )
 
@@ -96,13 +97,7 @@ func (a *app) runReport(args []string) int {
 		return a.usageError(c, "--vary: %v", err)
 	}
 	toStdout := rf.out == "-"
-	format := rf.format.value
-	if format == "" {
-		format = "html"
-		if ext := strings.ToLower(filepath.Ext(rf.out)); ext == ".md" || ext == ".markdown" {
-			format = "markdown"
-		}
-	}
+	format := reportFormat(rf.out, rf.format.value)
 	errPal := newPalette(a.useColor(rf.color.value, a.stderrTTY))
 	pol, ok := a.loadPolicy(rf.policy, errPal)
 	if !ok || !a.loadApprovals(rf.approvals, pol, errPal) {
@@ -110,13 +105,7 @@ func (a *app) runReport(args []string) int {
 	}
 	results := a.checkPaths(paths, pol, rf.jobs, pipeline.Keep{Solved: true, Source: true})
 
-	info := a.describePolicy(pol, paths)
-	shownPol := *pol // as every output shows it: its own reference, its printed path
-	shownPol.Reference, shownPol.File = info.Reference, a.policySource(pol)
-	in := report.Input{Policy: &shownPol, Caution: rules.Caution, ToolVersion: toolVersion()}
-	for _, n := range info.Notes() {
-		in.PolicyNotes = append(in.PolicyNotes, report.PolicyNote{Text: n.Text, Warn: n.Warn})
-	}
+	in, info := a.reportInput(pol, paths)
 	status := exitOK
 	for _, r := range results {
 		if r.Invalid {
@@ -143,37 +132,11 @@ func (a *app) runReport(args []string) int {
 	}
 
 	abs := a.abs(rf.out)
-	for _, r := range results {
-		if r.File.Path != "" {
-			in.Protect = append(in.Protect, r.File.Path)
-		}
-	}
 	n := 0
 	for _, m := range in.Models {
 		n += len(m.Findings)
 	}
-	switch {
-	case toStdout && format == "markdown":
-		// One stream cannot hold the page and its SVG files: the page
-		// goes out with each plot inline.
-		var buf bytes.Buffer
-		if err = report.MarkdownInline(&buf, in); err == nil {
-			_, err = a.stdout.Write(buf.Bytes())
-		}
-	case toStdout:
-		var buf bytes.Buffer
-		if err = report.HTML(&buf, in); err == nil {
-			_, err = a.stdout.Write(buf.Bytes())
-		}
-	case format == "markdown":
-		err = report.Markdown(filepath.Dir(abs), filepath.Base(abs), in)
-	default:
-		var buf bytes.Buffer
-		if err = report.HTML(&buf, in); err == nil {
-			err = a.writeOutput(abs, buf.Bytes(), results)
-		}
-	}
-	if err != nil {
+	if err := a.writeReport(rf.out, format, in, results); err != nil {
 		fmt.Fprintf(a.stderr, "chanlint report: cannot write %s: %v\n", a.display(abs), describePathError(err))
 		return exitInvalid
 	}
@@ -189,4 +152,63 @@ func (a *app) runReport(args []string) int {
 		fmt.Fprintln(a.stdout, safetext.Text(n))
 	}
 	return status
+}
+
+// reportFormat is the format of a report written to out: format when
+// given, else markdown for a FILE ending in .md or .markdown, else html.
+func reportFormat(out, format string) string {
+	if format != "" {
+		return format
+	}
+	if ext := strings.ToLower(filepath.Ext(out)); ext == ".md" || ext == ".markdown" {
+		return "markdown"
+	}
+	return "html"
+}
+
+// reportInput starts a report's input with the policy as every output
+// shows it (its own reference, its printed path) and its notes.
+func (a *app) reportInput(pol *policies.Policy, paths []string) (report.Input, policyInfo) {
+	info := a.describePolicy(pol, paths)
+	shownPol := *pol
+	shownPol.Reference, shownPol.File = info.Reference, a.policySource(pol)
+	in := report.Input{Policy: &shownPol, Caution: rules.Caution, ToolVersion: toolVersion()}
+	for _, n := range info.Notes() {
+		in.PolicyNotes = append(in.PolicyNotes, report.PolicyNote{Text: n.Text, Warn: n.Warn})
+	}
+	return in, info
+}
+
+// writeReport writes the report in to out in format ("html" or
+// "markdown"): "-" is standard output (Markdown with its plots inline),
+// else the file is replaced atomically, never over one of the run's
+// input models (results).
+func (a *app) writeReport(out, format string, in report.Input, results []*pipeline.Result) error {
+	for _, r := range results {
+		if r.File.Path != "" {
+			in.Protect = append(in.Protect, r.File.Path)
+		}
+	}
+	var buf bytes.Buffer
+	var err error
+	switch {
+	case out == "-" && format == "markdown":
+		// One stream cannot hold the page and its SVG files: the page
+		// goes out with each plot inline.
+		if err = report.MarkdownInline(&buf, in); err == nil {
+			_, err = a.stdout.Write(buf.Bytes())
+		}
+	case out == "-":
+		if err = report.HTML(&buf, in); err == nil {
+			_, err = a.stdout.Write(buf.Bytes())
+		}
+	case format == "markdown":
+		abs := a.abs(out)
+		err = report.Markdown(filepath.Dir(abs), filepath.Base(abs), in)
+	default:
+		if err = report.HTML(&buf, in); err == nil {
+			err = a.writeOutput(a.abs(out), buf.Bytes(), results)
+		}
+	}
+	return err
 }

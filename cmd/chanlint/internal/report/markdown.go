@@ -116,6 +116,9 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 				p("\n")
 			}
 		}
+		if rv := m.Revision; rv != nil {
+			writeRevisionMarkdown(p, rv)
+		}
 		p("### Findings\n\n")
 		if len(m.Findings) == 0 {
 			p("No findings.\n\n")

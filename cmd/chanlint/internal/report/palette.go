@@ -23,6 +23,9 @@ type palette struct {
 	// run; EnvelopeFill fills it under its hatching (envelopeHatch).
 	Envelope     lineStyle
 	EnvelopeFill string
+	// Existing is the existing revision's water surface in a revision
+	// comparison.
+	Existing lineStyle
 
 	Basin, BasinText string
 	Bend, BendText   string
@@ -69,6 +72,10 @@ var pal = palette{
 	// so that it reads apart from the water below it in greyscale too.
 	Envelope:     lineStyle{Colour: okBlue, Width: "0.8"},
 	EnvelopeFill: okSkyBlue,
+	// The existing water surface is reddish purple in dash-dot-dot, a
+	// pattern no other line uses, drawn over the proposed (solid blue)
+	// one so that both read where they coincide, in greyscale too.
+	Existing: lineStyle{Colour: "#a8467f", Width: "1.7", Dash: "9 2 2 2 2 2", Join: "round"},
 
 	Basin: okGreen, BasinText: "#00664a",
 	Bend: okPurple, BendText: "#8a3f68",

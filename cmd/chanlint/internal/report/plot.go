@@ -20,6 +20,7 @@ import (
 	"math"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
@@ -51,6 +52,10 @@ type Plot struct {
 	// all its cases), drawn behind the water-surface line; EnvelopeTitle
 	// says what it is and where it is widest.
 	Envelope, EnvelopeTitle string
+	// Existing is the line path of the existing revision's water surface
+	// when the model is compared with one (Model.Revision), drawn dashed
+	// over the water surface; ExistingTitle names that revision.
+	Existing, ExistingTitle string
 	BankLabel               string // "top of bank / lining" or "crown" when every section is closed
 	Jumps                   []Mark
 	Gates                   []Mark
@@ -159,7 +164,8 @@ type piece struct {
 	reach  *model.Reach
 	rr     *solver.ReachResult
 	offset float64
-	band   *pipeline.Band // the water surface's range over a sensitivity run; nil without one
+	band   *pipeline.Band   // the water surface's range over a sensitivity run; nil without one
+	old    *revdiff.Profile // the existing revision's water surface on this reach; nil without one
 }
 
 // mainStem returns the longest path from a headwater to the outlet (by
@@ -212,6 +218,7 @@ type plotInput struct {
 	small     bool                                   // drawn below the main stem, in the smaller size
 	xlabel    string                                 // overrides the station axis label
 	envelope  *Envelope                              // the model's sensitivity run; nil without one
+	oldFile   string                                 // the existing revision compared with; "" without one
 }
 
 // numbered is a finding with its row number in the page's findings table
@@ -253,6 +260,9 @@ func buildPlot(in plotInput) *Plot {
 	}
 	p.addLines(in.pieces, sc)
 	p.addEnvelope(in.pieces, sc, in.envelope, lu)
+	if in.oldFile != "" {
+		p.addExisting(in.pieces, sc, in.oldFile)
+	}
 	p.addJumps(in.pieces, sc, lu)
 	p.addGates(in.pieces, sc, lu)
 	p.addCulverts(in.pieces, sc, lu, in.culverts)

@@ -52,6 +52,11 @@ func newScale(pieces []piece, p *Plot, culverts map[*model.Reach]*solver.Culvert
 				grow(road.Crest)
 			}
 		}
+		if o := pc.old; o != nil {
+			for _, v := range o.OldWSE {
+				grow(v)
+			}
+		}
 		if b := pc.band; b != nil {
 			for i := range b.Station {
 				grow(b.Low[i])

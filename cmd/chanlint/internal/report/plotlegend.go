@@ -21,6 +21,9 @@ func (p *Plot) addLegend() {
 	if p.WSE != "" {
 		add("wse", "water surface")
 	}
+	if p.Existing != "" {
+		add("existing", "existing water surface")
+	}
 	if p.Envelope != "" {
 		add("envelope", "water-surface envelope, hatched")
 	}

@@ -219,6 +219,11 @@ func (w *svgWriter) svgBody(p *Plot) {
 	if p.WSE != "" {
 		w.path(p.WSE, pal.WSE)
 	}
+	if p.Existing != "" {
+		w.tag("g").a("class", "existing").raw("><title>").text(p.ExistingTitle).raw("</title>")
+		w.path(p.Existing, pal.Existing)
+		w.raw("\n</g>")
+	}
 	if p.Bed != "" {
 		w.path(p.Bed, pal.Bed)
 	}
@@ -365,6 +370,8 @@ func (w *svgWriter) swatch(plotID string, it LegendItem) {
 	case "envelope":
 		w.raw("<rect").n("x", x).n("y", y-6).n("width", 24).n("height", 12).a("fill", pal.EnvelopeFill).a("fill-opacity", "0.35").end()
 		w.rect(x, y-6, 24, 12).a("fill", "url(#"+envelopeHatchID(plotID)+")").stroke(pal.Envelope).end()
+	case "existing":
+		line(pal.Existing)
 	case "critical":
 		line(pal.Critical)
 	case "energy":

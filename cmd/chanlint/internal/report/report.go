@@ -45,6 +45,7 @@ import (
 	"sync/atomic"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
 	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
@@ -61,6 +62,10 @@ type Model struct {
 	// Envelope is the sensitivity run the model was checked over; nil
 	// without one.
 	Envelope *Envelope
+	// Revision is the comparison with the model's existing revision
+	// (`chanlint diff --out`): the plots draw the existing water surface
+	// and the page adds a "Revision changes" section; nil without one.
+	Revision *revdiff.Diff
 }
 
 // Envelope describes a model's sensitivity run (pipeline.CheckVaried):
@@ -97,7 +102,8 @@ type Input struct {
 var templateFS embed.FS
 
 var tmpl = template.Must(template.New("").Funcs(template.FuncMap{
-	"num": num,
+	"num":     num,
+	"revfind": revfind,
 }).ParseFS(templateFS, "templates/*.tmpl"))
 
 // HTML writes the report as one self-contained HTML page.
@@ -250,6 +256,7 @@ type modelView struct {
 	Exceptions                 []exceptionRow
 	Unsolved                   string
 	Assumptions                []string      // model-wide statements of the solution (solver.Result.Assumptions)
+	Revision                   *revisionView // what the revision changed; nil without a comparison
 	HTML                       template.HTML // the rendered section of the page
 }
 
@@ -497,6 +504,9 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 		}
 		mv.Exceptions = append(mv.Exceptions, er)
 	}
+	if m.Revision != nil {
+		mv.Revision = revisionSection(m.Revision, md.Units.Length())
+	}
 	if m.Result == nil {
 		mv.Unsolved = "The model was not solved, so no profiles are shown."
 		return mv
@@ -508,6 +518,9 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 	plot := func(in plotInput) *plotView {
 		plotN++
 		in.envelope = m.Envelope
+		if m.Revision != nil {
+			in.oldFile = m.Revision.OldFile
+		}
 		in.id = mv.Anchor + "-plot" + strconv.Itoa(plotN)
 		p := buildPlot(in)
 		return &plotView{Plot: p, svg: render(p)}
@@ -537,8 +550,16 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 				}
 			}
 		}
+		olds := map[string]*revdiff.Profile{} // by reach name
+		if m.Revision != nil {
+			for i := range m.Revision.Profiles {
+				if o := &m.Revision.Profiles[i]; o.Event == er.Event.Name {
+					olds[o.Reach] = o
+				}
+			}
+		}
 		newPiece := func(r *model.Reach, off float64) piece {
-			return piece{reach: r, rr: byReach[r], offset: off, band: bands[r.Name]}
+			return piece{reach: r, rr: byReach[r], offset: off, band: bands[r.Name], old: olds[r.Name]}
 		}
 		culverts := map[*model.Reach]*solver.CulvertResult{}
 		for _, cr := range er.Culverts {
