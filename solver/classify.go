@@ -123,11 +123,19 @@ func (w *reachWork) point(c pt) Point {
 	return out
 }
 
+// criticalFroudeTol is how near 1 a Froude number is taken as critical
+// flow. The step control holds the depth to stepRelTol (1e-4) of itself
+// per step, and F varies as y^(−3/2) in a rectangle, so along a profile at
+// critical depth on a near-critical slope F wanders by a few 1e-5 about 1:
+// nearer than this it tells nothing about the regime (common practice for
+// a numerical tolerance, no published source).
+const criticalFroudeTol = 1e-4
+
 // regimeOf: critical where the depth is the critical depth itself or the
-// Froude number is within 1e-4 of 1, else by the Froude number.
+// Froude number is within criticalFroudeTol of 1, else by the Froude number.
 func regimeOf(y, yc, fr float64) Regime {
 	switch {
-	case y == yc || math.Abs(fr-1) <= 1e-4:
+	case y == yc || math.Abs(fr-1) <= criticalFroudeTol:
 		return Critical
 	case fr < 1:
 		return Subcritical

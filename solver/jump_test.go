@@ -159,3 +159,86 @@ func TestJumpLength(t *testing.T) {
 		assert.True(t, frac > c.lo && frac < c.hi, "F1=%g loss fraction %g", c.f, frac)
 	}
 }
+
+// TestNoJumpFromCriticalFlow is the case rapid found for the rules' units
+// property test: a wide rectangle on a slope of 0.01 whose normal depth
+// (0.154 m) is within 2 % of critical (0.156 m), drowned by a high tailwater.
+// Along the steep reach the flow runs at critical depth, and the step
+// control lets F wander between 1 and 1.00003 there; in US units the
+// supercritical profile met the backwater with F1 = 1.000029 and a "jump"
+// of 2e-5 ft (energy loss −1e-12) was recorded, in SI units none. Flow
+// within criticalFroudeTol of F = 1 is critical: the profiles meet without
+// a jump in both unit systems.
+func TestNoJumpFromCriticalFlow(t *testing.T) {
+	// Source: closed form (Belanger): y2/y1 = ½(√(1+8F1²) − 1) → 1 as
+	// F1 → 1, so a jump from critical flow has no height.
+	for _, src := range []string{`
+units = "si"
+section "s" {
+  shape = "rectangle"
+  bottom_width = 7.822265625
+  height = 1
+  roughness = 0.022830963134765625
+  lining = "concrete"
+}
+reach "upper" {
+  from = "a"
+  to = "b"
+  length = 50
+  section = "s"
+  slope = 0.0003
+  max_spacing = 31.587038037577344
+}
+reach "lower" {
+  from = "b"
+  to = "c"
+  length = 399.140625
+  section = "s"
+  slope = 0.01
+  max_spacing = 31.587038037577344
+}
+event "q1" {
+  inflow = { "upper" = 1.5128073079604292 }
+  outlet = { depth = 3 }
+}
+`, `
+units = "us"
+section "s" {
+  shape = "rectangle"
+  bottom_width = 25.663601131889763
+  height = 3.280839895013123
+  roughness = 0.022832214181901966
+  lining = "concrete"
+}
+reach "upper" {
+  from = "a"
+  to = "b"
+  length = 164.04199475065616
+  section = "s"
+  slope = 0.00029999999999999997
+  max_spacing = 103.63201455898079
+}
+reach "lower" {
+  from = "b"
+  to = "c"
+  length = 1309.5164862204724
+  section = "s"
+  slope = 0.01
+  max_spacing = 103.63201455898079
+}
+event "q1" {
+  inflow = { "upper" = 53.424285894454904 }
+  outlet = { depth = 9.8425196850393704 }
+}
+`} {
+		m := parseModel(t, "critical.chan.hcl", []byte(src))
+		res, err := Solve(m, Options{})
+		require.NoError(t, err)
+		for _, rr := range res.Events[0].Reaches {
+			assert.Empty(t, rr.Jumps, "units %s, reach %s", m.Units, rr.Reach.Name)
+			for _, n := range rr.Notes {
+				assert.NotContains(t, n.Message, "gains", "units %s, reach %s", m.Units, rr.Reach.Name)
+			}
+		}
+	}
+}

@@ -470,7 +470,7 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 							}
 							return s.firstSubAfter(w, first.piece, first.x), false
 						}
-						if !(y2 > y1) || !(FroudeNumber(p.geo, w.q, y1) > 1) {
+						if !jumpRises(FroudeNumber(p.geo, w.q, y1), y1, y2) {
 							// The two profiles meet at critical depth: the
 							// flow turns subcritical without a jump.
 							if n := len(w.final); n == 0 || xt > w.final[n-1].x {
@@ -606,15 +606,28 @@ const unbalancedJump = 1e-5
 // before the point where a jump was detected.
 const jumpBackScan = 64
 
+// jumpRises reports whether depths y1 to y2 with upstream Froude number f1
+// are a hydraulic jump: a rise from supercritical flow. Where F1 is within
+// criticalFroudeTol of 1 the flow upstream is critical (see regimeOf): the
+// sequent depth equals y1 to within the profile's own step error, so such
+// a "jump" is the two profiles meeting at critical depth, not a jump. On a
+// near-critical slope the supercritical profile wanders about critical
+// depth by that error, and a jump of a few 1e-5 of the depth would
+// otherwise appear or not with the rounding of the model's unit.
+func jumpRises(f1, y1, y2 float64) bool {
+	return y2 > y1 && f1 > 1+criticalFroudeTol
+}
+
 // addJump records a hydraulic jump with toe at station x; a "jump" that
-// does not rise from supercritical flow (y2 ≤ y1 or F1 ≤ 1, two profiles
-// meeting at critical depth) is not one and is not recorded. A jump whose
+// does not rise from supercritical flow (y2 ≤ y1 or F1 critical, two
+// profiles meeting at critical depth; see jumpRises) is not one and is not
+// recorded. A jump whose
 // two depths do not balance in specific force (held by a change of
 // section, a junction, or the start of the subcritical profile in a points
 // section) gets a NoteInfo saying why (the why argument).
 func (s *solver) addJump(w *reachWork, p *piece, x, y1, y2 float64, why string) {
 	f1 := FroudeNumber(p.geo, w.q, y1)
-	if !(y2 > y1) || !(f1 > 1) {
+	if !jumpRises(f1, y1, y2) {
 		return
 	}
 	if m1, m2 := w.f.force(p, y1), w.f.force(p, y2); math.Abs(m1-m2) > unbalancedJump*math.Max(m1, m2) {
