@@ -75,7 +75,19 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 		*v = verdict{value: avail, limit: req, short: req - avail}
 		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
-		msg, remedy := freeboardMessage(st, rr, s, u)
+		depth := rr.Points[s.worst].Depth
+		if sec, ok := overtopsAtLocatedEnd(rr, s); ok {
+			// The span runs up to where the water surface reaches the top
+			// of bank: there the freeboard is zero and the depth is the
+			// section's height, exactly. The failing trial nearest that
+			// station (within locateTol of it) would give a freeboard of a
+			// fraction of a millimetre that depends only on where the
+			// bracketing stopped, and so on the unit of the model.
+			s.value, depth = 0, sec.Height
+			s.limit = max(st.minimum, st.fraction*depth)
+			s.short = max(s.short, s.limit)
+		}
+		msg, remedy := freeboardMessage(st, rr, s, depth, u)
 		msg += overtopsBeside(rr, s, u)
 		f := spanFinding(ev, rr, s, msg, remedy)
 		f.Unit = u.Length()
@@ -96,7 +108,7 @@ func overtopsBeside(rr *solver.ReachResult, s span, u model.Units) string {
 			continue
 		}
 		p := &rr.Points[i]
-		if sec := sectionAt(rr, p); sec != nil && !sec.Closed() && p.WSE > p.Invert+sec.Height+1e-12*max(1, sec.Height) {
+		if overtopsAt(sectionAt(rr, p), p) {
 			x := s.from
 			if i > s.last {
 				x = s.to
@@ -110,16 +122,44 @@ func overtopsBeside(rr *solver.ReachResult, s span, u model.Units) string {
 	return "; the channel overtops beyond station " + strings.Join(at, " and ") + " " + u.Length() + " (reported once, by capacity)"
 }
 
+// overtopsAtLocatedEnd reports whether an end of span s was located
+// (moved off its computed point by locate) toward a neighbouring point
+// where the open channel overtops, and the section there: the span then
+// ends where the water surface crosses the top of bank.
+func overtopsAtLocatedEnd(rr *solver.ReachResult, s span) (*model.Section, bool) {
+	for _, end := range [2]struct {
+		i     int  // the neighbouring point
+		moved bool // the span end lies between the points
+	}{{s.first - 1, s.from < rr.Points[s.first].Station}, {s.last + 1, s.to > rr.Points[s.last].Station}} {
+		if end.i < 0 || end.i >= len(rr.Points) || !end.moved {
+			continue
+		}
+		p := &rr.Points[end.i]
+		if sec := sectionAt(rr, p); overtopsAt(sec, p) {
+			return sec, true
+		}
+	}
+	return nil, false
+}
+
+// overtopsAt reports whether the water surface at p is above the top of
+// the open section sec.
+func overtopsAt(sec *model.Section, p *solver.Point) bool {
+	return sec != nil && !sec.Closed() && p.WSE > p.Invert+sec.Height+1e-12*max(1, sec.Height)
+}
+
 // freeboardSettings are the freeboard block's settings, read once per check.
 type freeboardSettings struct{ minimum, fraction float64 }
 
-func freeboardMessage(cfg freeboardSettings, rr *solver.ReachResult, s span, u model.Units) (msg, remedy string) {
+// freeboardMessage words a freeboard span whose requirement is set by the
+// flow depth given (that of the worst point).
+func freeboardMessage(cfg freeboardSettings, rr *solver.ReachResult, s span, depth float64, u model.Units) (msg, remedy string) {
 	lu := u.Length()
 	p := &rr.Points[s.worst]
 	val, lim := numPair(s.value, s.limit)
 	basis := ""
-	if cfg.fraction*p.Depth > cfg.minimum {
-		basis = " (" + num(cfg.fraction) + " × depth " + num(p.Depth) + " " + lu + ")"
+	if cfg.fraction*depth > cfg.minimum {
+		basis = " (" + num(cfg.fraction) + " × depth " + num(depth) + " " + lu + ")"
 	}
 	msg = "freeboard " + val + " " + lu + " is below the required " + lim + " " + lu + basis
 	if s.value < 0 {

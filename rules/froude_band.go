@@ -2,6 +2,7 @@ package rules
 
 import (
 	"math"
+	"sort"
 
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
@@ -132,12 +133,82 @@ func (c *controls) near(rr *solver.ReachResult, x, buffer float64) bool {
 	return false
 }
 
+// bufferEdgeSpans appends to spans the failing stretches that end at the
+// edge of a control's buffer without a failing computed point between the
+// edge and the crossing of the band: the band is crossed between the last
+// computed point outside the buffer (which passes) and the edge, and the
+// next computed point lies inside the buffer, unchecked. scan sees no
+// failing point there, yet the stretch up to the edge fails, and whether a
+// computed point happens to fall in it (a few centimetres, say) depends
+// on the step sizes, hence on the model's unit. inBand judges a point
+// without the buffer; the span runs from the crossing, bracketed to
+// locateTol by bisection, to the edge.
+func bufferEdgeSpans(rr *solver.ReachResult, ctrl *controls, buffer float64, inBand judgeFunc,
+	inSpan func(i int) bool, v *verdict, spans []span) []span {
+	if buffer <= 0 {
+		return spans
+	}
+	ctrl.near(rr, math.NaN(), buffer) // fills ctrl.at and ctrl.len for rr
+	pts := rr.Points
+	inOther := func(k int, x float64) bool {
+		for k2, c := range ctrl.at {
+			if k2 != k && math.Abs(x-c) <= ctrl.len[k2] {
+				return true
+			}
+		}
+		return false
+	}
+	for k, c := range ctrl.at {
+		for _, e := range [2]float64{c - ctrl.len[k], c + ctrl.len[k]} {
+			if inOther(k, e) {
+				continue // the edge lies in another control's buffer
+			}
+			// The computed points i, i+1 on either side of the edge; o is
+			// the one outside the buffer.
+			i := sort.Search(len(pts), func(j int) bool { return pts[j].Station > e }) - 1
+			if i < 0 || i+1 >= len(pts) || !(pts[i].Station < e) {
+				continue
+			}
+			o := i
+			if e > c {
+				o = i + 1
+			}
+			if inSpan(o) || ctrl.near(rr, pts[o].Station, buffer) || !usable(&pts[o]) {
+				continue // a span scan found reaches the edge already (locate moves its end there)
+			}
+			p, _, ok := rr.Between(i, e)
+			if !ok || !inBand(rr, &p, v) {
+				continue
+			}
+			s := span{first: o, last: o, worst: o, value: v.value, limit: v.limit, short: v.short,
+				block: reachBlock(rr, &p)}
+			pass, fail := pts[o].Station, e
+			for n := 0; n < locateMaxIter && math.Abs(fail-pass) > locateTol(pass); n++ {
+				x := pass + (fail-pass)/2
+				q, _, ok := rr.Between(i, x)
+				if !ok {
+					break
+				}
+				if inBand(rr, &q, v) {
+					fail = x
+					s.absorb(nil, *v)
+				} else {
+					pass = x
+				}
+			}
+			s.from, s.to = min(pass, e), max(pass, e)
+			spans = append(spans, s)
+		}
+	}
+	return spans
+}
+
 func checkFroudeBand(ctx *Context, report func(Finding)) {
 	avoid := ctx.Config.Bands("avoid")
 	buffer := ctx.Config.Number("control_buffer")
 	var ctrl controls
-	ctx.scanPoints(nil, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
-		if p.Depth <= 0 || ctrl.near(rr, p.Station, buffer) {
+	inBand := func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
+		if p.Depth <= 0 {
 			return false
 		}
 		b, in := bandOf(avoid, p.Froude)
@@ -148,7 +219,11 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 		edge, depth := nearestEdge(b, p.Froude)
 		*v = verdict{value: p.Froude, limit: edge, short: depth}
 		return true
-	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
+	}
+	judge := func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
+		return !ctrl.near(rr, p.Station, buffer) && inBand(rr, p, v)
+	}
+	emit := func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		b, _ := bandOf(avoid, s.value)
 		lo, hi := numPair(b.Low, b.High)
 		side := "below " + lo + " or above " + hi
@@ -162,5 +237,24 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 			"change the slope or section so that the flow stays "+side+", or add freeboard for surface waves")
 		f.Focus = s.block.At("slope") // the grade sets the Froude number
 		report(f)
+	}
+	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
+		spans := scan(rr, nil, judge, reachBlock, &ctx.verdict, ctx.spans[:0])
+		locate(rr, nil, judge, reachBlock, &ctx.verdict, &ctx.trial, spans)
+		found := len(spans)
+		inSpan := func(i int) bool {
+			for _, s := range spans[:found] {
+				if i >= s.first && i <= s.last {
+					return true
+				}
+			}
+			return false
+		}
+		spans = bufferEdgeSpans(rr, &ctrl, buffer, inBand, inSpan, &ctx.verdict, spans)
+		sort.SliceStable(spans, func(a, b int) bool { return spans[a].from < spans[b].from })
+		ctx.spans = spans
+		for _, s := range spans {
+			emit(ev, rr, s)
+		}
 	})
 }

@@ -10,6 +10,8 @@ import (
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
 	"pgregory.net/rapid"
 )
 
@@ -337,4 +339,90 @@ func criticalNear(res *solver.Result, k findingKey, from, to float64) bool {
 		}
 	}
 	return false
+}
+
+// TestFreeboardBesideOvertoppingIsZero is the case rapid found for
+// TestFindingsIndependentOfUnits: a backwater that rises over the top of
+// bank near the upstream end of a short reach. The freeboard span runs up
+// to the station where the water surface crosses the top of bank, where the
+// freeboard is zero and the depth is the section's height, so the
+// requirement there is 0.2 × 2.0625 m. The span used to report the freeboard
+// of the failing trial nearest that crossing (0.00009 m in SI, 0.00007 ft
+// in US), which depends only on where the bracketing stopped.
+func TestFreeboardBesideOvertoppingIsZero(t *testing.T) {
+	pol := baselinePack(t)
+	c := unitCase{shape: 0, width: 0.5, z: 0.5, height: 2.0625, n: 0.04, lining: "concrete",
+		reaches: 1, lengths: [2]float64{50, 50}, slopes: [2]float64{0.0003, 0.0003},
+		flows: []float64{2.75}, outlet: 1, outletDepth: 1.6015625}
+	for _, u := range []model.Units{model.SI, model.US} {
+		f := 1.0
+		if u == model.US {
+			f = footInMetres
+		}
+		got := ruleFindings(t, c.text(u), pol, "freeboard")
+		require.Len(t, got, 1, "units %s", u)
+		fd := got[0]
+		// Source: closed form: at the crossing the water surface is at
+		// the top of bank (freeboard 0, depth = height), and the baseline
+		// pack requires max(0.3 m, 0.2 × depth).
+		assert.Equal(t, 0.0, fd.Value, "units %s", u)
+		assert.InDelta(t, 0.2*2.0625/f, fd.Limit, 1e-9, "units %s", u)
+		assert.Contains(t, fd.Message, "the channel overtops beyond station", "units %s", u)
+	}
+}
+
+// TestFroudeBandUpToBufferEdge is the case rapid found for
+// TestFindingsIndependentOfUnits: an M2 drawdown to a free outfall crosses
+// F = 0.86 about 4 cm before the edge of the control buffer (10 critical
+// depths, 1.363 m, from the outfall). In SI no computed point fell in those
+// 4 cm and the stretch was not reported; in US one did. The stretch is
+// reported from the crossing to the buffer edge in both.
+func TestFroudeBandUpToBufferEdge(t *testing.T) {
+	pol := baselinePack(t)
+	c := unitCase{shape: 0, width: 1.29931640625, z: 1, height: 1, n: 0.014976024627685547, lining: "concrete",
+		reaches: 2, lengths: [2]float64{50, 50}, slopes: [2]float64{0.0003, 0.003},
+		flows: []float64{0.2047119140625}, outlet: 2, outletDepth: 1}
+	for _, u := range []model.Units{model.SI, model.US} {
+		f := 1.0
+		if u == model.US {
+			f = footInMetres
+		}
+		got := ruleFindings(t, c.text(u), pol, "froude_band")
+		require.Len(t, got, 1, "units %s", u)
+		fd := got[0]
+		assert.Equal(t, "lower", fd.Reach)
+		// Source: closed form: the buffer edge is 10 critical depths from
+		// the outfall at station 50 m, yc = (q²/g)^(1/3) with q = Q/b.
+		yc := math.Cbrt(math.Pow(0.2047119140625/1.29931640625, 2) / 9.80665)
+		assert.InDelta(t, 50-10*yc, fd.ToStation*f, 2e-3, "units %s", u)
+		// Regression value (no outside source): where the solved profile
+		// crosses F = 0.86; the two unit systems agree on it to 0.1 mm.
+		assert.InDelta(t, 48.5946, fd.FromStation*f, 2e-3, "units %s", u)
+		assert.InDelta(t, 0.86, fd.Limit, 1e-12)
+		assert.Greater(t, fd.Value, 0.86)
+	}
+}
+
+// baselinePack is the built-in baseline policy.
+func baselinePack(t *testing.T) *policies.Policy {
+	pol, diags := Language().Pack("baseline")
+	require.False(t, diags.HasErrors(), diags.Error())
+	return pol
+}
+
+// ruleFindings parses, solves and checks one model text and returns the
+// findings of one rule.
+func ruleFindings(t *testing.T, src string, pol *policies.Policy, rule string) []Finding {
+	t.Helper()
+	m, diags := model.Parse("units.chan.hcl", []byte(src))
+	require.False(t, diags.HasErrors(), diags.Error())
+	res, err := solver.Solve(m, solver.Options{})
+	require.NoError(t, err)
+	var got []Finding
+	for _, fd := range Check(m, res, pol) {
+		if fd.Rule == rule {
+			got = append(got, fd)
+		}
+	}
+	return got
 }
