@@ -135,6 +135,9 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 					sev = "excepted (" + sev + ")"
 					msg += " — _exception: " + md(f.Reason) + "_"
 				}
+				for _, rel := range f.Related {
+					msg += " — see: " + md(rel)
+				}
 				p("| %d | %s | `%s` | %s | %s | %s | %s | %s | %s | `%s` |\n", f.N, sev, code(f.Rule), md(f.Reach), md(f.Event),
 					md(f.Stations), md(f.Value), md(f.Limit), msg, code(f.Where))
 			}

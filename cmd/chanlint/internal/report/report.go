@@ -300,6 +300,10 @@ type findingRow struct {
 	Excepted                        bool
 	Reason                          string
 	Class                           string
+	// Related are the places that explain the finding, "LABEL at
+	// FILE:LINE:COL" each (the policy settings of its limit, its
+	// exception).
+	Related []string
 }
 
 type exceptionRow struct {
@@ -709,6 +713,9 @@ func row(n int, f rules.Finding) findingRow {
 		Class: string(f.Severity)}
 	if f.Excepted {
 		r.Class = "excepted"
+	}
+	for _, rel := range f.Related {
+		r.Related = append(r.Related, rel.Label+" at "+where(rel.Range.Filename, rel.Range))
 	}
 	if f.HasSpan {
 		r.Stations = stationRange(f.FromStation, f.ToStation)
