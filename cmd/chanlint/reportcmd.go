@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/checklist"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/report"
 	"github.com/chanlint/chanlint/internal/safetext"
@@ -120,7 +121,11 @@ func (a *app) runReport(args []string) int {
 			// A valid model the solver could not finish (a size limit):
 			// listed with its findings and no profiles.
 		}
-		m := report.Model{Model: r.Model, Result: r.Solution, Findings: r.Findings}
+		m := report.Model{Model: r.Model, Result: r.Solution, Findings: r.Findings,
+			Coverage: checklist.Build(r.Model, r.Solution, pol, r.Findings)}
+		if r.Src != nil {
+			m.SHA256 = checklist.Hash(r.Src)
+		}
 		if r.Sensitivity.Active() {
 			m.Envelope = &report.Envelope{Sizes: r.Sensitivity.String(), Cases: len(r.Cases), Bands: r.Bands}
 			in.SensitivitySource = "the policy's sensitivity block"
@@ -172,7 +177,8 @@ func (a *app) reportInput(pol *policies.Policy, paths []string) (report.Input, p
 	info := a.describePolicy(pol, paths)
 	shownPol := *pol
 	shownPol.Reference, shownPol.File = info.Reference, a.policySource(pol)
-	in := report.Input{Policy: &shownPol, Caution: rules.Caution, ToolVersion: toolVersion()}
+	in := report.Input{Policy: &shownPol, Caution: rules.Caution, ToolVersion: toolVersion(),
+		PolicyFiles: checklist.PolicyInputs(pol, a.display)}
 	for _, n := range info.Notes() {
 		in.PolicyNotes = append(in.PolicyNotes, report.PolicyNote{Text: n.Text, Warn: n.Warn})
 	}

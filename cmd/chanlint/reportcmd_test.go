@@ -1,6 +1,8 @@
 package main
 
 import (
+	"crypto/sha256"
+	"encoding/hex"
 	"os"
 	"path/filepath"
 	"strings"
@@ -93,4 +95,23 @@ func TestReportVary(t *testing.T) {
 	code, _, errOut = runIn(dir, runOpts{}, "report", "set00/demo", "--vary", "roughnes=0.2", "--out", "review.html")
 	assert.Equal(t, exitInvalid, code)
 	assert.Contains(t, errOut, `--vary: unknown parameter "roughnes"`)
+}
+
+// The report carries the coverage matrix of every model and the SHA-256
+// of each model and each file of the policy's extends chain.
+func TestReportCoverageAndHashes(t *testing.T) {
+	dir := workspace(t, 1)
+	code, _, errOut := runIn(dir, runOpts{}, "report", "set00/demo", "--out", "review.md", "--policy", "review")
+	require.Equal(t, exitOK, code, errOut)
+	data, err := os.ReadFile(filepath.Join(dir, "review.md"))
+	require.NoError(t, err)
+	text := string(data)
+	assert.Contains(t, text, "### Coverage")
+	assert.Regexp(t, "(?m)^\\| north-swale \\| q100 \\| `freeboard` \\| fail \\|", text)
+	assert.Regexp(t, "(?m)^\\| north-swale \\| q10 \\| `superelevation` \\| not applicable \\| no bend on the reach \\|", text)
+	assert.Regexp(t, "(?m)^- SHA-256 of `pack:review`: `[0-9a-f]{64}`$", text)
+	src, err := os.ReadFile(filepath.Join(dir, "set00", "demo", "kestrel-ridge.chan.hcl"))
+	require.NoError(t, err)
+	sum := sha256.Sum256(src) // Source: FIPS 180-4 SHA-256, through the standard library
+	assert.Contains(t, text, "SHA-256 `"+hex.EncodeToString(sum[:])+"`")
 }

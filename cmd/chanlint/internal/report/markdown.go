@@ -58,6 +58,13 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 			}
 			p("- Merged from: %s\n", strings.Join(cs, " ← "))
 		}
+		for _, f := range pv.Files {
+			h := f.SHA256
+			if h == "" {
+				h = "unreadable"
+			}
+			p("- SHA-256 of `%s`: `%s`\n", code(f.Name), h)
+		}
 		p("- Units of its numbers: %s (converted to each model's units)\n", md(pv.Units))
 		p("- Design exceptions: %s\n\n", md(pv.Exceptions))
 		if len(pv.Rules) > 0 {
@@ -75,6 +82,9 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 	for _, m := range pg.Models {
 		p("## %s\n\n", md(orFile(m.Title, m.File)))
 		p("`%s` · %s · %d reaches, %d events. **%s.**\n\n", code(m.File), md(m.UnitsLong), m.Reaches, m.EventsN, md(m.Counts.Verdict()))
+		if m.SHA256 != "" {
+			p("SHA-256 `%s`\n\n", m.SHA256)
+		}
 		if m.Unsolved != "" {
 			p("_%s_\n\n", md(m.Unsolved))
 		}
@@ -150,6 +160,13 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 			p("| Rule | Reach | Stations | Reason given | Location | Effect |\n|---|---|--:|---|---|---|\n")
 			for _, e := range m.Exceptions {
 				p("| `%s` | %s | %s | %s | `%s` | %s |\n", code(e.Rule), md(e.Reach), md(e.Stations), md(e.Reason), code(e.Where), md(e.State))
+			}
+			p("\n")
+		}
+		if len(m.Coverage) > 0 {
+			p("### Coverage\n\n| Reach | Event | Criterion | Status | Detail | Reference |\n|---|---|---|---|---|---|\n")
+			for _, c := range m.Coverage {
+				p("| %s | %s | `%s` | %s | %s | %s |\n", md(c.Reach), md(c.Event), code(c.Criterion), md(c.Status), md(c.Detail), md(c.Reference))
 			}
 			p("\n")
 		}

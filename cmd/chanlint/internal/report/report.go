@@ -44,6 +44,7 @@ import (
 	"sync"
 	"sync/atomic"
 
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/checklist"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
 	"github.com/chanlint/chanlint/internal/safefile"
@@ -59,6 +60,11 @@ type Model struct {
 	Model    *model.Model
 	Result   *solver.Result // nil when the model could not be solved
 	Findings []rules.Finding
+	// SHA256 is the hash of the model file's text ("" when not known).
+	SHA256 string
+	// Coverage is the model's reach × event × criterion matrix
+	// (checklist.Build).
+	Coverage []checklist.Row
 	// Envelope is the sensitivity run the model was checked over; nil
 	// without one.
 	Envelope *Envelope
@@ -96,6 +102,9 @@ type Input struct {
 	SensitivitySource string
 	Invalid           []rules.Finding // diagnostics of files that are not valid models
 	ToolVersion       string
+	// PolicyFiles are the files and packs of the policy's extends chain
+	// with their SHA-256, child first.
+	PolicyFiles []checklist.Input
 }
 
 //go:embed templates/*.tmpl
@@ -212,6 +221,7 @@ type policyView struct {
 	Notes                                      []PolicyNote
 	Name, Reference, Source, Units, Exceptions string
 	Chain                                      []string
+	Files                                      []checklist.Input // the chain with SHA-256
 	Rules                                      []ruleRow
 }
 
@@ -255,9 +265,11 @@ type modelView struct {
 	Findings                   []findingRow
 	Exceptions                 []exceptionRow
 	Unsolved                   string
-	Assumptions                []string      // model-wide statements of the solution (solver.Result.Assumptions)
-	Revision                   *revisionView // what the revision changed; nil without a comparison
-	HTML                       template.HTML // the rendered section of the page
+	Assumptions                []string        // model-wide statements of the solution (solver.Result.Assumptions)
+	Revision                   *revisionView   // what the revision changed; nil without a comparison
+	SHA256                     string          // of the model file
+	Coverage                   []checklist.Row // reach × event × criterion
+	HTML                       template.HTML   // the rendered section of the page
 }
 
 type eventView struct {
@@ -337,7 +349,7 @@ func build(in Input, r renderer) (*page, error) {
 		pg.Caution = rules.Caution
 	}
 	if p := in.Policy; p != nil {
-		pv := &policyView{Name: p.Title(), Reference: p.Reference, Source: p.File, Units: string(p.Units), Exceptions: p.Exceptions, Notes: in.PolicyNotes}
+		pv := &policyView{Name: p.Title(), Reference: p.Reference, Source: p.File, Units: string(p.Units), Exceptions: p.Exceptions, Notes: in.PolicyNotes, Files: in.PolicyFiles}
 		if pv.Exceptions == "" {
 			pv.Exceptions = "report"
 		}
@@ -478,7 +490,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 	md := m.Model
 	mv := &modelView{
 		Anchor: "m" + strconv.Itoa(mi+1), File: md.File, Title: md.Title, Units: string(md.Units),
-		Reaches: len(md.Reaches), EventsN: len(md.Events),
+		Reaches: len(md.Reaches), EventsN: len(md.Events), SHA256: m.SHA256, Coverage: m.Coverage,
 	}
 	mv.UnitsLong = "SI: lengths in m, discharges in m³/s"
 	if md.Units == model.US {
