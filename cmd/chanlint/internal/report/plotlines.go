@@ -244,27 +244,94 @@ func (p *Plot) addEnvelope(pieces []piece, sc *scale, env *Envelope, lu string) 
 }
 
 // pathBuilder writes SVG path data ("M x y L x y ...") with one decimal.
+// Points on a straight run are left out: a point is written only where
+// the line bends by more than pathTol, so a profile of many computed
+// points on a gentle curve draws as few segments as the eye can tell
+// apart. Every point left out lies within pathTol of the line drawn.
 type pathBuilder struct {
-	b     []byte
-	fresh bool // the next point starts a subpath
-	lines bool // some point was joined to the one before
+	b      []byte
+	fresh  bool // the next point starts a subpath
+	lines  bool // some point was joined to the one before
+	open   bool // a subpath is started: ax, ay is its last written point
+	ax, ay float64
+	run    [][2]float64 // points since the last written one; the last is the line's end so far
 }
 
-func (p *pathBuilder) start() { p.fresh = true }
+// pathTol is the largest distance (user units) of a point left out of a
+// path from the line drawn: half the one decimal the path is written with.
+const pathTol = 0.05
+
+// pathRunMax bounds the points checked against one straight run.
+const pathRunMax = 64
+
+func (p *pathBuilder) start() {
+	p.flush()
+	p.fresh = true
+}
 
 func (p *pathBuilder) to(x, y float64) {
 	if !isFinite(x) || !isFinite(y) {
+		p.flush()
 		p.fresh = true
 		return
 	}
+	x, y = round1(x), round1(y)
+	if p.fresh || !p.open {
+		p.flush()
+		p.write('M', x, y)
+		p.fresh, p.open = false, true
+		p.ax, p.ay = x, y
+		return
+	}
+	if n := len(p.run); (n == 0 && x == p.ax && y == p.ay) || (n > 0 && x == p.run[n-1][0] && y == p.run[n-1][1]) {
+		return // the same point again
+	}
+	if len(p.run) < pathRunMax && p.straight(x, y) {
+		p.run = append(p.run, [2]float64{x, y})
+		return
+	}
+	// The run ends at its last point; the new one starts the next.
+	last := p.run[len(p.run)-1]
+	p.write('L', last[0], last[1])
+	p.ax, p.ay = last[0], last[1]
+	p.run = append(p.run[:0], [2]float64{x, y})
+}
+
+// straight says whether every point of the run lies within pathTol of the
+// segment from the last written point to (x, y).
+func (p *pathBuilder) straight(x, y float64) bool {
+	dx, dy := x-p.ax, y-p.ay
+	l2 := dx*dx + dy*dy
+	for _, q := range p.run {
+		qx, qy := q[0]-p.ax, q[1]-p.ay
+		t := 0.0
+		if l2 > 0 {
+			t = clamp((qx*dx+qy*dy)/l2, 0, 1)
+		}
+		ex, ey := qx-t*dx, qy-t*dy
+		if ex*ex+ey*ey > pathTol*pathTol {
+			return false
+		}
+	}
+	return true
+}
+
+// flush writes the end of the pending run.
+func (p *pathBuilder) flush() {
+	if n := len(p.run); n > 0 {
+		last := p.run[n-1]
+		p.write('L', last[0], last[1])
+		p.ax, p.ay = last[0], last[1]
+		p.run = p.run[:0]
+	}
+}
+
+func (p *pathBuilder) write(cmd byte, x, y float64) {
 	if len(p.b) > 0 {
 		p.b = append(p.b, ' ')
 	}
-	if p.fresh || len(p.b) == 0 {
-		p.b = append(p.b, 'M')
-		p.fresh = false
-	} else {
-		p.b = append(p.b, 'L')
+	p.b = append(p.b, cmd)
+	if cmd == 'L' {
 		p.lines = true
 	}
 	p.b = appendFixed(p.b, x, 10)
@@ -273,14 +340,16 @@ func (p *pathBuilder) to(x, y float64) {
 }
 
 func (p *pathBuilder) close() {
+	p.flush()
 	if len(p.b) > 0 {
 		p.b = append(p.b, " Z"...)
 	}
-	p.fresh = true
+	p.fresh, p.open = true, false
 }
 
 // String returns the path data, or "" when it has no line segment.
 func (p *pathBuilder) String() string {
+	p.flush()
 	if !p.lines {
 		return ""
 	}

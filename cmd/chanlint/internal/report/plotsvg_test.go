@@ -146,3 +146,71 @@ func assertWellFormed(t *testing.T, doc []byte, name string) {
 	}
 	assert.Zero(t, depth, name)
 }
+
+// TestPathLeavesOutOnlyStraightPoints: a path keeps its first and last
+// points, and every point it leaves out lies within pathTol of the line
+// it draws; a straight run of many points draws as one segment.
+//
+// Source: common practice (no published source) — polyline
+// simplification bounded by the distance to the drawn segments.
+func TestPathLeavesOutOnlyStraightPoints(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		n := rapid.IntRange(2, 300).Draw(t, "n")
+		var in [][2]float64
+		var p pathBuilder
+		p.start()
+		x, y := 0.0, 100.0
+		slope := rapid.Float64Range(-1, 1).Draw(t, "slope")
+		for range n {
+			x += rapid.Float64Range(0.01, 5).Draw(t, "dx")
+			slope += rapid.Float64Range(-0.05, 0.05).Draw(t, "bend")
+			y += slope * rapid.Float64Range(0, 3).Draw(t, "dy")
+			p.to(x, y)
+			in = append(in, [2]float64{round1(x), round1(y)})
+		}
+		var out [][2]float64
+		f := strings.Fields(p.String())
+		for i := 0; i+1 < len(f); i += 2 {
+			if f[i][0] != 'M' && f[i][0] != 'L' {
+				t.Fatalf("command %q", f[i])
+			}
+			px, _ := strconv.ParseFloat(f[i][1:], 64)
+			py, _ := strconv.ParseFloat(f[i+1], 64)
+			out = append(out, [2]float64{px, py})
+		}
+		if len(out) == 0 {
+			return // every point the same: no line
+		}
+		if out[0] != in[0] || out[len(out)-1] != in[len(in)-1] {
+			t.Fatalf("ends %v %v, want %v %v", out[0], out[len(out)-1], in[0], in[len(in)-1])
+		}
+		for _, q := range in {
+			best := math.Inf(1)
+			for i := 1; i < len(out); i++ {
+				best = math.Min(best, segDist(q, out[i-1], out[i]))
+			}
+			if len(out) == 1 {
+				best = math.Hypot(q[0]-out[0][0], q[1]-out[0][1])
+			}
+			if best > pathTol+1e-9 {
+				t.Fatalf("point %v is %.4f from the path", q, best)
+			}
+		}
+	})
+	var p pathBuilder
+	for i := range 100 {
+		p.to(float64(i), 2*float64(i))
+	}
+	// A run is checked over at most pathRunMax points.
+	assert.Equal(t, "M0 0 L64 128 L99 198", p.String())
+}
+
+// segDist is the distance from q to the segment a–b.
+func segDist(q, a, b [2]float64) float64 {
+	dx, dy := b[0]-a[0], b[1]-a[1]
+	t := 0.0
+	if l2 := dx*dx + dy*dy; l2 > 0 {
+		t = math.Max(0, math.Min(1, ((q[0]-a[0])*dx+(q[1]-a[1])*dy)/l2))
+	}
+	return math.Hypot(q[0]-a[0]-t*dx, q[1]-a[1]-t*dy)
+}
