@@ -170,6 +170,8 @@ func parseComment(rest string, n int) (Want, error) {
 		w.Excepted, plain = true, plain[:len(plain)-1]
 	}
 	switch len(plain) {
+	case 0:
+		return w, fmt.Errorf(`line %d: a want comment names its rule first: # want model "REGEXP" for a model diagnostic, # want policy "REGEXP" for a policy one, # want RULE EVENT FROM..TO for a finding`, n)
 	case 1:
 		w.Rule = plain[0]
 	case 3:
