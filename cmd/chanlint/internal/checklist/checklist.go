@@ -171,6 +171,9 @@ func row(m *model.Model, res *solver.Result, p *policies.Policy, fs []rules.Find
 		if len(failing) > 1 {
 			out.Detail += fmt.Sprintf(" (and %d more spans)", len(failing)-1)
 		}
+		if p.Exceptions == policies.Approved && claimed(m, &failing[0]) {
+			out.Detail = "claimed, not approved: " + out.Detail
+		}
 	case len(excepted) > 0:
 		out.Status, out.Detail = ExceptedClaimed, excepted[0].ExceptionReason
 		if p.Exceptions == policies.Approved {
@@ -182,6 +185,20 @@ func row(m *model.Model, res *solver.Result, p *policies.Policy, fs []rules.Find
 		out.Status = Pass
 	}
 	return out
+}
+
+// claimed reports whether one of the model's exceptions claims the
+// finding (same rule and reach, the finding's span inside the
+// exception's, to a millimetre): under exceptions = "approved" such a
+// failure is a claim the reviewer has not approved.
+func claimed(m *model.Model, f *rules.Finding) bool {
+	for _, ex := range m.Exceptions {
+		if ex.Rule == f.Rule && ex.ReachName == f.Reach && f.HasSpan &&
+			f.FromStation >= ex.FromStation-1e-3 && f.ToStation <= ex.ToStation+1e-3 {
+			return true
+		}
+	}
+	return false
 }
 
 // notApplicable says why a criterion does not concern a reach in an
