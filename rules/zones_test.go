@@ -165,11 +165,8 @@ func TestPolicyChoosesMeanQuantities(t *testing.T) {
 	}
 }
 
-// TestConduitNoErosionDefault: a closed conduit is held only to a limit its
-// lining word has in the table, not to the default written for erodible
-// channels.
-func TestConduitNoErosionDefault(t *testing.T) {
-	m, res := solveSource(t, `units = "si"
+// conduitSource is a concrete pipe in uniform flow, lining word "pipe".
+const conduitSource = `units = "si"
 section "pipe" {
   shape = "circle"
   diameter = 1.0
@@ -187,7 +184,13 @@ event "q" {
   inflow = { "drain" = 0.8 }
   outlet = { condition = "normal" }
 }
-`)
+`
+
+// TestConduitNoErosionDefault: a closed conduit is held only to a limit its
+// lining word has in the table, not to the default written for erodible
+// channels.
+func TestConduitNoErosionDefault(t *testing.T) {
+	m, res := solveSource(t, conduitSource)
 	assert.Empty(t, runRule(t, "max_velocity", m, res, limitCfg(0.5)))
 	assert.Empty(t, runRule(t, "shear_stress", m, res, limitCfg(0.5)))
 	named := &policies.RuleConfig{Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Values: map[string]float64{"pipe": 0.5}}}}}

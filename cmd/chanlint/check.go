@@ -601,6 +601,21 @@ func (c *checkRun) writeClosing(w io.Writer, p *palette) {
 		}
 		fmt.Fprintln(w, safetext.Text(n.Text))
 	}
+	for _, r := range c.results {
+		if len(r.NotEvaluated) == 0 {
+			continue
+		}
+		fmt.Fprintf(w, "not evaluated (%s):\n", safetext.Text(r.File.Name))
+		for _, item := range r.NotEvaluated {
+			for i, line := range wrapWords(safetext.Text(item), textWidth-6) {
+				lead := "  - "
+				if i > 0 {
+					lead = "    "
+				}
+				fmt.Fprintln(w, lead+line)
+			}
+		}
+	}
 	fmt.Fprintln(w, p.dim.Sprint(rules.Caution))
 }
 
@@ -678,6 +693,15 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 	in.Problems = c.problems
 	for _, n := range c.info.Notes() {
 		in.PolicyNotes = append(in.PolicyNotes, sarifout.Note{Text: n.Text, Warn: n.Warn})
+	}
+	for _, r := range c.results {
+		abs := r.File.Path
+		if abs == "" {
+			abs = c.app.abs(filepath.FromSlash(r.File.Name))
+		}
+		for _, item := range r.NotEvaluated {
+			in.NotEvaluated = append(in.NotEvaluated, sarifout.FileNote{File: abs, Text: item})
+		}
 	}
 	if c.view.Every != nil {
 		in.BaselineStates = []string{}

@@ -84,7 +84,7 @@ func TestCheckJSONShape(t *testing.T) {
 
 	var doc map[string]json.RawMessage
 	require.NoError(t, json.Unmarshal([]byte(out), &doc))
-	assert.ElementsMatch(t, []string{"findings", "summary", "policy", "caution", "tool"}, keys(doc))
+	assert.ElementsMatch(t, []string{"findings", "summary", "policy", "caution", "tool", "not_evaluated"}, keys(doc))
 
 	var findings []map[string]any
 	require.NoError(t, json.Unmarshal(doc["findings"], &findings))

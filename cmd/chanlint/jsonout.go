@@ -18,7 +18,16 @@ type checkJSON struct {
 	// StaleEntries are the baseline entries no finding matched, as
 	// recorded (only with --baseline).
 	StaleEntries []baseline.Entry `json:"stale_entries,omitempty"`
-	Caution      string           `json:"caution"` // last, as in every output
+	// NotEvaluated says per checked model what the check did not
+	// evaluate (always a list; a file with nothing to say is left out).
+	NotEvaluated []notEvaluatedJSON `json:"not_evaluated"`
+	Caution      string             `json:"caution"` // last, as in every output
+}
+
+// notEvaluatedJSON is what the check of one model did not evaluate.
+type notEvaluatedJSON struct {
+	File  string   `json:"file"`
+	Items []string `json:"items"`
 }
 
 // findingJSON is one finding. Numbers that a finding does not have (a
@@ -172,8 +181,14 @@ func (c *checkRun) writeJSON(w io.Writer) error {
 			RulesOff:      append([]string{}, c.info.RulesOff...),
 			Notes:         append([]string{}, c.info.NoteTexts()...),
 		},
-		Caution: rules.Caution,
-		Tool:    toolJSON{Name: "chanlint", Version: toolVersion()},
+		Caution:      rules.Caution,
+		Tool:         toolJSON{Name: "chanlint", Version: toolVersion()},
+		NotEvaluated: []notEvaluatedJSON{},
+	}
+	for _, r := range c.results {
+		if len(r.NotEvaluated) > 0 {
+			doc.NotEvaluated = append(doc.NotEvaluated, notEvaluatedJSON{File: r.File.Name, Items: r.NotEvaluated})
+		}
 	}
 	if c.baselinePath != "" {
 		k, s := c.view.Known, len(c.view.Stale)

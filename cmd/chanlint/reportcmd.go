@@ -121,7 +121,7 @@ func (a *app) runReport(args []string) int {
 			// A valid model the solver could not finish (a size limit):
 			// listed with its findings and no profiles.
 		}
-		m := report.Model{Model: r.Model, Result: r.Solution, Findings: r.Findings,
+		m := report.Model{Model: r.Model, Result: r.Solution, Findings: r.Findings, NotEvaluated: r.NotEvaluated,
 			Coverage: checklist.Build(r.Model, r.Solution, pol, r.Findings)}
 		if r.Src != nil {
 			m.SHA256 = checklist.Hash(r.Src)

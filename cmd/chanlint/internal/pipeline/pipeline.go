@@ -111,6 +111,9 @@ type Result struct {
 	// Bands are the water-surface ranges of the sensitivity run (see
 	// Keep.Solved); nil without one.
 	Bands []Band
+	// NotEvaluated says what the check of a solved model did not evaluate
+	// (see rules.NotEvaluated); every output states it.
+	NotEvaluated []string
 }
 
 // Unit is the length unit of the result's model ("m" when unknown).
@@ -205,6 +208,7 @@ func (p *Parsed) Check(pol *policies.Policy, opts Options) (r *Result) {
 	}
 	r.Solution = res
 	r.Findings = append(r.Findings, checkRules(p.Model, res, pol)...)
+	r.NotEvaluated = rules.NotEvaluated(p.Model, res, pol)
 	return r
 }
 

@@ -91,6 +91,13 @@ func writeMarkdown(b *bytes.Buffer, pg *page) {
 		for _, a := range m.Assumptions {
 			p("_%s_\n\n", md(a))
 		}
+		if len(m.NotEvaluated) > 0 {
+			p("**Not evaluated:**\n\n")
+			for _, ne := range m.NotEvaluated {
+				p("- %s\n", md(ne))
+			}
+			p("\n")
+		}
 		q := "m³/s"
 		if m.Units == "us" {
 			q = "ft³/s"

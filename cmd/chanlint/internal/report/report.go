@@ -72,6 +72,9 @@ type Model struct {
 	// (`chanlint diff --out`): the plots draw the existing water surface
 	// and the page adds a "Revision changes" section; nil without one.
 	Revision *revdiff.Diff
+	// NotEvaluated says what the check did not evaluate (see
+	// rules.NotEvaluated); the model's section lists it.
+	NotEvaluated []string
 }
 
 // Envelope describes a model's sensitivity run (pipeline.CheckVaried):
@@ -269,6 +272,7 @@ type modelView struct {
 	Revision                   *revisionView   // what the revision changed; nil without a comparison
 	SHA256                     string          // of the model file
 	Coverage                   []checklist.Row // reach × event × criterion
+	NotEvaluated               []string        // what the check did not evaluate
 	HTML                       template.HTML   // the rendered section of the page
 }
 
@@ -491,6 +495,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 	mv := &modelView{
 		Anchor: "m" + strconv.Itoa(mi+1), File: md.File, Title: md.Title, Units: string(md.Units),
 		Reaches: len(md.Reaches), EventsN: len(md.Events), SHA256: m.SHA256, Coverage: m.Coverage,
+		NotEvaluated: m.NotEvaluated,
 	}
 	mv.UnitsLong = "SI: lengths in m, discharges in m³/s"
 	if md.Units == model.US {

@@ -76,6 +76,15 @@ type Input struct {
 	// off); each becomes a notification of the invocation, a warning when
 	// Warn is set.
 	PolicyNotes []Note
+	// NotEvaluated says per model file what the check did not evaluate;
+	// each becomes a note notification of the invocation at that file.
+	NotEvaluated []FileNote
+}
+
+// FileNote is one statement about a model file (File as in Findings).
+type FileNote struct {
+	File string
+	Text string
 }
 
 // Note is one policy notification.
@@ -383,6 +392,24 @@ func newBuilder(in Input) (*builder, error) {
 		}
 		inv.AddToolExecutionNotification(sarif.NewNotification().WithLevel(level).
 			WithDescriptor(nref).WithMessage(sarif.NewTextMessage(pn.Text)))
+	}
+	if len(in.NotEvaluated) > 0 {
+		driver.AddNotification(sarif.NewReportingDescriptor().
+			WithID("not-evaluated").
+			WithShortDescription(sarif.NewMultiformatMessageString().WithText("What the check did not evaluate")).
+			WithDefaultConfiguration(sarif.NewReportingConfiguration().WithLevel(sarif.LevelNote)))
+		index := len(driver.Notifications) - 1
+		for _, ne := range in.NotEvaluated {
+			nref := sarif.NewReportingDescriptorReference().WithID("not-evaluated")
+			nref.Index = index
+			n := sarif.NewNotification().WithLevel(sarif.LevelNote).WithDescriptor(nref).
+				WithMessage(sarif.NewTextMessage("not evaluated: " + ne.Text))
+			if ne.File != "" {
+				b.addArtifact(ne.File)
+				n.WithLocations([]*sarif.Location{b.location(ne.File, hcl.Range{})})
+			}
+			inv.AddToolExecutionNotification(n)
+		}
 	}
 	inv.AddToolExecutionNotification(sarif.NewNotification().
 		WithLevel(sarif.LevelNote).
