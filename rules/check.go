@@ -119,6 +119,9 @@ func (rn *runner) report(f Finding) {
 	if f.File == "" {
 		f.File = rn.m.File
 	}
+	if cfg != nil && f.Section == "" {
+		f.Section = cfg.Section
+	}
 	if cfg != nil && f.Reference == "" {
 		f.Reference = policies.Cite(rn.p, cfg)
 	}

@@ -61,6 +61,9 @@ type Finding struct {
 	HasValue     bool
 	Unit         string
 	Reference    string // the policy's reference, version and the block's section (policies.Cite)
+	// Section is the policy block's reference into its manual
+	// (`section`); "" when the block gives none.
+	Section string
 	Excepted     bool
 	// The exception that covers this finding, when Excepted.
 	ExceptionReason string
@@ -88,7 +91,7 @@ func (f *Finding) Equal(g *Finding) bool {
 		f.File == g.File && f.Range == g.Range && f.Focus == g.Focus && f.Reach == g.Reach && f.Event == g.Event &&
 		f.FromStation == g.FromStation && f.ToStation == g.ToStation && f.HasSpan == g.HasSpan &&
 		f.Value == g.Value && f.Limit == g.Limit && f.HasValue == g.HasValue && f.Unit == g.Unit &&
-		f.Reference == g.Reference && f.Excepted == g.Excepted && f.ExceptionReason == g.ExceptionReason &&
+		f.Reference == g.Reference && f.Section == g.Section && f.Excepted == g.Excepted && f.ExceptionReason == g.ExceptionReason &&
 		f.ExceptionRange == g.ExceptionRange && sameEnvelope(f.Envelope, g.Envelope) && slices.Equal(f.Related, g.Related)
 }
 

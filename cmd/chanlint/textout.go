@@ -272,6 +272,9 @@ func writeFindingText(w io.Writer, f *rules.Finding, src []byte, unit string, p 
 	if f.Remedy != "" {
 		writeContinuation(w, "remedy", safetext.Text(f.Remedy), p)
 	}
+	if f.Section != "" {
+		writeContinuation(w, "criterion", safetext.Text(f.Reference), p)
+	}
 	if f.Envelope != nil {
 		writeContinuation(w, "envelope", f.Envelope.Text(), p)
 	}
