@@ -63,8 +63,8 @@ type Finding struct {
 	Reference    string // the policy's reference, version and the block's section (policies.Cite)
 	// Section is the policy block's reference into its manual
 	// (`section`); "" when the block gives none.
-	Section string
-	Excepted     bool
+	Section  string
+	Excepted bool
 	// The exception that covers this finding, when Excepted.
 	ExceptionReason string
 	ExceptionRange  hcl.Range
