@@ -143,8 +143,8 @@ func (z ZoneFlow) Max() (float64, int) {
 // ok is false for other shapes (one zone: the mean velocity is the
 // velocity), for a dry point and for a result not produced by Solve.
 func (r *ReachResult) Zones(p *Point) (ZoneFlow, bool) {
-	if r == nil || r.flow.pieces == nil || p == nil || p.Section == nil || !(p.Depth > 0) {
-		return ZoneFlow{}, false
+	if r == nil || r.flow.pieces == nil || p == nil || p.Section == nil || p.Section.Shape != model.Points || !(p.Depth > 0) {
+		return ZoneFlow{}, false // one zone: the cheap answer for every other shape
 	}
 	pi, found := r.flow.pieceAt(p.Section, p.Station)
 	if !found {
