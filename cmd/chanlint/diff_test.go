@@ -175,3 +175,26 @@ func TestDiffReport(t *testing.T) {
 	require.NoError(t, err)
 	assert.Equal(t, narrowModel("2.5"), string(src))
 }
+
+// TestCriterionLine: a finding from a policy block with a `section` cites
+// the manual's reference, version and section on a criterion: line.
+//
+// Source: common practice (no published source): a reviewer's checklist
+// cites the clause of the criteria manual each finding rests on.
+func TestCriterionLine(t *testing.T) {
+	dir := t.TempDir()
+	require.NoError(t, os.WriteFile(filepath.Join(dir, "ditch.chan.hcl"), []byte(diffModel("0.7")), 0o644))
+	require.NoError(t, os.WriteFile(filepath.Join(dir, "county.policy.hcl"), []byte(`policy "county" {
+  units     = "si"
+  reference = "County Drainage Manual"
+  version   = "2026.1"
+  freeboard {
+    minimum = 0.3
+    section = "5.3.2"
+  }
+}
+`), 0o644))
+	code, out, errOut := runIn(dir, runOpts{}, "check", "ditch.chan.hcl", "--policy", "./county.policy.hcl", "--color", "never")
+	require.Equal(t, exitFindings, code, errOut)
+	assert.Contains(t, out, "    criterion: County Drainage Manual (version 2026.1), section 5.3.2\n")
+}
