@@ -8,7 +8,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/chanlint/chanlint/internal/want"
+	"github.com/chanlint/chanlint/model/want"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -51,7 +51,7 @@ func TestBadModels(t *testing.T) {
 			require.Nil(t, m)
 			require.True(t, diags.HasErrors(), "no error reported")
 
-			// Expectations: `# want model "REGEXP"` (see internal/want) on
+			// Expectations: `# want model "REGEXP"` (see model/want) on
 			// or above the line of each error, the pattern matching its
 			// "Summary; Detail".
 			wants, err := want.Parse(src)

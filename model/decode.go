@@ -7,7 +7,7 @@ import (
 	"strings"
 	"unicode"
 
-	suggestpkg "github.com/chanlint/chanlint/internal/suggest"
+	suggestpkg "github.com/chanlint/chanlint/model/suggest"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
 	"github.com/zclconf/go-cty/cty"

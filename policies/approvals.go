@@ -6,8 +6,8 @@ import (
 	"regexp"
 	"strings"
 
-	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/safefile"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
 )

@@ -8,7 +8,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/chanlint/chanlint/internal/want"
+	"github.com/chanlint/chanlint/model/want"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/stretchr/testify/assert"
@@ -22,7 +22,7 @@ const badDir = "../testdata/policies/bad"
 // TestBadPolicies checks every broken policy of testdata/policies/bad (one
 // mistake per file, NN-name.policy.hcl): it must give no policy, every
 // error in it must be expected by a `# want policy "REGEXP" ...` comment of
-// its line (see internal/want; the patterns match "Summary; Detail"),
+// its line (see model/want; the patterns match "Summary; Detail"),
 // every expectation must be met, and all its diagnostics, with their full
 // ranges, must equal its .golden file (go test ./policies -update).
 func TestBadPolicies(t *testing.T) {

@@ -7,8 +7,8 @@ import (
 	"sort"
 	"strings"
 
-	"github.com/chanlint/chanlint/internal/suggest"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/suggest"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
 	"github.com/zclconf/go-cty/cty"

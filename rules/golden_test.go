@@ -10,8 +10,8 @@ import (
 	"strconv"
 	"testing"
 
-	wantpkg "github.com/chanlint/chanlint/internal/want"
 	"github.com/chanlint/chanlint/model"
+	wantpkg "github.com/chanlint/chanlint/model/want"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 	"github.com/stretchr/testify/assert"
@@ -23,7 +23,7 @@ const goldenDir = "../testdata/rules"
 
 // want is one expected finding of a golden model, written as
 // "# want[:LABEL] RULE EVENT FROM..TO [excepted] ["REGEXP" ...]" (see
-// internal/want) above the header of the responsible block. EVENT "-"
+// model/want) above the header of the responsible block. EVENT "-"
 // means no event; FROM..TO may be "toe..end" (the jump's span, checked
 // separately), "~..~" (a located span, checked separately against an
 // independent computation) or "-..-" (no span); each REGEXP must match the message.

@@ -4,7 +4,7 @@ import (
 	"slices"
 	"strings"
 
-	suggestpkg "github.com/chanlint/chanlint/internal/suggest"
+	suggestpkg "github.com/chanlint/chanlint/model/suggest"
 	"github.com/chanlint/chanlint/policies"
 )
 

@@ -5,8 +5,8 @@ import (
 	"slices"
 	"strings"
 
-	suggestpkg "github.com/chanlint/chanlint/internal/suggest"
 	"github.com/chanlint/chanlint/model"
+	suggestpkg "github.com/chanlint/chanlint/model/suggest"
 	"github.com/chanlint/chanlint/policies"
 )
 

@@ -20,10 +20,10 @@ import (
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/baseline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/sarifout"
-	"github.com/chanlint/chanlint/internal/safefile"
-	"github.com/chanlint/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/safefile"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"

@@ -12,7 +12,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/chanlint/chanlint/internal/want"
+	"github.com/chanlint/chanlint/model/want"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
@@ -264,7 +264,7 @@ func TestBadCorpus(t *testing.T) {
 			require.Equal(t, exitInvalid, code, out)
 			src, err := os.ReadFile(path)
 			require.NoError(t, err)
-			// The expectations of the corpus (see internal/want): each
+			// The expectations of the corpus (see model/want): each
 			// `# want model "REGEXP"` names a line the text output must
 			// point at with a model error whose message matches.
 			ws, err := want.Parse(src)

@@ -14,7 +14,7 @@ import (
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/report"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
-	"github.com/chanlint/chanlint/internal/safetext"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"

@@ -9,8 +9,8 @@ import (
 	"sort"
 	"strings"
 
-	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/safefile"
 )
 
 // configName is the per-repository policy file that `check`, `report` and

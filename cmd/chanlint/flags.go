@@ -8,7 +8,7 @@ import (
 	"regexp"
 	"strings"
 
-	suggestpkg "github.com/chanlint/chanlint/internal/suggest"
+	suggestpkg "github.com/chanlint/chanlint/model/suggest"
 )
 
 // choice is a string flag restricted to a fixed set of words; a wrong word

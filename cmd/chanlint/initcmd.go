@@ -11,8 +11,8 @@ import (
 	"strings"
 	"text/template"
 
-	"github.com/chanlint/chanlint/internal/safefile"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/safefile"
 	"github.com/chanlint/chanlint/policies"
 )
 

@@ -10,7 +10,7 @@ import (
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/checklist"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/report"
-	"github.com/chanlint/chanlint/internal/safetext"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 )

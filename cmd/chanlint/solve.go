@@ -11,7 +11,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
-	"github.com/chanlint/chanlint/internal/safetext"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"

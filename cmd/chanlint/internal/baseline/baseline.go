@@ -33,7 +33,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"github.com/chanlint/chanlint/internal/safefile"
+	"github.com/chanlint/chanlint/model/safefile"
 	"github.com/chanlint/chanlint/rules"
 )
 

@@ -14,9 +14,9 @@ import (
 	"slices"
 	"strings"
 
-	"github.com/chanlint/chanlint/internal/safefile"
-	"github.com/chanlint/chanlint/internal/safetext"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/safefile"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"

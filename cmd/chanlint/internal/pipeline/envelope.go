@@ -8,8 +8,8 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/chanlint/chanlint/internal/suggest"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/suggest"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"

@@ -6,7 +6,7 @@ import (
 	"net/url"
 	"strings"
 
-	"github.com/chanlint/chanlint/internal/safetext"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/safetext"
 )
 
 // md escapes a string for Markdown text and table cells (see
