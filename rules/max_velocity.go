@@ -84,13 +84,14 @@ func checkVelocity(ctx *Context, report func(Finding), side limitSide) {
 		w = higher
 	}
 	limits := newLiningLimits(cfg, side)
+	zoned := upper && !meanVelocity(cfg) // the highest subdivision's velocity, not the mean
 	ctx.scanPoints(w, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.Area <= 0 {
 			return false
 		}
 		vel := p.Velocity
-		if upper && !meanVelocity(cfg) {
+		if zoned {
 			vel, _ = highestVelocity(rr, p)
 		}
 		short := vel - lim
@@ -107,7 +108,7 @@ func checkVelocity(ctx *Context, report func(Finding), side limitSide) {
 		p := &rr.Points[s.worst]
 		sec := sectionAt(rr, p)
 		where := ""
-		if upper && !meanVelocity(cfg) {
+		if zoned {
 			if _, zone := highestVelocity(rr, p); zone != "" {
 				where = " in the " + zone + " (conveyance split V = Q·K_i/(K·A_i); section mean " + num(p.Velocity) + " " + velocityUnit(u) + ")"
 			}

@@ -70,17 +70,10 @@ func resembles(keys, names []string) bool {
 // liningKeys describes, for each per-lining table of b, the keys that
 // match no lining of m when one of them resembles a lining of m that then
 // falls through to the table's default (or to no limit).
-func liningKeys(b *policies.RuleConfig, m *model.Model) []string {
+func liningKeys(b *policies.RuleConfig, linings []string) []string {
 	if b.Spec == nil {
 		return nil
 	}
-	var linings []string
-	for _, s := range m.Sections {
-		if s.Lining != "" && !slices.Contains(linings, s.Lining) {
-			linings = append(linings, s.Lining)
-		}
-	}
-	slices.Sort(linings)
 	var out []string
 	for _, set := range b.Spec.Settings {
 		if set.Kind != policies.PerLining {
@@ -153,4 +146,17 @@ func isAre(n int) string {
 		return "is"
 	}
 	return "are"
+}
+
+// modelLinings are the lining words of a model's sections, sorted, each
+// once.
+func modelLinings(m *model.Model) []string {
+	var linings []string
+	for _, s := range m.Sections {
+		if s.Lining != "" && !slices.Contains(linings, s.Lining) {
+			linings = append(linings, s.Lining)
+		}
+	}
+	slices.Sort(linings)
+	return linings
 }

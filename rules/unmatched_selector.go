@@ -61,12 +61,13 @@ func checkUnmatchedSelectors(ctx *Context, report func(Finding)) {
 	if top.Filename == "" {
 		top = hcl.Range{Filename: m.File, Start: hcl.InitialPos, End: hcl.InitialPos}
 	}
+	linings := modelLinings(m)
 	for _, id := range slices.Sorted(maps.Keys(p.Rules)) {
 		for _, b := range p.Rules[id].Blocks() {
-			where := fmt.Sprintf("the %s block at %s:%d", id, path.Base(b.File), b.DefRange.Start.Line)
+			where := func() string { return fmt.Sprintf("the %s block at %s:%d", id, path.Base(b.File), b.DefRange.Start.Line) }
 			events, renamed := eventKeys(b, m)
 			if b.Selective() && !matchesSome(b, m) {
-				msg := fmt.Sprintf("%s (%s) matches no event on any reach of this model, so it was not applied", where, b.SelectorText())
+				msg := fmt.Sprintf("%s (%s) matches no event on any reach of this model, so it was not applied", where(), b.SelectorText())
 				if events != "" {
 					msg += "; " + events
 				}
@@ -74,10 +75,10 @@ func checkUnmatchedSelectors(ctx *Context, report func(Finding)) {
 				continue
 			}
 			if renamed {
-				report(Finding{Range: top, Message: where + ": " + events, Reference: policies.Cite(p, b)})
+				report(Finding{Range: top, Message: where() + ": " + events, Reference: policies.Cite(p, b)})
 			}
-			for _, lk := range liningKeys(b, m) {
-				report(Finding{Range: top, Message: where + ": " + lk, Reference: policies.Cite(p, b)})
+			for _, lk := range liningKeys(b, linings) {
+				report(Finding{Range: top, Message: where() + ": " + lk, Reference: policies.Cite(p, b)})
 			}
 		}
 	}
