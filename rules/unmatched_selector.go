@@ -64,7 +64,9 @@ func checkUnmatchedSelectors(ctx *Context, report func(Finding)) {
 	linings := modelLinings(m)
 	for _, id := range slices.Sorted(maps.Keys(p.Rules)) {
 		for _, b := range p.Rules[id].Blocks() {
-			where := func() string { return fmt.Sprintf("the %s block at %s:%d", id, path.Base(b.File), b.DefRange.Start.Line) }
+			where := func() string {
+				return fmt.Sprintf("the %s block at %s:%d", id, path.Base(b.File), b.DefRange.Start.Line)
+			}
 			events, renamed := eventKeys(b, m)
 			if b.Selective() && !matchesSome(b, m) {
 				msg := fmt.Sprintf("%s (%s) matches no event on any reach of this model, so it was not applied", where(), b.SelectorText())
