@@ -54,31 +54,44 @@ func TestGoldenCriteria(t *testing.T) {
 }
 
 // TestPublicSafetyDepth: the depth limit is checked first, against the
-// trunk's normal depth from the test's own Manning bisection.
+// trunk's normal depth from the test's own Manning bisection, on the same
+// model in SI and in US units with the limit written in metres.
 func TestPublicSafetyDepth(t *testing.T) {
-	m, diags := model.Load(filepath.Join(goldenDir, "criteria.chan.hcl"))
-	require.False(t, diags.HasErrors())
-	res, err := solver.Solve(m, solver.Options{})
-	require.NoError(t, err)
-	p, pd := Language().NewLoader("").LoadSource("p.policy.hcl", []byte(`policy "p" {
+	for _, tc := range []struct {
+		model string
+		u     uniformUnits
+		msg   string
+	}{
+		{"criteria.chan.hcl", siUnits, "flow depth 0.92 m exceeds the greatest 0.80 m"},
+		{"criteria-us.chan.hcl", usUnits, "flow depth 3.02 ft exceeds the greatest 2.62 ft"},
+	} {
+		t.Run(tc.model, func(t *testing.T) {
+			m, diags := model.Load(filepath.Join(goldenDir, tc.model))
+			require.False(t, diags.HasErrors())
+			res, err := solver.Solve(m, solver.Options{})
+			require.NoError(t, err)
+			p, pd := Language().NewLoader("").LoadSource("p.policy.hcl", []byte(`policy "p" {
   units = "si"
   public_safety {
     reach_classes = ["constructed"]
     depth         = 0.8
   }
 }`))
-	require.False(t, pd.HasErrors(), "%v", pd)
-	var got []Finding
-	for _, f := range Check(m, res, p) {
-		if f.Rule == "public_safety" {
-			got = append(got, f)
-		}
+			require.False(t, pd.HasErrors(), "%v", pd)
+			var got []Finding
+			for _, f := range Check(m, res, p) {
+				if f.Rule == "public_safety" {
+					got = append(got, f)
+				}
+			}
+			require.Len(t, got, 1)
+			L := 1 / tc.u.length // metres → model length
+			// Source: Manning's equation (Chow 1959, ch. 5); 1 ft = 0.3048 m.
+			y := manningNormalDepth(tc.u, 4.0*L*L*L, 3*L, 0.015, 0.001)
+			assert.Equal(t, "q-design", got[0].Event)
+			assert.True(t, scalar.EqualWithinAbsOrRel(got[0].Value, y, 1e-6, 1e-6), "depth %g want %g", got[0].Value, y)
+			assert.True(t, scalar.EqualWithinAbsOrRel(got[0].Limit, 0.8*L, 1e-9, 1e-9), "limit %g", got[0].Limit)
+			assert.Contains(t, got[0].Message, tc.msg)
+		})
 	}
-	require.Len(t, got, 1)
-	// Source: Manning's equation (Chow 1959, ch. 5).
-	y := manningNormalDepth(siUnits, 4.0, 3, 0.015, 0.001)
-	assert.Equal(t, "q-design", got[0].Event)
-	assert.InDelta(t, y, got[0].Value, 1e-6)
-	assert.Equal(t, 0.8, got[0].Limit)
-	assert.Contains(t, got[0].Message, "flow depth 0.92 m exceeds the greatest 0.80 m")
 }
