@@ -9,6 +9,18 @@ import (
 	"github.com/chanlint/chanlint/solver"
 )
 
+// PolicyFor is p with its numbers in the units of m, or for a nil p an
+// empty policy (the always-on rules only) in those units.
+func PolicyFor(m *model.Model, p *policies.Policy) *policies.Policy {
+	if p == nil {
+		return &policies.Policy{Units: m.Units}
+	}
+	if p.Units != "" && p.Units != m.Units {
+		return p.In(m.Units)
+	}
+	return p
+}
+
 // Check runs the registry over a solved model: the policy is converted to
 // the model's units, every configurable rule whose block the policy enables
 // runs on the events its `events` filter admits, the always-on rules run on
@@ -23,11 +35,7 @@ func Check(m *model.Model, res *solver.Result, p *policies.Policy) []Finding {
 	if m == nil {
 		return nil
 	}
-	if p == nil {
-		p = &policies.Policy{Units: m.Units}
-	} else if p.Units != "" && p.Units != m.Units {
-		p = p.In(m.Units)
-	}
+	p = PolicyFor(m, p)
 	// One runner serves every rule: its report method is bound once, and
 	// the findings slice starts large enough for a typical model.
 	rn := &runner{m: m, res: res, p: p, out: make([]Finding, 0, 16)}

@@ -26,11 +26,7 @@ func NotEvaluated(m *model.Model, res *solver.Result, p *policies.Policy) []stri
 	if m == nil {
 		return nil
 	}
-	if p == nil {
-		p = &policies.Policy{Units: m.Units}
-	} else if p.Units != "" && p.Units != m.Units {
-		p = p.In(m.Units)
-	}
+	p = PolicyFor(m, p)
 	var out []string
 	var off []string
 	for _, r := range All() {

@@ -13,9 +13,7 @@ import (
 // one finding per reach and event whose proposed water surface rises more
 // than the limit over the existing one, over the span where it does.
 func noRise(m *model.Model, profiles []Profile, old, new *solver.Result, pol *policies.Policy) []rules.Finding {
-	if pol.Units != "" && pol.Units != m.Units {
-		pol = pol.In(m.Units)
-	}
+	pol = rules.PolicyFor(m, pol)
 	head := pol.Rules[rules.NoRiseID]
 	if head == nil {
 		return nil
