@@ -113,10 +113,7 @@ func Build(m *model.Model, res *solver.Result, p *policies.Policy, fs []rules.Fi
 	if m == nil {
 		return nil
 	}
-	pol := p
-	if p.Units != "" && p.Units != m.Units {
-		pol = p.In(m.Units)
-	}
+	pol := rules.PolicyFor(m, p)
 	var rows []Row
 	for _, r := range m.Reaches {
 		for _, ev := range m.Events {
