@@ -31,6 +31,8 @@ import (
 	"fmt"
 	"regexp"
 	"strings"
+
+	"github.com/hashicorp/hcl/v2"
 )
 
 // Want is one expectation.
@@ -184,4 +186,41 @@ func parseComment(rest string, n int) (Want, error) {
 		return w, fmt.Errorf("line %d: want RULE [EVENT FROM..TO] [excepted] [\"REGEXP\" ...], got %q", n, strings.TrimSpace(rest))
 	}
 	return w, nil
+}
+
+// Diagnostics matches the error diagnostics of a corpus file against the
+// expectations of rule ("model" or "policy") written in it: each error
+// must be expected on its line by a want whose patterns match its
+// "Summary; Detail", each want must be met, and every diagnostic must
+// have a position. It returns a message for every error that no want
+// expects, every diagnostic without a position, and
+// every want that no error meets; none when the file is as expected.
+func Diagnostics(wants []Want, rule string, diags hcl.Diagnostics) []string {
+	var problems []string
+	met := make([]bool, len(wants))
+	for _, d := range diags {
+		if d.Subject == nil { // every diagnostic, warnings too, must point somewhere
+			problems = append(problems, fmt.Sprintf("%s has no position", d.Summary))
+			continue
+		}
+		if d.Severity != hcl.DiagError {
+			continue
+		}
+		matched := false
+		for i := range wants {
+			w := &wants[i]
+			if w.Rule == rule && w.Line == d.Subject.Start.Line && w.Matches(d.Summary+"; "+d.Detail) {
+				met[i], matched = true, true
+			}
+		}
+		if !matched {
+			problems = append(problems, fmt.Sprintf("unexpected error at line %d: %s; %s", d.Subject.Start.Line, d.Summary, d.Detail))
+		}
+	}
+	for i := range wants {
+		if !met[i] && wants[i].Rule == rule {
+			problems = append(problems, "no error for "+wants[i].String())
+		}
+	}
+	return problems
 }

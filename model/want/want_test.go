@@ -1,7 +1,10 @@
 package want
 
 import (
+	"strings"
 	"testing"
+
+	"github.com/hashicorp/hcl/v2"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -51,5 +54,36 @@ func TestParseErrors(t *testing.T) {
 	} {
 		_, err := Parse([]byte(src))
 		assert.Error(t, err, "%q", src)
+	}
+}
+
+// TestDiagnostics: an expected error passes; an unexpected error, an
+// unmet want and a diagnostic without a position are each reported.
+//
+// Source: common practice (no published source): the analysistest
+// convention of failing on both unexpected and missing diagnostics.
+func TestDiagnostics(t *testing.T) {
+	wants, err := Parse([]byte("a = 1 # want model \"Bad value\"\nb = 2\n# want model \"Missing\"\nc = 3\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	at := func(line int) *hcl.Range { return &hcl.Range{Start: hcl.Pos{Line: line}, End: hcl.Pos{Line: line}} }
+	diags := hcl.Diagnostics{
+		{Severity: hcl.DiagError, Summary: "Bad value", Subject: at(1)},
+		{Severity: hcl.DiagError, Summary: "Other", Subject: at(2)},
+		{Severity: hcl.DiagWarning, Summary: "Loose"},
+	}
+	got := Diagnostics(wants, "model", diags)
+	wantProblems := []string{"unexpected error at line 2: Other; ", "Loose has no position", `no error for model "Missing"`}
+	if len(got) != len(wantProblems) {
+		t.Fatalf("got %q, want %q", got, wantProblems)
+	}
+	for i := range got {
+		if !strings.Contains(got[i], wantProblems[i]) {
+			t.Errorf("problem %d: %q does not contain %q", i, got[i], wantProblems[i])
+		}
+	}
+	if p := Diagnostics(wants[:1], "model", diags[:1]); len(p) != 0 {
+		t.Errorf("an expected error reported %q", p)
 	}
 }
