@@ -71,25 +71,7 @@ func TestPointsBandsMatchDirectIntegration(t *testing.T) {
 	// vertical walls and banks, at random depths including vertex
 	// elevations and depths above the end points.
 	rapid.Check(t, func(rt *rapid.T) {
-		n := rapid.IntRange(3, 40).Draw(rt, "n")
-		s := &model.Section{Shape: model.Points, Roughness: [3]float64{0.05, 0.03, 0.07}}
-		x := 0.0
-		for i := range n {
-			if i > 0 && !(i >= 2 && s.Points[i-2].Offset == x) && rapid.IntRange(0, 5).Draw(rt, "wall") > 0 {
-				x += rapid.Float64Range(0.01, 20).Draw(rt, "dx")
-			}
-			e := float64(rapid.IntRange(0, 12).Draw(rt, "ei")) * 0.5 // repeated levels: flats
-			if rapid.Bool().Draw(rt, "jitter") {
-				e += rapid.Float64Range(0, 0.5).Draw(rt, "ej")
-			}
-			s.Points = append(s.Points, model.Point{Offset: x, Elevation: 100 + e})
-		}
-		if x == 0 {
-			rt.Skip("no width")
-		}
-		b0 := rapid.Float64Range(0, x).Draw(rt, "b0")
-		b1 := rapid.Float64Range(0, x).Draw(rt, "b1")
-		s.Banks = [2]float64{math.Min(b0, b1), math.Max(b0, b1)}
+		s := drawPointsSection(rt, 40, [3]float64{0.05, 0.03, 0.07}, 20, 100)
 		g := NewGeometry(s, model.SI)
 		c := &g.pts
 		depths := []float64{rapid.Float64Range(1e-6, 8).Draw(rt, "y")}
@@ -159,4 +141,31 @@ func BenchmarkPointsProps5000(b *testing.B) {
 			geoSink += y
 		}
 	})
+}
+
+// drawPointsSection draws a random points section of 3 to maxN points
+// with pockets, flats (repeated levels), vertical walls (repeated
+// offsets) and banks anywhere across it: offsets step by up to maxDx,
+// elevations lie within 6.5 above base. It skips a draw with no width.
+func drawPointsSection(rt *rapid.T, maxN int, roughness [3]float64, maxDx, base float64) *model.Section {
+	n := rapid.IntRange(3, maxN).Draw(rt, "n")
+	s := &model.Section{Shape: model.Points, Roughness: roughness}
+	x := 0.0
+	for i := range n {
+		if i > 0 && !(i >= 2 && s.Points[i-2].Offset == x) && rapid.IntRange(0, 5).Draw(rt, "wall") > 0 {
+			x += rapid.Float64Range(0.01, maxDx).Draw(rt, "dx")
+		}
+		e := float64(rapid.IntRange(0, 12).Draw(rt, "ei")) * 0.5 // repeated levels: flats
+		if rapid.Bool().Draw(rt, "jitter") {
+			e += rapid.Float64Range(0, 0.5).Draw(rt, "ej")
+		}
+		s.Points = append(s.Points, model.Point{Offset: x, Elevation: base + e})
+	}
+	if x == 0 {
+		rt.Skip("no width")
+	}
+	b0 := rapid.Float64Range(0, x).Draw(rt, "b0")
+	b1 := rapid.Float64Range(0, x).Draw(rt, "b1")
+	s.Banks = [2]float64{math.Min(b0, b1), math.Max(b0, b1)}
+	return s
 }

@@ -31,25 +31,7 @@ func untabulated(g *Geometry) *Geometry {
 // against direct integration above (TestCompoundBandsMatchDirect).
 func TestTabulatedDepthsMatchUntabulated(t *testing.T) {
 	rapid.Check(t, func(rt *rapid.T) {
-		n := rapid.IntRange(3, 60).Draw(rt, "n")
-		s := &model.Section{Shape: model.Points, Roughness: [3]float64{0.06, 0.03, 0.05}}
-		x := 0.0
-		for i := range n {
-			if i > 0 && !(i >= 2 && s.Points[i-2].Offset == x) && rapid.IntRange(0, 5).Draw(rt, "wall") > 0 {
-				x += rapid.Float64Range(0.01, 30).Draw(rt, "dx")
-			}
-			e := float64(rapid.IntRange(0, 12).Draw(rt, "ei")) * 0.5
-			if rapid.Bool().Draw(rt, "jitter") {
-				e += rapid.Float64Range(0, 0.5).Draw(rt, "ej")
-			}
-			s.Points = append(s.Points, model.Point{Offset: x, Elevation: 50 + e})
-		}
-		if x == 0 {
-			rt.Skip("no width")
-		}
-		b0 := rapid.Float64Range(0, x).Draw(rt, "b0")
-		b1 := rapid.Float64Range(0, x).Draw(rt, "b1")
-		s.Banks = [2]float64{math.Min(b0, b1), math.Max(b0, b1)}
+		s := drawPointsSection(rt, 60, [3]float64{0.06, 0.03, 0.05}, 30, 50)
 		g := NewGeometry(s, model.SI)
 		u := untabulated(g)
 		q := math.Pow(10, rapid.Float64Range(-3, 3.5).Draw(rt, "log q"))
