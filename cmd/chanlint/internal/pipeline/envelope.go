@@ -330,7 +330,7 @@ func combine(nominal *Result, cases []Case, runs []*Result, sev policies.Severit
 		}
 		failedCase = failedCase[:0]
 		for c, run := range runs {
-			failed := run.Invalid // a case that cannot be solved proves nothing either way
+			failed := run.Invalid // an unsolved case counts as failing (see below)
 			for j := range run.Findings {
 				if !failed && matches(f, c, &run.Findings[j]) {
 					failed = true
@@ -388,19 +388,24 @@ func combine(nominal *Result, cases []Case, runs []*Result, sev policies.Severit
 		}
 		nominal.Findings = append(nominal.Findings, f)
 	}
-	slices.SortStableFunc(nominal.Findings, func(a, b rules.Finding) int { return rules.Compare(&a, &b) })
-	if bands {
-		nominal.Bands = surfaceBands(nominal.Solution, runs)
-	}
-	for _, run := range runs {
+	// A case the solver could not finish (a size limit) is counted as
+	// failing every nominal finding, the cautious reading, and said so.
+	for c, run := range runs {
+		if !run.Invalid {
+			continue
+		}
 		for i := range run.Findings {
-			if f := &run.Findings[i]; f.Rule == "solver" && f.Event == "" && run.Invalid {
+			if f := &run.Findings[i]; f.Rule == "solver" && f.Event == "" {
 				nominal.Findings = append(nominal.Findings, rules.Finding{
 					Rule: "solver", Severity: policies.Info, File: nominal.File.Name, Range: f.Range,
-					Message: "a sensitivity case could not be solved, so the verdicts do not cover it: " + f.Message,
+					Message: "sensitivity case " + cases[c].Name + " could not be solved, so the verdicts count it as failing: " + f.Message,
 				})
 			}
 		}
+	}
+	slices.SortStableFunc(nominal.Findings, func(a, b rules.Finding) int { return rules.Compare(&a, &b) })
+	if bands {
+		nominal.Bands = surfaceBands(nominal.Solution, runs)
 	}
 	return nominal
 }

@@ -10,6 +10,7 @@ import (
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
+	"github.com/hashicorp/hcl/v2"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
@@ -222,4 +223,27 @@ func TestParseSensitivity(t *testing.T) {
 		require.Error(t, err, spec)
 		assert.Contains(t, err.Error(), want, spec)
 	}
+}
+
+// TestUnsolvedCase: a case the solver could not finish counts as failing
+// the nominal findings (the cautious reading) and is named in an info
+// finding, which sorts with the others.
+//
+// Source: common practice (no published source).
+func TestUnsolvedCase(t *testing.T) {
+	at := func(line int) hcl.Range {
+		return hcl.Range{Filename: "m.chan.hcl", Start: hcl.Pos{Line: line}, End: hcl.Pos{Line: line}}
+	}
+	nominal := &Result{File: File{Name: "m.chan.hcl"}, Findings: []rules.Finding{
+		{Rule: "freeboard", Severity: policies.Error, File: "m.chan.hcl", Range: at(9), Reach: "r", Event: "e", HasSpan: true, FromStation: 1, ToStation: 2},
+	}}
+	cases := []Case{{Name: "discharge +10 %", Alone: "discharge"}}
+	runs := []*Result{{Invalid: true, Findings: []rules.Finding{{Rule: "solver", Severity: policies.Error, File: "m.chan.hcl", Range: at(1), Message: "too many points"}}}}
+	r := combine(nominal, cases, runs, policies.Warning, false)
+	require.Len(t, r.Findings, 2)
+	assert.Equal(t, "solver", r.Findings[0].Rule, "sorted by position: the units line first")
+	assert.Contains(t, r.Findings[0].Message, "sensitivity case discharge +10 % could not be solved")
+	assert.Equal(t, policies.Info, r.Findings[0].Severity)
+	require.NotNil(t, r.Findings[1].Envelope)
+	assert.Equal(t, rules.RobustFail, r.Findings[1].Envelope.Verdict)
 }
