@@ -7,6 +7,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os/exec"
 	"path/filepath"
 	"strings"
@@ -356,16 +357,9 @@ const profileTolerance = 0.0005
 // unchanged reports whether a compared profile moved by less than
 // profileTolerance everywhere.
 func unchanged(p *revdiff.Profile) bool {
-	small := func(e revdiff.Extreme) bool { return abs(e.Delta) < profileTolerance }
+	small := func(e revdiff.Extreme) bool { return math.Abs(e.Delta) < profileTolerance }
 	return p.Compared == 0 || (small(p.Rise) && small(p.Fall) && small(p.Faster) && small(p.Slower) &&
 		(!p.HasFreeboard || (small(p.LessFree) && small(p.MoreFree))))
-}
-
-func abs(x float64) float64 {
-	if x < 0 {
-		return -x
-	}
-	return x
 }
 
 // profileText is "water surface +0.052 m at 410 m, −0.010 m at 20 m;
@@ -405,7 +399,7 @@ func profileText(p *revdiff.Profile, unit string) string {
 // signedNum is a change with its sign: "+0.052", "−0.01", "0".
 func signedNum(x float64) string {
 	switch {
-	case abs(x) < profileTolerance:
+	case math.Abs(x) < profileTolerance:
 		return "0"
 	case x > 0:
 		return "+" + rules.Num(x)
