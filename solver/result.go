@@ -1,7 +1,9 @@
 package solver
 
 import (
+	"cmp"
 	"math"
+	"slices"
 
 	"github.com/chanlint/chanlint/model"
 )
@@ -365,3 +367,27 @@ func (r *Result) Assumptions() []string {
 
 // NoLocalLosses is the statement of a model without loss blocks.
 const NoLocalLosses = "no local losses were modelled: nodes and section changes balance energy without loss (add loss blocks, or a model-wide default, with coefficients from a published table of transition losses)"
+
+// AtStation is the value v of the computed points pts (ordered by
+// station) at station x, linear between the points around it; at a jump
+// (two points at one station) the downstream point's value; beyond the
+// ends the end point's. It is how outputs compare or draw two profiles
+// whose points lie at different stations. pts must not be empty.
+func AtStation(pts []Point, x float64, v func(*Point) float64) float64 {
+	i, _ := slices.BinarySearchFunc(pts, x, func(p Point, x float64) int { return cmp.Compare(p.Station, x) })
+	switch {
+	case i == 0:
+		return v(&pts[0])
+	case i >= len(pts):
+		return v(&pts[len(pts)-1])
+	}
+	a, b := &pts[i-1], &pts[i]
+	if pts[i].Station == x {
+		for i+1 < len(pts) && pts[i+1].Station == x {
+			i++
+		}
+		return v(&pts[i])
+	}
+	t := (x - a.Station) / (b.Station - a.Station)
+	return v(a) + t*(v(b)-v(a))
+}

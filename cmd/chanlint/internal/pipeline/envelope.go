@@ -1,7 +1,6 @@
 package pipeline
 
 import (
-	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -517,7 +516,7 @@ func surfaceBands(nominal *solver.Result, runs []*Result) []Band {
 					continue
 				}
 				for i, x := range b.Station {
-					w := wseAt(other.Points, x)
+					w := solver.AtStation(other.Points, x, func(p *solver.Point) float64 { return p.WSE })
 					b.Low[i] = math.Min(b.Low[i], w)
 					b.High[i] = math.Max(b.High[i], w)
 				}
@@ -526,23 +525,4 @@ func surfaceBands(nominal *solver.Result, runs []*Result) []Band {
 		}
 	}
 	return out
-}
-
-// wseAt interpolates the water surface of points (ordered by station) at
-// station x linearly; a jump in the case's profile between two points is
-// drawn as the straight line between them.
-func wseAt(pts []solver.Point, x float64) float64 {
-	i, _ := slices.BinarySearchFunc(pts, x, func(p solver.Point, x float64) int { return cmp.Compare(p.Station, x) })
-	switch {
-	case i == 0:
-		return pts[0].WSE
-	case i >= len(pts):
-		return pts[len(pts)-1].WSE
-	}
-	a, b := pts[i-1], pts[i]
-	if b.Station == a.Station {
-		return b.WSE
-	}
-	t := (x - a.Station) / (b.Station - a.Station)
-	return a.WSE + t*(b.WSE-a.WSE)
 }

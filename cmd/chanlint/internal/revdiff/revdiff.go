@@ -6,7 +6,6 @@
 package revdiff
 
 import (
-	"cmp"
 	"math"
 	"slices"
 
@@ -237,8 +236,8 @@ func compareReach(event string, old, new *solver.ReachResult, banks bankCache, u
 		if x > limit+1e-9 {
 			break
 		}
-		ow := interp(old.Points, x, func(p *solver.Point) float64 { return p.WSE })
-		ov := interp(old.Points, x, func(p *solver.Point) float64 { return p.Velocity })
+		ow := solver.AtStation(old.Points, x, func(p *solver.Point) float64 { return p.WSE })
+		ov := solver.AtStation(old.Points, x, func(p *solver.Point) float64 { return p.Velocity })
 		dw, dv := pt.WSE-ow, pt.Velocity-ov
 		track(&p.Rise, dw, x, true)
 		track(&p.Fall, dw, x, false)
@@ -267,26 +266,4 @@ func compareReach(event string, old, new *solver.ReachResult, banks bankCache, u
 		first = false
 	}
 	return p
-}
-
-// interp is the value of a point quantity at station x, linear between
-// the points (ordered by station) around it; at a jump (two points at one
-// station) the downstream point's value.
-func interp(pts []solver.Point, x float64, v func(*solver.Point) float64) float64 {
-	i, _ := slices.BinarySearchFunc(pts, x, func(p solver.Point, x float64) int { return cmp.Compare(p.Station, x) })
-	switch {
-	case i == 0:
-		return v(&pts[0])
-	case i >= len(pts):
-		return v(&pts[len(pts)-1])
-	}
-	a, b := &pts[i-1], &pts[i]
-	if pts[i].Station == x {
-		for i+1 < len(pts) && pts[i+1].Station == x {
-			i++
-		}
-		return v(&pts[i])
-	}
-	t := (x - a.Station) / (b.Station - a.Station)
-	return v(a) + t*(v(b)-v(a))
 }
