@@ -55,7 +55,7 @@ func (a attrSet) classWord(name, example string) string {
 		return ""
 	}
 	if !IsClassWord(w) {
-		a.d.errorf(a.m[name].Expr.Range(), "Invalid class word",
+		a.d.Errorf(a.m[name].Expr.Range(), "Invalid class word",
 			"%s of %s must be one word of letters, digits, \"-\" or \"_\" (at most %d), e.g. %s.", name, a.what, MaxClassWord, example)
 		return ""
 	}
@@ -93,12 +93,12 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 	r.Length, _ = a.positive("length", unit)
 	switch {
 	case a.has("slope") && a.has("invert"):
-		d.errorf(a.m["invert"].NameRange, "Both slope and invert",
+		d.Errorf(a.m["invert"].NameRange, "Both slope and invert",
 			"%s gives both slope and invert; keep one: slope for a bed fixed by the node below, invert for fixed elevations.", a.what)
 	case a.has("slope"):
 		if s, ok := a.number("slope"); ok {
 			if math.Abs(s) >= maxBedSlope {
-				d.errorf(a.m["slope"].Expr.Range(), "Bed slope too steep",
+				d.Errorf(a.m["slope"].Expr.Range(), "Bed slope too steep",
 					"slope of %s is %g; a slope is rise over run (e.g. 0.002), and %g or more is a drop, not a channel.", a.what, s, maxBedSlope)
 			}
 			r.Slope = s
@@ -109,14 +109,14 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 			if r.Length > 0 {
 				r.Slope = (p[0] - p[1]) / r.Length
 				if math.Abs(r.Slope) >= maxBedSlope {
-					d.errorf(a.m["invert"].Expr.Range(), "Bed slope too steep",
+					d.Errorf(a.m["invert"].Expr.Range(), "Bed slope too steep",
 						"invert of %s falls %g over a length of %g, a slope of %.3g; %g or more is a drop, not a channel. Check the elevations and the length.",
 						a.what, p[0]-p[1], r.Length, r.Slope, maxBedSlope)
 				}
 			}
 		}
 	default:
-		d.errorf(b.Body.MissingItemRange(), "Missing bed slope",
+		d.Errorf(b.Body.MissingItemRange(), "Missing bed slope",
 			"%s needs slope (rise over run, e.g. 0.002) or invert = [upstream elevation, downstream elevation].", a.what)
 	}
 	if a.has("max_spacing") {
@@ -124,7 +124,7 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 	}
 	r.Class = a.classWord("class", `"roadside-ditch"`)
 	if len(content.Blocks) > MaxSegments {
-		d.errorf(content.Blocks[MaxSegments].DefRange, "Too many segments",
+		d.Errorf(content.Blocks[MaxSegments].DefRange, "Too many segments",
 			"%s has %d segment blocks; at most %d are accepted.", a.what, len(content.Blocks), MaxSegments)
 	}
 	for i, sb := range content.Blocks {
@@ -154,7 +154,7 @@ func (d *decoder) gate(b *hcl.Block) *Gate {
 	g.Opening, _ = a.positive("opening", d.unitSuffix())
 	if c, ok := a.number("contraction"); ok {
 		if c <= 0 || c > 1 {
-			d.errorf(a.m["contraction"].Expr.Range(), "Contraction out of range",
+			d.Errorf(a.m["contraction"].Expr.Range(), "Contraction out of range",
 				"contraction of %s is %g; the vena contracta is thinner than the opening, so it must lie in (0, 1] (about %g for a vertical gate).", a.what, c, DefaultContraction)
 		} else {
 			g.Contraction = c
@@ -179,7 +179,7 @@ func (a attrSet) stations(body hcl.Body) (from, to float64) {
 	from, fok := a.station("from_station")
 	to, tok := a.station("to_station")
 	if fok && tok && from >= to {
-		a.d.errorf(a.m["to_station"].Expr.Range(), "Empty station range",
+		a.d.Errorf(a.m["to_station"].Expr.Range(), "Empty station range",
 			"to_station (%g) of %s must be greater than from_station (%g).", to, a.what, from)
 	}
 	return from, to
@@ -208,7 +208,7 @@ func (d *decoder) exception(b *hcl.Block) *Exception {
 	if len(b.Labels) > 0 {
 		e.Rule = b.Labels[0]
 		if !ruleID.MatchString(e.Rule) {
-			d.errorf(b.LabelRanges[0], "Invalid rule id",
+			d.Errorf(b.LabelRanges[0], "Invalid rule id",
 				"%q is not a rule id; write the id of the rule being excepted, e.g. exception \"froude_band\".", e.Rule)
 		}
 	}
@@ -218,10 +218,10 @@ func (d *decoder) exception(b *hcl.Block) *Exception {
 	if reason, ok := a.text("reason"); ok {
 		switch {
 		case strings.TrimSpace(reason) == "":
-			d.errorf(a.m["reason"].Expr.Range(), "Empty reason",
+			d.Errorf(a.m["reason"].Expr.Range(), "Empty reason",
 				"A design exception must say why it is acceptable and who reviewed it; write the reason.")
 		case !sentence(reason):
-			d.errorf(a.m["reason"].Expr.Range(), "Reason too short",
+			d.Errorf(a.m["reason"].Expr.Range(), "Reason too short",
 				"The reason of a design exception must be at least a sentence (%d words and %d letters) saying why the design is acceptable and who reviewed it, not a placeholder such as \"ok\" or \"TODO\".",
 				MinReasonWords, MinReasonLetters)
 		}
@@ -279,8 +279,8 @@ func (d *decoder) event(b *hcl.Block) *Event {
 		for _, v := range vals {
 			ev.Inflows = append(ev.Inflows, Inflow{ReachName: v.Key, Discharge: v.Value, Range: v.KeyRange})
 		}
-		if n == 0 && !hasErrorAt(d.diags, at.Expr.Range()) {
-			d.errorf(at.Expr.Range(), "No inflow", "%s has no inflow; name at least one reach and its discharge, e.g. { \"main\" = 12.5 }.", a.what)
+		if n == 0 && !hasErrorAt(d.Diags, at.Expr.Range()) {
+			d.Errorf(at.Expr.Range(), "No inflow", "%s has no inflow; name at least one reach and its discharge, e.g. { \"main\" = 12.5 }.", a.what)
 		}
 	}
 	if at, ok := a.m["outlet"]; ok {
@@ -321,7 +321,7 @@ func (d *decoder) reachValues(expr hcl.Expression, event, attr, what, example, s
 			continue
 		}
 		if v <= 0 {
-			d.errorf(e.Value.Range(), summary, "%s %q in %s is %g; %s.", what, e.Key, event, v, hint)
+			d.Errorf(e.Value.Range(), summary, "%s %q in %s is %g; %s.", what, e.Key, event, v, hint)
 			continue
 		}
 		out = append(out, reachValue{Key: e.Key, KeyRange: e.KeyRange, Value: v})
@@ -350,19 +350,19 @@ func (d *decoder) outlet(ev *Event, a attrSet, at *hclsyntax.Attribute) {
 		case "depth", "elevation", "condition":
 			chosen = append(chosen, e)
 		default:
-			d.errorf(e.KeyRange, "Unknown outlet control",
+			d.Errorf(e.KeyRange, "Unknown outlet control",
 				"%q is not an outlet control; use depth, elevation or condition = \"normal\" | \"critical\".%s", e.Key, suggest(e.Key, outletKeys))
 			return
 		}
 	}
 	switch len(chosen) {
 	case 0:
-		d.errorf(at.Expr.Range(), "No outlet control",
+		d.Errorf(at.Expr.Range(), "No outlet control",
 			"The outlet of %s needs one control: depth = ..., elevation = ... or condition = \"normal\" | \"critical\".", a.what)
 		return
 	case 1:
 	default:
-		d.errorf(chosen[1].KeyRange, "More than one outlet control",
+		d.Errorf(chosen[1].KeyRange, "More than one outlet control",
 			"The outlet of %s gives both %s and %s; keep exactly one.", a.what, chosen[0].Key, chosen[1].Key)
 		return
 	}
@@ -372,7 +372,7 @@ func (d *decoder) outlet(ev *Event, a attrSet, at *hclsyntax.Attribute) {
 	case "depth":
 		if y, ok := d.number(e.Value, label{"outlet depth", a.what}); ok {
 			if y <= 0 {
-				d.errorf(e.Value.Range(), "Depth must be positive",
+				d.Errorf(e.Value.Range(), "Depth must be positive",
 					"outlet depth of %s is %g; give the tailwater depth above the outlet invert in %s.", a.what, y, d.m.Units.Length())
 				return
 			}
@@ -388,7 +388,7 @@ func (d *decoder) outlet(ev *Event, a attrSet, at *hclsyntax.Attribute) {
 			case OutletNormal, OutletCritical:
 				ev.Outlet.Kind = OutletKind(c)
 			default:
-				d.errorf(e.Value.Range(), "Unknown outlet condition",
+				d.Errorf(e.Value.Range(), "Unknown outlet condition",
 					"condition must be \"normal\" or \"critical\", not %q.%s", c, suggest(c, []string{"normal", "critical"}))
 			}
 		}

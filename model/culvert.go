@@ -155,7 +155,7 @@ func (d *decoder) culvert(b *hcl.Block) *Culvert {
 	if a.has("barrels") {
 		if n, ok := a.number("barrels"); ok {
 			if n < 1 || n > MaxBarrels || n != float64(int(n)) {
-				d.errorf(a.m["barrels"].Expr.Range(), "Invalid number of barrels",
+				d.Errorf(a.m["barrels"].Expr.Range(), "Invalid number of barrels",
 					"barrels of %s is %g; write a whole number of identical barrels from 1 to %d.", a.what, n, MaxBarrels)
 			} else {
 				c.Barrels = int(n)
@@ -189,7 +189,7 @@ func (d *decoder) inlet(expr hcl.Expression, what string) Inlet {
 		}
 		t, known := LookupInlet(name)
 		if !known {
-			d.errorf(expr.Range(), "Unknown inlet type",
+			d.Errorf(expr.Range(), "Unknown inlet type",
 				"inlet of %s is %q, which is not in the inlet table; use one of %s, or give the coefficients: { form = 1, K = ..., M = ..., c = ..., Y = ..., entrance_loss = ... }.%s",
 				what, name, strings.Join(inletNames(), ", "), suggest(name, inletNames()))
 			return in
@@ -211,7 +211,7 @@ func (d *decoder) inlet(expr hcl.Expression, what string) Inlet {
 		case "form":
 			v, ok := d.number(e.Value, lbl)
 			if ok && v != 1 && v != 2 {
-				d.errorf(e.Value.Range(), "Unknown inlet form",
+				d.Errorf(e.Value.Range(), "Unknown inlet form",
 					"form of the inlet of %s is %g; HDS-5 writes the unsubmerged inlet-control equation in form 1 or form 2.", what, v)
 				ok = false
 			}
@@ -233,7 +233,7 @@ func (d *decoder) inlet(expr hcl.Expression, what string) Inlet {
 		case "Ks":
 			dst = &in.SlopeTerm
 		default:
-			d.errorf(e.KeyRange, "Unknown inlet coefficient",
+			d.Errorf(e.KeyRange, "Unknown inlet coefficient",
 				"%q is not a coefficient of an inlet; use form, K, M, c, Y, entrance_loss and optionally Ks.%s", e.Key, suggest(e.Key, inletKeys))
 			continue
 		}
@@ -244,13 +244,13 @@ func (d *decoder) inlet(expr hcl.Expression, what string) Inlet {
 		}
 		switch {
 		case e.Key == "Ks" && (v < -1 || v > 1):
-			d.errorf(e.Value.Range(), "Slope correction out of range",
+			d.Errorf(e.Value.Range(), "Slope correction out of range",
 				"Ks of the inlet of %s is %g; HDS-5 uses −0.5, or 0.7 for a mitered inlet.", what, v)
 		case e.Key == "entrance_loss" && (v < 0 || v > 2):
-			d.errorf(e.Value.Range(), "Entrance loss out of range",
+			d.Errorf(e.Value.Range(), "Entrance loss out of range",
 				"entrance_loss of the inlet of %s is %g; published coefficients run from about 0.2 (rounded or socket ends) to 0.9 (projecting corrugated pipe).", what, v)
 		case e.Key != "Ks" && e.Key != "entrance_loss" && !(v > 0):
-			d.errorf(e.Value.Range(), "Value must be positive",
+			d.Errorf(e.Value.Range(), "Value must be positive",
 				"%s of the inlet of %s is %g; the inlet-control coefficients are positive.", e.Key, what, v)
 		default:
 			*dst = v
@@ -263,7 +263,7 @@ func (d *decoder) inlet(expr hcl.Expression, what string) Inlet {
 		}
 	}
 	if len(missing) > 0 {
-		d.errorf(expr.Range(), "Incomplete inlet coefficients",
+		d.Errorf(expr.Range(), "Incomplete inlet coefficients",
 			"The inlet of %s needs %s; write a named inlet type or all of form, K, M, c, Y and entrance_loss, e.g. %s.",
 			what, strings.Join(missing, ", "), example)
 	}
@@ -293,7 +293,7 @@ func (d *decoder) road(expr hcl.Expression, what string) *Road {
 			r.Shoulder, r.HasShoulder = v, true
 		case "length", "width", "coefficient":
 			if !(v > 0) {
-				d.errorf(e.Value.Range(), "Value must be positive", "%s of the road of %s is %g; it must be greater than 0.", e.Key, what, v)
+				d.Errorf(e.Value.Range(), "Value must be positive", "%s of the road of %s is %g; it must be greater than 0.", e.Key, what, v)
 				continue
 			}
 			switch e.Key {
@@ -306,7 +306,7 @@ func (d *decoder) road(expr hcl.Expression, what string) *Road {
 			}
 		default:
 			seen[e.Key] = false
-			d.errorf(e.KeyRange, "Unknown road attribute",
+			d.Errorf(e.KeyRange, "Unknown road attribute",
 				"%q is not an attribute of a road; use crest (elevation), length (along the crest), width (across it) and optionally coefficient (of the weir) and shoulder (elevation).%s",
 				e.Key, suggest(e.Key, roadKeys))
 		}
@@ -318,7 +318,7 @@ func (d *decoder) road(expr hcl.Expression, what string) *Road {
 		}
 	}
 	if len(missing) > 0 {
-		d.errorf(expr.Range(), "Incomplete road",
+		d.Errorf(expr.Range(), "Incomplete road",
 			"The road of %s needs %s: the crest elevation, the length of the crest and the width of the road.", what, strings.Join(missing, ", "))
 	}
 	return r
@@ -335,30 +335,30 @@ func (d *decoder) resolveCulverts() {
 			continue
 		}
 		if prev := r.Culvert; prev != nil {
-			d.errorf(c.At("reach"), "More than one culvert on a reach",
+			d.Errorf(c.At("reach"), "More than one culvert on a reach",
 				"Reach %q is already the barrel of culvert %q (line %d); one reach is one culvert, whose barrels = N gives identical barrels side by side.",
 				r.Name, prev.Name, prev.DefRange.Start.Line)
 			continue
 		}
 		if !r.Section.Closed() {
-			d.errorf(c.At("reach"), "Culvert on an open section",
+			d.Errorf(c.At("reach"), "Culvert on an open section",
 				"%s names reach %q, whose section %q is a %s; a culvert barrel is a closed section: shape = \"circle\" or \"box\".",
 				what, r.Name, r.Section.Name, r.Section.Shape)
 			continue
 		}
 		if len(r.Segments) > 0 {
-			d.errorf(c.At("reach"), "Culvert barrel with segments",
+			d.Errorf(c.At("reach"), "Culvert barrel with segments",
 				"Reach %q has segment blocks; a culvert barrel has one section from inlet to outlet. Split the reach at the barrel's ends.", r.Name)
 			continue
 		}
 		if r.Gate != nil {
-			d.errorf(c.At("reach"), "Culvert barrel with a gate",
+			d.Errorf(c.At("reach"), "Culvert barrel with a gate",
 				"Reach %q starts at gate %q; the inlet of a culvert is its own control. Put the gate on another reach.", r.Name, r.Gate.Name)
 			continue
 		}
 		if c.Inlet.Type != "" {
 			if t, ok := LookupInlet(c.Inlet.Type); ok && t.Shape != r.Section.Shape {
-				d.errorf(c.Inlet.Range, "Inlet type for another barrel shape",
+				d.Errorf(c.Inlet.Range, "Inlet type for another barrel shape",
 					"inlet %q is for a %s barrel, and reach %q is a %s; choose an inlet of a %s or give explicit coefficients.",
 					t.Name, t.Shape, r.Name, r.Section.Shape, r.Section.Shape)
 				continue
@@ -380,7 +380,7 @@ func (d *decoder) culvertLevels() {
 		}
 		for _, l := range []*Loss{r.EndLoss, upstreamLoss(r)} {
 			if l != nil {
-				d.errorf(l.At("node"), "Loss at a culvert",
+				d.Errorf(l.At("node"), "Loss at a culvert",
 					"loss %q is at node %q, an end of culvert %q, whose entrance and exit losses are part of its HDS-5 computation (the inlet's entrance_loss, and the exit into the tailwater); remove the loss block.",
 					l.Name, l.NodeName, c.Name)
 			}
@@ -389,7 +389,7 @@ func (d *decoder) culvertLevels() {
 			continue
 		}
 		if crown := r.InvertUp + r.Section.Height; c.Road.Crest <= crown {
-			d.errorf(c.Road.Range, "Road crest below the barrel crown",
+			d.Errorf(c.Road.Range, "Road crest below the barrel crown",
 				"The road crest of culvert %q is at %g, not above the crown %g of its inlet (invert %g plus rise %g); give the crest as an elevation of the road's low point.",
 				c.Name, c.Road.Crest, crown, r.InvertUp, r.Section.Height)
 		}

@@ -1,12 +1,12 @@
 package model
 
 import (
-	"fmt"
 	"math"
 	"strconv"
 	"strings"
 	"unicode"
 
+	"github.com/chanlint/chanlint/model/hclkit"
 	suggestpkg "github.com/chanlint/chanlint/model/suggest"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
@@ -17,27 +17,10 @@ import (
 // larger is rejected before any arithmetic can overflow downstream.
 const MaxMagnitude = 1e9
 
-// diagnoser accumulates the diagnostics of one file.
+// diagnoser accumulates the diagnostics of one file and decodes values
+// with the model's wording.
 type diagnoser struct {
-	diags hcl.Diagnostics
-}
-
-func (d *diagnoser) add(sev hcl.DiagnosticSeverity, rng hcl.Range, summary, detail string, args ...any) {
-	r := rng
-	d.diags = append(d.diags, &hcl.Diagnostic{
-		Severity: sev,
-		Summary:  summary,
-		Detail:   fmt.Sprintf(detail, args...),
-		Subject:  &r,
-	})
-}
-
-func (d *diagnoser) errorf(rng hcl.Range, summary, detail string, args ...any) {
-	d.add(hcl.DiagError, rng, summary, detail, args...)
-}
-
-func (d *diagnoser) warnf(rng hcl.Range, summary, detail string, args ...any) {
-	d.add(hcl.DiagWarning, rng, summary, detail, args...)
+	hclkit.Diagnostics
 }
 
 // literalOnly reports a diagnostic for every construct of expr that a model
@@ -48,61 +31,36 @@ func (d *diagnoser) warnf(rng hcl.Range, summary, detail string, args ...any) {
 // time proportional to the size of the source and reads nothing from
 // outside the file.
 func (d *diagnoser) literalOnly(expr hcl.Expression) bool {
-	ok := true
-	var walk func(e hclsyntax.Expression)
-	walk = func(e hclsyntax.Expression) {
-		switch e := e.(type) {
-		case *hclsyntax.LiteralValueExpr:
-		case *hclsyntax.TemplateExpr:
-			for _, p := range e.Parts {
-				walk(p)
-			}
-		case *hclsyntax.TemplateWrapExpr:
-			walk(e.Wrapped)
-		case *hclsyntax.TupleConsExpr:
-			for _, x := range e.Exprs {
-				walk(x)
-			}
-		case *hclsyntax.ObjectConsExpr:
-			for _, it := range e.Items {
-				walk(it.KeyExpr)
-				walk(it.ValueExpr)
-			}
-		case *hclsyntax.ObjectConsKeyExpr:
-			if !e.ForceNonLiteral && hcl.ExprAsKeyword(e.Wrapped) != "" {
-				return // a bare name used as a key is a literal string
-			}
-			walk(e.Wrapped)
-		case *hclsyntax.UnaryOpExpr:
-			walk(e.Val)
-		case *hclsyntax.BinaryOpExpr:
-			// Arbitrary-precision arithmetic on huge operands can take
-			// tens of milliseconds per operation, so a hostile file of
-			// such expressions would run for hours; a model gives values.
-			ok = false
-			d.errorf(e.Range(), "Arithmetic not allowed",
-				"A model holds values, not formulas; write the result of this expression as a number.")
-		case *hclsyntax.ParenthesesExpr:
-			walk(e.Expression)
-		case *hclsyntax.ScopeTraversalExpr:
-			ok = false
-			d.errorf(e.Range(), "Variables not allowed",
-				"A model holds literal values only; %q is a name, not a value. Quote it if it is text (\"%s\") or write the number.",
-				traversalName(e.Traversal), traversalName(e.Traversal))
-		case *hclsyntax.FunctionCallExpr:
-			ok = false
-			d.errorf(e.NameRange, "Function calls not allowed",
-				"A model is untrusted input and no functions are evaluated in it; write the value of %s(...) as a literal.", e.Name)
-		default:
-			ok = false
-			d.errorf(e.Range(), "Expression not allowed",
-				"A model holds literal values, lists and objects only; write the value itself instead of this expression.")
-		}
+	return hclkit.Literal(expr, modelAllows, d.rejectConstruct)
+}
+
+// modelAllows is what a model accepts besides literal values: a ${...}
+// around a literal, and the logical negation of a literal (which then
+// fails as a bool where a number or a string is wanted).
+var modelAllows = hclkit.Allow{Interpolation: true, Not: true}
+
+// rejectConstruct words the diagnostic of a construct literalOnly found.
+func (d *diagnoser) rejectConstruct(c hclkit.Construct, e hcl.Expression) {
+	switch c {
+	case hclkit.Operator:
+		// Arbitrary-precision arithmetic on huge operands can take
+		// tens of milliseconds per operation, so a hostile file of
+		// such expressions would run for hours; a model gives values.
+		d.Errorf(e.Range(), "Arithmetic not allowed",
+			"A model holds values, not formulas; write the result of this expression as a number.")
+	case hclkit.Variable:
+		name := hclkit.TraversalName(e.(*hclsyntax.ScopeTraversalExpr).Traversal)
+		d.Errorf(e.Range(), "Variables not allowed",
+			"A model holds literal values only; %q is a name, not a value. Quote it if it is text (\"%s\") or write the number.",
+			name, name)
+	case hclkit.Call:
+		call := e.(*hclsyntax.FunctionCallExpr)
+		d.Errorf(call.NameRange, "Function calls not allowed",
+			"A model is untrusted input and no functions are evaluated in it; write the value of %s(...) as a literal.", call.Name)
+	default:
+		d.Errorf(e.Range(), "Expression not allowed",
+			"A model holds literal values, lists and objects only; write the value itself instead of this expression.")
 	}
-	if se, isSyntax := expr.(hclsyntax.Expression); isSyntax {
-		walk(se)
-	}
-	return ok
 }
 
 // literal is the value of the two forms nearly every attribute of a model
@@ -135,23 +93,6 @@ func quoted(kind, name string) string {
 	return kind + ` "` + name + `"`
 }
 
-func traversalName(t hcl.Traversal) string {
-	var b strings.Builder
-	for i, step := range t {
-		switch s := step.(type) {
-		case hcl.TraverseRoot:
-			b.WriteString(s.Name)
-		case hcl.TraverseAttr:
-			b.WriteString("." + s.Name)
-		default:
-			if i == 0 {
-				b.WriteString("?")
-			}
-		}
-	}
-	return b.String()
-}
-
 // value evaluates a literal expression with no evaluation context.
 func (d *diagnoser) value(expr hcl.Expression) (cty.Value, bool) {
 	v, ok := literal(expr)
@@ -161,17 +102,16 @@ func (d *diagnoser) value(expr hcl.Expression) (cty.Value, bool) {
 		}
 		var diags hcl.Diagnostics
 		v, diags = expr.Value(nil)
-		d.diags = append(d.diags, diags...)
-		if diags.HasErrors() {
+		if d.Append(diags) {
 			return cty.NilVal, false
 		}
 	}
 	if v.IsNull() {
-		d.errorf(expr.Range(), "Missing value", "null is not a value here; write the value or remove the line.")
+		d.Errorf(expr.Range(), "Missing value", "null is not a value here; write the value or remove the line.")
 		return cty.NilVal, false
 	}
 	if !v.IsWhollyKnown() {
-		d.errorf(expr.Range(), "Unknown value", "The value could not be determined; write it as a literal.")
+		d.Errorf(expr.Range(), "Unknown value", "The value could not be determined; write it as a literal.")
 		return cty.NilVal, false
 	}
 	return v, true
@@ -202,12 +142,12 @@ func (d *diagnoser) number(expr hcl.Expression, what label) (float64, bool) {
 
 func (d *diagnoser) numberValue(v cty.Value, rng hcl.Range, what label) (float64, bool) {
 	if v.Type() != cty.Number {
-		d.errorf(rng, "Number required", "%s must be a number, not %s; write it without quotes.", what, typeName(v.Type()))
+		d.Errorf(rng, "Number required", "%s must be a number, not %s; write it without quotes.", what, typeName(v.Type()))
 		return 0, false
 	}
 	f, _ := v.AsBigFloat().Float64()
 	if math.IsNaN(f) || math.IsInf(f, 0) || math.Abs(f) > MaxMagnitude {
-		d.errorf(rng, "Number too large", "%s is beyond ±%g; check the units and the decimal point.", what, MaxMagnitude)
+		d.Errorf(rng, "Number too large", "%s is beyond ±%g; check the units and the decimal point.", what, MaxMagnitude)
 		return 0, false
 	}
 	return f, true
@@ -220,7 +160,7 @@ func (d *diagnoser) text(expr hcl.Expression, what label) (string, bool) {
 		return "", false
 	}
 	if v.Type() != cty.String {
-		d.errorf(expr.Range(), "String required", "%s must be a quoted string, not %s.", what, typeName(v.Type()))
+		d.Errorf(expr.Range(), "String required", "%s must be a quoted string, not %s.", what, typeName(v.Type()))
 		return "", false
 	}
 	return v.AsString(), true
@@ -238,12 +178,12 @@ func (d *diagnoser) name(expr hcl.Expression, what label) (string, bool) {
 
 func (d *diagnoser) checkName(s string, rng hcl.Range, what label) bool {
 	if strings.TrimSpace(s) == "" {
-		d.errorf(rng, "Empty name", "%s must not be empty; write a name such as \"main\".", what)
+		d.Errorf(rng, "Empty name", "%s must not be empty; write a name such as \"main\".", what)
 		return false
 	}
 	for _, r := range s {
 		if unicode.IsControl(r) {
-			d.errorf(rng, "Invalid name", "%s contains a control character; use letters, digits, spaces, '-' or '_'.", what)
+			d.Errorf(rng, "Invalid name", "%s contains a control character; use letters, digits, spaces, '-' or '_'.", what)
 			return false
 		}
 	}
@@ -257,7 +197,7 @@ func (d *diagnoser) list(expr hcl.Expression, what label, example string) ([]hcl
 	}
 	items, diags := hcl.ExprList(expr)
 	if diags.HasErrors() {
-		d.errorf(expr.Range(), "List required", "%s must be a list written in brackets, e.g. %s.", what, example)
+		d.Errorf(expr.Range(), "List required", "%s must be a list written in brackets, e.g. %s.", what, example)
 		return nil, false
 	}
 	return items, true
@@ -277,11 +217,11 @@ func (d *diagnoser) object(expr hcl.Expression, what, example string) ([]entry, 
 	}
 	pairs, diags := hcl.ExprMap(expr)
 	if diags.HasErrors() {
-		d.errorf(expr.Range(), "Object required", "%s must be an object written in braces, e.g. %s.", what, example)
+		d.Errorf(expr.Range(), "Object required", "%s must be an object written in braces, e.g. %s.", what, example)
 		return nil, false
 	}
 	if len(pairs) > MaxReaches {
-		d.errorf(expr.Range(), "Too many entries", "%s has %d entries; at most %d (one per reach) are accepted.", what, len(pairs), MaxReaches)
+		d.Errorf(expr.Range(), "Too many entries", "%s has %d entries; at most %d (one per reach) are accepted.", what, len(pairs), MaxReaches)
 		return nil, false
 	}
 	out := make([]entry, 0, len(pairs))
@@ -294,7 +234,7 @@ func (d *diagnoser) object(expr hcl.Expression, what, example string) ([]entry, 
 			continue
 		}
 		if first, dup := seen[k]; dup {
-			d.errorf(p.Key.Range(), "Duplicate key", "%q appears twice in %s (first at line %d); keep one entry.", k, what, first.Start.Line)
+			d.Errorf(p.Key.Range(), "Duplicate key", "%q appears twice in %s (first at line %d); keep one entry.", k, what, first.Start.Line)
 			ok = false
 			continue
 		}
@@ -334,9 +274,5 @@ func suggestWithin(got string, candidates []string, budget *int) string {
 	if len(got) <= 3 {
 		maxDist = 1
 	}
-	best := suggestpkg.Closest(got, candidates, maxDist, budget)
-	if best == "" {
-		return ""
-	}
-	return fmt.Sprintf(" Did you mean %q?", best)
+	return hclkit.DidYouMean(suggestpkg.Closest(got, candidates, maxDist, budget))
 }

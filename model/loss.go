@@ -25,20 +25,20 @@ func (d *decoder) loss(b *hcl.Block) *Loss {
 	l.ReachName, _ = a.name("reach")
 	switch {
 	case a.has("node") && a.has("reach"):
-		d.errorf(a.m["reach"].NameRange, "Loss at a node and in a reach",
+		d.Errorf(a.m["reach"].NameRange, "Loss at a node and in a reach",
 			"%s names both a node and a reach; a loss is at a node (node = ...) or at a section change inside a reach (reach = ... and station = ...), not both.", a.what)
 	case a.has("station") && !a.has("reach"):
-		d.errorf(a.m["station"].NameRange, "Station without a reach",
+		d.Errorf(a.m["station"].NameRange, "Station without a reach",
 			"%s gives a station but no reach; add reach = \"...\" for a section change inside a reach, or write node = \"...\" for a loss at a node.", a.what)
 	case a.has("reach") && !a.has("station"):
-		d.errorf(b.Body.MissingItemRange(), "Missing required argument",
+		d.Errorf(b.Body.MissingItemRange(), "Missing required argument",
 			"%s is in reach %q and needs the station of the section change; add station = ....", a.what, l.ReachName)
 	}
 	if a.has("station") {
 		l.Station, _ = a.station("station")
 	}
 	if !a.has("contraction") && !a.has("expansion") {
-		d.errorf(b.Body.MissingItemRange(), "Missing loss coefficient",
+		d.Errorf(b.Body.MissingItemRange(), "Missing loss coefficient",
 			"%s needs contraction (where the velocity head rises downstream) or expansion (where it falls), or both; e.g. contraction = 0.1, expansion = 0.2 for a warped transition.", a.what)
 	}
 	l.Contraction = d.lossCoefficient(a, "contraction")
@@ -54,7 +54,7 @@ func (d *decoder) lossCoefficient(a attrSet, name string) float64 {
 		return 0
 	}
 	if k < 0 || k > maxLossCoefficient {
-		d.errorf(a.m[name].Expr.Range(), "Loss coefficient out of range",
+		d.Errorf(a.m[name].Expr.Range(), "Loss coefficient out of range",
 			"%s of %s is %g; a transition loss coefficient lies between 0 and %g (about 0.1 to 0.5 for channel transitions, 1.0 for an outlet into a pool).",
 			name, a.what, k, maxLossCoefficient)
 		return 0
@@ -72,7 +72,7 @@ func (d *decoder) resolveLosses() {
 		switch {
 		case l.Default():
 			if m.DefaultLoss != nil {
-				d.errorf(l.DefRange, "Second default loss",
+				d.Errorf(l.DefRange, "Second default loss",
 					"loss %q names neither a node nor a reach, so it is the model-wide default, but loss %q (line %d) already is; keep one default, or give this one node = ... or reach = ... and station = ....",
 					l.Name, m.DefaultLoss.Name, m.DefaultLoss.DefRange.Start.Line)
 				continue
@@ -114,13 +114,13 @@ func (d *decoder) checkLossStation(l *Loss) {
 			}
 			where = "its sections change at station " + strings.Join(list, ", ")
 		}
-		d.errorf(l.At("station"), "No section change at the station",
+		d.Errorf(l.At("station"), "No section change at the station",
 			"loss %q is at station %g of reach %q, where the section does not change; a loss inside a reach stands where a segment begins or ends and the section changes: %s. For a loss between reaches use node = ....",
 			l.Name, l.Station, r.Name, where)
 		return
 	}
 	if prev := r.LossAt(l.Station); prev != nil {
-		d.errorf(l.At("station"), "Two losses at one place",
+		d.Errorf(l.At("station"), "Two losses at one place",
 			"loss %q is at station %g of reach %q, where loss %q (line %d) already is; keep one.",
 			l.Name, l.Station, r.Name, prev.Name, prev.DefRange.Start.Line)
 		return
@@ -160,19 +160,19 @@ func (d *decoder) attachNodeLosses(nodes map[string]*Node) {
 				names = append(names, name)
 			}
 			slices.Sort(names)
-			d.errorf(l.At("node"), "Unknown node",
+			d.Errorf(l.At("node"), "Unknown node",
 				"loss %q names node %q, which no reach starts or ends at; use the from or to node of a reach.%s",
 				l.Name, l.NodeName, suggest(l.NodeName, names))
 			continue
 		}
 		if len(n.In) == 0 {
-			d.errorf(l.At("node"), "Loss at a headwater node",
+			d.Errorf(l.At("node"), "Loss at a headwater node",
 				"loss %q is at node %q, where reach %q starts and no reach ends, so there is no flow arriving to lose head; put the loss at a node between two reaches, or at a section change inside the reach.",
 				l.Name, l.NodeName, n.Out.Name)
 			continue
 		}
 		if n.Loss != nil {
-			d.errorf(l.At("node"), "Two losses at one place",
+			d.Errorf(l.At("node"), "Two losses at one place",
 				"loss %q is at node %q, where loss %q (line %d) already is; keep one.",
 				l.Name, l.NodeName, n.Loss.Name, n.Loss.DefRange.Start.Line)
 			continue

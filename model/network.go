@@ -34,13 +34,13 @@ func (d *decoder) network() {
 			continue
 		}
 		if r.From == r.To {
-			d.errorf(r.At("to"), "Reach ends where it starts",
+			d.Errorf(r.At("to"), "Reach ends where it starts",
 				"reach %q runs from node %q to the same node; give it a different downstream node.", r.Name, r.To)
 			continue
 		}
 		f, t := node(r.From), node(r.To)
 		if f.Out != nil {
-			d.errorf(r.At("from"), "Two reaches leave one node",
+			d.Errorf(r.At("from"), "Two reaches leave one node",
 				"reach %q and reach %q (line %d) both start at node %q; the network must be a tree in which water leaves each node by one reach. Rename one start node or join the reaches downstream.",
 				r.Name, f.Out.Name, f.Out.DefRange.Start.Line, r.From)
 			continue
@@ -48,7 +48,7 @@ func (d *decoder) network() {
 		f.Out = r
 		t.In = append(t.In, r)
 	}
-	if d.diags.HasErrors() {
+	if d.Diags.HasErrors() {
 		return
 	}
 	for _, r := range m.Reaches {
@@ -88,14 +88,14 @@ func (d *decoder) network() {
 				break
 			}
 		}
-		d.errorf(at, "More than one outlet",
+		d.Errorf(at, "More than one outlet",
 			"Nodes %s have no reach leaving them, so the network falls apart into %d separate parts. Connect the parts so that all water leaves through one outlet node, or put each part in its own model.%s",
 			strings.Join(list, ", "), len(outlets), hint)
 		return
 	}
 	net.Outlet = outlets[0]
 	if in := net.Outlet.In; len(in) > 1 {
-		d.errorf(in[1].At("to"), "Several reaches end at the outlet",
+		d.Errorf(in[1].At("to"), "Several reaches end at the outlet",
 			"reach %q and reach %q both end at outlet node %q; the outlet control applies to one reach. End them at a junction node and add one reach from there to the outlet.",
 			in[0].Name, in[1].Name, net.Outlet.Name)
 		return
@@ -159,7 +159,7 @@ func (d *decoder) cycles() bool {
 				names = append(names, fmt.Sprintf("%q", x.Name))
 			}
 			names = append(names, names[0])
-			d.errorf(first.At("to"), "Reaches form a loop",
+			d.Errorf(first.At("to"), "Reaches form a loop",
 				"Following the flow, reaches %s come back to where they started; a channel network must be a tree. Change the to node of one of them.",
 				strings.Join(names, " → "))
 			found = true
@@ -208,11 +208,11 @@ func (d *decoder) events() {
 		}
 		for _, en := range ev.Entrances {
 			if up := en.Reach.Upstream; len(up) > 0 {
-				d.errorf(en.Range, "Entrance on a reach with inflow from upstream",
+				d.Errorf(en.Range, "Entrance on a reach with inflow from upstream",
 					"reach %q receives the flow of reach %q, so its upstream depth comes from the junction; an entrance depth applies to headwater reaches only. Remove the entry.",
 					en.ReachName, up[0].Name)
 			} else if g := en.Reach.Gate; g != nil {
-				d.warnf(en.Range, "Entrance depth below a gate",
+				d.Warnf(en.Range, "Entrance depth below a gate",
 					"reach %q starts at gate %q, which controls the depth there; this entrance depth is not used. Remove it.", en.ReachName, g.Name)
 			}
 		}
@@ -228,7 +228,7 @@ func (d *decoder) events() {
 		for _, r := range m.Reaches {
 			dry := ev.Discharge[r.Index] == 0
 			if dry && (r.Downstream == nil || ev.Discharge[r.Downstream.Index] > 0) {
-				d.errorf(ev.At("inflow"), "Reach receives no discharge",
+				d.Errorf(ev.At("inflow"), "Reach receives no discharge",
 					"In %s no water reaches reach %q; add an inflow to %q or to a reach upstream of it.", what, r.Name, r.Name)
 			}
 		}
@@ -240,13 +240,13 @@ func (d *decoder) outletControl(ev *Event, out *Reach, what string) {
 	switch ev.Outlet.Kind {
 	case OutletElevation:
 		if ev.Outlet.Value <= out.InvertDown {
-			d.errorf(ev.Outlet.Range, "Outlet level at or below the invert",
+			d.Errorf(ev.Outlet.Range, "Outlet level at or below the invert",
 				"The outlet elevation of %s is %g, not above the downstream invert %g of reach %q; give a water-surface elevation above the invert, or a depth.",
 				what, ev.Outlet.Value, out.InvertDown, out.Name)
 		}
 	case OutletNormal:
 		if out.Slope <= 0 {
-			d.errorf(ev.Outlet.Range, "No normal depth at the outlet",
+			d.Errorf(ev.Outlet.Range, "No normal depth at the outlet",
 				"Outlet reach %q has a bed slope of %g, and normal depth exists only on a falling bed; use a depth, an elevation or condition = \"critical\".",
 				out.Name, out.Slope)
 		}

@@ -2,15 +2,14 @@ package model
 
 import (
 	"bytes"
-	"cmp"
 	"errors"
 	"fmt"
 	"io/fs"
 	"path/filepath"
 	"slices"
 	"strings"
-	"unicode/utf8"
 
+	"github.com/chanlint/chanlint/model/hclkit"
 	"github.com/chanlint/chanlint/model/safefile"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclparse"
@@ -72,8 +71,8 @@ func ReadFile(filename string) ([]byte, hcl.Diagnostics) {
 				detail = pe.Err.Error()
 			}
 		}
-		d.errorf(start, summary, "%s", detail)
-		return nil, d.diags
+		d.Errorf(start, summary, "%s", detail)
+		return nil, d.Diags
 	}
 	return src, nil
 }
@@ -83,8 +82,8 @@ func ReadFile(filename string) ([]byte, hcl.Diagnostics) {
 // call. Warnings may accompany a valid model.
 func Parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	m, diags := parse(filepath.ToSlash(filename), src)
-	sortDiagnostics(diags)
-	return m, boundDiagnostics(diags)
+	hclkit.SortByPosition(diags)
+	return m, hclkit.Bound(diags, diagnosticLimits)
 }
 
 // Bounds of the text of one file's diagnostics, so that a 4 MiB file
@@ -97,47 +96,15 @@ const (
 	MaxDiagnosticBytes = 256 << 10
 )
 
-// boundDiagnostics applies MaxDiagnostics and the byte bounds to diags
-// (sorted by position).
-func boundDiagnostics(diags hcl.Diagnostics) hcl.Diagnostics {
-	total := 0
-	for i, d := range diags {
-		d.Summary = clip(d.Summary, MaxSummaryBytes)
-		d.Detail = clip(d.Detail, MaxDetailBytes)
-		total += len(d.Summary) + len(d.Detail)
-		if i < MaxDiagnostics && total <= MaxDiagnosticBytes {
-			continue
-		}
-		more := &hcl.Diagnostic{
-			Severity: hcl.DiagError,
-			Summary:  "Too many problems",
-			Detail:   fmt.Sprintf("%d more problems from here on are not shown; fix the ones above and check again.", len(diags)-i),
-			Subject:  d.Subject,
-		}
-		return append(diags[:i:i], more)
-	}
-	return diags
-}
-
-// clip shortens s to at most n bytes, on a rune boundary, marking the cut
-// with an ellipsis and the number of bytes left out.
-func clip(s string, n int) string {
-	if len(s) <= n {
-		return s
-	}
-	cut := n - 40
-	for cut > 0 && !utf8.RuneStart(s[cut]) {
-		cut--
-	}
-	return fmt.Sprintf("%s… (%d more bytes)", s[:cut], len(s)-cut)
-}
+// diagnosticLimits are the bounds above as hclkit.Bound takes them.
+var diagnosticLimits = hclkit.Limits{Count: MaxDiagnostics, Summary: MaxSummaryBytes, Detail: MaxDetailBytes, Bytes: MaxDiagnosticBytes}
 
 func parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	start := hcl.Range{Filename: filename, Start: hcl.InitialPos, End: hcl.InitialPos}
 	var d diagnoser
 	if len(src) > MaxFileSize {
-		d.errorf(start, "Model file too large", "The file is larger than %d MiB; split the network into smaller models.", MaxFileSize>>20)
-		return nil, d.diags
+		d.Errorf(start, "Model file too large", "The file is larger than %d MiB; split the network into smaller models.", MaxFileSize>>20)
+		return nil, d.Diags
 	}
 	if diags := CheckNesting(filename, src); diags.HasErrors() {
 		return nil, diags
@@ -146,44 +113,26 @@ func parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	if diags.HasErrors() {
 		return nil, diags
 	}
-	d.diags = diags
+	d.Diags = diags
 	m := &Model{File: filename, Source: src}
 	dec := &decoder{diagnoser: &d, m: m}
 	// Decoding and reference checks run together so that one run reports
 	// both kinds of problem; the graph needs a clean file.
 	dec.root(file.Body)
 	dec.resolve()
-	if d.diags.HasErrors() {
-		return nil, d.diags
+	if d.Diags.HasErrors() {
+		return nil, d.Diags
 	}
 	dec.network()
-	if d.diags.HasErrors() {
-		return nil, d.diags
+	if d.Diags.HasErrors() {
+		return nil, d.Diags
 	}
 	dec.culvertLevels()
 	dec.events()
-	if d.diags.HasErrors() {
-		return nil, d.diags
+	if d.Diags.HasErrors() {
+		return nil, d.Diags
 	}
-	return m, d.diags
-}
-
-// sortDiagnostics orders diagnostics by position so that a file's
-// problems read from top to bottom.
-func sortDiagnostics(diags hcl.Diagnostics) {
-	slices.SortStableFunc(diags, func(a, b *hcl.Diagnostic) int {
-		if a.Subject == nil || b.Subject == nil {
-			return cmp.Compare(btoi(a.Subject != nil), btoi(b.Subject != nil))
-		}
-		return cmp.Compare(a.Subject.Start.Byte, b.Subject.Start.Byte)
-	})
-}
-
-func btoi(b bool) int {
-	if b {
-		return 1
-	}
-	return 0
+	return m, d.Diags
 }
 
 // Bounds of the pre-scan (see CheckNesting) besides MaxNesting. A model
@@ -566,7 +515,7 @@ var blockLimits = map[string]int{
 
 func (d *decoder) root(body hcl.Body) {
 	content, diags := bodyContent(body, rootSchema)
-	d.diags = append(d.diags, diags...)
+	d.Diags = append(d.Diags, diags...)
 	m := d.m
 	if a, ok := content.Attributes["units"]; ok {
 		m.UnitsRange = a.Expr.Range()
@@ -575,7 +524,7 @@ func (d *decoder) root(body hcl.Body) {
 			case SI, US:
 				m.Units = Units(s)
 			default:
-				d.errorf(a.Expr.Range(), "Unknown units",
+				d.Errorf(a.Expr.Range(), "Unknown units",
 					"units must be \"si\" (metres, m³/s) or \"us\" (feet, ft³/s), not %q.", s)
 			}
 		}
@@ -588,7 +537,7 @@ func (d *decoder) root(body hcl.Body) {
 		count[b.Type]++
 		if limit := blockLimits[b.Type]; count[b.Type] > limit {
 			if count[b.Type] == limit+1 {
-				d.errorf(b.DefRange, "Too many blocks",
+				d.Errorf(b.DefRange, "Too many blocks",
 					"A model may hold at most %d %s blocks; split the network into several models.", limit, b.Type)
 			}
 			continue
@@ -617,10 +566,10 @@ func (d *decoder) root(body hcl.Body) {
 		}
 	}
 	if count["reach"] == 0 {
-		d.errorf(body.MissingItemRange(), "No reach", "A model needs at least one reach block; add one, e.g. reach \"main\" { from = \"a\" ... }.")
+		d.Errorf(body.MissingItemRange(), "No reach", "A model needs at least one reach block; add one, e.g. reach \"main\" { from = \"a\" ... }.")
 	}
 	if count["event"] == 0 {
-		d.errorf(body.MissingItemRange(), "No event", "A model needs at least one event block with the inflows and the outlet control; add one.")
+		d.Errorf(body.MissingItemRange(), "No event", "A model needs at least one event block with the inflows and the outlet control; add one.")
 	}
 }
 
@@ -718,7 +667,7 @@ func (d *decoder) attrs(b *hcl.Block, schema *hcl.BodySchema, src *Src) (attrSet
 	} else {
 		var diags hcl.Diagnostics
 		content, diags = b.Body.Content(schema)
-		d.diags = append(d.diags, diags...)
+		d.Diags = append(d.Diags, diags...)
 		m = make(hclsyntax.Attributes, len(content.Attributes))
 		for name, a := range content.Attributes {
 			m[name] = syntaxAttr(a)
@@ -788,7 +737,7 @@ func (a attrSet) positive(name, unit string) (float64, bool) {
 		return 0, false
 	}
 	if v <= 0 {
-		a.d.errorf(a.m[name].Expr.Range(), "Value must be positive",
+		a.d.Errorf(a.m[name].Expr.Range(), "Value must be positive",
 			"%s of %s is %g; it must be greater than 0%s.", name, a.what, v, unit)
 		return 0, false
 	}
@@ -803,7 +752,7 @@ func (a attrSet) station(name string) (float64, bool) {
 		return 0, false
 	}
 	if v < 0 {
-		a.d.errorf(a.m[name].Expr.Range(), "Station outside the reach",
+		a.d.Errorf(a.m[name].Expr.Range(), "Station outside the reach",
 			"%s of %s is %g; stations run from 0 at the upstream end of the reach to its length.", name, a.what, v)
 		return 0, false
 	}
@@ -814,7 +763,7 @@ func (a attrSet) station(name string) (float64, bool) {
 func (a attrSet) require(body hcl.Body, names ...string) {
 	for _, n := range names {
 		if !a.has(n) {
-			a.d.errorf(body.MissingItemRange(), "Missing required argument",
+			a.d.Errorf(body.MissingItemRange(), "Missing required argument",
 				"%s needs %s; add it to the block.", a.what, n)
 		}
 	}

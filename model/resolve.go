@@ -18,7 +18,7 @@ func index[T any](d *decoder, kind string, items []T, name func(T) (string, hcl.
 			continue
 		}
 		if f, dup := first[n]; dup {
-			d.errorf(rng, "Duplicate name",
+			d.Errorf(rng, "Duplicate name",
 				"A %s named %q is already defined at line %d; rename one of them.", kind, n, f.Start.Line)
 			continue
 		}
@@ -66,7 +66,7 @@ func (d *decoder) lookupReach(name string, rng hcl.Range, what string) *Reach {
 	}
 	r, ok := d.reaches[name]
 	if !ok {
-		d.errorf(rng, "Unknown reach", "%s names reach %q, which is not defined; use one of the reach names of this file.%s",
+		d.Errorf(rng, "Unknown reach", "%s names reach %q, which is not defined; use one of the reach names of this file.%s",
 			what, name, d.suggestName(name, "reach"))
 	}
 	return r
@@ -83,7 +83,7 @@ func (d *decoder) checkSpan(r *Reach, src Src, from, to float64, what string) bo
 		v    float64
 	}{{"from_station", from}, {"to_station", to}} {
 		if s.v > r.Length {
-			d.errorf(src.At(s.attr), "Station outside the reach",
+			d.Errorf(src.At(s.attr), "Station outside the reach",
 				"%s of %s is %g, beyond the end of reach %q (length %g); stations run from 0 to the reach length.",
 				s.attr, what, s.v, r.Name, r.Length)
 			ok = false
@@ -112,7 +112,7 @@ func (d *decoder) resolve() {
 	section := func(name string, rng hcl.Range, what string) *Section {
 		s, ok := d.sections[name]
 		if !ok && name != "" {
-			d.errorf(rng, "Unknown section", "%s uses section %q, which is not defined; define it or use one of the section names of this file.%s",
+			d.Errorf(rng, "Unknown section", "%s uses section %q, which is not defined; define it or use one of the section names of this file.%s",
 				what, name, d.suggestName(name, "section"))
 		}
 		return s
@@ -129,7 +129,7 @@ func (d *decoder) resolve() {
 		for i := 1; i < len(r.Segments); i++ {
 			prev, s := r.Segments[i-1], r.Segments[i]
 			if s.FromStation < prev.ToStation {
-				d.errorf(s.At("from_station"), "Overlapping segments",
+				d.Errorf(s.At("from_station"), "Overlapping segments",
 					"This segment of reach %q starts at station %g, inside the segment of line %d (stations %g to %g); make them meet end to end.",
 					r.Name, s.FromStation, prev.DefRange.Start.Line, prev.FromStation, prev.ToStation)
 			}
@@ -141,14 +141,14 @@ func (d *decoder) resolve() {
 			continue
 		}
 		if prev := g.Reach.Gate; prev != nil {
-			d.errorf(g.At("reach"), "More than one gate on a reach",
+			d.Errorf(g.At("reach"), "More than one gate on a reach",
 				"Reach %q already has gate %q (line %d) at its upstream end; a reach takes one gate. Split the reach at the second gate.",
 				g.ReachName, prev.Name, prev.DefRange.Start.Line)
 			continue
 		}
 		g.Reach.Gate = g
 		if s := g.Reach.SectionAt(0); s != nil && s.Height > 0 && g.Opening >= s.Height {
-			d.warnf(g.At("opening"), "Gate opening above the section",
+			d.Warnf(g.At("opening"), "Gate opening above the section",
 				"gate %q opens %g %s, not less than the height %g of section %q at the head of reach %q, so it cannot hold water back. Check the opening.",
 				g.Name, g.Opening, d.m.Units.Length(), s.Height, s.Name, g.ReachName)
 		}
@@ -189,14 +189,14 @@ func (d *decoder) resolve() {
 		byStation(r.Bends, func(b *Bend) float64 { return b.FromStation })
 		for i := 1; i < len(r.Basins); i++ {
 			if prev, b := r.Basins[i-1], r.Basins[i]; b.FromStation < prev.ToStation {
-				d.warnf(b.At("from_station"), "Overlapping basins",
+				d.Warnf(b.At("from_station"), "Overlapping basins",
 					"Basin %q overlaps basin %q (line %d) on reach %q; they are treated as one hardened zone. Merge them into one block.",
 					b.Name, prev.Name, prev.DefRange.Start.Line, r.Name)
 			}
 		}
 		for i := 1; i < len(r.Bends); i++ {
 			if prev, b := r.Bends[i-1], r.Bends[i]; b.FromStation < prev.ToStation {
-				d.errorf(b.At("from_station"), "Overlapping bends",
+				d.Errorf(b.At("from_station"), "Overlapping bends",
 					"Bend %q overlaps bend %q (line %d) on reach %q; a station has one centreline radius. Make the bends meet end to end.",
 					b.Name, prev.Name, prev.DefRange.Start.Line, r.Name)
 			}

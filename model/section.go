@@ -51,7 +51,7 @@ func (d *decoder) section(b *hcl.Block) *Section {
 	s.Shape = Shape(shape)
 	spec, known := shapeAttrs[s.Shape]
 	if !known {
-		d.errorf(a.m["shape"].Expr.Range(), "Unknown section shape",
+		d.Errorf(a.m["shape"].Expr.Range(), "Unknown section shape",
 			"shape must be one of %s, not %q.%s", strings.Join(shapeNames, ", "), shape, suggest(shape, shapeNames))
 		return s
 	}
@@ -68,7 +68,7 @@ func (d *decoder) section(b *hcl.Block) *Section {
 			if s.Shape == Circle && n == "height" {
 				hint = "a circle's height is its diameter; remove it"
 			}
-			d.errorf(a.m[n].NameRange, "Argument not used by this shape",
+			d.Errorf(a.m[n].NameRange, "Argument not used by this shape",
 				"%s is not used by a %s section; %s.", n, s.Shape, hint)
 		}
 	}
@@ -111,11 +111,11 @@ func (a attrSet) sideSlope(positive bool) (float64, bool) {
 	rng := a.m["side_slope"].Expr.Range()
 	switch {
 	case positive && v <= 0:
-		a.d.errorf(rng, "Value must be positive",
+		a.d.Errorf(rng, "Value must be positive",
 			"side_slope of %s is %g; a triangle needs a positive side slope (horizontal run per unit rise).", a.what, v)
 		return 0, false
 	case v < 0:
-		a.d.errorf(rng, "Negative side slope",
+		a.d.Errorf(rng, "Negative side slope",
 			"side_slope of %s is %g; it is the horizontal run per unit rise and must be 0 or more.", a.what, v)
 		return 0, false
 	}
@@ -137,15 +137,15 @@ func (a attrSet) manning(expr hcl.Expression) (float64, bool) {
 	}
 	switch {
 	case n <= 0:
-		a.d.errorf(expr.Range(), "Value must be positive",
+		a.d.Errorf(expr.Range(), "Value must be positive",
 			"roughness of %s is %g; Manning's n must be greater than 0 (concrete is about 0.013–0.015).", a.what, n)
 		return 0, false
 	case n > maxRoughness:
-		a.d.errorf(expr.Range(), "Implausible roughness",
+		a.d.Errorf(expr.Range(), "Implausible roughness",
 			"roughness of %s is %g; Manning's n above %g is outside published tables. Write n itself, not a percentage or another coefficient.", a.what, n, maxRoughness)
 		return 0, false
 	case n < minRoughness:
-		a.d.warnf(expr.Range(), "Unusually low roughness",
+		a.d.Warnf(expr.Range(), "Unusually low roughness",
 			"roughness of %s is %g; Manning's n below %g is smoother than any channel lining. Check the value.", a.what, n, minRoughness)
 	}
 	return n, true
@@ -172,11 +172,11 @@ func (d *decoder) points(s *Section, a attrSet) {
 		return
 	}
 	if len(items) > MaxPoints {
-		d.errorf(at.Expr.Range(), "Too many points", "%s has %d points; at most %d are accepted.", what, len(items), MaxPoints)
+		d.Errorf(at.Expr.Range(), "Too many points", "%s has %d points; at most %d are accepted.", what, len(items), MaxPoints)
 		return
 	}
 	if len(items) < 3 {
-		d.errorf(at.Expr.Range(), "Too few points", "%s has %d point(s); a cross-section needs at least 3 [offset, elevation] pairs.", what, len(items))
+		d.Errorf(at.Expr.Range(), "Too few points", "%s has %d point(s); a cross-section needs at least 3 [offset, elevation] pairs.", what, len(items))
 		return
 	}
 	pts := make([]Point, 0, len(items))
@@ -194,11 +194,11 @@ func (d *decoder) points(s *Section, a attrSet) {
 		prev := pts[i-1].Offset
 		switch {
 		case pair[0] < prev:
-			d.errorf(it.Range(), "Offsets out of order",
+			d.Errorf(it.Range(), "Offsets out of order",
 				"point %d of %s has offset %g, less than the %g before it; list the points from left to right.", i+1, a.what, pair[0], prev)
 			good = false
 		case pair[0] == prev && i >= 2 && pts[i-2].Offset == prev:
-			d.errorf(it.Range(), "Three points at one offset",
+			d.Errorf(it.Range(), "Three points at one offset",
 				"point %d of %s is the third at offset %g; a vertical wall needs two points, remove the middle one.", i+1, a.what, prev)
 			good = false
 		}
@@ -209,7 +209,7 @@ func (d *decoder) points(s *Section, a attrSet) {
 	s.Points = pts
 	first, last := pts[0], pts[len(pts)-1]
 	if last.Offset <= first.Offset {
-		d.errorf(at.Expr.Range(), "Section has no width", "%s all lie at one offset; spread them across the channel.", what)
+		d.Errorf(at.Expr.Range(), "Section has no width", "%s all lie at one offset; spread them across the channel.", what)
 		return
 	}
 	low := first.Elevation
@@ -227,14 +227,14 @@ func (d *decoder) points(s *Section, a attrSet) {
 			if last.Elevation < first.Elevation {
 				end, elev = "right", last.Elevation
 			}
-			d.errorf(a.m["height"].Expr.Range(), "Height above the ground",
+			d.Errorf(a.m["height"].Expr.Range(), "Height above the ground",
 				"height of %s is %g%s above its lowest point, but the surveyed ground at its %s end (elevation %g) is only %g%s above it: water above the ground would spill out of the section. Lower height to at most %g, or extend the points to higher ground.",
 				a.what, s.Height, d.unitSuffix(), end, elev, ground, d.unitSuffix(), ground)
 		}
 	} else {
 		s.Height = min(first.Elevation, last.Elevation) - low
 		if s.Height <= 0 {
-			d.errorf(at.Expr.Range(), "Section holds no water",
+			d.Errorf(at.Expr.Range(), "Section holds no water",
 				"The lowest point of %s is at an end, so the section has no depth below its lower end; add points that rise at both ends, or write height.", a.what)
 		}
 	}
@@ -243,10 +243,10 @@ func (d *decoder) points(s *Section, a attrSet) {
 		if pair, ok := d.pair(bk.Expr, label{"banks", a.what}, "[left offset, right offset]"); ok {
 			switch {
 			case pair[0] < first.Offset || pair[1] > last.Offset:
-				d.errorf(bk.Expr.Range(), "Bank outside the section",
+				d.Errorf(bk.Expr.Range(), "Bank outside the section",
 					"banks of %s are [%g, %g]; both must lie within the point offsets %g to %g.", a.what, pair[0], pair[1], first.Offset, last.Offset)
 			case pair[0] >= pair[1]:
-				d.errorf(bk.Expr.Range(), "Banks out of order",
+				d.Errorf(bk.Expr.Range(), "Banks out of order",
 					"banks of %s are [%g, %g]; write the left bank offset first, smaller than the right.", a.what, pair[0], pair[1])
 			default:
 				s.Banks = [2]float64{pair[0], pair[1]}
@@ -272,7 +272,7 @@ func (d *decoder) zoneRoughness(s *Section, a attrSet, r *hclsyntax.Attribute) {
 		return
 	}
 	if len(items) != 3 {
-		d.errorf(r.Expr.Range(), "Three roughness values required",
+		d.Errorf(r.Expr.Range(), "Three roughness values required",
 			"roughness of %s has %d values; write one n, or three: [left overbank, main channel, right overbank].", a.what, len(items))
 		return
 	}
@@ -290,7 +290,7 @@ func (d *diagnoser) pair(expr hcl.Expression, what label, form string) ([2]float
 		return [2]float64{}, false
 	}
 	if len(items) != 2 {
-		d.errorf(expr.Range(), "Two numbers required", "%s must be %s, two numbers; it has %d.", what, form, len(items))
+		d.Errorf(expr.Range(), "Two numbers required", "%s must be %s, two numbers; it has %d.", what, form, len(items))
 		return [2]float64{}, false
 	}
 	var out [2]float64

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/hclkit"
 	"github.com/chanlint/chanlint/model/safefile"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
@@ -79,36 +80,36 @@ func ParseApprovals(filename string, src []byte) ([]Approval, hcl.Diagnostics) {
 		return nil, pd
 	}
 	content, cd := file.Body.Content(approvalsFileSchema)
-	d := &decoder{diags: cd}
+	d := &decoder{Diagnostics: hclkit.Diagnostics{Diags: cd}}
 	var out []Approval
 	for i, b := range content.Blocks {
 		if i == MaxApprovals {
-			d.errorf(b.DefRange, "Too many approvals", "An approvals file holds at most %d approval blocks.", MaxApprovals)
+			d.Errorf(b.DefRange, "Too many approvals", "An approvals file holds at most %d approval blocks.", MaxApprovals)
 			break
 		}
 		if a, ok := d.approval(b); ok {
 			out = append(out, a)
 		}
 	}
-	if d.diags.HasErrors() {
-		return nil, d.diags
+	if d.Diags.HasErrors() {
+		return nil, d.Diags
 	}
-	return out, d.diags
+	return out, d.Diags
 }
 
 func (d *decoder) approval(b *hcl.Block) (Approval, bool) {
 	a := Approval{DefRange: b.DefRange}
 	content, diags := b.Body.Content(approvalSchema)
-	d.diags = append(d.diags, diags...)
+	d.Diags = append(d.Diags, diags...)
 	if diags.HasErrors() {
 		return a, false
 	}
-	before := len(d.diags)
+	before := len(d.Diags)
 	text := func(name string, dst *string) {
 		if at := content.Attributes[name]; at != nil {
 			if s, ok := d.str(at); ok {
 				if strings.TrimSpace(s) == "" {
-					d.errorf(at.Expr.Range(), "Empty "+name, "Write the %s; an approval names what it accepts.", name)
+					d.Errorf(at.Expr.Range(), "Empty "+name, "Write the %s; an approval names what it accepts.", name)
 				}
 				*dst = s
 			}
@@ -123,25 +124,25 @@ func (d *decoder) approval(b *hcl.Block) (Approval, bool) {
 		if at := content.Attributes[name]; at != nil {
 			if v, ok := d.number(at.Expr, name); ok {
 				if v < 0 {
-					d.errorf(at.Expr.Range(), "Invalid station", "%s is %g; stations run from 0 at the upstream end of the reach.", name, v)
+					d.Errorf(at.Expr.Range(), "Invalid station", "%s is %g; stations run from 0 at the upstream end of the reach.", name, v)
 				}
 				*dst = v
 			}
 		}
 	}
 	if at := content.Attributes["to_station"]; at != nil && a.ToStation < a.FromStation {
-		d.errorf(at.Expr.Range(), "Invalid station span", "to_station %g is before from_station %g.", a.ToStation, a.FromStation)
+		d.Errorf(at.Expr.Range(), "Invalid station span", "to_station %g is before from_station %g.", a.ToStation, a.FromStation)
 	}
 	if at := content.Attributes["class"]; at != nil && content.Attributes["event"] != nil {
-		d.errorf(at.Expr.Range(), "Both event and class", "An approval names one event or one storm class, not both.")
+		d.Errorf(at.Expr.Range(), "Both event and class", "An approval names one event or one storm class, not both.")
 	}
 	if at := content.Attributes["class"]; at != nil && a.Class != "" && !model.IsClassWord(a.Class) {
-		d.errorf(at.Expr.Range(), "Invalid class word", "%q is not a class word (letters, digits, \"-\" or \"_\").", a.Class)
+		d.Errorf(at.Expr.Range(), "Invalid class word", "%q is not a class word (letters, digits, \"-\" or \"_\").", a.Class)
 	}
 	if at := content.Attributes["date"]; at != nil && a.Date != "" && !dateRe.MatchString(a.Date) {
-		d.errorf(at.Expr.Range(), "Invalid date", "date must be written YYYY-MM-DD, e.g. \"2026-11-30\"; got %q.", a.Date)
+		d.Errorf(at.Expr.Range(), "Invalid date", "date must be written YYYY-MM-DD, e.g. \"2026-11-30\"; got %q.", a.Date)
 	}
-	return a, !d.diags[before:].HasErrors()
+	return a, !d.Diags[before:].HasErrors()
 }
 
 // ModelMatches reports whether the approval names a model file: the

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/hclkit"
 	"github.com/chanlint/chanlint/model/suggest"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
@@ -73,46 +74,28 @@ type own struct {
 
 // decoder accumulates the diagnostics of one file.
 type decoder struct {
-	lang  *Language
-	diags hcl.Diagnostics
-}
-
-func (d *decoder) errorf(rng hcl.Range, summary, format string, args ...any) {
-	d.diags = append(d.diags, &hcl.Diagnostic{
-		Severity: hcl.DiagError,
-		Summary:  summary,
-		Detail:   fmt.Sprintf(format, args...),
-		Subject:  rng.Ptr(),
-	})
-}
-
-func (d *decoder) warnf(rng hcl.Range, summary, format string, args ...any) {
-	d.diags = append(d.diags, &hcl.Diagnostic{
-		Severity: hcl.DiagWarning,
-		Summary:  summary,
-		Detail:   fmt.Sprintf(format, args...),
-		Subject:  rng.Ptr(),
-	})
+	lang *Language
+	hclkit.Diagnostics
 }
 
 // decodeFile decodes the single policy block of a parsed file. Expressions
 // are evaluated without an EvalContext: no variables, no functions.
 func (d *decoder) decodeFile(file *hcl.File, name string) *own {
 	content, diags := file.Body.Content(policyFileSchema)
-	d.diags = append(d.diags, diags...)
+	d.Diags = append(d.Diags, diags...)
 	if len(content.Blocks) == 0 {
 		misspelt := false
 		for _, dg := range diags {
 			misspelt = misspelt || dg.Summary == "Unsupported block type"
 		}
 		if !misspelt {
-			d.errorf(file.Body.MissingItemRange(), "Missing policy block",
+			d.Errorf(file.Body.MissingItemRange(), "Missing policy block",
 				`A policy file holds one block: policy "NAME" { units = "si" ... }.`)
 		}
 		return nil
 	}
 	for _, extra := range content.Blocks[1:] {
-		d.errorf(extra.DefRange, "More than one policy block",
+		d.Errorf(extra.DefRange, "More than one policy block",
 			"A policy file holds exactly one policy block; the first is at line %d. Put each policy in its own file and join them with extends.",
 			content.Blocks[0].DefRange.Start.Line)
 	}
@@ -128,10 +111,10 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 		DefRange:   block.DefRange,
 	}, disabled: map[string]bool{}}
 	if strings.TrimSpace(o.policy.Name) == "" {
-		d.errorf(block.LabelRanges[0], "Empty policy name", "Give the policy a name, e.g. policy \"county-drainage\".")
+		d.Errorf(block.LabelRanges[0], "Empty policy name", "Give the policy a name, e.g. policy \"county-drainage\".")
 	}
 	content, diags := block.Body.Content(d.lang.bodySchema())
-	d.diags = append(d.diags, diags...)
+	d.Diags = append(d.Diags, diags...)
 
 	if a := content.Attributes["units"]; a != nil {
 		if s, ok := d.enum(a, "units", []string{string(model.SI), string(model.US)}); ok {
@@ -164,7 +147,7 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 	if a := content.Attributes["extends"]; a != nil {
 		if s, ok := d.str(a); ok {
 			if strings.TrimSpace(s) == "" {
-				d.errorf(a.Expr.Range(), "Empty extends", "Name a built-in pack (%s) or a policy file path relative to this file.", strings.Join(PackNames(), ", "))
+				d.Errorf(a.Expr.Range(), "Empty extends", "Name a built-in pack (%s) or a policy file path relative to this file.", strings.Join(PackNames(), ", "))
 			} else {
 				o.extends, o.hasExtends = s, true
 			}
@@ -176,13 +159,13 @@ func (d *decoder) decodePolicy(block *hcl.Block, name string) *own {
 	for _, b := range content.Blocks {
 		spec := d.lang.Spec(b.Type)
 		if spec == nil || spec.AlwaysOn {
-			d.errorf(b.DefRange, "Rule is always on",
+			d.Errorf(b.DefRange, "Rule is always on",
 				"The %q rule always runs and cannot be configured or switched off; remove this block.", b.Type)
 			continue
 		}
 		rc, enabled := d.decodeRule(spec, b, name) // a duplicate too, for its own problems
 		if prev := sameAs(seen[b.Type], rc); prev != nil {
-			d.errorf(b.DefRange, "Duplicate rule block",
+			d.Errorf(b.DefRange, "Duplicate rule block",
 				"The %s rule is already configured at line %d for %s; a policy file configures each rule once per selection (give this block a selector, e.g. reach_classes, to apply it to part of the model).",
 				b.Type, prev.DefRange.Start.Line, rc.SelectorText())
 			continue
@@ -219,9 +202,9 @@ func (c *RuleConfig) with(rc *RuleConfig) *RuleConfig {
 // decodeRule decodes one rule block generically from its spec; enabled is
 // false for enabled = false.
 func (d *decoder) decodeRule(spec *RuleSpec, block *hcl.Block, file string) (rc *RuleConfig, enabled bool) {
-	before := len(d.diags)
+	before := len(d.Diags)
 	content, diags := block.Body.Content(ruleSchema(spec))
-	d.diags = append(d.diags, diags...)
+	d.Diags = append(d.Diags, diags...)
 	rc = &RuleConfig{
 		Rule:     spec.ID,
 		Spec:     spec,
@@ -285,8 +268,8 @@ func (d *decoder) decodeRule(spec *RuleSpec, block *hcl.Block, file string) (rc 
 	}
 	if enabled && !diags.HasErrors() {
 		d.required(spec, content)
-		if spec.NeedsEvents && !d.diags[before:].HasErrors() && rc.Events == nil && !rc.Select.HasReturnPeriod && rc.Select.EventClasses == nil {
-			d.errorf(block.DefRange, fmt.Sprintf("Missing %s events", spec.ID),
+		if spec.NeedsEvents && !d.Diags[before:].HasErrors() && rc.Events == nil && !rc.Select.HasReturnPeriod && rc.Select.EventClasses == nil {
+			d.Errorf(block.DefRange, fmt.Sprintf("Missing %s events", spec.ID),
 				"The %s rule applies only to the events the policy names: write events = [...], return_period = [low, high] or event_classes = [...], e.g. return_period = [null, 2] for frequent flows.", spec.ID)
 		}
 	}
@@ -303,7 +286,7 @@ func (d *decoder) required(spec *RuleSpec, content *hcl.BodyContent) {
 	for i := range spec.Settings {
 		s := &spec.Settings[i]
 		if s.Required && content.Attributes[s.Name] == nil {
-			d.errorf(missing, fmt.Sprintf("Missing argument %q", s.Name),
+			d.Errorf(missing, fmt.Sprintf("Missing argument %q", s.Name),
 				"The %s rule needs %s.", spec.ID, s.Usage())
 		}
 	}
@@ -329,9 +312,9 @@ func (d *decoder) required(spec *RuleSpec, content *hcl.BodyContent) {
 			if g.Note != "" {
 				detail += "; " + g.Note
 			}
-			d.errorf(missing, fmt.Sprintf("Missing %s setting", spec.ID), "%s.", detail)
+			d.Errorf(missing, fmt.Sprintf("Missing %s setting", spec.ID), "%s.", detail)
 		case g.Need == AllOrNone && len(have) > 0 && len(lack) > 0:
-			d.errorf(missing, fmt.Sprintf("Missing %s setting", spec.ID),
+			d.Errorf(missing, fmt.Sprintf("Missing %s setting", spec.ID),
 				"%s go together: with %s also set %s.", joinWords(g.Settings, "and"), joinWords(have, "and"), joinWords(lack, "and"))
 		}
 	}
@@ -348,12 +331,12 @@ func (d *decoder) exprValue(expr hcl.Expression, name string, want cty.Type, wha
 		return cty.NilVal, false
 	}
 	v, diags := expr.Value(nil)
-	d.diags = append(d.diags, diags...)
+	d.Diags = append(d.Diags, diags...)
 	if diags.HasErrors() {
 		return cty.NilVal, false
 	}
 	if v.IsNull() || !v.IsWhollyKnown() || !v.Type().Equals(want) {
-		d.errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", name), "%s must be %s; got %s.", name, what, describe(v))
+		d.Errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", name), "%s must be %s; got %s.", name, what, describe(v))
 		return cty.NilVal, false
 	}
 	return v, true
@@ -366,65 +349,28 @@ func (d *decoder) exprValue(expr hcl.Expression, name string, want cty.Type, wha
 // policy may come from the repository under review, and for-expressions or
 // template directives could otherwise expand a short file into gigabytes.
 func (d *decoder) literal(expr hcl.Expression) bool {
+	return hclkit.Literal(expr, hclkit.Allow{}, d.rejectConstruct)
+}
+
+// rejectConstruct words the diagnostic of a construct literal found.
+func (d *decoder) rejectConstruct(c hclkit.Construct, e hcl.Expression) {
 	const only = "A policy holds literal values only: numbers, strings, true, false, null, lists [...] and objects { ... }."
-	switch e := expr.(type) {
-	case *hclsyntax.LiteralValueExpr:
-		return true
-	case *hclsyntax.ParenthesesExpr:
-		return d.literal(e.Expression)
-	case *hclsyntax.UnaryOpExpr:
-		if e.Op == hclsyntax.OpNegate {
-			return d.literal(e.Val)
-		}
-	case *hclsyntax.TemplateExpr:
-		ok := true
-		for _, part := range e.Parts {
-			if _, lit := part.(*hclsyntax.LiteralValueExpr); !lit {
-				if d.literal(part) {
-					d.errorf(part.Range(), "Templates not allowed", "Write the text itself; ${...} interpolation is not evaluated in a policy.")
-				}
-				ok = false
-			}
-		}
-		return ok
-	case *hclsyntax.TemplateWrapExpr:
-		if d.literal(e.Wrapped) {
-			d.errorf(e.Wrapped.Range(), "Templates not allowed", "Write the value itself; ${...} interpolation is not evaluated in a policy.")
-		}
-		return false
-	case *hclsyntax.TemplateJoinExpr:
-		d.errorf(e.Range(), "Templates not allowed", "Template directives (%%{for}, %%{if}) are not evaluated in a policy; write the text itself.")
-		return false
-	case *hclsyntax.TupleConsExpr:
-		ok := true
-		for _, x := range e.Exprs {
-			ok = d.literal(x) && ok
-		}
-		return ok
-	case *hclsyntax.ObjectConsExpr:
-		ok := true
-		for _, item := range e.Items {
-			ok = d.literal(item.KeyExpr) && ok
-			ok = d.literal(item.ValueExpr) && ok
-		}
-		return ok
-	case *hclsyntax.ObjectConsKeyExpr:
-		if t, isName := e.Wrapped.(*hclsyntax.ScopeTraversalExpr); isName && !e.ForceNonLiteral && len(t.Traversal) == 1 {
-			return true // a bare key such as concrete is taken literally
-		}
-		return d.literal(e.Wrapped)
-	case *hclsyntax.FunctionCallExpr:
-		d.errorf(e.Range(), "Function calls not allowed", "Functions may not be called in a policy. %s", only)
-		return false
-	case *hclsyntax.ScopeTraversalExpr:
-		d.errorf(e.Traversal.SourceRange(), "Variables not allowed", "Variables may not be used in a policy; quote a text value. %s", only)
-		return false
-	case *hclsyntax.ForExpr:
-		d.errorf(e.Range(), "For expressions not allowed", "%s", only)
-		return false
+	switch c {
+	case hclkit.Interpolation:
+		d.Errorf(e.Range(), "Templates not allowed", "Write the text itself; ${...} interpolation is not evaluated in a policy.")
+	case hclkit.LoneInterpolation:
+		d.Errorf(e.Range(), "Templates not allowed", "Write the value itself; ${...} interpolation is not evaluated in a policy.")
+	case hclkit.Directive:
+		d.Errorf(e.Range(), "Templates not allowed", "Template directives (%%{for}, %%{if}) are not evaluated in a policy; write the text itself.")
+	case hclkit.Call:
+		d.Errorf(e.Range(), "Function calls not allowed", "Functions may not be called in a policy. %s", only)
+	case hclkit.Variable:
+		d.Errorf(e.(*hclsyntax.ScopeTraversalExpr).Traversal.SourceRange(), "Variables not allowed", "Variables may not be used in a policy; quote a text value. %s", only)
+	case hclkit.For:
+		d.Errorf(e.Range(), "For expressions not allowed", "%s", only)
+	default:
+		d.Errorf(e.Range(), "Expressions not allowed", "%s", only)
 	}
-	d.errorf(expr.Range(), "Expressions not allowed", "%s", only)
-	return false
 }
 
 // describe names a value's kind for messages.
@@ -467,11 +413,8 @@ func (d *decoder) enum(a *hcl.Attribute, name string, allowed []string) (string,
 			return s, true
 		}
 	}
-	detail := fmt.Sprintf("%s must be one of %s; got %q.", name, quoteList(allowed), s)
-	if hint := suggestWord(s, allowed); hint != "" {
-		detail += fmt.Sprintf(" Did you mean %q?", hint)
-	}
-	d.errorf(a.Expr.Range(), fmt.Sprintf("Invalid %s", name), "%s", detail)
+	detail := fmt.Sprintf("%s must be one of %s; got %q.", name, quoteList(allowed), s) + hclkit.DidYouMean(suggestWord(s, allowed))
+	d.Errorf(a.Expr.Range(), fmt.Sprintf("Invalid %s", name), "%s", detail)
 	return "", false
 }
 
@@ -513,7 +456,7 @@ func (d *decoder) number(expr hcl.Expression, name string) (float64, bool) {
 	}
 	f, _ := v.AsBigFloat().Float64()
 	if math.IsInf(f, 0) {
-		d.errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", name), "%s is too large to be a finite number.", name)
+		d.Errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", name), "%s is too large to be a finite number.", name)
 		return 0, false
 	}
 	return f, true
@@ -526,7 +469,7 @@ func (d *decoder) bounded(a *hcl.Attribute, s *Setting) (float64, bool) {
 		return 0, false
 	}
 	if !s.Bounds.Admits(f) {
-		d.errorf(a.Expr.Range(), fmt.Sprintf("Invalid value for %q", a.Name), "%s must be %s; got %g.", a.Name, s.must(), f)
+		d.Errorf(a.Expr.Range(), fmt.Sprintf("Invalid value for %q", a.Name), "%s must be %s; got %g.", a.Name, s.must(), f)
 		return 0, false
 	}
 	return f, true
@@ -539,11 +482,11 @@ func (d *decoder) events(a *hcl.Attribute) []string {
 	}
 	elems, diags := hcl.ExprList(a.Expr)
 	if diags.HasErrors() {
-		d.errorf(a.Expr.Range(), `Invalid value for "events"`, `events must be a list of event names, e.g. ["q100"].`)
+		d.Errorf(a.Expr.Range(), `Invalid value for "events"`, `events must be a list of event names, e.g. ["q100"].`)
 		return nil
 	}
 	if len(elems) == 0 {
-		d.errorf(a.Expr.Range(), `Empty "events"`, "An empty list would apply the rule to no event; remove events to apply it to every event, or write enabled = false.")
+		d.Errorf(a.Expr.Range(), `Empty "events"`, "An empty list would apply the rule to no event; remove events to apply it to every event, or write enabled = false.")
 		return nil
 	}
 	out := make([]string, 0, len(elems))
@@ -556,9 +499,9 @@ func (d *decoder) events(a *hcl.Attribute) []string {
 		s := v.AsString()
 		switch {
 		case strings.TrimSpace(s) == "":
-			d.errorf(e.Range(), "Empty event name", "Name an event of the model, e.g. \"q100\".")
+			d.Errorf(e.Range(), "Empty event name", "Name an event of the model, e.g. \"q100\".")
 		case seen[s]:
-			d.warnf(e.Range(), "Event listed twice", "The event %q is already in this list.", s)
+			d.Warnf(e.Range(), "Event listed twice", "The event %q is already in this list.", s)
 		default:
 			seen[s] = true
 			out = append(out, s)
@@ -581,14 +524,14 @@ func (d *decoder) byLining(a *hcl.Attribute, s *Setting) ByLining {
 		return b
 	}
 	if len(pairs) == 0 {
-		d.errorf(a.Expr.Range(), fmt.Sprintf("Empty %q", name), "Give at least one lining = %s pair or a default.", name)
+		d.Errorf(a.Expr.Range(), fmt.Sprintf("Empty %q", name), "Give at least one lining = %s pair or a default.", name)
 		return b
 	}
 	seen := map[string]hcl.Range{}
-	before := len(d.diags)
+	before := len(d.Diags)
 	defer func() {
-		if b.Values == nil && !b.HasDefault && len(d.diags) == before {
-			d.errorf(a.Expr.Range(), fmt.Sprintf("No number in %q", name), "Give at least one lining a number, or a default; null alone limits nothing.")
+		if b.Values == nil && !b.HasDefault && len(d.Diags) == before {
+			d.Errorf(a.Expr.Range(), fmt.Sprintf("No number in %q", name), "Give at least one lining a number, or a default; null alone limits nothing.")
 		}
 	}()
 	for _, kv := range pairs {
@@ -598,11 +541,11 @@ func (d *decoder) byLining(a *hcl.Attribute, s *Setting) ByLining {
 		}
 		key := kval.AsString()
 		if strings.TrimSpace(key) == "" {
-			d.errorf(kv.Key.Range(), "Empty lining word", "Name a lining word used by the model's sections, e.g. concrete, or default.")
+			d.Errorf(kv.Key.Range(), "Empty lining word", "Name a lining word used by the model's sections, e.g. concrete, or default.")
 			continue
 		}
 		if prev, dup := seen[key]; dup {
-			d.errorf(kv.Key.Range(), "Duplicate lining in "+name, "%q already has a %s at line %d, column %d.", key, name, prev.Start.Line, prev.Start.Column)
+			d.Errorf(kv.Key.Range(), "Duplicate lining in "+name, "%q already has a %s at line %d, column %d.", key, name, prev.Start.Line, prev.Start.Column)
 			continue
 		}
 		seen[key] = kv.Key.Range()
@@ -643,7 +586,7 @@ func (d *decoder) inBounds(expr hcl.Expression, s *Setting, must string) (float6
 		return 0, false
 	}
 	if !s.Bounds.Admits(f) {
-		d.errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", s.Name),
+		d.Errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", s.Name),
 			"%s; got %g. To switch the rule off write enabled = false.", must, f)
 		return 0, false
 	}
@@ -660,18 +603,18 @@ func (d *decoder) bands(a *hcl.Attribute, s *Setting) []Band {
 	}
 	outer, diags := hcl.ExprList(a.Expr)
 	if diags.HasErrors() {
-		d.errorf(a.Expr.Range(), fmt.Sprintf("Invalid value for %q", name), "%s.", shape)
+		d.Errorf(a.Expr.Range(), fmt.Sprintf("Invalid value for %q", name), "%s.", shape)
 		return nil
 	}
 	if len(outer) == 0 {
-		d.errorf(a.Expr.Range(), fmt.Sprintf("Empty %q", name), "%s; to switch the rule off write enabled = false.", shape)
+		d.Errorf(a.Expr.Range(), fmt.Sprintf("Empty %q", name), "%s; to switch the rule off write enabled = false.", shape)
 		return nil
 	}
 	var out []Band
 	for _, e := range outer {
 		inner, diags := hcl.ExprList(e)
 		if diags.HasErrors() || len(inner) != 2 {
-			d.errorf(e.Range(), "Invalid band", "%s; this element is not a pair.", shape)
+			d.Errorf(e.Range(), "Invalid band", "%s; this element is not a pair.", shape)
 			continue
 		}
 		lo, okLo := d.number(inner[0], name)
@@ -681,11 +624,11 @@ func (d *decoder) bands(a *hcl.Attribute, s *Setting) []Band {
 		}
 		switch {
 		case !s.Bounds.Admits(lo):
-			d.errorf(inner[0].Range(), "Invalid band", "%s is %s; got %g.", capitalise(s.Quantity.noun()), s.Bounds, lo)
+			d.Errorf(inner[0].Range(), "Invalid band", "%s is %s; got %g.", capitalise(s.Quantity.noun()), s.Bounds, lo)
 		case !s.Bounds.Admits(hi):
-			d.errorf(inner[1].Range(), "Invalid band", "%s is %s; got %g.", capitalise(s.Quantity.noun()), s.Bounds, hi)
+			d.Errorf(inner[1].Range(), "Invalid band", "%s is %s; got %g.", capitalise(s.Quantity.noun()), s.Bounds, hi)
 		case hi <= lo:
-			d.errorf(e.Range(), "Invalid band", "The low end must be below the high end; got [%g, %g].", lo, hi)
+			d.Errorf(e.Range(), "Invalid band", "The low end must be below the high end; got [%g, %g].", lo, hi)
 		default:
 			out = append(out, Band{Low: lo, High: hi})
 		}

@@ -2,17 +2,16 @@ package policies
 
 import (
 	"bytes"
-	"cmp"
 	"errors"
 	"fmt"
 	"io/fs"
 	"os"
 	"path/filepath"
-	"slices"
 	"strings"
 	"sync"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/hclkit"
 	"github.com/chanlint/chanlint/model/safefile"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
@@ -76,10 +75,8 @@ func (l *Loader) Resolve(arg string) (*Policy, hcl.Diagnostics) {
 		return l.loadPack(arg)
 	}
 	if _, err := os.Stat(arg); err != nil && errors.Is(err, fs.ErrNotExist) && !strings.ContainsAny(arg, `/\`) && !strings.HasSuffix(arg, ".hcl") {
-		detail := fmt.Sprintf("%q is neither a built-in pack (%s) nor an existing policy file.", arg, strings.Join(PackNames(), ", "))
-		if hint := suggestWord(arg, PackNames()); hint != "" {
-			detail += fmt.Sprintf(" Did you mean %q?", hint)
-		}
+		detail := fmt.Sprintf("%q is neither a built-in pack (%s) nor an existing policy file.", arg, strings.Join(PackNames(), ", ")) +
+			hclkit.DidYouMean(suggestWord(arg, PackNames()))
 		return nil, hcl.Diagnostics{{Severity: hcl.DiagError, Summary: "Unknown policy", Detail: detail}}
 	}
 	return l.Load(arg)
@@ -249,10 +246,10 @@ func (l *Loader) load(n node, root string, stack []node, from *hcl.Range) (*Poli
 	if diags.HasErrors() {
 		return nil, diags
 	}
-	d := &decoder{lang: l.lang, diags: diags}
+	d := &decoder{lang: l.lang, Diagnostics: hclkit.Diagnostics{Diags: diags}}
 	p, parent := l.decodeAndExtend(d, file, n, root, stack)
-	sortByPosition(d.diags)
-	return p, append(d.diags, parent...)
+	hclkit.SortByPosition(d.Diags)
+	return p, append(d.Diags, parent...)
 }
 
 // decodeAndExtend decodes the parsed file of n into d and loads what it
@@ -264,7 +261,7 @@ func (l *Loader) decodeAndExtend(d *decoder, file *hcl.File, n node, root string
 	}
 	o.policy.Chain = []string{n.display}
 	if !o.hasExtends {
-		if d.diags.HasErrors() {
+		if d.Diags.HasErrors() {
 			return nil, nil
 		}
 		return o.policy, nil
@@ -280,34 +277,22 @@ func (l *Loader) decodeAndExtend(d *decoder, file *hcl.File, n node, root string
 			for _, s := range stack[i:] {
 				names = append(names, s.display)
 			}
-			d.errorf(o.extendsRange, "Cycle in extends",
+			d.Errorf(o.extendsRange, "Cycle in extends",
 				"The chain %s → %s comes back to a policy already in it; a policy cannot extend itself, even indirectly.",
 				strings.Join(names, " → "), parentNode.display)
 			return nil, nil
 		}
 	}
 	if len(stack) >= MaxExtendsDepth {
-		d.errorf(o.extendsRange, "Extends chain too long",
+		d.Errorf(o.extendsRange, "Extends chain too long",
 			"A policy may stack at most %d files and packs through extends.", MaxExtendsDepth)
 		return nil, nil
 	}
 	parent, pdiags := l.load(parentNode, root, stack, o.extendsRange.Ptr())
-	if d.diags.HasErrors() || pdiags.HasErrors() || parent == nil {
+	if d.Diags.HasErrors() || pdiags.HasErrors() || parent == nil {
 		return nil, pdiags
 	}
 	return merge(parent, o), pdiags
-}
-
-// sortByPosition orders one file's diagnostics top to bottom (those
-// without a range first).
-func sortByPosition(diags hcl.Diagnostics) {
-	offset := func(d *hcl.Diagnostic) int {
-		if d.Subject == nil {
-			return -1
-		}
-		return d.Subject.Start.Byte
-	}
-	slices.SortStableFunc(diags, func(a, b *hcl.Diagnostic) int { return cmp.Compare(offset(a), offset(b)) })
 }
 
 // extendsTarget resolves the extends value of o, written in n.
@@ -317,11 +302,11 @@ func (l *Loader) extendsTarget(d *decoder, n node, o *own, root string) (node, b
 		return node{display: packPrefix + v, key: packPrefix + v, pack: true}, true
 	}
 	if n.pack {
-		d.errorf(o.extendsRange, "Unknown pack", "A built-in pack extends only another pack (%s).", strings.Join(PackNames(), ", "))
+		d.Errorf(o.extendsRange, "Unknown pack", "A built-in pack extends only another pack (%s).", strings.Join(PackNames(), ", "))
 		return node{}, false
 	}
 	if filepath.IsAbs(v) || strings.HasPrefix(v, "/") || strings.HasPrefix(v, `\`) {
-		d.errorf(o.extendsRange, "Absolute path in extends",
+		d.Errorf(o.extendsRange, "Absolute path in extends",
 			"extends takes a built-in pack name or a path relative to this policy file, so that the repository can move.")
 		return node{}, false
 	}
@@ -332,17 +317,15 @@ func (l *Loader) extendsTarget(d *decoder, n node, o *own, root string) (node, b
 		diag := readError(display, err, o.extendsRange.Ptr())
 		if errors.Is(err, fs.ErrNotExist) && !strings.ContainsAny(v, `/\.`) {
 			diag.Summary = "Unknown pack or policy file"
-			diag.Detail = fmt.Sprintf("%q is not a built-in pack (%s) and %s does not exist.", v, strings.Join(PackNames(), ", "), display)
-			if hint := suggestWord(v, PackNames()); hint != "" {
-				diag.Detail += fmt.Sprintf(" Did you mean %q?", hint)
-			}
+			diag.Detail = fmt.Sprintf("%q is not a built-in pack (%s) and %s does not exist.", v, strings.Join(PackNames(), ", "), display) +
+				hclkit.DidYouMean(suggestWord(v, PackNames()))
 		}
-		d.diags = append(d.diags, diag)
+		d.Diags = append(d.Diags, diag)
 		return node{}, false
 	}
 	rel, err := filepath.Rel(root, real)
 	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) || filepath.IsAbs(rel) {
-		d.errorf(o.extendsRange, "Extends leaves the repository",
+		d.Errorf(o.extendsRange, "Extends leaves the repository",
 			"%s resolves to %s, outside %s; a policy may only extend packs and files inside the repository.", display, real, root)
 		return node{}, false
 	}

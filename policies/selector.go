@@ -258,7 +258,7 @@ func (d *decoder) returnPeriod(a *hcl.Attribute) ([2]float64, bool) {
 	}
 	elems, diags := hcl.ExprList(a.Expr)
 	if diags.HasErrors() || len(elems) != 2 {
-		d.errorf(a.Expr.Range(), `Invalid value for "return_period"`, "%s.", shape)
+		d.Errorf(a.Expr.Range(), `Invalid value for "return_period"`, "%s.", shape)
 		return [2]float64{}, false
 	}
 	r := [2]float64{0, math.Inf(1)}
@@ -271,17 +271,17 @@ func (d *decoder) returnPeriod(a *hcl.Attribute) ([2]float64, bool) {
 			return [2]float64{}, false
 		}
 		if f <= 0 {
-			d.errorf(e.Range(), `Invalid value for "return_period"`, "A return period is a positive number of years; got %g.", f)
+			d.Errorf(e.Range(), `Invalid value for "return_period"`, "A return period is a positive number of years; got %g.", f)
 			return [2]float64{}, false
 		}
 		r[i] = f
 	}
 	if r[0] > r[1] {
-		d.errorf(a.Expr.Range(), `Invalid value for "return_period"`, "The low end must not be above the high end; got [%g, %g].", r[0], r[1])
+		d.Errorf(a.Expr.Range(), `Invalid value for "return_period"`, "The low end must not be above the high end; got [%g, %g].", r[0], r[1])
 		return [2]float64{}, false
 	}
 	if r[0] == 0 && math.IsInf(r[1], 1) {
-		d.errorf(a.Expr.Range(), `Invalid value for "return_period"`, "[null, null] selects every event that has a return period; give at least one end.")
+		d.Errorf(a.Expr.Range(), `Invalid value for "return_period"`, "[null, null] selects every event that has a return period; give at least one end.")
 		return [2]float64{}, false
 	}
 	return r, true
@@ -295,7 +295,7 @@ func (d *decoder) words(a *hcl.Attribute, what, example string, ok func(string) 
 	}
 	elems, diags := hcl.ExprList(a.Expr)
 	if diags.HasErrors() || len(elems) == 0 {
-		d.errorf(a.Expr.Range(), fmt.Sprintf("Invalid value for %q", a.Name), "%s must be a non-empty list of %ss, e.g. %s.", a.Name, what, example)
+		d.Errorf(a.Expr.Range(), fmt.Sprintf("Invalid value for %q", a.Name), "%s must be a non-empty list of %ss, e.g. %s.", a.Name, what, example)
 		return nil
 	}
 	out := make([]string, 0, len(elems))
@@ -313,9 +313,9 @@ func (d *decoder) words(a *hcl.Attribute, what, example string, ok func(string) 
 			} else if what == "class word" {
 				detail += fmt.Sprintf(" A class word is letters, digits, \"-\" or \"_\" (at most %d).", model.MaxClassWord)
 			}
-			d.errorf(e.Range(), "Invalid "+what, "%s", detail)
+			d.Errorf(e.Range(), "Invalid "+what, "%s", detail)
 		case slices.Contains(out, w):
-			d.warnf(e.Range(), "Word listed twice", "%q is already in this list.", w)
+			d.Warnf(e.Range(), "Word listed twice", "%q is already in this list.", w)
 		default:
 			out = append(out, w)
 		}
