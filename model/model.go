@@ -43,6 +43,22 @@ func (u Units) Length() string {
 	return "m"
 }
 
+// Velocity is the symbol of the unit of velocity ("m/s" or "ft/s").
+func (u Units) Velocity() string {
+	if u == US {
+		return "ft/s"
+	}
+	return "m/s"
+}
+
+// Stress is the symbol of the unit of shear stress ("N/m²" or "lb/ft²").
+func (u Units) Stress() string {
+	if u == US {
+		return "lb/ft²"
+	}
+	return "N/m²"
+}
+
 // Src is the source position of a decoded block: its header, its first
 // label (the name) and the value range of every attribute that was present
 // (At). A decoded block keeps its attributes' syntax nodes for that, rather

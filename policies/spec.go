@@ -97,12 +97,9 @@ func (q Quantity) Unit(u model.Units) string {
 	case Length:
 		return u.Length()
 	case Velocity:
-		return u.Length() + "/s"
+		return u.Velocity()
 	case Stress:
-		if u == model.US {
-			return "lb/ft²"
-		}
-		return "N/m²"
+		return u.Stress()
 	case UnitDischarge:
 		return u.Length() + "²/s"
 	}

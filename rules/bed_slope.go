@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
@@ -60,12 +61,12 @@ func checkBedSlope(ctx *Context, report func(Finding)) {
 			var f Finding
 			if v, ok := lo.For(lining); ok && s < v-1e-12 {
 				f = pieceFinding(r, p, s, v,
-					fmt.Sprintf("bed slope %s is flatter than the least %s for %s", num(s), num(v), liningWord(lining)),
-					fmt.Sprintf("steepen the bed to at least %s, or add a paved low-flow channel", num(v)))
+					fmt.Sprintf("bed slope %s is flatter than the least %s for %s", numfmt.Num(s), numfmt.Num(v), liningWord(lining)),
+					fmt.Sprintf("steepen the bed to at least %s, or add a paved low-flow channel", numfmt.Num(v)))
 			} else if v, ok := hi.For(lining); ok && s > v+1e-12 {
 				f = pieceFinding(r, p, s, v,
-					fmt.Sprintf("bed slope %s is steeper than the greatest %s for %s", num(s), num(v), liningWord(lining)),
-					fmt.Sprintf("flatten the bed to at most %s with drops, or use a stronger lining", num(v)))
+					fmt.Sprintf("bed slope %s is steeper than the greatest %s for %s", numfmt.Num(s), numfmt.Num(v), liningWord(lining)),
+					fmt.Sprintf("flatten the bed to at most %s with drops, or use a stronger lining", numfmt.Num(v)))
 			} else {
 				continue
 			}

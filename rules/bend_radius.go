@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 
 	"github.com/chanlint/chanlint/policies"
 )
@@ -54,11 +55,11 @@ func checkBendRadius(ctx *Context, report func(Finding)) {
 				if t <= 0 || bend.Radius >= need*(1-1e-12) {
 					continue
 				}
-				rad, lim := numPair(bend.Radius, need)
+				rad, lim := numfmt.Pair(bend.Radius, need)
 				report(Finding{
 					Message: fmt.Sprintf("bend %q has a centreline radius of %s %s, less than the %s %s required (%s × the widest top width of the flow, %s %s at station %s %s)",
-						bend.Name, rad, lu, lim, lu, num(k), num(t), lu, num(at), lu),
-					Remedy: fmt.Sprintf("lengthen the radius to at least %s %s, or protect the outer bank", numUp(need), lu),
+						bend.Name, rad, lu, lim, lu, numfmt.Num(k), numfmt.Num(t), lu, numfmt.Num(at), lu),
+					Remedy: fmt.Sprintf("lengthen the radius to at least %s %s, or protect the outer bank", numfmt.Up(need), lu),
 					Range:  bend.DefRange, Focus: bend.At("radius"),
 					Reach: rr.Reach.Name, Event: ev.Event.Name,
 					FromStation: bend.FromStation, ToStation: bend.ToStation, HasSpan: true,

@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
@@ -61,8 +62,8 @@ func checkBottomWidth(ctx *Context, report func(Finding)) {
 				continue
 			}
 			f := pieceFinding(r, p, b, limit,
-				fmt.Sprintf("bottom width %s %s of section %q is less than the least %s %s", num(b), lu, p.sec.Name, num(limit), lu),
-				fmt.Sprintf("widen the bottom to at least %s %s", num(limit), lu))
+				fmt.Sprintf("bottom width %s %s of section %q is less than the least %s %s", numfmt.Num(b), lu, p.sec.Name, numfmt.Num(limit), lu),
+				fmt.Sprintf("widen the bottom to at least %s %s", numfmt.Num(limit), lu))
 			f.Focus, f.Unit = p.sec.At(attr), lu
 			report(f)
 		}

@@ -2,6 +2,7 @@ package rules
 
 import (
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )
@@ -66,7 +67,7 @@ func capacityRemedy(ctx *Context, ev *solver.EventResult, rr *solver.ReachResult
 	if cfg := ctx.Policy.Rules["freeboard"]; cfg != nil && cfg.AppliesTo(ev.Event.Name) {
 		req := max(cfg.Number("minimum"), cfg.Number("fraction")*p.Depth)
 		if req > 0 {
-			r += " and by " + practicalUp(s.short+req, heightStep, u) + " " + lu + " to keep the freeboard the policy requires (" + num(req) + " " + lu + ")"
+			r += " and by " + practicalUp(s.short+req, heightStep, u) + " " + lu + " to keep the freeboard the policy requires (" + numfmt.Num(req) + " " + lu + ")"
 		}
 	}
 	return r
@@ -94,19 +95,19 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 		*v = verdict{kind: kind, value: p.Depth, limit: sec.Height, short: p.Depth - sec.Height}
 		return true
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
-		val, lim := numPair(s.value, s.limit)
+		val, lim := numfmt.Pair(s.value, s.limit)
 		var msg, remedy string
 		if s.kind == flowsFull {
 			head := ""
 			if s.short > 0 {
-				head = ", the hydraulic grade up to " + num(s.short) + " " + lu + " above its crown"
+				head = ", the hydraulic grade up to " + numfmt.Num(s.short) + " " + lu + " above its crown"
 			}
 			msg = "the " + lim + " " + lu + " closed conduit flows full (depth " + val + " " + lu + head + "): " +
 				"it runs under pressure, which the free-surface results do not describe"
 			remedy = "enlarge the conduit or add a barrel, or analyse it for pressure flow"
 		} else {
 			msg = "the channel overtops here: depth " + val + " " + lu + " exceeds the section height " + lim + " " + lu +
-				", the water surface " + num(s.short) + " " + lu + " above the top of bank"
+				", the water surface " + numfmt.Num(s.short) + " " + lu + " above the top of bank"
 			remedy = capacityRemedy(ctx, ev, rr, s, u)
 		}
 		f := spanFinding(ev, rr, s, msg, remedy)

@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"slices"
 	"strconv"
 	"strings"
@@ -254,8 +255,8 @@ func (cv *coverage) buffered() []string {
 		}
 		ctrl.near(rr, -1, buffer) // fills the controls of rr
 		for i, x := range ctrl.at {
-			items = append(items, fmt.Sprintf("reach %q at %s %s (%s %s, event %q)", rr.Reach.Name, num(x), cv.u.Length(),
-				num(ctrl.len[i]), cv.u.Length(), ev.Event.Name))
+			items = append(items, fmt.Sprintf("reach %q at %s %s (%s %s, event %q)", rr.Reach.Name, numfmt.Num(x), cv.u.Length(),
+				numfmt.Num(ctrl.len[i]), cv.u.Length(), ev.Event.Name))
 		}
 	})
 	if len(items) == 0 {
@@ -277,7 +278,7 @@ func (cv *coverage) exemptJumps() []string {
 		for _, j := range rr.Jumps {
 			if usableJump(j) && exemptJump(b, j) {
 				items = append(items, fmt.Sprintf("reach %q at %s %s (event %q, F1 %s, head loss %s %s)", rr.Reach.Name,
-					num(j.Station), cv.u.Length(), ev.Event.Name, num(j.Froude), num(j.EnergyLoss), cv.u.Length()))
+					numfmt.Num(j.Station), cv.u.Length(), ev.Event.Name, numfmt.Num(j.Froude), numfmt.Num(j.EnergyLoss), cv.u.Length()))
 			}
 		}
 	})

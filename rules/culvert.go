@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"strconv"
 
 	"github.com/chanlint/chanlint/model"
@@ -13,7 +14,7 @@ func (c *Context) eachCulvert(fn func(ev *solver.EventResult, cr *solver.Culvert
 	for _, ev := range c.events() {
 		for _, cr := range ev.Culverts {
 			if cr == nil || cr.Culvert == nil || cr.OutletMethod == solver.OutletNoFlow ||
-				!finite(cr.Headwater, cr.HWD, cr.BarrelFlow, cr.RoadFlow, cr.RoadDepth, cr.OutletVelocity) {
+				!numfmt.Finite(cr.Headwater, cr.HWD, cr.BarrelFlow, cr.RoadFlow, cr.RoadDepth, cr.OutletVelocity) {
 				continue
 			}
 			fn(ev, cr)

@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
@@ -204,7 +205,7 @@ func checkExceptions(ctx *Context, report func(Finding)) {
 		}
 		what := fmt.Sprintf("the exception for rule %q on reach %q", ex.Rule, ex.ReachName)
 		f := Finding{Range: ex.DefRange, Reach: ex.ReachName}
-		if finite(ex.FromStation, ex.ToStation) { // the model guarantees it; never print NaN
+		if numfmt.Finite(ex.FromStation, ex.ToStation) { // the model guarantees it; never print NaN
 			what += " " + stations(ex.FromStation, ex.ToStation, u)
 			f.FromStation, f.ToStation, f.HasSpan = ex.FromStation, ex.ToStation, true
 		}

@@ -13,6 +13,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"slices"
 	"strconv"
 	"strings"
@@ -189,7 +190,7 @@ func (f *Finding) Where(unit string) string {
 		parts = append(parts, "event "+f.Event)
 	}
 	if f.HasSpan {
-		s := Span(f.FromStation, f.ToStation)
+		s := numfmt.Span(f.FromStation, f.ToStation)
 		word := "stations "
 		if !strings.Contains(s, "–") {
 			word = "station "

@@ -1,32 +1,32 @@
 package rules
 
 import (
-	"math"
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
 	"github.com/stretchr/testify/assert"
 )
 
-func TestNumberFormats(t *testing.T) {
-	// Three significant digits, integer digits kept, zeros trimmed; no
-	// negative zero; never NaN or Inf.
-	for x, want := range map[float64]string{
-		0: "0", 4.2: "4.2", 0.18: "0.18", 1234.56: "1235", 49.5: "49.5",
-		0.0004: "0.0004", -0.898130558: "-0.898", -0.0000001: "0", 3.0: "3",
-		math.NaN(): "n/a", math.Inf(1): "n/a",
-	} {
-		assert.Equal(t, want, num(x), "%v", x)
-	}
-	a, b := numPair(0.18, 0.30)
-	assert.Equal(t, [2]string{"0.18", "0.30"}, [2]string{a, b}, "a pair shares its decimals")
-	a, b = numPair(4.2, 3.0)
-	assert.Equal(t, [2]string{"4.2", "3.0"}, [2]string{a, b})
-	// Remedies round up, so the printed amount is never short.
-	assert.Equal(t, "0.0813", num(0.0813196))
-	assert.Equal(t, "0.0814", numUp(0.0813196))
-	assert.Equal(t, "0.3", numUp(0.30000000000000004))
-	assert.Equal(t, "123", numUp(122.35))
+func TestStationsAndIncrements(t *testing.T) {
 	assert.Equal(t, "at station 400 m", stations(400, 400, model.SI))
 	assert.Equal(t, "over stations 0.5–800.0 ft", stations(0.5, 800, model.US))
+	// Source: common practice (no published source): the increments of
+	// practicalUp.
+	for _, c := range []struct {
+		x    float64
+		k    increment
+		u    model.Units
+		want string
+	}{
+		{0.181, heightStep, model.SI, "0.19"},
+		{0.181, heightStep, model.US, "0.20"},
+		{2.01, velocityStep, model.SI, "2.1"},
+		{6.1, velocityStep, model.US, "6.5"},
+		{31.2, stressStep, model.SI, "32"},
+		{0.61, stressStep, model.US, "0.65"},
+		{40.2, radiusStep, model.SI, "41"},
+		{40.2, radiusStep, model.US, "45"},
+	} {
+		assert.Equal(t, c.want, practicalUp(c.x, c.k, c.u), "%v %v %v", c.x, c.k, c.u)
+	}
 }

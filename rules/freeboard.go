@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
@@ -113,7 +114,7 @@ func overtopsBeside(rr *solver.ReachResult, s span, u model.Units) string {
 			if i > s.last {
 				x = s.to
 			}
-			at = append(at, num(x))
+			at = append(at, numfmt.Num(x))
 		}
 	}
 	if len(at) == 0 {
@@ -156,14 +157,14 @@ type freeboardSettings struct{ minimum, fraction float64 }
 func freeboardMessage(cfg freeboardSettings, rr *solver.ReachResult, s span, depth float64, u model.Units) (msg, remedy string) {
 	lu := u.Length()
 	p := &rr.Points[s.worst]
-	val, lim := numPair(s.value, s.limit)
+	val, lim := numfmt.Pair(s.value, s.limit)
 	basis := ""
 	if cfg.fraction*depth > cfg.minimum {
-		basis = " (" + num(cfg.fraction) + " × depth " + num(depth) + " " + lu + ")"
+		basis = " (" + numfmt.Num(cfg.fraction) + " × depth " + numfmt.Num(depth) + " " + lu + ")"
 	}
 	msg = "freeboard " + val + " " + lu + " is below the required " + lim + " " + lu + basis
 	if s.value < 0 {
-		msg = "the channel overtops here: the water surface is " + num(-s.value) + " " + lu +
+		msg = "the channel overtops here: the water surface is " + numfmt.Num(-s.value) + " " + lu +
 			" above the top of bank; required freeboard " + lim + " " + lu + basis
 	}
 	rise := practicalUp(s.short, heightStep, u)

@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"sort"
 
@@ -225,14 +226,14 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 	}
 	emit := func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		b, _ := bandOf(avoid, s.value)
-		lo, hi := numPair(b.Low, b.High)
+		lo, hi := numfmt.Pair(b.Low, b.High)
 		side := "below " + lo + " or above " + hi
 		if b.Low <= 0 {
 			side = "above " + hi
 		} else if math.IsInf(b.High, 1) {
 			side = "below " + lo
 		}
-		msg := "Froude number " + num(s.value) + " lies in the avoided band " + lo + "–" + hi
+		msg := "Froude number " + numfmt.Num(s.value) + " lies in the avoided band " + lo + "–" + hi
 		f := spanFinding(ev, rr, s, msg, "near-critical flow is unstable, with a wavy surface and uncertain depth: "+
 			"change the slope or section so that the flow stays "+side+", or add freeboard for surface waves")
 		f.Focus = s.block.At("slope") // the grade sets the Froude number

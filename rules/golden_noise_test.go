@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"testing"
 
@@ -70,7 +71,7 @@ func TestGoldenUndularThreshold(t *testing.T) {
 			m, _, fs := golden(t, "undular.chan.hcl", tc.policy)
 			got := matchWants(t, m.Source, tc.label, fs)
 			for _, f := range got {
-				assert.Contains(t, f.Message, "F1 "+num(f1))
+				assert.Contains(t, f.Message, "F1 "+numfmt.Num(f1))
 			}
 		})
 	}

@@ -3,6 +3,7 @@ package rules
 import (
 	"bytes"
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -108,7 +109,7 @@ func matchWants(t *testing.T, src []byte, label string, fs []Finding) map[*want]
 func assertFinite(t *testing.T, fs []Finding) {
 	t.Helper()
 	for _, f := range fs {
-		require.True(t, finite(f.FromStation, f.ToStation, f.Value, f.Limit), "%+v", f)
+		require.True(t, numfmt.Finite(f.FromStation, f.ToStation, f.Value, f.Limit), "%+v", f)
 		for _, bad := range []string{"NaN", "Inf", "n/a"} {
 			assert.NotContains(t, f.Message, bad)
 		}

@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )
@@ -61,9 +62,9 @@ func checkHeadwater(ctx *Context, report func(Finding)) {
 		if maxHWD > 0 && cr.HWD > maxHWD {
 			f := culvertFinding(ev, cr, 0)
 			f.Value, f.Limit = cr.HWD, maxHWD
-			val, lim := numPair(cr.HWD, maxHWD)
-			f.Message = name + ": HW/D " + val + " exceeds " + lim + ": headwater " + num(cr.Headwater) + " " + lu + " " + how
-			f.Remedy = "lower the headwater by " + numUp((cr.HWD-maxHWD)*cr.Rise) + " " + lu +
+			val, lim := numfmt.Pair(cr.HWD, maxHWD)
+			f.Message = name + ": HW/D " + val + " exceeds " + lim + ": headwater " + numfmt.Num(cr.Headwater) + " " + lu + " " + how
+			f.Remedy = "lower the headwater by " + numfmt.Up((cr.HWD-maxHWD)*cr.Rise) + " " + lu +
 				" or more: a better inlet or a larger barrel under inlet control, a larger, smoother or additional barrel under outlet control"
 			report(f)
 		}
@@ -79,14 +80,14 @@ func checkHeadwater(ctx *Context, report func(Finding)) {
 		f := culvertFinding(ev, cr, 0)
 		f.Focus = road.Range
 		f.Value, f.Limit = have, need
-		val, lim := numPair(have, need)
+		val, lim := numfmt.Pair(have, need)
 		if have < 0 {
-			f.Message = name + ": headwater " + num(cr.Headwater) + " " + lu + " rises " + num(-have) + " " + lu +
-				" above the road " + what + " " + num(level) + " " + lu + " (" + lim + " " + lu + " freeboard required)"
+			f.Message = name + ": headwater " + numfmt.Num(cr.Headwater) + " " + lu + " rises " + numfmt.Num(-have) + " " + lu +
+				" above the road " + what + " " + numfmt.Num(level) + " " + lu + " (" + lim + " " + lu + " freeboard required)"
 		} else {
 			f.Message = name + ": freeboard " + val + " " + lu + " from the headwater to the road " + what + " is below " + lim + " " + lu
 		}
-		f.Remedy = "lower the headwater by " + numUp(need-have) + " " + lu + " or more (it is set " + how + "), or raise the road"
+		f.Remedy = "lower the headwater by " + numfmt.Up(need-have) + " " + lu + " or more (it is set " + how + "), or raise the road"
 		report(f)
 	})
 }

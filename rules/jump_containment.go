@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
@@ -96,7 +97,7 @@ func (jr jumpReach) continues(r *model.Reach, u model.Units) string {
 	if jr.next != nil {
 		into = fmt.Sprintf("into reach %q through node %q", jr.next.Name, r.To)
 	}
-	return fmt.Sprintf("; its roller continues %s %s past the reach end, %s", num(jr.over), u.Length(), into)
+	return fmt.Sprintf("; its roller continues %s %s past the reach end, %s", numfmt.Num(jr.over), u.Length(), into)
 }
 
 func checkJumpContainment(ctx *Context, report func(Finding)) {
@@ -135,9 +136,9 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 			}
 			f := Finding{Reach: r.Name, Event: ev.Event.Name, FromStation: toe, ToStation: end,
 				HasSpan: true, Limit: 0, HasValue: true, Unit: lu}
-			jump := fmt.Sprintf("the hydraulic jump (length %s %s", num(j.Length), lu)
-			if finite(j.Froude) {
-				jump += ", F1 " + num(j.Froude)
+			jump := fmt.Sprintf("the hydraulic jump (length %s %s", numfmt.Num(j.Length), lu)
+			if numfmt.Finite(j.Froude) {
+				jump += ", F1 " + numfmt.Num(j.Froude)
 			}
 			jump += ")"
 			cont := jr.continues(r, u)
@@ -149,26 +150,26 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 				}
 				where := "beyond the outlet, where no basin of the model protects the channel"
 				if jr.next != nil {
-					where = fmt.Sprintf("into reach %q, whose channel below node %q is not in a basin for %s %s", jr.next.Name, r.To, num(nextDown), lu)
+					where = fmt.Sprintf("into reach %q, whose channel below node %q is not in a basin for %s %s", jr.next.Name, r.To, numfmt.Num(nextDown), lu)
 				}
 				f.Message = fmt.Sprintf("%s runs %s %s past the end of reach %q %s: unprotected channel may scour",
-					jump, num(jr.over), lu, r.Name, where)
+					jump, numfmt.Num(jr.over), lu, r.Name, where)
 				f.Remedy = "extend the protection past the node, with a basin from station 0 of the reach below, or move the jump upstream"
 				report(f)
 				continue
 			}
 			if b == nil {
 				f.Range, f.Value = r.DefRange, end-toe
-				from, to := numPair(toe, end)
+				from, to := numfmt.Pair(toe, end)
 				f.Message = fmt.Sprintf("%s lies in no basin of reach %q: unprotected channel may scour%s", jump, r.Name, cont)
 				f.Remedy = fmt.Sprintf("build a basin covering at least stations %s–%s %s, or move the jump", from, to, lu)
 			} else {
 				var by []string
 				if up > tol {
-					by = append(by, num(up)+" "+lu+" upstream")
+					by = append(by, numfmt.Num(up)+" "+lu+" upstream")
 				}
 				if down > tol {
-					by = append(by, num(down)+" "+lu+" downstream")
+					by = append(by, numfmt.Num(down)+" "+lu+" downstream")
 				}
 				side := "downstream"
 				if down <= tol {
@@ -178,7 +179,7 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 				}
 				f.Range, f.Value = b.DefRange, max(up, 0)+max(down, 0)
 				f.Message = fmt.Sprintf("%s escapes basin %q (%s–%s %s) by %s: unprotected channel %s may scour%s",
-					jump, b.Name, num(b.FromStation), num(b.ToStation), lu, strings.Join(by, " and "), side, cont)
+					jump, b.Name, numfmt.Num(b.FromStation), numfmt.Num(b.ToStation), lu, strings.Join(by, " and "), side, cont)
 				f.Remedy = "lengthen the basin or move it"
 			}
 			report(f)
@@ -228,5 +229,5 @@ func jumpBlock(r *model.Reach, j solver.Jump) *model.Src {
 // usableJump reports whether a jump has a finite toe and a finite,
 // non-negative length (the solver promises it; anything else is skipped).
 func usableJump(j solver.Jump) bool {
-	return finite(j.Station, j.Length, j.End()) && j.Length >= 0
+	return numfmt.Finite(j.Station, j.Length, j.End()) && j.Length >= 0
 }

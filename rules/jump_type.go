@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )
@@ -45,7 +46,7 @@ func checkJumpType(ctx *Context, report func(Finding)) {
 	avoid := ctx.Config.Bands("avoid")
 	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		for _, j := range rr.Jumps {
-			if !usableJump(j) || !finite(j.Froude) {
+			if !usableJump(j) || !numfmt.Finite(j.Froude) {
 				continue
 			}
 			b, in := bandOf(avoid, j.Froude)
@@ -53,7 +54,7 @@ func checkJumpType(ctx *Context, report func(Finding)) {
 				continue
 			}
 			edge, _ := nearestEdge(b, j.Froude)
-			lo, hi := numPair(b.Low, b.High)
+			lo, hi := numfmt.Pair(b.Low, b.High)
 			kind := ""
 			if j.Type != "" {
 				kind = " (" + string(j.Type) + ")"
@@ -65,7 +66,7 @@ func checkJumpType(ctx *Context, report func(Finding)) {
 				FromStation: jr.toe, ToStation: jr.end, HasSpan: true,
 				Value: j.Froude, Limit: edge, HasValue: true,
 				Message: "the hydraulic jump has upstream Froude number " +
-					num(j.Froude) + kind + ", in the avoided band " + lo + "–" + hi + jr.continues(rr.Reach, ctx.units()),
+					numfmt.Num(j.Froude) + kind + ", in the avoided band " + lo + "–" + hi + jr.continues(rr.Reach, ctx.units()),
 				Remedy: jumpHazard(j.Froude) + "; bring F1 out of the band by changing the gate opening or the approach slope, " +
 					"or provide a basin designed for it",
 			})

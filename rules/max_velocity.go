@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"strconv"
 
 	"github.com/chanlint/chanlint/model"
@@ -110,12 +111,12 @@ func checkVelocity(ctx *Context, report func(Finding), side limitSide) {
 		where := ""
 		if zoned {
 			if _, zone := highestVelocity(rr, p); zone != "" {
-				where = " in the " + zone + " (conveyance split V = Q·K_i/(K·A_i); section mean " + num(p.Velocity) + " " + velocityUnit(u) + ")"
+				where = " in the " + zone + " (conveyance split V = Q·K_i/(K·A_i); section mean " + numfmt.Num(p.Velocity) + " " + u.Velocity() + ")"
 			}
 		}
 		msg, remedy := velocityMessage(cfg, sec, s, u, side, where)
 		f := spanFinding(ev, rr, s, msg, remedy)
-		f.Unit = velocityUnit(u)
+		f.Unit = u.Velocity()
 		f.Focus = sec.At("lining") // the limit is the lining's
 		report(f)
 	})
@@ -206,8 +207,8 @@ func vegetated(lining string) bool { return lining == "grass" || lining == "natu
 
 func velocityMessage(cfg *policies.RuleConfig, sec *model.Section, s span, u model.Units, side limitSide, where string) (msg, remedy string) {
 	upper := side == failAbove
-	vu := velocityUnit(u)
-	val, lim := numPair(s.value, s.limit)
+	vu := u.Velocity()
+	val, lim := numfmt.Pair(s.value, s.limit)
 	for_ := liningText(cfg, sec)
 	if upper {
 		return "velocity " + val + " " + vu + where + " exceeds " + lim + " " + vu + " for " + for_,

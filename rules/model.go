@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
@@ -109,14 +110,14 @@ func checkModel(ctx *Context, report func(Finding)) {
 			}
 		}
 		if bend.Radius < widest/2 {
-			rad, half := numPair(bend.Radius, widest/2)
+			rad, half := numfmt.Pair(bend.Radius, widest/2)
 			report(Finding{
 				Severity: policies.Warning,
 				Range:    bend.Src.At("radius"),
 				Reach:    bend.ReachName,
 				Message: fmt.Sprintf("bend %q has a centreline radius of %s %s, less than half the top width "+
 					"of the flow (%s %s at station %s %s): the curve is tighter than the channel is wide; "+
-					"check the radius", bend.Name, rad, u.Length(), half, u.Length(), num(at), u.Length()),
+					"check the radius", bend.Name, rad, u.Length(), half, u.Length(), numfmt.Num(at), u.Length()),
 				Value: bend.Radius, Limit: widest / 2, HasValue: true,
 			})
 		}

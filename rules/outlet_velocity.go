@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"strconv"
 
 	"github.com/chanlint/chanlint/model"
@@ -49,7 +50,7 @@ that leaves it slower, or more barrels sharing the flow.`,
 
 func checkOutletVelocity(ctx *Context, report func(Finding)) {
 	table := ctx.Config.Table("limit")
-	vu := velocityUnit(ctx.units())
+	vu := ctx.units().Velocity()
 	ctx.eachCulvert(func(ev *solver.EventResult, cr *solver.CulvertResult) {
 		lining, sec := receivingLining(cr.Culvert)
 		lim, ok := table.For(lining)
@@ -62,7 +63,7 @@ func checkOutletVelocity(ctx *Context, report func(Finding)) {
 		}
 		f := culvertFinding(ev, cr, station)
 		f.Value, f.Limit = cr.OutletVelocity, lim
-		val, l := numPair(cr.OutletVelocity, lim)
+		val, l := numfmt.Pair(cr.OutletVelocity, lim)
 		for_ := "the policy's default (no receiving channel)"
 		if sec != nil {
 			var buf [64]byte
@@ -72,7 +73,7 @@ func checkOutletVelocity(ctx *Context, report func(Finding)) {
 			}
 		}
 		f.Message = culvertName(cr.Culvert) + ": outlet velocity " + val + " " + vu + " exceeds " + l + " " + vu + " for " + for_
-		f.Remedy = "provide outlet protection for " + numUp(cr.OutletVelocity) + " " + vu + " (a riprap apron or a dissipator, FHWA HEC-14), or slow the outlet flow"
+		f.Remedy = "provide outlet protection for " + numfmt.Up(cr.OutletVelocity) + " " + vu + " (a riprap apron or a dissipator, FHWA HEC-14), or slow the outlet flow"
 		report(f)
 	})
 }

@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )
@@ -57,12 +58,12 @@ func checkOvertopping(ctx *Context, report func(Finding)) {
 		f := culvertFinding(ev, cr, 0)
 		f.Focus = road.Range
 		f.Value, f.Limit = cr.RoadDepth, allowed
-		what := culvertName(cr.Culvert) + ": the road overtops, " + num(cr.RoadDepth) + " " + lu + " deep with " +
-			num(cr.RoadFlow) + " " + lu + "³/s over it"
+		what := culvertName(cr.Culvert) + ": the road overtops, " + numfmt.Num(cr.RoadDepth) + " " + lu + " deep with " +
+			numfmt.Num(cr.RoadFlow) + " " + lu + "³/s over it"
 		if allowed > 0 {
-			val, lim := numPair(cr.RoadDepth, allowed)
+			val, lim := numfmt.Pair(cr.RoadDepth, allowed)
 			what = culvertName(cr.Culvert) + ": " + val + " " + lu + " of water over the road exceeds " + lim + " " + lu +
-				" (" + num(cr.RoadFlow) + " " + lu + "³/s over it)"
+				" (" + numfmt.Num(cr.RoadFlow) + " " + lu + "³/s over it)"
 		}
 		f.Message = what + "; water on a road can sweep vehicles away"
 		f.Remedy = "enlarge or add barrels, improve the inlet or raise the road; the road owner's criteria and a licensed engineer decide what depth is acceptable"

@@ -2,6 +2,7 @@ package rules
 
 import (
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )
@@ -84,7 +85,7 @@ func checkPublicSafety(ctx *Context, report func(Finding)) {
 		v.short = short
 		return false
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
-		val, lim := numPair(s.value, s.limit)
+		val, lim := numfmt.Pair(s.value, s.limit)
 		unit, what := lu, "flow depth"
 		remedy := "widen the section, or keep the public away from the water over this span"
 		if s.kind == tooFast {

@@ -2,6 +2,7 @@ package rules
 
 import (
 	"flag"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"os"
 	"regexp"
 	"strings"
@@ -102,7 +103,7 @@ func readmeSetting(s *policies.Setting) string {
 	case s.Required:
 		form += "; required"
 	case s.Kind == policies.Number:
-		form += "; default " + num(s.Default)
+		form += "; default " + numfmt.Num(s.Default)
 	}
 	return "`" + s.Name + "` " + s.Doc + " (" + form + ")"
 }

@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"slices"
 	"strings"
@@ -84,7 +85,7 @@ func TestCheckNeverPanicsOrLeaksNaN(t *testing.T) {
 			t.Fatal("findings not sorted")
 		}
 		for _, f := range fs {
-			if !finite(f.FromStation, f.ToStation, f.Value, f.Limit) {
+			if !numfmt.Finite(f.FromStation, f.ToStation, f.Value, f.Limit) {
 				t.Fatalf("non-finite number in %+v", f)
 			}
 			if f.HasSpan && f.FromStation > f.ToStation && f.Rule != unusedExceptionID {

@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 
 	"github.com/chanlint/chanlint/model"
@@ -134,7 +135,7 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	cfg := ctx.Config
 	u := ctx.units()
 	gamma := unitWeight(u)
-	su := stressUnit(u)
+	su := u.Stress()
 	mean := shearMean(cfg)
 	limits := newLiningLimits(cfg, failAbove)
 	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
@@ -152,13 +153,13 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		p := &rr.Points[s.worst]
 		sec := sectionAt(rr, p)
-		val, lim := numPair(s.value, s.limit)
+		val, lim := numfmt.Pair(s.value, s.limit)
 		_, kb := bedShear(gamma, rr.Reach, p, mean)
 		lu := u.Length()
-		what := "shear stress on the bed " + val + " " + su + " (τd = γ·d·Sf, d the maximum depth " + num(p.Depth) + " " + lu + ")"
+		what := "shear stress on the bed " + val + " " + su + " (τd = γ·d·Sf, d the maximum depth " + numfmt.Num(p.Depth) + " " + lu + ")"
 		if kb != 1 {
-			what = "shear stress on the bed in the bend " + val + " " + su + " (τb = Kb·γ·d·Sf, Kb " + num(kb) +
-				", d the maximum depth " + num(p.Depth) + " " + lu + ")"
+			what = "shear stress on the bed in the bend " + val + " " + su + " (τb = Kb·γ·d·Sf, Kb " + numfmt.Num(kb) +
+				", d the maximum depth " + numfmt.Num(p.Depth) + " " + lu + ")"
 		}
 		if mean {
 			what = "mean boundary shear stress " + val + " " + su + " (γ·R·Sf, as the policy asks)"

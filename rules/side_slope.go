@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
@@ -57,8 +58,8 @@ func checkSideSlope(ctx *Context, report func(Finding)) {
 				continue
 			}
 			f := pieceFinding(r, p, z, limit,
-				fmt.Sprintf("side slope %s:1 (H:V) of section %q is steeper than the %s:1 the policy allows", num(z), p.sec.Name, num(limit)),
-				fmt.Sprintf("flatten the banks to %s:1 or flatter", num(limit)))
+				fmt.Sprintf("side slope %s:1 (H:V) of section %q is steeper than the %s:1 the policy allows", numfmt.Num(z), p.sec.Name, numfmt.Num(limit)),
+				fmt.Sprintf("flatten the banks to %s:1 or flatter", numfmt.Num(limit)))
 			f.Focus = p.sec.At(attr)
 			report(f)
 		}

@@ -3,6 +3,7 @@ package rules
 import (
 	"cmp"
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"slices"
 	"sort"
 
@@ -100,7 +101,7 @@ func checkSolver(ctx *Context, report func(Finding)) {
 		}
 		if len(bad) > 0 {
 			f := base
-			if finite(bad[0], bad[len(bad)-1]) {
+			if numfmt.Finite(bad[0], bad[len(bad)-1]) {
 				f.FromStation, f.ToStation, f.HasSpan = bad[0], bad[len(bad)-1], true
 			}
 			f.Message = fmt.Sprintf("the solver returned numbers that are not finite at %s of reach %q; "+
@@ -123,7 +124,7 @@ type noteGroup struct {
 func noteGroups(rr *solver.ReachResult) []noteGroup {
 	notes := make([]solver.Note, 0, len(rr.Notes))
 	for _, n := range rr.Notes {
-		if finite(n.Station) {
+		if numfmt.Finite(n.Station) {
 			notes = append(notes, n)
 		}
 	}

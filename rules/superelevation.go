@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"sort"
 
@@ -150,10 +151,10 @@ func superelevationMessage(rr *solver.ReachResult, bend *model.Bend, s span, cSu
 	}
 	top := p.Invert + sectionAt(rr, p).Height
 	dy := top - p.WSE - s.value
-	rem, lim := numPair(s.value, s.limit)
+	rem, lim := numfmt.Pair(s.value, s.limit)
 	msg = fmt.Sprintf("in bend %q (radius %s %s) the outer bank water surface rises %s %s "+
 		"(Δy = C·V²·T/(g·rc), C = %s, V %s %s, T %s %s), leaving %s %s to the top of bank where %s %s is required",
-		bend.Name, num(bend.Radius), lu, num(dy), lu, num(c), num(p.Velocity), velocityUnit(u), num(p.TopWidth), lu,
+		bend.Name, numfmt.Num(bend.Radius), lu, numfmt.Num(dy), lu, numfmt.Num(c), numfmt.Num(p.Velocity), u.Velocity(), numfmt.Num(p.TopWidth), lu,
 		rem, lu, lim, lu)
 	remedy = fmt.Sprintf("raise the outer bank by at least %s %s over the bend", practicalUp(s.short, heightStep, u), lu)
 	if s.aux < math.MaxFloat64 {

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/hashicorp/hcl/v2"
 	"io"
 	"math"
@@ -859,7 +860,7 @@ func worseText(f *rules.Finding, e *baseline.Entry) string {
 		unit = " " + f.Unit
 	}
 	return fmt.Sprintf("new: much worse than recorded, %s%s past the limit where the baseline has %s%s (more than %d %% worse)",
-		rules.Num(now), unit, rules.Num(was), unit, int(baseline.WorseShare*100))
+		numfmt.Num(now), unit, numfmt.Num(was), unit, int(baseline.WorseShare*100))
 }
 
 // staleText describes a baseline entry that no finding matched.

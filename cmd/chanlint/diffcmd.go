@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"flag"
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"io"
 	"math"
 	"os/exec"
@@ -340,7 +341,7 @@ func (a *app) writeDiffText(w io.Writer, diffs []*revdiff.Diff, pol *policies.Po
 		}
 		if same > 0 {
 			fmt.Fprintf(w, "%s of reach and event unchanged (water surface, velocity and freeboard within %s %s)\n",
-				plural(same, "pair", "pairs"), rules.Num(profileTolerance), unit)
+				plural(same, "pair", "pairs"), numfmt.Num(profileTolerance), unit)
 		}
 		newN, fixedN, changedN = newN+len(d.New), fixedN+len(d.Fixed), changedN+len(d.Changed)
 		fmt.Fprintln(w)
@@ -369,10 +370,10 @@ func profileText(p *revdiff.Profile, unit string) string {
 	quantity := func(name, u string, up, down revdiff.Extreme) string {
 		var moves []string
 		if up.Delta >= profileTolerance {
-			moves = append(moves, signedNum(up.Delta)+" "+u+" at "+rules.Num(up.Station)+" "+unit)
+			moves = append(moves, signedNum(up.Delta)+" "+u+" at "+numfmt.Num(up.Station)+" "+unit)
 		}
 		if down.Delta <= -profileTolerance {
-			moves = append(moves, signedNum(down.Delta)+" "+u+" at "+rules.Num(down.Station)+" "+unit)
+			moves = append(moves, signedNum(down.Delta)+" "+u+" at "+numfmt.Num(down.Station)+" "+unit)
 		}
 		if len(moves) == 0 {
 			return ""
@@ -402,9 +403,9 @@ func signedNum(x float64) string {
 	case math.Abs(x) < profileTolerance:
 		return "0"
 	case x > 0:
-		return "+" + rules.Num(x)
+		return "+" + numfmt.Num(x)
 	}
-	return "−" + rules.Num(-x)
+	return "−" + numfmt.Num(-x)
 }
 
 // changeText describes a finding that changed: "reach R, event E:
@@ -415,10 +416,10 @@ func changeText(c *revdiff.Change, unit string) string {
 		parts = append(parts, w)
 	}
 	if c.New.HasValue {
-		parts = append(parts, "value "+rules.Num(c.Old.Value)+" → "+rules.Num(c.New.Value)+" "+c.New.Unit)
+		parts = append(parts, "value "+numfmt.Num(c.Old.Value)+" → "+numfmt.Num(c.New.Value)+" "+c.New.Unit)
 	}
 	if c.New.HasSpan {
-		parts = append(parts, "stations "+rules.Span(c.Old.FromStation, c.Old.ToStation)+" → "+rules.Span(c.New.FromStation, c.New.ToStation)+" "+unit)
+		parts = append(parts, "stations "+numfmt.Span(c.Old.FromStation, c.Old.ToStation)+" → "+numfmt.Span(c.New.FromStation, c.New.ToStation)+" "+unit)
 	}
 	return strings.Join(parts, ", ") + ": " + c.New.Message
 }
@@ -561,7 +562,7 @@ func writeDiffMarkdown(w io.Writer, diffs []*revdiff.Diff, policyLine string) {
 			fmt.Fprintln(w, strings.Join(rows, "\n"))
 			fmt.Fprintln(w)
 		} else if len(d.Profiles) > 0 {
-			fmt.Fprintf(w, "The water surface, velocity and freeboard are unchanged on every reach and event (within %s %s).\n\n", rules.Num(profileTolerance), unit)
+			fmt.Fprintf(w, "The water surface, velocity and freeboard are unchanged on every reach and event (within %s %s).\n\n", numfmt.Num(profileTolerance), unit)
 		}
 	}
 	fmt.Fprintln(w, md(policyLine))
@@ -573,7 +574,7 @@ func writeDiffMarkdown(w io.Writer, diffs []*revdiff.Diff, policyLine string) {
 // least profileTolerance, else "–".
 func moveCell(e revdiff.Extreme, up bool) string {
 	if (up && e.Delta >= profileTolerance) || (!up && e.Delta <= -profileTolerance) {
-		return signedNum(e.Delta) + " at " + rules.Num(e.Station)
+		return signedNum(e.Delta) + " at " + numfmt.Num(e.Station)
 	}
 	return "–"
 }

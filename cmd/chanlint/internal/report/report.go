@@ -31,6 +31,7 @@ import (
 	"encoding/base64"
 	"errors"
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"html/template"
 	"io"
 	"math"
@@ -794,7 +795,7 @@ func num(x float64) string {
 	if !isFinite(x) {
 		return "–"
 	}
-	return rules.Num(x)
+	return numfmt.Num(x)
 }
 
 // num2 prints a dimensionless number with two decimals.
@@ -811,7 +812,7 @@ func stationRange(from, to float64) string {
 	if !isFinite(from) || !isFinite(to) {
 		return num(from) + " – " + num(to)
 	}
-	return strings.Replace(rules.Span(from, to), "–", " – ", 1)
+	return strings.Replace(numfmt.Span(from, to), "–", " – ", 1)
 }
 
 func plural(n int, word string) string {

@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -170,7 +171,7 @@ func TestNumNeverPrintsNaN(t *testing.T) {
 	assert.Equal(t, "–", num(nan))
 	// The report prints numbers as the text output does (rules.Num).
 	for _, x := range []float64{0.18, 1234.5, -0.0001, 6.6438} {
-		assert.Equal(t, rules.Num(x), num(x))
+		assert.Equal(t, numfmt.Num(x), num(x))
 	}
 	assert.Equal(t, "6.64", num(6.6438))
 	assert.Equal(t, "305 – 350", stationRange(305.2855, 350))

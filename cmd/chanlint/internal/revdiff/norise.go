@@ -1,6 +1,7 @@
 package revdiff
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 
 	"github.com/chanlint/chanlint/model"
@@ -52,9 +53,9 @@ func noRise(m *model.Model, profiles []Profile, old, new *solver.Result, pol *po
 			Event:    ev.Name,
 			HasSpan:  true, FromStation: from, ToStation: to,
 			HasValue: true, Value: worst, Limit: limit, Unit: u,
-			Message: "the water surface rises " + rules.Num(worst) + " " + u + " over the existing model's (most at station " +
-				rules.Num(at) + " " + u + "), more than the " + rules.Num(limit) + " " + u + " allowed",
-			Remedy:    "restore the conveyance where the surface rises, or compensate elsewhere, until the rise is at most " + rules.Num(limit) + " " + u,
+			Message: "the water surface rises " + numfmt.Num(worst) + " " + u + " over the existing model's (most at station " +
+				numfmt.Num(at) + " " + u + "), more than the " + numfmt.Num(limit) + " " + u + " allowed",
+			Remedy:    "restore the conveyance where the surface rises, or compensate elsewhere, until the rise is at most " + numfmt.Num(limit) + " " + u,
 			Reference: policies.Cite(pol, block),
 		})
 	}
