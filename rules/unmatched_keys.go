@@ -80,6 +80,12 @@ func liningKeys(b *policies.RuleConfig, linings []string) []string {
 			continue
 		}
 		t := b.Table(set.Name)
+		if !fallsThrough(t, linings) {
+			// Every lining of the model has its key: no lining falls
+			// through to the default, so there is nothing to report and
+			// no need to list the keys.
+			continue
+		}
 		var keys []string
 		for k := range t.Values {
 			keys = append(keys, k)
@@ -111,6 +117,19 @@ func liningKeys(b *policies.RuleConfig, linings []string) []string {
 			quotedList(fallen), map[bool]string{true: "gets", false: "get"}[len(fallen) == 1], fallback))
 	}
 	return out
+}
+
+// fallsThrough reports whether some lining of the model has no key in
+// the table (neither a value nor null), and so takes its default.
+func fallsThrough(t policies.ByLining, linings []string) bool {
+	for _, l := range linings {
+		_, valued := t.Values[l]
+		_, exempt := t.NoLimit[l]
+		if !valued && !exempt {
+			return true
+		}
+	}
+	return false
 }
 
 // caseNotes calls out keys that differ from a model name only in case.

@@ -62,7 +62,7 @@ func checkUnmatchedSelectors(ctx *Context, report func(Finding)) {
 		top = hcl.Range{Filename: m.File, Start: hcl.InitialPos, End: hcl.InitialPos}
 	}
 	linings := modelLinings(m)
-	for _, id := range slices.Sorted(maps.Keys(p.Rules)) {
+	for _, id := range ruleIDs(p) {
 		for _, b := range p.Rules[id].Blocks() {
 			where := func() string {
 				return fmt.Sprintf("the %s block at %s:%d", id, path.Base(b.File), b.DefRange.Start.Line)
@@ -84,6 +84,23 @@ func checkUnmatchedSelectors(ctx *Context, report func(Finding)) {
 			}
 		}
 	}
+}
+
+// ruleIDs are the ids of the rules a policy configures, sorted: in the
+// order of the registry, which is sorted, unless the policy names a rule
+// the registry does not have (a policy built by hand), whose ids are then
+// sorted afresh.
+func ruleIDs(p *policies.Policy) []string {
+	ids := make([]string, 0, len(p.Rules))
+	for _, r := range registry {
+		if _, ok := p.Rules[r.ID]; ok {
+			ids = append(ids, r.ID)
+		}
+	}
+	if len(ids) != len(p.Rules) {
+		return slices.Sorted(maps.Keys(p.Rules))
+	}
+	return ids
 }
 
 // matchesSome reports whether the block's selector admits some event of
