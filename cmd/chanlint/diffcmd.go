@@ -471,7 +471,7 @@ type profileJSON struct {
 }
 
 func extreme(e revdiff.Extreme) extremeJSON {
-	return extremeJSON{Delta: finite(e.Delta), Station: finite(e.Station)}
+	return extremeJSON{Delta: numfmt.JSON(e.Delta), Station: numfmt.JSON(e.Station)}
 }
 
 func writeDiffJSON(w io.Writer, diffs []*revdiff.Diff) error {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"io"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/baseline"
@@ -150,13 +151,13 @@ func newFindingJSON(f *rules.Finding) findingJSON {
 			Line: r.Range.Start.Line, Column: r.Range.Start.Column, EndLine: r.Range.End.Line, EndColumn: r.Range.End.Column})
 	}
 	if f.HasSpan {
-		j.FromStation, j.ToStation = finite(f.FromStation), finite(f.ToStation)
+		j.FromStation, j.ToStation = numfmt.JSON(f.FromStation), numfmt.JSON(f.ToStation)
 	}
 	if e := f.Envelope; e != nil {
 		j.Envelope = &envelopeJSON{Verdict: e.Verdict, Cases: e.Cases, Failing: e.Failing, Driver: e.Driver, Case: e.Case}
 	}
 	if f.HasValue {
-		j.Value, j.Limit = finite(f.Value), finite(f.Limit)
+		j.Value, j.Limit = numfmt.JSON(f.Value), numfmt.JSON(f.Limit)
 		u := f.Unit
 		j.Units = &u
 	}

@@ -5,6 +5,7 @@ import (
 	"encoding/csv"
 	"flag"
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"io"
 	"slices"
 	"strings"
@@ -262,7 +263,7 @@ func zoneVelocities(rr *solver.ReachResult, p *solver.Point) *zonesJSON {
 		if z.Area[i] <= 0 {
 			return nil
 		}
-		return finite(z.Velocity[i])
+		return numfmt.JSON(z.Velocity[i])
 	}
 	return &zonesJSON{LeftOverbank: v(solver.LeftOverbank), MainChannel: v(solver.MainChannel), RightOverbank: v(solver.RightOverbank)}
 }
@@ -293,20 +294,20 @@ func writeSolveJSON(w io.Writer, m *model.Model, res *solver.Result) error {
 		for _, c := range ev.Culverts {
 			ej.Culverts = append(ej.Culverts, culvertJSON{
 				Name: c.Culvert.Name, Reach: c.Culvert.ReachName, Barrels: c.Culvert.Barrels,
-				Headwater: finite(c.Headwater), HeadwaterDepth: finite(c.HeadwaterDepth), HWD: finite(c.HWD),
+				Headwater: numfmt.JSON(c.Headwater), HeadwaterDepth: numfmt.JSON(c.HeadwaterDepth), HWD: numfmt.JSON(c.HWD),
 				Control:        string(c.Control),
-				InletHeadwater: finite(c.InletHeadwater), InletRegime: string(c.InletRegime),
-				OutletHeadwater: finite(c.OutletHeadwater), OutletMethod: c.OutletMethod,
-				Tailwater:  finite(c.Tailwater),
-				BarrelFlow: finite(c.BarrelFlow), RoadFlow: finite(c.RoadFlow), RoadDepth: finite(c.RoadDepth),
-				OutletDepth: finite(c.OutletDepth), OutletVelocity: finite(c.OutletVelocity),
+				InletHeadwater: numfmt.JSON(c.InletHeadwater), InletRegime: string(c.InletRegime),
+				OutletHeadwater: numfmt.JSON(c.OutletHeadwater), OutletMethod: c.OutletMethod,
+				Tailwater:  numfmt.JSON(c.Tailwater),
+				BarrelFlow: numfmt.JSON(c.BarrelFlow), RoadFlow: numfmt.JSON(c.RoadFlow), RoadDepth: numfmt.JSON(c.RoadDepth),
+				OutletDepth: numfmt.JSON(c.OutletDepth), OutletVelocity: numfmt.JSON(c.OutletVelocity),
 				Notes: append([]string{}, c.Notes...),
 			})
 		}
 		for _, rr := range ev.Reaches {
 			rj := solveReachJSON{
 				Name:       rr.Reach.Name,
-				Discharge:  finite(rr.Discharge),
+				Discharge:  numfmt.JSON(rr.Discharge),
 				SlopeClass: string(rr.SlopeClass),
 				Profiles:   rr.ProfileTypes(),
 				Points:     []pointJSON{},
@@ -321,41 +322,41 @@ func writeSolveJSON(w io.Writer, m *model.Model, res *solver.Result) error {
 			for i := range rr.Points {
 				p := &rr.Points[i]
 				pj := pointJSON{
-					Station: finite(p.Station), Invert: finite(p.Invert),
-					Depth: finite(p.Depth), WSE: finite(p.WSE),
-					Velocity: finite(p.Velocity), Froude: finite(p.Froude),
-					Energy: finite(p.Energy), CriticalDepth: finite(p.CriticalDepth),
+					Station: numfmt.JSON(p.Station), Invert: numfmt.JSON(p.Invert),
+					Depth: numfmt.JSON(p.Depth), WSE: numfmt.JSON(p.WSE),
+					Velocity: numfmt.JSON(p.Velocity), Froude: numfmt.JSON(p.Froude),
+					Energy: numfmt.JSON(p.Energy), CriticalDepth: numfmt.JSON(p.CriticalDepth),
 					Regime: string(p.Regime), Zones: zoneVelocities(rr, p),
 				}
 				if p.HasNormal {
-					pj.NormalDepth = finite(p.NormalDepth)
+					pj.NormalDepth = numfmt.JSON(p.NormalDepth)
 				}
 				rj.Points = append(rj.Points, pj)
 			}
 			for _, j := range rr.Jumps {
 				rj.Jumps = append(rj.Jumps, jumpJSON{
-					Station: finite(j.Station), UpstreamDepth: finite(j.UpstreamDepth),
-					DownstreamDepth: finite(j.DownstreamDepth), Froude: finite(j.Froude),
-					Length: finite(j.Length), Type: string(j.Type), EnergyLoss: finite(j.EnergyLoss),
+					Station: numfmt.JSON(j.Station), UpstreamDepth: numfmt.JSON(j.UpstreamDepth),
+					DownstreamDepth: numfmt.JSON(j.DownstreamDepth), Froude: numfmt.JSON(j.Froude),
+					Length: numfmt.JSON(j.Length), Type: string(j.Type), EnergyLoss: numfmt.JSON(j.EnergyLoss),
 				})
 			}
 			for _, d := range rr.Drops {
 				rj.Drops = append(rj.Drops, dropJSON{
-					Node: d.Node, From: d.From, Station: finite(d.Station), DropHeight: finite(d.Height),
-					DropNumber: finite(d.Number), BrinkDepth: finite(d.Brink), Y1: finite(d.ToeDepth),
-					PoolDepth: finite(d.PoolDepth), DropLength: finite(d.Length), SequentDepth: finite(d.SequentDepth),
-					EnergyLoss: finite(d.EnergyLoss), Drowned: d.Drowned, Method: d.Method, Validity: d.Validity,
+					Node: d.Node, From: d.From, Station: numfmt.JSON(d.Station), DropHeight: numfmt.JSON(d.Height),
+					DropNumber: numfmt.JSON(d.Number), BrinkDepth: numfmt.JSON(d.Brink), Y1: numfmt.JSON(d.ToeDepth),
+					PoolDepth: numfmt.JSON(d.PoolDepth), DropLength: numfmt.JSON(d.Length), SequentDepth: numfmt.JSON(d.SequentDepth),
+					EnergyLoss: numfmt.JSON(d.EnergyLoss), Drowned: d.Drowned, Method: d.Method, Validity: d.Validity,
 				})
 			}
 			for _, st := range rr.Structures {
 				rj.Structures = append(rj.Structures, structureJSON{
-					Kind: string(st.Kind), Name: st.Name, Station: finite(st.Station), State: st.State,
-					Method: st.Method, Validity: st.Validity, Coefficient: finite(st.Coefficient),
-					HeadLoss: finite(st.HeadLoss), UpstreamDepth: finite(st.UpstreamDepth), DownstreamDepth: finite(st.DownstreamDepth),
+					Kind: string(st.Kind), Name: st.Name, Station: numfmt.JSON(st.Station), State: st.State,
+					Method: st.Method, Validity: st.Validity, Coefficient: numfmt.JSON(st.Coefficient),
+					HeadLoss: numfmt.JSON(st.HeadLoss), UpstreamDepth: numfmt.JSON(st.UpstreamDepth), DownstreamDepth: numfmt.JSON(st.DownstreamDepth),
 				})
 			}
 			for _, n := range rr.Notes {
-				rj.Notes = append(rj.Notes, noteJSON{Kind: string(n.Kind), Station: finite(n.Station), Message: n.Message})
+				rj.Notes = append(rj.Notes, noteJSON{Kind: string(n.Kind), Station: numfmt.JSON(n.Station), Message: n.Message})
 			}
 			ej.Reaches = append(ej.Reaches, rj)
 		}
@@ -382,7 +383,7 @@ func writeSolveCSV(w io.Writer, u model.Units, res *solver.Result) error {
 	if err := cw.Write(csvHeader(u)); err != nil {
 		return err
 	}
-	num := func(x float64) string { return formatNumber(x, jsonDecimals) }
+	num := func(x float64) string { return numfmt.Decimals(x, numfmt.JSONDecimals) }
 	for _, ev := range res.Events {
 		for _, rr := range ev.Reaches {
 			for _, p := range rr.Points {
@@ -434,12 +435,12 @@ func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
 		profiles = "none"
 	}
 	fmt.Fprintf(w, "\n  reach %s: Q = %s %s³/s, %s slope (S0 = %s), profiles %s, %s\n",
-		tableName(rr.Reach.Name), fixed(rr.Discharge, 3), L, rr.SlopeClass,
-		formatNumber(rr.Reach.Slope, 6), profiles, plural(len(rr.Jumps), "jump", "jumps"))
+		tableName(rr.Reach.Name), numfmt.Fixed(rr.Discharge, 3), L, rr.SlopeClass,
+		numfmt.Decimals(rr.Reach.Slope, 6), profiles, plural(len(rr.Jumps), "jump", "jumps"))
 	if len(rr.Profiles) > 1 {
 		var spans []string
 		for _, p := range rr.Profiles {
-			spans = append(spans, fmt.Sprintf("%s %s–%s", p.Type, formatNumber(p.FromStation, 2), formatNumber(p.ToStation, 2)))
+			spans = append(spans, fmt.Sprintf("%s %s–%s", p.Type, numfmt.Decimals(p.FromStation, 2), numfmt.Decimals(p.ToStation, 2)))
 		}
 		fmt.Fprintf(w, "    profile spans: %s %s\n", strings.Join(spans, ", "), L)
 	}
@@ -465,17 +466,17 @@ func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
 		p := &rr.Points[i]
 		yn := "—"
 		if p.HasNormal {
-			yn = fixed(p.NormalDepth, 3)
+			yn = numfmt.Fixed(p.NormalDepth, 3)
 		}
-		row := []string{fixed(p.Station, 2), fixed(p.Invert, 3), fixed(p.Depth, 3), fixed(p.WSE, 3),
-			fixed(p.Velocity, 3), fixed(p.Froude, 3), fixed(p.Energy, 3),
-			fixed(p.CriticalDepth, 3), yn}
+		row := []string{numfmt.Fixed(p.Station, 2), numfmt.Fixed(p.Invert, 3), numfmt.Fixed(p.Depth, 3), numfmt.Fixed(p.WSE, 3),
+			numfmt.Fixed(p.Velocity, 3), numfmt.Fixed(p.Froude, 3), numfmt.Fixed(p.Energy, 3),
+			numfmt.Fixed(p.CriticalDepth, 3), yn}
 		if zoned {
 			z, ok := rr.Zones(p)
 			for k := range 3 {
 				cell := "—"
 				if ok && z.Area[k] > 0 {
-					cell = fixed(z.Velocity[k], 3)
+					cell = numfmt.Fixed(z.Velocity[k], 3)
 				}
 				row = append(row, cell)
 			}
@@ -485,8 +486,8 @@ func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
 	t.write(w, "    ")
 	for _, j := range rr.Jumps {
 		fmt.Fprintf(w, "    jump at %s %s: depth %s → %s %s, F1 = %s, %s, length %s %s, energy loss %s %s\n",
-			fixed(j.Station, 2), L, fixed(j.UpstreamDepth, 3), fixed(j.DownstreamDepth, 3), L,
-			fixed(j.Froude, 2), j.Type, fixed(j.Length, 2), L, fixed(j.EnergyLoss, 3), L)
+			numfmt.Fixed(j.Station, 2), L, numfmt.Fixed(j.UpstreamDepth, 3), numfmt.Fixed(j.DownstreamDepth, 3), L,
+			numfmt.Fixed(j.Froude, 2), j.Type, numfmt.Fixed(j.Length, 2), L, numfmt.Fixed(j.EnergyLoss, 3), L)
 	}
 	for _, d := range rr.Drops {
 		state := "jump below it checked by the jump rules"
@@ -494,8 +495,8 @@ func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
 			state = "drowned against the drop face"
 		}
 		fmt.Fprintf(w, "    drop from %s at %s %s: height %s %s, drop number %s, y1 %s %s, pool depth %s %s, drop length %s %s, sequent depth %s %s; %s\n",
-			d.From, fixed(d.Station, 2), L, fixed(d.Height, 3), L, formatNumber(d.Number, 4), fixed(d.ToeDepth, 3), L,
-			fixed(d.PoolDepth, 3), L, fixed(d.Length, 2), L, fixed(d.SequentDepth, 3), L, state)
+			d.From, numfmt.Fixed(d.Station, 2), L, numfmt.Fixed(d.Height, 3), L, numfmt.Decimals(d.Number, 4), numfmt.Fixed(d.ToeDepth, 3), L,
+			numfmt.Fixed(d.PoolDepth, 3), L, numfmt.Fixed(d.Length, 2), L, numfmt.Fixed(d.SequentDepth, 3), L, state)
 		fmt.Fprintf(w, "      method: %s\n      validity: %s\n", d.Method, d.Validity)
 	}
 	for _, st := range rr.Structures {
@@ -504,12 +505,12 @@ func writeReachTable(w io.Writer, rr *solver.ReachResult, L string) {
 			what += " " + st.Name
 		}
 		fmt.Fprintf(w, "    %s at %s %s: %s, depths %s → %s %s, head loss %s %s\n",
-			what, fixed(st.Station, 2), L, st.State, fixed(st.UpstreamDepth, 3), fixed(st.DownstreamDepth, 3), L,
-			fixed(st.HeadLoss, 3), L)
+			what, numfmt.Fixed(st.Station, 2), L, st.State, numfmt.Fixed(st.UpstreamDepth, 3), numfmt.Fixed(st.DownstreamDepth, 3), L,
+			numfmt.Fixed(st.HeadLoss, 3), L)
 		fmt.Fprintf(w, "      method: %s\n      validity: %s\n", st.Method, st.Validity)
 	}
 	for _, n := range rr.Notes {
-		fmt.Fprintf(w, "    note at %s %s (%s): %s\n", fixed(n.Station, 2), L, n.Kind, n.Message)
+		fmt.Fprintf(w, "    note at %s %s (%s): %s\n", numfmt.Fixed(n.Station, 2), L, n.Kind, n.Message)
 	}
 }
 
@@ -523,8 +524,8 @@ func writeCulvertTable(w io.Writer, culverts []*solver.CulvertResult, L string) 
 	t.header([]string{"culvert", "headwater", "HW/D", "inlet ctl", "outlet ctl", "barrel Q", "road Q", "over road", "outlet y", "outlet V", "control"},
 		[]string{"", L, "", L, L, L + "³/s", L + "³/s", L, L, L + "/s", ""})
 	for _, c := range culverts {
-		t.row(tableName(c.Culvert.Name), fixed(c.Headwater, 3), fixed(c.HWD, 2), fixed(c.InletHeadwater, 3), fixed(c.OutletHeadwater, 3),
-			fixed(c.BarrelFlow, 3), fixed(c.RoadFlow, 3), fixed(c.RoadDepth, 3), fixed(c.OutletDepth, 3), fixed(c.OutletVelocity, 3),
+		t.row(tableName(c.Culvert.Name), numfmt.Fixed(c.Headwater, 3), numfmt.Fixed(c.HWD, 2), numfmt.Fixed(c.InletHeadwater, 3), numfmt.Fixed(c.OutletHeadwater, 3),
+			numfmt.Fixed(c.BarrelFlow, 3), numfmt.Fixed(c.RoadFlow, 3), numfmt.Fixed(c.RoadDepth, 3), numfmt.Fixed(c.OutletDepth, 3), numfmt.Fixed(c.OutletVelocity, 3),
 			string(c.Control))
 	}
 	t.write(w, "    ")

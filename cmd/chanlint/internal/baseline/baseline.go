@@ -25,6 +25,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"io"
 	"math"
 	"path"
@@ -108,7 +109,7 @@ func identity(e *Entry) string {
 func keyOf(e Entry) string {
 	span := "-"
 	if e.FromStation != nil && e.ToStation != nil {
-		span = formatStation(*e.FromStation) + ".." + formatStation(*e.ToStation)
+		span = numfmt.Fixed(*e.FromStation, 1) + ".." + numfmt.Fixed(*e.ToStation, 1)
 	}
 	return identity(&e) + "\x00" + span
 }
@@ -129,14 +130,12 @@ func entryOf(f rules.Finding) Entry {
 		from, to := RoundStation(f.FromStation), RoundStation(f.ToStation)
 		e.FromStation, e.ToStation = &from, &to
 	}
-	if f.HasValue && finiteNum(f.Value) && finiteNum(f.Limit) {
+	if f.HasValue && numfmt.Finite(f.Value, f.Limit) {
 		v, l := roundValue(f.Value), roundValue(f.Limit)
 		e.Value, e.Limit = &v, &l
 	}
 	return e
 }
-
-func finiteNum(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
 // roundValue keeps six significant digits of a recorded value: enough for
 // the "much worse" rule, short enough to read.
@@ -158,7 +157,7 @@ func CleanPath(p string) string {
 // from zero); NaN and infinities, which no solver output should contain,
 // become 0 so that a key is always a finite number.
 func RoundStation(s float64) float64 {
-	if math.IsNaN(s) || math.IsInf(s, 0) {
+	if !numfmt.Finite(s) {
 		return 0
 	}
 	r := math.Round(s/stationStep) * stationStep
@@ -169,8 +168,6 @@ func RoundStation(s float64) float64 {
 	}
 	return r
 }
-
-func formatStation(s float64) string { return strconv.FormatFloat(s, 'f', 1, 64) }
 
 // MessageFingerprint is a short hash of a message with its numbers removed
 // and its spacing and case normalised, so that a measured value that moves
@@ -416,7 +413,7 @@ func spanDistance(rec, cur *Entry) (float64, bool) {
 // zero (a value just at its limit) counts as worse once it exceeds one
 // per cent of the limit.
 func muchWorse(rec *Entry, f *rules.Finding) bool {
-	if rec.Value == nil || !f.HasValue || !finiteNum(f.Value) || !finiteNum(f.Limit) {
+	if rec.Value == nil || !f.HasValue || !numfmt.Finite(f.Value, f.Limit) {
 		return false
 	}
 	was := math.Abs(*rec.Value - *rec.Limit)

@@ -2,6 +2,7 @@ package pipeline
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"slices"
 	"strconv"
@@ -228,9 +229,7 @@ func signed(sign float64, x string) string {
 
 // num formats a size for a case name: at most three decimals, no
 // trailing zeros.
-func num(x float64) string {
-	return strconv.FormatFloat(math.Round(x*1000)/1000, 'f', -1, 64)
-}
+func num(x float64) string { return numfmt.Decimals(x, 3) }
 
 // sensitivityFor is the sensitivity run that applies to a model in units
 // u: the command line's when given, else the policy's block, else none.

@@ -17,6 +17,7 @@ package report
 // geometry of its own.
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
@@ -287,7 +288,7 @@ func sectionHeight(s *model.Section) float64 {
 	if s == nil {
 		return 0
 	}
-	if s.Height > 0 && isFinite(s.Height) {
+	if s.Height > 0 && numfmt.Finite(s.Height) {
 		return s.Height
 	}
 	if s.Shape == model.Circle && s.Diameter > 0 {
@@ -296,12 +297,10 @@ func sectionHeight(s *model.Section) float64 {
 	return 0
 }
 
-func isFinite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
-
 func clamp(x, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, x)) }
 
 func round1(x float64) float64 {
-	if !isFinite(x) {
+	if !numfmt.Finite(x) {
 		return 0
 	}
 	r := math.Round(x*10) / 10

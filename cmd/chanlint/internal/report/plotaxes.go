@@ -2,6 +2,7 @@ package report
 
 import (
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/solver"
 	"math"
 	"strconv"
@@ -36,7 +37,7 @@ func newScale(pieces []piece, p *Plot, culverts map[*model.Reach]*solver.Culvert
 	}
 	ymin, ymax := math.Inf(1), math.Inf(-1)
 	grow := func(y float64) {
-		if isFinite(y) {
+		if numfmt.Finite(y) {
 			ymin, ymax = math.Min(ymin, y), math.Max(ymax, y)
 		}
 	}
@@ -71,14 +72,14 @@ func newScale(pieces []piece, p *Plot, culverts map[*model.Reach]*solver.Culvert
 			s.anyPoints = true
 			grow(pt.Invert)
 			grow(pt.WSE)
-			if isFinite(pt.Energy) {
+			if numfmt.Finite(pt.Energy) {
 				emax = math.Max(emax, pt.Energy)
 			}
 			grow(pt.Invert + pt.CriticalDepth)
 			grow(pt.Invert + sectionHeight(pt.Section))
 		}
 	}
-	if !isFinite(ymin) || !isFinite(ymax) {
+	if !numfmt.Finite(ymin, ymax) {
 		ymin, ymax = 0, 1
 	}
 	if ymax-ymin < 1e-6 {
@@ -86,7 +87,7 @@ func newScale(pieces []piece, p *Plot, culverts map[*model.Reach]*solver.Culvert
 	}
 	// The energy grade of a fast jet (below a gate) can stand far above
 	// everything else; rather than flatten the profile, it is clipped.
-	if isFinite(emax) && emax > ymax {
+	if numfmt.Finite(emax) && emax > ymax {
 		if emax <= ymax+0.5*(ymax-ymin) {
 			ymax = emax
 		} else {
@@ -135,7 +136,7 @@ func (p *Plot) addAxes(sc *scale) {
 // niceTicks returns tick values covering [lo, hi] with about n intervals,
 // on steps of 1, 2, 2.5 or 5 times a power of ten.
 func niceTicks(lo, hi float64, n int) []float64 {
-	if !isFinite(lo) || !isFinite(hi) || hi <= lo || n < 1 {
+	if !numfmt.Finite(lo, hi) || hi <= lo || n < 1 {
 		return nil
 	}
 	step := niceStep((hi - lo) / float64(n))
@@ -153,7 +154,7 @@ func niceTicks(lo, hi float64, n int) []float64 {
 
 // niceStep rounds a raw step up to 1, 2, 2.5 or 5 × 10^k.
 func niceStep(raw float64) float64 {
-	if !(raw > 0) || !isFinite(raw) {
+	if !(raw > 0) || !numfmt.Finite(raw) {
 		return 1
 	}
 	exp := math.Floor(math.Log10(raw))
@@ -198,7 +199,7 @@ func formatTick(v float64, ticks []float64) string {
 
 // sig2 prints a positive number with two significant figures.
 func sig2(x float64) string {
-	if x <= 0 || !isFinite(x) {
+	if x <= 0 || !numfmt.Finite(x) {
 		return "0"
 	}
 	d := 1 - int(math.Floor(math.Log10(x)))

@@ -2,6 +2,7 @@ package report
 
 import (
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/solver"
 )
 
@@ -37,10 +38,10 @@ func (p *Plot) addLines(pieces []piece, sc *scale) {
 		for i := range pts {
 			pt := &pts[i]
 			x := sc.x(pc.offset + pt.Station)
-			if !isFinite(x) {
+			if !numfmt.Finite(x) {
 				continue
 			}
-			if isFinite(pt.Invert) {
+			if numfmt.Finite(pt.Invert) {
 				y := sc.y(pt.Invert)
 				bed.to(x, y)
 				if groundStart < 0 {
@@ -52,18 +53,18 @@ func (p *Plot) addLines(pieces []piece, sc *scale) {
 				if h := sectionHeight(pt.Section); h > 0 {
 					bank.to(x, sc.y(pt.Invert+h))
 				}
-				if isFinite(pt.CriticalDepth) && pt.CriticalDepth > 0 {
+				if numfmt.Finite(pt.CriticalDepth) && pt.CriticalDepth > 0 {
 					crit.to(x, sc.y(pt.Invert+pt.CriticalDepth))
 				}
-				if isFinite(pt.WSE) {
+				if numfmt.Finite(pt.WSE) {
 					wTop = append(wTop, [2]float64{x, sc.y(pt.WSE)})
 					wBot = append(wBot, [2]float64{x, y})
 				}
 			}
-			if isFinite(pt.WSE) {
+			if numfmt.Finite(pt.WSE) {
 				wse.to(x, sc.y(pt.WSE))
 			}
-			if isFinite(pt.Energy) {
+			if numfmt.Finite(pt.Energy) {
 				egl.to(x, sc.y(pt.Energy))
 			}
 		}
@@ -227,7 +228,7 @@ func (p *Plot) addEnvelope(pieces []piece, sc *scale, env *Envelope, lu string) 
 		}
 		path.close()
 		for i, x := range b.Station {
-			if w := b.High[i] - b.Low[i]; isFinite(w) && w > widest {
+			if w := b.High[i] - b.Low[i]; numfmt.Finite(w) && w > widest {
 				widest, at, where = w, x, pc.reach.Name
 			}
 		}
@@ -270,7 +271,7 @@ func (p *pathBuilder) start() {
 }
 
 func (p *pathBuilder) to(x, y float64) {
-	if !isFinite(x) || !isFinite(y) {
+	if !numfmt.Finite(x, y) {
 		p.flush()
 		p.fresh = true
 		return

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 
 	"github.com/chanlint/chanlint/model"
@@ -36,7 +37,7 @@ func (p *Plot) addJumps(pieces []piece, sc *scale, lu string) {
 			x := sc.x(pc.offset + j.Station)
 			x2 := sc.x(pc.offset + j.End())
 			inv := pc.reach.InvertAt(j.Station)
-			if !isFinite(x) || !isFinite(inv) {
+			if !numfmt.Finite(x, inv) {
 				continue
 			}
 			y1, y2 := sc.y(inv+j.UpstreamDepth), sc.y(inv+j.DownstreamDepth)
@@ -100,11 +101,11 @@ func (p *Plot) addCulverts(pieces []piece, sc *scale, lu string, culverts map[*m
 	fr := p.Frame
 	for i, pc := range pieces {
 		cr := culverts[pc.reach]
-		if cr == nil || !isFinite(cr.Headwater) || cr.OutletMethod == solver.OutletNoFlow {
+		if cr == nil || !numfmt.Finite(cr.Headwater) || cr.OutletMethod == solver.OutletNoFlow {
 			continue
 		}
 		x0, x1 := sc.x(pc.offset), sc.x(pc.offset+pc.reach.Length)
-		if !isFinite(x0) || !isFinite(x1) {
+		if !numfmt.Finite(x0, x1) {
 			continue
 		}
 		xa := math.Max(fr.X, x0-fr.W/5)
@@ -131,7 +132,7 @@ func (p *Plot) addCulverts(pieces []piece, sc *scale, lu string, culverts map[*m
 			Title: "culvert " + cr.Culvert.Name + ": headwater " + num(cr.Headwater) + " " + lu + " by " + cr.Method() +
 				" (inlet control " + num(cr.InletHeadwater) + ", outlet control " + num(cr.OutletHeadwater) + " " + lu + ")",
 		})
-		if road := cr.Culvert.Road; road != nil && isFinite(road.Crest) {
+		if road := cr.Culvert.Road; road != nil && numfmt.Finite(road.Crest) {
 			yr := sc.y(road.Crest)
 			title := "road over culvert " + cr.Culvert.Name + ": crest " + num(road.Crest) + " " + lu
 			if cr.RoadFlow > 0 {

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"strconv"
 	"unicode/utf8"
@@ -416,7 +417,7 @@ func appendNum(b []byte, x float64) []byte { return appendFixed(b, x, 100) }
 // written as 0 (layout never makes one; the plot must stay valid SVG).
 func appendFixed(b []byte, x float64, per int64) []byte {
 	r := math.Round(x * float64(per))
-	if !isFinite(r) || math.Abs(r) > 1e15 || r == 0 {
+	if !numfmt.Finite(r) || math.Abs(r) > 1e15 || r == 0 {
 		return append(b, '0')
 	}
 	n := int64(r)

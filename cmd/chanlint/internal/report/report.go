@@ -683,23 +683,23 @@ func reachSummary(rr *solver.ReachResult, u model.Units) reachRow {
 		Profiles: strings.Join(rr.ProfileTypes(), ", ")}
 	vmax, fmin, fmax, fbmin := math.Inf(-1), math.Inf(1), math.Inf(-1), math.Inf(1)
 	for _, pt := range rr.Points {
-		if isFinite(pt.Velocity) {
+		if numfmt.Finite(pt.Velocity) {
 			vmax = math.Max(vmax, pt.Velocity)
 		}
-		if isFinite(pt.Froude) {
+		if numfmt.Finite(pt.Froude) {
 			fmin, fmax = math.Min(fmin, pt.Froude), math.Max(fmax, pt.Froude)
 		}
-		if h := sectionHeight(pt.Section); h > 0 && isFinite(pt.Depth) {
+		if h := sectionHeight(pt.Section); h > 0 && numfmt.Finite(pt.Depth) {
 			fbmin = math.Min(fbmin, h-pt.Depth)
 		}
 	}
-	if isFinite(vmax) {
+	if numfmt.Finite(vmax) {
 		row.Velocity = num(vmax) + " " + lu + "/s"
 	}
-	if isFinite(fmin) {
+	if numfmt.Finite(fmin) {
 		row.Froude = num2(fmin) + " – " + num2(fmax)
 	}
-	if isFinite(fbmin) {
+	if numfmt.Finite(fbmin) {
 		row.Freeboard = num(fbmin) + " " + lu
 	}
 	var js []string
@@ -789,27 +789,27 @@ func slug(s string) string {
 }
 
 // num prints a measured value as every output of chanlint does
-// (rules.Num: three significant figures, never fewer digits than the
-// integer part); "–" for a number that is not finite.
+// (numfmt.Num); "–", an empty cell, for a number that is not finite.
 func num(x float64) string {
-	if !isFinite(x) {
+	if !numfmt.Finite(x) {
 		return "–"
 	}
 	return numfmt.Num(x)
 }
 
-// num2 prints a dimensionless number with two decimals.
+// num2 prints a dimensionless number with two decimals (numfmt.Fixed);
+// "–" for a number that is not finite.
 func num2(x float64) string {
-	if !isFinite(x) {
+	if !numfmt.Finite(x) {
 		return "–"
 	}
-	return strconv.FormatFloat(x, 'f', 2, 64)
+	return numfmt.Fixed(x, 2)
 }
 
 // stationRange is a station span as the text output prints it (both ends
 // to the same decimals).
 func stationRange(from, to float64) string {
-	if !isFinite(from) || !isFinite(to) {
+	if !numfmt.Finite(from, to) {
 		return num(from) + " – " + num(to)
 	}
 	return strings.Replace(numfmt.Span(from, to), "–", " – ", 1)

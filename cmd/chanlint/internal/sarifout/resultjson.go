@@ -1,6 +1,7 @@
 package sarifout
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"slices"
 	"strconv"
@@ -261,7 +262,7 @@ func (e *jsonWriter) int(n int) { e.b = strconv.AppendInt(e.b, int64(n), 10) }
 // float writes a number as encoding/json does; a non-finite one, which no
 // finding should hold, as null (see finite).
 func (e *jsonWriter) float(x float64) {
-	if math.IsNaN(x) || math.IsInf(x, 0) {
+	if !numfmt.Finite(x) {
 		e.raw("null")
 		return
 	}

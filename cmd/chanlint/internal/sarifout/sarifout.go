@@ -31,6 +31,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"io"
 	"net/url"
 	"path/filepath"
@@ -889,7 +890,7 @@ func fingerprint(f *rules.Finding, uri string) string {
 // finite keeps JSON valid should a non-finite number ever reach the
 // renderer: SARIF property values must be JSON numbers.
 func finite(x float64) any {
-	if x != x || x > 1.7976931348623157e308 || x < -1.7976931348623157e308 {
+	if !numfmt.Finite(x) {
 		return nil
 	}
 	return x
