@@ -21,6 +21,7 @@ const MaxMagnitude = 1e9
 // with the model's wording.
 type diagnoser struct {
 	hclkit.Diagnostics
+	src []byte // the file's text, which the ranges of its expressions index
 }
 
 // literalOnly reports a diagnostic for every construct of expr that a model
@@ -133,6 +134,9 @@ func plain(s string) label { return label{attr: s} }
 
 // number decodes a finite number of bounded magnitude.
 func (d *diagnoser) number(expr hcl.Expression, what label) (float64, bool) {
+	if f, ok := d.shortDecimal(expr); ok {
+		return f, true
+	}
 	v, ok := d.value(expr)
 	if !ok {
 		return 0, false
@@ -148,6 +152,50 @@ func (d *diagnoser) numberValue(v cty.Value, rng hcl.Range, what label) (float64
 	f, _ := v.AsBigFloat().Float64()
 	if math.IsNaN(f) || math.IsInf(f, 0) || math.Abs(f) > MaxMagnitude {
 		d.Errorf(rng, "Number too large", "%s is beyond ±%g; check the units and the decimal point.", what, MaxMagnitude)
+		return 0, false
+	}
+	return f, true
+}
+
+// maxShortDecimal is the longest number literal shortDecimal reads: 19
+// characters hold at most 19 significant digits.
+const maxShortDecimal = 19
+
+// shortDecimal reads the number literal of nearly every numeric attribute
+// (digits with at most one decimal point, no exponent, such as 3000 or
+// 0.0008, at most maxShortDecimal characters) from its text, with
+// strconv, rather than copying the parser's 512-bit value and rounding
+// that. The result is the same float64: a decimal of at most 19
+// significant digits lies at least 2⁻⁹⁸ of its size away from any point
+// halfway between two float64 values, far beyond the 2⁻⁵¹² error of the
+// 512-bit value, so both roundings to nearest agree (exact halfway points
+// are dyadic and held exactly at 512 bits; TestShortDecimal checks
+// against cty). Values beyond MaxMagnitude, and every other form, take
+// the general path for its diagnostics.
+func (d *diagnoser) shortDecimal(expr hcl.Expression) (float64, bool) {
+	lit, ok := expr.(*hclsyntax.LiteralValueExpr)
+	if !ok || lit.Val.Type() != cty.Number {
+		return 0, false
+	}
+	start, end := lit.SrcRange.Start.Byte, lit.SrcRange.End.Byte
+	if start < 0 || end > len(d.src) || end <= start || end-start > maxShortDecimal {
+		return 0, false
+	}
+	text := d.src[start:end]
+	points := 0
+	for _, c := range text {
+		switch {
+		case c == '.':
+			points++
+		case c < '0' || c > '9':
+			return 0, false
+		}
+	}
+	if points > 1 {
+		return 0, false
+	}
+	f, err := strconv.ParseFloat(string(text), 64)
+	if err != nil || f > MaxMagnitude {
 		return 0, false
 	}
 	return f, true

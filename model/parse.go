@@ -113,7 +113,7 @@ func parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	if diags.HasErrors() {
 		return nil, diags
 	}
-	d.Diags = diags
+	d.Diags, d.src = diags, src
 	m := &Model{File: filename, Source: src}
 	dec := &decoder{diagnoser: &d, m: m}
 	// Decoding and reference checks run together so that one run reports
