@@ -107,3 +107,22 @@ func chainSrc() []byte {
 	s.WriteString(" }\n  outlet = { condition = \"normal\" }\n}\n")
 	return []byte(s.String())
 }
+
+// BenchmarkDecodeOwn is the numerator of BenchmarkDecodeShare alone: the
+// project's passes (pre-scan, decoding, validation, references, network,
+// events) over the chain's syntax tree parsed once beforehand, whose
+// allocs/op are the project's own.
+func BenchmarkDecodeOwn(b *testing.B) {
+	src := chainSrc()
+	file, diags := hclsyntax.ParseConfig(src, "trunk.chan.hcl", hcl.InitialPos)
+	if diags.HasErrors() {
+		b.Fatal(diags.Error())
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		CheckNesting("trunk.chan.hcl", src)
+		if m, diags := decode("trunk.chan.hcl", src, file, &diagnoser{}); m == nil {
+			b.Fatal(diags.Error())
+		}
+	}
+}

@@ -113,9 +113,16 @@ func parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	if diags.HasErrors() {
 		return nil, diags
 	}
-	d.Diags, d.src = diags, src
+	d.Diags = diags
+	return decode(filename, src, file, &d)
+}
+
+// decode runs the passes after the parser over file, the syntax tree of
+// src, adding to what d holds.
+func decode(filename string, src []byte, file *hcl.File, d *diagnoser) (*Model, hcl.Diagnostics) {
+	d.src = src
 	m := &Model{File: filename, Source: src}
-	dec := &decoder{diagnoser: &d, m: m}
+	dec := &decoder{diagnoser: d, m: m}
 	// Decoding and reference checks run together so that one run reports
 	// both kinds of problem; the graph needs a clean file.
 	dec.root(file.Body)
