@@ -199,8 +199,12 @@ func (f *flowCtx) branchRoot(p *piece, z, w, target float64, super bool, guess, 
 // solveH finds the root of h on one branch of the energy curve; hTarget
 // is target − z, which bounds a subcritical depth from above.
 func (f *flowCtx) solveH(h func(float64) float64, yc float64, super bool, hTarget, guess, spread float64) (float64, bool) {
-	if y, ok := f.nearGuess(h, yc, super, guess, spread); ok {
+	y, ok, noRoot := f.nearGuess(h, yc, super, guess, spread)
+	if ok {
 		return y, true
+	}
+	if noRoot {
+		return yc, false
 	}
 	hc := h(yc)
 	if !(hc <= 0) {
@@ -265,10 +269,12 @@ const guessExpand = 6
 // widened. Only a bracket that holds a sign change is used, so on the
 // monotone branch the root it finds is the root. One end of the bracket is
 // the guess, which is close to the root, so Brent's interpolation closes
-// in a few steps.
-func (f *flowCtx) nearGuess(h func(float64) float64, yc float64, super bool, guess, spread float64) (float64, bool) {
+// in a few steps. noRoot reports that the search reached critical depth
+// without a sign change: h(yc) > 0 there, so the branch has no root (the
+// test solveH would make next, already made).
+func (f *flowCtx) nearGuess(h func(float64) float64, yc float64, super bool, guess, spread float64) (y float64, ok, noRoot bool) {
 	if !(guess > 0) || math.IsInf(guess, 0) || !(spread >= 0) || !(yc > 0) {
-		return 0, false
+		return 0, false, false
 	}
 	d := spread + 1e-6*guess + 10*f.tol
 	a := guess
@@ -279,10 +285,10 @@ func (f *flowCtx) nearGuess(h func(float64) float64, yc float64, super bool, gue
 	}
 	fa := h(a)
 	if math.IsNaN(fa) {
-		return 0, false
+		return 0, false, false
 	}
 	if fa == 0 {
-		return a, true
+		return a, true, false
 	}
 	up := (fa < 0) != super // the root lies at greater depths
 	for range guessExpand {
@@ -297,14 +303,14 @@ func (f *flowCtx) nearGuess(h func(float64) float64, yc float64, super bool, gue
 			b, last = a/2, true
 		}
 		if b == a {
-			return 0, false
+			return 0, false, false
 		}
 		fb := h(b)
 		if math.IsNaN(fb) {
-			return 0, false
+			return 0, false, false
 		}
 		if fb == 0 {
-			return b, true
+			return b, true, false
 		}
 		if (fb > 0) != (fa > 0) {
 			lo, hi, flo, fhi := a, b, fa, fb
@@ -313,17 +319,21 @@ func (f *flowCtx) nearGuess(h func(float64) float64, yc float64, super bool, gue
 			}
 			y, err := brentFrom(h, lo, hi, flo, fhi, f.tol)
 			if err != nil && !errors.Is(err, ErrNoConvergence) {
-				return 0, false
+				return 0, false, false
 			}
-			return f.accept(y, err, yc)
+			y, ok = f.accept(y, err, yc)
+			return y, ok, false
 		}
 		if last {
-			return 0, false
+			// At critical depth without a sign change: h(yc) has the sign
+			// of h at the guess, which is > 0 when the search moved toward
+			// critical depth (the root would lie beyond it).
+			return 0, false, b == yc && fb > 0
 		}
 		a, fa = b, fb
 		d *= 4
 	}
-	return 0, false
+	return 0, false, false
 }
 
 // standardStep computes the depth at station xu from the known depth yk at
@@ -413,11 +423,14 @@ type pt struct {
 //     of the depth and the next one sized by the cube root of the ratio,
 //     so points gather where the profile curves.
 //
-// Where the predictor has no history or no meaning — the first step of a
-// run, next to critical depth where dy/dx is unbounded — the step is
-// taken by step doubling instead: once whole and once as two halves, the
-// difference estimating the error of the halves (the method is second
-// order, so about a third of the difference), both half-step points kept.
+// Next to critical depth, where dy/dx is unbounded, the step is taken in
+// depth instead (direct), and where the profile stays at critical depth
+// (no branch leaves it, staysCritical) without evaluating the section.
+// Where the predictor has no history — the first step of a run — or the
+// corrector fails, the step is taken by step doubling: once whole and once
+// as two halves, the difference estimating the error of the halves (the
+// method is second order, so about a third of the difference), both
+// half-step points kept.
 // Either way the energy equation holds between every pair of neighbouring
 // points.
 type stepper struct {
@@ -481,12 +494,83 @@ func (s *stepper) step(xEnd float64, out *[2]pt) int {
 			return n
 		}
 	}
+	if s.atCrit && s.staysCritical(xEnd, remaining) {
+		return s.critical(xEnd, remaining, out)
+	}
 	if s.atCrit || math.IsNaN(yk) {
 		if n, ok := s.direct(xEnd, remaining, out); ok {
 			return n
 		}
 	}
 	return s.doubled(xEnd, remaining, out)
+}
+
+// staysCritical reports, without evaluating the section again, that no
+// profile leaves critical depth over the next step: the standard step from
+// critical depth has no root on the branch for the whole step nor for its
+// half (doubled would try both), and no direct step leaves it. At critical
+// depth the energy equation's residual is
+//
+//	h(yc) = z_u − z_k ∓ Δx·Sf(yc) = Δx·(S0 − Sf(yc))   (subcritical, upstream)
+//	h(yc) = Δx·(Sf(yc) − S0)                           (supercritical, downstream)
+//
+// whose sign does not depend on the step: on a steep piece no subcritical
+// profile leaves critical depth upstream, on a mild one no supercritical
+// profile leaves it downstream. The residuals are computed as the root
+// finder computes them, from the state at critical depth the stepper
+// holds, so that the outcome is the one doubled would reach. Only a
+// prismatic section is taken this way: its friction slope falls with the
+// depth, so that a direct step from critical depth has the same sign as
+// h(yc) (a closed or points section can break that).
+func (s *stepper) staysCritical(xEnd, remaining float64) bool {
+	f, p := s.f, s.p
+	if p.geo.kind != kindPrismatic || s.y != p.yc || !s.hasK {
+		return false
+	}
+	if s.super == (s.k.sf <= f.s0) {
+		return false
+	}
+	_, xFull, xHalf := s.critStep(xEnd, remaining)
+	return s.noRootAtCrit(xFull) && s.noRootAtCrit(xHalf)
+}
+
+// critStep is the length of the next step from critical depth, as doubled
+// sizes it, with the stations of its end and of its middle.
+func (s *stepper) critStep(xEnd, remaining float64) (h, xu, xMid float64) {
+	dir := 1.0
+	if !s.super {
+		dir = -1
+	}
+	h = s.stepLength(remaining, 2*s.dxMax)
+	xu = s.x + dir*h
+	if h == remaining {
+		xu = xEnd
+	}
+	return h, xu, s.x + dir*h/2
+}
+
+// noRootAtCrit is the test solveH makes first on a step from critical
+// depth without a guess: the residual at critical depth is not ≤ 0.
+func (s *stepper) noRootAtCrit(xu float64) bool {
+	f, k := s.f, s.k
+	half := math.Abs(xu-s.x) / 2
+	zk, zu := f.invert(s.x), f.invert(xu)
+	w, target := -half, zk+k.e+half*k.sf
+	if s.super {
+		w, target = half, zk+k.e-half*k.sf
+	}
+	return !(zu+k.e+w*k.sf-target <= 0)
+}
+
+// critical writes the point at critical depth at the end of the step that
+// doubled would write when no profile leaves critical depth
+// (staysCritical); the state there is that at critical depth, kept.
+func (s *stepper) critical(xEnd, remaining float64, out *[2]pt) int {
+	h, xu, _ := s.critStep(xEnd, remaining)
+	out[0] = pt{x: xu, y: s.p.yc, piece: s.pi, super: s.super, fallback: true}
+	s.x, s.slope, s.prevH = xu, 0, 0
+	s.dx = h * 4
+	return 1
 }
 
 // direct takes one step next to critical depth by the direct-step method
@@ -500,24 +584,31 @@ func (s *stepper) step(xEnd float64, out *[2]pt) int {
 // critical depth the profile is nearly vertical, so a step in distance
 // needs a root of an energy equation that hardly changes with depth and
 // many rejected steps, while a step in depth costs one section evaluation.
-// It is used only while the profile leaves critical depth onto its branch
+// It is used where the profile leaves critical depth onto its branch
 // (deeper upstream on the subcritical one, shallower downstream on the
-// supercritical one); ok is false otherwise, or when the energy gives no
-// positive distance.
+// supercritical one) and where it approaches critical depth within about
+// 1 % of F = 1 (an S1 curve upstream, an M3 curve downstream): there a
+// step in distance is rejected again and again because the energy
+// equation has no root over it, while the depth steps toward critical
+// depth and the last one lands on it, where the branch ends (that point is
+// a fallback, as the step doubling would write it). ok is false when the
+// energy gives no positive distance.
 //
 // The local error of the distance is that of the trapezoidal rule with
 // depth as the variable: for Sf and dx/dy = (1 − F²)/(S0 − Sf) varying
 // linearly over the step it is Sf′·(dx/dy)′·Δy³/(12·S̄f), as a depth error
-// that times dy/dx at the new point; the step is accepted when that is
-// below stepRelTol of the depth, and the next depth step sized by its
-// cube root. A step that would pass xEnd is replaced by a standard step to
-// xEnd from a depth interpolated on it.
+// that times dy/dx at the new point (toward critical depth, where dy/dx is
+// unbounded, the mean slope of the step, |Δy/Δx|); the step is accepted
+// when that is below stepRelTol of the depth, and the next depth step
+// sized by its cube root. A step that would pass xEnd is replaced by a
+// standard step to xEnd from a depth interpolated on it.
 func (s *stepper) direct(xEnd, remaining float64, out *[2]pt) (int, bool) {
 	f, p := s.f, s.p
 	away := 1.0 // the depth moves away from critical depth onto the branch
 	if s.super {
 		away = -1
 	}
+	toward := false // the depth moves toward critical depth instead
 	if !s.atCrit {
 		// Moving away from critical depth? dy/dx in the marching direction.
 		den := 1 - s.k.f2
@@ -528,9 +619,14 @@ func (s *stepper) direct(xEnd, remaining float64, out *[2]pt) (int, bool) {
 		if !s.super {
 			dydx = -dydx
 		}
-		if dydx*away <= 0 {
+		if dydx*away == 0 {
 			return 0, false
 		}
+		toward = dydx*away < 0
+	}
+	gap := math.Abs(s.y - p.yc) // what is left to critical depth, toward it
+	if toward && !(gap > 0) {
+		return 0, false
 	}
 	if !(s.dyDirect > 0) {
 		s.dyDirect = 1e-3 * p.yc
@@ -539,6 +635,14 @@ func (s *stepper) direct(xEnd, remaining float64, out *[2]pt) (int, bool) {
 	for range stepMaxShrinks {
 		dy := s.dyDirect
 		yu := s.y + away*dy
+		last := false // the step lands on critical depth
+		if toward {
+			dy = math.Min(dy, gap)
+			yu = s.y - away*dy
+			if last = dy >= 0.8*gap; last {
+				dy, yu = gap, p.yc
+			}
+		}
 		if !(yu > 0) || yu >= maxDepth {
 			return 0, false
 		}
@@ -556,7 +660,10 @@ func (s *stepper) direct(xEnd, remaining float64, out *[2]pt) (int, bool) {
 		gu := dxdy(f.s0, st)
 		errX := math.Abs((st.sf-s.k.sf)*(gu-gk)) * dy / (12 * sfm)
 		errY := math.Inf(1)
-		if gu != 0 {
+		switch {
+		case toward:
+			errY = errX * dy / dx
+		case gu != 0:
 			errY = errX / math.Abs(gu)
 		}
 		allowed := math.Max(s.relTol*yu, 4*f.tol)
@@ -566,7 +673,7 @@ func (s *stepper) direct(xEnd, remaining float64, out *[2]pt) (int, bool) {
 			if errY > allowed {
 				fac = math.Max(0.1, 0.9*math.Cbrt(allowed/errY))
 			}
-			s.dyDirect *= fac
+			s.dyDirect = dy * fac
 			continue
 		}
 		dir := 1.0
@@ -588,9 +695,9 @@ func (s *stepper) direct(xEnd, remaining float64, out *[2]pt) (int, bool) {
 			return 1, true
 		}
 		xu := s.x + dir*dx
-		out[0] = pt{x: xu, y: yu, piece: s.pi, super: s.super}
+		out[0] = pt{x: xu, y: yu, piece: s.pi, super: s.super, fallback: last}
 		s.slope = (yu - s.y) / (xu - s.x)
-		s.x, s.y, s.k, s.atCrit, s.prevH = xu, yu, st, false, 0
+		s.x, s.y, s.k, s.atCrit, s.prevH = xu, yu, st, last, 0
 		s.dyDirect = dy * growFactor(errY, allowed)
 		s.dx = dx * 2
 		return 1, true
