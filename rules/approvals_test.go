@@ -85,7 +85,7 @@ approval {
 	require.NotNil(t, stale)
 	assert.Contains(t, claimed.Message, `claimed, not approved: the exception for rule "freeboard" on reach "main" covers the freeboard finding at station 400 m`)
 	assert.Contains(t, claimed.Message, "no approval in review/approvals.hcl matches it")
-	assert.Equal(t, "review/approvals.hcl", stale.File)
+	assert.Equal(t, "review/approvals.hcl", stale.File())
 	assert.Equal(t, 11, stale.Range.Start.Line)
 	assert.Contains(t, stale.Message, "stale approval")
 

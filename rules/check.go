@@ -124,8 +124,8 @@ func (rn *runner) report(f Finding) {
 			f.Severity = cfg.Severity
 		}
 	}
-	if f.File == "" {
-		f.File = rn.m.File
+	if f.Range.Filename == "" {
+		f.Range.Filename = rn.m.File
 	}
 	if cfg != nil && f.Section == "" {
 		f.Section = cfg.Section
@@ -217,7 +217,7 @@ func Compare(a, b *Finding) int { return cmpFindingPtrs(a, b) }
 func cmpFindingPtrs(a, b *Finding) int {
 	pa, pb := a.Pos(), b.Pos()
 	return cmp.Or(
-		cmp.Compare(a.File, b.File),
+		cmp.Compare(a.File(), b.File()),
 		cmp.Compare(pa.Start.Line, pb.Start.Line),
 		cmp.Compare(pa.Start.Column, pb.Start.Column),
 		cmp.Compare(a.Rule, b.Rule),

@@ -39,7 +39,7 @@ func TestCheckFillsRegistryFields(t *testing.T) {
 	for _, f := range fs {
 		assert.Equal(t, "freeboard", f.Rule)
 		assert.Equal(t, policies.Warning, f.Severity, "the policy's severity wins over the default")
-		assert.Equal(t, "hand.chan.hcl", f.File)
+		assert.Equal(t, "hand.chan.hcl", f.File())
 		assert.Equal(t, "Manual ch. 5", f.Reference)
 		assert.False(t, f.Excepted)
 	}
@@ -118,12 +118,12 @@ func TestCheckExceptionsDenied(t *testing.T) {
 }
 
 func TestSortAndDedupe(t *testing.T) {
-	a := Finding{Rule: "b", File: "x", Range: rng(5)}
-	b := Finding{Rule: "a", File: "x", Range: rng(5)}
-	c := Finding{Rule: "a", File: "x", Range: rng(3)}
-	d := Finding{Rule: "a", File: "w", Range: rng(9)}
-	e := Finding{Rule: "a", File: "x", Range: rng(5), Event: "q", FromStation: 10}
-	f := Finding{Rule: "a", File: "x", Range: rng(5), Event: "q", FromStation: 5}
+	a := Finding{Rule: "b", Range: InFile("x", rng(5))}
+	b := Finding{Rule: "a", Range: InFile("x", rng(5))}
+	c := Finding{Rule: "a", Range: InFile("x", rng(3))}
+	d := Finding{Rule: "a", Range: InFile("w", rng(9))}
+	e := Finding{Rule: "a", Range: InFile("x", rng(5)), Event: "q", FromStation: 10}
+	f := Finding{Rule: "a", Range: InFile("x", rng(5)), Event: "q", FromStation: 5}
 	got := sortFindings([]Finding{a, b, c, d, e, f, a, c})
 	assert.Equal(t, []Finding{d, c, b, f, e, a}, got)
 }

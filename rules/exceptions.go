@@ -260,7 +260,7 @@ func staleApprovals(ctx *Context, used map[*policies.Approval]bool, report func(
 			continue
 		}
 		report(Finding{
-			Severity: policies.Warning, File: a.DefRange.Filename, Range: a.DefRange, Reach: a.Reach,
+			Severity: policies.Warning, Range: a.DefRange, Reach: a.Reach,
 			FromStation: a.FromStation, ToStation: a.ToStation, HasSpan: true,
 			Message: fmt.Sprintf("stale approval: the approval of %q on reach %q %s (%s) matches no excepted finding of %s; "+
 				"remove it, or correct its rule, reach, stations or event", a.Rule, a.Reach, stations(a.FromStation, a.ToStation, u), a.Text(), ctx.Model.File),

@@ -13,12 +13,14 @@
 package rules
 
 import (
-	"github.com/chanlint/chanlint/model/numfmt"
+	"fmt"
+	"path"
 	"slices"
 	"strconv"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 	"github.com/hashicorp/hcl/v2"
@@ -40,15 +42,17 @@ type Finding struct {
 	// its own line in text, as `remedy` in JSON, after the message in
 	// SARIF and the report. "" when there is none.
 	Remedy string
-	File   string // model file, forward slashes, as given
 	// Range is the block a designer edits to fix the finding (the reach,
 	// segment, bend or basin); findings sort by it, and exceptions and the
-	// rule goldens refer to it.
+	// rule goldens refer to it. Its Filename is the one file the finding
+	// is in (File), forward slashes, as given: the model file, the
+	// approvals file for a stale approval; a finding without a position
+	// (an unreadable file) has a Range with only the Filename.
 	Range hcl.Range
 	// Focus is the value of the attribute that matters most when there is
-	// one (the section's height for freeboard, its lining for velocity);
-	// outputs print their line and column from Pos. Zero when the block
-	// itself is the place.
+	// one (the section's height for freeboard, its lining for velocity),
+	// a range in the finding's file; outputs print their line and column
+	// from Pos. Zero when the block itself is the place.
 	Focus hcl.Range
 	Reach string // "" when the finding is not about a reach
 	Event string // "" when not about an event
@@ -89,7 +93,7 @@ type Related struct {
 // (TestFindingEqualCoversEveryField keeps the list complete).
 func (f *Finding) Equal(g *Finding) bool {
 	return f.Rule == g.Rule && f.Severity == g.Severity && f.Message == g.Message && f.Remedy == g.Remedy &&
-		f.File == g.File && f.Range == g.Range && f.Focus == g.Focus && f.Reach == g.Reach && f.Event == g.Event &&
+		f.Range == g.Range && f.Focus == g.Focus && f.Reach == g.Reach && f.Event == g.Event &&
 		f.FromStation == g.FromStation && f.ToStation == g.ToStation && f.HasSpan == g.HasSpan &&
 		f.Value == g.Value && f.Limit == g.Limit && f.HasValue == g.HasValue && f.Unit == g.Unit &&
 		f.Reference == g.Reference && f.Section == g.Section && f.Excepted == g.Excepted && f.ExceptionReason == g.ExceptionReason &&
@@ -170,12 +174,106 @@ func (f *Finding) Text() string {
 	return f.Message + "; " + f.Remedy
 }
 
-// Pos is the position outputs print: Focus when set, else Range.
+// File is the file the finding is in: the file of its Range. Every
+// output names this file, with the line and column of Pos.
+func (f *Finding) File() string { return f.Range.Filename }
+
+// Pos is the position outputs print: Focus when set, else Range, in the
+// finding's File.
 func (f *Finding) Pos() hcl.Range {
 	if f.Focus.Start.Line > 0 {
-		return f.Focus
+		p := f.Focus
+		p.Filename = f.Range.Filename
+		return p
 	}
 	return f.Range
+}
+
+// InFile is the range r in file: the Range of a finding whose place has
+// no position of its own (r zero) or comes from a source that names the
+// file otherwise.
+func InFile(file string, r hcl.Range) hcl.Range {
+	r.Filename = file
+	return r
+}
+
+// RenameFiles renames the file of every range of f through name: its
+// place (Range and Focus), the exception and the related places; a
+// positioned range without a file name is in f's file. Zero ranges stay
+// zero.
+// A caller that names files otherwise than the rules (absolute for SARIF,
+// relative to a baseline, a revision's proposed name) renames them all
+// at once, so that the finding keeps one file and its related places in
+// the same file keep its name.
+func (f *Finding) RenameFiles(name func(file string) string) {
+	own := f.Range.Filename
+	rename := func(r *hcl.Range) {
+		switch {
+		case r.Filename != "":
+			r.Filename = name(r.Filename)
+		case r.Start.Line > 0 && own != "":
+			r.Filename = name(own)
+		}
+	}
+	rename(&f.Range)
+	rename(&f.Focus)
+	rename(&f.ExceptionRange)
+	if len(f.Related) > 0 {
+		f.Related = slices.Clone(f.Related)
+		for i := range f.Related {
+			rename(&f.Related[i].Range)
+		}
+	}
+}
+
+// CheckPlaces reports a finding that could name two files for one place:
+// no file, a Focus in another file than Range, or a related place (the
+// exception, a Related range) with a position but no file name, or in
+// the finding's file under another spelling of its path. Tests run it
+// over every finding a check produces; nil when f names its places one
+// way.
+func (f *Finding) CheckPlaces() error {
+	file := f.File()
+	if file == "" {
+		return fmt.Errorf("%s finding %q names no file", f.Rule, f.Message)
+	}
+	if f.Focus.Filename != "" && f.Focus.Filename != file {
+		return fmt.Errorf("%s finding in %s has its focus in %s", f.Rule, file, f.Focus.Filename)
+	}
+	check := func(what string, r hcl.Range) error {
+		switch {
+		case r.Start.Line <= 0:
+			return nil
+		case r.Filename == "":
+			return fmt.Errorf("%s finding in %s: %s at line %d names no file", f.Rule, file, what, r.Start.Line)
+		case r.Filename != file && path.Clean(r.Filename) == path.Clean(file):
+			return fmt.Errorf("%s finding in %s: %s names the same file as %s", f.Rule, file, what, r.Filename)
+		}
+		return nil
+	}
+	if f.Excepted {
+		if err := check("the exception", f.ExceptionRange); err != nil {
+			return err
+		}
+	}
+	for _, r := range f.Related {
+		if err := check("related place "+strconv.Quote(r.Label), r.Range); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// Rename moves f to file: every range of f in f's file names file
+// instead; ranges in other files (a policy) keep theirs.
+func (f *Finding) Rename(file string) {
+	own := f.Range.Filename
+	f.RenameFiles(func(n string) string {
+		if n == own {
+			return file
+		}
+		return n
+	})
 }
 
 // Where names the place of a finding for a one-line output: "reach R,

@@ -477,7 +477,7 @@ func TestGoldenFromDiagnostics(t *testing.T) {
 	require.Len(t, got, 2)
 	for _, f := range got {
 		assert.Equal(t, policies.Error, f.Severity)
-		assert.Equal(t, path, f.File)
+		assert.Equal(t, path, f.File())
 	}
 	assert.Contains(t, fs[0].Message, "bottom_width", "the section lacks its width")
 	assert.Contains(t, fs[1].Message, "widht", "the misspelt attribute, at its own line")

@@ -44,23 +44,24 @@ was expected there.`,
 // FromDiagnostics turns the diagnostics of reading or validating a model
 // file into findings of the model rule: errors as errors, warnings as
 // warnings, at the diagnostic's subject range (else its context range,
-// else the start of the file). The message is the summary, followed by the
-// detail when there is one.
+// else the start of the file), in file whatever file name the range
+// carries. The message is the summary, followed by the detail when there
+// is one.
 func FromDiagnostics(file string, diags hcl.Diagnostics) []Finding {
 	out := make([]Finding, 0, len(diags))
 	for _, d := range diags {
 		if d == nil {
 			continue
 		}
-		f := Finding{Rule: modelID, Severity: policies.Error, File: file}
+		f := Finding{Rule: modelID, Severity: policies.Error}
 		if d.Severity == hcl.DiagWarning {
 			f.Severity = policies.Warning
 		}
 		switch {
 		case d.Subject != nil:
-			f.Range = *d.Subject
+			f.Range = InFile(file, *d.Subject)
 		case d.Context != nil:
-			f.Range = *d.Context
+			f.Range = InFile(file, *d.Context)
 		default:
 			f.Range = hcl.Range{Filename: file, Start: hcl.InitialPos, End: hcl.InitialPos}
 		}

@@ -315,9 +315,14 @@ func TestFromDiagnostics(t *testing.T) {
 	assert.Equal(t, policies.Warning, fs[0].Severity)
 	assert.Equal(t, 1, fs[0].Range.Start.Line, "no subject: the start of the file")
 	assert.Equal(t, policies.Error, fs[1].Severity)
-	assert.Equal(t, subj, fs[1].Range)
+	assert.Equal(t, subj.Start, fs[1].Range.Start)
+	assert.Equal(t, subj.End, fs[1].Range.End)
 	assert.Equal(t, `Unsupported argument: An argument named "widht" is not expected here.`, fs[1].Message)
-	assert.Equal(t, "a.chan.hcl", fs[1].File)
+	// The subject names another file: the finding is in the file given,
+	// and names only it.
+	assert.Equal(t, "a.chan.hcl", fs[1].File())
+	assert.Equal(t, "a.chan.hcl", fs[1].Pos().Filename)
+	assert.Equal(t, "a.chan.hcl", fs[0].File())
 }
 
 func TestUnusedExceptionContext(t *testing.T) {

@@ -50,7 +50,7 @@ func TestGoldenClasses(t *testing.T) {
 	}
 	require.Len(t, unmatched, 1)
 	u := unmatched[0]
-	assert.Equal(t, m.File, u.File)
+	assert.Equal(t, m.File, u.File())
 	assert.Contains(t, u.Message, "return period up to 20 years; reach classes natural-stream")
 	assert.Contains(t, u.Message, "classes.policy.hcl:30")
 	assert.Equal(t, "warning", string(u.Severity))

@@ -6,6 +6,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 )
@@ -23,17 +24,29 @@ import (
 func (c *checkRun) writeAnnotations(w io.Writer) {
 	root := repoRoot(c.app.cwd)
 	for _, r := range c.results {
-		file := r.File.Name
-		if root != "" && r.File.Path != "" {
-			if rel, err := filepath.Rel(root, r.File.Path); err == nil && !strings.HasPrefix(rel, "..") {
-				file = filepath.ToSlash(rel)
-			}
-		}
 		for i := range c.shown[r.File.Name] {
-			writeAnnotation(w, file, &c.shown[r.File.Name][i], r.Unit())
+			f := &c.shown[r.File.Name][i]
+			writeAnnotation(w, c.annotationFile(root, r, f.File()), f, r.Unit())
 		}
 	}
 	c.writeClosing(w, newPalette(false))
+}
+
+// annotationFile is the name of the file a finding of r is in (the model,
+// or another file such as an approvals file) relative to the repository
+// root, else as given (also for a model not read from disk).
+func (c *checkRun) annotationFile(root string, r *pipeline.Result, file string) string {
+	abs := r.File.Path
+	if file != r.File.Name {
+		abs = c.app.abs(filepath.FromSlash(file))
+	}
+	if root == "" || abs == "" {
+		return file
+	}
+	if rel, err := filepath.Rel(root, abs); err == nil && !strings.HasPrefix(rel, "..") {
+		return filepath.ToSlash(rel)
+	}
+	return file
 }
 
 func writeAnnotation(w io.Writer, file string, f *rules.Finding, unit string) {

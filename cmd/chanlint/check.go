@@ -655,24 +655,20 @@ func (c *checkRun) sensitivityLines() []string {
 	return lines
 }
 
-// absRelated is a copy of related with the ranges in the model (named
-// name) or in a policy file given absolute paths, as SARIF's artifacts are;
-// built-in packs keep their "pack:NAME".
-func (c *checkRun) absRelated(related []rules.Related, name, abs string) []rules.Related {
-	if len(related) == 0 {
-		return nil
-	}
-	out := slices.Clone(related)
-	for i := range out {
-		fn := out[i].Range.Filename
+// absFiles moves a finding of the model named name to absolute paths, as
+// SARIF's artifacts are: its place and every range in the model become
+// abs, ranges in another file (a policy, an approvals file) that file's
+// absolute path; built-in packs keep their "pack:NAME".
+func (c *checkRun) absFiles(f *rules.Finding, name, abs string) {
+	f.RenameFiles(func(fn string) string {
 		switch {
-		case fn == name || fn == "":
-			out[i].Range.Filename = abs
-		case !strings.HasPrefix(fn, "pack:"):
-			out[i].Range.Filename = c.app.abs(filepath.FromSlash(fn))
+		case fn == name:
+			return abs
+		case strings.HasPrefix(fn, "pack:"):
+			return fn
 		}
-	}
-	return out
+		return c.app.abs(filepath.FromSlash(fn))
+	})
 }
 
 func (c *checkRun) writeSARIF(w io.Writer) error {
@@ -688,7 +684,6 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 		Rules:       rules.All(),
 		Root:        root,
 		Sources:     map[string][]byte{},
-		Units:       map[string]string{},
 		ToolVersion: toolVersion(),
 	}
 	in.Problems = c.problems
@@ -714,17 +709,17 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 		}
 		if c.view.Every == nil {
 			for _, f := range c.shown[r.File.Name] {
-				f.Related = c.absRelated(f.Related, r.File.Name, abs)
-				f.File = abs
+				c.absFiles(&f, r.File.Name, abs)
 				in.Findings = append(in.Findings, f)
+				in.Units = append(in.Units, r.Unit())
 			}
 		} else {
 			// With a baseline every finding is a result: known ones are
 			// "unchanged", the others (much worse ones too) "new".
 			for i, f := range r.Findings {
-				f.Related = c.absRelated(f.Related, r.File.Name, abs)
-				f.File = abs
+				c.absFiles(&f, r.File.Name, abs)
 				in.Findings = append(in.Findings, f)
+				in.Units = append(in.Units, r.Unit())
 				state := "new"
 				if c.view.Every[r.File.Name][i].State.Known() {
 					state = "unchanged"
@@ -742,7 +737,6 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 		if r.Src != nil {
 			in.Sources[abs] = r.Src
 		}
-		in.Units[abs] = r.Unit()
 	}
 	return sarifout.Write(w, in)
 }

@@ -132,7 +132,7 @@ func newFindingJSON(f *rules.Finding) findingJSON {
 		Severity:        string(f.Severity),
 		Message:         f.Message,
 		Remedy:          f.Remedy,
-		File:            f.File,
+		File:            f.File(),
 		Line:            pos.Start.Line,
 		Column:          pos.Start.Column,
 		EndLine:         pos.End.Line,

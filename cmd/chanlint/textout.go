@@ -250,7 +250,7 @@ func writeFindingText(w io.Writer, f *rules.Finding, src []byte, unit string, p 
 	}
 	// Names, messages and reasons carry a submittal's text.
 	head, msg := safetext.Text(head), safetext.Text(f.Message)
-	place := p.place.Sprint(gnuPrefix(safetext.Text(f.File), f.Pos()))
+	place := p.place.Sprint(gnuPrefix(safetext.Text(f.File()), f.Pos()))
 	rule := p.rule.Sprint("[" + f.Rule + "]")
 	if f.Excepted {
 		reason := safetext.Text(f.ExceptionReason)

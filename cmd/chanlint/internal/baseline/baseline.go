@@ -118,7 +118,7 @@ func keyOf(e Entry) string {
 func entryOf(f rules.Finding) Entry {
 	e := Entry{
 		Rule:        f.Rule,
-		File:        CleanPath(f.File),
+		File:        CleanPath(f.File()),
 		Reach:       f.Reach,
 		Event:       f.Event,
 		Fingerprint: MessageFingerprint(f.Message),

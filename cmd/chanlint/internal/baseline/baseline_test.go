@@ -21,7 +21,6 @@ import (
 func finding(rule, reach, event string, from, to float64, line int, msg string) rules.Finding {
 	return rules.Finding{
 		Rule: rule, Severity: policies.Error, Message: msg,
-		File:  "models/alder.chan.hcl",
 		Range: hcl.Range{Filename: "models/alder.chan.hcl", Start: hcl.Pos{Line: line, Column: 1}, End: hcl.Pos{Line: line, Column: 9}},
 		Reach: reach, Event: event, FromStation: from, ToStation: to, HasSpan: true,
 		Value: 0.18, Limit: 0.30, HasValue: true,
@@ -35,8 +34,8 @@ func sample() []rules.Finding {
 		// Two identical findings (same key): need two entries.
 		finding("froude_band", "main", "q10", 300, 380, 40, "Froude number 0.95 inside the avoided band 0.86–1.13"),
 		finding("froude_band", "main", "q10", 300, 380, 40, "Froude number 0.95 inside the avoided band 0.86–1.13"),
-		{Rule: "model", Severity: policies.Error, File: "models/alder.chan.hcl", Message: "unknown section \"lined\"",
-			Range: hcl.Range{Start: hcl.Pos{Line: 3, Column: 5}}},
+		{Rule: "model", Severity: policies.Error, Message: "unknown section \"lined\"",
+			Range: hcl.Range{Filename: "models/alder.chan.hcl", Start: hcl.Pos{Line: 3, Column: 5}}},
 	}
 }
 
@@ -205,7 +204,7 @@ func TestOtherReachEventOrFileIsFresh(t *testing.T) {
 	for _, mut := range []func(*rules.Finding){
 		func(f *rules.Finding) { f.Reach = "west-ditch" },
 		func(f *rules.Finding) { f.Event = "q10" },
-		func(f *rules.Finding) { f.File = "models/birch.chan.hcl" },
+		func(f *rules.Finding) { f.Rename("models/birch.chan.hcl") },
 		func(f *rules.Finding) { f.Rule = "min_velocity" },
 		func(f *rules.Finding) { f.Message = "water surface above the lining" },
 	} {
@@ -220,7 +219,7 @@ func TestOtherReachEventOrFileIsFresh(t *testing.T) {
 func TestPathSpellings(t *testing.T) {
 	b := roundTrip(t, sample()[:1])
 	f := sample()[0]
-	f.File = "./models/../models/alder.chan.hcl"
+	f.Rename("./models/../models/alder.chan.hcl")
 	_, known := b.Filter([]rules.Finding{f})
 	assert.Equal(t, 1, known)
 }

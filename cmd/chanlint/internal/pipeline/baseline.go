@@ -44,7 +44,7 @@ func ApplyBaseline(results []*Result, b *baseline.Baseline, cwd string) View {
 		}
 		all = append(all, r.Findings...)
 	}
-	rebased, _ := rebase(all, filepath.Dir(absIn(cwd, b.Path)), cwd)
+	rebased := rebase(all, filepath.Dir(absIn(cwd, b.Path)), cwd)
 	matches, stale := b.Compare(rebased)
 	v.Stale = stale
 	i := 0
@@ -78,26 +78,21 @@ func BaselineFindings(results []*Result, path, cwd string) []rules.Finding {
 			all = append(all, r.Findings...)
 		}
 	}
-	out, _ := rebase(all, filepath.Dir(absIn(cwd, path)), cwd)
+	out := rebase(all, filepath.Dir(absIn(cwd, path)), cwd)
 	return out
 }
 
-// rebase returns copies of findings whose File is relative to dir, and the
-// map back to the file names they had.
-func rebase(findings []rules.Finding, dir, cwd string) ([]rules.Finding, map[string]string) {
+// rebase returns copies of findings moved to their file's name relative
+// to dir (rules.Finding.Rename).
+func rebase(findings []rules.Finding, dir, cwd string) []rules.Finding {
 	out := make([]rules.Finding, len(findings))
-	back := map[string]string{}
 	for i, f := range findings {
-		rel, err := filepath.Rel(dir, absIn(cwd, filepath.FromSlash(f.File)))
-		if err == nil {
-			back[filepath.ToSlash(rel)] = f.File
-			f.File = filepath.ToSlash(rel)
-		} else {
-			back[f.File] = f.File
+		if rel, err := filepath.Rel(dir, absIn(cwd, filepath.FromSlash(f.File()))); err == nil {
+			f.Rename(filepath.ToSlash(rel))
 		}
 		out[i] = f
 	}
-	return out, back
+	return out
 }
 
 // absIn is p made absolute against dir.

@@ -395,7 +395,7 @@ func combine(nominal *Result, cases []Case, runs []*Result, sev policies.Severit
 		for i := range run.Findings {
 			if f := &run.Findings[i]; f.Rule == "solver" && f.Event == "" {
 				nominal.Findings = append(nominal.Findings, rules.Finding{
-					Rule: "solver", Severity: policies.Info, File: nominal.File.Name, Range: f.Range,
+					Rule: "solver", Severity: policies.Info, Range: rules.InFile(nominal.File.Name, f.Range),
 					Message: "sensitivity case " + cases[c].Name + " could not be solved, so the verdicts count it as failing: " + f.Message,
 				})
 			}
@@ -470,7 +470,7 @@ type groupKey struct {
 }
 
 func keyOf(f *rules.Finding) groupKey {
-	return groupKey{f.Rule, f.File, f.Reach, f.Event, f.Range.Start.Line, f.Range.Start.Column}
+	return groupKey{f.Rule, f.File(), f.Reach, f.Event, f.Range.Start.Line, f.Range.Start.Column}
 }
 
 // flowDependent reports whether a finding judges a solution of an event

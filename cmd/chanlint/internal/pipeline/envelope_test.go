@@ -235,10 +235,10 @@ func TestUnsolvedCase(t *testing.T) {
 		return hcl.Range{Filename: "m.chan.hcl", Start: hcl.Pos{Line: line}, End: hcl.Pos{Line: line}}
 	}
 	nominal := &Result{File: File{Name: "m.chan.hcl"}, Findings: []rules.Finding{
-		{Rule: "freeboard", Severity: policies.Error, File: "m.chan.hcl", Range: at(9), Reach: "r", Event: "e", HasSpan: true, FromStation: 1, ToStation: 2},
+		{Rule: "freeboard", Severity: policies.Error, Range: at(9), Reach: "r", Event: "e", HasSpan: true, FromStation: 1, ToStation: 2},
 	}}
 	cases := []Case{{Name: "discharge +10 %", Alone: "discharge"}}
-	runs := []*Result{{Invalid: true, Findings: []rules.Finding{{Rule: "solver", Severity: policies.Error, File: "m.chan.hcl", Range: at(1), Message: "too many points"}}}}
+	runs := []*Result{{Invalid: true, Findings: []rules.Finding{{Rule: "solver", Severity: policies.Error, Range: at(1), Message: "too many points"}}}}
 	r := combine(nominal, cases, runs, policies.Warning, false)
 	require.Len(t, r.Findings, 2)
 	assert.Equal(t, "solver", r.Findings[0].Rule, "sorted by position: the units line first")

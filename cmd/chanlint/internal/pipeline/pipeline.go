@@ -36,6 +36,7 @@ import (
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
+	"github.com/hashicorp/hcl/v2"
 )
 
 // File names one model file.
@@ -172,7 +173,7 @@ func Unreadable(name string, err error) *Result {
 // InputFinding is the `model` finding of a file that could not be read or
 // parsed, with a message of its own.
 func InputFinding(file, msg string) rules.Finding {
-	return rules.Finding{Rule: "model", Severity: policies.Error, Message: msg, File: file}
+	return rules.Finding{Rule: "model", Severity: policies.Error, Message: msg, Range: hcl.Range{Filename: file}}
 }
 
 // checkRules is the rules stage; a variable so that a test can make the
@@ -307,7 +308,7 @@ func Parallel(n, jobs int, fn func(i int)) {
 // numbers vary between runs.
 func panicFinding(file string, v any) rules.Finding {
 	return rules.Finding{
-		Rule: "solver", Severity: policies.Error, File: file,
+		Rule: "solver", Severity: policies.Error, Range: hcl.Range{Filename: file},
 		Message: fmt.Sprintf("internal error while checking this model: %v; please report it with the model file and the stack printed on stderr", v),
 	}
 }
@@ -323,7 +324,7 @@ func LimitFinding(m *model.Model, err error) rules.Finding {
 		msg += "; split the model or its events; nothing of this model was checked"
 	}
 	return rules.Finding{
-		Rule: "solver", Severity: policies.Error, File: m.File,
-		Range: m.UnitsRange, Message: msg,
+		Rule: "solver", Severity: policies.Error,
+		Range: rules.InFile(m.File, m.UnitsRange), Message: msg,
 	}
 }

@@ -99,7 +99,7 @@ func TestUnreadableAndInvalid(t *testing.T) {
 	assert.True(t, r.Invalid)
 	require.NotEmpty(t, r.Findings)
 	assert.Equal(t, "model", r.Findings[0].Rule)
-	assert.Equal(t, "gone.chan.hcl", r.Findings[0].File)
+	assert.Equal(t, "gone.chan.hcl", r.Findings[0].File())
 
 	p := Parse(File{Name: "bad.chan.hcl"}, []byte("model {"))
 	assert.True(t, p.Invalid)
@@ -132,4 +132,44 @@ func TestCheckFilesConcurrent(t *testing.T) {
 		assert.Equal(t, one[i].Invalid, four[i].Invalid)
 	}
 	assert.Empty(t, stderr.String())
+}
+
+// TestCorpusFindingsNameOneFile: every finding of every model of the
+// corpus (valid, invalid, unreadable, a sensitivity run of the demo) is
+// in the file it was checked as and names its places one way
+// (rules.Finding.CheckPlaces), also once moved relative to a baseline in
+// another directory.
+//
+// Source: common practice (no published source).
+func TestCorpusFindingsNameOneFile(t *testing.T) {
+	pol, diags := rules.Language().Pack("baseline")
+	require.False(t, diags.HasErrors(), diags.Error())
+	root := filepath.Join("..", "..", "..", "..", "testdata")
+	paths, err := filepath.Glob(filepath.Join(root, "*", "*.chan.hcl"))
+	require.NoError(t, err)
+	require.NotEmpty(t, paths)
+	var files []File
+	for _, p := range paths {
+		rel, err := filepath.Rel(root, p)
+		require.NoError(t, err)
+		files = append(files, File{Name: filepath.ToSlash(rel), Path: p})
+	}
+	results := CheckFiles(files, pol, Options{}, 2, nil)
+	results = append(results, Unreadable("gone.chan.hcl", assert.AnError))
+	demo := Load(File{Name: "demo/kestrel-ridge.chan.hcl", Path: filepath.Join(root, "demo", "kestrel-ridge.chan.hcl")})
+	vary := &Sensitivity{Roughness: 0.2, Discharge: 0.1, Tailwater: 0.3}
+	results = append(results, demo.CheckVaried(pol, Options{Vary: vary}, 2))
+	n := 0
+	for _, r := range results {
+		for i := range r.Findings {
+			f := &r.Findings[i]
+			n++
+			require.NoError(t, f.CheckPlaces(), "%+v", f)
+			assert.Equal(t, r.File.Name, f.File(), "%s finding", f.Rule)
+		}
+	}
+	require.Greater(t, n, len(results), "the corpus has findings")
+	for _, f := range BaselineFindings(results, filepath.Join(t.TempDir(), "ci", "baseline.json"), ".") {
+		require.NoError(t, f.CheckPlaces(), "%+v", f)
+	}
 }

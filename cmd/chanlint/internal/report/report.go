@@ -390,7 +390,7 @@ func build(in Input, r renderer) (*page, error) {
 	files := map[string]bool{}
 	for i, f := range in.Invalid {
 		pg.Invalid = append(pg.Invalid, row(i+1, f))
-		files[f.File] = true
+		files[f.File()] = true
 		if !f.Excepted {
 			countInto(&pg.Totals, f)
 		}
@@ -727,7 +727,7 @@ func culvertSummary(cr *solver.CulvertResult) culvertRow {
 
 func row(n int, f rules.Finding) findingRow {
 	r := findingRow{N: n, Severity: string(f.Severity), Rule: f.Rule, Reach: f.Reach, Event: f.Event,
-		Message: f.Text(), Where: where(f.File, f.Pos()), Short: lineCol(f.Pos()), Excepted: f.Excepted, Reason: f.ExceptionReason,
+		Message: f.Text(), Where: where(f.File(), f.Pos()), Short: lineCol(f.Pos()), Excepted: f.Excepted, Reason: f.ExceptionReason,
 		Class: string(f.Severity)}
 	if f.Excepted {
 		r.Class = "excepted"

@@ -66,8 +66,8 @@ func TestHTMLDeterministic(t *testing.T) {
 func TestHTMLEscapesModelStrings(t *testing.T) {
 	in := fixtureInput(t, "inject.chan.hcl")
 	// Add an invalid file whose diagnostic quotes markup.
-	in.Invalid = []rules.Finding{{Rule: "model", Severity: policies.Error, File: "bad<script>.chan.hcl",
-		Message: `unknown section "<script>alert(3)</script>"`, Range: hcl.Range{Start: hcl.Pos{Line: 2, Column: 3}}}}
+	in.Invalid = []rules.Finding{{Rule: "model", Severity: policies.Error,
+		Message: `unknown section "<script>alert(3)</script>"`, Range: hcl.Range{Filename: "bad<script>.chan.hcl", Start: hcl.Pos{Line: 2, Column: 3}}}}
 	in.Policy.Reference = `Manual <script>alert("ref")</script> & co`
 	out := renderHTML(t, in)
 	assert.NotContains(t, out, "<script")

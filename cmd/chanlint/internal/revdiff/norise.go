@@ -47,7 +47,6 @@ func noRise(m *model.Model, profiles []Profile, old, new *solver.Result, pol *po
 		out = append(out, rules.Finding{
 			Rule:     rules.NoRiseID,
 			Severity: block.Severity,
-			File:     m.File,
 			Range:    r.DefRange,
 			Reach:    r.Name,
 			Event:    ev.Name,

@@ -89,15 +89,16 @@ func Compare(old, new *pipeline.Result, pol *policies.Policy) *Diff {
 	return d
 }
 
-// failing keeps the findings that are not covered by an exception, named
-// by file so that both revisions share the proposed file's name.
+// failing keeps the findings that are not covered by an exception, moved
+// to file (rules.Finding.Rename) so that both revisions share the
+// proposed file's name.
 func failing(fs []rules.Finding, file string) []rules.Finding {
 	var out []rules.Finding
 	for _, f := range fs {
 		if f.Excepted {
 			continue
 		}
-		f.File = file
+		f.Rename(file)
 		out = append(out, f)
 	}
 	return out

@@ -33,17 +33,17 @@ func (b *builder) appendResult(dst []byte, f *rules.Finding, i int, fp string) [
 	e.str("fail")
 	e.key("level")
 	e.str(Level(f.Severity))
-	if f.File != "" {
+	if f.File() != "" {
 		e.key("locations")
 		e.open('[')
 		e.elem()
-		b.appendLocation(&e, f.File, f.Pos())
+		b.appendLocation(&e, f.File(), f.Pos())
 		e.close(']')
 	}
 	e.key("message")
 	e.open('{')
 	e.key("text")
-	e.str(b.message(f))
+	e.str(b.message(f, i))
 	e.close('}')
 	e.key("properties")
 	appendProperties(&e, f)

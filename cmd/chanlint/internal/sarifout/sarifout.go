@@ -59,10 +59,12 @@ type Input struct {
 	// SRCROOT to it in originalUriBaseIds; when empty, file names are used
 	// as given (relative to the working directory).
 	Root    string
-	Sources map[string][]byte // file (as in Finding.File) → bytes, for byte-offset columns
-	// Units maps a file (as in Finding.File) to its model's length unit,
-	// for the stations in result messages ("m" when missing).
-	Units       map[string]string
+	Sources map[string][]byte // file (as in Finding.File()) → bytes, for byte-offset columns
+	// Units holds the length unit of each finding's model, parallel to
+	// Findings, for the stations in result messages ("m" when missing or
+	// ""): a finding in another file than its model (a stale approval)
+	// still speaks of the model's stations.
+	Units       []string
 	ToolVersion string
 	// BaselineStates, when not nil, holds the SARIF baselineState of each
 	// finding ("new", "unchanged"), parallel to Findings.
@@ -340,8 +342,8 @@ func newBuilder(in Input) (*builder, error) {
 		if _, ok := b.ruleIndex[f.Rule]; !ok {
 			b.addRule(&rules.Rule{RuleSpec: policies.RuleSpec{ID: f.Rule, Severity: f.Severity}, Title: f.Rule})
 		}
-		if f.File != "" {
-			b.addArtifact(f.File)
+		if f.File() != "" {
+			b.addArtifact(f.File())
 		}
 		if file, ok := b.exceptionFile(f); ok {
 			b.addArtifact(file)
@@ -435,8 +437,8 @@ func (b *builder) fingerprints() []string {
 	fps := make([]string, len(fs))
 	parallel(len(fs), func(i int) {
 		uri := ""
-		if fs[i].File != "" {
-			uri = b.artifacts[fs[i].File].uri
+		if fs[i].File() != "" {
+			uri = b.artifacts[fs[i].File()].uri
 		}
 		fps[i] = fingerprint(&fs[i], uri)
 	})
@@ -535,9 +537,9 @@ func (b *builder) result(f *rules.Finding, i int, fp string) *sarif.Result {
 		WithRuleID(f.Rule).
 		WithRuleIndex(b.ruleIndex[f.Rule]).
 		WithLevel(Level(f.Severity)).
-		WithMessage(sarif.NewTextMessage(b.message(f)))
-	if f.File != "" {
-		res.AddLocation(b.location(f.File, f.Pos()))
+		WithMessage(sarif.NewTextMessage(b.message(f, i)))
+	if f.File() != "" {
+		res.AddLocation(b.location(f.File(), f.Pos()))
 	}
 	res.WithPartialFingerprints(map[string]string{FingerprintKey: fp})
 	if st := b.baselineState(i); st != "" {
@@ -610,11 +612,10 @@ func (b *builder) exceptionFile(f *rules.Finding) (string, bool) {
 	if !f.Excepted || r.Start.Line < 1 {
 		return "", false
 	}
-	file := f.File
-	if r.Filename != "" && baseline.CleanPath(r.Filename) != baseline.CleanPath(f.File) {
-		file = r.Filename
+	if r.Filename == "" {
+		return f.File(), f.File() != ""
 	}
-	return file, true
+	return r.Filename, true
 }
 
 // relatedFile is the file of a related place of f when it can be a SARIF
@@ -625,7 +626,7 @@ func relatedFile(f *rules.Finding, r rules.Related) (string, bool) {
 		return "", false
 	}
 	if r.Range.Filename == "" {
-		return f.File, f.File != ""
+		return f.File(), f.File() != ""
 	}
 	return r.Range.Filename, true
 }
@@ -844,8 +845,11 @@ func utf16Len(b []byte) int {
 
 // message is a result's text: the place (reach, event, stations), the
 // message and the remedy, so that a code-scanning alert reads on its own.
-func (b *builder) message(f *rules.Finding) string {
-	unit := b.in.Units[f.File]
+func (b *builder) message(f *rules.Finding, i int) string {
+	unit := ""
+	if i < len(b.in.Units) {
+		unit = b.in.Units[i]
+	}
 	if unit == "" {
 		unit = "m"
 	}

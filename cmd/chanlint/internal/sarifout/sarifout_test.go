@@ -71,7 +71,7 @@ func findings(t *testing.T) []rules.Finding {
 	rel := "models/birch lane.chan.hcl"
 	return []rules.Finding{
 		{Rule: "freeboard", Severity: policies.Error, Message: "freeboard 0.18 m is below the required 0.30 m",
-			File: file, Range: length, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q100",
+			Range: length, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q100",
 			FromStation: 1.5, ToStation: 4.25, HasSpan: true, Value: 0.18, Limit: 0.30, HasValue: true,
 			Reference: "County Drainage Criteria Manual, ch. 5",
 			Excepted:  true, ExceptionReason: "Reviewed with the <drainage> authority & \"county\"", ExceptionRange: exc,
@@ -80,14 +80,14 @@ func findings(t *testing.T) []rules.Finding {
 				{Label: "exception", Range: exc},
 			}},
 		{Rule: "froude_band", Severity: policies.Info, Message: "Froude number 0.95 in the avoided band 0.89–1.13",
-			File: file, Range: label, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q10",
+			Range: label, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q10",
 			FromStation: 0, ToStation: 5, HasSpan: true, Value: 0.95, Limit: 0.89, HasValue: true},
 		{Rule: "solver", Severity: policies.Warning, Message: "critical depth taken at station 3.0",
-			File: file, Range: length, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q10",
+			Range: length, Reach: "a\U0001F469\u200D\U0001F469\u200D\U0001F467b", Event: "q10",
 			FromStation: 3, ToStation: 3, HasSpan: true},
 		// A model finding in another file with no source given: HCL columns kept.
-		{Rule: "model", Severity: policies.Error, Message: `unknown section "lined"`, File: "/srv/drainage/models/birch lane.chan.hcl",
-			Range: hcl.Range{Filename: rel, Start: hcl.Pos{Line: 4, Column: 13, Byte: 60}, End: hcl.Pos{Line: 4, Column: 20, Byte: 67}}},
+		{Rule: "model", Severity: policies.Error, Message: `unknown section "lined"`,
+			Range: hcl.Range{Filename: root + "/" + rel, Start: hcl.Pos{Line: 4, Column: 13, Byte: 60}, End: hcl.Pos{Line: 4, Column: 20, Byte: 67}}},
 	}
 }
 
@@ -296,15 +296,15 @@ func TestDeterministicAndFinite(t *testing.T) {
 }
 
 func TestRelativeRootAndOutside(t *testing.T) {
-	in := input(t, []rules.Finding{{Rule: "model", Severity: policies.Error, Message: "x", File: "/elsewhere/c.chan.hcl",
-		Range: hcl.Range{Start: hcl.Pos{Line: 1, Column: 1}, End: hcl.Pos{Line: 1, Column: 2, Byte: 1}}}})
+	in := input(t, []rules.Finding{{Rule: "model", Severity: policies.Error, Message: "x",
+		Range: hcl.Range{Filename: "/elsewhere/c.chan.hcl", Start: hcl.Pos{Line: 1, Column: 1}, End: hcl.Pos{Line: 1, Column: 2, Byte: 1}}}})
 	rep := validate(t, render(t, in))
 	al := rep.Runs[0].Results[0].Locations[0].PhysicalLocation.ArtifactLocation
 	assert.Equal(t, "file:///elsewhere/c.chan.hcl", *al.URI)
 	assert.Nil(t, al.URIBaseID)
 
 	in.Root = ""
-	in.Findings[0].File = "models/c.chan.hcl"
+	in.Findings[0].Rename("models/c.chan.hcl")
 	rep = validate(t, render(t, in))
 	al = rep.Runs[0].Results[0].Locations[0].PhysicalLocation.ArtifactLocation
 	assert.Equal(t, "models/c.chan.hcl", *al.URI)

@@ -32,13 +32,14 @@ func TestStreamedResults(t *testing.T) {
 		n := rapid.IntRange(0, 12).Draw(t, "n")
 		files := []string{"/srv/m/a.chan.hcl", "/srv/m/b c.chan.hcl", "/srv/m/../m/a.chan.hcl", "/elsewhere/x.chan.hcl", ""}
 		var fs []rules.Finding
+		var units []string
 		for range n {
 			f := rules.Finding{
 				Rule:     rapid.SampledFrom([]string{"freeboard", "model", "unknown_rule"}).Draw(t, "rule"),
 				Severity: rapid.SampledFrom([]policies.Severity{policies.Error, policies.Warning, policies.Info, "odd"}).Draw(t, "sev"),
-				Message:  text.Draw(t, "msg"), File: rapid.SampledFrom(files).Draw(t, "file"),
-				Range: hcl.Range{Start: pos.Draw(t, "start"), End: pos.Draw(t, "end")},
-				Reach: text.Draw(t, "reach"), Event: text.Draw(t, "event"), Reference: text.Draw(t, "ref"),
+				Message:  text.Draw(t, "msg"),
+				Range:    hcl.Range{Filename: rapid.SampledFrom(files).Draw(t, "file"), Start: pos.Draw(t, "start"), End: pos.Draw(t, "end")},
+				Reach:    text.Draw(t, "reach"), Event: text.Draw(t, "event"), Reference: text.Draw(t, "ref"),
 				HasSpan: rapid.Bool().Draw(t, "span"), FromStation: num.Draw(t, "from"), ToStation: num.Draw(t, "to"),
 				HasValue: rapid.Bool().Draw(t, "value"), Value: num.Draw(t, "v"), Limit: num.Draw(t, "l"),
 			}
@@ -53,6 +54,7 @@ func TestStreamedResults(t *testing.T) {
 				}
 			}
 			fs = append(fs, f)
+			units = append(units, rapid.SampledFrom([]string{"ft", "m", ""}).Draw(t, "unit"))
 		}
 		var states []string
 		if rapid.Bool().Draw(t, "baseline") {
@@ -66,7 +68,7 @@ func TestStreamedResults(t *testing.T) {
 				Range: hcl.Range{Start: pos.Draw(t, "pstart"), End: pos.Draw(t, "pend")}})
 		}
 		in := Input{Findings: fs, BaselineStates: states, Problems: problems, Rules: registry(), Root: "/srv", ToolVersion: "1.2.3",
-			Sources: map[string][]byte{"/srv/m/a.chan.hcl": srcText}, Units: map[string]string{"/srv/m/a.chan.hcl": "ft"}}
+			Sources: map[string][]byte{"/srv/m/a.chan.hcl": srcText}, Units: units}
 		var got bytes.Buffer
 		require.NoError(t, Write(&got, in))
 		rep, err := Build(in)
