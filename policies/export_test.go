@@ -1,7 +1,4 @@
 package policies
 
 // Internals the external tests of this package use.
-var (
-	FormatNumber = formatNumber
-	PackPrefix   = packPrefix
-)
+var PackPrefix = packPrefix

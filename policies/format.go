@@ -2,10 +2,10 @@ package policies
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"maps"
 	"math"
 	"slices"
-	"strconv"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
@@ -178,21 +178,6 @@ func comment(text string) hclwrite.Tokens {
 	return hclwrite.Tokens{{Type: hclsyntax.TokenComment, Bytes: []byte("# " + text + "\n")}}
 }
 
-// formatNumber prints v as written when it has at most 8 significant
-// digits, else rounded to 6 (the noise of a unit conversion), without an
-// exponent for the magnitudes policies use.
-func formatNumber(v float64) string {
-	short := strconv.FormatFloat(v, 'e', -1, 64)
-	mantissa := strings.TrimLeft(short[:strings.IndexByte(short, 'e')], "-")
-	if len(strings.ReplaceAll(mantissa, ".", "")) > 8 {
-		v, _ = strconv.ParseFloat(strconv.FormatFloat(v, 'g', 6, 64), 64)
-	}
-	if a := math.Abs(v); a != 0 && (a < 1e-6 || a >= 1e15) {
-		return strconv.FormatFloat(v, 'g', -1, 64)
-	}
-	return strconv.FormatFloat(v, 'f', -1, 64)
-}
-
 // settingTokens writes the value of a setting; nil for a PerLining or
 // FroudeBands setting that is not set.
 func settingTokens(s *Setting, rc *RuleConfig) hclwrite.Tokens {
@@ -215,7 +200,7 @@ func settingTokens(s *Setting, rc *RuleConfig) hclwrite.Tokens {
 }
 
 func numberTokens(v float64) hclwrite.Tokens {
-	s := formatNumber(v)
+	s := numfmt.Written(v)
 	var toks hclwrite.Tokens
 	if strings.HasPrefix(s, "-") {
 		toks = append(toks, &hclwrite.Token{Type: hclsyntax.TokenMinus, Bytes: []byte("-")})

@@ -2,6 +2,7 @@ package policies
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"slices"
 	"sort"
@@ -709,7 +710,7 @@ func noRoom(p *Policy, lo *RuleConfig, s *Setting, hi *RuleConfig, above string)
 			Severity: hcl.DiagWarning,
 			Summary:  capitalise(word) + " limits leave no room",
 			Detail: fmt.Sprintf("For %s the minimum %s %s is not below the maximum %s %s (%s from %s:%d); every %s fails one of the two rules. Give the lining its own limits, or null for no minimum.",
-				what, word, formatNumber(vmin), formatNumber(vmax), s.Quantity.Unit(p.Units),
+				what, word, numfmt.Written(vmin), numfmt.Written(vmax), s.Quantity.Unit(p.Units),
 				hi.Rule, hi.File, hi.DefRange.Start.Line, word),
 			Subject: rng.Ptr(),
 		})

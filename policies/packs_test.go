@@ -194,27 +194,6 @@ func TestFormatRoundTrip(t *testing.T) {
 	}
 }
 
-func TestFormatNumber(t *testing.T) {
-	twenty := 20.0
-	for _, c := range []struct {
-		in   float64
-		want string
-	}{
-		{0.3, "0.3"},
-		{20, "20"},
-		{0.075, "0.075"},
-		{0.3 / 0.3048, "0.984252"},
-		{6.096, "6.096"},
-		{twenty * 0.3048, "6.096"}, // computed at run time: 6.096000000000001
-		{1234.5678, "1234.5678"},
-		{-0.25, "-0.25"},
-		{policies.PascalsPerPSF, "47.8803"},
-		{1e-9, "1e-09"},
-	} {
-		assert.Equal(t, c.want, policies.FormatNumber(c.in), "%v", c.in)
-	}
-}
-
 func TestFormatQuotesOddLiningWords(t *testing.T) {
 	p, diags, _ := loadSource(t, `policy "x" {
   units = "si"

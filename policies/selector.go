@@ -2,6 +2,7 @@ package policies
 
 import (
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"maps"
 	"math"
 	"slices"
@@ -223,11 +224,11 @@ func (c *RuleConfig) SelectorText() string {
 func rangeText(r [2]float64) string {
 	switch {
 	case math.IsInf(r[1], 1):
-		return formatNumber(r[0]) + " years or more"
+		return numfmt.Written(r[0]) + " years or more"
 	case r[0] == 0:
-		return "up to " + formatNumber(r[1]) + " years"
+		return "up to " + numfmt.Written(r[1]) + " years"
 	}
-	return formatNumber(r[0]) + "–" + formatNumber(r[1]) + " years"
+	return numfmt.Written(r[0]) + "–" + numfmt.Written(r[1]) + " years"
 }
 
 // selector decodes the selector attributes of a rule block into s.

@@ -3,6 +3,7 @@ package policies
 import (
 	"errors"
 	"fmt"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"slices"
 	"strings"
@@ -147,13 +148,13 @@ func (b Bounds) Admits(x float64) bool {
 func (b Bounds) String() string {
 	switch {
 	case math.IsInf(b.Max, 1) && b.MinOpen:
-		return "greater than " + formatNumber(b.Min)
+		return "greater than " + numfmt.Written(b.Min)
 	case math.IsInf(b.Max, 1):
-		return "at least " + formatNumber(b.Min)
+		return "at least " + numfmt.Written(b.Min)
 	case b.MinOpen:
-		return "greater than " + formatNumber(b.Min) + " and at most " + formatNumber(b.Max)
+		return "greater than " + numfmt.Written(b.Min) + " and at most " + numfmt.Written(b.Max)
 	}
-	return "from " + formatNumber(b.Min) + " to " + formatNumber(b.Max)
+	return "from " + numfmt.Written(b.Min) + " to " + numfmt.Written(b.Max)
 }
 
 // Setting describes one attribute of a rule block besides the settings
@@ -237,7 +238,7 @@ func (s *Setting) Line() string {
 	case s.Required:
 		line += "; required"
 	case s.Kind == Number:
-		line += "; default " + formatNumber(s.Default)
+		line += "; default " + numfmt.Written(s.Default)
 	case s.Kind == Choice:
 		line += fmt.Sprintf("; default %q", s.Choices[0])
 	}

@@ -1,6 +1,7 @@
 package policies_test
 
 import (
+	"github.com/chanlint/chanlint/model/numfmt"
 	"path/filepath"
 	"testing"
 
@@ -44,7 +45,7 @@ func TestGenericDecoding(t *testing.T) {
 	assert.Equal(t, policies.Warning, c.Severity)
 	// Source: 1 ft = 0.3048 m exactly (international foot, 1959).
 	assert.InDelta(t, 0.6096, p.In("si").Rules["clearance"].Number("high"), 1e-12)
-	assert.Equal(t, "low 1 ft; high 2 ft", c.Summary("us", policies.FormatNumber))
+	assert.Equal(t, "low 1 ft; high 2 ft", c.Summary("us", numfmt.Written))
 
 	_, diags = loadWith(t, lang, "policy \"x\" {\n  units = \"si\"\n  clearance {\n    low = 1\n  }\n}\n")
 	require.Len(t, diags, 1)
@@ -93,7 +94,7 @@ func TestChoiceSetting(t *testing.T) {
 	p, diags = loadWith(t, lang, "policy \"x\" {\n  units = \"si\"\n  stress {\n    quantity = \"mean\"\n  }\n}\n")
 	require.Empty(t, diags)
 	assert.Equal(t, "mean", p.In("us").Rules["stress"].Word("quantity"))
-	assert.Equal(t, "quantity mean", p.Rules["stress"].Summary("si", policies.FormatNumber))
+	assert.Equal(t, "quantity mean", p.Rules["stress"].Summary("si", numfmt.Written))
 	assert.Contains(t, string(policies.Format(p)), `quantity = "mean"`)
 	_, diags = loadWith(t, lang, "policy \"x\" {\n  units = \"si\"\n  stress {\n    quantity = \"maen\"\n  }\n}\n")
 	require.Len(t, diags, 1)

@@ -91,12 +91,15 @@ func TestTables(t *testing.T) {
 }
 
 func TestWritten(t *testing.T) {
+	twenty := 20.0
 	for _, c := range []struct {
 		in   float64
 		want string
 	}{
 		{0.3, "0.3"}, {20, "20"}, {0.075, "0.075"}, {0.3 / 0.3048, "0.984252"},
-		{1234.5678, "1234.5678"}, {-0.25, "-0.25"}, {1e-9, "1e-09"},
+		{6.096, "6.096"}, {twenty * 0.3048, "6.096"}, // computed at run time: 6.096000000000001
+		{1234.5678, "1234.5678"}, {-0.25, "-0.25"}, {47.88025898, "47.8803"},
+		{1e-9, "1e-09"}, {2e15, "2e+15"},
 		{math.NaN(), "n/a"},
 	} {
 		assert.Equal(t, c.want, Written(c.in), "%v", c.in)
