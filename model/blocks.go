@@ -1,7 +1,6 @@
 package model
 
 import (
-	"fmt"
 	"math"
 	"regexp"
 	"strings"
@@ -104,7 +103,7 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 			r.Slope = s
 		}
 	case a.has("invert"):
-		if p, ok := d.pair(a.m["invert"].Expr, label{"invert", a.what}, "[upstream elevation, downstream elevation]"); ok {
+		if p, ok := d.pair(a.m["invert"].Expr, label{attr: "invert", owner: a.what}, "[upstream elevation, downstream elevation]"); ok {
 			r.InvertUp, r.InvertDown, r.HasInvert = p[0], p[1], true
 			if r.Length > 0 {
 				r.Slope = (p[0] - p[1]) / r.Length
@@ -139,7 +138,7 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 func (d *decoder) segment(b *hcl.Block, reach string) *Segment {
 	s := &Segment{Src: newSrc(b)}
 	a, _ := d.attrs(b, segmentSchema, &s.Src)
-	a.what = quoted("a segment of reach", reach)
+	a.what = ownerOf("a segment of reach", reach)
 	a.require(b.Body, "section")
 	s.FromStation, s.ToStation = a.stations(b.Body)
 	s.SectionName, _ = a.name("section")
@@ -312,11 +311,11 @@ type reachValue struct {
 // number of entries written. attr is the attribute's name, what names one
 // value in messages ("inflow to"), and summary and hint make the error for
 // a value that is not positive.
-func (d *decoder) reachValues(expr hcl.Expression, event, attr, what, example, summary, hint string) ([]reachValue, int) {
-	entries, _ := d.object(expr, attr+" of "+event, example)
+func (d *decoder) reachValues(expr hcl.Expression, event owner, attr, what, example, summary, hint string) ([]reachValue, int) {
+	entries, _ := d.object(expr, attr+" of "+event.String(), example)
 	var out []reachValue
 	for _, e := range entries {
-		v, ok := d.number(e.Value, plain(fmt.Sprintf("%s %q in %s", what, e.Key, event)))
+		v, ok := d.number(e.Value, label{attr: what, owner: event, key: e.Key, in: true})
 		if !ok {
 			continue
 		}
@@ -340,7 +339,7 @@ func hasErrorAt(diags hcl.Diagnostics, rng hcl.Range) bool {
 
 func (d *decoder) outlet(ev *Event, a attrSet, at *hclsyntax.Attribute) {
 	ev.Outlet.Range = at.Expr.Range()
-	entries, ok := d.object(at.Expr, "outlet of "+a.what, `{ depth = 1.5 }`)
+	entries, ok := d.object(at.Expr, "outlet of "+a.what.String(), `{ depth = 1.5 }`)
 	if !ok {
 		return
 	}
@@ -370,7 +369,7 @@ func (d *decoder) outlet(ev *Event, a attrSet, at *hclsyntax.Attribute) {
 	ev.Outlet.Range = e.Value.Range()
 	switch e.Key {
 	case "depth":
-		if y, ok := d.number(e.Value, label{"outlet depth", a.what}); ok {
+		if y, ok := d.number(e.Value, label{attr: "outlet depth", owner: a.what}); ok {
 			if y <= 0 {
 				d.Errorf(e.Value.Range(), "Depth must be positive",
 					"outlet depth of %s is %g; give the tailwater depth above the outlet invert in %s.", a.what, y, d.m.Units.Length())
@@ -379,11 +378,11 @@ func (d *decoder) outlet(ev *Event, a attrSet, at *hclsyntax.Attribute) {
 			ev.Outlet.Kind, ev.Outlet.Value = OutletDepth, y
 		}
 	case "elevation":
-		if z, ok := d.number(e.Value, label{"outlet elevation", a.what}); ok {
+		if z, ok := d.number(e.Value, label{attr: "outlet elevation", owner: a.what}); ok {
 			ev.Outlet.Kind, ev.Outlet.Value = OutletElevation, z
 		}
 	case "condition":
-		if c, ok := d.text(e.Value, label{"outlet condition", a.what}); ok {
+		if c, ok := d.text(e.Value, label{attr: "outlet condition", owner: a.what}); ok {
 			switch OutletKind(c) {
 			case OutletNormal, OutletCritical:
 				ev.Outlet.Kind = OutletKind(c)

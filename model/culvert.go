@@ -180,10 +180,10 @@ func inletNames() []string {
 }
 
 // inlet decodes `inlet`: a name of the table or an object of coefficients.
-func (d *decoder) inlet(expr hcl.Expression, what string) Inlet {
+func (d *decoder) inlet(expr hcl.Expression, what owner) Inlet {
 	in := Inlet{Range: expr.Range()}
 	if _, diags := hcl.ExprMap(expr); diags.HasErrors() {
-		name, ok := d.text(expr, label{"inlet", what})
+		name, ok := d.text(expr, label{attr: "inlet", owner: what})
 		if !ok {
 			return in
 		}
@@ -198,14 +198,14 @@ func (d *decoder) inlet(expr hcl.Expression, what string) Inlet {
 		return in
 	}
 	const example = `{ form = 1, K = 0.0098, M = 2.0, c = 0.0398, Y = 0.67, entrance_loss = 0.5 }`
-	entries, ok := d.object(expr, "inlet of "+what, example)
+	entries, ok := d.object(expr, "inlet of "+what.String(), example)
 	if !ok {
 		return in
 	}
 	in.SlopeTerm = SlopeTermDefault
 	seen := map[string]bool{}
 	for _, e := range entries {
-		lbl := label{e.Key + " of the inlet", what}
+		lbl := label{attr: e.Key + " of the inlet", owner: what}
 		var dst *float64
 		switch e.Key {
 		case "form":
@@ -272,15 +272,15 @@ func (d *decoder) inlet(expr hcl.Expression, what string) Inlet {
 
 // road decodes `road = { crest, length, width }` with the optional
 // coefficient and shoulder.
-func (d *decoder) road(expr hcl.Expression, what string) *Road {
+func (d *decoder) road(expr hcl.Expression, what owner) *Road {
 	r := &Road{Range: expr.Range()}
-	entries, ok := d.object(expr, "road of "+what, `{ crest = 6.4, length = 40, width = 10 }`)
+	entries, ok := d.object(expr, "road of "+what.String(), `{ crest = 6.4, length = 40, width = 10 }`)
 	if !ok {
 		return r
 	}
 	seen := map[string]bool{}
 	for _, e := range entries {
-		lbl := label{e.Key + " of the road", what}
+		lbl := label{attr: e.Key + " of the road", owner: what}
 		v, ok := d.number(e.Value, lbl)
 		seen[e.Key] = true
 		if !ok {
@@ -328,7 +328,7 @@ func (d *decoder) road(expr hcl.Expression, what string) *Road {
 // reach is a closed barrel of one section whose shape fits the inlet.
 func (d *decoder) resolveCulverts() {
 	for _, c := range d.m.Culverts {
-		what := quoted("culvert", c.Name)
+		what := ownerOf("culvert", c.Name)
 		r := d.lookupReach(c.ReachName, c.At("reach"), what)
 		c.Reach = r
 		if r == nil || r.Section == nil {

@@ -1,6 +1,7 @@
 package model
 
 import (
+	"fmt"
 	"math"
 	"strconv"
 	"strings"
@@ -118,16 +119,46 @@ func (d *diagnoser) value(expr hcl.Expression) (cty.Value, bool) {
 	return v, true
 }
 
-// label names a value in messages, e.g. `length of reach "main"`; it is
-// only formatted when a message is written, which keeps decoding a valid
-// file free of string building.
-type label struct{ attr, owner string }
+// owner names the object a value belongs to in messages, e.g. reach
+// "main" as quoted writes it; like label, it is only formatted when a
+// message is written.
+type owner struct {
+	kind, name string
+	named      bool // false: kind alone, e.g. segment or a whole phrase
+}
+
+// ownerOf is the object kind "name", e.g. ownerOf("reach", "main").
+func ownerOf(kind, name string) owner { return owner{kind: kind, name: name, named: true} }
+
+// phrase is an owner written out already.
+func phrase(s string) owner { return owner{kind: s} }
+
+func (o owner) String() string {
+	if !o.named {
+		return o.kind
+	}
+	return quoted(o.kind, o.name)
+}
+
+// label names a value in messages, e.g. `length of reach "main"`, or an
+// entry of an object, `inflow to "r1" in event "q10"` (in); it is only
+// formatted when a message is written, which keeps decoding a valid file
+// free of string building.
+type label struct {
+	attr  string
+	owner owner
+	key   string // with in: the entry's key
+	in    bool
+}
 
 func (l label) String() string {
-	if l.owner == "" {
+	switch {
+	case l.in:
+		return fmt.Sprintf("%s %q in %s", l.attr, l.key, l.owner)
+	case l.owner == owner{}:
 		return l.attr
 	}
-	return l.attr + " of " + l.owner
+	return l.attr + " of " + l.owner.String()
 }
 
 func plain(s string) label { return label{attr: s} }
@@ -276,7 +307,7 @@ func (d *diagnoser) object(expr hcl.Expression, what, example string) ([]entry, 
 	ok := true
 	seen := map[string]hcl.Range{}
 	for _, p := range pairs {
-		k, kok := d.text(p.Key, label{"a key", what})
+		k, kok := d.text(p.Key, label{attr: "a key", owner: phrase(what)})
 		if !kok {
 			ok = false
 			continue

@@ -79,7 +79,7 @@ func (d *decoder) resolveLosses() {
 			}
 			m.DefaultLoss = l
 		case l.ReachName != "" && l.NodeName == "":
-			what := quoted("loss", l.Name)
+			what := ownerOf("loss", l.Name)
 			l.Reach = d.lookupReach(l.ReachName, l.At("reach"), what)
 			if l.Reach == nil || !l.hasStation() {
 				continue

@@ -201,7 +201,7 @@ func (d *decoder) events() {
 	m := d.m
 	net := m.Network
 	for _, ev := range m.Events {
-		what := quoted("event", ev.Name)
+		what := ownerOf("event", ev.Name)
 		own := make([]float64, len(m.Reaches))
 		for _, in := range ev.Inflows {
 			own[in.Reach.Index] += in.Discharge
@@ -236,7 +236,7 @@ func (d *decoder) events() {
 }
 
 // outletControl checks an event's outlet control against the outlet reach.
-func (d *decoder) outletControl(ev *Event, out *Reach, what string) {
+func (d *decoder) outletControl(ev *Event, out *Reach, what owner) {
 	switch ev.Outlet.Kind {
 	case OutletElevation:
 		if ev.Outlet.Value <= out.InvertDown {

@@ -589,12 +589,26 @@ func newSrc(b *hcl.Block) Src {
 	return s
 }
 
+// nameLabels names the name of each labelled block in messages, built
+// once rather than for every block.
+var nameLabels = func() map[string]label {
+	m := map[string]label{}
+	for _, b := range rootSchema.Blocks {
+		m[b.Type] = plain("The name of a " + b.Type)
+	}
+	return m
+}()
+
 // blockName returns the first label of b, checked.
 func (d *decoder) blockName(b *hcl.Block) string {
 	if len(b.Labels) == 0 {
 		return ""
 	}
-	d.checkName(b.Labels[0], b.LabelRanges[0], plain("The name of a "+b.Type))
+	what, ok := nameLabels[b.Type]
+	if !ok {
+		what = plain("The name of a " + b.Type)
+	}
+	d.checkName(b.Labels[0], b.LabelRanges[0], what)
 	return b.Labels[0]
 }
 
@@ -604,7 +618,7 @@ type attrSet struct {
 	d    *decoder
 	m    hclsyntax.Attributes // the block's own when it fits its schema (see attrs)
 	src  *Src
-	what string // e.g. `reach "main"`
+	what owner // e.g. reach "main"
 }
 
 // unitSuffix is " m" or " ft", the length unit as a message puts it
@@ -681,9 +695,9 @@ func (d *decoder) attrs(b *hcl.Block, schema *hcl.BodySchema, src *Src) (attrSet
 		}
 	}
 	src.syn = m
-	what := b.Type
+	what := owner{kind: b.Type}
 	if len(b.Labels) > 0 {
-		what = quoted(b.Type, b.Labels[0])
+		what = ownerOf(b.Type, b.Labels[0])
 	}
 	return attrSet{d: d, m: m, src: src, what: what}, content
 }
@@ -718,7 +732,7 @@ func (a attrSet) number(name string) (float64, bool) {
 	if !ok {
 		return 0, false
 	}
-	return a.d.number(at.Expr, label{name, a.what})
+	return a.d.number(at.Expr, label{attr: name, owner: a.what})
 }
 
 func (a attrSet) text(name string) (string, bool) {
@@ -726,7 +740,7 @@ func (a attrSet) text(name string) (string, bool) {
 	if !ok {
 		return "", false
 	}
-	return a.d.text(at.Expr, label{name, a.what})
+	return a.d.text(at.Expr, label{attr: name, owner: a.what})
 }
 
 func (a attrSet) name(name string) (string, bool) {
@@ -734,7 +748,7 @@ func (a attrSet) name(name string) (string, bool) {
 	if !ok {
 		return "", false
 	}
-	return a.d.name(at.Expr, label{name, a.what})
+	return a.d.name(at.Expr, label{attr: name, owner: a.what})
 }
 
 // positive decodes a number that must be > 0.

@@ -60,7 +60,7 @@ func (d *decoder) suggestName(got, kind string) string {
 }
 
 // lookupReach resolves a reach reference at rng.
-func (d *decoder) lookupReach(name string, rng hcl.Range, what string) *Reach {
+func (d *decoder) lookupReach(name string, rng hcl.Range, what owner) *Reach {
 	if name == "" {
 		return nil
 	}
@@ -73,7 +73,7 @@ func (d *decoder) lookupReach(name string, rng hcl.Range, what string) *Reach {
 }
 
 // checkSpan checks that a station range lies on the reach.
-func (d *decoder) checkSpan(r *Reach, src Src, from, to float64, what string) bool {
+func (d *decoder) checkSpan(r *Reach, src Src, from, to float64, what owner) bool {
 	if r == nil || r.Length <= 0 {
 		return false
 	}
@@ -109,7 +109,7 @@ func (d *decoder) resolve() {
 	index(d, "bend", m.Bends, func(b *Bend) (string, hcl.Range) { return b.Name, b.LabelRange })
 	index(d, "event", m.Events, func(e *Event) (string, hcl.Range) { return e.Name, e.LabelRange })
 
-	section := func(name string, rng hcl.Range, what string) *Section {
+	section := func(name string, rng hcl.Range, what owner) *Section {
 		s, ok := d.sections[name]
 		if !ok && name != "" {
 			d.Errorf(rng, "Unknown section", "%s uses section %q, which is not defined; define it or use one of the section names of this file.%s",
@@ -118,10 +118,10 @@ func (d *decoder) resolve() {
 		return s
 	}
 	for _, r := range m.Reaches {
-		what := quoted("reach", r.Name)
+		what := ownerOf("reach", r.Name)
 		r.Section = section(r.SectionName, r.At("section"), what)
 		for _, s := range r.Segments {
-			sw := quoted("a segment of reach", r.Name)
+			sw := ownerOf("a segment of reach", r.Name)
 			s.Section = section(s.SectionName, s.At("section"), sw)
 			d.checkSpan(r, s.Src, s.FromStation, s.ToStation, sw)
 		}
@@ -136,7 +136,7 @@ func (d *decoder) resolve() {
 		}
 	}
 	for _, g := range m.Gates {
-		g.Reach = d.lookupReach(g.ReachName, g.At("reach"), quoted("gate", g.Name))
+		g.Reach = d.lookupReach(g.ReachName, g.At("reach"), ownerOf("gate", g.Name))
 		if g.Reach == nil {
 			continue
 		}
@@ -155,32 +155,32 @@ func (d *decoder) resolve() {
 	}
 	d.resolveCulverts()
 	for _, b := range m.Basins {
-		what := quoted("basin", b.Name)
+		what := ownerOf("basin", b.Name)
 		b.Reach = d.lookupReach(b.ReachName, b.At("reach"), what)
 		if d.checkSpan(b.Reach, b.Src, b.FromStation, b.ToStation, what) {
 			b.Reach.Basins = append(b.Reach.Basins, b)
 		}
 	}
 	for _, b := range m.Bends {
-		what := quoted("bend", b.Name)
+		what := ownerOf("bend", b.Name)
 		b.Reach = d.lookupReach(b.ReachName, b.At("reach"), what)
 		if d.checkSpan(b.Reach, b.Src, b.FromStation, b.ToStation, what) {
 			b.Reach.Bends = append(b.Reach.Bends, b)
 		}
 	}
 	for _, e := range m.Exceptions {
-		what := quoted("exception", e.Rule)
+		what := ownerOf("exception", e.Rule)
 		e.Reach = d.lookupReach(e.ReachName, e.At("reach"), what)
 		d.checkSpan(e.Reach, e.Src, e.FromStation, e.ToStation, what)
 	}
 	for _, ev := range m.Events {
 		for i := range ev.Inflows {
 			in := &ev.Inflows[i]
-			in.Reach = d.lookupReach(in.ReachName, in.Range, quoted("The inflow of event", ev.Name))
+			in.Reach = d.lookupReach(in.ReachName, in.Range, ownerOf("The inflow of event", ev.Name))
 		}
 		for i := range ev.Entrances {
 			en := &ev.Entrances[i]
-			en.Reach = d.lookupReach(en.ReachName, en.Range, quoted("The entrance of event", ev.Name))
+			en.Reach = d.lookupReach(en.ReachName, en.Range, ownerOf("The entrance of event", ev.Name))
 		}
 	}
 	d.resolveLosses()

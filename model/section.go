@@ -131,7 +131,7 @@ func (a attrSet) roughness(at *hclsyntax.Attribute) (float64, bool) {
 }
 
 func (a attrSet) manning(expr hcl.Expression) (float64, bool) {
-	n, ok := a.d.number(expr, label{"roughness", a.what})
+	n, ok := a.d.number(expr, label{attr: "roughness", owner: a.what})
 	if !ok {
 		return 0, false
 	}
@@ -166,7 +166,7 @@ func (d *decoder) points(s *Section, a attrSet) {
 		return
 	}
 	const example = "[[0, 2.0], [5, 0.0], [10, 2.0]]"
-	what := label{"points", a.what}
+	what := label{attr: "points", owner: a.what}
 	items, ok := d.list(at.Expr, what, example)
 	if !ok {
 		return
@@ -182,7 +182,7 @@ func (d *decoder) points(s *Section, a attrSet) {
 	pts := make([]Point, 0, len(items))
 	good := true
 	for i, it := range items {
-		pair, ok := d.pair(it, label{"a point", a.what}, "[offset, elevation]")
+		pair, ok := d.pair(it, label{attr: "a point", owner: a.what}, "[offset, elevation]")
 		if !ok {
 			good = false
 			continue
@@ -240,7 +240,7 @@ func (d *decoder) points(s *Section, a attrSet) {
 	}
 	s.Banks = [2]float64{first.Offset, last.Offset}
 	if bk, ok := a.m["banks"]; ok {
-		if pair, ok := d.pair(bk.Expr, label{"banks", a.what}, "[left offset, right offset]"); ok {
+		if pair, ok := d.pair(bk.Expr, label{attr: "banks", owner: a.what}, "[left offset, right offset]"); ok {
 			switch {
 			case pair[0] < first.Offset || pair[1] > last.Offset:
 				d.Errorf(bk.Expr.Range(), "Bank outside the section",
@@ -267,7 +267,7 @@ func (d *decoder) zoneRoughness(s *Section, a attrSet, r *hclsyntax.Attribute) {
 		}
 		return
 	}
-	items, ok := d.list(r.Expr, label{"roughness", a.what}, "[0.06, 0.035, 0.06]")
+	items, ok := d.list(r.Expr, label{attr: "roughness", owner: a.what}, "[0.06, 0.035, 0.06]")
 	if !ok {
 		return
 	}
