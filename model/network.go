@@ -19,11 +19,16 @@ import (
 func (d *decoder) network() {
 	m := d.m
 	net := &Network{}
-	nodes := map[string]*Node{}
+	// A reach names two nodes at most: the nodes are taken from one
+	// array that never grows.
+	nodes := make(map[string]*Node, len(m.Reaches)+1)
+	pool := make([]Node, 0, 2*len(m.Reaches))
+	net.Nodes = make([]*Node, 0, len(m.Reaches)+1)
 	node := func(name string) *Node {
 		n, ok := nodes[name]
 		if !ok {
-			n = &Node{Name: name}
+			pool = append(pool, Node{Name: name})
+			n = &pool[len(pool)-1]
 			nodes[name] = n
 			net.Nodes = append(net.Nodes, n)
 		}

@@ -651,11 +651,11 @@ func bodyContent(body hcl.Body, schema *hcl.BodySchema) (*hcl.BodyContent, hcl.D
 }
 
 // fits reports whether every attribute and block of sb is one the schema
-// names, with as many labels as it asks for, and the schema requires no
-// attribute (Content would report one that is missing).
+// names, with as many labels as it asks for, and every attribute the
+// schema requires is there (Content would report one that is missing).
 func fits(sb *hclsyntax.Body, schema *hcl.BodySchema) bool {
 	for _, as := range schema.Attributes {
-		if as.Required {
+		if _, ok := sb.Attributes[as.Name]; as.Required && !ok {
 			return false
 		}
 	}
@@ -664,9 +664,14 @@ func fits(sb *hclsyntax.Body, schema *hcl.BodySchema) bool {
 			return false
 		}
 	}
+	i := 0 // blocks of one type usually follow one another
 	for _, b := range sb.Blocks {
-		i := slices.IndexFunc(schema.Blocks, func(bs hcl.BlockHeaderSchema) bool { return bs.Type == b.Type })
-		if i < 0 || len(b.Labels) != len(schema.Blocks[i].LabelNames) {
+		if i >= len(schema.Blocks) || schema.Blocks[i].Type != b.Type {
+			if i = slices.IndexFunc(schema.Blocks, func(bs hcl.BlockHeaderSchema) bool { return bs.Type == b.Type }); i < 0 {
+				return false
+			}
+		}
+		if len(b.Labels) != len(schema.Blocks[i].LabelNames) {
 			return false
 		}
 	}
@@ -713,14 +718,17 @@ func syntaxAttr(a *hcl.Attribute) *hclsyntax.Attribute {
 	return &hclsyntax.Attribute{Name: a.Name, Expr: expr, SrcRange: a.Range, NameRange: a.NameRange}
 }
 
-// syntaxBlocks converts the nested blocks of a syntax body (nil for none).
+// syntaxBlocks converts the nested blocks of a syntax body (nil for none)
+// as AsHCLBlock does, all in one allocation.
 func syntaxBlocks(sb *hclsyntax.Body) hcl.Blocks {
 	if len(sb.Blocks) == 0 {
 		return nil
 	}
 	blocks := make(hcl.Blocks, len(sb.Blocks))
+	vals := make([]hcl.Block, len(sb.Blocks))
 	for i, b := range sb.Blocks {
-		blocks[i] = b.AsHCLBlock()
+		vals[i] = hcl.Block{Type: b.Type, Labels: b.Labels, Body: b.Body, DefRange: b.DefRange(), TypeRange: b.TypeRange, LabelRanges: b.LabelRanges}
+		blocks[i] = &vals[i]
 	}
 	return blocks
 }

@@ -11,18 +11,17 @@ import (
 // second name, mentioning the line of the first.
 func index[T any](d *decoder, kind string, items []T, name func(T) (string, hcl.Range)) map[string]T {
 	m := make(map[string]T, len(items))
-	first := map[string]hcl.Range{}
 	for _, it := range items {
 		n, rng := name(it)
 		if n == "" {
 			continue
 		}
-		if f, dup := first[n]; dup {
+		if f, dup := m[n]; dup {
+			_, first := name(f)
 			d.Errorf(rng, "Duplicate name",
-				"A %s named %q is already defined at line %d; rename one of them.", kind, n, f.Start.Line)
+				"A %s named %q is already defined at line %d; rename one of them.", kind, n, first.Start.Line)
 			continue
 		}
-		first[n] = rng
 		m[n] = it
 	}
 	return m
