@@ -521,30 +521,19 @@ func (s *solver) dominated(w *reachWork, p *piece, y, ys float64) bool {
 // are checked backwards with the exact D until one has D ≥ 0 (at most
 // jumpBackScan of them), the points after it are dropped from w.final, and
 // D is solved by Brent's method between that point and the next. Both
-// depths are recomputed at x by a standard step: the supercritical one
-// from the point found, the subcritical one from the nearest subcritical
-// point downstream. Where no point of the run has D ≥ 0, ok is false: the
-// run was drowned from its start and there is no jump. Where the ends do
-// not bracket (a numerical corner), the toe is put at the linear
-// interpolation of D.
+// depths are recomputed at x by a standard step (see toeSearch): the
+// supercritical one from the point found, the subcritical one from the
+// nearest subcritical point downstream. Where no point of the run has
+// D ≥ 0, ok is false: the run was drowned from its start and there is no
+// jump. Where the ends do not bracket (a numerical corner), the toe is put
+// at the linear interpolation of D.
 func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt) (xt, y1, y2 float64, ok bool) {
-	// Where the subcritical profile does not exist the supercritical flow
-	// holds: D is kept positive there.
-	diff := func(x, y float64) float64 {
-		fs := w.f.force(p, y)
-		d := fs - w.f.force(p, s.subExact(w, pi, x))
-		if s.subFallbackAt(w, pi, x) {
-			d = math.Max(d, forceTie*fs)
-		}
-		return d
-	}
-	dAt := func(c pt) float64 { return diff(c.x, c.y) }
+	ts := toeSearch{s: s, w: w, p: p, pi: pi, subJ: -1}
 	k := len(w.final) - 1
 	if runStart < 0 {
 		runStart = 0
 	}
 	next := b
-	var base pt
 	var dBase float64
 	found := false
 	for scanned := 0; k >= runStart && scanned < jumpBackScan; k, scanned = k-1, scanned+1 {
@@ -552,8 +541,10 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt
 		if c.piece != pi || !c.super {
 			break
 		}
-		if d := dAt(c); d >= 0 {
-			base, dBase, found = c, d, true
+		ysub, msub := ts.sub(c.x)
+		if d := ts.diff(c.x, w.f.force(p, c.y), msub); d >= 0 {
+			ts.base, dBase, found = c, d, true
+			ts.remember(c.x, c.y, ysub, d)
 			break
 		}
 		next = c
@@ -566,24 +557,16 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt
 		return 0, 0, 0, false
 	}
 	w.final = w.final[:k+1] // keep base, drop what lies beyond the toe
-	ySup := func(x float64) float64 {
-		if x <= base.x {
-			return base.y
-		}
-		y, ok := w.f.standardStep(p, base.x, base.y, x, true, 0)
-		if !ok {
-			return p.yc
-		}
-		return y
-	}
-	d := func(x float64) float64 { return diff(x, ySup(x)) }
+	ts.next = next
+	ts.kBase = w.f.eval(p, ts.base.y)
 	// The toe to 1e-10 of the reach, or finer on a very short, steep
 	// curve: 1e-8 of the interval searched.
+	base := ts.base
 	xtol := math.Min(1e-10*math.Max(w.f.length, 1), 1e-8*(next.x-base.x))
-	da, db := dBase, d(next.x)
+	da, db := dBase, ts.d(next.x)
 	switch {
 	case da >= 0 && db <= 0 && da != db:
-		if x, err := Brent(d, base.x, next.x, xtol); err == nil {
+		if x, err := Brent(ts.d, base.x, next.x, xtol); err == nil {
 			xt = x
 		} else {
 			xt = base.x + (next.x-base.x)*da/(da-db)
@@ -594,7 +577,117 @@ func (s *solver) locateJump(w *reachWork, p *piece, pi int32, runStart int, b pt
 			xt = base.x + (next.x-base.x)*math.Min(1, math.Max(0, da/(da-db)))
 		}
 	}
-	return xt, ySup(xt), s.subExact(w, pi, xt), true
+	y1, y2 = ts.depths(xt)
+	return xt, y1, y2, true
+}
+
+// toeSearch is the state of locateJump's search: the supercritical point
+// the search starts from (base, with its state) and the next computed
+// one, the subcritical point last stepped from (with its state), and the
+// last few stations evaluated, so that the toe Brent's method returns is
+// not computed again. Each depth is a standard step solved by Newton's
+// method from a guess interpolated between the computed points around it
+// (newtonStep), the specific force taken from the state at the root: one
+// or two section evaluations a depth where a step without a guess costs
+// five or more.
+type toeSearch struct {
+	s          *solver
+	w          *reachWork
+	p          *piece
+	pi         int32
+	base, next pt
+	kBase      stepState
+	subJ       int // index in the piece's subcritical points of kSub; -1: none
+	kSub       stepState
+	seen       [4]toeEval
+	nSeen      int
+}
+
+// toeEval is one station evaluated by a toeSearch.
+type toeEval struct{ x, ySup, ySub, d float64 }
+
+func (t *toeSearch) remember(x, ySup, ySub, d float64) {
+	t.seen[t.nSeen%len(t.seen)] = toeEval{x, ySup, ySub, d}
+	t.nSeen++
+}
+
+// diff is D at station x from the two specific forces; where the
+// subcritical profile does not exist the supercritical flow holds, and D
+// is kept positive there.
+func (t *toeSearch) diff(x, mSup, mSub float64) float64 {
+	d := mSup - mSub
+	if t.s.subFallbackAt(t.w, t.pi, x) {
+		d = math.Max(d, forceTie*mSup)
+	}
+	return d
+}
+
+// sub is the subcritical depth at x and its specific force, by a standard
+// step from the nearest computed point downstream (subExact).
+func (t *toeSearch) sub(x float64) (float64, float64) {
+	s, w, p := t.s, t.w, t.p
+	lo, hi := int(w.subPiece[t.pi]), int(w.subPiece[t.pi+1])
+	if hi <= lo {
+		return p.yc, w.f.force(p, p.yc)
+	}
+	pts := s.subBuf[w.subLo:w.subHi][lo:hi]
+	j := sort.Search(len(pts), func(i int) bool { return pts[i].x >= x })
+	if j == len(pts) {
+		j = len(pts) - 1
+	}
+	c := pts[j]
+	if c.x == x || c.fallback {
+		return c.y, w.f.force(p, c.y)
+	}
+	if t.subJ != j {
+		t.subJ, t.kSub = j, w.f.eval(p, c.y)
+	}
+	guess := s.subAt(w, t.pi, x)
+	y, ok, st := w.f.newtonStep(p, c.x, t.kSub, x, false, guess, c.y)
+	if !ok {
+		return p.yc, w.f.force(p, p.yc)
+	}
+	return y, st.m
+}
+
+// sup is the supercritical depth at x and its specific force, by a
+// standard step from base.
+func (t *toeSearch) sup(x float64) (float64, float64) {
+	w, p, base := t.w, t.p, t.base
+	if x <= base.x {
+		return base.y, t.kBase.m
+	}
+	guess := base.y
+	if t.next.x > base.x {
+		guess += (t.next.y - base.y) * (x - base.x) / (t.next.x - base.x)
+	}
+	y, ok, st := w.f.newtonStep(p, base.x, t.kBase, x, true, guess, base.y)
+	if !ok {
+		return p.yc, w.f.force(p, p.yc)
+	}
+	return y, st.m
+}
+
+// d is D(x) for Brent's method.
+func (t *toeSearch) d(x float64) float64 {
+	ySup, mSup := t.sup(x)
+	ySub, mSub := t.sub(x)
+	d := t.diff(x, mSup, mSub)
+	t.remember(x, ySup, ySub, d)
+	return d
+}
+
+// depths are the two depths at the toe x: those of an evaluation of x
+// already made, else computed.
+func (t *toeSearch) depths(x float64) (ySup, ySub float64) {
+	for i := range min(t.nSeen, len(t.seen)) {
+		if e := t.seen[i]; e.x == x {
+			return e.ySup, e.ySub
+		}
+	}
+	ySup, _ = t.sup(x)
+	ySub, _ = t.sub(x)
+	return ySup, ySub
 }
 
 // unbalancedJump is the relative difference of specific force above which

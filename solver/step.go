@@ -72,6 +72,8 @@ type stepState struct {
 	sf  float64 // friction slope (Q/K)²
 	f2  float64 // αQ²T/(gA³), the squared Froude number
 	dsf float64 // dSf/dy where the section gives it in closed form, else NaN
+	m   float64 // specific force Q²/(gA) + A·z̄ (see force)
+	a   float64 // flow area
 }
 
 // flowCtx is the part of a reach the energy equation needs: discharge,
@@ -100,7 +102,8 @@ func (f *flowCtx) invert(x float64) float64 {
 // expressions as Props but only the area and conveyance, which saves the
 // call and the other properties in the innermost loop of the solver.
 //
-// It also gives the squared Froude number F² = αQ²T/(gA³) and, for a
+// It also gives the specific force (as force computes it), the squared
+// Froude number F² = αQ²T/(gA³) and, for a
 // prismatic section, dSf/dy = −2·Sf·K′/K with K′/K = T/A + (2/3)·R′/R and
 // R′ = (T − R·P′)/P (K = (k/n)·A·R^(2/3), P′ = 2√(1+z²)): what the
 // predicted depth and the Newton iteration of a standard step need.
@@ -112,7 +115,8 @@ func (f *flowCtx) eval(p *piece, y float64) stepState {
 		v := f.q / pr.Area
 		c := f.q / pr.Conveyance
 		return stepState{e: y + pr.Alpha*v*v/(2*g.g), sf: c * c,
-			f2: pr.Alpha * v * v * pr.TopWidth / (g.g * pr.Area), dsf: math.NaN()}
+			f2: pr.Alpha * v * v * pr.TopWidth / (g.g * pr.Area), dsf: math.NaN(),
+			m: f.q*f.q/(g.g*pr.Area) + pr.FirstMoment, a: pr.Area}
 	}
 	yy := clampDepth(y)
 	a := (g.b + g.z*yy) * yy
@@ -124,7 +128,8 @@ func (f *flowCtx) eval(p *piece, y float64) stepState {
 	t := g.b + 2*g.z*yy
 	dr := (t - r*2*g.sideLen) / per
 	return stepState{e: y + v*v/(2*g.g), sf: sf, f2: v * v * t / (g.g * a),
-		dsf: -2 * sf * (t/a + (2.0/3)*dr/r)}
+		dsf: -2 * sf * (t/a + (2.0/3)*dr/r),
+		m:   f.q*f.q/(g.g*a) + (g.b*yy*yy/2 + g.z*yy*yy*yy/3), a: a}
 }
 
 // gvfSlope is dy/dx = (S0 − Sf)/(1 − F²) at a state, the differential
@@ -833,8 +838,10 @@ func (f *flowCtx) newtonStep(p *piece, xk float64, k stepState, xu float64, supe
 			// is below the tolerance, and the state at the corrected
 			// depth is that at y to first order (the error, of the order
 			// of corr², is far below the tolerance).
+			// dM/dy = A − Q²T/(gA²) = A·(1 − F²) with α = 1.
 			st.e -= (1 - st.f2) * corr
 			st.sf -= st.dsf * corr
+			st.m -= st.a * (1 - st.f2) * corr
 			return y - corr, true, st
 		}
 		y -= corr
