@@ -94,9 +94,39 @@ func bisect(f func(float64) float64, a, b float64) float64 {
 
 // depthAt is the reference depth at station x of the profile that passes
 // through (x0, y0), searched between y0 and yFar (the other end of the
-// profile's depth range).
+// profile's depth range) to the tolerance of bisect. Each trial integrates
+// from y0, so the search is Newton's method on x0 + distance(y0, y) − x,
+// whose derivative is the integrand dx/dy itself, kept inside the bracket
+// by a bisection step whenever Newton would leave it: a few integrations
+// where bisection takes some forty.
 func (t gvfTrapezoid) depthAt(x0, y0, yFar, x float64) float64 {
-	return bisect(func(y float64) float64 { return x0 + t.distance(y0, y) - x }, y0, yFar)
+	f := func(y float64) float64 { return x0 + t.distance(y0, y) - x }
+	a, b := y0, yFar
+	fa := f(a)
+	if fa == 0 {
+		return a
+	}
+	y := (a + b) / 2
+	for range 200 {
+		fy := f(y)
+		if fy == 0 {
+			return y
+		}
+		if (fy > 0) == (fa > 0) {
+			a, fa = y, fy
+		} else {
+			b = y
+		}
+		next := y - fy/t.dxdy(y)
+		if !(next > math.Min(a, b) && next < math.Max(a, b)) {
+			next = (a + b) / 2
+		}
+		if math.Abs(next-y) <= 1e-12*math.Abs(y) || math.Abs(b-a) <= 1e-12*math.Abs(b) {
+			return next
+		}
+		y = next
+	}
+	return y
 }
 
 // TestProfileAgainstQuadrature compares standard-step profiles with the
@@ -210,5 +240,32 @@ func TestPublishedTrapezoidBackwater(t *testing.T) {
 		require.InDeltaf(t, want, got, 0.005*want, "distance to %.1f ft against the quadrature", c.depth)
 		require.InDeltaf(t, c.quoted, got, c.bound*c.quoted, "distance to %.1f ft against the quoted figure", c.depth)
 		t.Logf("depth %.1f ft: %.1f ft upstream (quadrature with our constants %.1f, quoted %.0f)", c.depth, got, want, c.quoted)
+	}
+}
+
+// The Newton search of depthAt finds the depth plain bisection finds, on
+// every kind of profile its callers ask for.
+func TestReferenceDepthAtMatchesBisection(t *testing.T) {
+	ref := gvfTrapezoid{b: 3, z: 2, n: 0.015, k: 1, g: 9.80665, q: 10, s0: 0.001}
+	steep := ref
+	steep.s0 = 0.02
+	yn, yc := ref.normalDepth(), ref.criticalDepth()
+	ycs := steep.criticalDepth()
+	cases := []struct {
+		name         string
+		ref          gvfTrapezoid
+		x0, y0, yFar float64
+		stations     []float64
+	}{
+		{"M1", ref, 2000, 2.0, yn, []float64{1990, 1500, 500, 0}},
+		{"M2", ref, 2000, yc, yn, []float64{1999.9, 1900, 1000, 0}},
+		{"S2", steep, 0, ycs, steep.normalDepth(), []float64{0.1, 5, 50, 200}},
+		{"next to normal depth", ref, 2000, 2.0, yn * 1.0001, []float64{0}},
+	}
+	for _, c := range cases {
+		for _, x := range c.stations {
+			want := bisect(func(y float64) float64 { return c.x0 + c.ref.distance(c.y0, y) - x }, c.y0, c.yFar)
+			require.InDeltaf(t, want, c.ref.depthAt(c.x0, c.y0, c.yFar, x), 1e-9*want, "%s at %v", c.name, x)
+		}
 	}
 }
