@@ -512,7 +512,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 	}
 	for _, ex := range md.Exceptions {
 		er := exceptionRow{Rule: ex.Rule, Reach: ex.ReachName, Stations: stationRange(ex.FromStation, ex.ToStation),
-			Reason: ex.Reason, Where: where(md.File, ex.DefRange), Short: lineCol(ex.DefRange)}
+			Reason: ex.Reason, Where: where(ex.DefRange), Short: lineCol(ex.DefRange)}
 		for _, f := range m.Findings {
 			if f.Excepted && f.ExceptionRange.Start == ex.DefRange.Start && f.ExceptionRange.Filename == ex.DefRange.Filename {
 				er.Covered++
@@ -727,13 +727,13 @@ func culvertSummary(cr *solver.CulvertResult) culvertRow {
 
 func row(n int, f rules.Finding) findingRow {
 	r := findingRow{N: n, Severity: string(f.Severity), Rule: f.Rule, Reach: f.Reach, Event: f.Event,
-		Message: f.Text(), Where: where(f.File(), f.Pos()), Short: lineCol(f.Pos()), Excepted: f.Excepted, Reason: f.ExceptionReason,
+		Message: f.Text(), Where: where(f.Pos()), Short: lineCol(f.Pos()), Excepted: f.Excepted, Reason: f.ExceptionReason,
 		Class: string(f.Severity)}
 	if f.Excepted {
 		r.Class = "excepted"
 	}
 	for _, rel := range f.Related {
-		r.Related = append(r.Related, rel.Label+" at "+where(rel.Range.Filename, rel.Range))
+		r.Related = append(r.Related, rel.Label+" at "+where(rel.Range))
 	}
 	if f.HasSpan {
 		r.Stations = stationRange(f.FromStation, f.ToStation)
@@ -751,16 +751,14 @@ func row(n int, f rules.Finding) findingRow {
 	return r
 }
 
-// where is the GNU-style position "file:line:col" of a range ("file" alone
-// when the range is unknown).
-func where(file string, r hcl.Range) string {
-	if file == "" {
-		file = r.Filename
-	}
+// where is the GNU-style position "file:line:col" of a range in the file
+// it names (a finding's Pos, a related place); "file" alone when the range
+// has no position.
+func where(r hcl.Range) string {
 	if r.Start.Line < 1 {
-		return file
+		return r.Filename
 	}
-	return fmt.Sprintf("%s:%d:%d", file, r.Start.Line, r.Start.Column)
+	return fmt.Sprintf("%s:%d:%d", r.Filename, r.Start.Line, r.Start.Column)
 }
 
 // lineCol is "line:col" of a range's start ("" when unknown).
