@@ -7,6 +7,7 @@ import (
 	"slices"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 )
 
 // finish turns the final profile of a reach into Points, profile spans and
@@ -267,7 +268,7 @@ func spans(points []Point, final []pt, pieces []piece) []ProfileSpan {
 func sanitize(res *ReachResult) {
 	bad := false
 	fix := func(v *float64) {
-		if math.IsNaN(*v) || math.IsInf(*v, 0) {
+		if !numfmt.Finite(*v) {
 			*v = 0
 			bad = true
 		}

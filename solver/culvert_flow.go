@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 )
 
 // culvertHead is pass 1 for a culvert barrel: it finds the tailwater at the
@@ -257,7 +258,7 @@ func finishCulvert(cr *CulvertResult, g *Geometry) {
 	}
 	for _, v := range []*float64{&cr.Rise, &cr.Headwater, &cr.HeadwaterDepth, &cr.HWD, &cr.InletHeadwater, &cr.OutletHeadwater,
 		&cr.Intensity, &cr.Tailwater, &cr.Transition, &cr.BarrelFlow, &cr.RoadFlow, &cr.RoadDepth, &cr.OutletDepth, &cr.OutletVelocity} {
-		if math.IsNaN(*v) || math.IsInf(*v, 0) {
+		if !numfmt.Finite(*v) {
 			*v = 0
 		}
 	}

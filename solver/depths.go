@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"slices"
+
+	"github.com/chanlint/chanlint/model/numfmt"
 )
 
 // maxScanSteps bounds every bracketing walk over trial depths beyond the
@@ -104,7 +106,7 @@ func NormalDepth(g *Geometry, q, slope float64) (float64, error) {
 	if q == 0 {
 		return 0, nil
 	}
-	if math.IsNaN(q) || math.IsInf(q, 0) {
+	if !numfmt.Finite(q) {
 		return 0, ErrNoNormalDepth
 	}
 	target := q / math.Sqrt(slope)
@@ -114,8 +116,8 @@ func NormalDepth(g *Geometry, q, slope float64) (float64, error) {
 		kFull, kMax, yMax, _ := g.FullFlow()
 		if !(target <= kMax) {
 			rs := math.Sqrt(slope)
-			return 0, fmt.Errorf("%w: discharge %.4g exceeds the largest open-channel flow %.4g of the %.4g-high conduit at slope %.4g (at a depth of %.4g; flowing full it carries %.4g), so it runs full under pressure",
-				ErrNoNormalDepth, q, kMax*rs, g.height, slope, yMax, kFull*rs)
+			return 0, fmt.Errorf("%w: discharge %s exceeds the largest open-channel flow %s of the %s-high conduit at slope %s (at a depth of %s; flowing full it carries %s), so it runs full under pressure",
+				ErrNoNormalDepth, num(q), num(kMax*rs), num(g.height), num(slope), num(yMax), num(kFull*rs))
 		}
 		if g.kind == kindBox {
 			// The conveyance rises with depth up to the soffit, where the
@@ -192,7 +194,7 @@ func CriticalDepth(g *Geometry, q float64) (float64, error) {
 	if q == 0 {
 		return 0, nil
 	}
-	if math.IsNaN(q) || math.IsInf(q, 0) {
+	if !numfmt.Finite(q) {
 		return 0, ErrNoCriticalDepth
 	}
 	if g.kind == kindPoints {
@@ -225,7 +227,7 @@ func criticalSingle(g *Geometry, q float64) (float64, error) {
 		}
 		yc := math.Cbrt(q * q / (g.g * w * w))
 		if yc >= h {
-			return h, fmt.Errorf("%w: discharge %.4g is supercritical up to the soffit of the %.4g-high box", ErrNoCriticalDepth, q, h)
+			return h, fmt.Errorf("%w: discharge %s is supercritical up to the soffit of the %s-high box", ErrNoCriticalDepth, num(q), num(h))
 		}
 		return yc, nil
 	}
@@ -236,7 +238,7 @@ func criticalSingle(g *Geometry, q float64) (float64, error) {
 		}
 		hi := d * (1 - 1e-12)
 		if f(hi) < 0 {
-			return d, fmt.Errorf("%w: discharge %.4g is supercritical up to the crown of the %.4g conduit", ErrNoCriticalDepth, q, d)
+			return d, fmt.Errorf("%w: discharge %s is supercritical up to the crown of the %s conduit", ErrNoCriticalDepth, num(q), num(d))
 		}
 		lo := clampDepth(math.Min(d/2, math.Pow(q*q/g.g, 0.2))) // √(Q²/g)^(2/5): the scale of yc in a pipe
 		for i := 0; f(lo) > 0; i++ {
@@ -280,7 +282,7 @@ func criticalSingle(g *Geometry, q float64) (float64, error) {
 // It does not allocate when dst has room.
 func CriticalDepths(g *Geometry, q float64, dst []float64) []float64 {
 	q = math.Abs(q)
-	if q == 0 || math.IsNaN(q) || math.IsInf(q, 0) {
+	if q == 0 || !numfmt.Finite(q) {
 		return dst
 	}
 	if g.kind != kindPoints {

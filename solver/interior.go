@@ -5,6 +5,7 @@ import (
 	"slices"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 )
 
 // reachFlow is what a solved reach keeps of its solution so that the flow
@@ -100,9 +101,8 @@ func (r *ReachResult) Between(i int, x float64) (p Point, approx, ok bool) {
 
 // finitePoint reports whether every number of a point is finite.
 func finitePoint(p *Point) bool {
-	s := p.Station + p.Invert + p.Depth + p.WSE + p.Velocity + p.Froude + p.Energy + p.CriticalDepth +
-		p.NormalDepth + p.Area + p.TopWidth + p.HydraulicRadius + p.FrictionSlope + p.Alpha
-	return !math.IsNaN(s) && !math.IsInf(s, 0)
+	return numfmt.Finite(p.Station, p.Invert, p.Depth, p.WSE, p.Velocity, p.Froude, p.Energy, p.CriticalDepth,
+		p.NormalDepth, p.Area, p.TopWidth, p.HydraulicRadius, p.FrictionSlope, p.Alpha)
 }
 
 // Zone velocities of a points section (see Zones).

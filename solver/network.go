@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 )
 
 // This file holds the boundary conditions of each reach: the outlet
@@ -154,7 +155,7 @@ func (s *solver) outletBoundary(w *reachWork, ev *model.Event, last *piece, z fl
 	L := w.f.length
 	y := last.yc
 	tw := s.vary.Tailwater // a sensitivity run's offset; 0 as written
-	if math.IsNaN(tw) || math.IsInf(tw, 0) {
+	if !numfmt.Finite(tw) {
 		tw = 0
 	}
 	switch out.Kind {

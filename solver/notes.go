@@ -2,19 +2,14 @@ package solver
 
 import (
 	"fmt"
-	"math"
 	"sort"
-	"strconv"
+
+	"github.com/chanlint/chanlint/model/numfmt"
 )
 
-// num formats a length or level for a note: four significant digits,
-// never NaN or Inf in the text.
-func num(v float64) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return "?"
-	}
-	return strconv.FormatFloat(v, 'g', 4, 64)
-}
+// num formats a number for a note: four significant figures by the rule
+// of every output (numfmt.Sig), never NaN or Inf in the text.
+func num(v float64) string { return numfmt.Sig(v, 4) }
 
 // noteControl is a NoteControl at a station.
 func noteControl(station float64, format string, args ...any) Note {

@@ -3,6 +3,8 @@ package solver
 import (
 	"errors"
 	"math"
+
+	"github.com/chanlint/chanlint/model/numfmt"
 )
 
 // Sentinel errors of the section hydraulics. Callers test them with
@@ -49,7 +51,7 @@ const brentMaxIter = 400
 // Brent does not retain f, so a closure literal passed by the caller does
 // not escape and costs no heap allocation (see BenchmarkBrentClosure).
 func Brent(f func(float64) float64, a, b, tol float64) (float64, error) {
-	if math.IsNaN(a) || math.IsNaN(b) || math.IsInf(a, 0) || math.IsInf(b, 0) {
+	if !numfmt.Finite(a, b) {
 		return 0, ErrNoBracket
 	}
 	if !(tol >= 0) {

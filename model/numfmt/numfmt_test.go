@@ -205,3 +205,36 @@ func TestRoundingRule(t *testing.T) {
 		}
 	})
 }
+
+var sink int
+
+// BenchmarkFinite compares Finite with the pair of math tests it replaces,
+// over finite values (the common case): Finite must not cost more.
+func BenchmarkFinite(b *testing.B) {
+	xs := make([]float64, 1024)
+	for i := range xs {
+		xs[i] = float64(i) * 0.37
+	}
+	b.Run("Finite", func(b *testing.B) {
+		for b.Loop() {
+			n := 0
+			for _, x := range xs {
+				if Finite(x) {
+					n++
+				}
+			}
+			sink = n
+		}
+	})
+	b.Run("IsNaN-IsInf", func(b *testing.B) {
+		for b.Loop() {
+			n := 0
+			for _, x := range xs {
+				if !math.IsNaN(x) && !math.IsInf(x, 0) {
+					n++
+				}
+			}
+			sink = n
+		}
+	})
+}
