@@ -2,13 +2,13 @@ package policies
 
 import (
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"maps"
 	"math"
 	"slices"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
 	"github.com/hashicorp/hcl/v2/hclwrite"
 	"github.com/zclconf/go-cty/cty"

@@ -2,7 +2,6 @@ package policies
 
 import (
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"slices"
 	"sort"
@@ -10,6 +9,7 @@ import (
 
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/model/hclkit"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/model/suggest"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"

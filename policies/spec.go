@@ -3,13 +3,13 @@ package policies
 import (
 	"errors"
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"slices"
 	"strings"
 	"sync"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/hashicorp/hcl/v2"
 )
 

@@ -1,10 +1,10 @@
 package policies_test
 
 import (
-	"github.com/chanlint/chanlint/model/numfmt"
 	"path/filepath"
 	"testing"
 
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"

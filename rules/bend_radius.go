@@ -2,8 +2,8 @@ package rules
 
 import (
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 )
 

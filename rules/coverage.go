@@ -2,12 +2,12 @@ package rules
 
 import (
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"slices"
 	"strconv"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )

@@ -1,10 +1,10 @@
 package rules
 
 import (
-	"github.com/chanlint/chanlint/model/numfmt"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )

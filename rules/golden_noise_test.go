@@ -1,11 +1,11 @@
 package rules
 
 import (
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )

@@ -3,7 +3,6 @@ package rules
 import (
 	"bytes"
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -12,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	wantpkg "github.com/chanlint/chanlint/model/want"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"

@@ -2,10 +2,10 @@ package rules
 
 import (
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )

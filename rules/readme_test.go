@@ -2,12 +2,12 @@ package rules
 
 import (
 	"flag"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"os"
 	"regexp"
 	"strings"
 	"testing"
 
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"

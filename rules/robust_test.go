@@ -1,13 +1,13 @@
 package rules
 
 import (
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"slices"
 	"strings"
 	"testing"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 	"pgregory.net/rapid"

@@ -2,9 +2,9 @@ package rules
 
 import (
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 )
 

@@ -3,10 +3,10 @@ package rules
 import (
 	"cmp"
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"slices"
 	"sort"
 
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )

@@ -2,11 +2,11 @@ package rules
 
 import (
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"sort"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
 )

@@ -6,8 +6,6 @@ import (
 	"errors"
 	"flag"
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
-	"github.com/hashicorp/hcl/v2"
 	"io"
 	"math"
 	"os"
@@ -24,10 +22,12 @@ import (
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/sarifout"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/model/safefile"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
+	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
 )
 

@@ -6,7 +6,6 @@ import (
 	"encoding/json"
 	"flag"
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"io"
 	"math"
 	"os/exec"
@@ -18,6 +17,7 @@ import (
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 )

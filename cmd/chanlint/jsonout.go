@@ -2,10 +2,10 @@ package main
 
 import (
 	"encoding/json"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"io"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/baseline"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/rules"
 )
 

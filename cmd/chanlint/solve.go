@@ -5,7 +5,6 @@ import (
 	"encoding/csv"
 	"flag"
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"io"
 	"slices"
 	"strings"
@@ -14,6 +13,7 @@ import (
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
 )

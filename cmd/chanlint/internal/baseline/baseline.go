@@ -25,7 +25,6 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"io"
 	"math"
 	"path"
@@ -34,6 +33,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/model/safefile"
 	"github.com/chanlint/chanlint/rules"
 )

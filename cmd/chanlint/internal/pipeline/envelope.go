@@ -2,13 +2,13 @@ package pipeline
 
 import (
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"slices"
 	"strconv"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/model/suggest"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"

@@ -17,12 +17,12 @@ package report
 // geometry of its own.
 
 import (
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"
 )

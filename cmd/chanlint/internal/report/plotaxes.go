@@ -1,11 +1,12 @@
 package report
 
 import (
+	"math"
+	"strconv"
+
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/solver"
-	"math"
-	"strconv"
 )
 
 // scale maps stations and elevations to user units of the plot's frame.

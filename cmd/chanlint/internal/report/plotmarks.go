@@ -1,10 +1,10 @@
 package report
 
 import (
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 
 	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/solver"
 )
 

@@ -1,10 +1,11 @@
 package report
 
 import (
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"strconv"
 	"unicode/utf8"
+
+	"github.com/chanlint/chanlint/model/numfmt"
 )
 
 // The SVG writer turns a laid-out Plot into markup. It places what

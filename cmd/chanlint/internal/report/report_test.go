@@ -2,7 +2,6 @@ package report
 
 import (
 	"bytes"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -10,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/chanlint/chanlint/solver"

@@ -1,12 +1,12 @@
 package sarifout
 
 import (
-	"github.com/chanlint/chanlint/model/numfmt"
 	"math"
 	"slices"
 	"strconv"
 	"unicode/utf8"
 
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/hashicorp/hcl/v2"
 )

@@ -31,7 +31,6 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
-	"github.com/chanlint/chanlint/model/numfmt"
 	"io"
 	"net/url"
 	"path/filepath"
@@ -44,6 +43,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/baseline"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/hashicorp/hcl/v2"
