@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"slices"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 
 	"github.com/chanlint/chanlint/model/hclkit"
 	"github.com/chanlint/chanlint/model/safefile"
@@ -144,7 +146,8 @@ func decode(filename string, src []byte, file *hcl.File, d *diagnoser) (*Model, 
 
 // Bounds of the pre-scan (see CheckNesting) besides MaxNesting. A model
 // holds only literals, so no valid file comes near them; they stop a file
-// that would drive the HCL parser into deep recursion or large memory.
+// that would drive the HCL parser into deep recursion, large memory or
+// time out of proportion to its size.
 const (
 	// MaxChain bounds a run of traversal, index and splat steps
 	// (a.b[0].*…) and of binary operators in one expression.
@@ -163,6 +166,26 @@ const (
 	// MaxTopItems bounds the lines of the top level (blocks and
 	// arguments): more than every block limit together allows.
 	MaxTopItems = MaxSections + MaxReaches + MaxEvents + 6*MaxStructure + 64
+	// MaxTokens is the token budget of one file. The HCL parser spends
+	// about a microsecond and 1.5 KB of memory on each token (a name, a
+	// number, a punctuation mark, a line end, a comment, a string counts
+	// three), whatever the file holds, so a file within the budget is
+	// parsed in well under a second. An [offset, elevation] pair of a
+	// points list costs 6 tokens, 7 on a line of its own.
+	MaxTokens = 400_000
+	// MaxStringPieces bounds the literal pieces of one string. The
+	// parser joins the pieces of a string by copying it once per piece,
+	// which is quadratic in their number: each line of a heredoc is a
+	// piece, and so are a $ or % sign that starts no interpolation and
+	// the text after it (two).
+	MaxStringPieces = 128
+	// MaxNumberBytes bounds the length of a number literal: the parser's
+	// decimal conversion is quadratic in it.
+	MaxNumberBytes = 64
+	// MaxInvalid bounds the characters, escape sequences and unterminated
+	// strings of one file that are not valid HCL. The parser reports
+	// each of them; past MaxDiagnostics none would be shown anyway.
+	MaxInvalid = MaxDiagnostics
 )
 
 // Problems found by the pre-scan.
@@ -173,6 +196,10 @@ const (
 	scanItems
 	scanTemplate
 	scanAdjacent
+	scanTokens
+	scanPieces
+	scanNumber
+	scanInvalid
 )
 
 // CheckNesting is the cheap pre-scan that runs before the HCL parser on
@@ -181,10 +208,12 @@ const (
 // nesting deeper than MaxNesting, a chain of traversals, splats, index
 // expressions or binary operators longer than MaxChain, a list, object or
 // body of more than MaxItems elements, a string of more than
-// MaxInterpolations interpolations. The scan is linear in the size of the
-// file and allocates only its bracket stack.
+// MaxInterpolations interpolations or MaxStringPieces pieces, a number
+// literal longer than MaxNumberBytes, more than MaxInvalid invalid
+// characters, and the token where the file exceeds MaxTokens. The scan is
+// linear in the size of the file and allocates only its bracket stack.
 func CheckNesting(filename string, src []byte) hcl.Diagnostics {
-	pos, problem := preScan(src)
+	pos, problem, _ := preScan(src)
 	if problem == scanOK {
 		return nil
 	}
@@ -203,6 +232,18 @@ func CheckNesting(filename string, src []byte) hcl.Diagnostics {
 	case scanAdjacent:
 		summary = "Not a model"
 		detail = fmt.Sprintf("More than %d names, numbers or strings follow one another here with nothing between them; this is not HCL a model or policy can hold.", MaxAdjacent)
+	case scanTokens:
+		summary = "File too dense"
+		detail = fmt.Sprintf("The file reaches its budget of %d tokens (names, numbers, punctuation, line ends, comments; a string counts three) here. Split it into several files, or use fewer points per section: each [offset, elevation] pair costs 6 tokens, 7 on a line of its own.", MaxTokens)
+	case scanPieces:
+		summary = "String in too many pieces"
+		detail = fmt.Sprintf("A string here has more than %d pieces (each heredoc line is one, each $ or %% sign that starts no interpolation two); keep a title or reason to a few lines.", MaxStringPieces)
+	case scanNumber:
+		summary = "Number too long"
+		detail = fmt.Sprintf("A number here is written with more than %d characters; write it with fewer digits or an exponent (1.5e-3).", MaxNumberBytes)
+	case scanInvalid:
+		summary = "Too many invalid characters"
+		detail = fmt.Sprintf("More than %d characters, escape sequences or unterminated strings of the file up to here are not valid HCL; this is not a model or policy file.", MaxInvalid)
 	default:
 		summary = "Too many interpolations"
 		detail = fmt.Sprintf("A string here holds more than %d ${…} or %%{…} sequences; a file holds only literal text.", MaxInterpolations)
@@ -216,20 +257,25 @@ func CheckNesting(filename string, src []byte) hcl.Diagnostics {
 }
 
 // preScan scans src for constructs that the HCL parser handles by
-// recursion or with memory out of proportion to a literal-only file, and
-// reports the offset of the first one beyond a bound (see CheckNesting):
-// brackets, braces and parentheses, quoted strings and heredocs with the
-// template interpolations inside them, runs of prefix operators (- and !),
-// conditional operators (?), chains of traversal, index and splat steps
-// and of binary operators, the elements of one bracket, and the
-// interpolations of one string. The parser's recursion, and so its stack,
-// then stays bounded: a file of a million "[" or ".*" would otherwise
-// overflow the stack, which no recover() can catch.
+// recursion, or with memory or time out of proportion to a literal-only
+// file, and reports the offset of the first one beyond a bound (see
+// CheckNesting): brackets, braces and parentheses, quoted strings and
+// heredocs with the template interpolations inside them, runs of prefix
+// operators (- and !), conditional operators (?), chains of traversal,
+// index and splat steps and of binary operators, the elements of one
+// bracket, the interpolations and literal pieces of one string, number
+// literals, invalid characters and escapes, and the tokens of the file.
+// The parser's recursion, and so its stack, then stays bounded: a file of
+// a million "[" or ".*" would otherwise overflow the stack, which no
+// recover() can catch; and its time and memory stay linear in a bounded
+// number of tokens.
 //
 // The scan follows HCL's lexical rules for comments, strings, escapes,
 // numbers and heredocs, so that brackets written inside text or comments
-// do not count.
-func preScan(src []byte) (int, int) {
+// do not count. It counts tokens as the HCL lexer makes them, or a few
+// more (a two-character operator counts two, an empty string three), and
+// returns their number (up to the problem, if any).
+func preScan(src []byte) (off, problem, tokens int) {
 	const (
 		bracket = iota
 		quoted
@@ -241,6 +287,7 @@ func preScan(src []byte) (int, int) {
 		marker []byte // closing marker of a heredoc
 		items  int    // separators seen in a bracket
 		interp int    // interpolations of a string
+		pieces int    // literal pieces of a string
 		brace  bool   // a { } (newlines separate items), not [ ] or ( )
 	}
 	stack := []frame{{kind: bracket, brace: true}} // the file's top-level body
@@ -251,12 +298,18 @@ func preScan(src []byte) (int, int) {
 	// item is true when something was written since the last separator.
 	chain, value, item := 0, false, false
 	adjacent := 0 // names, numbers and strings in a row
+	invalid := 0
+	tokens = 1 // the end of the file
+	// lineComment is true after a # or // comment: the line end belongs
+	// to the comment's token.
+	lineComment := false
 	n := len(src)
 	for i := 0; i < n; i++ {
 		c := src[i]
 		top := &stack[len(stack)-1]
 		if top.kind == quoted || top.kind == heredoc {
 			if top.kind == heredoc && (i == 0 || src[i-1] == '\n') {
+				tokens++ // a line, or the closing marker
 				end := i + bytes.IndexByte(src[i:], '\n')
 				if end < i {
 					end = n
@@ -265,27 +318,52 @@ func preScan(src []byte) (int, int) {
 					stack = stack[:len(stack)-1]
 					value = true
 					i = end - 1
+					if tokens > MaxTokens {
+						return i, scanTokens, tokens
+					}
 					continue
 				}
+				top.pieces++
 			}
 			switch {
 			case top.kind == quoted && c == '\\':
+				if !validEscape(src, i) {
+					invalid++
+				}
 				i++
 			case top.kind == quoted && (c == '"' || c == '\n'):
+				if c == '\n' {
+					invalid++ // an unterminated string
+				}
+				tokens++
 				stack = stack[:len(stack)-1]
 				value = true
 			case (c == '$' || c == '%') && i+2 < n && src[i+1] == c && src[i+2] == '{':
-				i += 2 // $${ and %%{ are literal text
+				tokens += 2 // $${ and %%{ are literal text: a piece, and the text after it
+				top.pieces += 2
+				i += 2
 			case (c == '$' || c == '%') && i+1 < n && src[i+1] == '{':
 				if top.interp++; top.interp > MaxInterpolations {
-					return i, scanTemplate
+					return i, scanTemplate, tokens
 				}
+				tokens++
+				top.pieces++
 				stack = append(stack, frame{kind: interp, brace: true})
 				chain, value, adjacent = 0, false, 0
 				i++
+			case c == '$' || c == '%':
+				tokens += 2 // the sign and the text after it
+				top.pieces += 2
 			}
-			if len(stack) > MaxNesting+1 {
-				return i, scanNested
+			switch {
+			case len(stack) > MaxNesting+1:
+				return i, scanNested, tokens
+			case top.pieces > MaxStringPieces:
+				return i, scanPieces, tokens
+			case tokens > MaxTokens:
+				return i, scanTokens, tokens
+			case invalid > MaxInvalid:
+				return i, scanInvalid, tokens
 			}
 			continue
 		}
@@ -297,6 +375,10 @@ func preScan(src []byte) (int, int) {
 		default:
 			prefix = 0
 		}
+		if c != '\n' || !lineComment {
+			tokens++
+		}
+		lineComment = false
 		wasValue := value
 		value = false
 		if comment := c == '#' || c == '/' && i+1 < n && (src[i+1] == '/' || src[i+1] == '*'); c != '\n' && !comment {
@@ -304,7 +386,7 @@ func preScan(src []byte) (int, int) {
 		}
 		if c == '"' || '0' <= c && c <= '9' || isIdentByte(c) || c >= 0x80 {
 			if adjacent++; adjacent > MaxAdjacent {
-				return i, scanAdjacent
+				return i, scanAdjacent, tokens
 			}
 		} else {
 			adjacent = 0
@@ -320,7 +402,7 @@ func preScan(src []byte) (int, int) {
 						limit = MaxTopItems // the top level: blocks and arguments
 					}
 					if top.items++; top.items > limit {
-						return i, scanItems
+						return i, scanItems, tokens
 					}
 				}
 			}
@@ -328,7 +410,7 @@ func preScan(src []byte) (int, int) {
 		case ',':
 			chain, item = 0, false
 			if top.items++; top.items > MaxItems {
-				return i, scanItems
+				return i, scanItems, tokens
 			}
 		case '=', ':':
 			if i+1 < n && src[i+1] == '=' || c == '=' && i > 0 && (src[i-1] == '!' || src[i-1] == '<' || src[i-1] == '>' || src[i-1] == '=') {
@@ -353,12 +435,14 @@ func preScan(src []byte) (int, int) {
 				chain++ // a traversal or splat step
 			}
 		case '"':
-			stack = append(stack, frame{kind: quoted})
+			tokens++ // the text of the string
+			stack = append(stack, frame{kind: quoted, pieces: 1})
 		case '#':
 			for i < n && src[i] != '\n' {
 				i++
 			}
 			i--
+			lineComment = true
 		case '?':
 			questions++
 		case '[', '{', '(':
@@ -372,20 +456,39 @@ func preScan(src []byte) (int, int) {
 			}
 			value = true
 		case '}':
+			if top.kind == interp {
+				tokens++ // the text after the interpolation
+			}
 			if (top.kind == bracket || top.kind == interp) && len(stack) > 1 {
 				stack = stack[:len(stack)-1]
 			}
 			value = true
+		case '@', '$', '\\', 0x7f:
+			invalid++
 		default:
 			switch {
 			case '0' <= c && c <= '9':
-				i = skipNumber(src, i) - 1
+				end := skipNumber(src, i)
+				if end-i > MaxNumberBytes {
+					return i, scanNumber, tokens
+				}
+				i = end - 1
 				value = true
 			case isIdentByte(c) || c >= 0x80:
-				for i+1 < n && (isIdentByte(src[i+1]) || src[i+1] == '-' || '0' <= src[i+1] && src[i+1] <= '9' || src[i+1] >= 0x80) {
-					i++
+				end := skipName(src, i)
+				if end == i {
+					// A character that starts no name (bad UTF-8 is
+					// reported once by the parser, not counted).
+					r, size := utf8.DecodeRune(src[i:])
+					if r != utf8.RuneError || size != 1 {
+						invalid++
+					}
+					end = i + size
 				}
+				i = end - 1
 				value = true
+			case c < 0x20:
+				invalid++ // a control character
 			}
 		}
 		if c == '/' && i+1 < n && src[i+1] == '/' {
@@ -393,6 +496,7 @@ func preScan(src []byte) (int, int) {
 				i++
 			}
 			i--
+			lineComment = true
 		} else if c == '/' && i+1 < n && src[i+1] == '*' {
 			for i += 2; i+1 < n && !(src[i] == '*' && src[i+1] == '/'); i++ {
 			}
@@ -407,12 +511,72 @@ func preScan(src []byte) (int, int) {
 		}
 		switch {
 		case len(stack) > MaxNesting+1 || prefix > MaxNesting || questions > MaxNesting:
-			return i, scanNested
+			return i, scanNested, tokens
 		case chain > MaxChain:
-			return i, scanChain
+			return i, scanChain, tokens
+		case tokens > MaxTokens:
+			return i, scanTokens, tokens
+		case invalid > MaxInvalid:
+			return i, scanInvalid, tokens
 		}
 	}
-	return 0, scanOK
+	return 0, scanOK, tokens
+}
+
+// validEscape reports whether the backslash at src[i] of a quoted string
+// starts one of HCL's escape sequences: \n, \r, \t, \", \\, \u with four
+// hexadecimal digits, \U with eight.
+func validEscape(src []byte, i int) bool {
+	if i+1 >= len(src) {
+		return false
+	}
+	digits := 0
+	switch src[i+1] {
+	case 'n', 'r', 't', '"', '\\':
+		return true
+	case 'u':
+		digits = 4
+	case 'U':
+		digits = 8
+	default:
+		return false
+	}
+	if i+2+digits > len(src) {
+		return false
+	}
+	for _, h := range src[i+2 : i+2+digits] {
+		if !('0' <= h && h <= '9' || 'a' <= h && h <= 'f' || 'A' <= h && h <= 'F') {
+			return false
+		}
+	}
+	return true
+}
+
+// skipName returns the offset just past the name at src[i]: letters,
+// digits, marks, "_" and "-" (i itself when src[i] starts no name).
+func skipName(src []byte, i int) int {
+	for j := i; j < len(src); {
+		c := src[j]
+		if isIdentByte(c) || j > i && (c == '-' || '0' <= c && c <= '9') {
+			j++
+			continue
+		}
+		if c < 0x80 {
+			return j
+		}
+		r, size := utf8.DecodeRune(src[j:])
+		if !nameRune(r) || j == i && !unicode.IsLetter(r) && !unicode.Is(unicode.Nl, r) {
+			return j
+		}
+		j += size
+	}
+	return len(src)
+}
+
+// nameRune reports whether r may continue a name (Unicode's identifier
+// characters, approximately: letters, digits, marks, connectors).
+func nameRune(r rune) bool {
+	return unicode.In(r, unicode.L, unicode.Nd, unicode.Nl, unicode.Mn, unicode.Mc, unicode.Pc)
 }
 
 // skipNumber returns the offset just past the number literal at src[i]

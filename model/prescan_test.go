@@ -3,8 +3,15 @@ package model
 import (
 	"bytes"
 	"fmt"
+	"io/fs"
+	"math"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/hashicorp/hcl/v2"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -62,6 +69,48 @@ var hostileExpressions = []struct {
 	{"names in a row", "units = \"si\"\n", "a ", "\n", "Not a model"},
 	{"strings in a row", "units = \"si\"\n", `"a"`, "\n", "Not a model"},
 	{"numbers in a row", "units = \"si\"\n", "1 ", "\n", "Not a model"},
+	// Strings in many literal pieces: the parser joins consecutive pieces
+	// by copying the string once per piece, quadratic in their number (a
+	// heredoc of 250,000 lines took minutes).
+	{"heredoc lines", "units = \"si\"\ntitle = <<EOT\n", "  12.2 1.03\n", "EOT\n", "String in too many pieces"},
+	{"indented heredoc lines", "units = \"si\"\ntitle = <<-EOT\n", "  12.2 1.03\n", "  EOT\n", "String in too many pieces"},
+	{"empty heredoc lines", "units = \"si\"\ntitle = <<EOT\n", "\n", "EOT\n", "String in too many pieces"},
+	{"literal interpolations", "units = \"si\"\ntitle = \"", "$${", "\"\n", "String in too many pieces"},
+	{"literal directives", "units = \"si\"\ntitle = \"", "%%{", "\"\n", "String in too many pieces"},
+	{"dollar signs", "units = \"si\"\ntitle = \"", "$", "\"\n", "String in too many pieces"},
+	{"percent signs", "units = \"si\"\ntitle = \"", "%a", "\"\n", "String in too many pieces"},
+	{"heredoc dollar lines", "units = \"si\"\ntitle = <<EOT\n", "$a\n", "EOT\n", "String in too many pieces"},
+	// Number literals: the parser's decimal conversion is quadratic in
+	// their length.
+	{"long number", "units = \"si\"\nx = 1", "1", "\n", "Number too long"},
+	{"long fraction", "units = \"si\"\nx = 1.", "5", "\n", "Number too long"},
+	{"long exponent", "units = \"si\"\nx = 1e1", "0", "\n", "Number too long"},
+	// What the lexer reports one diagnostic each for, by the million.
+	{"invalid characters", "units = \"si\"\n", "@", "\n", "Too many invalid characters"},
+	{"curly quotes", "units = \"si\"\n", "\u201ca\u201d\n", "", "Too many invalid characters"},
+	{"control characters", "units = \"si\"\n", "\x01\n", "", "Too many invalid characters"},
+	{"invalid escapes", "units = \"si\"\ntitle = \"", "\\q", "\"\n", "Too many invalid characters"},
+	{"short unicode escapes", "units = \"si\"\ntitle = \"", "\\u12", "\"\n", "Too many invalid characters"},
+	{"unterminated strings", "units = \"si\"\n", "x = \"a\n", "", "Too many invalid characters"},
+	// Valid-looking but dense: past the token budget, the parser's time
+	// and memory (a microsecond and 1.5 KB a token) would be seconds and
+	// gigabytes.
+	{"short lists on lines", "units = \"si\"\n", "x = [1, 2, 3, 4, 5, 6, 7, 8]\n", "", "File too dense"},
+	{"comment lines", "units = \"si\"\n", "#\n", "", "File too dense"},
+	{"block comments", "units = \"si\"\n", "/**/", "\n", "File too dense"},
+	{"points sections", "units = \"si\"\n", pointsSection(MaxPoints), "", "File too dense"},
+}
+
+// pointsSection is a valid points section of n points, one pair a line:
+// a wide V with its lowest point in the middle.
+func pointsSection(n int) string {
+	var b strings.Builder
+	b.WriteString("section \"s\" {\n  shape = \"points\"\n  roughness = 0.03\n  points = [\n")
+	for i := range n {
+		fmt.Fprintf(&b, "    [%d.5, %.3f],\n", i, 2+math.Abs(float64(i-n/2))/1000)
+	}
+	b.WriteString("  ]\n}\n")
+	return b.String()
 }
 
 // Every hostile construct is rejected by the pre-scan, before the parser
@@ -73,9 +122,10 @@ func TestPreScanRejectsHostileExpressions(t *testing.T) {
 			diags := CheckNesting("h.chan.hcl", src)
 			require.Len(t, diags, 1)
 			assert.Equal(t, h.summary, diags[0].Summary)
-			// At the place the bound is crossed, inside the construct.
+			// At the place the bound is crossed, inside the construct
+			// (a number: at its start), not at the top of the file.
 			assert.GreaterOrEqual(t, diags[0].Subject.Start.Line, 2)
-			assert.GreaterOrEqual(t, diags[0].Subject.Start.Byte, len(h.head)-1)
+			assert.Greater(t, diags[0].Subject.Start.Byte, strings.LastIndexByte(h.head, '\n'))
 			m, pdiags := Parse("h.chan.hcl", src)
 			assert.Nil(t, m)
 			require.Len(t, pdiags, 1)
@@ -101,6 +151,72 @@ func TestPreScanAcceptsLargeValidInput(t *testing.T) {
 	}
 	b.WriteString("  }\n}\n")
 	assert.Empty(t, CheckNesting("v.chan.hcl", []byte(b.String())))
+
+	// Each bound exactly reached is still accepted.
+	for name, src := range map[string]string{
+		"heredoc":        "title = <<EOT\n" + strings.Repeat("a line\n", MaxStringPieces-1) + "EOT\n",
+		"signs":          "title = \"" + strings.Repeat("50% ", (MaxStringPieces-1)/2) + "\"\n",
+		"number":         "x = 1." + strings.Repeat("5", MaxNumberBytes-2) + "\n",
+		"escapes":        "title = \"" + strings.Repeat(`\n\t\"\\\u00e9\U0001F600`, 1000) + "\"\n",
+		"unicode names":  "straße = { größe = 1, ñandú_2 = 2, \"x\" = 3 }\n",
+		"invalid":        strings.Repeat("@", MaxInvalid) + "\n",
+		"literal signs":  "title = \"" + strings.Repeat("$${", (MaxStringPieces-1)/2) + "\"\n",
+		"comment tokens": strings.Repeat("# comment\n", MaxTokens/2-10),
+	} {
+		assert.Empty(t, CheckNesting("v.chan.hcl", []byte(src)), name)
+	}
+}
+
+// A file at the documented limits fits the token budget: 10,000 reaches
+// sharing one points section of 5,000 points, with one event. The reach
+// blocks are as short as a reach can be written.
+func TestPreScanBudgetHoldsTheLimits(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("units = \"si\"\n")
+	b.WriteString(pointsSection(MaxPoints))
+	for i := range MaxReaches {
+		fmt.Fprintf(&b, "reach \"r%d\" {\n  from = \"n%d\"\n  to = \"n%d\"\n  length = 10\n  section = \"s\"\n  slope = 0.001\n}\n", i, i+1, i)
+	}
+	b.WriteString("event \"e\" {\n  inflow = { r0 = 1 }\n  outlet = { depth = 1 }\n}\n")
+	off, problem, tokens := preScan([]byte(b.String()))
+	require.Equal(t, scanOK, problem, "at %d", off)
+	assert.Less(t, tokens, MaxTokens)
+	t.Logf("%d tokens of %d", tokens, MaxTokens)
+}
+
+// The pre-scan counts at least the tokens the HCL lexer makes (so that
+// the budget bounds the parser's work), and not many more (so that a
+// valid file is not refused early): checked on every HCL file of the
+// repository (the bad-input corpus too) and on generated constructs.
+func TestPreScanCountsTokens(t *testing.T) {
+	inputs := map[string][]byte{}
+	err := filepath.WalkDir("..", func(path string, d fs.DirEntry, err error) error {
+		if err == nil && !d.IsDir() && strings.HasSuffix(path, ".hcl") {
+			inputs[path], err = os.ReadFile(path)
+		}
+		return err
+	})
+	require.NoError(t, err)
+	require.Greater(t, len(inputs), 100)
+	for _, u := range []string{
+		"x = [1, 2.5, -3e-2]\n", "# comment\n", "// comment\n", "/* a\nb */\n", "x = \"a b\"\n", "x = \"\"\n",
+		"title = <<EOT\na\n\nb $x %y ${z}\nEOT\n", "title = <<-EOT\n  a\n  EOT\n", "x = \"a ${b} %{if c}d%{endif} $${e} %%{f} $ %\"\n",
+		"x = \"\\n\\u00e9\"\n", "b \"l\" \"m\" {\n  a = { k = 1, \"k 2\": 2 }\n}\n", "x = a.b[0].c\n", "x = 1 == 2 && !y || -z\n",
+		"größe = 1\n", "x = f(1, 2)\n", "x = [for v in l : v]\n", "\r\nx = 1\r\n",
+		"x = \u201ca\u201d\n", "x = @\n",
+	} {
+		inputs[fmt.Sprintf("%q", u)] = repeatTo("", u, "", 3000) // invalid characters below MaxInvalid
+	}
+	for name, src := range inputs {
+		toks, _ := hclsyntax.LexConfig(src, name, hcl.InitialPos)
+		_, problem, n := preScan(src)
+		if problem != scanOK && strings.Contains(name, "/bad/") {
+			continue // a bad-input file the pre-scan refuses: counted only up to there
+		}
+		require.Equal(t, scanOK, problem, name)
+		assert.GreaterOrEqual(t, n, len(toks), name)
+		assert.LessOrEqual(t, n, 2*len(toks), name)
+	}
 }
 
 // BenchmarkPreScanHostile measures the pre-scan and Parse on the 4 MiB
@@ -123,25 +239,42 @@ func BenchmarkPreScanHostile(b *testing.B) {
 			CheckNesting("p.chan.hcl", points)
 		}
 	})
-	// What the pre-scan lets through costs the HCL parser: the remaining
-	// time of a 4 MiB file.
-	var big strings.Builder
-	big.WriteString("units = \"si\"\n")
-	for k := 0; big.Len() < MaxFileSize-100_000; k++ {
-		fmt.Fprintf(&big, "section \"s%d\" {\n  shape = \"points\"\n  roughness = 0.03\n  points = [\n", k)
-		for i := range MaxPoints - 1 {
-			fmt.Fprintf(&big, "    [%d.5, %d.25],\n", i, 3+i%5)
-		}
-		big.WriteString("  ]\n}\n")
-	}
-	big.WriteString("reach \"r\" {\n  from = \"a\"\n  to = \"b\"\n  length = 100\n  section = \"s0\"\n  slope = 0.001\n}\nevent \"e\" {\n  inflow = { r = 1 }\n  outlet = { condition = \"normal\" }\n}\n")
-	valid := []byte(big.String())
-	b.Run("parse-4MiB-valid-points", func(b *testing.B) {
+	// What the pre-scan lets through costs the HCL parser: a valid file
+	// of points sections just within the token budget, the most a file
+	// can cost it.
+	valid := atBudget(b)
+	_, _, tokens := preScan(valid)
+	b.Run("parse-valid-at-budget", func(b *testing.B) {
 		b.SetBytes(int64(len(valid)))
+		b.ReportAllocs()
 		for b.Loop() {
-			Parse("p.chan.hcl", valid)
+			if _, diags := Parse("p.chan.hcl", valid); diags.HasErrors() {
+				b.Fatal(diags.Error())
+			}
 		}
+		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(tokens), "ns/token")
 	})
+}
+
+// atBudget is a valid model of points sections of MaxPoints points, as
+// many as fit in the token budget.
+func atBudget(tb testing.TB) []byte {
+	tail := "reach \"r\" {\n  from = \"a\"\n  to = \"b\"\n  length = 100\n  section = \"s0\"\n  slope = 0.001\n}\nevent \"e\" {\n  inflow = { r = 1 }\n  outlet = { condition = \"normal\" }\n}\n"
+	section := pointsSection(MaxPoints)
+	_, _, per := preScan([]byte(section))
+	src := []byte("units = \"si\"\n")
+	for k := 0; ; k++ {
+		_, _, n := preScan(src)
+		if n+per+100 > MaxTokens {
+			break
+		}
+		src = append(src, strings.Replace(section, `"s"`, fmt.Sprintf(`"s%d"`, k), 1)...)
+	}
+	src = append(src, tail...)
+	if diags := CheckNesting("p.chan.hcl", src); diags.HasErrors() {
+		tb.Fatal(diags.Error())
+	}
+	return src
 }
 
 // A 4 MiB file of long unknown arguments cannot produce megabytes of

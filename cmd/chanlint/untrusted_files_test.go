@@ -8,6 +8,7 @@ import (
 	"syscall"
 	"testing"
 
+	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/solver"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -162,7 +163,7 @@ func TestHostileExpressionsLoseNoOtherFile(t *testing.T) {
 	write := func(name, head, unit string) {
 		var b strings.Builder
 		b.WriteString(head)
-		for b.Len() < 4<<20-16 {
+		for b.Len()+len(unit) < 4<<20-16 {
 			b.WriteString(unit)
 		}
 		b.WriteString("\n")
@@ -171,14 +172,32 @@ func TestHostileExpressionsLoseNoOtherFile(t *testing.T) {
 	write("splat.chan.hcl", "units = \"si\"\nx = a", "[*]")
 	write("sum.chan.hcl", "units = \"si\"\nx = 1", "+1")
 	write("list.chan.hcl", "units = \"si\"\nx = [", "1,")
+	// What the parser handles in quadratic time or per token: a heredoc
+	// of many lines (minutes), escapes it reports one by one, a file of
+	// valid points sections beyond the token budget.
+	write("heredoc.chan.hcl", "units = \"si\"\ntitle = <<-EOT\n", "  12.2 1.03\n")
+	write("escapes.chan.hcl", "units = \"si\"\ntitle = \"", `\q`)
+	var section strings.Builder
+	section.WriteString("section \"s\" {\n  shape = \"points\"\n  roughness = 0.03\n  points = [\n")
+	for i := range model.MaxPoints {
+		fmt.Fprintf(&section, "    [%d.5, %d.25],\n", i, 3+i%5)
+	}
+	section.WriteString("  ]\n}\n")
+	write("dense.chan.hcl", "units = \"si\"\n", section.String())
 	for _, jobs := range []string{"1", "2"} {
 		code, out, _ := runIn(repo, runOpts{}, "check", "--color", "never", "-j", jobs, "models")
 		assert.Equal(t, exitInvalid, code)
 		assert.Contains(t, out, "models/splat.chan.hcl:2:")
 		assert.Contains(t, out, "Expression too long")
 		assert.Contains(t, out, "Too many items")
+		assert.Contains(t, out, "models/heredoc.chan.hcl:")
+		assert.Contains(t, out, "String in too many pieces")
+		assert.Contains(t, out, "models/escapes.chan.hcl:2:")
+		assert.Contains(t, out, "Too many invalid characters")
+		assert.Contains(t, out, "models/dense.chan.hcl:")
+		assert.Contains(t, out, "File too dense")
 		assert.Contains(t, out, "models/overtop.chan.hcl:", "the other files are still reported")
-		assert.Contains(t, out, "6 files (3 invalid)")
+		assert.Contains(t, out, "9 files (6 invalid)")
 		assert.Less(t, len(out), 64<<10, "a bounded excerpt, not the 4 MiB line")
 	}
 }
