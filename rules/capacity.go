@@ -76,7 +76,16 @@ func capacityRemedy(ctx *Context, ev *solver.EventResult, rr *solver.ReachResult
 func checkCapacity(ctx *Context, report func(Finding)) {
 	u := ctx.units()
 	lu := u.Length()
-	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
+	ctx.scanPoints(func(rr *solver.ReachResult, r *run) bool {
+		sec := r.sec
+		if sec == nil || !finiteNum(sec.Height) {
+			return true
+		}
+		if sec.Closed() {
+			return rr.Reach != nil && rr.Reach.Culvert != nil || !r.full && below(r.maxDepth, sec.Height)
+		}
+		return belowStage(r, sec.Height)
+	}, higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		sec := sectionAt(rr, p)
 		if sec == nil || !finiteNum(sec.Height) {
 			return false

@@ -38,7 +38,8 @@ func Check(m *model.Model, res *solver.Result, p *policies.Policy) []Finding {
 	p = PolicyFor(m, p)
 	// One runner serves every rule: its report method is bound once, and
 	// the findings slice starts large enough for a typical model.
-	rn := &runner{m: m, res: res, p: p, out: make([]Finding, 0, 16)}
+	rn := &runner{m: m, res: res, p: p, out: make([]Finding, 0, 16), shared: getShared()}
+	defer putShared(rn.shared)
 	rn.bound = rn.report
 	var last *Rule
 	for _, r := range All() {
@@ -62,14 +63,15 @@ func Check(m *model.Model, res *solver.Result, p *policies.Policy) []Finding {
 // findings. It belongs to that call alone, so concurrent Checks share
 // nothing.
 type runner struct {
-	m     *model.Model
-	res   *solver.Result
-	p     *policies.Policy
-	ctx   Context
-	rule  *Rule
-	cfg   *policies.RuleConfig
-	out   []Finding
-	bound func(Finding) // report, bound once
+	m      *model.Model
+	res    *solver.Result
+	p      *policies.Policy
+	ctx    Context
+	rule   *Rule
+	cfg    *policies.RuleConfig
+	out    []Finding
+	bound  func(Finding) // report, bound once
+	shared *shared       // the runs of the reach results, shared by the rules
 }
 
 // run executes one rule and appends its findings (see report).
@@ -88,12 +90,12 @@ func (rn *runner) run(r *Rule, prior []Finding) {
 		}
 		// The span buffer is kept from rule to rule: each rule uses it only
 		// while it walks one reach.
-		rn.ctx = Context{Model: rn.m, Result: rn.res, Policy: rn.p, Config: b, Findings: prior, spans: rn.ctx.spans[:0], head: head}
+		rn.ctx = Context{Model: rn.m, Result: rn.res, Policy: rn.p, Config: b, Findings: prior, spans: rn.ctx.spans[:0], head: head, shared: rn.shared}
 		r.Check(&rn.ctx, rn.bound)
 	}
 	if r.AlwaysOn && cfg == nil {
 		rn.rule, rn.cfg = r, nil
-		rn.ctx = Context{Model: rn.m, Result: rn.res, Policy: rn.p, Findings: prior, spans: rn.ctx.spans[:0]}
+		rn.ctx = Context{Model: rn.m, Result: rn.res, Policy: rn.p, Findings: prior, spans: rn.ctx.spans[:0], shared: rn.shared}
 		r.Check(&rn.ctx, rn.bound)
 	}
 }
@@ -294,13 +296,13 @@ func (c *Context) eachReach(fn func(ev *solver.EventResult, rr *solver.ReachResu
 	}
 }
 
-// scanPoints judges every computed point of every reach the rule runs on,
-// merges the failing points into spans (see scan) and hands each span to
-// emit.
-func (c *Context) scanPoints(w worse, judge judgeFunc,
+// scanPoints judges every computed point of every reach the rule runs on
+// (except in the runs its screen passes), merges the failing points into
+// spans (see scan) and hands each span to emit.
+func (c *Context) scanPoints(screen screenFunc, w worse, judge judgeFunc,
 	emit func(ev *solver.EventResult, rr *solver.ReachResult, s span)) {
 	c.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
-		c.spans = scan(rr, w, judge, reachBlock, &c.verdict, c.spans[:0])
+		c.spans = scan(rr, c.runsOf(rr), screen, w, judge, reachBlock, &c.verdict, c.spans[:0])
 		locate(rr, w, judge, reachBlock, &c.verdict, &c.trial, c.spans)
 		for _, s := range c.spans {
 			emit(ev, rr, s)

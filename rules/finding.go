@@ -151,6 +151,7 @@ type Context struct {
 	verdict verdict      // scratch space of scan
 	spans   []span       // scratch space of scan: the spans of one reach, reused
 	trial   solver.Point // scratch space of locate: the flow at a trial station
+	shared  *shared      // what the rules of one check share (runs.go); nil: nothing
 }
 
 // Rule is one check of the registry. Its embedded spec (id, default

@@ -58,7 +58,15 @@ storage.`,
 func checkFreeboard(ctx *Context, report func(Finding)) {
 	st := freeboardSettings{minimum: ctx.Config.Number("minimum"), fraction: ctx.Config.Number("fraction")}
 	u := ctx.units()
-	ctx.scanPoints(lower, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
+	ctx.scanPoints(func(rr *solver.ReachResult, r *run) bool {
+		sec := r.sec
+		if sec == nil || sec.Closed() || !finiteNum(sec.Height) {
+			return true
+		}
+		// The least freeboard of the run, height − the highest stage,
+		// against the largest requirement of the run.
+		return belowStage(r, sec.Height-max(st.minimum, st.fraction*r.maxDepth))
+	}, lower, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		sec := sectionAt(rr, p)
 		if sec == nil || sec.Closed() || !finiteNum(sec.Height) {
 			return false

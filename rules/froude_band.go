@@ -224,6 +224,15 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 	judge := func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		return !ctrl.near(rr, p.Station, buffer) && inBand(rr, p, v)
 	}
+	// A run whose Froude numbers all lie clear of every band passes.
+	screen := func(rr *solver.ReachResult, r *run) bool {
+		for _, b := range avoid {
+			if !below(r.maxFroude, b.Low) && !above(r.minFroude, b.High) {
+				return false
+			}
+		}
+		return true
+	}
 	emit := func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		b, _ := bandOf(avoid, s.value)
 		lo, hi := numfmt.Pair(b.Low, b.High)
@@ -240,7 +249,7 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 		report(f)
 	}
 	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
-		spans := scan(rr, nil, judge, reachBlock, &ctx.verdict, ctx.spans[:0])
+		spans := scan(rr, ctx.runsOf(rr), screen, nil, judge, reachBlock, &ctx.verdict, ctx.spans[:0])
 		locate(rr, nil, judge, reachBlock, &ctx.verdict, &ctx.trial, spans)
 		found := len(spans)
 		inSpan := func(i int) bool {

@@ -86,7 +86,19 @@ func checkVelocity(ctx *Context, report func(Finding), side limitSide) {
 	}
 	limits := newLiningLimits(cfg, side)
 	zoned := upper && !meanVelocity(cfg) // the highest subdivision's velocity, not the mean
-	ctx.scanPoints(w, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
+	ctx.scanPoints(func(rr *solver.ReachResult, r *run) bool {
+		lim, ok := limits.of(r.sec)
+		if !ok {
+			return true
+		}
+		if !upper {
+			return above(r.minVel, lim)
+		}
+		if zoned {
+			return below(r.zonedVelocity(rr), lim)
+		}
+		return below(r.maxVel, lim)
+	}, w, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.Area <= 0 {
 			return false
@@ -180,8 +192,16 @@ func newLiningLimits(cfg *policies.RuleConfig, side limitSide) *liningLimits {
 // at is the limit at a wet computed point; false where the point is dry or
 // no limit applies to its lining.
 func (l *liningLimits) at(rr *solver.ReachResult, p *solver.Point) (float64, bool) {
-	sec := sectionAt(rr, p)
-	if sec == nil || p.Depth <= 0 {
+	if p.Depth <= 0 {
+		return 0, false
+	}
+	return l.of(sectionAt(rr, p))
+}
+
+// of is the limit in a section; false where none applies to its lining
+// (or there is no section).
+func (l *liningLimits) of(sec *model.Section) (float64, bool) {
+	if sec == nil {
 		return 0, false
 	}
 	if sec != l.sec {

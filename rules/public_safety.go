@@ -61,7 +61,12 @@ func checkPublicSafety(ctx *Context, report func(Finding)) {
 	maxDepth, maxDV := ctx.Config.Number("depth"), ctx.Config.Number("depth_velocity")
 	u := ctx.units()
 	lu := u.Length()
-	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
+	ctx.scanPoints(func(rr *solver.ReachResult, r *run) bool {
+		if r.sec == nil || r.sec.Closed() {
+			return true
+		}
+		return (maxDepth <= 0 || below(r.maxDepth, maxDepth)) && (maxDV <= 0 || below(r.maxDV, maxDV))
+	}, higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		sec := sectionAt(rr, p)
 		if sec == nil || sec.Closed() || p.Depth <= 0 {
 			return false

@@ -138,7 +138,20 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	su := u.Stress()
 	mean := shearMean(cfg)
 	limits := newLiningLimits(cfg, failAbove)
-	ctx.scanPoints(higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
+	ctx.scanPoints(func(rr *solver.ReachResult, r *run) bool {
+		lim, ok := limits.of(r.sec)
+		if !ok {
+			return true
+		}
+		if mean {
+			return below(gamma*r.maxRSf, lim)
+		}
+		kb := 1.0
+		if r.inBend {
+			kb = 2 // the largest bend factor (bendFactor)
+		}
+		return below(kb*gamma*r.maxDSf, lim)
+	}, higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.HydraulicRadius <= 0 {
 			return false

@@ -94,9 +94,11 @@ func checkSolver(ctx *Context, report func(Finding)) {
 			report(f)
 		}
 		var bad []float64
-		for i := range rr.Points {
-			if !usable(&rr.Points[i]) {
-				bad = append(bad, rr.Points[i].Station)
+		for _, run := range ctx.runsOf(rr) {
+			for i := run.first; !run.usable && i <= run.last; i++ {
+				if !usable(&rr.Points[i]) {
+					bad = append(bad, rr.Points[i].Station)
+				}
 			}
 		}
 		if len(bad) > 0 {

@@ -76,6 +76,12 @@ type verdict struct {
 // in a few steps rather than by halving.
 type judgeFunc func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool
 
+// screenFunc reports whether no computed point of a run can fail the
+// rule's judge, from the run's extremes (see run): true passes the run
+// unjudged, false has its points judged one by one. A screen must never
+// pass a run holding a point the judge fails; when in doubt it says false.
+type screenFunc func(rr *solver.ReachResult, r *run) bool
+
 // span is a run of contiguous failing points of one reach and event with
 // the same responsible block and kind.
 type span struct {
@@ -104,16 +110,37 @@ func lower(a, b float64) bool  { return a < b }
 // the figures a rule computed, rather than every field of the point, keeps
 // the per-point cost to what the rule reads.
 //
+// With runs (see run) and a screen, a run the screen passes is passed
+// whole, as though the judge had passed each of its points: a screen
+// reports true only where the run's extremes show that no point of it can
+// fail. Without them every point is judged.
+//
 // v is scratch space for the judge's verdict: a judge is an unknown
 // function, so the verdict it fills lives on the heap; callers pass one
 // they own (Context keeps one per rule run) rather than allocate per walk.
 // The spans are appended to out, which callers pass empty to reuse its
 // array from one reach to the next.
-func scan(rr *solver.ReachResult, w worse, judge judgeFunc,
+func scan(rr *solver.ReachResult, runs []run, screen screenFunc, w worse, judge judgeFunc,
 	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict, out []span) []span {
 	var cur *span
-	for i := range rr.Points {
-		p := &rr.Points[i]
+	pts := rr.Points
+	if screen == nil || !screening {
+		runs = nil
+	}
+	k := 0 // the next run
+	for i := 0; i < len(pts); i++ {
+		if k < len(runs) && runs[k].first == i {
+			r := &runs[k]
+			k++
+			if r.usable && screen(rr, r) {
+				if r.finite {
+					cur = nil // a passing point ends a span
+				}
+				i = r.last
+				continue
+			}
+		}
+		p := &pts[i]
 		if !finiteNum(p.Station) {
 			continue
 		}

@@ -114,7 +114,7 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					return true
 				}
 				atBend := func(*solver.ReachResult, *solver.Point) *model.Src { return &bend.Src }
-				spans := scan(sub, lower, judge, atBend, &ctx.verdict, ctx.spans[:0])
+				spans := scan(sub, nil, nil, lower, judge, atBend, &ctx.verdict, ctx.spans[:0])
 				locate(sub, lower, judge, atBend, &ctx.verdict, &ctx.trial, spans)
 				ctx.spans = spans
 				for _, s := range spans {
