@@ -290,7 +290,7 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 			results = append(results, pipeline.Parse(pipeline.File{Name: name}, src).CheckVaried(pol, a.pipelineOptions(k), max(jobs, a.defaultJobs)))
 		}
 		if len(rest) == 0 {
-			a.displayRelated(results)
+			a.displayPlaces(results)
 			return results
 		}
 	}
@@ -310,22 +310,26 @@ func (a *app) checkPaths(paths []string, pol *policies.Policy, jobs int, k pipel
 	checked := pipeline.CheckFiles(files, pol, a.pipelineOptions(k), jobs, prog.step)
 	prog.done()
 	results = append(results, checked...)
-	a.displayRelated(results)
+	a.displayPlaces(results)
 	return results
 }
 
-// displayRelated prints the related places in a policy file found by
-// absolute path (a discovered .chanlint.hcl, a --policy given as a path)
-// relative to the working directory, as every other path of the output.
-func (a *app) displayRelated(results []*pipeline.Result) {
+// displayPlaces prints the places of findings in another file than
+// their model, found by absolute path (the related places in a
+// discovered .chanlint.hcl or a --policy given as a path, a stale
+// approval in an --approvals file given so), relative to the working
+// directory, as every other path of the output. Each finding is renamed
+// as a whole (rules.Finding.RenameFiles), so its places keep one name per
+// file.
+func (a *app) displayPlaces(results []*pipeline.Result) {
 	for _, r := range results {
 		for i := range r.Findings {
-			for j := range r.Findings[i].Related {
-				rng := &r.Findings[i].Related[j].Range
-				if filepath.IsAbs(rng.Filename) {
-					rng.Filename = a.display(rng.Filename)
+			r.Findings[i].RenameFiles(func(fn string) string {
+				if fn != r.File.Name && filepath.IsAbs(fn) {
+					return a.display(fn)
 				}
-			}
+				return fn
+			})
 		}
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"path"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -152,10 +153,23 @@ func sarifPlaces(t *testing.T, root, out string) []place {
 	return ps
 }
 
+// absApprovals is args with the --approvals file given by its absolute
+// path in dir.
+func absApprovals(args []string, dir string) []string {
+	out := slices.Clone(args)
+	for i := range out[:len(out)-1] {
+		if out[i] == "--approvals" {
+			out[i+1] = filepath.Join(dir, filepath.FromSlash(out[i+1]))
+		}
+	}
+	return out
+}
+
 // TestOnePlacePerFinding: over the corpus (every model of testdata under
 // the baseline pack and under a policy file, a sensitivity run of the
 // demo, and reviewer approvals with a stale one, a finding that lies in
-// the approvals file rather than its model) every output prints each
+// the approvals file rather than its model, the file given as it is
+// relative to the working directory and by its absolute path) every output prints each
 // finding at the one position it carries: JSON, text, SARIF and the
 // workflow annotations name the same file, line and column, finding by
 // finding, and no related place names the finding's file another way.
@@ -177,6 +191,7 @@ func TestOnePlacePerFinding(t *testing.T) {
 		{"policy file", "corpus", []string{".", "--policy", "rules/golden.policy.hcl"}},
 		{"sensitivity", "corpus", []string{"demo", "--vary", "roughness=0.2,discharge=0.1,tailwater=0.3"}},
 		{"approvals", "approvals", s.args[1:]},
+		{"approvals by absolute path", "approvals", absApprovals(s.args[1:], filepath.Join(dir, "approvals"))},
 	}
 	for _, su := range setups {
 		t.Run(su.name, func(t *testing.T) {
