@@ -33,6 +33,7 @@ func workspace(t testing.TB, n int) string {
 
 // Parallel output must equal serial output byte for byte, in every format.
 func TestParallelEqualsSerial(t *testing.T) {
+	t.Parallel()
 	dir := workspace(t, 12)
 	for _, format := range []string{"text", "json", "sarif"} {
 		t.Run(format, func(t *testing.T) {
@@ -143,6 +144,7 @@ func keys(m map[string]json.RawMessage) []string {
 
 // The exit code does not depend on the output format.
 func TestExitCodeIndependentOfFormat(t *testing.T) {
+	t.Parallel()
 	dir := workspace(t, 1)
 	for _, target := range []string{"set00/models/clean.chan.hcl", "set00/models/overtop.chan.hcl", "set00/models/slow.chan.hcl", "set00"} {
 		for _, failOn := range []string{"error", "warning", "info"} {
@@ -252,6 +254,7 @@ func TestSolveCSVMatchesJSON(t *testing.T) {
 // Every file of the bad corpus is invalid (exit 2) and its diagnostics
 // point at the lines its `# want` comments mark, in the GNU layout.
 func TestBadCorpus(t *testing.T) {
+	t.Parallel()
 	files, err := filepath.Glob(filepath.Join(repoDir(t), "testdata", "bad", "*.chan.hcl"))
 	require.NoError(t, err)
 	require.NotEmpty(t, files)

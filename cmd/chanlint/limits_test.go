@@ -15,6 +15,7 @@ import (
 // in a positioned diagnostic of the solver rule and exit status 2, not in a
 // long run or an exhausted memory; the other files are still checked.
 func TestComputedPointsLimit(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	// 1,000 km at a spacing of 0.5 m needs two million points.
 	huge := `units = "si"

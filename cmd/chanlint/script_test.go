@@ -199,6 +199,7 @@ func runIn(dir string, o runOpts, args ...string) (int, string, string) {
 }
 
 func TestScripts(t *testing.T) {
+	t.Parallel()
 	paths, err := filepath.Glob(filepath.Join("testdata", "scripts", "*.txtar"))
 	require.NoError(t, err)
 	require.NotEmpty(t, paths)

@@ -33,6 +33,7 @@ func readmeBlock(t *testing.T, readme, name string) string {
 // It needs git and pre-commit (Debian's package; .ci/run installs it): it
 // is skipped without them, except under CI, where it fails instead.
 func TestReadmeSetups(t *testing.T) {
+	t.Parallel()
 	if testing.Short() || raceEnabled {
 		// It runs no goroutines of chanlint's own: the plain run covers it.
 		t.Skip("walks the README's setups with git, go install and pre-commit; skipped with -short and -race")

@@ -159,6 +159,7 @@ func TestOutputTargetsHostile(t *testing.T) {
 // are rejected by the pre-scan with a diagnostic at the place; the other
 // files of the run are still checked, at any number of workers.
 func TestHostileExpressionsLoseNoOtherFile(t *testing.T) {
+	t.Parallel()
 	repo, _ := hostileTree(t)
 	write := func(name, head, unit string) {
 		var b strings.Builder
