@@ -8,6 +8,7 @@ import (
 	"unicode"
 
 	"github.com/chanlint/chanlint/model/hclkit"
+	"github.com/chanlint/chanlint/model/numfmt"
 	suggestpkg "github.com/chanlint/chanlint/model/suggest"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
@@ -181,7 +182,7 @@ func (d *diagnoser) numberValue(v cty.Value, rng hcl.Range, what label) (float64
 		return 0, false
 	}
 	f, _ := v.AsBigFloat().Float64()
-	if math.IsNaN(f) || math.IsInf(f, 0) || math.Abs(f) > MaxMagnitude {
+	if !numfmt.Finite(f) || math.Abs(f) > MaxMagnitude {
 		d.Errorf(rng, "Number too large", "%s is beyond ±%g; check the units and the decimal point.", what, MaxMagnitude)
 		return 0, false
 	}

@@ -189,13 +189,13 @@ func decimals(step float64) int {
 	return 8
 }
 
-// formatTick prints a tick with the decimals its axis needs.
+// formatTick prints a tick with the decimals its axis needs (numfmt.Fixed).
 func formatTick(v float64, ticks []float64) string {
 	d := 0
 	if len(ticks) > 1 {
 		d = decimals(ticks[1] - ticks[0])
 	}
-	return strconv.FormatFloat(v, 'f', d, 64)
+	return numfmt.Fixed(v, d)
 }
 
 // sig2 prints a positive number with two significant figures.
