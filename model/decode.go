@@ -253,7 +253,24 @@ func (d *diagnoser) name(expr hcl.Expression, what label) (string, bool) {
 	if !ok {
 		return "", false
 	}
+	if plainName(s) {
+		return s, true
+	}
 	return s, d.checkName(s, expr.Range(), what)
+}
+
+// plainName reports whether checkName accepts s at a glance, as it does
+// the usual name: printable ASCII, not only spaces.
+func plainName(s string) bool {
+	visible := false
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		if c < 0x20 || c > 0x7e {
+			return false
+		}
+		visible = visible || c != ' '
+	}
+	return visible
 }
 
 func (d *diagnoser) checkName(s string, rng hcl.Range, what label) bool {

@@ -65,3 +65,19 @@ func TestShortDecimal(t *testing.T) {
 		}
 	})
 }
+
+// TestPlainName: a name plainName lets through is one checkName accepts.
+func TestPlainName(t *testing.T) {
+	for s, want := range map[string]bool{"main": true, "r 0001": true, "a-b_c.d": true, "": false, "   ": false, "tab\there": false, "café": false} {
+		if got := plainName(s); got != want {
+			t.Errorf("plainName(%q) = %v, want %v", s, got, want)
+		}
+	}
+	rapid.Check(t, func(t *rapid.T) {
+		s := rapid.String().Draw(t, "name")
+		var d diagnoser
+		if plainName(s) && !d.checkName(s, hcl.Range{}, plain("name")) {
+			t.Fatalf("plainName(%q) but checkName refuses it: %s", s, d.Diags.Error())
+		}
+	})
+}

@@ -819,7 +819,7 @@ func bodyContent(body hcl.Body, schema *hcl.BodySchema) (*hcl.BodyContent, hcl.D
 // schema requires is there (Content would report one that is missing).
 func fits(sb *hclsyntax.Body, schema *hcl.BodySchema) bool {
 	for _, as := range schema.Attributes {
-		if _, ok := sb.Attributes[as.Name]; as.Required && !ok {
+		if as.Required && sb.Attributes[as.Name] == nil {
 			return false
 		}
 	}
