@@ -205,8 +205,10 @@ const maxShortDecimal = 19
 // against cty). Values beyond MaxMagnitude, and every other form, take
 // the general path for its diagnostics.
 func (d *diagnoser) shortDecimal(expr hcl.Expression) (float64, bool) {
+	// The text tells a number: true, false and null are words, and a
+	// quoted string is a template, not a literal value.
 	lit, ok := expr.(*hclsyntax.LiteralValueExpr)
-	if !ok || lit.Val.Type() != cty.Number {
+	if !ok {
 		return 0, false
 	}
 	start, end := lit.SrcRange.Start.Byte, lit.SrcRange.End.Byte

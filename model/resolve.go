@@ -108,20 +108,22 @@ func (d *decoder) resolve() {
 	index(d, "bend", m.Bends, func(b *Bend) (string, hcl.Range) { return b.Name, b.LabelRange })
 	index(d, "event", m.Events, func(e *Event) (string, hcl.Range) { return e.Name, e.LabelRange })
 
-	section := func(name string, rng hcl.Range, what owner) *Section {
+	// section resolves the section named by the section attribute of
+	// src (whose range is only looked up for a message).
+	section := func(name string, src *Src, what owner) *Section {
 		s, ok := d.sections[name]
 		if !ok && name != "" {
-			d.Errorf(rng, "Unknown section", "%s uses section %q, which is not defined; define it or use one of the section names of this file.%s",
+			d.Errorf(src.At("section"), "Unknown section", "%s uses section %q, which is not defined; define it or use one of the section names of this file.%s",
 				what, name, d.suggestName(name, "section"))
 		}
 		return s
 	}
 	for _, r := range m.Reaches {
 		what := ownerOf("reach", r.Name)
-		r.Section = section(r.SectionName, r.At("section"), what)
+		r.Section = section(r.SectionName, &r.Src, what)
 		for _, s := range r.Segments {
 			sw := ownerOf("a segment of reach", r.Name)
-			s.Section = section(s.SectionName, s.At("section"), sw)
+			s.Section = section(s.SectionName, &s.Src, sw)
 			d.checkSpan(r, s.Src, s.FromStation, s.ToStation, sw)
 		}
 		byStation(r.Segments, func(s *Segment) float64 { return s.FromStation })
