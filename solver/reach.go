@@ -449,9 +449,9 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 				if s.tooMany {
 					return 0, true
 				}
-				for _, c := range tmp[:n] {
+				for i, c := range tmp[:n] {
 					ys := s.subAt(w, pi, c.x)
-					fs, fb := w.f.force(p, c.y), w.f.force(p, ys)
+					fs, fb := st.force(i, c.y), w.f.force(p, ys)
 					if s.subFallbackAt(w, pi, c.x) {
 						fb = fs // no subcritical flow here to jump to
 					}

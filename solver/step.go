@@ -461,6 +461,24 @@ type stepper struct {
 	// relTol is the local error allowed per step, relative to the depth:
 	// stepRelTol, or s1RelTol on an S1 profile (see there).
 	relTol float64
+	// outK holds the states at the points the last step wrote, where
+	// outKnown says they are known (see force).
+	outK     [2]stepState
+	outKnown [2]bool
+}
+
+// force is the specific force at the i-th point the last step wrote (at
+// depth y): from the state the step left there, else evaluated.
+func (s *stepper) force(i int, y float64) float64 {
+	if s.outKnown[i] {
+		return s.outK[i].m
+	}
+	return s.f.force(s.p, y)
+}
+
+// wrote records the states at the points a step wrote.
+func (s *stepper) wrote(k0 stepState, known0 bool, k1 stepState, known1 bool) {
+	s.outK[0], s.outKnown[0], s.outK[1], s.outKnown[1] = k0, known0, k1, known1
 }
 
 // init prepares the stepper at (x, y).
@@ -573,6 +591,7 @@ func (s *stepper) noRootAtCrit(xu float64) bool {
 func (s *stepper) critical(xEnd, remaining float64, out *[2]pt) int {
 	h, xu, _ := s.critStep(xEnd, remaining)
 	out[0] = pt{x: xu, y: s.p.yc, piece: s.pi, super: s.super, fallback: true}
+	s.wrote(s.k, true, stepState{}, false)
 	s.x, s.slope, s.prevH = xu, 0, 0
 	s.dx = h * 4
 	return 1
@@ -694,6 +713,7 @@ func (s *stepper) direct(xEnd, remaining float64, out *[2]pt) (int, bool) {
 				return 0, false
 			}
 			out[0] = pt{x: xEnd, y: y, piece: s.pi, super: s.super}
+			s.wrote(st2, true, stepState{}, false)
 			s.slope = (y - s.y) / (xEnd - s.x)
 			s.x, s.y, s.k, s.atCrit, s.prevH = xEnd, y, st2, false, 0
 			s.dx = remaining
@@ -701,6 +721,7 @@ func (s *stepper) direct(xEnd, remaining float64, out *[2]pt) (int, bool) {
 		}
 		xu := s.x + dir*dx
 		out[0] = pt{x: xu, y: yu, piece: s.pi, super: s.super, fallback: last}
+		s.wrote(st, true, stepState{}, false)
 		s.slope = (yu - s.y) / (xu - s.x)
 		s.x, s.y, s.k, s.atCrit, s.prevH = xu, yu, st, last, 0
 		s.dyDirect = dy * growFactor(errY, allowed)
@@ -760,6 +781,7 @@ func (s *stepper) predicted(xEnd, remaining, yk float64, out *[2]pt) (int, bool)
 		change := math.Abs(y-s.y) / s.y
 		if (errEst <= allowed && change <= stepMaxDepthChange) || small {
 			out[0] = pt{x: xNew, y: y, piece: s.pi, super: s.super}
+			s.wrote(st, true, stepState{}, false)
 			s.prevSlope, s.prevH = yk, h
 			s.slope = (y - s.y) / (xNew - s.x)
 			s.x, s.y, s.k = xNew, y, st
@@ -871,12 +893,12 @@ func (s *stepper) doubled(xEnd, remaining float64, out *[2]pt) int {
 		if !s.atCrit {
 			guess = s.y + s.slope*(xEndStep-s.x)
 		}
-		yFull, okF, _, _ := s.f.stepFrom(s.p, s.x, s.y, s.k, xEndStep, s.super, guess)
+		yFull, okF, _, _ := s.solveFrom(s.x, s.y, s.k, xEndStep, guess)
 		gHalf, gTwo := 0.0, 0.0
 		if okF {
 			gHalf, gTwo = (s.y+yFull)/2, yFull
 		}
-		yHalf, ok1, kHalf, known := s.f.stepFrom(s.p, s.x, s.y, s.k, xMid, s.super, gHalf)
+		yHalf, ok1, kHalf, known := s.solveFrom(s.x, s.y, s.k, xMid, gHalf)
 		yTwo, ok2 := yHalf, false
 		var kTwo stepState
 		knownTwo := false
@@ -884,7 +906,7 @@ func (s *stepper) doubled(xEnd, remaining float64, out *[2]pt) int {
 			if !known {
 				kHalf = s.f.eval(s.p, yHalf)
 			}
-			yTwo, ok2, kTwo, knownTwo = s.f.stepFrom(s.p, xMid, yHalf, kHalf, xEndStep, s.super, gTwo)
+			yTwo, ok2, kTwo, knownTwo = s.solveFrom(xMid, yHalf, kHalf, xEndStep, gTwo)
 		}
 		small := h <= s.dxMin || try >= stepMaxShrinks
 		if okF && ok1 && ok2 {
@@ -896,6 +918,7 @@ func (s *stepper) doubled(xEnd, remaining float64, out *[2]pt) int {
 			if (errEst <= allowed && change <= stepMaxDepthChange) || small {
 				out[0] = pt{x: xMid, y: yHalf, piece: s.pi, super: s.super}
 				out[1] = pt{x: xEndStep, y: yTwo, piece: s.pi, super: s.super}
+				s.wrote(kHalf, true, kTwo, knownTwo)
 				s.slope = (yTwo - yHalf) / (xEndStep - xMid)
 				s.prevSlope, s.prevH = s.f.gvfSlope(kHalf), h/2
 				s.x, s.y, s.atCrit = xEndStep, yTwo, false
@@ -915,6 +938,7 @@ func (s *stepper) doubled(xEnd, remaining float64, out *[2]pt) int {
 			// No solution on this branch over the step: the flow is at
 			// critical depth at its end (a fallback the caller reports).
 			out[0] = pt{x: xEndStep, y: s.p.yc, piece: s.pi, super: s.super, fallback: true}
+			s.wrote(stepState{}, false, stepState{}, false)
 			s.x, s.y, s.atCrit, s.slope = xEndStep, s.p.yc, true, 0
 			s.hasK, s.prevH = false, 0
 			s.dx = h * 4
@@ -922,6 +946,18 @@ func (s *stepper) doubled(xEnd, remaining float64, out *[2]pt) int {
 		}
 		h *= 0.25
 	}
+}
+
+// solveFrom is one standard step of doubled from (xk, yk) with state k to
+// xu: by Newton's method from the guess when there is one (newtonStep,
+// which falls back to bracketing next to it), else by bracketing next to
+// yk (stepFrom).
+func (s *stepper) solveFrom(xk, yk float64, k stepState, xu, guess float64) (float64, bool, stepState, bool) {
+	if guess > 0 && !math.IsInf(guess, 0) {
+		y, ok, st := s.f.newtonStep(s.p, xk, k, xu, s.super, guess, yk)
+		return y, ok, st, ok
+	}
+	return s.f.stepFrom(s.p, xk, yk, k, xu, s.super, guess)
 }
 
 // growFactor is the next-step factor from the error ratio, limited to
