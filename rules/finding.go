@@ -202,6 +202,7 @@ func InFile(file string, r hcl.Range) hcl.Range {
 // place (Range and Focus), the exception and the related places; a
 // positioned range without a file name is in f's file. Zero ranges stay
 // zero.
+//
 // A caller that names files otherwise than the rules (absolute for SARIF,
 // relative to a baseline, a revision's proposed name) renames them all
 // at once, so that the finding keeps one file and its related places in

@@ -83,6 +83,50 @@ func linePlaces(out string, re *regexp.Regexp) []place {
 	return ps
 }
 
+var (
+	// markdownFinding is a row of a model's findings table in the Markdown
+	// report, its location in the last cell; markdownInvalid a row of the
+	// invalid files, its location in the first.
+	markdownFinding = regexp.MustCompile("^\\| \\d+ \\| .* \\| `([^`]+)` \\|$")
+	markdownInvalid = regexp.MustCompile("^\\| `([^`]+)` \\| (?:error|warning|info) \\|")
+	// fileLineCol splits "file:line:col".
+	fileLineCol = regexp.MustCompile(`^(.*):(\d+):(\d+)$`)
+)
+
+// markdownPlaces are the locations of the findings of a Markdown report:
+// the rows of each "Findings" table and of the "Invalid files" one.
+func markdownPlaces(out string) []place {
+	var ps []place
+	var row *regexp.Regexp // the rows of the table being read; nil: none
+	for line := range strings.SplitSeq(out, "\n") {
+		switch {
+		case line == "### Findings":
+			row = markdownFinding
+			continue
+		case line == "## Invalid files":
+			row = markdownInvalid
+			continue
+		case strings.HasPrefix(line, "#"):
+			row = nil
+		}
+		if row == nil {
+			continue
+		}
+		m := row.FindStringSubmatch(line)
+		if m == nil {
+			continue
+		}
+		p := place{File: m[1]}
+		if fl := fileLineCol.FindStringSubmatch(m[1]); fl != nil {
+			p.File = fl[1]
+			p.Line, _ = strconv.Atoi(fl[2])
+			p.Col, _ = strconv.Atoi(fl[3])
+		}
+		ps = append(ps, p)
+	}
+	return ps
+}
+
 // sarifPlaces are the positions of the results of a SARIF log (URI
 // relative to the repository root, start line and column), after
 // checking that every location, related location and suppression names a
@@ -172,7 +216,8 @@ func absApprovals(args []string, dir string) []string {
 // relative to the working directory and by its absolute path) every output prints each
 // finding at the one position it carries: JSON, text, SARIF and the
 // workflow annotations name the same file, line and column, finding by
-// finding, and no related place names the finding's file another way.
+// finding, the Markdown report the same places in its own order, and no
+// related place names the finding's file another way.
 func TestOnePlacePerFinding(t *testing.T) {
 	dir := t.TempDir()
 	require.NoError(t, os.Mkdir(filepath.Join(dir, ".git"), 0o755)) // the repository root of SARIF and annotations
@@ -211,6 +256,22 @@ func TestOnePlacePerFinding(t *testing.T) {
 			assert.Equal(t, want, linePlaces(run("text"), textPlace), "text")
 			assert.Equal(t, rooted, linePlaces(run("annotations"), annotationPlace), "annotations")
 			assert.Equal(t, rooted, sarifPlaces(t, dir, run("sarif")), "sarif")
+
+			// The report lists the findings per model and the invalid
+			// files apart: the same places, in its own order.
+			args := []string{"report", "--color", "never", "--format", "markdown", "--out", "-"}
+			for i := 0; i < len(su.args); i++ {
+				if su.args[i] == "--fail-on" {
+					i++
+					continue
+				}
+				args = append(args, su.args[i])
+			}
+			_, md, _ := runIn(cwd, runOpts{}, args...)
+			sorted := func(ps []place) []place {
+				return slices.SortedFunc(slices.Values(ps), func(a, b place) int { return strings.Compare(a.String(), b.String()) })
+			}
+			assert.Equal(t, sorted(want), sorted(markdownPlaces(md)), "report")
 		})
 	}
 }
