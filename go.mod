@@ -10,6 +10,7 @@ require (
 	github.com/owenrumney/go-sarif/v3 v3.3.1
 	github.com/stretchr/testify v1.12.1
 	github.com/zclconf/go-cty v1.20.0
+	golang.org/x/sync v0.18.0
 	golang.org/x/tools v0.38.0
 	gonum.org/v1/gonum v0.17.0
 	pgregory.net/rapid v1.3.0
@@ -26,7 +27,6 @@ require (
 	github.com/xeipuuv/gojsonschema v1.2.0 // indirect
 	go.yaml.in/yaml/v3 v3.0.5 // indirect
 	golang.org/x/mod v0.29.0 // indirect
-	golang.org/x/sync v0.18.0 // indirect
 	golang.org/x/sys v0.50.0 // indirect
 	golang.org/x/text v0.31.0 // indirect
 )

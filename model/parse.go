@@ -256,6 +256,14 @@ func CheckNesting(filename string, src []byte) hcl.Diagnostics {
 	}}
 }
 
+// Tokens is the number of tokens the pre-scan counts in src: at least the
+// HCL lexer's, up to the first construct CheckNesting rejects, so at most
+// MaxTokens+1. What parsing src costs in time and memory grows with it.
+func Tokens(src []byte) int {
+	_, _, n := preScan(src)
+	return n
+}
+
 // preScan scans src for constructs that the HCL parser handles by
 // recursion, or with memory or time out of proportion to a literal-only
 // file, and reports the offset of the first one beyond a bound (see

@@ -142,10 +142,11 @@ func Load(f File) *Parsed {
 }
 
 // Parse parses a model text that has been read already (standard input, an
-// editor buffer).
+// editor buffer). Parses of all goroutines share a token budget
+// (MaxParsingTokens): a dense file waits while others are being parsed.
 func Parse(f File, src []byte) *Parsed {
 	p := &Parsed{File: f, Src: src}
-	m, diags := model.Parse(f.Name, src)
+	m, diags := parseAdmitted(f.Name, src)
 	if len(diags) > 0 {
 		p.Diagnostics = rules.FromDiagnostics(f.Name, diags)
 	}
