@@ -237,3 +237,53 @@ func numCfg(name string, v float64) *policies.RuleConfig {
 func limitCfg(v float64) *policies.RuleConfig {
 	return &policies.RuleConfig{Values: map[string]policies.Value{"limit": {Table: policies.ByLining{Default: v, HasDefault: true}}}}
 }
+
+// TestCrossingTrials: on the long backwater, whose computed points lie
+// about 500 m apart, a span end is bracketed to locateTol in at most four
+// standard-step trials (solver Between calls) for a smooth criterion, at
+// crossing depths along the M1 curve, and in about three and a half on
+// average. The
+// criterion is the depth against a threshold (the judge of a depth limit).
+func TestCrossingTrials(t *testing.T) {
+	c := newBackwater(model.SI)
+	m, diags := model.Parse("bw.chan.hcl", []byte(c.source(8, 0)))
+	require.False(t, diags.HasErrors(), "%v", diags)
+	res, err := solver.Solve(m, solver.Options{})
+	require.NoError(t, err)
+	rr := res.Events[0].Reaches[0]
+	var trial solver.Point
+	var v verdict
+	total := 0
+	for _, y := range []float64{3.5, 3.7, 3.9, 4.1, 4.3, 4.5, 4.7} {
+		trials := 0
+		judge := func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
+			if p == &trial {
+				trials++
+			}
+			if p.Depth <= y {
+				v.short = p.Depth - y
+				return false
+			}
+			*v = verdict{value: p.Depth, limit: y, short: p.Depth - y}
+			return true
+		}
+		spans := scan(rr, nil, nil, nil, judge, reachBlock, &v, nil)
+		require.Len(t, spans, 1)
+		require.Positive(t, spans[0].first, "the span must start between computed points")
+		locate(rr, nil, judge, reachBlock, &v, &trial, spans)
+		s := spans[0]
+		// The start is the passing side of a bracket of locateTol: the
+		// depth there is below the threshold, a millimetre on it above.
+		p, _, ok := rr.Between(s.first-1, s.from)
+		require.True(t, ok)
+		require.LessOrEqual(t, p.Depth, y)
+		q, _, ok := rr.Between(s.first-1, s.from+locateTol(s.from))
+		require.True(t, ok)
+		require.Greater(t, q.Depth, y)
+		t.Logf("depth %.1f: %d trials", y, trials)
+		require.LessOrEqual(t, trials, 4, "depth %.1f: trials to locate the span start", y)
+		total += trials
+	}
+	// False position alone took five at all but one depth here (33).
+	require.LessOrEqual(t, total, 28, "trials over the seven depths")
+}
