@@ -28,10 +28,11 @@
 //     (at least one increment). A computed amount within 1e-12 (relative)
 //     above a printed step is taken as that step, so that 0.3 computed as
 //     0.30000000000000004 asks for 0.3 and not 0.301.
-//   - A table column or a machine-readable number (Fixed, Decimals, Round,
-//     JSON) keeps a fixed number of decimals: Fixed prints exactly d,
-//     Decimals at most d with trailing zeros dropped; JSON outputs keep
-//     JSONDecimals.
+//   - A table column (Fixed) keeps exactly d decimals, except that a value
+//     that is not zero but would read "0.000" is printed as Num prints it.
+//   - A machine-readable number (Decimals, Round, JSON: CSV and JSON
+//     outputs) keeps at most d decimals, trailing zeros dropped; JSON and
+//     CSV keep JSONDecimals, so a value below half of 0.0001 is 0 there.
 //   - A value as a person would write it in a file (Written) is printed as
 //     written when it has at most 8 significant digits, else rounded to 6.
 //
@@ -295,12 +296,18 @@ func Decimals(x float64, d int) string {
 	return strconv.FormatFloat(Round(x, d), 'f', -1, 64)
 }
 
-// Fixed prints x with exactly d decimals, for aligned table columns.
+// Fixed prints x with exactly d decimals, for aligned table columns; a
+// value that is not zero but would print as zero with d decimals is
+// printed as Num prints it instead ("0.00004", not "0.000").
 func Fixed(x float64, d int) string {
 	if !Finite(x) {
 		return NotFinite
 	}
-	return strconv.FormatFloat(Round(x, d), 'f', d, 64)
+	r := Round(x, d)
+	if r == 0 && x != 0 {
+		return Num(x)
+	}
+	return strconv.FormatFloat(r, 'f', d, 64)
 }
 
 // JSON returns a pointer to x rounded to JSONDecimals, or nil (JSON null)

@@ -83,7 +83,11 @@ func TestTables(t *testing.T) {
 	assert.Equal(t, "120", Decimals(120.00001, 3))
 	assert.Equal(t, "0", Decimals(-0.00001, 3), "no negative zero")
 	assert.Equal(t, "0.13", Fixed(0.125, 2), "half away from zero")
-	assert.Equal(t, "0.000", Fixed(-0.0001, 3), "no negative zero")
+	assert.Equal(t, "-0.0001", Fixed(-0.0001, 3), "not zero, so not 0.000")
+	assert.Equal(t, "0.000", Fixed(0, 3))
+	assert.Equal(t, "0.000", Fixed(math.Copysign(0, -1), 3), "no negative zero")
+	assert.Equal(t, "0.99", Fixed(0.993, 2))
+	assert.Equal(t, "-0.001", Fixed(-0.0005, 3), "half away from zero")
 	assert.Equal(t, "n/a", Fixed(math.NaN(), 2))
 	assert.Nil(t, JSON(math.NaN()))
 	assert.Equal(t, 0.1235, *JSON(0.12345))
@@ -186,6 +190,23 @@ func TestRoundingRule(t *testing.T) {
 			require.NoError(t, err, p)
 			assert.GreaterOrEqual(t, v, x*(1-1e-12)-step*1e-9, "UpTo(%v, %v) = %s", x, step, p)
 			assert.GreaterOrEqual(t, v, step*(1-1e-12), "UpTo(%v, %v) = %s is at least one increment", x, step, p)
+		}
+
+		// A table cell: d decimals, never "-0.000", never zero for a
+		// value that is not.
+		d := rapid.IntRange(0, 4).Draw(t, "decimals")
+		f := Fixed(x, d)
+		fv, err := strconv.ParseFloat(f, 64)
+		require.NoError(t, err, f)
+		assert.False(t, x != 0 && fv == 0, "Fixed(%v, %d) = %s", x, d, f)
+		assert.False(t, strings.HasPrefix(f, "-") && fv == 0, "Fixed(%v, %d) = %s", x, d, f)
+		if math.Abs(x) >= math.Pow10(-d) && plain(x) {
+			assert.LessOrEqual(t, math.Abs(fv-x), math.Pow10(-d)/2*(1+1e-9)+math.Abs(x)*1e-15, "Fixed(%v, %d) = %s", x, d, f)
+			decimals := 0
+			if i := strings.IndexByte(f, '.'); i >= 0 {
+				decimals = len(f) - i - 1
+			}
+			assert.Equal(t, d, decimals, "Fixed(%v, %d) = %s", x, d, f)
 		}
 
 		// A pair: both parse back within half a unit of the shared last
