@@ -85,7 +85,7 @@ func ReadFile(filename string) ([]byte, hcl.Diagnostics) {
 func Parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	m, diags := parse(filepath.ToSlash(filename), src)
 	hclkit.SortByPosition(diags)
-	return m, hclkit.Bound(diags, diagnosticLimits)
+	return m, hclkit.Bound(diags, DiagnosticLimits)
 }
 
 // Bounds of the text of one file's diagnostics, so that a 4 MiB file
@@ -98,8 +98,9 @@ const (
 	MaxDiagnosticBytes = 256 << 10
 )
 
-// diagnosticLimits are the bounds above as hclkit.Bound takes them.
-var diagnosticLimits = hclkit.Limits{Count: MaxDiagnostics, Summary: MaxSummaryBytes, Detail: MaxDetailBytes, Bytes: MaxDiagnosticBytes}
+// DiagnosticLimits are the bounds above as hclkit.Bound takes them, for
+// the diagnostics of one model or policy file.
+var DiagnosticLimits = hclkit.Limits{Count: MaxDiagnostics, Summary: MaxSummaryBytes, Detail: MaxDetailBytes, Bytes: MaxDiagnosticBytes}
 
 func parse(filename string, src []byte) (*Model, hcl.Diagnostics) {
 	start := hcl.Range{Filename: filename, Start: hcl.InitialPos, End: hcl.InitialPos}

@@ -249,7 +249,7 @@ func (l *Loader) load(n node, root string, stack []node, from *hcl.Range) (*Poli
 	d := &decoder{lang: l.lang, Diagnostics: hclkit.Diagnostics{Diags: diags}}
 	p, parent := l.decodeAndExtend(d, file, n, root, stack)
 	hclkit.SortByPosition(d.Diags)
-	return p, append(d.Diags, parent...)
+	return p, append(hclkit.Bound(d.Diags, model.DiagnosticLimits), parent...)
 }
 
 // decodeAndExtend decodes the parsed file of n into d and loads what it

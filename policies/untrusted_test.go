@@ -11,6 +11,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 	"github.com/stretchr/testify/assert"
@@ -136,4 +137,23 @@ func TestPolicyForExpressionRejected(t *testing.T) {
 	errs := errorsOnly(diags)
 	require.Len(t, errs, 1, "%s", diags.Error())
 	assert.Equal(t, 5, errs[0].Subject.Start.Line)
+}
+
+// TestPolicyDiagnosticsBounded: a policy with thousands of problems
+// reports model.MaxDiagnostics of them and counts the rest in one last
+// diagnostic, as a model does.
+func TestPolicyDiagnosticsBounded(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("policy \"x\" {\n  units = \"si\"\n")
+	for i := range 3000 {
+		fmt.Fprintf(&b, "  unknown_%d = 1\n", i)
+	}
+	b.WriteString("}\n")
+	p, diags, _ := loadSource(t, b.String())
+	require.Nil(t, p)
+	require.Len(t, diags, model.MaxDiagnostics+1)
+	last := diags[model.MaxDiagnostics]
+	assert.Equal(t, "Too many problems", last.Summary)
+	assert.Contains(t, last.Detail, "2000 more problems")
+	assert.Equal(t, model.MaxDiagnostics+3, last.Subject.Start.Line, "at the first one left out")
 }
