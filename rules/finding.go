@@ -220,11 +220,18 @@ func (f *Finding) RenameFiles(name func(file string) string) {
 	rename(&f.Range)
 	rename(&f.Focus)
 	rename(&f.ExceptionRange)
-	if len(f.Related) > 0 {
-		f.Related = slices.Clone(f.Related)
-		for i := range f.Related {
-			rename(&f.Related[i].Range)
+	// Copies of a finding share their related places: copy them before
+	// the first change, and only then.
+	shared := true
+	for i := range f.Related {
+		r := f.Related[i].Range
+		if rename(&r); r == f.Related[i].Range {
+			continue
 		}
+		if shared {
+			f.Related, shared = slices.Clone(f.Related), false
+		}
+		f.Related[i].Range = r
 	}
 }
 
