@@ -72,6 +72,10 @@ type runner struct {
 	out    []Finding
 	bound  func(Finding) // report, bound once
 	shared *shared       // the runs of the reach results, shared by the rules
+	// The citation and policy places of the block that reported last.
+	citedCfg *policies.RuleConfig
+	cite     string
+	related  []Related
 }
 
 // run executes one rule and appends its findings (see report).
@@ -132,11 +136,22 @@ func (rn *runner) report(f Finding) {
 	if cfg != nil && f.Section == "" {
 		f.Section = cfg.Section
 	}
-	if cfg != nil && f.Reference == "" {
-		f.Reference = policies.Cite(rn.p, cfg)
-	}
 	if cfg != nil {
-		f.Related = append(f.Related, policyRelated(cfg)...)
+		if rn.citedCfg != cfg {
+			// What every finding of the block cites, worked out on its
+			// first finding.
+			rn.citedCfg, rn.cite, rn.related = cfg, policies.Cite(rn.p, cfg), policyRelated(cfg)
+		}
+		if f.Reference == "" {
+			f.Reference = rn.cite
+		}
+		if len(f.Related) == 0 && len(rn.related) > 0 {
+			// Shared by the block's findings; the capacity is capped, so
+			// that a later append (an exception's place) copies it.
+			f.Related = rn.related[:len(rn.related):len(rn.related)]
+		} else {
+			f.Related = append(f.Related, rn.related...)
+		}
 	}
 	rn.out = append(rn.out, f)
 }
