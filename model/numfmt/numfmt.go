@@ -7,8 +7,9 @@
 // # The rounding rule
 //
 // Rounding is half away from zero at the last digit kept, computed as
-// round(x·10^d)/10^d, and a result of zero is printed without a sign:
-// no output ever shows "-0".
+// round(x·10^d)/10^d (the exponent form and Written round the exact
+// binary value to nearest, as strconv does), and a result of zero is
+// printed without a sign: no output ever shows "-0".
 //
 //   - A measured or computed value (Num, Sig) keeps significant figures:
 //     Num keeps three, Sig as many as asked, but never fewer digits than
@@ -33,6 +34,8 @@
 //   - A machine-readable number (Decimals, Round, JSON: CSV and JSON
 //     outputs) keeps at most d decimals, trailing zeros dropped; JSON and
 //     CSV keep JSONDecimals, so a value below half of 0.0001 is 0 there.
+//     SARIF's result properties carry the numbers unrounded, as
+//     encoding/json writes them.
 //   - A value as a person would write it in a file (Written) is printed as
 //     written when it has at most 8 significant digits, else rounded to 6.
 //
