@@ -74,6 +74,10 @@ type stepState struct {
 	dsf float64 // dSf/dy where the section gives it in closed form, else NaN
 	m   float64 // specific force Q²/(gA) + A·z̄ (see force)
 	a   float64 // flow area
+	// y is the depth the section was evaluated at: that of the state, or
+	// next to it when the state was carried by a last Newton correction
+	// (newtonStep), which moves e, sf and m but not f2 and dsf.
+	y float64
 }
 
 // flowCtx is the part of a reach the energy equation needs: discharge,
@@ -116,7 +120,7 @@ func (f *flowCtx) eval(p *piece, y float64) stepState {
 		c := f.q / pr.Conveyance
 		return stepState{e: y + pr.Alpha*v*v/(2*g.g), sf: c * c,
 			f2: pr.Alpha * v * v * pr.TopWidth / (g.g * pr.Area), dsf: math.NaN(),
-			m: f.q*f.q/(g.g*pr.Area) + pr.FirstMoment, a: pr.Area}
+			m: f.q*f.q/(g.g*pr.Area) + pr.FirstMoment, a: pr.Area, y: y}
 	}
 	yy := clampDepth(y)
 	a := (g.b + g.z*yy) * yy
@@ -129,7 +133,7 @@ func (f *flowCtx) eval(p *piece, y float64) stepState {
 	dr := (t - r*2*g.sideLen) / per
 	return stepState{e: y + v*v/(2*g.g), sf: sf, f2: v * v * t / (g.g * a),
 		dsf: -2 * sf * (t/a + (2.0/3)*dr/r),
-		m:   f.q*f.q/(g.g*a) + (g.b*yy*yy/2 + g.z*yy*yy*yy/3), a: a}
+		m:   f.q*f.q/(g.g*a) + (g.b*yy*yy/2 + g.z*yy*yy*yy/3), a: a, y: y}
 }
 
 // gvfSlope is dy/dx = (S0 − Sf)/(1 − F²) at a state, the differential
@@ -796,9 +800,39 @@ func (s *stepper) predicted(xEnd, remaining, yk float64, out *[2]pt) (int, bool)
 	}
 }
 
-// newtonLast is the largest correction, relative to the depth, that
-// newtonStep applies without evaluating the section again.
-const newtonLast = 1e-5
+// newtonLast is a correction, relative to the depth, below which
+// newtonStep applies it without evaluating the section again whatever the
+// curvature of the residual; newtonLastMax the largest it applies so,
+// where the curvature allows (see lastCorrection).
+const (
+	newtonLast    = 1e-5
+	newtonLastMax = 1e-4
+)
+
+// lastCorrection reports whether the Newton correction corr at depth y
+// (state st, residual h = E + w·Sf + const with derivative d) is the last
+// one needed: corr is below newtonLast of the depth, or below
+// newtonLastMax of it and what the first order leaves out is below the
+// tolerance. With E″ and Sf″ from the secants of E′ = 1 − F² and of dSf/dy
+// between y and the depth where the state of the previous iterate or known
+// depth (prev) was evaluated, at least |corr| away, the energy and the
+// friction term of the state carried to y − corr are off by at most
+// (|E″| + |w|·|Sf″|)·corr²/2, and so is the residual there, which moves the
+// depth by that over |h′| (the next correction of Newton's method).
+func (f *flowCtx) lastCorrection(y, corr, d, w float64, st, prev stepState) bool {
+	c := math.Abs(corr)
+	if c <= newtonLast*y {
+		return true
+	}
+	dy := y - prev.y
+	if c > newtonLastMax*y || math.IsNaN(prev.dsf) || !(math.Abs(dy) >= c) {
+		return false
+	}
+	e2 := (prev.f2 - st.f2) / dy
+	sf2 := (st.dsf - prev.dsf) / dy
+	off := (math.Abs(e2) + math.Abs(w*sf2)) * c * c / 2
+	return off <= f.tol*math.Min(1, math.Abs(d))
+}
 
 // newtonIter bounds the Newton iterations of one standard step before the
 // bracketing root finder takes over.
@@ -829,6 +863,9 @@ func (f *flowCtx) newtonStep(p *piece, xk float64, k stepState, xu float64, supe
 		}
 		return y > p.yc && y < maxDepth
 	}
+	// The state at the previous iterate (first: the known depth) gives the
+	// second derivatives by secants, for the shortcut below.
+	prev := k
 	y := yp
 	for range newtonIter {
 		if !onBranch(y) {
@@ -854,18 +891,18 @@ func (f *flowCtx) newtonStep(p *piece, xk float64, k stepState, xu float64, supe
 		if math.Abs(corr) <= f.tol {
 			return y, true, st
 		}
-		if !math.IsNaN(st.dsf) && math.Abs(corr) <= newtonLast*y && onBranch(y-corr) {
+		if !math.IsNaN(st.dsf) && onBranch(y-corr) && f.lastCorrection(y, corr, d, w, st, prev) {
 			// With the exact derivative the iteration converges
-			// quadratically: after a correction this small the next one
-			// is below the tolerance, and the state at the corrected
-			// depth is that at y to first order (the error, of the order
-			// of corr², is far below the tolerance).
+			// quadratically: the next correction is below the tolerance,
+			// and the state at the corrected depth is that at y to first
+			// order (the error is of the order of that correction).
 			// dM/dy = A − Q²T/(gA²) = A·(1 − F²) with α = 1.
 			st.e -= (1 - st.f2) * corr
 			st.sf -= st.dsf * corr
 			st.m -= st.a * (1 - st.f2) * corr
 			return y - corr, true, st
 		}
+		prev = st
 		y -= corr
 	}
 	yr, ok, st, known := f.branchRoot(p, zu, w, target, super, yp, math.Abs(yp-yk)/10)
