@@ -311,3 +311,24 @@ func TestRelativeRootAndOutside(t *testing.T) {
 	assert.Equal(t, BaseID, *al.URIBaseID)
 	assert.Nil(t, rep.Runs[0].OriginalUriBaseIds[BaseID].URI)
 }
+
+// TestStaleApprovalLocatedInItsFile: a finding in another file than its
+// model (a stale approval, in the approvals file) is located in that
+// file, and its message gives the stations in its model's unit, which
+// Units carries per finding.
+func TestStaleApprovalLocatedInItsFile(t *testing.T) {
+	approvals := root + "/review/approvals.hcl"
+	stale := rules.Finding{Rule: "unused_exception", Severity: policies.Warning, Message: "stale approval",
+		Range: hcl.Range{Filename: approvals, Start: hcl.Pos{Line: 11, Column: 1}, End: hcl.Pos{Line: 11, Column: 9}},
+		Reach: "drain", FromStation: 0, ToStation: 150, HasSpan: true}
+	in := input(t, []rules.Finding{stale, findings(t)[1]})
+	in.Units = []string{"ft", "m"}
+	rep := validate(t, render(t, in))
+	res := rep.Runs[0].Results
+	require.Len(t, res, 2)
+	assert.Equal(t, "review/approvals.hcl", *res[0].Locations[0].PhysicalLocation.ArtifactLocation.URI)
+	assert.Equal(t, 11, *res[0].Locations[0].PhysicalLocation.Region.StartLine)
+	assert.Contains(t, *res[0].Message.Text, "stations 0–150 ft")
+	assert.Equal(t, "models/alder.chan.hcl", *res[1].Locations[0].PhysicalLocation.ArtifactLocation.URI)
+	assert.Contains(t, *res[1].Message.Text, " m: ")
+}
