@@ -10,6 +10,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chanlint/chanlint/model/hclkit"
 	"github.com/hashicorp/hcl/v2"
 	"github.com/hashicorp/hcl/v2/hclsyntax"
 
@@ -301,3 +302,8 @@ func TestPreScanIgnoresCommentLines(t *testing.T) {
 	src := repeatTo("units = \"si\"\n", "# a comment line that explains the model\n// and another one\n/* and a block */\n", "", MaxFileSize)
 	assert.Empty(t, CheckNesting("c.chan.hcl", src))
 }
+
+// preScan is the model's pre-scan, hclkit.Scan with ScanBounds.
+func preScan(src []byte) (int, hclkit.Problem, int) { return hclkit.Scan(src, ScanBounds) }
+
+const scanOK = hclkit.ScanOK
