@@ -135,6 +135,13 @@ func (s *solver) prepare(w *reachWork, lay *reachLayout) {
 	}
 }
 
+// forceBoundMargin is the relative margin by which a supercritical force
+// must exceed the bound of subAround to be taken as holding without
+// evaluating the subcritical force: it covers the error of a force carried
+// by a last Newton correction (newtonStep), of the order of the depth's
+// tolerance.
+const forceBoundMargin = 1e-6
+
 // forceTie is the relative tolerance under which two specific forces are
 // taken as equal when the two regimes are compared.
 const forceTie = 1e-9
@@ -142,25 +149,38 @@ const forceTie = 1e-9
 // subAt interpolates the subcritical depth of piece pi at station x
 // linearly between the computed points of that piece.
 func (s *solver) subAt(w *reachWork, pi int32, x float64) float64 {
+	y, _ := s.subAround(w, pi, x)
+	return y
+}
+
+// subAround is subAt with, where x lies between two computed points whose
+// specific forces are known, the larger of the two (0 otherwise): on the
+// subcritical branch of a prismatic section the specific force rises with
+// the depth (dM/dy = A·(1 − F²)), so it bounds the force at the depth
+// interpolated between them.
+func (s *solver) subAround(w *reachWork, pi int32, x float64) (y, mMax float64) {
 	sub := s.subBuf[w.subLo:w.subHi]
 	lo, hi := int(w.subPiece[pi]), int(w.subPiece[pi+1])
 	if hi <= lo {
-		return w.pieces[pi].yc
+		return w.pieces[pi].yc, 0
 	}
 	pts := sub[lo:hi]
 	j := sort.Search(len(pts), func(i int) bool { return pts[i].x >= x })
 	if j == 0 {
-		return pts[0].y
+		return pts[0].y, 0
 	}
 	if j == len(pts) {
-		return pts[len(pts)-1].y
+		return pts[len(pts)-1].y, 0
 	}
 	a, b := pts[j-1], pts[j]
 	if b.x <= a.x {
-		return b.y
+		return b.y, 0
+	}
+	if m := s.subM[w.subLo+lo:]; m[j-1] > 0 && m[j] > 0 {
+		mMax = math.Max(m[j-1], m[j])
 	}
 	t := (x - a.x) / (b.x - a.x)
-	return a.y + t*(b.y-a.y)
+	return a.y + t*(b.y-a.y), mMax
 }
 
 // subExact computes the subcritical depth of piece pi at station x by one
@@ -246,6 +266,7 @@ func (s *solver) subcritical(w *reachWork, ev *model.Event) {
 // w.subLo on.
 func (s *solver) subProfile(w *reachWork, y float64, crit bool) {
 	s.subBuf = s.subBuf[:w.subLo]
+	s.subM = s.subM[:w.subLo]
 	w.subHi = w.subLo
 	if w.q == 0 || len(w.pieces) == 0 {
 		w.subPiece = w.subPiece[:0]
@@ -254,6 +275,7 @@ func (s *solver) subProfile(w *reachWork, y float64, crit bool) {
 	last := len(w.pieces) - 1
 	x := w.pieces[last].to
 	s.subBuf = append(s.subBuf, pt{x: x, y: y, piece: int32(last)})
+	s.subM = append(s.subM, 0)
 	s.count(1)
 	var st stepper
 	var tmp [2]pt
@@ -266,6 +288,13 @@ func (s *solver) subProfile(w *reachWork, y float64, crit bool) {
 				continue
 			}
 			for n := st.step(stop, &tmp); n > 0 && !s.tooMany; n = st.step(stop, &tmp) {
+				for i := range tmp[:n] {
+					m := 0.0
+					if st.outKnown[i] {
+						m = st.outK[i].m
+					}
+					s.subM = append(s.subM, m)
+				}
 				s.subBuf = append(s.subBuf, tmp[:n]...)
 				s.count(n)
 			}
@@ -287,14 +316,17 @@ func (s *solver) subProfile(w *reachWork, y float64, crit bool) {
 				w.borda = append(w.borda, x)
 			}
 			s.subBuf = append(s.subBuf, pt{x: x, y: y2, piece: int32(pi - 1), fallback: !ok})
+			s.subM = append(s.subM, 0)
 			s.count(1)
 			y, crit = y2, !ok
 		}
 	}
 	w.subHi = len(s.subBuf)
 	sub := s.subBuf[w.subLo:w.subHi]
+	subM := s.subM[w.subLo:w.subHi]
 	for i, j := 0, len(sub)-1; i < j; i, j = i+1, j-1 {
 		sub[i], sub[j] = sub[j], sub[i]
+		subM[i], subM[j] = subM[j], subM[i]
 	}
 	w.subPiece = w.subPiece[:0]
 	pi := int32(-1)
@@ -450,8 +482,17 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 					return 0, true
 				}
 				for i, c := range tmp[:n] {
-					ys := s.subAt(w, pi, c.x)
-					fs, fb := st.force(i, c.y), w.f.force(p, ys)
+					ys, mMax := s.subAround(w, pi, c.x)
+					fs := st.force(i, c.y)
+					var fb float64
+					if p.geo.kind == kindPrismatic && mMax > 0 && fs >= mMax*(1+forceBoundMargin) {
+						// The subcritical force here is at most mMax: the
+						// supercritical flow holds, as evaluating it would
+						// find.
+						fb = mMax
+					} else {
+						fb = w.f.force(p, ys)
+					}
 					if s.subFallbackAt(w, pi, c.x) {
 						fb = fs // no subcritical flow here to jump to
 					}

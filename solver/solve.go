@@ -28,9 +28,9 @@ const (
 	// counts, including those of a subcritical or supercritical trial
 	// profile that the final profile does not use, so the points kept in
 	// the result never exceed it. A kept point holds about 150 bytes of
-	// live heap, and about 400 bytes are allocated per point with the
+	// live heap, and about 450 bytes are allocated per point with the
 	// growth of the work buffers (BenchmarkPointMemory: 152 heap B/point,
-	// 403 B/op per point), so one Solve call stays near 300 MB resident
+	// 446 B/op per point), so one Solve call stays near 300 MB resident
 	// whatever the number of events: the 200-event file of
 	// TestPointBudgetCoversTheModel stops at the budget within about 1 s
 	// at a peak resident set of 287 MB, where a budget per event needed
@@ -166,6 +166,7 @@ type solver struct {
 	layouts    []reachLayout // by reach index
 	work       []reachWork   // by reach index
 	subBuf     []pt
+	subM       []float64 // the specific force at each point of subBuf where known (0: not known)
 	finBuf     []pt
 	points     int // computed points of the whole Solve call, all events
 	tooMany    bool
@@ -279,6 +280,7 @@ func (s *solver) spend(units int64) {
 // solveEvent runs both passes for one event.
 func (s *solver) solveEvent(ev *model.Event) (*EventResult, error) {
 	s.subBuf = s.subBuf[:0]
+	s.subM = s.subM[:0]
 	for i := range s.entrance {
 		s.entrance[i] = 0
 	}
