@@ -64,7 +64,7 @@ func stations(from, to float64, u model.Units) string {
 	// The numbers are formatted on the stack, with one allocation for the
 	// text.
 	var ba, bb [40]byte
-	a, b := numfmt.AppendPair(ba[:0], bb[:0], from, to)
+	a, b := numfmt.AppendSpan(ba[:0], bb[:0], from, to)
 	if bytes.Equal(a, b) {
 		return "at station " + string(a) + " " + u.Length()
 	}

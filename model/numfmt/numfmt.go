@@ -21,8 +21,12 @@
 //     "0.0000", and 0.993 prints as "0.993", never "1".
 //   - A value beside its limit (Pair, Span) is printed with the same
 //     decimals as the other: enough for three significant figures of the
-//     second and two of the first ("0.18 m is below 0.30 m"); trailing
-//     zeros are dropped only where both have them.
+//     second and two of the first ("0.18 m is below 0.30 m"), and for
+//     Pair more where fewer would print two different values alike
+//     (up to nine significant figures: "0.16166 m is below 0.16168 m",
+//     not "0.162 m is below 0.162 m"); trailing zeros are dropped only
+//     where both have them. Span prints ends that look the same at the
+//     first decimals as one station.
 //   - An amount a remedy asks for is rounded up, never to the nearest, so
 //     that what is printed is never short of what is needed: Up at the
 //     last of three significant figures, UpTo to a practical increment
@@ -175,8 +179,11 @@ func trimZeros(b []byte, start, d int) []byte {
 // Pair formats a measured value and its limit (or the two ends of a span)
 // with the same number of decimals, so that "0.18 m is below 0.30 m"
 // reads naturally: the decimals show three significant digits of b and at
-// least two of a; trailing zeros are dropped only where both numbers have
-// them. Equal numbers give equal strings.
+// least two of a, and more where fewer would print two different numbers
+// alike ("0.16166 m is below 0.16168 m", never "0.162 m is below
+// 0.162 m", up to nine significant figures: closer values are the noise
+// of the computation); trailing zeros are dropped only where both numbers
+// have them. Equal numbers give equal strings.
 func Pair(a, b float64) (string, string) {
 	if a == b {
 		s := Num(a)
@@ -188,14 +195,43 @@ func Pair(a, b float64) (string, string) {
 }
 
 // AppendPair appends the two strings Pair returns to da and db. A number
-// that is not finite or needs an exponent is formatted alone, as Num.
+// that is not finite or needs an exponent is formatted alone, as Num (or
+// Sig with the figures that tell the two apart).
 func AppendPair(da, db []byte, a, b float64) ([]byte, []byte) {
+	return appendPair(da, db, a, b, a != b)
+}
+
+// AppendSpan appends the two ends of a station span as Span prints them:
+// as Pair, except that ends which print the same at Pair's first decimals
+// stay the same (one station).
+func AppendSpan(da, db []byte, from, to float64) ([]byte, []byte) {
+	return appendPair(da, db, from, to, false)
+}
+
+// pairFigures is how many significant figures of the larger number Pair
+// shows at most to tell two numbers apart: values closer than that
+// (a relative 1e-9, the noise of the computation) print alike.
+const pairFigures = 9
+
+// appendPair is AppendPair; with distinct, decimals are added until the
+// two strings differ.
+func appendPair(da, db []byte, a, b float64, distinct bool) ([]byte, []byte) {
 	if !Finite(a, b) || !plain(a) || !plain(b) || a == b {
-		return AppendNum(da, a), AppendNum(db, b)
+		sa, sb := AppendNum(da, a), AppendNum(db, b)
+		for n := 4; distinct && n <= pairFigures && string(sa[len(da):]) == string(sb[len(db):]); n++ {
+			sa, sb = AppendSig(sa[:len(da)], a, n), AppendSig(sb[:len(db)], b, n)
+		}
+		return sa, sb
 	}
 	d := max(decimals(b, 3), decimals(a, 3)-1)
 	sa := strconv.AppendFloat(da, clean(a, d), 'f', d, 64)
 	sb := strconv.AppendFloat(db, clean(b, d), 'f', d, 64)
+	most := decimals(max(math.Abs(a), math.Abs(b)), pairFigures)
+	for distinct && d < most && string(sa[len(da):]) == string(sb[len(db):]) {
+		d++
+		sa = strconv.AppendFloat(sa[:len(da)], clean(a, d), 'f', d, 64)
+		sb = strconv.AppendFloat(sb[:len(db)], clean(b, d), 'f', d, 64)
+	}
 	for d > 0 && sa[len(sa)-1] == '0' && sb[len(sb)-1] == '0' {
 		sa, sb = sa[:len(sa)-1], sb[:len(sb)-1]
 		d--
@@ -207,13 +243,15 @@ func AppendPair(da, db []byte, a, b float64) ([]byte, []byte) {
 }
 
 // Span formats a station span as the messages do: "100–200" with both
-// ends to the same decimals (Pair), or "400" when the ends print the same.
+// ends to the same decimals (Pair), or "400" when the ends print the same
+// (AppendSpan).
 func Span(from, to float64) string {
-	a, b := Pair(from, to)
-	if a == b {
-		return a
+	var ba, bb [40]byte
+	a, b := AppendSpan(ba[:0], bb[:0], from, to)
+	if string(a) == string(b) {
+		return string(a)
 	}
-	return a + "–" + b
+	return string(a) + "–" + string(b)
 }
 
 // Up formats an amount a remedy asks for ("raise the bank by at least

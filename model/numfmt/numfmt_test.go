@@ -57,6 +57,37 @@ func TestPair(t *testing.T) {
 	assert.Equal(t, "400", Span(400, 400.0001), "ends that print the same are one station")
 }
 
+// TestPairTellsApart: a value beside a different limit never prints as the
+// limit, so that no message reads "0.162 m is below the required 0.162 m";
+// values that differ only by the noise of the computation print alike.
+func TestPairTellsApart(t *testing.T) {
+	for _, c := range []struct {
+		a, b   float64
+		wa, wb string
+	}{
+		{0.16166274260789137, 0.16168, "0.16166", "0.16168"},
+		{29.995922756760603, 29.992, "30.00", "29.99"},
+		{6.0004, 6, "6.0004", "6.0000"},
+		{0.2999, 0.3, "0.2999", "0.3000"},
+		{-0.0004, 0, "-0.0004", "0.0000"},
+		{0.3 - 1e-12, 0.3, "0.3", "0.3"},
+	} {
+		a, b := Pair(c.a, c.b)
+		assert.Equal(t, [2]string{c.wa, c.wb}, [2]string{a, b}, "%v %v", c.a, c.b)
+	}
+	assert.Equal(t, "400", Span(400, 400.0001), "a span still prints as one station")
+	da, db := AppendSpan(nil, nil, 400, 400.0001)
+	assert.Equal(t, "400 400", string(da)+" "+string(db))
+	rapid.Check(t, func(t *rapid.T) {
+		x := rapid.Float64Range(-1e6, 1e6).Draw(t, "x")
+		y := x * (1 + rapid.Float64Range(-1e-3, 1e-3).Draw(t, "rel"))
+		a, b := Pair(x, y)
+		if math.Abs(x-y) > 1e-8*max(math.Abs(x), math.Abs(y)) && a == b {
+			t.Fatalf("Pair(%v, %v) = %s, %s", x, y, a, b)
+		}
+	})
+}
+
 func TestUp(t *testing.T) {
 	assert.Equal(t, "0.0814", Up(0.0813196))
 	assert.Equal(t, "0.3", Up(0.30000000000000004), "a round value stays round")
