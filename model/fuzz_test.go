@@ -6,12 +6,17 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/hashicorp/hcl/v2"
+	"github.com/hashicorp/hcl/v2/hclsyntax"
 )
 
 // FuzzParse feeds arbitrary bytes to Parse, seeded with the demo, the valid
 // models and the bad corpus. Parse must not panic; it returns a model
-// exactly when there is no error; every diagnostic has a position; and a
-// returned model holds no NaN or Inf.
+// exactly when there is no error; every diagnostic has a position; a
+// returned model holds no NaN or Inf; and when the pre-scan lets a file
+// through, it counted at least the tokens the HCL lexer makes of it (so
+// that the token budget bounds the parser's work).
 func FuzzParse(f *testing.F) {
 	for _, pattern := range []string{"../testdata/demo/*" + Suffix, "../testdata/valid/*" + Suffix, "../testdata/bad/*" + Suffix} {
 		files, err := filepath.Glob(pattern)
@@ -38,6 +43,12 @@ func FuzzParse(f *testing.F) {
 		}
 		if m != nil {
 			checkFinite(t, m)
+		}
+		if CheckNesting("fuzz.chan.hcl", src) == nil {
+			toks, _ := hclsyntax.LexConfig(src, "fuzz.chan.hcl", hcl.InitialPos)
+			if n := Tokens(src); n < len(toks) {
+				t.Fatalf("pre-scan counted %d tokens, the lexer made %d", n, len(toks))
+			}
 		}
 	})
 }

@@ -168,6 +168,42 @@ func TestPreScanAcceptsLargeValidInput(t *testing.T) {
 	}
 }
 
+// The pre-scan reads strings, comments and heredocs exactly where the HCL
+// lexer does; where they part, a run of "[" the parser recurses on would
+// pass as text (the first two crashed chanlint with a stack overflow).
+func TestPreScanFollowsTheLexer(t *testing.T) {
+	for _, c := range []struct{ name, head, summary string }{
+		// A broken UTF-8 byte can swallow the quote after it.
+		{"bad UTF-8 before a quote", "units = \"si\"\nx = \xde\"", "Not UTF-8 text"},
+		// <<EOT then a CR alone is no heredoc.
+		{"CR after a heredoc marker", "units = \"si\"\nx = <<EOT\rz\ny = ", "Too deeply nested"},
+		// An unclosed /* is a / and a *, not a comment.
+		{"unclosed block comment", "units = \"si\"\n/*\ny = ", "Too deeply nested"},
+		// A } closes the interpolation, and the ( left open in it.
+		{"brace closing a template", "units = \"si\"\nx = \"${(}\"\ny = ", "Too deeply nested"},
+		{"brace closing a template over lines", "units = \"si\"\nx = \"${[(}\n\"\ny = ", "Too deeply nested"},
+		// A line end does not end a quoted string.
+		{"line end in a string", "units = \"si\"\nx = \"a\nb\"\ny = ", "Too deeply nested"},
+		// A Unicode marker: the lexer's tables decide; refused.
+		{"Unicode heredoc marker", "units = \"si\"\nx = <<EOT\u00e9\n\"\nEOT\u00e9\ny = ", "Unsupported heredoc"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			src := repeatTo(c.head, "[", "", 1<<20)
+			diags := CheckNesting("l.chan.hcl", src)
+			require.Len(t, diags, 1)
+			assert.Equal(t, c.summary, diags[0].Summary)
+			line := strings.Count(c.head, "\n") + 1 // in the run of [
+			if c.summary == "Unsupported heredoc" {
+				line = 2 // at the heredoc
+			}
+			assert.Equal(t, line, diags[0].Subject.Start.Line)
+			_, pdiags := Parse("l.chan.hcl", src)
+			require.NotEmpty(t, pdiags)
+			assert.Equal(t, c.summary, pdiags[0].Summary)
+		})
+	}
+}
+
 // A file at the documented limits fits the token budget: 10,000 reaches
 // sharing one points section of 5,000 points, with one event. The reach
 // blocks are as short as a reach can be written.
@@ -204,7 +240,8 @@ func TestPreScanCountsTokens(t *testing.T) {
 		"title = <<EOT\na\n\nb $x %y ${z}\nEOT\n", "title = <<-EOT\n  a\n  EOT\n", "x = \"a ${b} %{if c}d%{endif} $${e} %%{f} $ %\"\n",
 		"x = \"\\n\\u00e9\"\n", "b \"l\" \"m\" {\n  a = { k = 1, \"k 2\": 2 }\n}\n", "x = a.b[0].c\n", "x = 1 == 2 && !y || -z\n",
 		"größe = 1\n", "x = f(1, 2)\n", "x = [for v in l : v]\n", "\r\nx = 1\r\n",
-		"x = \u201ca\u201d\n", "x = @\n",
+		"x = \u201ca\u201d\n", "x = @\n", "x = \"${(}\"\n", "x = \"a\nb\"\n", "x = \"\\\u00e9\\\n\"\n",
+		"/* [ */ x = 1\n", "x = \"a\rb\"\n", "x = {\"${ {a = (1)} }\" = 2}\n",
 	} {
 		inputs[fmt.Sprintf("%q", u)] = repeatTo("", u, "", 3000) // invalid characters below MaxInvalid
 	}

@@ -75,6 +75,8 @@ const (
 	ScanPieces
 	ScanNumber
 	ScanInvalid
+	ScanEncoding
+	ScanHeredoc
 )
 
 // CheckNesting is the cheap pre-scan that runs before the HCL parser on
@@ -116,6 +118,12 @@ func CheckNesting(filename string, src []byte, bounds ScanBounds) hcl.Diagnostic
 	case ScanNumber:
 		summary = "Number too long"
 		detail = fmt.Sprintf("A number here is written with more than %d characters; write it with fewer digits or an exponent (1.5e-3).", MaxNumberBytes)
+	case ScanEncoding:
+		summary = "Not UTF-8 text"
+		detail = "The byte here is not UTF-8; a model or policy file is UTF-8 text (save it as UTF-8)."
+	case ScanHeredoc:
+		summary = "Unsupported heredoc"
+		detail = "The marker of this heredoc is not a plain ASCII name, or not followed by the line end; write it as <<EOT (or <<-EOT) at the end of the line."
 	case ScanInvalid:
 		summary = "Too many invalid characters"
 		detail = fmt.Sprintf("More than %d characters, escape sequences or unterminated strings of the file up to here are not valid HCL; this is not a model or policy file.", bounds.Invalid)
@@ -172,6 +180,7 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 		interp int    // interpolations of a string
 		pieces int    // literal pieces of a string
 		brace  bool   // a { } (newlines separate items), not [ ] or ( )
+		open   byte   // the opening bracket: '[', '(' or '{'
 	}
 	stack := []frame{{kind: bracket, brace: true}} // the file's top-level body
 	prefix, questions := 0, 0
@@ -187,6 +196,16 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 	// to the comment's token.
 	lineComment := false
 	n := len(src)
+	if !utf8.Valid(src) {
+		// The lexer's reading of broken UTF-8 follows no rule this scan
+		// could keep in step with (a bad byte can swallow a quote).
+		i := 0
+		for !badUTF8(src[i:]) {
+			_, size := utf8.DecodeRune(src[i:])
+			i += size
+		}
+		return i, ScanEncoding, tokens
+	}
 	for i := 0; i < n; i++ {
 		c := src[i]
 		top := &stack[len(stack)-1]
@@ -213,14 +232,19 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 				if !validEscape(src, i) {
 					invalid++
 				}
-				i++
-			case top.kind == quoted && (c == '"' || c == '\n'):
-				if c == '\n' {
-					invalid++ // an unterminated string
+				if i+1 < n && src[i+1] != '\n' && src[i+1] != '\r' {
+					_, size := utf8.DecodeRune(src[i+1:])
+					i += size // the escaped character (a line end is not escaped)
 				}
+			case top.kind == quoted && c == '"':
 				tokens++
 				stack = stack[:len(stack)-1]
 				value = true
+			case top.kind == quoted && c == '\n':
+				// A line end in a quoted string is an error of its own; as
+				// for the lexer, the string goes on to the next quote.
+				invalid++
+				tokens += 2 // the line end, and the text after it
 			case (c == '$' || c == '%') && i+2 < n && src[i+1] == c && src[i+2] == '{':
 				tokens += 2 // $${ and %%{ are literal text: a piece, and the text after it
 				top.pieces += 2
@@ -236,6 +260,9 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 				i++
 			case c == '$' || c == '%':
 				tokens += 2 // the sign and the text after it
+				top.pieces += 2
+			case c == '\r':
+				tokens += 2 // a token of its own, and the text after it
 				top.pieces += 2
 			}
 			switch {
@@ -332,18 +359,28 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 			if c == '[' && wasValue {
 				chain++ // an index or splat step
 			}
-			stack = append(stack, frame{kind: bracket, brace: c == '{'})
+			stack = append(stack, frame{kind: bracket, brace: c == '{', open: c})
 		case ']', ')':
-			if top.kind == bracket && len(stack) > 1 {
+			// Only its own bracket: a stray one closes nothing (the
+			// count stays on the safe side).
+			if top.kind == bracket && (top.open == '[') == (c == ']') && !top.brace && len(stack) > 1 {
 				stack = stack[:len(stack)-1]
 			}
 			value = true
 		case '}':
-			if top.kind == interp {
-				tokens++ // the text after the interpolation
+			// As for the lexer, which counts braces only: a } closes the
+			// innermost { or interpolation, and the [ and ( left open
+			// inside it. The scan then leaves an interpolation where the
+			// lexer does, and so reads strings where it does.
+			j := len(stack) - 1
+			for j > 0 && stack[j].kind == bracket && !stack[j].brace {
+				j--
 			}
-			if (top.kind == bracket || top.kind == interp) && len(stack) > 1 {
-				stack = stack[:len(stack)-1]
+			if j > 0 {
+				if stack[j].kind == interp {
+					tokens++ // the text after the interpolation
+				}
+				stack = stack[:j]
 			}
 			value = true
 		case '@', '$', '\\', 0x7f:
@@ -360,13 +397,17 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 			case isIdentByte(c) || c >= 0x80:
 				end := skipName(src, i)
 				if end == i {
-					// A character that starts no name (bad UTF-8 is
-					// reported once by the parser, not counted).
-					r, size := utf8.DecodeRune(src[i:])
-					if r != utf8.RuneError || size != 1 {
-						invalid++
-					}
+					invalid++ // a character that starts no name
+					_, size := utf8.DecodeRune(src[i:])
 					end = i + size
+				}
+				// Each other character of a name counts as a token: the
+				// lexer's Unicode tables may end a name earlier than this
+				// scan's and make the rest tokens of their own.
+				for _, b := range src[i+1 : end] {
+					if utf8.RuneStart(b) && b >= 0x80 {
+						tokens++
+					}
 				}
 				i = end - 1
 				value = true
@@ -381,14 +422,20 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 			i--
 			lineComment = true
 		} else if c == '/' && i+1 < n && src[i+1] == '*' {
-			for i += 2; i+1 < n && !(src[i] == '*' && src[i+1] == '/'); i++ {
+			// An unclosed /* is no comment for the lexer but a / and a *:
+			// what follows is read as code.
+			if end := bytes.Index(src[i+2:], []byte("*/")); end >= 0 {
+				i += 2 + end + 1
 			}
-			i++
 		} else if c == '<' {
-			if marker, next, ok := heredocStart(src, i); ok {
+			marker, next, ok := heredocStart(src, i)
+			switch {
+			case ok && marker == nil:
+				return i, ScanHeredoc, tokens
+			case ok:
 				stack = append(stack, frame{kind: heredoc, marker: marker})
 				i = next - 1
-			} else {
+			default:
 				chain++
 			}
 		}
@@ -404,6 +451,13 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 		}
 	}
 	return 0, ScanOK, tokens
+}
+
+// badUTF8 reports whether src starts with a byte that begins no valid
+// UTF-8 encoding.
+func badUTF8(src []byte) bool {
+	r, size := utf8.DecodeRune(src)
+	return r == utf8.RuneError && size == 1
 }
 
 // validEscape reports whether the backslash at src[i] of a quoted string
@@ -488,7 +542,10 @@ func skipNumber(src []byte, i int) int {
 }
 
 // heredocStart recognises `<<MARKER` or `<<-MARKER` at src[i] followed by
-// a line end, and returns the marker and the offset of the line end.
+// a line end (LF or CR LF), and returns the marker and the offset of the
+// line end. A marker that holds a non-ASCII character is reported as a
+// heredoc with a nil marker: the lexer's Unicode names may or may not
+// make it one, and this scan must not guess differently.
 func heredocStart(src []byte, i int) ([]byte, int, bool) {
 	j := i + 2
 	if j > len(src) || src[i+1] != '<' {
@@ -497,16 +554,20 @@ func heredocStart(src []byte, i int) ([]byte, int, bool) {
 	if j < len(src) && src[j] == '-' {
 		j++
 	}
-	// Only ASCII identifiers are recognised: where this scan does not see
-	// a heredoc it counts brackets as code, which can only over-count.
 	start := j
 	for j < len(src) && (isIdentByte(src[j]) || (j > start && (src[j] == '-' || '0' <= src[j] && src[j] <= '9'))) {
 		j++
 	}
-	if j == start || j >= len(src) || (src[j] != '\n' && src[j] != '\r') {
+	if j < len(src) && src[j] >= 0x80 {
+		return nil, j, true
+	}
+	if j == start || j >= len(src) {
 		return nil, 0, false
 	}
-	return src[start:j], j, true
+	if src[j] == '\n' || src[j] == '\r' && j+1 < len(src) && src[j+1] == '\n' {
+		return src[start:j], j, true
+	}
+	return nil, 0, false
 }
 
 func isIdentByte(c byte) bool {
