@@ -32,6 +32,12 @@ func PolicyFor(m *model.Model, p *policies.Policy) *policies.Policy {
 // A nil policy checks only the always-on rules. A nil result (nothing was
 // solved) still checks the model's own consistency and its exceptions.
 func Check(m *model.Model, res *solver.Result, p *policies.Policy) []Finding {
+	return check(m, res, p, false)
+}
+
+// check is Check, with every computed point judged when judgeAll is true
+// (no run passed by a screen).
+func check(m *model.Model, res *solver.Result, p *policies.Policy, judgeAll bool) []Finding {
 	if m == nil {
 		return nil
 	}
@@ -40,6 +46,7 @@ func Check(m *model.Model, res *solver.Result, p *policies.Policy) []Finding {
 	// the findings slice starts large enough for a typical model.
 	rn := &runner{m: m, res: res, p: p, out: make([]Finding, 0, 16), shared: getShared()}
 	defer putShared(rn.shared)
+	rn.shared.judgeAll = judgeAll
 	rn.bound = rn.report
 	var last *Rule
 	for _, r := range All() {
@@ -317,7 +324,7 @@ func (c *Context) eachReach(fn func(ev *solver.EventResult, rr *solver.ReachResu
 func (c *Context) scanPoints(screen screenFunc, w worse, judge judgeFunc,
 	emit func(ev *solver.EventResult, rr *solver.ReachResult, s span)) {
 	c.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
-		c.spans = scan(rr, c.runsOf(rr), screen, w, judge, reachBlock, &c.verdict, c.spans[:0])
+		c.spans = scan(rr, c.runsOf(rr), c.screened(screen), w, judge, reachBlock, &c.verdict, c.spans[:0])
 		locate(rr, w, judge, reachBlock, &c.verdict, &c.trial, c.spans)
 		for _, s := range c.spans {
 			emit(ev, rr, s)

@@ -249,7 +249,7 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 		report(f)
 	}
 	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
-		spans := scan(rr, ctx.runsOf(rr), screen, nil, judge, reachBlock, &ctx.verdict, ctx.spans[:0])
+		spans := scan(rr, ctx.runsOf(rr), ctx.screened(screen), nil, judge, reachBlock, &ctx.verdict, ctx.spans[:0])
 		locate(rr, nil, judge, reachBlock, &ctx.verdict, &ctx.trial, spans)
 		found := len(spans)
 		inSpan := func(i int) bool {

@@ -38,10 +38,6 @@ type run struct {
 	maxZoned float64 // the highest zone velocity (highestVelocity)
 }
 
-// screening is whether scan lets screens pass runs; a test turns it off
-// to compare the findings with every point judged.
-var screening = true
-
 // runLength is the most points a run holds: short enough that a failing
 // stretch has its neighbourhood judged, not its whole reach, long enough
 // that the screens are asked far less often than the judges would be.
@@ -70,6 +66,15 @@ func above(x, limit float64) bool {
 // of the elevations as well (WSE − invert rounds on that scale).
 func belowStage(r *run, h float64) bool {
 	return r.maxStage < h-slack*max(1, math.Abs(h), r.maxElev)
+}
+
+// screened is the screen a rule's scan uses: s, or none when the check
+// judges every point.
+func (c *Context) screened(s screenFunc) screenFunc {
+	if c.shared != nil && c.shared.judgeAll {
+		return nil
+	}
+	return s
 }
 
 // runsOf are the runs of a reach result: cached for the check when the
@@ -114,6 +119,9 @@ func (c *Context) runsOf(rr *solver.ReachResult) []run {
 type shared struct {
 	runs map[*solver.ReachResult][]run
 	buf  []run
+	// judgeAll has every point judged, no run passed by a screen (a test
+	// compares the findings so).
+	judgeAll bool
 }
 
 var sharedPool = sync.Pool{New: func() any { return &shared{runs: map[*solver.ReachResult][]run{}} }}
@@ -124,7 +132,7 @@ func getShared() *shared { return sharedPool.Get().(*shared) }
 // refers to its runs once it has returned.
 func putShared(sh *shared) {
 	clear(sh.runs)
-	sh.buf = sh.buf[:0]
+	sh.buf, sh.judgeAll = sh.buf[:0], false
 	sharedPool.Put(sh)
 }
 

@@ -14,9 +14,7 @@ import (
 // unscreened is Check with every point judged (no run passed by its
 // screen).
 func unscreened(m *model.Model, res *solver.Result, p *policies.Policy) []Finding {
-	screening = false
-	defer func() { screening = true }()
-	return Check(m, res, p)
+	return check(m, res, p, true)
 }
 
 // TestScreensChangeNoFinding: on every model of the test corpus under every

@@ -124,7 +124,7 @@ func scan(rr *solver.ReachResult, runs []run, screen screenFunc, w worse, judge 
 	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict, out []span) []span {
 	var cur *span
 	pts := rr.Points
-	if screen == nil || !screening {
+	if screen == nil {
 		runs = nil
 	}
 	k := 0 // the next run
