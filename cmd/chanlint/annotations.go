@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/safetext"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/rules"
 )
@@ -62,7 +63,9 @@ func writeAnnotation(w io.Writer, file string, f *rules.Finding, unit string) {
 	if f.Excepted {
 		title += " (excepted " + string(f.Severity) + ")"
 	}
-	props := []string{"file=" + annotationProperty(file)}
+	// Names, messages, reasons and file names carry a submittal's text,
+	// which the Actions log would render as it stands.
+	props := []string{"file=" + annotationProperty(safetext.Text(file))}
 	if pos := f.Pos(); pos.Start.Line > 0 {
 		props = append(props, fmt.Sprintf("line=%d", pos.Start.Line), fmt.Sprintf("col=%d", max(pos.Start.Column, 1)))
 		if pos.End.Line >= pos.Start.Line {
@@ -70,15 +73,15 @@ func writeAnnotation(w io.Writer, file string, f *rules.Finding, unit string) {
 		}
 	}
 	props = append(props, "title="+annotationProperty(title))
-	msg := f.Message
+	msg := safetext.Text(f.Message)
 	if where := f.Where(unit); where != "" {
-		msg = where + ": " + msg
+		msg = safetext.Text(where) + ": " + msg
 	}
 	if f.Excepted {
-		msg += "\nexception: " + f.ExceptionReason
+		msg += "\nexception: " + safetext.Text(f.ExceptionReason)
 	}
 	if f.Remedy != "" {
-		msg += "\nremedy: " + f.Remedy
+		msg += "\nremedy: " + safetext.Text(f.Remedy)
 	}
 	fmt.Fprintf(w, "::%s %s::%s\n", level, strings.Join(props, ","), annotationData(msg))
 }

@@ -3,8 +3,12 @@ package main
 import (
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/rules"
+	"github.com/hashicorp/hcl/v2"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
@@ -74,6 +78,27 @@ func TestCheckAnnotations(t *testing.T) {
 
 	assert.Equal(t, "a%25b%0Ac", annotationData("a%b\nc"))
 	assert.Equal(t, "x%3Ay%2Cz", annotationProperty("x:y,z"))
+}
+
+// A workflow command carries a submittal's names and reasons made
+// visible as every text output makes them: the Actions log renders
+// escape sequences, and bidi overrides would reorder what a reviewer
+// reads.
+func TestAnnotationUntrustedText(t *testing.T) {
+	f := rules.Finding{
+		Rule: "freeboard", Severity: policies.Error, Message: "freeboard \u202e0.1 m",
+		Remedy: "raise \u001b[2Kit", Reach: "r\u202e1", Excepted: true, ExceptionReason: "ok\u001b[31m\u2066",
+		Range: hcl.Range{Filename: "m.chan.hcl", Start: hcl.Pos{Line: 1, Column: 1}, End: hcl.Pos{Line: 1, Column: 2}},
+	}
+	var b strings.Builder
+	writeAnnotation(&b, "a\u202eb.chan.hcl", &f, "m")
+	out := b.String()
+	for _, bad := range []string{"\u001b", "\u202e", "\u2066"} {
+		assert.NotContains(t, out, bad)
+	}
+	assert.Contains(t, out, `file=a\u202Eb.chan.hcl`)
+	assert.Contains(t, out, `reach r\u202E1`)
+	assert.Contains(t, out, `%0Aexception: ok\x1b[31m\u2066%0Aremedy: raise \x1b[2Kit`)
 }
 
 // Command-line errors spell options with two dashes and suggest the one
