@@ -413,7 +413,7 @@ type pt struct {
 // control. A step is one standard step from the current point, solved by
 // a Newton iteration from a predicted depth, and its error is estimated
 // from the predictor, so that an accepted step costs one solution of the
-// energy equation and, typically, two or three section evaluations:
+// energy equation and, typically, one or two section evaluations:
 //
 //   - Predictor: the second-order Adams–Bashforth formula on the
 //     differential equation of gradually varied flow, with the slopes
