@@ -4,6 +4,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -44,13 +45,57 @@ func FuzzParse(f *testing.F) {
 		if m != nil {
 			checkFinite(t, m)
 		}
-		if CheckNesting("fuzz.chan.hcl", src) == nil {
-			toks, _ := hclsyntax.LexConfig(src, "fuzz.chan.hcl", hcl.InitialPos)
-			if n := Tokens(src); n < len(toks) {
-				t.Fatalf("pre-scan counted %d tokens, the lexer made %d", n, len(toks))
+		checkAgainstLexer(t, src)
+	})
+}
+
+// checkAgainstLexer checks, for a file the pre-scan lets through, that it
+// counted at least the lexer's tokens and that the lexer's tokens nest no
+// deeper than the bound, closed by the pre-scan's rule (a ] or ) its own
+// bracket only, a } the innermost { or interpolation): a string, comment
+// or heredoc the scan read where the lexer reads code would show here.
+func checkAgainstLexer(t *testing.T, src []byte) {
+	t.Helper()
+	if CheckNesting("fuzz.chan.hcl", src) != nil {
+		return
+	}
+	toks, _ := hclsyntax.LexConfig(src, "fuzz.chan.hcl", hcl.InitialPos)
+	if n := Tokens(src); n < len(toks) {
+		t.Fatalf("pre-scan counted %d tokens, the lexer made %d", n, len(toks))
+	}
+	var stack []hclsyntax.TokenType
+	popTo := func(open ...hclsyntax.TokenType) {
+		for j := len(stack) - 1; j >= 0; j-- {
+			if slices.Contains(open, stack[j]) {
+				stack = stack[:j]
+				return
 			}
 		}
-	})
+	}
+	for _, tok := range toks {
+		switch tok.Type {
+		case hclsyntax.TokenOBrack, hclsyntax.TokenOParen, hclsyntax.TokenOBrace, hclsyntax.TokenOQuote,
+			hclsyntax.TokenOHeredoc, hclsyntax.TokenTemplateInterp, hclsyntax.TokenTemplateControl:
+			stack = append(stack, tok.Type)
+		case hclsyntax.TokenCBrack, hclsyntax.TokenCParen:
+			open := hclsyntax.TokenOBrack
+			if tok.Type == hclsyntax.TokenCParen {
+				open = hclsyntax.TokenOParen
+			}
+			if len(stack) > 0 && stack[len(stack)-1] == open {
+				stack = stack[:len(stack)-1]
+			}
+		case hclsyntax.TokenCBrace, hclsyntax.TokenTemplateSeqEnd:
+			popTo(hclsyntax.TokenOBrace, hclsyntax.TokenTemplateInterp, hclsyntax.TokenTemplateControl)
+		case hclsyntax.TokenCQuote:
+			popTo(hclsyntax.TokenOQuote)
+		case hclsyntax.TokenCHeredoc:
+			popTo(hclsyntax.TokenOHeredoc)
+		}
+		if len(stack) > MaxNesting {
+			t.Fatalf("the lexer's tokens nest %d deep at %s, the pre-scan let the file through", len(stack), tok.Range)
+		}
+	}
 }
 
 func checkFinite(t *testing.T, m *Model) {
@@ -130,5 +175,6 @@ func FuzzParseRepeated(f *testing.F) {
 		if m != nil {
 			checkFinite(t, m)
 		}
+		checkAgainstLexer(t, src)
 	})
 }

@@ -292,6 +292,24 @@ func BenchmarkPreScanHostile(b *testing.B) {
 		}
 		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(tokens), "ns/token")
 	})
+	// Few tokens but many bytes: the lexer's cost per byte (it measures
+	// every token's columns in grapheme clusters), for 4 MiB of valid
+	// text in one string and in comment lines.
+	tail := "reach \"r\" {\n  from = \"a\"\n  to = \"b\"\n  length = 100\n  section = \"s\"\n  slope = 0.001\n}\nevent \"e\" {\n  inflow = { r = 1 }\n  outlet = { condition = \"normal\" }\n}\n"
+	head := "units = \"si\"\nsection \"s\" {\n  shape = \"rectangle\"\n  bottom_width = 2\n  height = 1\n  roughness = 0.014\n}\n" + tail
+	for name, src := range map[string][]byte{
+		"parse-4MiB-one-string": repeatTo(head+"title = \"", "Straße, Überlauf — nördlich; ", "\"\n", MaxFileSize),
+		"parse-4MiB-comments":   repeatTo(head, "# a comment line that explains the model\n", "", MaxFileSize),
+	} {
+		b.Run(name, func(b *testing.B) {
+			b.SetBytes(int64(len(src)))
+			for b.Loop() {
+				if _, diags := Parse("p.chan.hcl", src); diags.HasErrors() {
+					b.Fatal(diags.Error())
+				}
+			}
+		})
+	}
 }
 
 // atBudget is a valid model of points sections of MaxPoints points, as
