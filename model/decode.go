@@ -37,10 +37,10 @@ func (d *diagnoser) literalOnly(expr hcl.Expression) bool {
 	return hclkit.Literal(expr, modelAllows, d.rejectConstruct)
 }
 
-// modelAllows is what a model accepts besides literal values: a ${...}
-// around a literal, and the logical negation of a literal (which then
-// fails as a bool where a number or a string is wanted).
-var modelAllows = hclkit.Allow{Interpolation: true, Not: true}
+// modelAllows is what a model accepts besides literal values: the logical
+// negation of a literal (which then fails as a bool where a number or a
+// string is wanted). An interpolation, even of a literal, is refused.
+var modelAllows = hclkit.Allow{Not: true}
 
 // rejectConstruct words the diagnostic of a construct literalOnly found.
 func (d *diagnoser) rejectConstruct(c hclkit.Construct, e hcl.Expression) {
@@ -60,6 +60,12 @@ func (d *diagnoser) rejectConstruct(c hclkit.Construct, e hcl.Expression) {
 		call := e.(*hclsyntax.FunctionCallExpr)
 		d.Errorf(call.NameRange, "Function calls not allowed",
 			"A model is untrusted input and no functions are evaluated in it; write the value of %s(...) as a literal.", call.Name)
+	case hclkit.Interpolation:
+		d.Errorf(e.Range(), "Interpolation not allowed",
+			"A model holds literal text; write the text itself instead of ${...} (write $${ for a literal ${).")
+	case hclkit.LoneInterpolation:
+		d.Errorf(e.Range(), "Interpolation not allowed",
+			"A model holds literal values; write the value itself instead of \"${...}\".")
 	default:
 		d.Errorf(e.Range(), "Expression not allowed",
 			"A model holds literal values, lists and objects only; write the value itself instead of this expression.")
