@@ -44,18 +44,11 @@ const (
 // lists, objects with bare or quoted keys). Only constructs of constant
 // value can be allowed.
 type Allow struct {
-	Interpolation bool // Interpolation and LoneInterpolation
-	Not           bool
+	Not bool // the logical negation of a literal
 }
 
 func (a Allow) admits(c Construct) bool {
-	switch c {
-	case Interpolation, LoneInterpolation:
-		return a.Interpolation
-	case Not:
-		return a.Not
-	}
-	return false
+	return c == Not && a.Not
 }
 
 // Literal reports whether expr is made of literal values only, besides
