@@ -192,6 +192,9 @@ func (d *diagnoser) numberValue(v cty.Value, rng hcl.Range, what label) (float64
 		d.Errorf(rng, "Number too large", "%s is beyond ±%g; check the units and the decimal point.", what, MaxMagnitude)
 		return 0, false
 	}
+	if f == 0 {
+		f = 0 // -0 as written is zero, which no output prints with a sign
+	}
 	return f, true
 }
 

@@ -460,6 +460,9 @@ func (d *decoder) number(expr hcl.Expression, name string) (float64, bool) {
 		d.Errorf(expr.Range(), fmt.Sprintf("Invalid value for %q", name), "%s is too large to be a finite number.", name)
 		return 0, false
 	}
+	if f == 0 {
+		f = 0 // -0 as written is zero, which no output prints with a sign
+	}
 	return f, true
 }
 

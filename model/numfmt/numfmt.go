@@ -369,6 +369,9 @@ func Written(v float64) string {
 	if !Finite(v) {
 		return NotFinite
 	}
+	if v == 0 {
+		return "0" // also -0
+	}
 	var buf [32]byte
 	short := strconv.AppendFloat(buf[:0], v, 'e', -1, 64)
 	digits := 0

@@ -125,6 +125,11 @@ func TestTables(t *testing.T) {
 	assert.Equal(t, 1e20, Round(1e20, 2), "too large to scale")
 }
 
+// A zero written with a sign prints as 0, as every other form does.
+func TestWrittenNegativeZero(t *testing.T) {
+	assert.Equal(t, "0", Written(math.Copysign(0, -1)))
+}
+
 func TestWritten(t *testing.T) {
 	twenty := 20.0
 	for _, c := range []struct {

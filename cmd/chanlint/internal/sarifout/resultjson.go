@@ -259,12 +259,15 @@ func (e *jsonWriter) raw(s string) { e.b = append(e.b, s...) }
 
 func (e *jsonWriter) int(n int) { e.b = strconv.AppendInt(e.b, int64(n), 10) }
 
-// float writes a number as encoding/json does; a non-finite one, which no
-// finding should hold, as null (see finite).
+// float writes a number as encoding/json does, but a negative zero as 0;
+// a non-finite one, which no finding should hold, as null (see finite).
 func (e *jsonWriter) float(x float64) {
 	if !numfmt.Finite(x) {
 		e.raw("null")
 		return
+	}
+	if x == 0 {
+		x = 0 // no output prints "-0"
 	}
 	f := byte('f')
 	if a := math.Abs(x); a != 0 && (a < 1e-6 || a >= 1e21) {

@@ -897,6 +897,9 @@ func finite(x float64) any {
 	if !numfmt.Finite(x) {
 		return nil
 	}
+	if x == 0 {
+		return 0.0 // also -0: no output prints "-0"
+	}
 	return x
 }
 

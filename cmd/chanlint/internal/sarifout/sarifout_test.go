@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"flag"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -331,4 +332,14 @@ func TestStaleApprovalLocatedInItsFile(t *testing.T) {
 	assert.Contains(t, *res[0].Message.Text, "stations 0–150 ft")
 	assert.Equal(t, "models/alder.chan.hcl", *res[1].Locations[0].PhysicalLocation.ArtifactLocation.URI)
 	assert.Contains(t, *res[1].Message.Text, " m: ")
+}
+
+// A negative zero reaches SARIF's result properties as 0, in both writers.
+func TestNegativeZeroProperty(t *testing.T) {
+	negZero := math.Copysign(0, -1)
+	assert.Equal(t, any(0.0), finite(negZero))
+	assert.False(t, math.Signbit(finite(negZero).(float64)))
+	e := jsonWriter{}
+	e.float(negZero)
+	assert.Equal(t, "0", string(e.b))
 }
