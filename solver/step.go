@@ -618,9 +618,9 @@ func (s *stepper) critical(xEnd, remaining float64, out *[2]pt) int {
 // 1 % of F = 1 (an S1 curve upstream, an M3 curve downstream): there a
 // step in distance is rejected again and again because the energy
 // equation has no root over it, while the depth steps toward critical
-// depth and the last one lands on it, where the branch ends (that point is
-// a fallback, as the step doubling would write it). ok is false when the
-// energy gives no positive distance.
+// depth and the last one lands on it, where the branch ends (the profile
+// reaches critical depth there; the points beyond it are the fallbacks).
+// ok is false when the energy gives no positive distance.
 //
 // The local error of the distance is that of the trapezoidal rule with
 // depth as the variable: for Sf and dx/dy = (1 − F²)/(S0 − Sf) varying
@@ -724,7 +724,7 @@ func (s *stepper) direct(xEnd, remaining float64, out *[2]pt) (int, bool) {
 			return 1, true
 		}
 		xu := s.x + dir*dx
-		out[0] = pt{x: xu, y: yu, piece: s.pi, super: s.super, fallback: last}
+		out[0] = pt{x: xu, y: yu, piece: s.pi, super: s.super}
 		s.wrote(st, true, stepState{}, false)
 		s.slope = (yu - s.y) / (xu - s.x)
 		s.x, s.y, s.k, s.atCrit, s.prevH = xu, yu, st, last, 0
