@@ -99,5 +99,13 @@ func TestNewtonStepMatchesBrent(t *testing.T) {
 		if math.Abs(st.e-want.e) > DefaultTolerance || half*math.Abs(st.sf-want.sf) > DefaultTolerance {
 			t.Fatalf("state %+v, want %+v", st, want)
 		}
+		// Its squared Froude number too, which the next step's profile
+		// slope (S0 − Sf)/(1 − F²) is taken from: a state carried by a
+		// last correction of up to 1e-4 of the depth is within the
+		// second order of it, 1e-6 of F² (F² varies as about y⁻³ in these
+		// sections, so a stale one would be off by up to 3e-4 of it).
+		if math.Abs(st.f2-want.f2) > 1e-6*want.f2 || st.y != y {
+			t.Fatalf("state at %.12g: F² %.12g at depth %.12g, want %.12g", y, st.f2, st.y, want.f2)
+		}
 	})
 }

@@ -74,9 +74,10 @@ type stepState struct {
 	dsf float64 // dSf/dy where the section gives it in closed form, else NaN
 	m   float64 // specific force Q²/(gA) + A·z̄ (see force)
 	a   float64 // flow area
-	// y is the depth the section was evaluated at: that of the state, or
-	// next to it when the state was carried by a last Newton correction
-	// (newtonStep), which moves e, sf and m but not f2 and dsf.
+	// y is the depth of e, sf, f2 and m: the one the section was
+	// evaluated at, or the depth a last Newton correction (newtonStep)
+	// carried them to, to first order. dsf stays that of the evaluated
+	// depth, next to it (it only guides Newton's method).
 	y float64
 }
 
@@ -134,6 +135,16 @@ func (f *flowCtx) eval(p *piece, y float64) stepState {
 	return stepState{e: y + v*v/(2*g.g), sf: sf, f2: v * v * t / (g.g * a),
 		dsf: -2 * sf * (t/a + (2.0/3)*dr/r),
 		m:   f.q*f.q/(g.g*a) + (g.b*yy*yy/2 + g.z*yy*yy*yy/3), a: a, y: y}
+}
+
+// f2Slope is dF²/dy at depth y of a prismatic section (rectangle,
+// trapezoid, triangle), from its state there: with F² = Q²T/(gA³),
+// dA/dy = T and dT/dy = 2z,
+//
+//	dF²/dy = F²·(2z/T − 3T/A).
+func f2Slope(g *Geometry, y float64, st stepState) float64 {
+	t := g.b + 2*g.z*clampDepth(y)
+	return st.f2 * (2*g.z/t - 3*t/st.a)
 }
 
 // gvfSlope is dy/dx = (S0 − Sf)/(1 − F²) at a state, the differential
@@ -900,6 +911,15 @@ func (f *flowCtx) newtonStep(p *piece, xk float64, k stepState, xu float64, supe
 			st.e -= (1 - st.f2) * corr
 			st.sf -= st.dsf * corr
 			st.m -= st.a * (1 - st.f2) * corr
+			// F² too: left at y it would be off by a first-order share of
+			// the correction, and so would the profile slope
+			// (S0 − Sf)/(1 − F²) the next step predicts from and sizes its
+			// error estimate by. Whether this shortcut is taken depends on
+			// the tolerance, which is in the model's length unit, so a
+			// stale F² made the step sizes, and the profile within its
+			// step tolerance, depend on the unit system.
+			st.f2 -= f2Slope(p.geo, y, st) * corr
+			st.y = y - corr
 			return y - corr, true, st
 		}
 		prev = st
