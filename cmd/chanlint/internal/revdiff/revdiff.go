@@ -6,6 +6,7 @@
 package revdiff
 
 import (
+	"cmp"
 	"math"
 	"slices"
 
@@ -232,13 +233,16 @@ func compareReach(event string, old, new *solver.ReachResult, banks bankCache, u
 		}
 	}
 	limit := old.Points[len(old.Points)-1].Station
-	for _, pt := range new.Points {
+	for k, pt := range new.Points {
 		x := pt.Station
 		if x > limit+1e-9 {
 			break
 		}
-		ow := solver.AtStation(old.Points, x, func(p *solver.Point) float64 { return p.WSE })
-		ov := solver.AtStation(old.Points, x, func(p *solver.Point) float64 { return p.Velocity })
+		// The first of two points at one station (a jump, a section
+		// change) is the upstream side: compare it with that side.
+		upstream := k+1 < len(new.Points) && new.Points[k+1].Station == x
+		ow := oldAt(old.Points, x, upstream, func(p *solver.Point) float64 { return p.WSE })
+		ov := oldAt(old.Points, x, upstream, func(p *solver.Point) float64 { return p.Velocity })
 		dw, dv := pt.WSE-ow, pt.Velocity-ov
 		track(&p.Rise, dw, x, true)
 		track(&p.Fall, dw, x, false)
@@ -267,4 +271,16 @@ func compareReach(event string, old, new *solver.ReachResult, banks bankCache, u
 		first = false
 	}
 	return p
+}
+
+// oldAt is the existing profile's value at station x
+// (solver.AtStation, which gives the downstream side where the profile
+// holds two points at x), or with upstream the first of those points.
+func oldAt(pts []solver.Point, x float64, upstream bool, v func(*solver.Point) float64) float64 {
+	if upstream {
+		if i, found := slices.BinarySearchFunc(pts, x, func(p solver.Point, x float64) int { return cmp.Compare(p.Station, x) }); found {
+			return v(&pts[i])
+		}
+	}
+	return solver.AtStation(pts, x, v)
 }

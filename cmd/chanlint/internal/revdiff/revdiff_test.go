@@ -3,6 +3,8 @@ package revdiff
 import (
 	"fmt"
 	"math"
+	"os"
+	"path/filepath"
 	"testing"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
@@ -144,6 +146,32 @@ func TestIdenticalRevisions(t *testing.T) {
 		assert.Zero(t, p.Fall.Delta, p.Reach)
 		assert.True(t, p.HasFreeboard)
 		assert.Zero(t, p.LessFree.Delta)
+	}
+}
+
+// TestIdenticalRevisionsWithJumps: the demo compared with itself changes
+// nothing either, at its hydraulic jumps and other stations where a
+// profile holds two points (the depth on each side) included: each
+// side is compared with the same side of the existing profile.
+//
+// Source: common practice (no published source).
+func TestIdenticalRevisionsWithJumps(t *testing.T) {
+	src, err := os.ReadFile(filepath.Join("..", "..", "..", "..", "testdata", "demo", "kestrel-ridge.chan.hcl"))
+	require.NoError(t, err)
+	pol, diags := rules.Language().Pack("baseline")
+	require.False(t, diags.HasErrors(), diags.Error())
+	d := Compare(solved(t, "old.chan.hcl", string(src), pol), solved(t, "new.chan.hcl", string(src), pol), pol)
+	require.NotEmpty(t, d.Profiles)
+	for _, p := range d.Profiles {
+		assert.Zero(t, p.Rise.Delta, "%s %s at %v", p.Event, p.Reach, p.Rise.Station)
+		assert.Zero(t, p.Fall.Delta, "%s %s at %v", p.Event, p.Reach, p.Fall.Station)
+		assert.Zero(t, p.Faster.Delta, "%s %s", p.Event, p.Reach)
+		assert.Zero(t, p.Slower.Delta, "%s %s", p.Event, p.Reach)
+		assert.Zero(t, p.LessFree.Delta, "%s %s", p.Event, p.Reach)
+		assert.Zero(t, p.MoreFree.Delta, "%s %s", p.Event, p.Reach)
+		for i := range p.Stations {
+			assert.Equal(t, p.OldWSE[i], p.NewWSE[i], "%s %s at %v", p.Event, p.Reach, p.Stations[i])
+		}
 	}
 }
 
