@@ -398,18 +398,14 @@ func (f *flowCtx) stepFrom(p *piece, xk, yk float64, k stepState, xu float64, su
 }
 
 // slopeOfProfile is dy/dx = (S0 − Sf)/(1 − F²), the differential equation
-// of gradually varied flow (Chow 1959, eq. 9-13), used only to size the
-// first step.
-func (f *flowCtx) slopeOfProfile(p *piece, y float64) float64 {
-	f.evals++
-	pr := p.geo.Props(y)
-	c := f.q / pr.Conveyance
-	f2 := pr.Alpha * f.q * f.q * pr.TopWidth / (p.geo.g * pr.Area * pr.Area * pr.Area)
-	den := 1 - f2
+// of gradually varied flow (Chow 1959, eq. 9-13), at a state, used only to
+// size the first step (unlike gvfSlope it is taken up to 1e-6 of F = 1).
+func (f *flowCtx) slopeOfProfile(k stepState) float64 {
+	den := 1 - k.f2
 	if math.Abs(den) < 1e-6 {
 		return math.Inf(1)
 	}
-	return (f.s0 - c*c) / den
+	return (f.s0 - k.sf) / den
 }
 
 // pt is a computed point while profiles are built.
@@ -520,11 +516,11 @@ func (s *stepper) step(xEnd float64, out *[2]pt) int {
 	if remaining <= 0 {
 		return 0
 	}
-	if s.dx <= 0 {
-		s.dx = s.firstStep(remaining)
-	}
 	if !s.hasK {
 		s.k, s.hasK = s.f.eval(s.p, s.y), true
+	}
+	if s.dx <= 0 {
+		s.dx = s.firstStep(remaining)
 	}
 	yk := s.f.gvfSlope(s.k)
 	if !s.atCrit && s.prevH > 0 && !math.IsNaN(yk) && !math.IsNaN(s.prevSlope) {
@@ -1033,7 +1029,7 @@ func (s *stepper) firstStep(remaining float64) float64 {
 	if s.atCrit {
 		return math.Max(remaining*1e-3, s.dxMin)
 	}
-	dydx := s.f.slopeOfProfile(s.p, s.y)
+	dydx := s.f.slopeOfProfile(s.k)
 	if !math.IsInf(dydx, 0) && !math.IsNaN(dydx) {
 		s.slope = dydx // seeds the depth guess of the first step
 	}
