@@ -8,6 +8,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
+	"github.com/chanlint/chanlint/rules"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
@@ -197,4 +199,13 @@ func TestCriterionLine(t *testing.T) {
 	code, out, errOut := runIn(dir, runOpts{}, "check", "ditch.chan.hcl", "--policy", "./county.policy.hcl", "--color", "never")
 	require.Equal(t, exitFindings, code, errOut)
 	assert.Contains(t, out, "    criterion: County Drainage Manual (version 2026.1), section 5.3.2\n")
+}
+
+// A changed finding whose value moved never reads as unchanged in the
+// text of chanlint diff.
+func TestChangeTextValueMoved(t *testing.T) {
+	old := rules.Finding{Rule: "shear_stress", HasValue: true, Value: 29.9959, Unit: "N/m²", Message: "m"}
+	moved := old
+	moved.Value = 29.9901
+	assert.Contains(t, changeText(&revdiff.Change{Old: old, New: moved}, "m"), "value 30.00 → 29.99 N/m²")
 }

@@ -409,14 +409,17 @@ func signedNum(x float64) string {
 }
 
 // changeText describes a finding that changed: "reach R, event E:
-// value 0.162 → 0.201 m, stations 305–350 → 310–350 m: message".
+// value 0.162 → 0.201 m, stations 305–350 → 310–350 m: message", the
+// two values to the same decimals (numfmt.Pair).
 func changeText(c *revdiff.Change, unit string) string {
 	var parts []string
 	if w := c.New.Where(unit); w != "" {
 		parts = append(parts, w)
 	}
 	if c.New.HasValue {
-		parts = append(parts, "value "+numfmt.Num(c.Old.Value)+" → "+numfmt.Num(c.New.Value)+" "+c.New.Unit)
+		// Pair: a value that moved never reads as unchanged ("30 → 30").
+		was, now := numfmt.Pair(c.Old.Value, c.New.Value)
+		parts = append(parts, "value "+was+" → "+now+" "+c.New.Unit)
 	}
 	if c.New.HasSpan {
 		parts = append(parts, "stations "+numfmt.Span(c.Old.FromStation, c.Old.ToStation)+" → "+numfmt.Span(c.New.FromStation, c.New.ToStation)+" "+unit)

@@ -4,6 +4,7 @@ import (
 	"strings"
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
+	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/rules"
 )
 
@@ -56,6 +57,11 @@ func revisionSection(d *revdiff.Diff, unit string) *revisionView {
 		cr := changeRow{Rule: c.New.Rule, Reach: c.New.Reach, Event: c.New.Event, Message: c.New.Text()}
 		if c.New.HasValue {
 			cr.Value = num(c.Old.Value) + " → " + num(c.New.Value)
+			if numfmt.Finite(c.Old.Value, c.New.Value) {
+				// A value that moved never reads as unchanged ("30 → 30").
+				was, now := numfmt.Pair(c.Old.Value, c.New.Value)
+				cr.Value = was + " → " + now
+			}
 			if c.New.Unit != "" {
 				cr.Value += " " + c.New.Unit
 			}

@@ -11,6 +11,7 @@ import (
 
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/pipeline"
 	"github.com/chanlint/chanlint/cmd/chanlint/internal/revdiff"
+	"github.com/chanlint/chanlint/rules"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
@@ -129,4 +130,15 @@ func TestRevisionDrawn(t *testing.T) {
 	for _, s := range []string{`class="existing"`, "existing water surface", "Revision changes"} {
 		assert.NotContains(t, plain, s)
 	}
+}
+
+// A changed finding whose value moved never reads as unchanged: the two
+// values print to the decimals that tell them apart.
+func TestRevisionChangedValueMoved(t *testing.T) {
+	old := rules.Finding{Rule: "shear_stress", HasValue: true, Value: 29.9959, Unit: "N/m²"}
+	moved := old
+	moved.Value = 29.9901
+	rv := revisionSection(&revdiff.Diff{Changed: []revdiff.Change{{Old: old, New: moved}}}, "m")
+	require.Len(t, rv.Changed, 1)
+	assert.Equal(t, "30.00 → 29.99 N/m²", rv.Changed[0].Value)
 }
