@@ -195,7 +195,7 @@ func TestSuperelevation(t *testing.T) {
 	m.Bends = []*model.Bend{bend}
 	st := []float64{250, 300, 340, 380, 420}
 	pts := depthsPoints(r, st, []float64{0.67, 0.67, 0.67, 0.67, 0.67}, []float64{3, 3, 3, 3, 3})
-	pts[2].Froude = 1.5 // take the supercritical coefficient at 340
+	pts[2].Froude, pts[2].Regime = 1.5, solver.Supercritical // take the supercritical coefficient at 340
 	cfg := &policies.RuleConfig{Values: map[string]policies.Value{"minimum": {Number: 0.3}, "subcritical_coefficient": {Number: 0.5}, "supercritical_coefficient": {Number: 1.0}}}
 	fs := runRule(t, "superelevation", m, result(m, r, pts, nil, nil), cfg)
 	// Source: USACE EM 1110-2-1601 (from memory): Δy = C·V²·T/(g·rc).

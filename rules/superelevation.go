@@ -42,7 +42,8 @@ be at least the policy's minimum. The finding is at the bend.`,
     remaining = invert + height − (WSE + Δy);  fails where remaining < minimum
 V mean velocity, T top width, rc the bend's centreline radius, g gravity;
 C = subcritical_coefficient for subcritical flow (F < 1), else
-supercritical_coefficient. Unset coefficients default to 0.5 and 1.0.
+supercritical_coefficient; flow within 1e-4 of F = 1 counts as critical
+(as the solver classifies it), so it takes the supercritical coefficient. Unset coefficients default to 0.5 and 1.0.
 The message gives the rise, the bank rise needed (minimum − remaining at
 its largest) and the radius that would pass, where one exists.
 Closed conduits are not checked (their crown is the capacity rule's
@@ -87,10 +88,7 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 					if sec == nil || sec.Closed() || p.Depth <= 0 || !finiteNum(sec.Height) {
 						return false
 					}
-					c := cSub
-					if p.Froude >= 1 {
-						c = cSup
-					}
+					c := bendCoefficient(p, cSub, cSup)
 					dy := c * p.Velocity * p.Velocity * p.TopWidth / (g * bend.Radius)
 					top := p.Invert + sec.Height
 					if p.WSE > top+1e-12*max(1, sec.Height) {
@@ -142,13 +140,31 @@ func pointsBetween(rr *solver.ReachResult, lo, hi float64) (*solver.ReachResult,
 	return &cp, i
 }
 
+// bendCoefficient is C of the superelevation at a computed point: the
+// subcritical coefficient where the solver finds the flow subcritical,
+// else the supercritical one. The solver's regime, not F < 1, decides: at
+// critical depth (a control, or flow passing through it) F is 1 only to
+// rounding, 0.9999999999999998 in one unit system and 1.0000000000000002
+// in the other, and within the solver's criticalFroudeTol of 1 it tells
+// nothing about the regime; the larger rise of rapid flow is taken there.
+// A point without a regime (not from the solver) goes by F < 1.
+func bendCoefficient(p *solver.Point, cSub, cSup float64) float64 {
+	switch p.Regime {
+	case solver.Subcritical:
+		return cSub
+	case solver.Critical, solver.Supercritical:
+		return cSup
+	}
+	if p.Froude < 1 {
+		return cSub
+	}
+	return cSup
+}
+
 func superelevationMessage(rr *solver.ReachResult, bend *model.Bend, s span, cSub, cSup float64, u model.Units) (msg, remedy string) {
 	lu := u.Length()
 	p := &rr.Points[s.worst]
-	c := cSub
-	if p.Froude >= 1 {
-		c = cSup
-	}
+	c := bendCoefficient(p, cSub, cSup)
 	top := p.Invert + sectionAt(rr, p).Height
 	dy := top - p.WSE - s.value
 	rem, lim := numfmt.Pair(s.value, s.limit)

@@ -462,3 +462,28 @@ func TestFreeboardOnS3CurveSameInBothUnits(t *testing.T) {
 	// 1 m − 0.7314 m, against the 0.3 m minimum.
 	assert.InDelta(t, 0.8952, ratio[0], 1e-3)
 }
+
+// TestSuperelevationAtCriticalOutletSameInBothUnits: a bend that ends at
+// a free outfall, where the depth is the critical depth and the Froude
+// number is 1 only to rounding (1 in SI, 0.99999999999999978 in US for
+// this channel). The coefficient used to be chosen by F ≥ 1, so the last
+// point of the bend took C = 1 in SI and C = 0.5 in US: SI reported two
+// spans, US one. It is chosen by the solver's regime now, and critical
+// flow takes the supercritical coefficient in both.
+func TestSuperelevationAtCriticalOutletSameInBothUnits(t *testing.T) {
+	pol := baselinePack(t)
+	c := unitCase{shape: 1, width: 1.121, z: 1.5, height: 1.1, n: 0.014, lining: "concrete",
+		reaches: 1, lengths: [2]float64{200, 200}, slopes: [2]float64{0.001, 0.001},
+		flows: []float64{3.2}, outlet: 2, withBend: true, bendFrom: 0.5, bendTo: 1, bendRadius: 11}
+	var n [2]int
+	for i, u := range []model.Units{model.SI, model.US} {
+		got := ruleFindings(t, c.text(u), pol, "superelevation")
+		require.NotEmpty(t, got, "units %s", u)
+		n[i] = len(got)
+		last := got[len(got)-1]
+		// Source: U.S. Army Corps of Engineers, EM 1110-2-1601 (from
+		// memory): C = 1.0 for rapid flow; critical flow is not tranquil.
+		assert.Contains(t, last.Message, "C = 1,", "units %s", u)
+	}
+	assert.Equal(t, n[0], n[1], "spans in SI and in US")
+}
