@@ -769,7 +769,9 @@ func (s *solver) addJump(w *reachWork, p *piece, x, y1, y2 float64, why string) 
 			"the jump is held at station %s (%s): the specific forces on its two sides differ by %s %%, so its depths are those of the two profiles there, not a sequent pair",
 			num(x), why, num(100*math.Abs(m1-m2)/math.Max(m1, m2))))
 	}
-	if e1, e2 := w.f.eval(p, y1).e, w.f.eval(p, y2).e; e2 > e1 {
+	// A gain within the depths' tolerance is rounding, not a gain: a weak
+	// jump near critical flow loses next to no energy.
+	if e1, e2 := w.f.eval(p, y1).e, w.f.eval(p, y2).e; e2-e1 > w.f.tol {
 		w.res.Notes = append(w.res.Notes, noteInfo(x,
 			"the jump at station %s balances in specific force but gains %s of energy: the energy coefficient α of the section changes between its depths and the momentum coefficient is taken as 1, so its depths are approximate",
 			num(x), num(e2-e1)))
