@@ -83,8 +83,8 @@ type Limits struct {
 }
 
 // Bound applies lim to diags (sorted by position), clipping their texts
-// in place. The diagnostic that stands for the rest is an error at the
-// first one left out.
+// in place. The diagnostic that stands for the rest is at the first one
+// left out, an error if any of those is one and a warning otherwise.
 func Bound(diags hcl.Diagnostics, lim Limits) hcl.Diagnostics {
 	total := 0
 	for i, d := range diags {
@@ -94,8 +94,15 @@ func Bound(diags hcl.Diagnostics, lim Limits) hcl.Diagnostics {
 		if i < lim.Count && total <= lim.Bytes {
 			continue
 		}
+		// The note is as severe as the worst problem it hides: a file
+		// whose hidden problems are all warnings stays valid, and one
+		// that hides an error is invalid.
+		severity := hcl.DiagWarning
+		if diags[i:].HasErrors() {
+			severity = hcl.DiagError
+		}
 		more := &hcl.Diagnostic{
-			Severity: hcl.DiagError,
+			Severity: severity,
 			Summary:  "Too many problems",
 			Detail:   fmt.Sprintf("%d more problems from here on are not shown; fix the ones above and check again.", len(diags)-i),
 			Subject:  d.Subject,

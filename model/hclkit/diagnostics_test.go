@@ -66,10 +66,18 @@ func TestBound(t *testing.T) {
 	got := Bound(mk(5, "d"), lim)
 	require.Len(t, got, 4)
 	last := got[3]
-	assert.Equal(t, hcl.DiagError, last.Severity)
+	assert.Equal(t, hcl.DiagWarning, last.Severity, "only warnings are hidden: the file stays valid")
 	assert.Equal(t, "Too many problems", last.Summary)
 	assert.Equal(t, "2 more problems from here on are not shown; fix the ones above and check again.", last.Detail)
 	assert.Equal(t, 3, last.Subject.Start.Byte, "at the first one left out")
+
+	// An error among the hidden problems makes the note an error.
+	withError := mk(5, "d")
+	withError[4].Severity = hcl.DiagError
+	got = Bound(withError, lim)
+	require.Len(t, got, 4)
+	assert.Equal(t, hcl.DiagError, got[3].Severity, "an error is hidden")
+	assert.True(t, got.HasErrors())
 
 	// Details are clipped, and the byte bound cuts before the count.
 	long := strings.Repeat("x", 100)
