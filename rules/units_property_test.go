@@ -177,9 +177,11 @@ func TestFindingsIndependentOfUnits(t *testing.T) {
 	// Source: common practice (no published source): a unit system is a
 	// notation, not a design choice; the tolerances follow from the
 	// published constants above (Chow 1959, ch. 5: k = 1.486 ft^(1/3)/s).
-	// Relative: the depth tolerance of the solver is 1e-7 of the unit and
-	// its step control 2e-5 of the depth per step; 1e-4 leaves a margin
-	// of five.
+	// Relative: the step control is relative (1e-4 of the depth per
+	// step), so both systems compute the same points and differ by the
+	// 1e-7-of-the-unit depth tolerance of the solver and the 1.6e-6
+	// between the two gravities, about 1e-6 of a value; 1e-4 leaves a
+	// wide margin for a step decision tipped by those.
 	const valueTol = 1e-4
 	const shearTol = 1e-3    // twice the unit weight's 4.5e-4
 	const criticalTol = 0.10 // next to a critical control (see below)
@@ -207,7 +209,7 @@ func TestFindingsIndependentOfUnits(t *testing.T) {
 		c := drawUnitCase(t)
 		siSrc, usSrc := c.text(model.SI), c.text(model.US)
 		siRes, si := checkText(t, siSrc, pol)
-		_, us := checkText(t, usSrc, pol)
+		usRes, us := checkText(t, usSrc, pol)
 		gs, gu := groupFindings(si), groupFindings(us)
 		nearLimit := func(f Finding) bool {
 			return f.HasValue && f.Limit != 0 && math.Abs(f.Value-f.Limit) <= tolOf(f.Rule)*math.Abs(f.Limit)
@@ -217,13 +219,14 @@ func TestFindingsIndependentOfUnits(t *testing.T) {
 			aName  string
 			bName  string
 			source string
-		}{{gs, gu, "SI", "US", siSrc}, {gu, gs, "US", "SI", usSrc}} {
+			aRes   *solver.Result
+		}{{gs, gu, "SI", "US", siSrc, siRes}, {gu, gs, "US", "SI", usSrc, usRes}} {
 			for k, fs := range pair.a {
 				if _, ok := pair.b[k]; ok {
 					continue
 				}
 				for _, f := range fs {
-					if !nearLimit(f) {
+					if !nearLimit(f) && !borderlineJumpAt(pair.aRes, k, f.FromStation, f.ToStation) {
 						t.Fatalf("%s only: %s %s %s: %s (value %v, limit %v)\n%s", pair.aName, k.rule, k.reach, k.event, f.Message, f.Value, f.Limit, pair.source)
 					}
 				}
@@ -310,6 +313,41 @@ func spacingAround(res *solver.Result, k findingKey, from, to float64) float64 {
 		}
 	}
 	return 2*gap + 1e-6
+}
+
+// borderlineJumpFroude: a jump whose upstream Froude number is below this
+// may be found in one unit system only. The solver records a jump only
+// where F1 > 1 + 1e-4 (jumpRises: nearer 1 the flow is critical), and on a
+// slope within a hair of critical the supercritical profile sits at that
+// threshold: rapid found normal depth at F = 1.0001 exactly, where F
+// wandered by ±4e-6 between computed points and a jump rising 1.4e-4 of
+// the depth appeared in SI only. The margin is the step tolerance, 1e-4 of
+// the depth, which moves F by 1.5e-4 (F ∝ y^(−3/2) in a rectangle).
+// Source: closed form: F = V/√(g·y) with V = q/y in a rectangle.
+const borderlineJumpFroude = 1 + 1e-4 + 1.5e-4
+
+// borderlineJumpAt reports whether res has, on the finding's reach and
+// event, a jump with F1 below borderlineJumpFroude whose toe lies within
+// the span from..to or next to it (within the spacing of the points
+// around it).
+func borderlineJumpAt(res *solver.Result, k findingKey, from, to float64) bool {
+	slack := spacingAround(res, k, from, to)
+	for _, er := range res.Events {
+		if er.Event.Name != k.event {
+			continue
+		}
+		for _, rr := range er.Reaches {
+			if rr.Reach.Name != k.reach {
+				continue
+			}
+			for _, j := range rr.Jumps {
+				if j.Froude < borderlineJumpFroude && j.Station >= from-slack && j.Station <= max(to, from)+slack {
+					return true
+				}
+			}
+		}
+	}
+	return false
 }
 
 // dimensionless are the rules whose values are Froude numbers.
