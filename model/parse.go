@@ -152,6 +152,7 @@ const (
 	MaxTokens         = hclkit.MaxTokens
 	MaxStringPieces   = hclkit.MaxStringPieces
 	MaxNumberBytes    = hclkit.MaxNumberBytes
+	MaxTextBytes      = hclkit.MaxTextBytes
 	// MaxItems bounds the elements of one list, object, block body or
 	// argument list: more than any limit of the model allows (points,
 	// inflow entries, segments). The top level is bounded by the block

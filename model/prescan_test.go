@@ -81,6 +81,11 @@ var hostileExpressions = []struct {
 	{"dollar signs", "units = \"si\"\ntitle = \"", "$", "\"\n", "String in too many pieces"},
 	{"percent signs", "units = \"si\"\ntitle = \"", "%a", "\"\n", "String in too many pieces"},
 	{"heredoc dollar lines", "units = \"si\"\ntitle = <<EOT\n", "$a\n", "EOT\n", "String in too many pieces"},
+	// Text: the parser spends on every byte of a string (grapheme
+	// clusters, normalisation), whatever the token count.
+	{"text in one string", "units = \"si\"\ntitle = \"", "Straße, Überlauf — nördlich; ", "\"\n", "Too much text"},
+	{"text in short strings", "units = \"si\"\n", "title = \"a long name of a reach in the north\"\n", "", "Too much text"},
+	{"text in a heredoc", "units = \"si\"\ntitle = <<EOT\n", strings.Repeat("x", 60000) + "\n", "EOT\n", "Too much text"},
 	// Number literals: the parser's decimal conversion is quadratic in
 	// their length.
 	{"long number", "units = \"si\"\nx = 1", "1", "\n", "Number too long"},
@@ -163,6 +168,7 @@ func TestPreScanAcceptsLargeValidInput(t *testing.T) {
 		"invalid":        strings.Repeat("@", MaxInvalid) + "\n",
 		"literal signs":  "title = \"" + strings.Repeat("$${", (MaxStringPieces-1)/2) + "\"\n",
 		"comment tokens": strings.Repeat("# comment\n", MaxTokens/2-10),
+		"text":           "title = \"" + strings.Repeat("é", MaxTextBytes/2-1) + "\"\n",
 	} {
 		assert.Empty(t, CheckNesting("v.chan.hcl", []byte(src)), name)
 	}
@@ -293,12 +299,13 @@ func BenchmarkPreScanHostile(b *testing.B) {
 		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(tokens), "ns/token")
 	})
 	// Few tokens but many bytes: the lexer's cost per byte (it measures
-	// every token's columns in grapheme clusters), for 4 MiB of valid
-	// text in one string and in comment lines.
+	// every token's columns in grapheme clusters, and normalises the text
+	// of strings), for MaxTextBytes of text in one string and 4 MiB of
+	// comment lines.
 	tail := "reach \"r\" {\n  from = \"a\"\n  to = \"b\"\n  length = 100\n  section = \"s\"\n  slope = 0.001\n}\nevent \"e\" {\n  inflow = { r = 1 }\n  outlet = { condition = \"normal\" }\n}\n"
 	head := "units = \"si\"\nsection \"s\" {\n  shape = \"rectangle\"\n  bottom_width = 2\n  height = 1\n  roughness = 0.014\n}\n" + tail
 	for name, src := range map[string][]byte{
-		"parse-4MiB-one-string": repeatTo(head+"title = \"", "Straße, Überlauf — nördlich; ", "\"\n", MaxFileSize),
+		"parse-text-at-limit": repeatTo(head+"title = \"", "Straße, Überlauf — nördlich; ", "\"\n", MaxTextBytes),
 		"parse-4MiB-comments":   repeatTo(head, "# a comment line that explains the model\n", "", MaxFileSize),
 	} {
 		b.Run(name, func(b *testing.B) {

@@ -43,6 +43,13 @@ const (
 	// MaxNumberBytes bounds the length of a number literal: the parser's
 	// decimal conversion is quadratic in it.
 	MaxNumberBytes = 64
+	// MaxTextBytes bounds the text of all strings and heredocs of one
+	// file together. The parser spends on every byte of a string (it
+	// measures columns in grapheme clusters, then normalises the text),
+	// whatever the token count: 4 MiB of text in one string costs more
+	// than a file at the token budget. Names, titles and reasons need a
+	// small part of it.
+	MaxTextBytes = 1 << 20
 )
 
 // ScanBounds are the bounds of the pre-scan that a language sets from its
@@ -77,6 +84,7 @@ const (
 	ScanInvalid
 	ScanEncoding
 	ScanHeredoc
+	ScanText
 )
 
 // CheckNesting is the cheap pre-scan that runs before the HCL parser on
@@ -87,7 +95,8 @@ const (
 // body of more than bounds.Items elements, a string of more than
 // MaxInterpolations interpolations or MaxStringPieces pieces, a number
 // literal longer than MaxNumberBytes, more than bounds.Invalid invalid
-// characters, and the token where the file exceeds MaxTokens. The scan is
+// characters, the byte where the text of its strings exceeds
+// MaxTextBytes, and the token where the file exceeds MaxTokens. The scan is
 // linear in the size of the file and allocates only its bracket stack.
 func CheckNesting(filename string, src []byte, bounds ScanBounds) hcl.Diagnostics {
 	pos, problem, _ := Scan(src, bounds)
@@ -124,6 +133,9 @@ func CheckNesting(filename string, src []byte, bounds ScanBounds) hcl.Diagnostic
 	case ScanHeredoc:
 		summary = "Unsupported heredoc"
 		detail = "The marker of this heredoc is not a plain ASCII name, or not followed by the line end; write it as <<EOT (or <<-EOT) at the end of the line."
+	case ScanText:
+		summary = "Too much text"
+		detail = fmt.Sprintf("The strings and heredocs of the file hold more than %d MiB of text up to here; names, titles and reasons need far less. Shorten the long texts, or keep notes in comments.", MaxTextBytes>>20)
 	case ScanInvalid:
 		summary = "Too many invalid characters"
 		detail = fmt.Sprintf("More than %d characters, escape sequences or unterminated strings of the file up to here are not valid HCL; this is not a model or policy file.", bounds.Invalid)
@@ -191,6 +203,7 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 	chain, value, item := 0, false, false
 	adjacent := 0 // names, numbers and strings in a row
 	invalid := 0
+	text := 0  // bytes inside strings and heredocs
 	tokens = 1 // the end of the file
 	// lineComment is true after a # or // comment: the line end belongs
 	// to the comment's token.
@@ -210,6 +223,7 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 		c := src[i]
 		top := &stack[len(stack)-1]
 		if top.kind == quoted || top.kind == heredoc {
+			text++
 			if top.kind == heredoc && (i == 0 || src[i-1] == '\n') {
 				tokens++ // a line, or the closing marker
 				end := i + bytes.IndexByte(src[i:], '\n')
@@ -270,6 +284,8 @@ func Scan(src []byte, bounds ScanBounds) (off int, problem Problem, tokens int) 
 				return i, ScanNested, tokens
 			case top.pieces > MaxStringPieces:
 				return i, ScanPieces, tokens
+			case text > MaxTextBytes:
+				return i, ScanText, tokens
 			case tokens > MaxTokens:
 				return i, ScanTokens, tokens
 			case invalid > bounds.Invalid:
