@@ -306,7 +306,7 @@ func BenchmarkPreScanHostile(b *testing.B) {
 	head := "units = \"si\"\nsection \"s\" {\n  shape = \"rectangle\"\n  bottom_width = 2\n  height = 1\n  roughness = 0.014\n}\n" + tail
 	for name, src := range map[string][]byte{
 		"parse-text-at-limit": repeatTo(head+"title = \"", "Straße, Überlauf — nördlich; ", "\"\n", MaxTextBytes),
-		"parse-4MiB-comments":   repeatTo(head, "# a comment line that explains the model\n", "", MaxFileSize),
+		"parse-4MiB-comments": repeatTo(head, "# a comment line that explains the model\n", "", MaxFileSize),
 	} {
 		b.Run(name, func(b *testing.B) {
 			b.SetBytes(int64(len(src)))
