@@ -109,3 +109,32 @@ func TestNewtonStepMatchesBrent(t *testing.T) {
 		}
 	})
 }
+
+// TestNewtonStepCarriedEnergySteepSupercritical is the case rapid found
+// for TestNewtonStepMatchesBrent: a supercritical step at 0.375 of the
+// critical depth (F² = 24) whose last correction was applied without a
+// new evaluation on a secant estimate of E″ that fell short, so that the
+// carried energy was 1.005e-7 m off at a tolerance of 1e-7 m.
+func TestNewtonStepCarriedEnergySteepSupercritical(t *testing.T) {
+	g := NewGeometry(trapezoid("t", 0.671875, 0.06640625, 0.015, 6), model.SI)
+	q := 20.0
+	yc, err := CriticalDepth(g, q)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := flowCtx{q: q, zUp: 10, s0: 0.05, length: 1000, tol: DefaultTolerance}
+	p := piece{from: 0, to: 1000, geo: g, yc: yc, ycF: yc}
+	yk := 0.375 * yc
+	k := f.eval(&p, yk)
+	y, ok, st := f.newtonStep(&p, 500, k, 500+0.126953125, true, yk*1.0060958862304688, yk)
+	if !ok {
+		t.Fatal("no step")
+	}
+	// Source: common practice (no published source): the state of the
+	// depth found is that of a fresh evaluation there, within the
+	// tolerance as a head.
+	want := f.eval(&p, y)
+	if math.Abs(st.e-want.e) > DefaultTolerance {
+		t.Fatalf("energy %.12g, want %.12g (off %.3g)", st.e, want.e, st.e-want.e)
+	}
+}
