@@ -294,25 +294,34 @@ func TestFindingsIndependentOfUnits(t *testing.T) {
 // runs.
 func spacingAround(res *solver.Result, k findingKey, from, to float64) float64 {
 	gap := 0.0
-	for _, er := range res.Events {
-		if er.Event.Name != k.event {
-			continue
-		}
-		for _, rr := range er.Reaches {
-			if rr.Reach.Name != k.reach {
-				continue
-			}
-			for i := 0; i+1 < len(rr.Points); i++ {
-				a, b := rr.Points[i].Station, rr.Points[i+1].Station
-				for _, x := range []float64{from, to} {
-					if x >= a-gap && x <= b+gap || math.Abs(x-a) < 1e-9 || math.Abs(x-b) < 1e-9 {
-						gap = math.Max(gap, b-a)
-					}
+	for _, rr := range reachesOf(res, k) {
+		for i := 0; i+1 < len(rr.Points); i++ {
+			a, b := rr.Points[i].Station, rr.Points[i+1].Station
+			for _, x := range []float64{from, to} {
+				if x >= a-gap && x <= b+gap || math.Abs(x-a) < 1e-9 || math.Abs(x-b) < 1e-9 {
+					gap = math.Max(gap, b-a)
 				}
 			}
 		}
 	}
 	return 2*gap + 1e-6
+}
+
+// reachesOf lists the results of res for the finding's event and reach
+// (one, or none when the finding has no reach or event).
+func reachesOf(res *solver.Result, k findingKey) []*solver.ReachResult {
+	var out []*solver.ReachResult
+	for _, er := range res.Events {
+		if er.Event.Name != k.event {
+			continue
+		}
+		for _, rr := range er.Reaches {
+			if rr.Reach.Name == k.reach {
+				out = append(out, rr)
+			}
+		}
+	}
+	return out
 }
 
 // borderlineJumpFroude: a jump whose upstream Froude number is below this
@@ -332,18 +341,10 @@ const borderlineJumpFroude = 1 + 1e-4 + 1.5e-4
 // around it).
 func borderlineJumpAt(res *solver.Result, k findingKey, from, to float64) bool {
 	slack := spacingAround(res, k, from, to)
-	for _, er := range res.Events {
-		if er.Event.Name != k.event {
-			continue
-		}
-		for _, rr := range er.Reaches {
-			if rr.Reach.Name != k.reach {
-				continue
-			}
-			for _, j := range rr.Jumps {
-				if j.Froude < borderlineJumpFroude && j.Station >= from-slack && j.Station <= max(to, from)+slack {
-					return true
-				}
+	for _, rr := range reachesOf(res, k) {
+		for _, j := range rr.Jumps {
+			if j.Froude < borderlineJumpFroude && j.Station >= from-slack && j.Station <= max(to, from)+slack {
+				return true
 			}
 		}
 	}
@@ -356,23 +357,15 @@ var dimensionless = map[string]bool{"froude_band": true, "jump_type": true}
 // criticalNear reports whether the SI result has a point at critical depth
 // (a control, or flow passing through it) within a span or next to it.
 func criticalNear(res *solver.Result, k findingKey, from, to float64) bool {
-	for _, er := range res.Events {
-		if er.Event.Name != k.event {
-			continue
-		}
-		for _, rr := range er.Reaches {
-			if rr.Reach.Name != k.reach {
-				continue
-			}
-			slack := spacingAround(res, k, from, to)
-			for _, p := range rr.Points {
-				// froude_band leaves defaultControlBuffer critical depths
-				// next to a control unchecked, so its spans end that far
-				// from one, still on the singular part of the profile.
-				sl := slack + defaultControlBuffer*p.CriticalDepth
-				if p.Station >= from-sl && p.Station <= to+sl && (p.Regime == solver.Critical || math.Abs(p.Froude-1) < 0.05) {
-					return true
-				}
+	for _, rr := range reachesOf(res, k) {
+		slack := spacingAround(res, k, from, to)
+		for _, p := range rr.Points {
+			// froude_band leaves defaultControlBuffer critical depths
+			// next to a control unchecked, so its spans end that far
+			// from one, still on the singular part of the profile.
+			sl := slack + defaultControlBuffer*p.CriticalDepth
+			if p.Station >= from-sl && p.Station <= to+sl && (p.Regime == solver.Critical || math.Abs(p.Froude-1) < 0.05) {
+				return true
 			}
 		}
 	}
