@@ -144,6 +144,9 @@ func checkTarget(path string) error {
 type File struct {
 	Path string
 	Data []byte
+	// Parts follow Data in the file, in order: a page assembled from
+	// pieces is written without first being copied into one buffer.
+	Parts [][]byte
 }
 
 // Write replaces path with data: the bytes go to a temporary file in the
@@ -152,6 +155,11 @@ type File struct {
 // regular file is refused.
 func Write(path string, data []byte) error {
 	return WriteAll([]File{{Path: path, Data: data}})
+}
+
+// WriteParts is Write of the parts one after another.
+func WriteParts(path string, parts [][]byte) error {
+	return WriteAll([]File{{Path: path, Parts: parts}})
 }
 
 // WriteAll replaces a group of files together: every target is checked and
@@ -200,6 +208,11 @@ func writeTemp(f File) (string, error) {
 		return "", err
 	}
 	_, err = tmp.Write(f.Data)
+	for _, p := range f.Parts {
+		if err == nil {
+			_, err = tmp.Write(p)
+		}
+	}
 	if err == nil {
 		err = tmp.Chmod(0o644)
 	}

@@ -110,3 +110,19 @@ func TestWriteRefusesNonRegularTargetsAndKeepsOldFile(t *testing.T) {
 		assert.NotContains(t, e.Name(), ".tmp-", "no temporary file is left behind")
 	}
 }
+
+// TestWritePartsInOrder: WriteParts writes its parts one after another,
+// empty ones included, and a File's Parts follow its Data.
+func TestWritePartsInOrder(t *testing.T) {
+	dir := t.TempDir()
+	p := filepath.Join(dir, "page.html")
+	require.NoError(t, os.WriteFile(p, []byte("old page"), 0o644))
+	require.NoError(t, WriteParts(p, [][]byte{[]byte("<head>"), nil, []byte("a"), []byte("b</html>")}))
+	b, err := os.ReadFile(p)
+	require.NoError(t, err)
+	assert.Equal(t, "<head>ab</html>", string(b))
+	require.NoError(t, WriteAll([]File{{Path: p, Data: []byte("1"), Parts: [][]byte{[]byte("2"), []byte("3")}}}))
+	b, err = os.ReadFile(p)
+	require.NoError(t, err)
+	assert.Equal(t, "123", string(b))
+}
