@@ -477,19 +477,20 @@ func (a *app) writeBaselineFile(path string, results []*pipeline.Result) (n, exc
 	if err != nil {
 		return 0, 0, err
 	}
-	return n, len(all) - n, a.writeOutput(abs, buf.Bytes(), results)
+	return n, len(all) - n, a.writeOutput(abs, results, buf.Bytes())
 }
 
-// writeOutput replaces the file at abs with data (see safefile.Write): a
-// failed write leaves the previous file intact, a target that is not a
-// regular file is refused, and so is one of the run's input models.
-func (a *app) writeOutput(abs string, data []byte, inputs []*pipeline.Result) error {
+// writeOutput replaces the file at abs with the parts, one after another
+// (see safefile.WriteParts): a failed write leaves the previous file
+// intact, a target that is not a regular file is refused, and so is one
+// of the run's input models.
+func (a *app) writeOutput(abs string, inputs []*pipeline.Result, parts ...[]byte) error {
 	for _, r := range inputs {
 		if r.File.Path != "" && safefile.SameFile(abs, r.File.Path) {
 			return fmt.Errorf("%w (%s)", safefile.ErrInput, r.File.Name)
 		}
 	}
-	return describePathError(safefile.Write(abs, data))
+	return describePathError(safefile.WriteParts(abs, parts))
 }
 
 // checkRun is one finished check, ready to render.

@@ -205,15 +205,14 @@ func (a *app) writeReport(out, format string, in report.Input, results []*pipeli
 			_, err = a.stdout.Write(buf.Bytes())
 		}
 	case out == "-":
-		if err = report.HTML(&buf, in); err == nil {
-			_, err = a.stdout.Write(buf.Bytes())
-		}
+		err = report.HTML(a.stdout, in)
 	case format == "markdown":
 		abs := a.abs(out)
 		err = report.Markdown(filepath.Dir(abs), filepath.Base(abs), in)
 	default:
-		if err = report.HTML(&buf, in); err == nil {
-			err = a.writeOutput(a.abs(out), buf.Bytes(), results)
+		var page [][]byte
+		if page, err = report.Page(in); err == nil {
+			err = a.writeOutput(a.abs(out), results, page...)
 		}
 	}
 	return err

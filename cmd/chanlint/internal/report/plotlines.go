@@ -305,9 +305,14 @@ func (p *pathBuilder) straight(x, y float64) bool {
 	l2 := dx*dx + dy*dy
 	for _, q := range p.run {
 		qx, qy := q[0]-p.ax, q[1]-p.ay
-		t := 0.0
+		t := 0.0 // the nearest point of the segment, clamped to its ends
 		if l2 > 0 {
-			t = clamp((qx*dx+qy*dy)/l2, 0, 1)
+			t = (qx*dx + qy*dy) / l2
+			if t < 0 {
+				t = 0
+			} else if t > 1 {
+				t = 1
+			}
 		}
 		ex, ey := qx-t*dx, qy-t*dy
 		if ex*ex+ey*ey > pathTol*pathTol {

@@ -19,43 +19,50 @@ const fontFamily = `system-ui, -apple-system, 'Segoe UI', Roboto, 'Helvetica Neu
 
 // inlineSVG is the plot as an <svg> element for the HTML page.
 func inlineSVG(p *Plot) []byte {
-	w := &svgWriter{b: make([]byte, 0, 16<<10)}
+	w := &markup{b: make([]byte, 0, 16<<10)}
+	w.inlineSVG(p)
+	return w.b
+}
+
+// inlineSVG writes the plot as an <svg> element of the page; the page's
+// sections write their plots with it (section.go).
+func (w *markup) inlineSVG(p *Plot) {
 	w.raw(`<svg class="profile`)
 	if p.Small {
 		w.raw(" small")
 	}
 	w.raw(`"`)
 	w.svgBody(p)
-	return w.b
 }
 
 // fileSVG is the plot as a standalone SVG document.
 func fileSVG(p *Plot) []byte {
-	w := &svgWriter{b: make([]byte, 0, 16<<10)}
+	w := &markup{b: make([]byte, 0, 16<<10)}
 	w.raw(`<svg xmlns="http://www.w3.org/2000/svg"`)
 	w.svgBody(p)
 	w.raw("\n")
 	return w.b
 }
 
-// svgWriter appends SVG markup to a byte slice.
-type svgWriter struct{ b []byte }
+// markup appends HTML or SVG markup to a byte slice: the plots
+// (plotsvg.go) and each model's section of the page (section.go).
+type markup struct{ b []byte }
 
 // raw writes markup of the program's own.
-func (w *svgWriter) raw(s string) *svgWriter { w.b = append(w.b, s...); return w }
+func (w *markup) raw(s string) *markup { w.b = append(w.b, s...); return w }
 
 // text writes a string as escaped text.
-func (w *svgWriter) text(s string) *svgWriter { w.b = appendEscaped(w.b, s); return w }
+func (w *markup) text(s string) *markup { w.b = appendEscaped(w.b, s); return w }
 
 // tag opens an element: "\n<name".
-func (w *svgWriter) tag(name string) *svgWriter {
+func (w *markup) tag(name string) *markup {
 	w.b = append(w.b, '\n', '<')
 	w.b = append(w.b, name...)
 	return w
 }
 
 // n writes a numeric attribute.
-func (w *svgWriter) n(name string, x float64) *svgWriter {
+func (w *markup) n(name string, x float64) *markup {
 	w.b = append(w.b, ' ')
 	w.b = append(w.b, name...)
 	w.b = append(w.b, '=', '"')
@@ -65,7 +72,7 @@ func (w *svgWriter) n(name string, x float64) *svgWriter {
 }
 
 // a writes an attribute with an escaped value.
-func (w *svgWriter) a(name, v string) *svgWriter {
+func (w *markup) a(name, v string) *markup {
 	w.b = append(w.b, ' ')
 	w.b = append(w.b, name...)
 	w.b = append(w.b, '=', '"')
@@ -76,7 +83,7 @@ func (w *svgWriter) a(name, v string) *svgWriter {
 
 // d writes path data of the plot's own (digits, spaces and commands: no
 // escaping needed).
-func (w *svgWriter) d(data string) *svgWriter {
+func (w *markup) d(data string) *markup {
 	w.b = append(w.b, ` d="`...)
 	w.b = append(w.b, data...)
 	w.b = append(w.b, '"')
@@ -84,7 +91,7 @@ func (w *svgWriter) d(data string) *svgWriter {
 }
 
 // stroke writes the attributes of a line style.
-func (w *svgWriter) stroke(s lineStyle) *svgWriter {
+func (w *markup) stroke(s lineStyle) *markup {
 	w.a("stroke", s.Colour).a("stroke-width", s.Width)
 	if s.Dash != "" {
 		w.a("stroke-dasharray", s.Dash)
@@ -96,34 +103,34 @@ func (w *svgWriter) stroke(s lineStyle) *svgWriter {
 }
 
 // end closes an empty element.
-func (w *svgWriter) end() { w.b = append(w.b, '/', '>') }
+func (w *markup) end() { w.b = append(w.b, '/', '>') }
 
 // titled closes an element that holds only a tooltip.
-func (w *svgWriter) titled(name, title string) {
+func (w *markup) titled(name, title string) {
 	w.raw("><title>").text(title).raw("</title></").raw(name).raw(">")
 }
 
 // label closes a text element with its content.
-func (w *svgWriter) label(s string) { w.raw(">").text(s).raw("</text>") }
+func (w *markup) label(s string) { w.raw(">").text(s).raw("</text>") }
 
 // rect opens a rectangle.
-func (w *svgWriter) rect(x, y, wd, h float64) *svgWriter {
+func (w *markup) rect(x, y, wd, h float64) *markup {
 	return w.tag("rect").n("x", x).n("y", y).n("width", wd).n("height", h)
 }
 
 // line opens a line.
-func (w *svgWriter) line(x1, x2, y1, y2 float64) *svgWriter {
+func (w *markup) line(x1, x2, y1, y2 float64) *markup {
 	return w.tag("line").n("x1", x1).n("x2", x2).n("y1", y1).n("y2", y2)
 }
 
 // path writes a stroked path.
-func (w *svgWriter) path(d string, s lineStyle) {
+func (w *markup) path(d string, s lineStyle) {
 	w.tag("path").d(d).a("fill", "none").stroke(s).end()
 }
 
 // svgBody writes the rest of the opening tag, then the plot's layers from
 // back to front, and the closing tag.
-func (w *svgWriter) svgBody(p *Plot) {
+func (w *markup) svgBody(p *Plot) {
 	fr := p.Frame
 	w.raw(` viewBox="0 0 `)
 	w.b = appendNum(w.b, p.W)
@@ -295,7 +302,7 @@ func envelopeHatchID(plotID string) string { return plotID + "-hatch-envelope" }
 // hatches defines the hatch patterns of the severities the plot shows
 // (see spanHatch), stroked dark so that they read in greyscale too, and
 // that of the water-surface envelope when it is drawn.
-func (w *svgWriter) hatches(p *Plot) {
+func (w *markup) hatches(p *Plot) {
 	var kinds []string
 	for _, k := range []string{"error", "warning"} {
 		if p.failing[k] {
@@ -322,7 +329,7 @@ func (w *svgWriter) hatches(p *Plot) {
 // laneStrip writes the strip of a failing or excepted span in its lane,
 // with its row number inside or beside it, linked to its row of the
 // findings table when the span has one.
-func (w *svgWriter) laneStrip(plotID string, b Band) {
+func (w *markup) laneStrip(plotID string, b Band) {
 	switch b.Kind {
 	case "error", "warning", "info", "excepted":
 	default:
@@ -358,7 +365,7 @@ func (w *svgWriter) laneStrip(plotID string, b Band) {
 
 // swatch writes the legend symbol of an entry (24 units wide, centred on
 // the entry's baseline). Its first element follows without a line break.
-func (w *svgWriter) swatch(plotID string, it LegendItem) {
+func (w *markup) swatch(plotID string, it LegendItem) {
 	x, y := it.X, it.Y
 	line := func(s lineStyle) {
 		w.raw("<line").n("x1", x).n("x2", x+24).n("y1", y).n("y2", y).stroke(s).end()

@@ -43,18 +43,30 @@ func TestAppendFixedMatchesStrconv(t *testing.T) {
 }
 
 // TestAppendEscapedMatchesHTMLTemplate: a model string is escaped in the
-// SVG exactly as html/template escapes HTML text.
+// SVG and in a model's section of the page exactly as html/template
+// escapes HTML text and a quoted attribute's value, invalid UTF-8
+// included.
 //
 // Source: common practice (no published source) — html/template's
 // contextual escaping is the reference for text in an HTML page.
 func TestAppendEscapedMatchesHTMLTemplate(t *testing.T) {
-	tm := template.Must(template.New("").Parse(`{{.}}`))
+	text := template.Must(template.New("").Parse(`{{.}}`))
+	attr := template.Must(template.New("").Parse(`<td title="{{.}}">`))
 	rapid.Check(t, func(t *rapid.T) {
-		s := rapid.StringOf(rapid.SampledFrom([]rune("ab <>&'\"+\x00é→ä\u202e"))).Draw(t, "s")
+		pieces := rapid.SliceOf(rapid.SampledFrom([]string{"a", "b", " ", "<", ">", "&", "'", `"`, "+", "=", "`", "\x00",
+			"é", "→", "ä", "\u202e", "\xff", "\xe2\x82"})).Draw(t, "pieces")
+		s := strings.Join(pieces, "")
 		var want bytes.Buffer
-		require.NoError(t, tm.Execute(&want, s))
+		require.NoError(t, text.Execute(&want, s))
 		if got := string(appendEscaped(nil, s)); got != want.String() {
-			t.Fatalf("appendEscaped(%q) = %q, want %q", s, got, want.String())
+			t.Fatalf("text: appendEscaped(%q) = %q, want %q", s, got, want.String())
+		}
+		want.Reset()
+		require.NoError(t, attr.Execute(&want, s))
+		w := &markup{}
+		w.raw(`<td title="`).attr(s).raw(`">`)
+		if got := string(w.b); got != want.String() {
+			t.Fatalf("attribute: %q, want %q", got, want.String())
 		}
 	})
 }
@@ -68,8 +80,7 @@ func TestAppendEscapedMatchesHTMLTemplate(t *testing.T) {
 func TestSVGWellFormed(t *testing.T) {
 	in := solvedInput(t, filepath.Join("testdata", "heron-flats.chan.hcl"), demoModel)
 	in.Models = append(in.Models, fixtureInput(t, "inject.chan.hcl").Models...)
-	pg, err := build(in, renderer{plot: inlineSVG})
-	require.NoError(t, err)
+	pg := build(in, renderer{plot: inlineSVG})
 	n := 0
 	for _, m := range pg.Models {
 		for _, ev := range m.Events {
@@ -95,8 +106,7 @@ func TestPlotTextPositions(t *testing.T) {
 		r.Points = nil
 		r.Jumps = nil
 	}
-	pg, err := build(in, renderer{plot: inlineSVG})
-	require.NoError(t, err)
+	pg := build(in, renderer{plot: inlineSVG})
 	p := pg.Models[0].Events[0].Plots[0].Plot
 	fr := p.Frame
 	// Source: common practice (no published source) — a label centred

@@ -18,18 +18,18 @@
 // under the policy, each finding's verdict under its message, and on each
 // profile the range of the water surface over the cases as a hatched band.
 //
-// Every string that comes from a model or a policy is escaped by
-// html/template (HTML text, attributes and SVG text alike), so a submittal
-// cannot inject markup into the page. The output depends only on the
-// input: no dates, no machine names.
+// Every string that comes from a model or a policy is escaped, so a
+// submittal cannot inject markup into the page: by html/template in the
+// page around the models (templates/page.html.tmpl), and in the models'
+// sections and plots, which are written in Go (section.go, plotsvg.go),
+// by appendEscaped, which escapes exactly as html/template does. The
+// output depends only on the input: no dates, no machine names.
 package report
 
 import (
-	"bufio"
 	"bytes"
 	"embed"
 	"encoding/base64"
-	"errors"
 	"fmt"
 	"html/template"
 	"io"
@@ -114,22 +114,41 @@ type Input struct {
 //go:embed templates/*.tmpl
 var templateFS embed.FS
 
-var tmpl = template.Must(template.New("").Funcs(template.FuncMap{
-	"num":     num,
-	"revfind": revfind,
-}).ParseFS(templateFS, "templates/*.tmpl"))
+var tmpl = template.Must(template.ParseFS(templateFS, "templates/*.tmpl"))
 
 // HTML writes the report as one self-contained HTML page.
 func HTML(w io.Writer, in Input) error {
-	pg, err := build(in, renderer{plot: inlineSVG, model: modelHTML})
+	parts, err := Page(in)
 	if err != nil {
 		return err
 	}
-	bw := bufio.NewWriterSize(w, 64<<10)
-	if err := tmpl.ExecuteTemplate(bw, "page.html.tmpl", pg); err != nil {
-		return fmt.Errorf("report: %w", err)
+	for _, b := range parts {
+		if _, err := w.Write(b); err != nil {
+			return err
+		}
 	}
-	return bw.Flush()
+	return nil
+}
+
+// Page is the report as one self-contained HTML page, in parts to be
+// written one after another: the head, each model's section and the
+// foot. A page of 100 models is some 15 MB, and copying the sections into
+// one buffer cost a tenth of the report.
+func Page(in Input) ([][]byte, error) {
+	pg := build(in, renderer{model: sectionHTML})
+	var head, foot bytes.Buffer
+	if err := tmpl.ExecuteTemplate(&head, "head", pg); err != nil {
+		return nil, fmt.Errorf("report: %w", err)
+	}
+	if err := tmpl.ExecuteTemplate(&foot, "foot", pg); err != nil {
+		return nil, fmt.Errorf("report: %w", err)
+	}
+	parts := make([][]byte, 0, len(pg.Models)+2)
+	parts = append(parts, head.Bytes())
+	for _, mv := range pg.Models {
+		parts = append(parts, mv.html)
+	}
+	return append(parts, foot.Bytes()), nil
 }
 
 // Markdown writes the page to the file named file in dir, exactly as
@@ -147,10 +166,7 @@ func Markdown(dir, file string, in Input) error {
 	if name == "" {
 		name = file
 	}
-	pg, err := build(in, renderer{plot: fileSVG})
-	if err != nil {
-		return err
-	}
+	pg := build(in, renderer{plot: fileSVG})
 	var files []safefile.File
 	k := 0
 	for _, m := range pg.Models {
@@ -183,10 +199,7 @@ func Markdown(dir, file string, in Input) error {
 // MarkdownInline writes the Markdown page to w with each plot inline, as
 // an SVG data URI, for a report sent to standard output.
 func MarkdownInline(w io.Writer, in Input) error {
-	pg, err := build(in, renderer{plot: fileSVG})
-	if err != nil {
-		return err
-	}
+	pg := build(in, renderer{plot: fileSVG})
 	for _, m := range pg.Models {
 		for _, ev := range m.Events {
 			for _, p := range ev.Plots {
@@ -196,7 +209,7 @@ func MarkdownInline(w io.Writer, in Input) error {
 	}
 	var md bytes.Buffer
 	writeMarkdown(&md, pg)
-	_, err = w.Write(md.Bytes())
+	_, err := w.Write(md.Bytes())
 	return err
 }
 
@@ -274,7 +287,7 @@ type modelView struct {
 	SHA256                     string          // of the model file
 	Coverage                   []checklist.Row // reach × event × criterion
 	NotEvaluated               []string        // what the check did not evaluate
-	HTML                       template.HTML   // the rendered section of the page
+	html                       []byte          // the section of the page (sectionHTML); nil for Markdown
 }
 
 type eventView struct {
@@ -330,25 +343,16 @@ type exceptionRow struct {
 	State                                string
 }
 
-// renderer is what the views are rendered to while they are built: each
-// plot's markup (inline for the page, standalone for SVG files), and for
-// the page each model's section.
+// renderer is what the views are rendered to while they are built: for
+// Markdown each plot's markup (a standalone SVG file), for the page each
+// model's section with its plots inline.
 type renderer struct {
 	plot  func(*Plot) []byte
-	model func(*modelView) (template.HTML, error) // nil: no HTML section
-}
-
-// modelHTML renders a model's section of the page.
-func modelHTML(mv *modelView) (template.HTML, error) {
-	var b bytes.Buffer
-	if err := tmpl.ExecuteTemplate(&b, "model", mv); err != nil {
-		return "", fmt.Errorf("report: %w", err)
-	}
-	return template.HTML(b.String()), nil // the template's own escaped output
+	model func(*markup, *modelView) // nil: no HTML section
 }
 
 // build makes the page's view of the input.
-func build(in Input, r renderer) (*page, error) {
+func build(in Input, r renderer) *page {
 	pg := &page{Title: "Channel design review", ToolVersion: in.ToolVersion, Caution: in.Caution}
 	if pg.Caution == "" {
 		pg.Caution = rules.Caution
@@ -376,11 +380,7 @@ func build(in Input, r renderer) (*page, error) {
 		}
 		pg.Policy = pv
 	}
-	views, err := buildModels(in.Models, r)
-	if err != nil {
-		return nil, err
-	}
-	for _, mv := range views {
+	for _, mv := range buildModels(in.Models, r) {
 		pg.Models = append(pg.Models, mv)
 		pg.Totals.Errors += mv.Counts.Errors
 		pg.Totals.Warnings += mv.Counts.Warnings
@@ -397,7 +397,7 @@ func build(in Input, r renderer) (*page, error) {
 	}
 	pg.InvalidN = len(files)
 	pg.Sensitivity = sensitivityLines(in)
-	return pg, nil
+	return pg
 }
 
 // sensitivityLines account for the models' sensitivity runs, one line for
@@ -461,13 +461,16 @@ func countInto(c *counts, f rules.Finding) {
 // goroutines as there are CPUs: the models are independent, and their
 // plots and sections are most of a report's work. Entries without a model
 // are skipped; the order is the input's.
-func buildModels(ms []Model, r renderer) ([]*modelView, error) {
+func buildModels(ms []Model, r renderer) []*modelView {
 	views := make([]*modelView, len(ms))
-	errs := make([]error, len(ms))
 	next := atomic.Int64{}
 	var wg sync.WaitGroup
 	for range min(runtime.GOMAXPROCS(0), len(ms)) {
 		wg.Go(func() {
+			// Each section is written into the worker's scratch buffer,
+			// which grows to the largest section once, and kept at its
+			// exact size.
+			var scratch markup
 			for {
 				i := int(next.Add(1)) - 1
 				if i >= len(ms) {
@@ -478,17 +481,16 @@ func buildModels(ms []Model, r renderer) ([]*modelView, error) {
 				}
 				mv := buildModel(ms[i], i, r.plot)
 				if r.model != nil {
-					mv.HTML, errs[i] = r.model(mv)
+					scratch.b = scratch.b[:0]
+					r.model(&scratch, mv)
+					mv.html = slices.Clone(scratch.b)
 				}
 				views[i] = mv
 			}
 		})
 	}
 	wg.Wait()
-	if err := errors.Join(errs...); err != nil {
-		return nil, err
-	}
-	return slices.DeleteFunc(views, func(mv *modelView) bool { return mv == nil }), nil
+	return slices.DeleteFunc(views, func(mv *modelView) bool { return mv == nil })
 }
 
 func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
@@ -545,7 +547,11 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 		}
 		in.id = mv.Anchor + "-plot" + strconv.Itoa(plotN)
 		p := buildPlot(in)
-		return &plotView{Plot: p, svg: render(p)}
+		pv := &plotView{Plot: p}
+		if render != nil {
+			pv.svg = render(p)
+		}
+		return pv
 	}
 	stem := mainStem(md)
 	onStem := map[*model.Reach]bool{}

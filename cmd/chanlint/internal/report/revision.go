@@ -126,16 +126,6 @@ func (p *Plot) addExisting(pieces []piece, sc *scale, oldFile string) {
 	}
 }
 
-// revFindings is a titled list of findings for the "revfindings" template.
-type revFindings struct {
-	Title string
-	Rows  []findingRow
-}
-
-func revfind(title string, rows []findingRow) revFindings {
-	return revFindings{Title: title, Rows: rows}
-}
-
 // writeRevisionMarkdown writes the "Revision changes" section of a model,
 // every name and message escaped (md, code).
 func writeRevisionMarkdown(p func(string, ...any), rv *revisionView) {

@@ -108,8 +108,7 @@ func TestRevisionDrawn(t *testing.T) {
 	assert.NotContains(t, out, "<i>")
 	assert.NotContains(t, out, "<b>revision")
 
-	pg, err := build(in, renderer{plot: inlineSVG})
-	require.NoError(t, err)
+	pg := build(in, renderer{plot: inlineSVG})
 	for _, ev := range pg.Models[0].Events {
 		for _, p := range ev.Plots {
 			assertWellFormed(t, p.svg, p.ID)
