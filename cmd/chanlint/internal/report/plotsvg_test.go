@@ -64,7 +64,7 @@ func TestAppendEscapedMatchesHTMLTemplate(t *testing.T) {
 		want.Reset()
 		require.NoError(t, attr.Execute(&want, s))
 		w := &markup{}
-		w.raw(`<td title="`).attr(s).raw(`">`)
+		w.raw(`<td title="`).attrValue(s).raw(`">`)
 		if got := string(w.b); got != want.String() {
 			t.Fatalf("attribute: %q, want %q", got, want.String())
 		}

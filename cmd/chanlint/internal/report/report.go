@@ -306,13 +306,8 @@ type culvertRow struct {
 type plotView struct {
 	*Plot
 	File string // Markdown: the SVG file name
-	svg  []byte // the rendered markup
+	svg  []byte // Markdown: the file's markup (the page draws its plots in place, section.go)
 }
-
-// SVG is the plot's markup for the page. It is written in Go from the
-// laid-out plot with every string escaped (plotsvg.go), so the template
-// takes it as it is.
-func (v *plotView) SVG() template.HTML { return template.HTML(v.svg) }
 
 type reachRow struct {
 	Name, Discharge, Slope, Profiles, Velocity, Froude, Freeboard, Jumps, Notes string
@@ -553,6 +548,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 		}
 		return pv
 	}
+	anchors := eventAnchors{}
 	stem := mainStem(md)
 	onStem := map[*model.Reach]bool{}
 	for _, r := range stem {
@@ -562,7 +558,7 @@ func buildModel(m Model, mi int, render func(*Plot) []byte) *modelView {
 		if er == nil || er.Event == nil {
 			continue
 		}
-		ev := &eventView{Name: er.Event.Name, Anchor: mv.Anchor + "-" + slug(er.Event.Name)}
+		ev := &eventView{Name: er.Event.Name, Anchor: anchors.event(mv.Anchor, er.Event.Name)}
 		byReach := map[*model.Reach]*solver.ReachResult{}
 		for _, rr := range er.Reaches {
 			if rr != nil && rr.Reach != nil {
@@ -779,6 +775,23 @@ func lineCol(r hcl.Range) string {
 // from the rule's spec.
 func settings(rc *policies.RuleConfig, u model.Units) string {
 	return rc.Summary(u, num)
+}
+
+// eventAnchors gives each event of a model its own id. An event's id is
+// "mN-ev-" and a slug of its name, so it never meets the model's other ids
+// (mN-fK of a findings row, mN-plotK of a plot, mN-findings); two names of
+// one slug ("Q100" and "q100", or two names in another script) get "-2",
+// "-3", ... in event order.
+type eventAnchors map[string]bool
+
+func (used eventAnchors) event(model, name string) string {
+	base := model + "-ev-" + slug(name)
+	a := base
+	for k := 2; used[a]; k++ {
+		a = base + "-" + strconv.Itoa(k)
+	}
+	used[a] = true
+	return a
 }
 
 var slugRE = regexp.MustCompile(`[^a-z0-9]+`)

@@ -11,16 +11,17 @@ import "strconv"
 // stays in templates/page.html.tmpl.
 //
 // Every string from a model or a policy goes through markup.text or
-// markup.attr, which escape exactly as html/template escapes HTML text
+// markup.attrValue, which escape exactly as html/template escapes HTML text
 // and quoted attribute values (TestAppendEscapedMatchesHTMLTemplate), so a
 // submittal cannot inject markup here either. Ids and links are the
-// view's own anchors ("m1", "m1-f3", "m1-" + slug), letters, digits and
-// '-' only, so they need no URL escaping.
+// view's own anchors ("m1", "m1-f3", "m1-ev-" + slug, see eventAnchors),
+// letters, digits and '-' only, so they need no URL escaping
+// (TestPageIdsUniqueAndLinked).
 
 // sectionHTML writes a model's section of the page, its plots drawn in
 // place (a plot's markup is written once, into the section).
 func sectionHTML(w *markup, mv *modelView) {
-	w.raw("\n<section class=\"model\" id=\"").attr(mv.Anchor).raw("\">\n<h2><bdi>").text(mv.name()).raw("</bdi></h2>")
+	w.raw("\n<section class=\"model\" id=\"").attrValue(mv.Anchor).raw("\">\n<h2><bdi>").text(mv.name()).raw("</bdi></h2>")
 	w.raw("\n<div class=\"model-head\">\n<p><span class=\"mono\">").text(mv.File).raw("</span> · ").text(mv.UnitsLong).raw(" · ")
 	w.int(mv.Reaches).raw(" reach")
 	if mv.Reaches != 1 {
@@ -34,7 +35,7 @@ func sectionHTML(w *markup, mv *modelView) {
 	if mv.SHA256 != "" {
 		w.raw("<p class=\"mono\">SHA-256 ").text(mv.SHA256).raw("</p>")
 	}
-	w.raw("\n<p class=\"verdict ").attr(mv.Counts.Class()).raw("\">").text(mv.Counts.Verdict())
+	w.raw("\n<p class=\"verdict ").attrValue(mv.Counts.Class()).raw("\">").text(mv.Counts.Verdict())
 	if mv.Counts.Excepted != 0 {
 		w.raw("; ").int(mv.Counts.Excepted).raw(" covered by exceptions")
 	}
@@ -74,7 +75,7 @@ func (mv *modelView) name() string {
 }
 
 func (w *markup) event(ev *eventView, us bool) {
-	w.raw("\n<section class=\"event\" id=\"").attr(ev.Anchor).raw("\">\n<h3>Event <bdi>").text(ev.Name).raw("</bdi></h3>")
+	w.raw("\n<section class=\"event\" id=\"").attrValue(ev.Anchor).raw("\">\n<h3>Event <bdi>").text(ev.Name).raw("</bdi></h3>")
 	for _, p := range ev.Plots {
 		if p.Small {
 			continue
@@ -128,7 +129,7 @@ func (w *markup) event(ev *eventView, us bool) {
 }
 
 func (w *markup) findings(mv *modelView) {
-	w.raw("\n\n<h3 id=\"").attr(mv.Anchor).raw("-findings\">Findings</h3>")
+	w.raw("\n\n<h3 id=\"").attrValue(mv.Anchor).raw("-findings\">Findings</h3>")
 	if len(mv.Findings) == 0 {
 		w.raw("\n<p class=\"note\">No findings.</p>")
 		return
@@ -136,18 +137,21 @@ func (w *markup) findings(mv *modelView) {
 	w.raw("\n<table>\n<thead><tr><th class=\"num\">#</th><th>Severity</th><th>Rule</th><th>Reach</th><th>Event</th><th class=\"num\">Stations</th><th class=\"num\">Value</th><th class=\"num\">Limit</th><th>Message</th><th>Line:col</th></tr></thead>\n<tbody>")
 	for i := range mv.Findings {
 		f := &mv.Findings[i]
-		w.raw("\n<tr class=\"").attr(f.Class).raw("\" id=\"").attr(f.Anchor).raw("\"><td class=\"num\"><a href=\"#").attr(f.Anchor).raw("\">").int(f.N)
-		w.raw("</a></td><td class=\"nowrap\"><span class=\"sev ").attr(f.Class).raw("\">")
+		w.raw("\n<tr class=\"").attrValue(f.Class).raw("\" id=\"").attrValue(f.Anchor).raw("\">")
+		w.raw("<td class=\"num\"><a href=\"#").attrValue(f.Anchor).raw("\">").int(f.N).raw("</a></td>")
+		w.raw("<td class=\"nowrap\"><span class=\"sev ").attrValue(f.Class).raw("\">")
 		if f.Excepted {
 			w.raw("excepted")
 		} else {
 			w.text(f.Severity)
 		}
 		w.raw("</span></td>").cell(tdMono, f.Rule).cell(tdName, f.Reach).cell(tdName, f.Event).
-			cell(tdNum, f.Stations).cell(tdNum, f.Value).cell(tdNum, f.Limit).
-			raw(tdName).raw("<bdi>").text(f.Message).raw("</bdi>")
+			cell(tdNum, f.Stations).cell(tdNum, f.Value).cell(tdNum, f.Limit)
+		// The message's cell: the message, then its verdict over a
+		// sensitivity run, its exception and the places that explain it.
+		w.raw(tdName).raw("<bdi>").text(f.Message).raw("</bdi>")
 		if f.Envelope != "" {
-			w.raw("<br><span class=\"envelope ").attr(f.Verdict).raw("\">Envelope: ").text(f.Envelope).raw("</span>")
+			w.raw("<br><span class=\"envelope ").attrValue(f.Verdict).raw("\">Envelope: ").text(f.Envelope).raw("</span>")
 		}
 		if f.Excepted {
 			w.raw("<br><em>Exception (").text(f.Severity).raw("): <bdi>").text(f.Reason).raw("</bdi></em>")
@@ -155,7 +159,8 @@ func (w *markup) findings(mv *modelView) {
 		for _, r := range f.Related {
 			w.raw("<br><span class=\"related\">See: <bdi>").text(r).raw("</bdi></span>")
 		}
-		w.raw("</td><td class=\"mono nowrap\" title=\"").attr(f.Where).raw("\">").text(f.Short).raw("</td></tr>")
+		w.raw("</td>")
+		w.raw("<td class=\"mono nowrap\" title=\"").attrValue(f.Where).raw("\">").text(f.Short).raw("</td></tr>")
 	}
 	w.raw("\n</tbody>\n</table>")
 }
@@ -170,7 +175,7 @@ func (w *markup) exceptions(rows []exceptionRow) {
 	for i := range rows {
 		e := &rows[i]
 		w.raw("\n<tr>").cell(tdMono, e.Rule).cell(tdAuto, e.Reach).cell(tdNum, e.Stations).isolated(td, e.Reason).
-			raw("<td class=\"mono nowrap\" title=\"").attr(e.Where).raw("\">").text(e.Short).raw("</td>")
+			raw("<td class=\"mono nowrap\" title=\"").attrValue(e.Where).raw("\">").text(e.Short).raw("</td>")
 		state := `<td class="state-none">`
 		if e.Covered != 0 {
 			state = `<td class="state-ok">`
@@ -249,7 +254,7 @@ func (w *markup) revFindings(title string, rows []findingRow) {
 	w.raw("\n<thead><tr><th>Severity</th><th>Rule</th><th>Reach</th><th>Event</th><th class=\"num\">Stations</th><th class=\"num\">Value</th><th class=\"num\">Limit</th><th>Message</th></tr></thead>\n<tbody>")
 	for i := range rows {
 		f := &rows[i]
-		w.raw("\n<tr class=\"").attr(f.Class).raw("\"><td class=\"nowrap\"><span class=\"sev ").attr(f.Class).raw("\">").text(f.Severity).
+		w.raw("\n<tr class=\"").attrValue(f.Class).raw("\"><td class=\"nowrap\"><span class=\"sev ").attrValue(f.Class).raw("\">").text(f.Severity).
 			raw("</span></td>").cell(tdMono, f.Rule).cell(tdName, f.Reach).cell(tdName, f.Event).
 			cell(tdNum, f.Stations).cell(tdNum, f.Value).cell(tdNum, f.Limit).isolated(tdName, f.Message).raw("</tr>")
 	}
@@ -277,9 +282,9 @@ func (w *markup) isolated(start, s string) *markup {
 	return w.raw(start).raw("<bdi>").text(s).raw("</bdi></td>")
 }
 
-// attr writes a quoted attribute's value; html/template escapes it as it
+// attrValue writes a quoted attribute's value; html/template escapes it as it
 // escapes text.
-func (w *markup) attr(s string) *markup { return w.text(s) }
+func (w *markup) attrValue(s string) *markup { return w.text(s) }
 
 // plot writes a plot of the section.
 func (w *markup) plot(p *plotView) *markup { w.inlineSVG(p.Plot); return w }

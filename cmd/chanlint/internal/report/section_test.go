@@ -1,6 +1,8 @@
 package report
 
 import (
+	"os"
+	"path/filepath"
 	"regexp"
 	"strconv"
 	"strings"
@@ -82,4 +84,48 @@ func TestSectionTagsBalance(t *testing.T) {
 	}
 	require.NotEmpty(t, inputs["demo"].Models[0].Findings)
 	assert.NotEmpty(t, unbalanced("<table><tr><td></tr></table>"), "the check can fail")
+}
+
+// TestPageIdsUniqueAndLinked: every id of a page is unique, made of
+// lower-case letters, digits and '-' (so a link needs no URL escaping),
+// and every in-page link has its target, even for events whose names
+// differ only in case, are written in another script, or read like the
+// page's own ids ("f1", "findings", "plot1").
+//
+// Source: common practice (no published source) — an HTML id must be
+// unique in its document for a fragment link to reach it.
+func TestPageIdsUniqueAndLinked(t *testing.T) {
+	src, err := os.ReadFile(filepath.Join("testdata", "heron-flats.chan.hcl"))
+	require.NoError(t, err)
+	text := string(src)
+	i := strings.Index(text, "\nevent ")
+	require.Positive(t, i, "the fixture has events")
+	block := text[i:]
+	block = block[:strings.Index(block, "\n}\n")+3]
+	name := regexp.MustCompile(`event "([^"]+)"`).FindStringSubmatch(block)[1]
+	for _, ev := range []string{"Q-25", "q 25", "f1", "findings", "plot1", "洪水", "наводнение"} {
+		text += strings.Replace(block, `"`+name+`"`, `"`+ev+`"`, 1)
+	}
+	path := filepath.Join(t.TempDir(), "events.chan.hcl")
+	require.NoError(t, os.WriteFile(path, []byte(text), 0o644))
+	page := renderHTML(t, solvedInput(t, path, path))
+
+	ids := map[string]int{}
+	for _, m := range regexp.MustCompile(`\sid="([^"]*)"`).FindAllStringSubmatch(page, -1) {
+		ids[m[1]]++
+	}
+	valid := regexp.MustCompile(`^[a-z0-9-]+$`)
+	for id, n := range ids {
+		assert.Equal(t, 1, n, "id %q", id)
+		assert.Regexp(t, valid, id)
+	}
+	links := regexp.MustCompile(`href="#([^"]*)"`).FindAllStringSubmatch(page, -1)
+	require.NotEmpty(t, links)
+	for _, l := range links {
+		assert.Contains(t, ids, l[1], "link #%s", l[1])
+	}
+	assert.Contains(t, ids, "m1-ev-q-25")
+	assert.Contains(t, ids, "m1-ev-q-25-2")
+	assert.Contains(t, ids, "m2-ev-f1")
+	assert.Contains(t, ids, "m1-ev-x-2", "two names in other scripts")
 }
