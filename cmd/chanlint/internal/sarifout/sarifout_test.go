@@ -282,6 +282,32 @@ func TestProblemsAreNotifications(t *testing.T) {
 	assert.Equal(t, rules.Caution, *inv.ToolExecutionNotifications[1].Message.Text)
 }
 
+// TestProblemsLog keeps the whole log of a run that could not check
+// everything: a problem in a model with its source (byte offsets and
+// UTF-16 columns), one in a policy beside it with no source (HCL
+// columns kept), one outside the root, and one with no file.
+func TestProblemsLog(t *testing.T) {
+	_, length, _, _ := ranges(t)
+	in := input(t, findings(t)[1:2])
+	in.Problems = []Problem{
+		{Message: "models/alder.chan.hcl: not checked: Value must be positive", File: file, Range: length},
+		{Message: "team.policy.hcl:3:11: error: Invalid units", File: root + "/team.policy.hcl",
+			Range: hcl.Range{Start: hcl.Pos{Line: 3, Column: 11, Byte: -1}, End: hcl.Pos{Line: 3, Column: 12, Byte: -1}}},
+		{Message: "/elsewhere/base.policy.hcl:1:1: error: Cannot read policy", File: "/elsewhere/base.policy.hcl",
+			Range: hcl.Range{Start: hcl.Pos{Line: 1, Column: 1, Byte: -1}, End: hcl.Pos{Line: 1, Column: 2, Byte: -1}}},
+		{Message: "chanlint check: the policy or baseline could not be used"},
+	}
+	out := render(t, in)
+	rep := validate(t, out)
+	golden(t, "problems.sarif", out)
+	inv := rep.Runs[0].Invocations[0]
+	require.Len(t, inv.ToolExecutionNotifications, 5)
+	for i, n := range inv.ToolExecutionNotifications[:3] {
+		require.Len(t, n.Locations, 1, "problem %d", i)
+	}
+	assert.Empty(t, inv.ToolExecutionNotifications[3].Locations)
+}
+
 func TestDuplicateFindingsGetDistinctFingerprints(t *testing.T) {
 	f := findings(t)[1]
 	out := render(t, input(t, []rules.Finding{f, f}))
