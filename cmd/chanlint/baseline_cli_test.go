@@ -134,11 +134,12 @@ func TestSARIFAlwaysALog(t *testing.T) {
 	for _, tc := range []struct {
 		args []string
 		want string
+		at   string // the problem's place, URI:line:column, "" for none
 	}{
-		{[]string{"--policy", "bad.policy.hcl", "overtop.chan.hcl"}, `bad\.policy\.hcl:1:1: error: `},
-		{[]string{"--baseline", "junk.json", "overtop.chan.hcl"}, `baseline junk\.json: not a chanlint baseline file`},
-		{[]string{"--policy", "no-such-pack"}, `unknown policy`},
-		{[]string{"sub"}, `sub/broken\.chan\.hcl: not checked: `},
+		{[]string{"--policy", "bad.policy.hcl", "overtop.chan.hcl"}, `bad\.policy\.hcl:1:1: error: `, "bad.policy.hcl:1:1"},
+		{[]string{"--baseline", "junk.json", "overtop.chan.hcl"}, `baseline junk\.json: not a chanlint baseline file`, ""},
+		{[]string{"--policy", "no-such-pack"}, `unknown policy`, ""},
+		{[]string{"sub"}, `sub/broken\.chan\.hcl: not checked: `, "sub/broken.chan.hcl:1:1"},
 	} {
 		code, out, _ := runIn(dir, runOpts{}, append([]string{"check", "--format", "sarif"}, tc.args...)...)
 		assert.Equal(t, exitInvalid, code, tc.args)
@@ -148,8 +149,14 @@ func TestSARIFAlwaysALog(t *testing.T) {
 				Invocations []struct {
 					ExecutionSuccessful        bool `json:"executionSuccessful"`
 					ToolExecutionNotifications []struct {
-						Level   string
-						Message struct{ Text string }
+						Level     string
+						Message   struct{ Text string }
+						Locations []struct {
+							PhysicalLocation struct {
+								ArtifactLocation struct{ URI string }
+								Region           struct{ StartLine, StartColumn int }
+							}
+						}
 					} `json:"toolExecutionNotifications"`
 				}
 			}
@@ -158,9 +165,23 @@ func TestSARIFAlwaysALog(t *testing.T) {
 		assert.Equal(t, "2.1.0", log.Version)
 		inv := log.Runs[0].Invocations[0]
 		assert.False(t, inv.ExecutionSuccessful, tc.args)
-		var texts []string
+		var texts, places []string
 		for _, n := range inv.ToolExecutionNotifications {
 			texts = append(texts, n.Level+" "+n.Message.Text)
+			if n.Level == "error" {
+				for _, l := range n.Locations {
+					p := l.PhysicalLocation
+					places = append(places, fmt.Sprintf("%s:%d:%d", p.ArtifactLocation.URI, p.Region.StartLine, p.Region.StartColumn))
+				}
+			}
+		}
+		if tc.at == "" {
+			assert.Empty(t, places, tc.args)
+		} else {
+			assert.NotEmpty(t, places, tc.args)
+			for _, p := range places {
+				assert.Equal(t, tc.at, p, tc.args)
+			}
 		}
 		assert.Regexp(t, regexp.MustCompile(`(?m)^error .*`+tc.want), strings.Join(texts, "\n"), tc.args)
 		assert.NotContains(t, out, "\u001b[", "no colour codes")

@@ -734,10 +734,9 @@ func (c *checkRun) writeSARIF(w io.Writer) error {
 		}
 		if r.Invalid && len(r.Findings) > 0 {
 			f := r.Findings[0]
-			in.Problems = append(in.Problems, sarifout.Problem{
-				Message: r.File.Name + ": not checked: " + f.Message,
-				File:    abs, Range: f.Pos(),
-			})
+			pos := f.Pos()
+			pos.Filename = abs // the file as Sources names it
+			in.Problems = append(in.Problems, sarifout.Problem{Message: r.File.Name + ": not checked: " + f.Message, Range: pos})
 		}
 		if r.Src != nil {
 			in.Sources[abs] = r.Src
@@ -910,8 +909,8 @@ func (s *setupLog) problems(a *app) []sarifout.Problem {
 		if m := gnuLine.FindStringSubmatch(line); m != nil {
 			ln, _ := strconv.Atoi(m[2])
 			col, _ := strconv.Atoi(m[3])
-			p.File = a.abs(filepath.FromSlash(m[1]))
-			p.Range = hcl.Range{Start: hcl.Pos{Line: ln, Column: col, Byte: -1}, End: hcl.Pos{Line: ln, Column: col + 1, Byte: -1}}
+			p.Range = hcl.Range{Filename: a.abs(filepath.FromSlash(m[1])),
+				Start: hcl.Pos{Line: ln, Column: col, Byte: -1}, End: hcl.Pos{Line: ln, Column: col + 1, Byte: -1}}
 		}
 		out = append(out, p)
 	}

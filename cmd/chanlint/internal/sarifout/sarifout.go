@@ -97,12 +97,16 @@ type Note struct {
 }
 
 // Problem is one cause of an unsuccessful run: a message and, when known,
-// the file and range it is about.
+// the place it is about, in the one file of Range.Filename (named as in
+// Sources); a Range without a Filename locates nothing, and a Range with
+// a Filename and no line names the whole file.
 type Problem struct {
 	Message string
-	File    string
 	Range   hcl.Range
 }
+
+// File is the file the problem is about, "" when it names none.
+func (p *Problem) File() string { return p.Range.Filename }
 
 // BaseID is the uriBaseId of every relative artifact URI.
 const BaseID = "SRCROOT"
@@ -374,9 +378,9 @@ func newBuilder(in Input) (*builder, error) {
 		pref.Index = 1
 		n := sarif.NewNotification().WithLevel(sarif.LevelError).WithDescriptor(pref).
 			WithMessage(sarif.NewTextMessage(p.Message))
-		if p.File != "" {
-			b.addArtifact(p.File)
-			n.WithLocations([]*sarif.Location{b.location(p.File, p.Range)})
+		if file := p.File(); file != "" {
+			b.addArtifact(file)
+			n.WithLocations([]*sarif.Location{b.location(file, p.Range)})
 		}
 		inv.AddToolExecutionNotification(n)
 	}

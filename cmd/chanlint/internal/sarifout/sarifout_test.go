@@ -268,8 +268,8 @@ func TestLogShape(t *testing.T) {
 // notifications with their location, ahead of the caution.
 func TestProblemsAreNotifications(t *testing.T) {
 	in := input(t, nil)
-	in.Problems = []Problem{{Message: "team.policy.hcl:3:11: error: Invalid units", File: "/srv/drainage/team.policy.hcl",
-		Range: hcl.Range{Start: hcl.Pos{Line: 3, Column: 11}, End: hcl.Pos{Line: 3, Column: 19}}}}
+	in.Problems = []Problem{{Message: "team.policy.hcl:3:11: error: Invalid units",
+		Range: hcl.Range{Filename: "/srv/drainage/team.policy.hcl", Start: hcl.Pos{Line: 3, Column: 11}, End: hcl.Pos{Line: 3, Column: 19}}}}
 	rep := validate(t, render(t, in))
 	inv := rep.Runs[0].Invocations[0]
 	require.NotNil(t, inv.ExecutionSuccessful)
@@ -290,11 +290,11 @@ func TestProblemsLog(t *testing.T) {
 	_, length, _, _ := ranges(t)
 	in := input(t, findings(t)[1:2])
 	in.Problems = []Problem{
-		{Message: "models/alder.chan.hcl: not checked: Value must be positive", File: file, Range: length},
-		{Message: "team.policy.hcl:3:11: error: Invalid units", File: root + "/team.policy.hcl",
-			Range: hcl.Range{Start: hcl.Pos{Line: 3, Column: 11, Byte: -1}, End: hcl.Pos{Line: 3, Column: 12, Byte: -1}}},
-		{Message: "/elsewhere/base.policy.hcl:1:1: error: Cannot read policy", File: "/elsewhere/base.policy.hcl",
-			Range: hcl.Range{Start: hcl.Pos{Line: 1, Column: 1, Byte: -1}, End: hcl.Pos{Line: 1, Column: 2, Byte: -1}}},
+		{Message: "models/alder.chan.hcl: not checked: Value must be positive", Range: length},
+		{Message: "team.policy.hcl:3:11: error: Invalid units",
+			Range: hcl.Range{Filename: root + "/team.policy.hcl", Start: hcl.Pos{Line: 3, Column: 11, Byte: -1}, End: hcl.Pos{Line: 3, Column: 12, Byte: -1}}},
+		{Message: "/elsewhere/base.policy.hcl:1:1: error: Cannot read policy",
+			Range: hcl.Range{Filename: "/elsewhere/base.policy.hcl", Start: hcl.Pos{Line: 1, Column: 1, Byte: -1}, End: hcl.Pos{Line: 1, Column: 2, Byte: -1}}},
 		{Message: "chanlint check: the policy or baseline could not be used"},
 	}
 	out := render(t, in)

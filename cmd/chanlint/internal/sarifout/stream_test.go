@@ -64,8 +64,8 @@ func TestStreamedResults(t *testing.T) {
 		}
 		var problems []Problem
 		if rapid.Bool().Draw(t, "problems") {
-			problems = append(problems, Problem{Message: text.Draw(t, "problem"), File: rapid.SampledFrom(files).Draw(t, "pfile"),
-				Range: hcl.Range{Start: pos.Draw(t, "pstart"), End: pos.Draw(t, "pend")}})
+			problems = append(problems, Problem{Message: text.Draw(t, "problem"),
+				Range: hcl.Range{Filename: rapid.SampledFrom(files).Draw(t, "pfile"), Start: pos.Draw(t, "pstart"), End: pos.Draw(t, "pend")}})
 		}
 		in := Input{Findings: fs, BaselineStates: states, Problems: problems, Rules: registry(), Root: "/srv", ToolVersion: "1.2.3",
 			Sources: map[string][]byte{"/srv/m/a.chan.hcl": srcText}, Units: units}
