@@ -237,20 +237,36 @@ func cmpFindings(a, b Finding) int { return cmpFindingPtrs(&a, &b) }
 // sensitivity run, sorts with it).
 func Compare(a, b *Finding) int { return cmpFindingPtrs(a, b) }
 
-// cmpFindingPtrs is cmpFindings without copying the findings.
+// cmpFindingPtrs is cmpFindings without copying the findings. Each key
+// is compared only when the ones before it are equal (cmp.Or would
+// evaluate them all, the messages included, for every comparison).
 func cmpFindingPtrs(a, b *Finding) int {
+	if c := cmp.Compare(a.File(), b.File()); c != 0 {
+		return c
+	}
 	pa, pb := a.Pos(), b.Pos()
-	return cmp.Or(
-		cmp.Compare(a.File(), b.File()),
-		cmp.Compare(pa.Start.Line, pb.Start.Line),
-		cmp.Compare(pa.Start.Column, pb.Start.Column),
-		cmp.Compare(a.Rule, b.Rule),
-		cmp.Compare(a.Reach, b.Reach),
-		cmp.Compare(a.Event, b.Event),
-		cmp.Compare(a.FromStation, b.FromStation),
-		cmp.Compare(a.ToStation, b.ToStation),
-		cmp.Compare(a.Message, b.Message),
-	)
+	if c := cmp.Compare(pa.Start.Line, pb.Start.Line); c != 0 {
+		return c
+	}
+	if c := cmp.Compare(pa.Start.Column, pb.Start.Column); c != 0 {
+		return c
+	}
+	if c := cmp.Compare(a.Rule, b.Rule); c != 0 {
+		return c
+	}
+	if c := cmp.Compare(a.Reach, b.Reach); c != 0 {
+		return c
+	}
+	if c := cmp.Compare(a.Event, b.Event); c != 0 {
+		return c
+	}
+	if c := cmp.Compare(a.FromStation, b.FromStation); c != 0 {
+		return c
+	}
+	if c := cmp.Compare(a.ToStation, b.ToStation); c != 0 {
+		return c
+	}
+	return cmp.Compare(a.Message, b.Message)
 }
 
 // sortFindings orders findings by file, line, column, rule, reach, event
