@@ -261,7 +261,9 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 			return false
 		}
 		spans = bufferEdgeSpans(rr, &ctrl, buffer, inBand, inSpan, &ctx.verdict, spans)
-		sort.SliceStable(spans, func(a, b int) bool { return spans[a].from < spans[b].from })
+		if len(spans) > 1 { // most reaches have none: no sort, and no closure for it
+			sort.SliceStable(spans, func(a, b int) bool { return spans[a].from < spans[b].from })
+		}
 		ctx.spans = spans
 		for _, s := range spans {
 			emit(ev, rr, s)
