@@ -207,10 +207,8 @@ func (l *liningLimits) of(sec *model.Section) (float64, bool) {
 	if sec != l.sec {
 		l.sec = sec
 		l.lim, l.ok = l.table.For(sec.Lining)
-		if _, named := l.table.Values[sec.Lining]; !named && l.conduitNamed && sec.Closed() {
-			l.ok = false
-		}
-		if _, named := l.table.Values[sec.Lining]; !named && l.vegetatedNamed && vegetated(sec.Lining) {
+		if _, named := l.table.Values[sec.Lining]; !named &&
+			(l.conduitNamed && sec.Closed() || l.vegetatedNamed && vegetated(sec.Lining)) {
 			l.ok = false
 		}
 		if l.noPoints && sec.Shape == model.Points {
