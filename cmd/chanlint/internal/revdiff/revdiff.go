@@ -39,14 +39,21 @@ type Profile struct {
 	Compared int
 	// Largest rise and fall of the water surface, increase and decrease
 	// of the velocity, loss and gain of freeboard (freeboard only where
-	// both revisions know the top of bank).
+	// both revisions know the top of bank), outside the spans between the
+	// toes of the jumps that moved (see Jumps).
 	Rise, Fall         Extreme
 	Faster, Slower     Extreme
 	LessFree, MoreFree Extreme
 	HasFreeboard       bool
 	// Stations, OldWSE and NewWSE are the compared points, for a plot of
-	// both profiles.
+	// both profiles. Across gives for each the index in Jumps of the moved
+	// jump whose toes it lies between, or −1; those points count in the
+	// move, not in the extremes above.
 	Stations, OldWSE, NewWSE []float64
+	Across                   []int
+	// Jumps are the hydraulic jumps of the reach that moved, appeared or
+	// disappeared (JumpMove), in station order.
+	Jumps []JumpMove
 }
 
 // Diff is the comparison of two revisions of a model.
@@ -220,7 +227,9 @@ func (c bankCache) bank(r *model.Reach, x float64, u model.Units) (float64, bool
 }
 
 // compareReach compares one reach of one event at the proposed model's
-// points within the existing reach's length.
+// points within the existing reach's length, the points between the two
+// toes of a jump that moved with the move (JumpMove) rather than in the
+// extremes.
 func compareReach(event string, old, new *solver.ReachResult, banks bankCache, u model.Units) Profile {
 	p := Profile{Event: event, Reach: new.Reach.Name}
 	if len(old.Points) == 0 || len(new.Points) == 0 {
@@ -232,6 +241,7 @@ func compareReach(event string, old, new *solver.ReachResult, banks bankCache, u
 			*e = Extreme{Delta: delta, Station: x}
 		}
 	}
+	p.Jumps = jumpMoves(old, new)
 	limit := old.Points[len(old.Points)-1].Station
 	for k, pt := range new.Points {
 		x := pt.Station
@@ -244,6 +254,18 @@ func compareReach(event string, old, new *solver.ReachResult, banks bankCache, u
 		ow := oldAt(old.Points, x, upstream, func(p *solver.Point) float64 { return p.WSE })
 		ov := oldAt(old.Points, x, upstream, func(p *solver.Point) float64 { return p.Velocity })
 		dw, dv := pt.WSE-ow, pt.Velocity-ov
+		p.Stations = append(p.Stations, x)
+		p.OldWSE = append(p.OldWSE, ow)
+		p.NewWSE = append(p.NewWSE, pt.WSE)
+		p.Compared++
+		a := across(p.Jumps, x, upstream)
+		p.Across = append(p.Across, a)
+		if a >= 0 {
+			// One revision is on each side of a jump that moved: the
+			// difference is the move's, reported with it.
+			p.Jumps[a].record(dw, dv, x)
+			continue
+		}
 		track(&p.Rise, dw, x, true)
 		track(&p.Fall, dw, x, false)
 		track(&p.Faster, dv, x, true)
@@ -264,10 +286,6 @@ func compareReach(event string, old, new *solver.ReachResult, banks bankCache, u
 				}
 			}
 		}
-		p.Stations = append(p.Stations, x)
-		p.OldWSE = append(p.OldWSE, ow)
-		p.NewWSE = append(p.NewWSE, pt.WSE)
-		p.Compared++
 		first = false
 	}
 	return p
