@@ -209,3 +209,144 @@ func TestChangeTextValueMoved(t *testing.T) {
 	moved.Value = 29.9901
 	assert.Contains(t, changeText(&revdiff.Change{Old: old, New: moved}, "m"), "value 30.00 → 29.99 N/m²")
 }
+
+// gateModel is a sluice gate releasing onto a mild rectangular channel
+// into the tailwater given: an M3 curve, a hydraulic jump and an M2
+// curve. The reach's name carries markup, for the escaping.
+func gateModel(tail string) string {
+	return `units = "si"
+section "outlet-channel" {
+  shape        = "rectangle"
+  bottom_width = 2.5
+  height       = 2.5
+  roughness    = 0.014
+}
+reach "release<i>" {
+  from    = "gate-house"
+  to      = "river"
+  length  = 200
+  section = "outlet-channel"
+  slope   = 0.0007
+}
+gate "sluice" {
+  reach       = "release<i>"
+  opening     = 0.43
+  contraction = 0.61
+}
+event "release" {
+  inflow = { "release<i>" = 4.0 }
+  outlet = { depth = ` + tail + ` }
+}
+`
+}
+
+// TestDiffJumpMove: a tailwater 5 cm higher moves the jump about 2.8 m
+// upstream (revdiff's tests check the toes against Bélanger's equation).
+// Every format reports the move with its toes, direction and tolerance,
+// and none reads the jump's height as the profile's rise; a micrometre
+// reads as a move of the computation; a model against itself has none.
+// A no_rise limit of 0.1 m fails on the move (the surface does rise over
+// its span), not on the micrometre.
+//
+// Source: common practice (no published source).
+func TestDiffJumpMove(t *testing.T) {
+	dir := t.TempDir()
+	for name, src := range map[string]string{"old.chan.hcl": gateModel("1.00"), "new.chan.hcl": gateModel("1.05"),
+		"tiny.chan.hcl":   gateModel("1.000001"),
+		"rise.policy.hcl": "policy \"rise\" {\n  units = \"si\"\n  no_rise {\n    limit = 0.1\n  }\n}\n"} {
+		require.NoError(t, os.WriteFile(filepath.Join(dir, name), []byte(src), 0o644))
+	}
+	pol := []string{"--policy", "./rise.policy.hcl"}
+	runIn := func(dir string, o runOpts, args ...string) (int, string, string) {
+		return runIn(dir, o, append(args, pol...)...)
+	}
+	code, out, errOut := runIn(dir, runOpts{}, "diff", "old.chan.hcl", "new.chan.hcl", "--color", "never")
+	require.Equal(t, exitFindings, code, errOut)
+	assert.Regexp(t, `error: \[no_rise\] reach release<i>, event release, stations 16\.\d+–19\.\d+ m: the water surface rises 0\.76\d m`, out)
+	assert.Contains(t, out, "the rise is the hydraulic jump's move")
+	assert.Contains(t, out, "reach release<i>, event release: water surface +0.05 m at 200 m")
+	assert.Regexp(t, `reach release<i>, event release: the hydraulic jump moved 2\.8\d m upstream, toe 19\.\d+ → 16\.\d+ m, F1 `, out)
+	assert.Contains(t, out, "higher and the flow")
+	assert.Contains(t, out, "the move exceeds the solver's toe-location tolerance")
+	assert.NotRegexp(t, `water surface \+0\.[1-9]`, out, "the jump's height is not a rise of the profile")
+
+	code, out, _ = runIn(dir, runOpts{}, "diff", "old.chan.hcl", "new.chan.hcl", "--format", "json")
+	require.Equal(t, exitFindings, code)
+	type move struct {
+		Kind, Message       string
+		Direction           *string
+		FromStation         *float64 `json:"from_station"`
+		ToStation           *float64 `json:"to_station"`
+		Distance, Tolerance *float64
+		OldFroude           *float64 `json:"old_froude"`
+		NewFroude           *float64 `json:"new_froude"`
+		Numerical           bool
+		WSE                 *struct{ Delta, Station float64 } `json:"wse_difference"`
+	}
+	var doc struct {
+		Comparisons []struct {
+			Profiles []struct {
+				WSERise struct{ Delta float64 } `json:"wse_rise"`
+				Moves   []move                  `json:"jump_moves"`
+			}
+		}
+	}
+	require.NoError(t, json.Unmarshal([]byte(out), &doc), out)
+	require.Len(t, doc.Comparisons[0].Profiles, 1)
+	p := doc.Comparisons[0].Profiles[0]
+	assert.InDelta(t, 0.05, p.WSERise.Delta, 1e-9)
+	require.Len(t, p.Moves, 1)
+	m := p.Moves[0]
+	assert.Equal(t, "moved", m.Kind)
+	require.NotNil(t, m.Direction)
+	assert.Equal(t, "upstream", *m.Direction)
+	require.NotNil(t, m.FromStation)
+	require.NotNil(t, m.ToStation)
+	require.NotNil(t, m.Distance)
+	assert.InDelta(t, *m.ToStation-*m.FromStation, *m.Distance, 1e-3)
+	assert.Less(t, *m.Distance, -2.0)
+	require.NotNil(t, m.Tolerance)
+	assert.Less(t, *m.Tolerance, 0.1)
+	assert.False(t, m.Numerical)
+	require.NotNil(t, m.WSE)
+	assert.Greater(t, m.WSE.Delta, 0.5, "the jump's height, across the move")
+	require.NotNil(t, m.OldFroude)
+	require.NotNil(t, m.NewFroude)
+	assert.Greater(t, *m.NewFroude, *m.OldFroude, "the toe moved up the M3 curve, to shallower, faster flow")
+	assert.Contains(t, m.Message, "the hydraulic jump moved")
+
+	code, out, _ = runIn(dir, runOpts{}, "diff", "old.chan.hcl", "new.chan.hcl", "--format", "markdown")
+	require.Equal(t, exitFindings, code)
+	assert.Contains(t, out, "**Hydraulic jumps moved, appeared or gone (1)**")
+	assert.Regexp(t, `\| release&lt;i&gt; \| release \| the hydraulic jump moved 2\.8\d m upstream`, out)
+
+	code, out, _ = runIn(dir, runOpts{}, "diff", "old.chan.hcl", "tiny.chan.hcl", "--color", "never")
+	require.Equal(t, exitOK, code)
+	assert.Contains(t, out, "a move of the computation, not of the flow")
+	assert.NotContains(t, out, "water surface +")
+
+	code, out, _ = runIn(dir, runOpts{}, "diff", "old.chan.hcl", "old.chan.hcl", "--format", "json")
+	require.Equal(t, exitOK, code)
+	doc.Comparisons = nil
+	require.NoError(t, json.Unmarshal([]byte(out), &doc), out)
+	assert.Empty(t, doc.Comparisons[0].Profiles[0].Moves)
+	assert.Contains(t, out, `"jump_moves": []`)
+	code, out, _ = runIn(dir, runOpts{}, "diff", "old.chan.hcl", "old.chan.hcl", "--color", "never")
+	require.Equal(t, exitOK, code)
+	assert.Contains(t, out, "1 pair of reach and event unchanged")
+	assert.NotContains(t, out, "jump moved")
+
+	code, _, errOut = runIn(dir, runOpts{}, "diff", "old.chan.hcl", "new.chan.hcl", "--out", "review.html")
+	require.Equal(t, exitFindings, code, errOut)
+	page, err := os.ReadFile(filepath.Join(dir, "review.html"))
+	require.NoError(t, err)
+	assert.Contains(t, string(page), "<caption>Hydraulic jumps moved, appeared or gone (1)</caption>")
+	assert.Regexp(t, `<tr><td class="name" dir="auto">release&lt;i&gt;</td><td class="name" dir="auto">release</td><td><bdi>the hydraulic jump moved 2\.8\d m upstream`, string(page))
+	assert.NotContains(t, string(page), "release<i>")
+	code, _, errOut = runIn(dir, runOpts{}, "diff", "old.chan.hcl", "new.chan.hcl", "--out", "review.md")
+	require.Equal(t, exitFindings, code, errOut)
+	page, err = os.ReadFile(filepath.Join(dir, "review.md"))
+	require.NoError(t, err)
+	assert.Contains(t, string(page), "**Hydraulic jumps moved, appeared or gone (1)**")
+	assert.Regexp(t, `\| release&lt;i&gt; \| release \| the hydraulic jump moved 2\.8\d m upstream`, string(page))
+}

@@ -337,7 +337,13 @@ func (a *app) writeDiffText(w io.Writer, diffs []*revdiff.Diff, pol *policies.Po
 				same++
 				continue
 			}
-			fmt.Fprintf(w, "reach %s, event %s: %s\n", safetext.Text(pr.Reach), safetext.Text(pr.Event), profileText(pr, unit))
+			head := "reach " + safetext.Text(pr.Reach) + ", event " + safetext.Text(pr.Event) + ": "
+			if !flat(pr) {
+				fmt.Fprintf(w, "%s%s\n", head, profileText(pr, unit))
+			}
+			for j := range pr.Jumps {
+				fmt.Fprintf(w, "%s%s\n", head, pr.Jumps[j].Text(unit))
+			}
 		}
 		if same > 0 {
 			fmt.Fprintf(w, "%s of reach and event unchanged (water surface, velocity and freeboard within %s %s)\n",
@@ -356,8 +362,15 @@ func (a *app) writeDiffText(w io.Writer, diffs []*revdiff.Diff, pol *policies.Po
 const profileTolerance = 0.0005
 
 // unchanged reports whether a compared profile moved by less than
-// profileTolerance everywhere.
+// profileTolerance everywhere and none of its jumps moved, appeared or
+// disappeared.
 func unchanged(p *revdiff.Profile) bool {
+	return flat(p) && len(p.Jumps) == 0
+}
+
+// flat reports whether the extremes of a compared profile (outside the
+// spans of its jumps' moves) are all below profileTolerance.
+func flat(p *revdiff.Profile) bool {
 	small := func(e revdiff.Extreme) bool { return math.Abs(e.Delta) < profileTolerance }
 	return p.Compared == 0 || (small(p.Rise) && small(p.Fall) && small(p.Faster) && small(p.Slower) &&
 		(!p.HasFreeboard || (small(p.LessFree) && small(p.MoreFree))))
@@ -462,15 +475,57 @@ type extremeJSON struct {
 }
 
 type profileJSON struct {
-	Event        string       `json:"event"`
-	Reach        string       `json:"reach"`
-	Compared     int          `json:"compared"`
-	WSERise      extremeJSON  `json:"wse_rise"`
-	WSEFall      extremeJSON  `json:"wse_fall"`
-	VelocityUp   extremeJSON  `json:"velocity_increase"`
-	VelocityDown extremeJSON  `json:"velocity_decrease"`
-	FreeboardOut *extremeJSON `json:"freeboard_loss"`
-	FreeboardIn  *extremeJSON `json:"freeboard_gain"`
+	Event        string         `json:"event"`
+	Reach        string         `json:"reach"`
+	Compared     int            `json:"compared"`
+	WSERise      extremeJSON    `json:"wse_rise"`
+	WSEFall      extremeJSON    `json:"wse_fall"`
+	VelocityUp   extremeJSON    `json:"velocity_increase"`
+	VelocityDown extremeJSON    `json:"velocity_decrease"`
+	FreeboardOut *extremeJSON   `json:"freeboard_loss"`
+	FreeboardIn  *extremeJSON   `json:"freeboard_gain"`
+	JumpMoves    []jumpMoveJSON `json:"jump_moves"`
+}
+
+// jumpMoveJSON is a revdiff.JumpMove: null where the kind has no such
+// value (no existing toe for a jump that appeared, no proposed one for a
+// jump gone).
+type jumpMoveJSON struct {
+	Kind          string       `json:"kind"`
+	FromStation   *float64     `json:"from_station"`
+	ToStation     *float64     `json:"to_station"`
+	Distance      *float64     `json:"distance"`
+	Direction     *string      `json:"direction"`
+	OldFroude     *float64     `json:"old_froude"`
+	NewFroude     *float64     `json:"new_froude"`
+	OldType       *string      `json:"old_type"`
+	NewType       *string      `json:"new_type"`
+	Tolerance     *float64     `json:"tolerance"`
+	Numerical     bool         `json:"numerical"`
+	Compared      int          `json:"compared"`
+	SurfaceDelta  *extremeJSON `json:"wse_difference"`
+	VelocityDelta *extremeJSON `json:"velocity_difference"`
+	Message       string       `json:"message"`
+}
+
+func newJumpMoveJSON(m *revdiff.JumpMove, unit string) jumpMoveJSON {
+	j := jumpMoveJSON{Kind: string(m.Kind), Message: m.Text(unit)}
+	word := func(s string) *string { return &s }
+	if m.Kind != revdiff.JumpAppeared {
+		j.FromStation, j.OldFroude, j.OldType = numfmt.JSON(m.From), numfmt.JSON(m.OldFroude), word(string(m.OldType))
+	}
+	if m.Kind != revdiff.JumpGone {
+		j.ToStation, j.NewFroude, j.NewType = numfmt.JSON(m.To), numfmt.JSON(m.NewFroude), word(string(m.NewType))
+	}
+	if m.Kind == revdiff.JumpMoved {
+		j.Distance, j.Direction, j.Tolerance = numfmt.JSON(m.Distance), word(m.Direction()), numfmt.JSON(m.Tolerance)
+		j.Numerical, j.Compared = m.Numerical, m.Compared
+		if m.Compared > 0 {
+			s, v := extreme(m.Surface), extreme(m.Velocity)
+			j.SurfaceDelta, j.VelocityDelta = &s, &v
+		}
+	}
+	return j
 }
 
 func extreme(e revdiff.Extreme) extremeJSON {
@@ -497,7 +552,11 @@ func writeDiffJSON(w io.Writer, diffs []*revdiff.Diff) error {
 		}
 		for _, p := range d.Profiles {
 			pj := profileJSON{Event: p.Event, Reach: p.Reach, Compared: p.Compared,
-				WSERise: extreme(p.Rise), WSEFall: extreme(p.Fall), VelocityUp: extreme(p.Faster), VelocityDown: extreme(p.Slower)}
+				WSERise: extreme(p.Rise), WSEFall: extreme(p.Fall), VelocityUp: extreme(p.Faster), VelocityDown: extreme(p.Slower),
+				JumpMoves: []jumpMoveJSON{}}
+			for j := range p.Jumps {
+				pj.JumpMoves = append(pj.JumpMoves, newJumpMoveJSON(&p.Jumps[j], d.Units.Length()))
+			}
 			if p.HasFreeboard {
 				lo, hi := extreme(p.LessFree), extreme(p.MoreFree)
 				pj.FreeboardOut, pj.FreeboardIn = &lo, &hi
@@ -547,10 +606,13 @@ func writeDiffMarkdown(w io.Writer, diffs []*revdiff.Diff, policyLine string) {
 		if len(d.Added)+len(d.Removed) > 0 {
 			fmt.Fprintf(w, "Reaches added: %s. Reaches removed: %s.\n\n", orNone(md(strings.Join(d.Added, ", "))), orNone(md(strings.Join(d.Removed, ", "))))
 		}
-		var rows []string
+		var rows, moves []string
 		for i := range d.Profiles {
 			p := &d.Profiles[i]
-			if unchanged(p) {
+			for j := range p.Jumps {
+				moves = append(moves, fmt.Sprintf("| %s | %s | %s |", cell(p.Reach), cell(p.Event), cell(p.Jumps[j].Text(unit))))
+			}
+			if flat(p) {
 				continue
 			}
 			free := "–"
@@ -564,7 +626,13 @@ func writeDiffMarkdown(w io.Writer, diffs []*revdiff.Diff, policyLine string) {
 			fmt.Fprintf(w, "| reach | event | largest rise (%s, at station) | largest fall | freeboard lost |\n| --- | --- | --- | --- | --- |\n", unit)
 			fmt.Fprintln(w, strings.Join(rows, "\n"))
 			fmt.Fprintln(w)
-		} else if len(d.Profiles) > 0 {
+		}
+		if len(moves) > 0 {
+			fmt.Fprintf(w, "**Hydraulic jumps moved, appeared or gone (%d)**: between the two toes of a moved jump the difference of the water surface is the jump's, not in the table of rises and falls.\n\n| reach | event | jump |\n| --- | --- | --- |\n", len(moves))
+			fmt.Fprintln(w, strings.Join(moves, "\n"))
+			fmt.Fprintln(w)
+		}
+		if len(rows)+len(moves) == 0 && len(d.Profiles) > 0 {
 			fmt.Fprintf(w, "The water surface, velocity and freeboard are unchanged on every reach and event (within %s %s).\n\n", numfmt.Num(profileTolerance), unit)
 		}
 	}

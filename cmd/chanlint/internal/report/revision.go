@@ -23,7 +23,8 @@ type revisionView struct {
 	New, Fixed       []findingRow
 	Changed          []changeRow
 	Profiles         []riseRow
-	Unchanged        int // reach and event pairs that moved by less than revisionTolerance
+	Jumps            []jumpRow // hydraulic jumps moved, appeared or gone
+	Unchanged        int       // reach and event pairs that moved by less than revisionTolerance, their jumps in place
 	Added, Removed   string
 	NoRise           []findingRow
 	Unit             string
@@ -39,6 +40,12 @@ type changeRow struct {
 // in one event, each "+0.052 at 410" or "–".
 type riseRow struct {
 	Reach, Event, Rise, Fall string
+}
+
+// jumpRow is a hydraulic jump of one reach and event that moved,
+// appeared or disappeared (revdiff.JumpMove.Text).
+type jumpRow struct {
+	Reach, Event, Move string
 }
 
 // revisionSection builds the section from the comparison.
@@ -82,9 +89,14 @@ func revisionSection(d *revdiff.Diff, unit string) *revisionView {
 	}
 	for i := range d.Profiles {
 		p := &d.Profiles[i]
+		for j := range p.Jumps {
+			rv.Jumps = append(rv.Jumps, jumpRow{Reach: p.Reach, Event: p.Event, Move: p.Jumps[j].Text(unit)})
+		}
 		r := riseRow{Reach: p.Reach, Event: p.Event, Rise: move(p.Rise, true), Fall: move(p.Fall, false)}
 		if p.Compared == 0 || (r.Rise == "–" && r.Fall == "–") {
-			rv.Unchanged++
+			if len(p.Jumps) == 0 {
+				rv.Unchanged++
+			}
 			continue
 		}
 		rv.Profiles = append(rv.Profiles, r)
@@ -162,6 +174,13 @@ func writeRevisionMarkdown(p func(string, ...any), rv *revisionView) {
 		}
 		p("\n")
 	}
+	if len(rv.Jumps) > 0 {
+		p("**%s (%d)**\n\n%s\n\n| Reach | Event | Jump |\n|---|---|---|\n", jumpsTitle, len(rv.Jumps), jumpsNote)
+		for _, j := range rv.Jumps {
+			p("| %s | %s | %s |\n", md(j.Reach), md(j.Event), md(j.Move))
+		}
+		p("\n")
+	}
 	if rv.Unchanged > 0 {
 		p("%s of reach and event with the water surface unchanged (within 0.0005 %s).\n\n", plural(rv.Unchanged, "pair"), rv.Unit)
 	}
@@ -172,6 +191,12 @@ func writeRevisionMarkdown(p func(string, ...any), rv *revisionView) {
 		p("No no_rise finding.\n\n")
 	}
 }
+
+// The title and the note of the table of jump moves.
+const (
+	jumpsTitle = "Hydraulic jumps moved, appeared or gone"
+	jumpsNote  = "Between the two toes of a moved jump one revision is on each side of the jump: the difference of the water surface there is the jump's move, kept out of the largest rise and fall above."
+)
 
 func orNone(s string) string {
 	if s == "" {

@@ -228,6 +228,15 @@ func (w *markup) revision(rv *revisionView) {
 		}
 		w.raw("\n</tbody>\n</table>")
 	}
+	if len(rv.Jumps) > 0 {
+		w.raw("\n<table>\n<caption>").text(jumpsTitle).raw(" (").int(len(rv.Jumps)).raw(")</caption>")
+		w.raw("\n<thead><tr><th>Reach</th><th>Event</th><th>Jump</th></tr></thead>\n<tbody>")
+		for i := range rv.Jumps {
+			j := &rv.Jumps[i]
+			w.raw("\n<tr>").cell(tdName, j.Reach).cell(tdName, j.Event).isolated(td, j.Move).raw("</tr>")
+		}
+		w.raw("\n</tbody>\n</table>\n<p class=\"note\">").text(jumpsNote).raw("</p>")
+	}
 	if rv.Unchanged != 0 {
 		w.raw("\n<p class=\"note\">").int(rv.Unchanged).raw(" pair")
 		if rv.Unchanged != 1 {
