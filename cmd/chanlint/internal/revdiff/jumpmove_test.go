@@ -9,6 +9,7 @@ import (
 	"github.com/chanlint/chanlint/solver"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+	"pgregory.net/rapid"
 )
 
 // Gate release onto a mild rectangular channel (2.5 m wide, n 0.014,
@@ -276,4 +277,39 @@ func TestJumpDrowned(t *testing.T) {
 	for _, a := range p.Across {
 		assert.Equal(t, -1, a)
 	}
+}
+
+// TestSweepMatchesScan: the sweep over the spans of moved jumps finds
+// for every station what a scan of all the moves finds.
+//
+// Source: common practice (no published source).
+func TestSweepMatchesScan(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		var moves []JumpMove
+		for range rapid.IntRange(0, 12).Draw(t, "jumps") {
+			kind := rapid.SampledFrom([]MoveKind{JumpMoved, JumpMoved, JumpAppeared, JumpGone}).Draw(t, "kind")
+			from := float64(rapid.IntRange(0, 40).Draw(t, "from"))
+			to := float64(rapid.IntRange(0, 40).Draw(t, "to"))
+			moves = append(moves, JumpMove{Kind: kind, From: from, To: to, Distance: to - from})
+		}
+		scan := func(x float64, upstream bool) int {
+			side := func(toe float64) bool { return x < toe || (x == toe && upstream) }
+			for i := range moves {
+				m := &moves[i]
+				if lo, hi := m.Span(); m.Kind == JumpMoved && x >= lo && x <= hi && side(m.From) != side(m.To) {
+					return i
+				}
+			}
+			return -1
+		}
+		w := newSweep(moves)
+		x := 0.0
+		for range rapid.IntRange(0, 60).Draw(t, "points") {
+			x += float64(rapid.IntRange(0, 2).Draw(t, "step")) / 2
+			up := rapid.Bool().Draw(t, "upstream")
+			if got, want := w.across(x, up), scan(x, up); got != want {
+				t.Fatalf("station %g (upstream %v): sweep %d, scan %d", x, up, got, want)
+			}
+		}
+	})
 }

@@ -156,25 +156,60 @@ func jumpMoves(old, new *solver.ReachResult) []JumpMove {
 	return out
 }
 
-// across is the index of the moved jump whose two toes a compared point
-// lies between, or −1: the proposed point at station x (the first of two
-// points there when upstream) is on one side of the jump and the existing
-// value compared with it (oldAt) on the other.
-func across(moves []JumpMove, x float64, upstream bool) int {
-	side := func(toe float64) bool { return x < toe || (x == toe && upstream) }
+// sweep finds, for compared points taken in station order, the moved
+// jump whose two toes a point lies between (across). It keeps the moves
+// whose span has begun and not ended, so that a point costs the number
+// of spans over it rather than the number of jumps of the reach.
+type sweep struct {
+	moves  []JumpMove
+	order  []int // the moved jumps by the start of their span
+	next   int
+	active []int
+}
+
+func newSweep(moves []JumpMove) *sweep {
+	w := &sweep{moves: moves}
 	for i := range moves {
-		m := &moves[i]
-		if m.Kind != JumpMoved {
-			continue
-		}
-		if lo, hi := m.Span(); x < lo || x > hi {
-			continue
-		}
-		if side(m.From) != side(m.To) {
-			return i
+		if moves[i].Kind == JumpMoved {
+			w.order = append(w.order, i)
 		}
 	}
-	return -1
+	slices.SortStableFunc(w.order, func(a, b int) int {
+		la, _ := moves[a].Span()
+		lb, _ := moves[b].Span()
+		return cmp.Compare(la, lb)
+	})
+	return w
+}
+
+// across is the index of the moved jump whose two toes the proposed
+// point at station x (the first of two points there when upstream) lies
+// between, or −1: the point is on one side of the jump and the existing
+// value compared with it (oldAt) on the other. Stations come in
+// non-decreasing order.
+func (w *sweep) across(x float64, upstream bool) int {
+	for w.next < len(w.order) {
+		if lo, _ := w.moves[w.order[w.next]].Span(); lo > x {
+			break
+		}
+		w.active = append(w.active, w.order[w.next])
+		w.next++
+	}
+	side := func(toe float64) bool { return x < toe || (x == toe && upstream) }
+	found := -1
+	keep := w.active[:0]
+	for _, i := range w.active {
+		m := &w.moves[i]
+		if _, hi := m.Span(); hi < x {
+			continue // ended
+		}
+		keep = append(keep, i)
+		if side(m.From) != side(m.To) && (found < 0 || i < found) {
+			found = i
+		}
+	}
+	w.active = keep
+	return found
 }
 
 // record counts a compared point between the toes of m with the
@@ -246,7 +281,8 @@ func (m *JumpMove) Text(unit string) string {
 		b.WriteString(" and the flow " + numfmt.Num(math.Abs(m.Velocity.Delta)) + " " + unit + "/s " + faster)
 	}
 	if m.Distance < 0 {
-		b.WriteString(", subcritical where the existing flow was supercritical: a real rise over that span")
+		b.WriteString(", subcritical where the existing flow was supercritical: a real rise over that span, with as much less " +
+			"freeboard (the check of the proposed model judges its freeboard there)")
 	} else {
 		b.WriteString(", supercritical where the existing flow was subcritical")
 	}

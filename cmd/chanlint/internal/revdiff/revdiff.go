@@ -242,6 +242,7 @@ func compareReach(event string, old, new *solver.ReachResult, banks bankCache, u
 		}
 	}
 	p.Jumps = jumpMoves(old, new)
+	moves := newSweep(p.Jumps)
 	limit := old.Points[len(old.Points)-1].Station
 	for k, pt := range new.Points {
 		x := pt.Station
@@ -258,7 +259,7 @@ func compareReach(event string, old, new *solver.ReachResult, banks bankCache, u
 		p.OldWSE = append(p.OldWSE, ow)
 		p.NewWSE = append(p.NewWSE, pt.WSE)
 		p.Compared++
-		a := across(p.Jumps, x, upstream)
+		a := moves.across(x, upstream)
 		p.Across = append(p.Across, a)
 		if a >= 0 {
 			// One revision is on each side of a jump that moved: the
