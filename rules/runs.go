@@ -23,7 +23,7 @@ type run struct {
 	first, last int            // point indices, inclusive
 	sec         *model.Section // the section of every point (sectionAt)
 	finite      bool           // some point has a finite station (scan judges it)
-	usable      bool           // every point is usable, so the extremes are numbers
+	usable      bool           // every point is usable (sum is finite), so the extremes are numbers
 	full        bool           // some point flows full (closed conduits)
 	inBend      bool           // some point lies inside a bend of the reach
 
@@ -33,6 +33,8 @@ type run struct {
 	minFroude, maxFroude float64
 	maxDV                float64 // depth · mean velocity
 	maxDSf, maxRSf       float64 // depth · |Sf| and R · |Sf|
+
+	sum float64 // of every figure of its points (finite when they all are: usable)
 
 	zoned    bool    // maxZoned is worked out
 	maxZoned float64 // the highest zone velocity (highestVelocity)
@@ -181,9 +183,14 @@ func pointRuns(rr *solver.ReachResult, out []run) []run {
 		r.last = i
 		r.finite = r.finite || finiteNum(p.Station)
 		r.full = r.full || p.Full
-		// The products and differences above are finite when the fields
-		// are (usable), barring overflow, which the sum catches.
-		r.usable = r.usable && usable(p) && (dv*0+dsf*0+rsf*0+stage*0) == 0
+		// usable, spelled out over the run: the sum of the fields read and
+		// of the products formed is finite only when they all are (the
+		// points of a run whose finite figures overflow the sum are merely
+		// judged one by one). One addition a figure, where a test of each
+		// point (usable) costs a multiplication as well.
+		r.sum += p.Station + p.Invert + p.Depth + p.WSE + p.Velocity + p.Froude +
+			p.Energy + p.Area + p.TopWidth + p.HydraulicRadius + p.FrictionSlope + dv + dsf + rsf + stage
+		r.usable = finiteNum(r.sum)
 		if len(bends) > 0 && !r.inBend {
 			for _, b := range bends {
 				if b.Radius > 0 && p.Station >= b.FromStation && p.Station <= b.ToStation {
