@@ -60,12 +60,12 @@ func applyExceptions(m *model.Model, fs []Finding, p *policies.Policy) {
 	approved := p.Exceptions == policies.Approved
 	for i := range fs {
 		f := &fs[i]
-		if !waivable(p, f.Rule) {
-			continue
-		}
 		for _, ex := range m.Exceptions {
 			if !covers(ex, f) {
 				continue
+			}
+			if !waivable(p, f.Rule) {
+				break // asked of a covered finding only: most findings have no exception
 			}
 			reason := ex.Reason
 			if approved {
