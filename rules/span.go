@@ -127,47 +127,51 @@ func scan(rr *solver.ReachResult, runs []run, screen screenFunc, w worse, judge 
 	if screen == nil {
 		runs = nil
 	}
-	k := 0 // the next run
-	for i := 0; i < len(pts); i++ {
-		if k < len(runs) && runs[k].first == i {
+	k := 0 // the next run; the runs split the points in order (pointRuns)
+	for i := 0; i < len(pts); {
+		end := len(pts) // the end of the stretch judged point by point
+		if k < len(runs) {
 			r := &runs[k]
 			k++
+			end = r.last + 1
 			if r.usable && screen(rr, r) {
 				if r.finite {
 					cur = nil // a passing point ends a span
 				}
-				i = r.last
+				i = end
 				continue
 			}
 		}
-		p := &pts[i]
-		if !finiteNum(p.Station) {
-			continue
+		for ; i < end; i++ {
+			p := &pts[i]
+			if !finiteNum(p.Station) {
+				continue
+			}
+			if !judge(rr, p, v) {
+				cur = nil
+				continue
+			}
+			// A figure that overflows (or a limit that is not finite) cannot be
+			// reported honestly: the point is left unchecked.
+			if v.value*0+v.limit*0+v.short*0+v.aux*0 != 0 { // finite, spelled out
+				continue
+			}
+			blk := at(rr, p) // asked of failing points only
+			if cur != nil && (cur.block != blk || cur.kind != v.kind) {
+				cur = nil
+			}
+			if cur == nil {
+				out = append(out, span{first: i, from: p.Station, worst: i, value: v.value,
+					limit: v.limit, short: v.short, aux: v.aux, kind: v.kind, block: blk})
+				cur = &out[len(out)-1]
+			}
+			cur.last, cur.to = i, p.Station
+			if (w != nil && w(v.value, cur.value)) || (w == nil && v.short > cur.short) {
+				cur.worst, cur.value, cur.limit = i, v.value, v.limit
+			}
+			cur.short = max(cur.short, v.short)
+			cur.aux = max(cur.aux, v.aux)
 		}
-		if !judge(rr, p, v) {
-			cur = nil
-			continue
-		}
-		// A figure that overflows (or a limit that is not finite) cannot be
-		// reported honestly: the point is left unchecked.
-		if v.value*0+v.limit*0+v.short*0+v.aux*0 != 0 { // finite, spelled out
-			continue
-		}
-		blk := at(rr, p) // asked of failing points only
-		if cur != nil && (cur.block != blk || cur.kind != v.kind) {
-			cur = nil
-		}
-		if cur == nil {
-			out = append(out, span{first: i, from: p.Station, worst: i, value: v.value,
-				limit: v.limit, short: v.short, aux: v.aux, kind: v.kind, block: blk})
-			cur = &out[len(out)-1]
-		}
-		cur.last, cur.to = i, p.Station
-		if (w != nil && w(v.value, cur.value)) || (w == nil && v.short > cur.short) {
-			cur.worst, cur.value, cur.limit = i, v.value, v.limit
-		}
-		cur.short = max(cur.short, v.short)
-		cur.aux = max(cur.aux, v.aux)
 	}
 	return out
 }
