@@ -3,6 +3,8 @@ package revdiff
 import (
 	"fmt"
 	"math"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 
@@ -312,4 +314,41 @@ func TestSweepMatchesScan(t *testing.T) {
 			}
 		}
 	})
+}
+
+// TestFinerStepsMoveJumpsOnlyNumerically diffs the demo against itself
+// with the apron's points at most 2 cm apart: the same flow computed
+// with other steps. Its jumps move by millimetres, within the solver's
+// toe-location tolerance, and no profile reads a jump's height (about a
+// metre) as a rise.
+//
+// Source: common practice (no published source): a finer computation of
+// the same model is the same flow.
+func TestFinerStepsMoveJumpsOnlyNumerically(t *testing.T) {
+	src, err := os.ReadFile(filepath.Join("..", "..", "..", "..", "testdata", "demo", "kestrel-ridge.chan.hcl"))
+	require.NoError(t, err)
+	const apron = "  invert  = [1.05, 1.05]\n"
+	require.Equal(t, 1, strings.Count(string(src), apron), "the demo's apron")
+	fine := strings.Replace(string(src), apron, apron+"  max_spacing = 0.02\n", 1)
+	d := Compare(solved(t, "old.chan.hcl", string(src), nil), solved(t, "new.chan.hcl", fine, nil), policy(t, "no_rise {\n limit = 0.01\n}"))
+	moves := 0
+	for _, p := range d.Profiles {
+		for _, m := range p.Jumps {
+			moves++
+			t.Logf("%s %s: %s", p.Reach, p.Event, m.Text("m"))
+			assert.Equal(t, JumpMoved, m.Kind)
+			assert.True(t, m.Numerical, "%s %s: %+.4f m against %.4f m", p.Reach, p.Event, m.Distance, m.Tolerance)
+		}
+		if len(p.Jumps) > 0 {
+			fall := math.Inf(1)
+			for i := range p.Stations {
+				fall = math.Min(fall, p.NewWSE[i]-p.OldWSE[i])
+			}
+			t.Logf("%s %s: rise %+.4f, fall %+.4f m (%+.4f, %+.4f counting the moves' spans)", p.Reach, p.Event, p.Rise.Delta, p.Fall.Delta, largestRise(&p), fall)
+		}
+		assert.Less(t, p.Rise.Delta, 0.01, "%s %s", p.Reach, p.Event)
+		assert.Greater(t, p.Fall.Delta, -0.01, "%s %s", p.Reach, p.Event)
+	}
+	assert.Positive(t, moves, "the finer steps move the apron's jumps")
+	assert.Empty(t, d.NoRise)
 }
