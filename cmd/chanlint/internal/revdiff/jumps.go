@@ -224,8 +224,8 @@ func (m *JumpMove) record(dw, dv, x float64) {
 	m.Compared++
 }
 
-// ToleranceBasis names what Tolerance is, for the outputs that print it.
-var ToleranceBasis = "the solver's toe-location tolerance (each depth of the specific-force balance to " +
+// toleranceBasis names what Tolerance is, for the outputs that print it.
+var toleranceBasis = "the solver's toe-location tolerance (each depth of the specific-force balance to " +
 	numfmt.Sig(solver.ToeDepthAccuracy, 1) + " of itself, carried to the toe's station)"
 
 // Text describes the move in one sentence with lengths in unit
@@ -259,7 +259,7 @@ func (m *JumpMove) Text(unit string) string {
 	a, z := numfmt.Pair(lo, hi) // ends that never print alike
 	span := a + "–" + z + " " + unit
 	if m.Numerical {
-		b.WriteString(": within " + ToleranceBasis + " of " + numfmt.Num(m.Tolerance) + " " + unit +
+		b.WriteString(": within " + toleranceBasis + " of " + numfmt.Num(m.Tolerance) + " " + unit +
 			", a move of the computation, not of the flow; the difference across " + span + " is not counted as a rise or fall")
 		return b.String()
 	}
@@ -286,6 +286,6 @@ func (m *JumpMove) Text(unit string) string {
 	} else {
 		b.WriteString(", supercritical where the existing flow was subcritical")
 	}
-	b.WriteString("; the move exceeds " + ToleranceBasis + " of " + numfmt.Num(m.Tolerance) + " " + unit)
+	b.WriteString("; the move exceeds " + toleranceBasis + " of " + numfmt.Num(m.Tolerance) + " " + unit)
 	return b.String()
 }
