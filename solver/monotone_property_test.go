@@ -1,0 +1,165 @@
+package solver
+
+import (
+	"math"
+	"testing"
+
+	"github.com/chanlint/chanlint/model"
+	"pgregory.net/rapid"
+)
+
+// depthAt is the computed depth of rr at station x: a computed point's own
+// depth, or one standard step from the point before (Between), or linear
+// interpolation where Between declines.
+func depthAt(rr *ReachResult, x float64) float64 {
+	pts := rr.Points
+	for i := 0; i+1 < len(pts); i++ {
+		a, b := pts[i], pts[i+1]
+		switch {
+		case x == a.Station:
+			return a.Depth
+		case x == b.Station:
+			return b.Depth
+		case x > a.Station && x < b.Station:
+			if p, _, ok := rr.Between(i, x); ok {
+				return p.Depth
+			}
+			return a.Depth + (b.Depth-a.Depth)*(x-a.Station)/(b.Station-a.Station)
+		}
+	}
+	return math.NaN()
+}
+
+// TestMoreRoughnessNeverLowersMildProfile: on a mild slope with the same
+// outlet depth, a rougher channel carries the same discharge with more
+// friction slope at every depth, so the M1 or M2 profile is nowhere lower:
+// integrating upstream from the same control, dy/dx = (S0 − Sf)/(1 − F²)
+// with F < 1 is smaller (more negative) with the larger Sf, so the depth
+// upstream is larger.
+//
+// Source: Chow, Open-Channel Hydraulics (1959), §9-2 (from memory): the
+// sign of dy/dx by zone; Manning's Sf = (n·Q/(k·A·R^(2/3)))² grows with n.
+func TestMoreRoughnessNeverLowersMildProfile(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := drawMildChannel(t)
+		y, _, _ := c.outletDepth(t)
+		rough := c
+		rough.n = c.n * (1 + rapid.Float64Range(0.01, 0.6).Draw(t, "more"))
+		smooth := solveText(t, c.text(0, y))
+		rr := solveText(t, rough.text(0, y))
+		for _, p := range rr.Points {
+			want := depthAt(smooth, p.Station)
+			// The step control's relative tolerance per step, 1e-4 of the
+			// depth, summed over a few steps near the control, plus the
+			// 1e-7 closure of the depth.
+			if p.Depth < want-2e-4*want-1e-7 {
+				t.Fatalf("n %.6g → %.6g lowers the depth at station %.6g from %.9g to %.9g\n%s",
+					c.n, rough.n, p.Station, want, p.Depth, rough.text(0, y))
+			}
+		}
+	})
+}
+
+// steepJump is a prismatic steep channel, supercritical from critical depth
+// at its head, ending in a tailwater high enough for a jump.
+type steepJump struct {
+	shape    int // 0 rectangle, 1 trapezoid
+	b, z, n  float64
+	s0, q    float64
+	length   float64
+	tw, more float64 // tailwater as a multiple of the sequent depth of yn; the rise
+}
+
+func drawSteepJump(t *rapid.T) steepJump {
+	return steepJump{
+		shape:  rapid.IntRange(0, 1).Draw(t, "shape"),
+		b:      rapid.Float64Range(1, 10).Draw(t, "b"),
+		z:      rapid.Float64Range(0.5, 2.5).Draw(t, "z"),
+		n:      rapid.Float64Range(0.011, 0.02).Draw(t, "n"),
+		s0:     rapid.Float64Range(0.01, 0.06).Draw(t, "s0"),
+		q:      rapid.Float64Range(1, 60).Draw(t, "q"),
+		length: rapid.Float64Range(100, 800).Draw(t, "length"),
+		tw:     rapid.Float64Range(1.0, 1.6).Draw(t, "tw"),
+		more:   rapid.Float64Range(0.001, 0.2).Draw(t, "more"),
+	}
+}
+
+func (c steepJump) section() *model.Section {
+	z := c.z
+	if c.shape == 0 {
+		z = 0
+	}
+	return trapezoid("chute", c.b, z, c.n, 1e3)
+}
+
+func (c steepJump) solve(t *rapid.T, tw float64) *ReachResult {
+	m := buildNet(t, model.SI, []netReach{{name: "chute", from: "a", to: "b", length: c.length, slope: c.s0, sec: c.section(), inflow: c.q}},
+		model.Outlet{Kind: model.OutletDepth, Value: tw})
+	res, err := Solve(m, Options{})
+	if err != nil {
+		t.Fatalf("Solve: %v", err)
+	}
+	return res.Events[0].Reaches[0]
+}
+
+// TestHigherTailwaterMovesJumpUpstream: below a steep chute, a higher
+// tailwater pushes the subcritical S1 profile further upstream, so the
+// jump toe (where the specific forces of the two profiles meet) moves
+// upstream, never downstream; and a tailwater that drowns the jump out of
+// the reach stays drowned when it rises.
+//
+// Source: Chow, Open-Channel Hydraulics (1959), ch. 3 and §10 (from
+// memory): the specific force of the S1 profile at a station grows with
+// its depth, that of the supercritical profile does not depend on the
+// tailwater, and the jump is where they are equal.
+func TestHigherTailwaterMovesJumpUpstream(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := drawSteepJump(t)
+		g := NewGeometry(c.section(), model.SI)
+		yn, err := NormalDepth(g, c.q, c.s0)
+		if err != nil {
+			t.Fatalf("normal depth: %v", err)
+		}
+		yc, err := CriticalDepth(g, c.q)
+		if err != nil {
+			t.Fatalf("critical depth: %v", err)
+		}
+		if !(yn < 0.95*yc) {
+			t.Skip("not clearly steep")
+		}
+		y2, err := SequentDepth(g, c.q, yn)
+		if err != nil {
+			t.Fatalf("sequent depth: %v", err)
+		}
+		tw1 := y2 * c.tw
+		tw2 := tw1 * (1 + c.more)
+		low, high := c.solve(t, tw1), c.solve(t, tw2)
+		if len(low.Jumps) > 1 || len(high.Jumps) > 1 {
+			t.Fatalf("more than one jump in a prismatic chute: %v / %v", low.Jumps, high.Jumps)
+		}
+		switch {
+		case len(low.Jumps) == 1 && len(high.Jumps) == 1:
+			a, b := low.Jumps[0].Station, high.Jumps[0].Station
+			// The toe is found to the standard step's accuracy; allow a
+			// millionth of the reach.
+			if b > a+1e-6*c.length {
+				t.Fatalf("tailwater %.6g → %.6g moves the toe downstream from %.6g to %.6g (yn %.6g, yc %.6g, y2 %.6g)",
+					tw1, tw2, a, b, yn, yc, y2)
+			}
+		case len(low.Jumps) == 0 && len(high.Jumps) == 1:
+			// No jump at the lower tailwater: either the jump was drowned
+			// up to the head (then the higher one must be too) or the
+			// tailwater could not hold it in the reach.
+			if low.Points[0].Regime == Subcritical {
+				t.Fatalf("tailwater %.6g drowns the chute but %.6g has a jump at %.6g", tw1, tw2, high.Jumps[0].Station)
+			}
+		case len(low.Jumps) == 1 && len(high.Jumps) == 0:
+			// The higher tailwater must have drowned the jump up to the
+			// head, not swept it out of the reach.
+			if high.Points[0].Regime != Subcritical {
+				t.Fatalf("tailwater %.6g holds a jump at %.6g but %.6g has none and is not drowned", tw1, low.Jumps[0].Station, tw2)
+			}
+		}
+	})
+}
+
