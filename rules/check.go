@@ -339,9 +339,26 @@ func (c *Context) eachReach(fn func(ev *solver.EventResult, rr *solver.ReachResu
 // spans (see scan) and hands each span to emit.
 func (c *Context) scanPoints(screen screenFunc, w worse, judge judgeFunc,
 	emit func(ev *solver.EventResult, rr *solver.ReachResult, s span)) {
+	c.scanPointsThen(screen, w, judge, nil, emit)
+}
+
+// scanPointsThen is scanPoints with a pass, more (unless nil), between
+// locating the spans of a reach and emitting them, which may append spans
+// that scan cannot see (a failing stretch between two computed points
+// neither of which fails); the spans are then emitted in station order.
+func (c *Context) scanPointsThen(screen screenFunc, w worse, judge judgeFunc,
+	more func(rr *solver.ReachResult, spans []span) []span,
+	emit func(ev *solver.EventResult, rr *solver.ReachResult, s span)) {
 	c.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		c.spans = scan(rr, c.runsOf(rr), c.screened(screen), w, judge, reachBlock, &c.verdict, c.spans[:0])
 		locate(rr, w, judge, reachBlock, &c.verdict, &c.trial, c.spans)
+		if more != nil {
+			n := len(c.spans)
+			c.spans = more(rr, c.spans)
+			if len(c.spans) > n {
+				slices.SortStableFunc(c.spans, func(a, b span) int { return cmp.Compare(a.from, b.from) })
+			}
+		}
 		for _, s := range c.spans {
 			emit(ev, rr, s)
 		}

@@ -254,7 +254,7 @@ func (cv *coverage) buffered() []string {
 			return
 		}
 		ctrl.near(rr, -1, buffer) // fills the controls of rr
-		for i, x := range ctrl.at {
+		for i, x := range ctrl.at[:ctrl.own] {
 			items = append(items, fmt.Sprintf("reach %q at %s %s (%s %s, event %q)", rr.Reach.Name, numfmt.Num(x), cv.u.Length(),
 				numfmt.Num(ctrl.len[i]), cv.u.Length(), ev.Event.Name))
 		}

@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"math"
 	"strings"
 
 	"github.com/chanlint/chanlint/model"
@@ -58,7 +59,7 @@ storage.`,
 func checkFreeboard(ctx *Context, report func(Finding)) {
 	st := freeboardSettings{minimum: ctx.Config.Number("minimum"), fraction: ctx.Config.Number("fraction")}
 	u := ctx.units()
-	ctx.scanPoints(func(rr *solver.ReachResult, r *run) bool {
+	ctx.scanPointsThen(func(rr *solver.ReachResult, r *run) bool {
 		sec := r.sec
 		if sec == nil || sec.Closed() || !finiteNum(sec.Height) {
 			return true
@@ -83,6 +84,8 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 		}
 		*v = verdict{value: avail, limit: req, short: req - avail}
 		return true
+	}, func(rr *solver.ReachResult, spans []span) []span {
+		return overtopEdgeSpans(rr, st, spans, &ctx.trial)
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		depth := rr.Points[s.worst].Depth
 		if sec, ok := overtopsAtLocatedEnd(rr, s); ok {
@@ -149,6 +152,82 @@ func overtopsAtLocatedEnd(rr *solver.ReachResult, s span) (*model.Section, bool)
 		}
 	}
 	return nil, false
+}
+
+// overtopEdgeSpans appends to spans the failing stretches that lie wholly
+// between two computed points, one passing and the other where the channel
+// overtops (which freeboard leaves to capacity): from the passing point
+// the freeboard falls continuously to zero at the top of bank, so it
+// crosses the requirement in between, yet no computed point fails and scan
+// sees nothing. Whether a computed point falls in that stretch depends
+// only on the step sizes (rapid found a reach cut in two at its middle
+// whose upper half reported such a stretch, 12.5 m long, that the whole
+// reach did not). The span runs from where the freeboard meets the
+// requirement to where the water surface reaches the top of bank, each
+// bracketed to locateTol by bisection.
+func overtopEdgeSpans(rr *solver.ReachResult, st freeboardSettings, spans []span, trial *solver.Point) []span {
+	pts := rr.Points
+	found := len(spans)
+	for i := 0; i+1 < len(pts); i++ {
+		a, b := &pts[i], &pts[i+1]
+		sec := sectionAt(rr, a)
+		if sec == nil || sec.Closed() || sec != sectionAt(rr, b) || !finiteNum(sec.Height) || !(b.Station > a.Station) {
+			continue
+		}
+		oa, ob := overtopsAt(sec, a), overtopsAt(sec, b)
+		if oa == ob {
+			continue
+		}
+		o := i // the passing point
+		if oa {
+			o = i + 1
+		}
+		q := &pts[o]
+		if covered(spans[:found], o) || !usable(q) {
+			continue // a span reaches the passing point: locate moved its end
+		}
+		short := func(p *solver.Point) float64 {
+			return max(st.minimum, st.fraction*p.Depth) - (p.Invert + sec.Height - p.WSE)
+		}
+		if short(q) > 0 || !(max(st.minimum, st.fraction*sec.Height) > 0) {
+			continue // q fails (it would be in a span), or nothing is required at the bank
+		}
+		// top: the station where the water surface reaches the top of bank.
+		dry, wet := q.Station, pts[i+1-(o-i)].Station
+		for n := 0; n < locateMaxIter && math.Abs(wet-dry) > locateTol(dry); n++ {
+			x := dry + (wet-dry)/2
+			p, _, ok := rr.Between(i, x)
+			if !ok {
+				break
+			}
+			if overtopsAt(sec, &p) {
+				wet = x
+			} else {
+				dry = x
+			}
+		}
+		top := dry
+		// meet: where the freeboard meets the requirement, between q and top.
+		pass, fail := q.Station, top
+		for n := 0; n < locateMaxIter && math.Abs(fail-pass) > locateTol(pass); n++ {
+			x := pass + (fail-pass)/2
+			p, _, ok := rr.Between(i, x)
+			if !ok {
+				break
+			}
+			if short(&p) > 0 {
+				fail = x
+			} else {
+				pass = x
+			}
+		}
+		*trial = *q
+		trial.Station = top
+		req := max(st.minimum, st.fraction*sec.Height)
+		spans = append(spans, span{first: o, last: o, worst: o, from: min(pass, top), to: max(pass, top),
+			value: 0, limit: req, short: req, block: reachBlock(rr, trial)})
+	}
+	return spans
 }
 
 // overtopsAt reports whether the water surface at p is above the top of

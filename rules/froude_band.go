@@ -4,6 +4,7 @@ import (
 	"math"
 	"sort"
 
+	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/model/numfmt"
 	"github.com/chanlint/chanlint/policies"
 	"github.com/chanlint/chanlint/solver"
@@ -39,8 +40,9 @@ change of section that chokes the flow) passes the flow through F = 1 by
 construction, so the profile next to it always crosses the band: that
 stretch is the control's, not a design choice, and reporting it would be
 noise. Points within control_buffer critical depths (yc of the control
-point, default 10) of such a control are not checked; the output's "not
-evaluated" statement counts them. A near-critical stretch that reaches
+point, default 10) of such a control are not checked, measured along the
+channel and through a node into the next reach where the water level
+carries on unchanged; the output's "not evaluated" statement counts them. A near-critical stretch that reaches
 beyond the buffer (a slope close to critical, say) is reported from where
 the buffer ends. Set control_buffer = 0 to check every point.`,
 		Basis: `avoiding a band of Froude numbers around 1 (roughly 0.86–1.13)
@@ -100,11 +102,32 @@ const defaultControlBuffer = 10
 // solver imposed: points at critical depth (regime critical) at a reach
 // end or at a change of section (two points at one station). near reports
 // whether station x lies within buffer critical depths of one.
+//
+// With the event result set (forEvent), the controls of the reaches above
+// and below whose profile carries on through the node without a break (the
+// same water level on both sides: no fall, jump or drop) count too, at
+// their stations measured along the channel: a buffer does not end at a
+// node the flow passes unchanged, or cutting a reach in two would report
+// a stretch next to a control that the whole reach leaves unchecked. The
+// first own of them are the reach's own.
 type controls struct {
+	ev  *solver.EventResult
 	rr  *solver.ReachResult
 	at  []float64 // stations
 	len []float64 // buffer lengths
+	own int
 }
+
+// forEvent sets the event result whose reaches the controls of the next
+// reach are looked up in.
+func (c *controls) forEvent(ev *solver.EventResult) {
+	if c.ev != ev {
+		c.ev, c.rr = ev, nil
+	}
+}
+
+// maxNodeHops bounds the walk through nodes for neighbouring controls.
+const maxNodeHops = 16
 
 func (c *controls) near(rr *solver.ReachResult, x, buffer float64) bool {
 	if buffer <= 0 {
@@ -112,19 +135,9 @@ func (c *controls) near(rr *solver.ReachResult, x, buffer float64) bool {
 	}
 	if c.rr != rr {
 		c.rr, c.at, c.len = rr, c.at[:0], c.len[:0]
-		pts := rr.Points
-		for i := range pts {
-			p := &pts[i]
-			if p.Regime != solver.Critical || !(p.CriticalDepth > 0) {
-				continue
-			}
-			end := i == 0 || i == len(pts)-1
-			change := (i > 0 && pts[i-1].Station == p.Station) || (i+1 < len(pts) && pts[i+1].Station == p.Station)
-			if end || change {
-				c.at = append(c.at, p.Station)
-				c.len = append(c.len, buffer*p.CriticalDepth)
-			}
-		}
+		c.add(rr, 0, buffer)
+		c.own = len(c.at)
+		c.neighbours(rr, buffer)
 	}
 	for i, s := range c.at {
 		if math.Abs(x-s) <= c.len[i] {
@@ -132,6 +145,128 @@ func (c *controls) near(rr *solver.ReachResult, x, buffer float64) bool {
 		}
 	}
 	return false
+}
+
+// add appends the controls of rr, their stations shifted by offset.
+func (c *controls) add(rr *solver.ReachResult, offset, buffer float64) {
+	pts := rr.Points
+	for i := range pts {
+		p := &pts[i]
+		if p.Regime != solver.Critical || !(p.CriticalDepth > 0) {
+			continue
+		}
+		end := (i == 0 || i == len(pts)-1) && !c.criticalThrough(rr, i)
+		change := (i > 0 && pts[i-1].Station == p.Station) || (i+1 < len(pts) && pts[i+1].Station == p.Station)
+		if end || change {
+			c.at = append(c.at, p.Station+offset)
+			c.len = append(c.len, buffer*p.CriticalDepth)
+		}
+	}
+}
+
+// neighbours adds the controls of the reaches the profile of rr runs on
+// into, upstream and downstream, as far as a buffer could reach.
+func (c *controls) neighbours(rr *solver.ReachResult, buffer float64) {
+	if c.ev == nil || len(rr.Points) == 0 {
+		return
+	}
+	// Upstream: a single reach above whose end meets rr's start level.
+	cur, offset := rr, 0.0
+	for hop := 0; hop < maxNodeHops; hop++ {
+		if len(cur.Reach.Upstream) != 1 {
+			break
+		}
+		up := c.resultOf(cur.Reach.Upstream[0])
+		if up == nil || len(up.Points) == 0 || !sameLevel(up.Points[len(up.Points)-1], cur.Points[0]) {
+			break
+		}
+		offset -= up.Reach.Length
+		c.add(up, offset, buffer)
+		if -offset > buffer*maxCritical(up) {
+			break
+		}
+		cur = up
+	}
+	// Downstream: the reach below, when rr is its only inflow.
+	cur, offset = rr, 0.0
+	for hop := 0; hop < maxNodeHops; hop++ {
+		dn := cur.Reach.Downstream
+		if dn == nil || len(dn.Upstream) != 1 {
+			break
+		}
+		down := c.resultOf(dn)
+		if down == nil || len(down.Points) == 0 || !sameLevel(cur.Points[len(cur.Points)-1], down.Points[0]) {
+			break
+		}
+		offset += cur.Reach.Length
+		c.add(down, offset, buffer)
+		if offset > buffer*maxCritical(down) {
+			break
+		}
+		cur = down
+	}
+}
+
+// criticalThrough reports whether the end point i (the first or the last)
+// of rr lies at a node the flow passes at critical depth without a control:
+// the water level carries on into the one reach beyond and both reaches
+// are on a critical slope (normal depth at critical depth: uniform flow
+// at F ≈ 1, whose computed points the solver labels critical or
+// supercritical by a hair). The same flow in one reach has no control at
+// that station, so neither has it cut in two. A break from a mild to a
+// steep slope, where the flow turns critical at the node, stays a control.
+func (c *controls) criticalThrough(rr *solver.ReachResult, i int) bool {
+	pts := rr.Points
+	if c.ev == nil || len(pts) == 0 || rr.SlopeClass != solver.CriticalSl {
+		return false
+	}
+	var other *solver.ReachResult
+	var near solver.Point // the other's point at the node
+	if i == 0 {
+		if len(rr.Reach.Upstream) != 1 {
+			return false
+		}
+		if other = c.resultOf(rr.Reach.Upstream[0]); other == nil || len(other.Points) == 0 {
+			return false
+		}
+		near = other.Points[len(other.Points)-1]
+	} else {
+		dn := rr.Reach.Downstream
+		if dn == nil || len(dn.Upstream) != 1 {
+			return false
+		}
+		if other = c.resultOf(dn); other == nil || len(other.Points) == 0 {
+			return false
+		}
+		near = other.Points[0]
+	}
+	return other.SlopeClass == solver.CriticalSl && sameLevel(pts[i], near)
+}
+
+// resultOf is the event's result for reach r.
+func (c *controls) resultOf(r *model.Reach) *solver.ReachResult {
+	if r == nil || r.Index < 0 || r.Index >= len(c.ev.Reaches) {
+		return nil
+	}
+	if rr := c.ev.Reaches[r.Index]; rr != nil && rr.Reach == r {
+		return rr
+	}
+	return nil
+}
+
+// sameLevel: the water level carries on through a node (within the
+// solver's closure, far below any fall or drop).
+func sameLevel(a, b solver.Point) bool {
+	return math.Abs(a.WSE-b.WSE) <= 1e-6*max(1, a.Depth, b.Depth)
+}
+
+// maxCritical is the largest critical depth of a reach result.
+func maxCritical(rr *solver.ReachResult) float64 {
+	m := 0.0
+	for i := range rr.Points {
+		m = max(m, rr.Points[i].CriticalDepth)
+	}
+	return m
 }
 
 // bufferEdgeSpans appends to spans the failing stretches that end at the
@@ -151,6 +286,8 @@ func bufferEdgeSpans(rr *solver.ReachResult, ctrl *controls, buffer float64, inB
 	}
 	ctrl.near(rr, math.NaN(), buffer) // fills ctrl.at and ctrl.len for rr
 	pts := rr.Points
+	// Every control's edge is looked at, a neighbour's too: its buffer
+	// may end inside this reach.
 	inOther := func(k int, x float64) bool {
 		for k2, c := range ctrl.at {
 			if k2 != k && math.Abs(x-c) <= ctrl.len[k2] {
@@ -249,17 +386,11 @@ func checkFroudeBand(ctx *Context, report func(Finding)) {
 		report(f)
 	}
 	ctx.eachReach(func(ev *solver.EventResult, rr *solver.ReachResult) {
+		ctrl.forEvent(ev)
 		spans := scan(rr, ctx.runsOf(rr), ctx.screened(screen), nil, judge, reachBlock, &ctx.verdict, ctx.spans[:0])
 		locate(rr, nil, judge, reachBlock, &ctx.verdict, &ctx.trial, spans)
 		found := len(spans)
-		inSpan := func(i int) bool {
-			for _, s := range spans[:found] {
-				if i >= s.first && i <= s.last {
-					return true
-				}
-			}
-			return false
-		}
+		inSpan := func(i int) bool { return covered(spans[:found], i) }
 		spans = bufferEdgeSpans(rr, &ctrl, buffer, inBand, inSpan, &ctx.verdict, spans)
 		if len(spans) > 1 { // most reaches have none: no sort, and no closure for it
 			sort.SliceStable(spans, func(a, b int) bool { return spans[a].from < spans[b].from })

@@ -96,6 +96,16 @@ type span struct {
 	block       *model.Src // the responsible block
 }
 
+// covered reports whether computed point i lies in one of the spans.
+func covered(spans []span, i int) bool {
+	for _, s := range spans {
+		if i >= s.first && i <= s.last {
+			return true
+		}
+	}
+	return false
+}
+
 // worse orders measured values: worse(a, b) reports whether a is further
 // past the limit than b. Nil means "the larger shortfall is worse".
 type worse func(a, b float64) bool
