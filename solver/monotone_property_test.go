@@ -162,4 +162,3 @@ func TestHigherTailwaterMovesJumpUpstream(t *testing.T) {
 		}
 	})
 }
-
