@@ -1,6 +1,7 @@
 package model
 
 import (
+	"fmt"
 	"math"
 	"regexp"
 	"strings"
@@ -88,8 +89,7 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 	r.From, _ = a.name("from")
 	r.To, _ = a.name("to")
 	r.SectionName, _ = a.name("section")
-	unit := d.unitSuffix()
-	r.Length, _ = a.positive("length", unit)
+	r.Length, _ = a.length("length", fixUnits+", or merge a piece this short into the reach beside it")
 	switch {
 	case a.has("slope") && a.has("invert"):
 		d.Errorf(a.m["invert"].NameRange, "Both slope and invert",
@@ -103,7 +103,9 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 			r.Slope = s
 		}
 	case a.has("invert"):
-		if p, ok := d.pair(a.m["invert"].Expr, label{attr: "invert", owner: a.what}, "[upstream elevation, downstream elevation]"); ok {
+		if p, ok := d.pair(a.m["invert"].Expr, label{attr: "invert", owner: a.what}, "[upstream elevation, downstream elevation]"); ok &&
+			d.elevation(a.m["invert"].Expr.Range(), label{attr: "the upstream invert", owner: a.what}, p[0]) &&
+			d.elevation(a.m["invert"].Expr.Range(), label{attr: "the downstream invert", owner: a.what}, p[1]) {
 			r.InvertUp, r.InvertDown, r.HasInvert = p[0], p[1], true
 			if r.Length > 0 {
 				r.Slope = (p[0] - p[1]) / r.Length
@@ -119,7 +121,7 @@ func (d *decoder) reach(b *hcl.Block) *Reach {
 			"%s needs slope (rise over run, e.g. 0.002) or invert = [upstream elevation, downstream elevation].", a.what)
 	}
 	if a.has("max_spacing") {
-		r.MaxSpacing, _ = a.positive("max_spacing", unit)
+		r.MaxSpacing, _ = a.length("max_spacing", "A spacing this fine adds no accuracy; leave max_spacing out for the solver's own step control, or write a spacing of centimetres or more")
 	}
 	r.Class = a.classWord("class", `"roadside-ditch"`)
 	if len(content.Blocks) > MaxSegments {
@@ -150,11 +152,12 @@ func (d *decoder) gate(b *hcl.Block) *Gate {
 	a, _ := d.attrs(b, gateSchema, &g.Src)
 	a.require(b.Body, "reach", "opening")
 	g.ReachName, _ = a.name("reach")
-	g.Opening, _ = a.positive("opening", d.unitSuffix())
+	g.Opening, _ = a.dimension("opening", fixUnits+"; a gate opened less than that is closed")
 	if c, ok := a.number("contraction"); ok {
-		if c <= 0 || c > 1 {
+		if c < MinContraction || c > 1 {
 			d.Errorf(a.m["contraction"].Expr.Range(), "Contraction out of range",
-				"contraction of %s is %g; the vena contracta is thinner than the opening, so it must lie in (0, 1] (about %g for a vertical gate).", a.what, c, DefaultContraction)
+				"contraction of %s is %g; the vena contracta is thinner than the opening, but no jet contracts more than Borda's re-entrant mouthpiece (%g), so it must lie in [%g, 1] (about %g for a vertical gate).",
+				a.what, c, MinContraction, MinContraction, DefaultContraction)
 		} else {
 			g.Contraction = c
 		}
@@ -177,9 +180,16 @@ func (a attrSet) stations(body hcl.Body) (from, to float64) {
 	a.require(body, "from_station", "to_station")
 	from, fok := a.station("from_station")
 	to, tok := a.station("to_station")
-	if fok && tok && from >= to {
+	switch least := MinLength.In(a.d.m.Units); {
+	case !fok || !tok:
+	case from >= to:
 		a.d.Errorf(a.m["to_station"].Expr.Range(), "Empty station range",
 			"to_station (%g) of %s must be greater than from_station (%g).", to, a.what, from)
+	case to-from < least:
+		unit := a.d.unitSuffix()
+		a.d.below(a.m["to_station"].Expr.Range(), "Station range too short",
+			label{attr: "the station range " + fmt.Sprintf("%g to %g", from, to), owner: a.what}, to-from, least, unit, whyLength,
+			fixUnits+" of the stations, or widen the range to the stretch it is about")
 	}
 	return from, to
 }
@@ -196,7 +206,8 @@ func (d *decoder) bend(b *hcl.Block) *Bend {
 	a, _ := d.attrs(b, bendSchema, &bn.Src)
 	bn.ReachName, bn.FromStation, bn.ToStation = a.span(b.Body)
 	a.require(b.Body, "radius")
-	bn.Radius, _ = a.positive("radius", d.unitSuffix())
+	bn.Radius, _ = a.atLeast("radius", MinDimension, "Dimension too small",
+		"a centreline radius under 1 cm is a corner no channel can follow", fixUnits+"; the radius is that of the bend's centreline")
 	return bn
 }
 
@@ -274,7 +285,7 @@ func (d *decoder) event(b *hcl.Block) *Event {
 	unit := d.m.Units.Length()
 	if at, ok := a.m["inflow"]; ok {
 		vals, n := d.reachValues(at.Expr, a.what, "inflow", "inflow to", `{ "main" = 12.5 }`, "Discharge must be positive",
-			"give a positive discharge in "+unit+"³/s, or remove the entry")
+			"give a positive discharge in "+unit+"³/s, or remove the entry", dischargeRange)
 		for _, v := range vals {
 			ev.Inflows = append(ev.Inflows, Inflow{ReachName: v.Key, Discharge: v.Value, Range: v.KeyRange})
 		}
@@ -291,7 +302,7 @@ func (d *decoder) event(b *hcl.Block) *Event {
 	ev.Class = a.classWord("class", `"major"`)
 	if at, ok := a.m["entrance"]; ok {
 		vals, _ := d.reachValues(at.Expr, a.what, "entrance", "entrance depth of", `{ "chute" = 0.4 }`, "Depth must be positive",
-			"give the known depth in "+unit+" at the upstream end, or remove the entry")
+			"give the known depth in "+unit+" at the upstream end, or remove the entry", depthRange)
 		for _, v := range vals {
 			ev.Entrances = append(ev.Entrances, Entrance{ReachName: v.Key, Depth: v.Value, Range: v.KeyRange})
 		}
@@ -309,18 +320,22 @@ type reachValue struct {
 // reachValues decodes an object of reach names to positive numbers (the
 // inflow or entrance of an event) and returns the valid entries and the
 // number of entries written. attr is the attribute's name, what names one
-// value in messages ("inflow to"), and summary and hint make the error for
-// a value that is not positive.
-func (d *decoder) reachValues(expr hcl.Expression, event owner, attr, what, example, summary, hint string) ([]reachValue, int) {
+// value in messages ("inflow to"), summary and hint make the error for
+// a value that is not positive, and rng is the physical range of a value.
+func (d *decoder) reachValues(expr hcl.Expression, event owner, attr, what, example, summary, hint string, rng valueRange) ([]reachValue, int) {
 	entries, _ := d.object(expr, attr+" of "+event.String(), example)
 	var out []reachValue
 	for _, e := range entries {
-		v, ok := d.number(e.Value, label{attr: what, owner: event, key: e.Key, in: true})
+		lbl := label{attr: what, owner: event, key: e.Key, in: true}
+		v, ok := d.number(e.Value, lbl)
 		if !ok {
 			continue
 		}
 		if v <= 0 {
 			d.Errorf(e.Value.Range(), summary, "%s %q in %s is %g; %s.", what, e.Key, event, v, hint)
+			continue
+		}
+		if !d.inRange(e.Value.Range(), lbl, v, rng) {
 			continue
 		}
 		out = append(out, reachValue{Key: e.Key, KeyRange: e.KeyRange, Value: v})
@@ -375,10 +390,14 @@ func (d *decoder) outlet(ev *Event, a attrSet, at *hclsyntax.Attribute) {
 					"outlet depth of %s is %g; give the tailwater depth above the outlet invert in %s.", a.what, y, d.m.Units.Length())
 				return
 			}
+			if !d.inRange(e.Value.Range(), label{attr: "outlet depth", owner: a.what}, y, depthRange) {
+				return
+			}
 			ev.Outlet.Kind, ev.Outlet.Value = OutletDepth, y
 		}
 	case "elevation":
-		if z, ok := d.number(e.Value, label{attr: "outlet elevation", owner: a.what}); ok {
+		if z, ok := d.number(e.Value, label{attr: "outlet elevation", owner: a.what}); ok &&
+			d.elevation(e.Value.Range(), label{attr: "outlet elevation", owner: a.what}, z) {
 			ev.Outlet.Kind, ev.Outlet.Value = OutletElevation, z
 		}
 	case "condition":

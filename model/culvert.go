@@ -287,13 +287,21 @@ func (d *decoder) road(expr hcl.Expression, what owner) *Road {
 			continue
 		}
 		switch e.Key {
-		case "crest":
-			r.Crest = v
-		case "shoulder":
-			r.Shoulder, r.HasShoulder = v, true
+		case "crest", "shoulder":
+			if !d.elevation(e.Value.Range(), lbl, v) {
+				continue
+			}
+			if e.Key == "crest" {
+				r.Crest = v
+			} else {
+				r.Shoulder, r.HasShoulder = v, true
+			}
 		case "length", "width", "coefficient":
 			if !(v > 0) {
 				d.Errorf(e.Value.Range(), "Value must be positive", "%s of the road of %s is %g; it must be greater than 0.", e.Key, what, v)
+				continue
+			}
+			if !d.inRange(e.Value.Range(), lbl, v, roadRanges[e.Key]) {
 				continue
 			}
 			switch e.Key {

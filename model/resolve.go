@@ -2,6 +2,7 @@ package model
 
 import (
 	"cmp"
+	"fmt"
 	"slices"
 
 	"github.com/hashicorp/hcl/v2"
@@ -135,6 +136,7 @@ func (d *decoder) resolve() {
 					r.Name, s.FromStation, prev.DefRange.Start.Line, prev.FromStation, prev.ToStation)
 			}
 		}
+		d.checkSlivers(r)
 	}
 	for _, g := range m.Gates {
 		g.Reach = d.lookupReach(g.ReachName, g.At("reach"), ownerOf("gate", g.Name))
@@ -203,4 +205,43 @@ func (d *decoder) resolve() {
 			}
 		}
 	}
+}
+
+// checkSlivers refuses a piece of a reach's own section shorter than
+// MinLength that its segments leave at either end or between two of
+// them (segments sorted by station): stations that nearly meet are a slip
+// for stations that meet.
+func (d *decoder) checkSlivers(r *Reach) {
+	least := MinLength.In(d.m.Units)
+	if r.Length < least {
+		return
+	}
+	sliver := func(s *Segment, attr string, from, to float64, where string) {
+		if gap := to - from; gap > 0 && gap < least {
+			d.Errorf(s.At(attr), "Sliver between section changes",
+				"%s of this segment of reach %q is %g, which leaves %.3g%s of the reach's own section %s; the least piece accepted is %g%s: %s. Make the stations meet exactly, or leave a real piece between them.",
+				attr, r.Name, stationOf(attr, s), gap, d.unitSuffix(), where, least, d.unitSuffix(), whyLength)
+		}
+	}
+	for i, s := range r.Segments {
+		if s.ToStation > r.Length || s.FromStation >= s.ToStation {
+			return // reported already
+		}
+		if i == 0 {
+			sliver(s, "from_station", 0, s.FromStation, "at the upstream end")
+		} else if prev := r.Segments[i-1]; prev.ToStation <= s.FromStation {
+			sliver(s, "from_station", prev.ToStation, s.FromStation, fmt.Sprintf("after the segment of line %d", prev.DefRange.Start.Line))
+		}
+		if i == len(r.Segments)-1 {
+			sliver(s, "to_station", s.ToStation, r.Length, "at the downstream end")
+		}
+	}
+}
+
+// stationOf is a segment's from_station or to_station.
+func stationOf(attr string, s *Segment) float64 {
+	if attr == "from_station" {
+		return s.FromStation
+	}
+	return s.ToStation
 }

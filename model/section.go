@@ -1,6 +1,7 @@
 package model
 
 import (
+	"fmt"
 	"slices"
 	"strings"
 
@@ -76,19 +77,33 @@ func (d *decoder) section(b *hcl.Block) *Section {
 	if a.has("lining") {
 		s.Lining, _ = a.text("lining")
 	}
-	unit := d.unitSuffix()
 	switch s.Shape {
 	case Rectangle, Trapezoid, Box:
-		s.BottomWidth, _ = a.positive("bottom_width", unit)
-		s.Height, _ = a.positive("height", unit)
+		fix := fixUnits
+		if s.Shape == Trapezoid {
+			fix += `; a V-shaped channel is shape = "triangle"`
+		}
+		s.BottomWidth, _ = a.dimension("bottom_width", fix)
+		s.Height, _ = a.dimension("height", fixUnits)
 		if s.Shape == Trapezoid {
 			s.SideSlope, _ = a.sideSlope(false)
 		}
 	case Triangle:
-		s.SideSlope, _ = a.sideSlope(true)
-		s.Height, _ = a.positive("height", unit)
+		z, zok := a.sideSlope(true)
+		s.SideSlope = z
+		var hok bool
+		s.Height, hok = a.dimension("height", fixUnits)
+		// The top width at full height, 2·z·h, is the triangle's only
+		// width: a slot narrower than MinDimension carries no flow
+		// Manning's equation describes.
+		if least := MinDimension.In(d.m.Units); zok && hok && 2*z*s.Height < least {
+			d.below(a.m["side_slope"].Expr.Range(), "Section too narrow",
+				label{attr: "the top width at full height (2 × side_slope × height)", owner: a.what}, 2*z*s.Height, least, d.unitSuffix(), whyDimension,
+				"Check side_slope (the horizontal run per unit rise, e.g. 3 for 3:1) and height")
+			s.SideSlope = 0
+		}
 	case Circle:
-		s.Diameter, _ = a.positive("diameter", unit)
+		s.Diameter, _ = a.dimension("diameter", fixUnits)
 		s.Height = s.Diameter
 	case Points:
 		d.points(s, a)
@@ -118,6 +133,11 @@ func (a attrSet) sideSlope(positive bool) (float64, bool) {
 		a.d.Errorf(rng, "Negative side slope",
 			"side_slope of %s is %g; it is the horizontal run per unit rise and must be 0 or more.", a.what, v)
 		return 0, false
+	case v > MaxSideSlope:
+		a.d.above(rng, "Side slope too flat", label{attr: "side_slope", owner: a.what}, v, MaxSideSlope, "",
+			"side_slope is the horizontal run per unit rise, and a run of more than 1000 per unit (a cross slope under 0.1 %) is flatter than any surface graded to drain",
+			"Write the run per unit rise (e.g. 3 for 3:1, 50 for a 2 % cross slope), not a percentage or a slope in the other sense")
+		return 0, false
 	}
 	return v, true
 }
@@ -143,6 +163,11 @@ func (a attrSet) manning(expr hcl.Expression) (float64, bool) {
 	case n > maxRoughness:
 		a.d.Errorf(expr.Range(), "Implausible roughness",
 			"roughness of %s is %g; Manning's n above %g is outside published tables. Write n itself, not a percentage or another coefficient.", a.what, n, maxRoughness)
+		return 0, false
+	case n < RoughnessFloor:
+		a.d.below(expr.Range(), "Roughness too low", label{attr: "roughness", owner: a.what}, n, RoughnessFloor, "",
+			"Manning's n of the smoothest tabulated surfaces (glass, lucite, planed timber) is about 0.008 to 0.010",
+			"Write Manning's n itself (concrete is about 0.013 to 0.015), not another formula's coefficient")
 		return 0, false
 	case n < minRoughness:
 		a.d.Warnf(expr.Range(), "Unusually low roughness",
@@ -183,6 +208,9 @@ func (d *decoder) points(s *Section, a attrSet) {
 	good := true
 	for i, it := range items {
 		pair, ok := d.pair(it, label{attr: "a point", owner: a.what}, "[offset, elevation]")
+		if ok && !d.elevation(it.Range(), label{attr: fmt.Sprintf("the elevation of point %d", i+1), owner: a.what}, pair[1]) {
+			ok = false
+		}
 		if !ok {
 			good = false
 			continue
@@ -212,12 +240,17 @@ func (d *decoder) points(s *Section, a attrSet) {
 		d.Errorf(at.Expr.Range(), "Section has no width", "%s all lie at one offset; spread them across the channel.", what)
 		return
 	}
+	if least := MinDimension.In(d.m.Units); last.Offset-first.Offset < least {
+		d.below(at.Expr.Range(), "Section too narrow", label{attr: "the width of the points (last offset − first offset)", owner: a.what},
+			last.Offset-first.Offset, least, d.unitSuffix(), whyDimension, fixUnits+" of the offsets")
+		return
+	}
 	low := first.Elevation
 	for _, p := range pts {
 		low = min(low, p.Elevation)
 	}
 	if a.has("height") {
-		s.Height, _ = a.positive("height", d.unitSuffix())
+		s.Height, _ = a.dimension("height", fixUnits)
 		// A height above the surveyed ground at an end would put the top
 		// of bank on imaginary walls: water above the ground there spills
 		// out of the section, and a capacity check against the height
@@ -236,6 +269,9 @@ func (d *decoder) points(s *Section, a attrSet) {
 		if s.Height <= 0 {
 			d.Errorf(at.Expr.Range(), "Section holds no water",
 				"The lowest point of %s is at an end, so the section has no depth below its lower end; add points that rise at both ends, or write height.", a.what)
+		} else if least := MinDimension.In(d.m.Units); s.Height < least {
+			d.below(at.Expr.Range(), "Section too shallow", label{attr: "the depth below the lower end of the points", owner: a.what},
+				s.Height, least, d.unitSuffix(), whyDimension, fixUnits+" of the elevations")
 		}
 	}
 	s.Banks = [2]float64{first.Offset, last.Offset}
@@ -248,6 +284,9 @@ func (d *decoder) points(s *Section, a attrSet) {
 			case pair[0] >= pair[1]:
 				d.Errorf(bk.Expr.Range(), "Banks out of order",
 					"banks of %s are [%g, %g]; write the left bank offset first, smaller than the right.", a.what, pair[0], pair[1])
+			case pair[1]-pair[0] < MinDimension.In(d.m.Units):
+				d.below(bk.Expr.Range(), "Main channel too narrow", label{attr: "the width between the banks", owner: a.what},
+					pair[1]-pair[0], MinDimension.In(d.m.Units), d.unitSuffix(), whyDimension, fixUnits+" of the bank offsets")
 			default:
 				s.Banks = [2]float64{pair[0], pair[1]}
 			}

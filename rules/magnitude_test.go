@@ -1,0 +1,269 @@
+package rules
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chanlint/chanlint/model"
+	"github.com/chanlint/chanlint/model/numfmt"
+	"github.com/chanlint/chanlint/policies"
+	"github.com/chanlint/chanlint/solver"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+	"pgregory.net/rapid"
+)
+
+// splitRelease rewrites the single reach of jump-contained.chan.hcl (200 m
+// of one rectangular section at one slope below a sluice gate) as three
+// reaches of lengths first, short and the rest, the short one of section
+// shortSection, with the basin shortened to stay on the first.
+func splitRelease(t *testing.T, first, short float64, shortSection string) string {
+	t.Helper()
+	src, err := os.ReadFile("../testdata/rules/jump-contained.chan.hcl")
+	require.NoError(t, err)
+	one := `reach "release" {
+  from    = "gate-house"
+  to      = "river"
+  length  = 200
+  section = "outlet-channel"
+  slope   = 0.0007
+}`
+	require.Contains(t, string(src), one)
+	f := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+	three := `section "low" {
+  shape        = "rectangle"
+  bottom_width = 2.5
+  height       = 1.0
+  roughness    = 0.014
+  lining       = "concrete"
+}
+reach "release" {
+  from    = "gate-house"
+  to      = "a"
+  length  = ` + f(first) + `
+  section = "outlet-channel"
+  slope   = 0.0007
+}
+reach "short" {
+  from    = "a"
+  to      = "b"
+  length  = ` + f(short) + `
+  section = "` + shortSection + `"
+  slope   = 0.0007
+}
+reach "rest" {
+  from    = "b"
+  to      = "river"
+  length  = ` + f(200-first-short) + `
+  section = "outlet-channel"
+  slope   = 0.0007
+}`
+	out := strings.Replace(string(src), one, three, 1)
+	return strings.Replace(out, "to_station   = 30", "to_station   = "+f(min(first, 30)), 1)
+}
+
+// solveAndCheck parses, solves and checks a model text with the jumps
+// policy of the rule goldens.
+func solveAndCheck(t *testing.T, src string) (*solver.Result, []Finding) {
+	t.Helper()
+	m, diags := model.Parse("split.chan.hcl", []byte(src))
+	require.False(t, diags.HasErrors(), diags.Error())
+	res, err := solver.Solve(m, solver.Options{})
+	require.NoError(t, err)
+	p, pd := Language().Pack("baseline")
+	require.False(t, pd.HasErrors(), pd.Error())
+	return res, Check(m, res, p)
+}
+
+// TestShortReachKeepsJumpAndFailingSpan: a reach 1 mm long, the shortest
+// accepted, neither swallows the hydraulic jump that forms on it nor
+// hides the overtopping of its own lower section. Source: common practice
+// (no published source): cutting a prismatic reach into pieces of the
+// same section and slope changes nothing physical, so the jump stays
+// where the uncut reach has it (whose M3 curve and sequent depth
+// golden_test.go integrates independently), and its depths keep
+// Bélanger's sequent-depth ratio y2/y1 = (√(1 + 8F1²) − 1)/2 (Chow,
+// Open-Channel Hydraulics, 1959, eq. 3-20, from memory).
+func TestShortReachKeepsJumpAndFailingSpan(t *testing.T) {
+	whole, err := os.ReadFile("../testdata/rules/jump-contained.chan.hcl")
+	require.NoError(t, err)
+	ref, _ := solveAndCheck(t, string(whole))
+	require.Len(t, ref.Events[0].Reaches[0].Jumps, 1)
+	toe := ref.Events[0].Reaches[0].Jumps[0]
+
+	// The 1 mm reach straddles the toe, just before it and just after.
+	for _, first := range []float64{toe.Station - 0.0005, toe.Station - 0.001, toe.Station - 0.0001} {
+		t.Run(fmt.Sprintf("from %.4f m", first), func(t *testing.T) {
+			res, fs := solveAndCheck(t, splitRelease(t, first, 0.001, "outlet-channel"))
+			var jumps []solver.Jump
+			var at []float64
+			offset := map[string]float64{"release": 0, "short": first, "rest": first + 0.001}
+			for _, rr := range res.Events[0].Reaches {
+				for _, j := range rr.Jumps {
+					jumps = append(jumps, j)
+					at = append(at, offset[rr.Reach.Name]+j.Station)
+				}
+			}
+			require.Len(t, jumps, 1, "one jump over the three reaches")
+			j := jumps[0]
+			assert.InDelta(t, toe.Station, at[0], 0.01, "toe within 1 cm of the uncut reach's")
+			assert.InDelta(t, toe.Froude, j.Froude, 0.01*toe.Froude)
+			ratio := (math.Sqrt(1+8*j.Froude*j.Froude) - 1) / 2
+			assert.InDelta(t, ratio, j.DownstreamDepth/j.UpstreamDepth, 0.02*ratio, "Bélanger's sequent depths")
+			var types int
+			for _, f := range fs {
+				if f.Rule == "jump_type" {
+					types++
+				}
+			}
+			assert.Equal(t, 1, types, "the jump is still judged")
+		})
+	}
+
+	// A 1 mm reach whose section is lower than the flow overtops over its
+	// whole length. Downstream of the jump the depth is about 1.18 m
+	// (the golden's sequent depth), above the 1.0 m section.
+	_, fs := solveAndCheck(t, splitRelease(t, 100, 0.001, "low"))
+	var found bool
+	for _, f := range fs {
+		if f.Rule == "capacity" && f.Reach == "short" {
+			found = true
+			assert.Equal(t, 0.0, f.FromStation)
+			assert.InDelta(t, 0.001, f.ToStation, 1e-12)
+			assert.Greater(t, f.Value, 1.0)
+		}
+	}
+	assert.True(t, found, "the overtopping of the 1 mm reach is reported")
+}
+
+// degenerateModel is a model drawn from the magnitudes the model language
+// accepts, near its bounds and far from each other: a reach of 1 mm
+// between long ones, slopes of 1e-9, sections of 1 cm and of 1 km,
+// trickles and floods, n at its floor and its ceiling.
+func degenerateModel(t *rapid.T) string {
+	logU := func(lo, hi float64, name string) float64 {
+		return math.Pow(10, rapid.Float64Range(math.Log10(lo), math.Log10(hi)).Draw(t, name))
+	}
+	f := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+	var b strings.Builder
+	b.WriteString("units = \"si\"\n")
+	shape := rapid.SampledFrom([]string{"rectangle", "trapezoid", "triangle", "circle"}).Draw(t, "shape")
+	height := logU(0.01, 1000, "height")
+	fmt.Fprintf(&b, "section \"s\" {\n  shape = %q\n  roughness = %s\n", shape, f(logU(0.005, 0.3, "n")))
+	switch shape {
+	case "rectangle":
+		fmt.Fprintf(&b, "  bottom_width = %s\n  height = %s\n", f(logU(0.01, 1e4, "width")), f(height))
+	case "trapezoid":
+		fmt.Fprintf(&b, "  bottom_width = %s\n  side_slope = %s\n  height = %s\n", f(logU(0.01, 1e4, "width")), f(logU(1e-6, 1000, "z")), f(height))
+	case "triangle":
+		z := max(logU(1e-3, 1000, "z"), 0.01/height)
+		fmt.Fprintf(&b, "  side_slope = %s\n  height = %s\n", f(z), f(height))
+	case "circle":
+		fmt.Fprintf(&b, "  diameter = %s\n", f(height))
+	}
+	b.WriteString("}\n")
+	n := rapid.IntRange(1, 3).Draw(t, "reaches")
+	var slope float64
+	for i := range n {
+		length := logU(0.001, 1e5, fmt.Sprintf("length%d", i))
+		slope = rapid.SampledFrom([]float64{0, 1e-9, -1e-9, 1e-5, 0.001, 0.05, 0.5, -0.01}).Draw(t, fmt.Sprintf("slope%d", i))
+		fmt.Fprintf(&b, "reach \"r%d\" {\n  from = \"n%d\"\n  to = \"n%d\"\n  length = %s\n  section = \"s\"\n  slope = %s\n}\n", i, i, i+1, f(length), f(slope))
+	}
+	if rapid.Bool().Draw(t, "gate") {
+		fmt.Fprintf(&b, "gate \"g\" {\n  reach = \"r0\"\n  opening = %s\n  contraction = %s\n}\n",
+			f(logU(0.01, max(0.011, height*0.9), "opening")), f(rapid.Float64Range(0.5, 1).Draw(t, "cc")))
+	}
+	fmt.Fprintf(&b, "event \"e\" {\n  inflow = { \"r0\" = %s }\n", f(logU(1e-4, 1e6, "q")))
+	switch rapid.IntRange(0, 2).Draw(t, "outlet") {
+	case 0:
+		if slope <= 0 {
+			b.WriteString("  outlet = { condition = \"critical\" }\n") // no normal depth on a level or adverse bed
+			break
+		}
+		b.WriteString("  outlet = { condition = \"normal\" }\n")
+	case 1:
+		b.WriteString("  outlet = { condition = \"critical\" }\n")
+	default:
+		fmt.Fprintf(&b, "  outlet = { depth = %s }\n", f(logU(0.001, 1000, "depth")))
+	}
+	b.WriteString("}\n")
+	return b.String()
+}
+
+// TestDegenerateMagnitudesSolveFinitely: whatever accepted magnitudes a
+// model combines, solving and checking it ends (within a generous time),
+// without a panic, without a non-finite value replaced in the solution,
+// and with finite numbers in every finding. Source: common practice (no
+// published source): DEVELOPERS.md, "every number of a result is finite".
+func TestDegenerateMagnitudesSolveFinitely(t *testing.T) {
+	p, pd := Language().Pack("baseline")
+	require.False(t, pd.HasErrors(), pd.Error())
+	rapid.Check(t, func(t *rapid.T) {
+		src := degenerateModel(t)
+		m, diags := model.Parse("degenerate.chan.hcl", []byte(src))
+		if diags.HasErrors() {
+			t.Fatalf("drawn model refused: %s\n%s", diags.Error(), src)
+		}
+		type outcome struct {
+			res   *solver.Result
+			fs    []Finding
+			err   error
+			panic any
+		}
+		done := make(chan outcome, 1)
+		go func() {
+			var o outcome
+			defer func() {
+				o.panic = recover()
+				done <- o
+			}()
+			o.res, o.err = solver.Solve(m, solver.Options{})
+			if o.err == nil {
+				o.fs = Check(m, o.res, p)
+			}
+		}()
+		var o outcome
+		select {
+		case o = <-done:
+		case <-time.After(60 * time.Second):
+			t.Fatalf("no result within 60 s:\n%s", src)
+		}
+		if o.panic != nil {
+			t.Fatalf("panic: %v\n%s", o.panic, src)
+		}
+		if o.err != nil {
+			if errors.Is(o.err, solver.ErrTooManyPoints) || errors.Is(o.err, solver.ErrWorkBudget) {
+				return // a limit, reported as such
+			}
+			t.Fatalf("Solve: %v\n%s", o.err, src)
+		}
+		for _, ev := range o.res.Events {
+			for _, rr := range ev.Reaches {
+				for _, note := range rr.Notes {
+					if strings.Contains(note.Message, "not a finite number") {
+						t.Fatalf("reach %s: %s\n%s", rr.Reach.Name, note.Message, src)
+					}
+				}
+			}
+		}
+		for _, f := range o.fs {
+			if !numfmt.Finite(f.FromStation, f.ToStation, f.Value, f.Limit) {
+				t.Fatalf("finding %s with a non-finite number: %+v\n%s", f.Rule, f, src)
+			}
+			for _, s := range []string{f.Message, f.Remedy} {
+				if strings.Contains(s, "NaN") || strings.Contains(s, "Inf") {
+					t.Fatalf("finding %s prints %q\n%s", f.Rule, s, src)
+				}
+			}
+			if f.Severity != policies.Error && f.Severity != policies.Warning && f.Severity != policies.Info {
+				t.Fatalf("finding %s without a severity", f.Rule)
+			}
+		}
+	})
+}
