@@ -22,7 +22,6 @@ import (
 type run struct {
 	first, last int            // point indices, inclusive
 	sec         *model.Section // the section of every point (sectionAt)
-	finite      bool           // some point has a finite station (scan judges it)
 	usable      bool           // every point is usable (sum is finite), so the extremes are numbers
 	full        bool           // some point flows full (closed conduits)
 	inBend      bool           // some point lies inside a bend of the reach
@@ -185,7 +184,6 @@ func pointRuns(rr *solver.ReachResult, out []run) []run {
 			}
 		}
 		r.last = i
-		r.finite = r.finite || finiteNum(p.Station)
 		r.full = r.full || p.Full
 		// usable, spelled out over the run: the sum of the fields read and
 		// of the products formed is finite only when they all are (the

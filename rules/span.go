@@ -145,9 +145,7 @@ func scan(rr *solver.ReachResult, runs []run, screen screenFunc, w worse, judge 
 			k++
 			end = r.last + 1
 			if r.usable && screen(rr, r) {
-				if r.finite {
-					cur = nil // a passing point ends a span
-				}
+				cur = nil // its points pass (they have finite stations: usable), which ends a span
 				i = end
 				continue
 			}
