@@ -57,9 +57,21 @@ func checkHeadwater(ctx *Context, report func(Finding)) {
 	maxHWD, need := ctx.Config.Number("max_hw_d"), ctx.Config.Number("freeboard")
 	lu := ctx.units().Length()
 	ctx.eachCulvert(func(ev *solver.EventResult, cr *solver.CulvertResult) {
+		road := cr.Culvert.Road
+		overHWD := maxHWD > 0 && cr.HWD > maxHWD
+		var level, have float64
+		var what string
+		if road != nil {
+			level, what = road.FreeboardLevel()
+			have = level - cr.Headwater
+		}
+		short := road != nil && !(have >= need)
+		if !overHWD && !short {
+			return // nothing to report, so nothing to word
+		}
 		name := culvertName(cr.Culvert)
 		how := "by " + cr.Method()
-		if maxHWD > 0 && cr.HWD > maxHWD {
+		if overHWD {
 			f := culvertFinding(ev, cr, 0)
 			f.Value, f.Limit = cr.HWD, maxHWD
 			val, lim := numfmt.Pair(cr.HWD, maxHWD)
@@ -68,13 +80,7 @@ func checkHeadwater(ctx *Context, report func(Finding)) {
 				" or more: a better inlet or a larger barrel under inlet control, a larger, smoother or additional barrel under outlet control"
 			report(f)
 		}
-		road := cr.Culvert.Road
-		if road == nil {
-			return
-		}
-		level, what := road.FreeboardLevel()
-		have := level - cr.Headwater
-		if have >= need {
+		if !short {
 			return
 		}
 		f := culvertFinding(ev, cr, 0)

@@ -58,12 +58,14 @@ func checkOvertopping(ctx *Context, report func(Finding)) {
 		f := culvertFinding(ev, cr, 0)
 		f.Focus = road.Range
 		f.Value, f.Limit = cr.RoadDepth, allowed
-		what := culvertName(cr.Culvert) + ": the road overtops, " + numfmt.Num(cr.RoadDepth) + " " + lu + " deep with " +
-			numfmt.Num(cr.RoadFlow) + " " + lu + "³/s over it"
+		var what string
 		if allowed > 0 {
 			val, lim := numfmt.Pair(cr.RoadDepth, allowed)
 			what = culvertName(cr.Culvert) + ": " + val + " " + lu + " of water over the road exceeds " + lim + " " + lu +
 				" (" + numfmt.Num(cr.RoadFlow) + " " + lu + "³/s over it)"
+		} else {
+			what = culvertName(cr.Culvert) + ": the road overtops, " + numfmt.Num(cr.RoadDepth) + " " + lu + " deep with " +
+				numfmt.Num(cr.RoadFlow) + " " + lu + "³/s over it"
 		}
 		f.Message = what + "; water on a road can sweep vehicles away"
 		f.Remedy = "enlarge or add barrels, improve the inlet or raise the road; the road owner's criteria and a licensed engineer decide what depth is acceptable"

@@ -169,13 +169,15 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 		val, lim := numfmt.Pair(s.value, s.limit)
 		_, kb := bedShear(gamma, rr.Reach, p, mean)
 		lu := u.Length()
-		what := "shear stress on the bed " + val + " " + su + " (τd = γ·d·Sf, d the maximum depth " + numfmt.Num(p.Depth) + " " + lu + ")"
-		if kb != 1 {
+		var what string
+		switch {
+		case mean:
+			what = "mean boundary shear stress " + val + " " + su + " (γ·R·Sf, as the policy asks)"
+		case kb != 1:
 			what = "shear stress on the bed in the bend " + val + " " + su + " (τb = Kb·γ·d·Sf, Kb " + numfmt.Num(kb) +
 				", d the maximum depth " + numfmt.Num(p.Depth) + " " + lu + ")"
-		}
-		if mean {
-			what = "mean boundary shear stress " + val + " " + su + " (γ·R·Sf, as the policy asks)"
+		default:
+			what = "shear stress on the bed " + val + " " + su + " (τd = γ·d·Sf, d the maximum depth " + numfmt.Num(p.Depth) + " " + lu + ")"
 		}
 		msg := what + " exceeds " + lim + " " + su + " for " + liningText(cfg, sec)
 		f := spanFinding(ev, rr, s, msg, "a lining rated for at least "+practicalUp(s.value, stressStep, u)+" "+su+
