@@ -44,8 +44,8 @@ factors of the other rules.`,
 func checkBendRadius(ctx *Context, report func(Finding)) {
 	k := ctx.Config.Number("multiple")
 	lu := ctx.units().Length()
-	for _, ev := range ctx.events() {
-		for _, rr := range ctx.reaches(ev) {
+	for ev := range ctx.events() {
+		for rr := range ctx.reaches(ev) {
 			for _, bend := range rr.Reach.Bends {
 				if bend.Radius <= 0 {
 					continue

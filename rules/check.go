@@ -2,6 +2,7 @@ package rules
 
 import (
 	"cmp"
+	"iter"
 	"slices"
 
 	"github.com/chanlint/chanlint/model"
@@ -183,20 +184,21 @@ func policyRelated(cfg *policies.RuleConfig) []Related {
 
 // events are the event results a rule runs on: all of them for an
 // always-on rule, those its block's `events` filter admits otherwise.
-func (c *Context) events() []*solver.EventResult {
-	if c.Result == nil {
-		return nil
-	}
-	var out []*solver.EventResult
-	for _, ev := range c.Result.Events {
-		if ev == nil || ev.Event == nil {
-			continue
+// They are ranged over as they are found, without a slice of them.
+func (c *Context) events() iter.Seq[*solver.EventResult] {
+	return func(yield func(*solver.EventResult) bool) {
+		if c.Result == nil {
+			return
 		}
-		if c.Config == nil || c.eventSelected(ev.Event) {
-			out = append(out, ev)
+		for _, ev := range c.Result.Events {
+			if ev == nil || ev.Event == nil || (c.Config != nil && !c.eventSelected(ev.Event)) {
+				continue
+			}
+			if !yield(ev) {
+				return
+			}
 		}
 	}
-	return out
 }
 
 // eventSelected reports whether the running block may apply to some reach
@@ -209,15 +211,15 @@ func (c *Context) eventSelected(ev *model.Event) bool {
 }
 
 // reaches are the reach results of an event that carry a reach and that
-// the running block applies to.
-func (c *Context) reaches(ev *solver.EventResult) []*solver.ReachResult {
-	out := make([]*solver.ReachResult, 0, len(ev.Reaches))
-	for _, rr := range ev.Reaches {
-		if rr != nil && rr.Reach != nil && c.Selects(ev.Event, rr.Reach) {
-			out = append(out, rr)
+// the running block applies to, ranged over as they are found.
+func (c *Context) reaches(ev *solver.EventResult) iter.Seq[*solver.ReachResult] {
+	return func(yield func(*solver.ReachResult) bool) {
+		for _, rr := range ev.Reaches {
+			if rr != nil && rr.Reach != nil && c.Selects(ev.Event, rr.Reach) && !yield(rr) {
+				return
+			}
 		}
 	}
-	return out
 }
 
 // units is the model's unit system (SI when unset).
@@ -317,19 +319,9 @@ func sortFindings(fs []Finding) []Finding {
 
 // eachReach calls fn for every reach result of every event the rule runs on.
 func (c *Context) eachReach(fn func(ev *solver.EventResult, rr *solver.ReachResult)) {
-	if c.Result == nil {
-		return
-	}
-	// The same filters as events and reaches, without building the slices:
-	// every rule walks every reach of every event.
-	for _, ev := range c.Result.Events {
-		if ev == nil || ev.Event == nil || (c.Config != nil && !c.eventSelected(ev.Event)) {
-			continue
-		}
-		for _, rr := range ev.Reaches {
-			if rr != nil && rr.Reach != nil && c.Selects(ev.Event, rr.Reach) {
-				fn(ev, rr)
-			}
+	for ev := range c.events() {
+		for rr := range c.reaches(ev) {
+			fn(ev, rr)
 		}
 	}
 }

@@ -11,7 +11,7 @@ import (
 // eachCulvert calls fn for every culvert result with flow in the events
 // the rule runs on.
 func (c *Context) eachCulvert(fn func(ev *solver.EventResult, cr *solver.CulvertResult)) {
-	for _, ev := range c.events() {
+	for ev := range c.events() {
 		for _, cr := range ev.Culverts {
 			if cr == nil || cr.Culvert == nil || cr.OutletMethod == solver.OutletNoFlow ||
 				!numfmt.Finite(cr.Headwater, cr.HWD, cr.BarrelFlow, cr.RoadFlow, cr.RoadDepth, cr.OutletVelocity) {

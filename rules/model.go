@@ -101,7 +101,7 @@ func checkModel(ctx *Context, report func(Finding)) {
 			continue
 		}
 		widest, at := 0.0, 0.0
-		for _, ev := range ctx.events() {
+		for ev := range ctx.events() {
 			for _, rr := range ev.Reaches {
 				if rr != nil && rr.Reach == bend.Reach {
 					if w, x := widestInBend(rr, bend); w > widest {

@@ -74,8 +74,8 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 	if cSup <= 0 {
 		cSup = defaultSupercriticalC
 	}
-	for _, ev := range ctx.events() {
-		for _, rr := range ctx.reaches(ev) {
+	for ev := range ctx.events() {
+		for rr := range ctx.reaches(ev) {
 			for _, bend := range rr.Reach.Bends {
 				if bend.Radius <= 0 {
 					continue
