@@ -252,6 +252,11 @@ func (d *decoder) inlet(expr hcl.Expression, what owner) Inlet {
 		case e.Key != "Ks" && e.Key != "entrance_loss" && !(v > 0):
 			d.Errorf(e.Value.Range(), "Value must be positive",
 				"%s of the inlet of %s is %g; the inlet-control coefficients are positive.", e.Key, what, v)
+		case e.Key != "Ks" && e.Key != "entrance_loss" && (v < inletRanges[e.Key][0] || v > inletRanges[e.Key][1]):
+			r := inletRanges[e.Key]
+			d.Errorf(e.Value.Range(), "Inlet coefficient out of range",
+				"%s of the inlet of %s is %g; it must lie between %g and %g: the inlet-control coefficients of HDS-5's table span K 0.0018 to 0.6, M 0.5 to 2.0, c 0.029 to 0.055 and Y 0.54 to 0.9, and a value far outside gives a headwater no inlet has. Check the coefficient against the published table, or use a named inlet.",
+				e.Key, what, v, r[0], r[1])
 		default:
 			*dst = v
 		}

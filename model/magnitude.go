@@ -71,6 +71,21 @@ var (
 	MaxRoadCoefficient = Bound{SI: 2.0, US: 3.6}
 )
 
+// inletRanges bound the inlet-control coefficients of an explicit inlet,
+// the same in both unit systems (HDS-5 writes its equations with a unit
+// factor Ku): several times beyond the spread of HDS-5's Table A.1 on
+// either side (form 1: K 0.0018 to 0.061, M 0.67 to 2.0, c 0.029 to
+// 0.055, Y 0.54 to 0.85; form 2: K about 0.3 to 0.6, M about 0.5 to 0.8;
+// FHWA HDS-5, 2012, from memory). Outside them the inlet's headwater is no
+// inlet's: with M = 1e9 or K = 1e9 the solver puts the whole flow over the
+// road. Source: common practice (no published source) for the bounds.
+var inletRanges = map[string][2]float64{
+	"K": {1e-4, 2},
+	"M": {0.2, 4},
+	"c": {0.003, 0.6},
+	"Y": {0.05, 3},
+}
+
 // Dimensionless bounds, the same in both unit systems.
 const (
 	// MaxSideSlope is the flattest side slope accepted (horizontal per

@@ -92,7 +92,7 @@ bend "curve" {
 }
 culvert "road" {
   reach = "culv"
-  inlet = "box-wingwalls-30-75"
+  inlet = { form = 1, K = IK, M = IM, c = 0.0347, Y = 0.81, entrance_loss = 0.4 }
   road  = { crest = -19990, length = RL, width = 10, coefficient = RC }
 }
 event "e" {
@@ -137,6 +137,8 @@ var magnitudeSlots = []magnitudeSlot{
 	{key: "RAD", lo: MinDimension, hi: noUpper, fill: 30},
 	{key: "RL", lo: MinDimension, hi: noUpper, fill: 40},
 	{key: "RC", lo: MinRoadCoefficient, hi: MaxRoadCoefficient, fill: 1.6},
+	{key: "IK", lo: Bound{SI: inletRanges["K"][0], US: inletRanges["K"][0]}, hi: Bound{SI: inletRanges["K"][1], US: inletRanges["K"][1]}, fill: 0.026},
+	{key: "IM", lo: Bound{SI: inletRanges["M"][0], US: inletRanges["M"][0]}, hi: Bound{SI: inletRanges["M"][1], US: inletRanges["M"][1]}, fill: 1},
 	{key: "Q", lo: MinDischarge, hi: MaxDischarge, fill: 3},
 	{key: "Y", lo: MinLength, hi: noUpper, fill: 0.8},
 	{key: "EN", lo: MinLength, hi: noUpper, fill: 0.4},
