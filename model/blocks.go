@@ -185,7 +185,7 @@ func (a attrSet) stations(body hcl.Body) (from, to float64) {
 	case from >= to:
 		a.d.Errorf(a.m["to_station"].Expr.Range(), "Empty station range",
 			"to_station (%g) of %s must be greater than from_station (%g).", to, a.what, from)
-	case to-from < least:
+	case shorter(from, to, least):
 		unit := a.d.unitSuffix()
 		a.d.below(a.m["to_station"].Expr.Range(), "Station range too short",
 			label{attr: "the station range " + fmt.Sprintf("%g to %g", from, to), owner: a.what}, to-from, least, unit, whyLength,

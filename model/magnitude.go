@@ -1,6 +1,8 @@
 package model
 
 import (
+	"math"
+
 	"github.com/hashicorp/hcl/v2"
 )
 
@@ -220,3 +222,12 @@ var roadRanges = map[string]valueRange{
 }
 
 func lengthUnit(u Units) string { return " " + u.Length() }
+
+// shorter reports whether the stretch from a to b (a < b) is shorter than
+// least by more than the rounding of the subtraction: stations written
+// 9.999 and 10 are 1 mm apart, though b − a is 0.00099999999999945 in
+// binary.
+func shorter(a, b, least float64) bool {
+	slack := 4 * 0x1p-52 * max(math.Abs(a), math.Abs(b))
+	return b-a < least-slack
+}

@@ -317,6 +317,33 @@ event "low" {
 	require.NotNil(t, m)
 	assert.Empty(t, diags, "no warning on real magnitudes")
 
+	// Stations written 1 mm apart are 1 mm apart, though their binary
+	// difference is a hair less; a segment 1 mm from the reach end
+	// leaves a piece of 1 mm.
+	short := strings.Replace(src, `  section = "canal"
+  slope   = 0.00001
+}`, `  section = "canal"
+  slope   = 0.00001
+  segment {
+    from_station = 9.999
+    to_station   = 10
+    section      = "canal"
+  }
+  segment {
+    from_station = 10
+    to_station   = 19999.999
+    section      = "canal"
+  }
+}
+basin "pad" {
+  reach        = "canal"
+  from_station = 19999.998
+  to_station   = 19999.999
+}`, 1)
+	require.NotEqual(t, src, short)
+	_, diags = Parse("real.chan.hcl", []byte(short))
+	assert.False(t, diags.HasErrors(), diags.Error())
+
 	// The bounds themselves are accepted, in both unit systems.
 	for _, u := range []string{"si", "us"} {
 		for i, s := range magnitudeSlots {

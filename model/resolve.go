@@ -217,7 +217,7 @@ func (d *decoder) checkSlivers(r *Reach) {
 		return
 	}
 	sliver := func(s *Segment, attr string, from, to float64, where string) {
-		if gap := to - from; gap > 0 && gap < least {
+		if gap := to - from; gap > 0 && shorter(from, to, least) {
 			d.Errorf(s.At(attr), "Sliver between section changes",
 				"%s of this segment of reach %q is %g, which leaves %.3g%s of the reach's own section %s; the least piece accepted is %g%s: %s. Make the stations meet exactly, or leave a real piece between them.",
 				attr, r.Name, stationOf(attr, s), gap, d.unitSuffix(), where, least, d.unitSuffix(), whyLength)
