@@ -144,45 +144,105 @@ func TestShortReachKeepsJumpAndFailingSpan(t *testing.T) {
 
 // degenerateModel is a model drawn from the magnitudes the model language
 // accepts, near its bounds and far from each other: a reach of 1 mm
-// between long ones, slopes of 1e-9, sections of 1 cm and of 1 km,
-// trickles and floods, n at its floor and its ceiling.
+// between long ones, slopes of 1e-9, sections of 1 cm and of 1 km (and
+// points sections), segments 1 mm long, trickles and floods, n at its
+// floor and its ceiling, gates, entrances, bends, and a culvert with
+// coefficients at the ends of their ranges.
 func degenerateModel(t *rapid.T) string {
 	logU := func(lo, hi float64, name string) float64 {
-		return math.Pow(10, rapid.Float64Range(math.Log10(lo), math.Log10(hi)).Draw(t, name))
+		v := math.Pow(10, rapid.Float64Range(math.Log10(lo), math.Log10(hi)).Draw(t, name))
+		return min(max(v, lo), hi) // Pow rounds past the ends
 	}
 	f := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 	var b strings.Builder
 	b.WriteString("units = \"si\"\n")
-	shape := rapid.SampledFrom([]string{"rectangle", "trapezoid", "triangle", "circle"}).Draw(t, "shape")
-	height := logU(0.01, 1000, "height")
-	fmt.Fprintf(&b, "section \"s\" {\n  shape = %q\n  roughness = %s\n", shape, f(logU(0.005, 0.3, "n")))
-	switch shape {
-	case "rectangle":
-		fmt.Fprintf(&b, "  bottom_width = %s\n  height = %s\n", f(logU(0.01, 1e4, "width")), f(height))
-	case "trapezoid":
-		fmt.Fprintf(&b, "  bottom_width = %s\n  side_slope = %s\n  height = %s\n", f(logU(0.01, 1e4, "width")), f(logU(1e-6, 1000, "z")), f(height))
-	case "triangle":
-		z := max(logU(1e-3, 1000, "z"), 0.01/height)
-		fmt.Fprintf(&b, "  side_slope = %s\n  height = %s\n", f(z), f(height))
-	case "circle":
-		fmt.Fprintf(&b, "  diameter = %s\n", f(height))
+	var height float64
+	section := func(name string) {
+		shape := rapid.SampledFrom([]string{"rectangle", "trapezoid", "triangle", "circle", "points"}).Draw(t, name+"shape")
+		h := logU(0.01, 1000, name+"height")
+		height = max(height, h)
+		fmt.Fprintf(&b, "section %q {\n  shape = %q\n  roughness = %s\n", name, shape, f(logU(0.005, 0.3, name+"n")))
+		switch shape {
+		case "rectangle":
+			fmt.Fprintf(&b, "  bottom_width = %s\n  height = %s\n", f(logU(0.01, 1e4, name+"width")), f(h))
+		case "trapezoid":
+			fmt.Fprintf(&b, "  bottom_width = %s\n  side_slope = %s\n  height = %s\n", f(logU(0.01, 1e4, name+"width")), f(logU(1e-6, 1000, name+"z")), f(h))
+		case "triangle":
+			z := max(logU(1e-3, 1000, name+"z"), 0.01/h)
+			fmt.Fprintf(&b, "  side_slope = %s\n  height = %s\n", f(z), f(h))
+		case "circle":
+			fmt.Fprintf(&b, "  diameter = %s\n", f(h))
+		case "points":
+			w := logU(0.01, 1e4, name+"width")
+			wall := rapid.Float64Range(0, 1).Draw(t, name+"wall") // a near-vertical wall
+			fmt.Fprintf(&b, "  points = [[0, %s], [%s, 0], [%s, 0], [%s, %s]]\n", f(h), f(w*1e-12*wall), f(w*(1-1e-12*wall)), f(w), f(h))
+		}
+		b.WriteString("}\n")
 	}
-	b.WriteString("}\n")
+	section("s")
+	section("t")
 	n := rapid.IntRange(1, 3).Draw(t, "reaches")
-	var slope float64
+	var slope, length float64
 	for i := range n {
-		length := logU(0.001, 1e5, fmt.Sprintf("length%d", i))
+		length = logU(0.001, 1e5, fmt.Sprintf("length%d", i))
 		slope = rapid.SampledFrom([]float64{0, 1e-9, -1e-9, 1e-5, 0.001, 0.05, 0.5, -0.01}).Draw(t, fmt.Sprintf("slope%d", i))
-		fmt.Fprintf(&b, "reach \"r%d\" {\n  from = \"n%d\"\n  to = \"n%d\"\n  length = %s\n  section = \"s\"\n  slope = %s\n}\n", i, i, i+1, f(length), f(slope))
+		fmt.Fprintf(&b, "reach \"r%d\" {\n  from = \"n%d\"\n  to = \"n%d\"\n  length = %s\n  section = \"s\"\n  slope = %s\n", i, i, i+1, f(length), f(slope))
+		if length >= 0.003 && rapid.Bool().Draw(t, fmt.Sprintf("segment%d", i)) {
+			// A segment of the other section, 1 mm long or longer,
+			// anywhere on the reach.
+			seg := max(0.001, length*rapid.Float64Range(0, 0.5).Draw(t, fmt.Sprintf("seglen%d", i)))
+			from := (length - seg) * rapid.Float64Range(0, 1).Draw(t, fmt.Sprintf("segat%d", i))
+			if from < 0.001 {
+				from = 0
+			}
+			to := from + seg
+			if length-to < 0.001 {
+				to = length
+			}
+			fmt.Fprintf(&b, "  segment {\n    from_station = %s\n    to_station = %s\n    section = \"t\"\n  }\n", f(from), f(to))
+		}
+		b.WriteString("}\n")
 	}
+	first := strings.Index(b.String(), "reach \"r0\"")
 	if rapid.Bool().Draw(t, "gate") {
-		fmt.Fprintf(&b, "gate \"g\" {\n  reach = \"r0\"\n  opening = %s\n  contraction = %s\n}\n",
-			f(logU(0.01, max(0.011, height*0.9), "opening")), f(rapid.Float64Range(0.5, 1).Draw(t, "cc")))
+		fmt.Fprintf(&b, "gate \"g\" {\n  reach = \"r%d\"\n  opening = %s\n  contraction = %s\n}\n", n-1,
+			f(logU(0.01, max(0.011, height), "opening")), f(rapid.Float64Range(0.5, 1).Draw(t, "cc")))
+	}
+	_ = first
+	if rapid.Bool().Draw(t, "bend") {
+		fmt.Fprintf(&b, "bend \"b\" {\n  reach = \"r%d\"\n  from_station = 0\n  to_station = %s\n  radius = %s\n}\n", n-1, f(length), f(logU(0.01, 1e4, "radius")))
+	}
+	if rapid.Bool().Draw(t, "basin") {
+		fmt.Fprintf(&b, "basin \"pad\" {\n  reach = \"r%d\"\n  from_station = 0\n  to_station = %s\n}\n", n-1, f(max(0.001, length*rapid.Float64Range(0, 1).Draw(t, "basin-len"))))
+	}
+	culvert := rapid.Bool().Draw(t, "culvert")
+	last := n - 1
+	if culvert {
+		// A box barrel below the last reach, with explicit coefficients
+		// drawn over their whole accepted ranges.
+		rise := logU(0.01, 20, "rise")
+		fmt.Fprintf(&b, "section \"barrel\" {\n  shape = \"box\"\n  bottom_width = %s\n  height = %s\n  roughness = 0.013\n}\n", f(logU(0.01, 50, "span")), f(rise))
+		bl, bs := logU(0.001, 500, "barrel-length"), rapid.SampledFrom([]float64{0, 1e-9, 0.01, 0.3}).Draw(t, "barrel-slope")
+		fmt.Fprintf(&b, "reach \"culv\" {\n  from = \"n%d\"\n  to = \"n%d\"\n  length = %s\n  section = \"barrel\"\n  slope = %s\n}\n", n, n+1, f(bl), f(bs))
+		fmt.Fprintf(&b, "culvert \"c\" {\n  reach = \"culv\"\n  barrels = %d\n  inlet = { form = %d, K = %s, M = %s, c = %s, Y = %s, entrance_loss = %s }\n",
+			rapid.IntRange(1, 100).Draw(t, "barrels"), rapid.IntRange(1, 2).Draw(t, "form"),
+			f(logU(1e-4, 2, "K")), f(logU(0.2, 4, "M")), f(logU(0.003, 0.6, "c")), f(logU(0.05, 3, "Y")), f(rapid.Float64Range(0, 2).Draw(t, "ke")))
+		if rapid.Bool().Draw(t, "road") {
+			fmt.Fprintf(&b, "  road = { crest = %s, length = %s, width = %s, coefficient = %s }\n",
+				f(bl*bs+rise+max(0.001, rise*logU(1e-6, 100, "crest-above"))), f(logU(0.01, 1e4, "road-length")), f(logU(0.01, 1e3, "road-width")), f(rapid.Float64Range(0.8, 2.0).Draw(t, "cr")))
+		}
+		b.WriteString("}\n")
+		slope = 1 // the outlet reach is the barrel: no normal-depth question
+		last = -1
 	}
 	fmt.Fprintf(&b, "event \"e\" {\n  inflow = { \"r0\" = %s }\n", f(logU(1e-4, 1e6, "q")))
+	if rapid.Bool().Draw(t, "entrance") {
+		fmt.Fprintf(&b, "  entrance = { \"r0\" = %s }\n", f(logU(0.001, 1000, "entrance-depth")))
+	}
+	_ = last
 	switch rapid.IntRange(0, 2).Draw(t, "outlet") {
 	case 0:
-		if slope <= 0 {
+		if slope <= 0 || culvert {
 			b.WriteString("  outlet = { condition = \"critical\" }\n") // no normal depth on a level or adverse bed
 			break
 		}
