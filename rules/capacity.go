@@ -84,7 +84,7 @@ func checkCapacity(ctx *Context, report func(Finding)) {
 		if sec.Closed() {
 			return rr.Reach != nil && rr.Reach.Culvert != nil || !r.full && below(r.maxDepth, sec.Height)
 		}
-		return belowStage(r, sec.Height)
+		return inBank(r)
 	}, higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		sec := sectionAt(rr, p)
 		if sec == nil || !finiteNum(sec.Height) {

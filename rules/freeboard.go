@@ -85,7 +85,7 @@ func checkFreeboard(ctx *Context, report func(Finding)) {
 		*v = verdict{value: avail, limit: req, short: req - avail}
 		return true
 	}, func(rr *solver.ReachResult, spans []span) []span {
-		return overtopEdgeSpans(rr, st, spans, &ctx.trial)
+		return overtopEdgeSpans(rr, ctx.screenedRuns(rr), st, spans, &ctx.trial)
 	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
 		depth := rr.Points[s.worst].Depth
 		if sec, ok := overtopsAtLocatedEnd(rr, s); ok {
@@ -165,10 +165,27 @@ func overtopsAtLocatedEnd(rr *solver.ReachResult, s span) (*model.Section, bool)
 // reach did not). The span runs from where the freeboard meets the
 // requirement to where the water surface reaches the top of bank, each
 // bracketed to locateTol by bisection.
-func overtopEdgeSpans(rr *solver.ReachResult, st freeboardSettings, spans []span, trial *solver.Point) []span {
+//
+// runs (nil: none) are the reach's runs (see run): two points of runs in
+// which no point overtops (inBank) cannot be such a pair, so only the
+// pairs with a point in another run are looked at.
+func overtopEdgeSpans(rr *solver.ReachResult, runs []run, st freeboardSettings, spans []span, trial *solver.Point) []span {
 	pts := rr.Points
 	found := len(spans)
+	k := 0 // the run of point i; the runs split the points in order
 	for i := 0; i+1 < len(pts); i++ {
+		for k < len(runs) && runs[k].last < i {
+			k++
+		}
+		if k < len(runs) && inBank(&runs[k]) {
+			if i < runs[k].last {
+				i = runs[k].last - 1 // the pairs inside the run: on to its last point
+				continue
+			}
+			if k+1 < len(runs) && inBank(&runs[k+1]) {
+				continue
+			}
+		}
 		a, b := &pts[i], &pts[i+1]
 		sec := sectionAt(rr, a)
 		if sec == nil || sec.Closed() || sec != sectionAt(rr, b) || !finiteNum(sec.Height) || !(b.Station > a.Station) {

@@ -73,6 +73,23 @@ func belowStage(r *run, h float64) bool {
 	return r.maxStage < h-slack*max(1, math.Abs(h), r.maxElev)
 }
 
+// inBank reports whether no point of the run rises above the top of its
+// open section (overtopsAt), by the run's extremes: false when in doubt,
+// and for a closed conduit.
+func inBank(r *run) bool {
+	return r.usable && r.sec != nil && !r.sec.Closed() && finiteNum(r.sec.Height) && belowStage(r, r.sec.Height)
+}
+
+// screenedRuns are the runs of a reach result for a pass that skips the
+// runs their extremes clear (as a screen does): nil when the check judges
+// every point.
+func (c *Context) screenedRuns(rr *solver.ReachResult) []run {
+	if c.shared != nil && c.shared.judgeAll {
+		return nil
+	}
+	return c.runsOf(rr)
+}
+
 // screened is the screen a rule's scan uses: s, or none when the check
 // judges every point.
 func (c *Context) screened(s screenFunc) screenFunc {
