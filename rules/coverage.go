@@ -18,7 +18,8 @@ import (
 // enable; the events and reaches an enabled rule's blocks do not select;
 // the sections whose lining has no limit under a lining rule (and why);
 // the stretches next to critical-depth controls froude_band leaves
-// unchecked; the jumps a threshold exempts from needing a basin; reaches
+// unchecked; the jumps a threshold exempts from needing a basin; the jumps
+// a basin holds by less than their toe's sensitivity (toeShift); reaches
 // that carry no discharge in an event; what the solver approximated or
 // assumed (its notes and model-wide assumptions); and what the enabled
 // rules never compute. The order is fixed; a nil result or model gives
@@ -46,6 +47,7 @@ func NotEvaluated(m *model.Model, res *solver.Result, p *policies.Policy) []stri
 	out = append(out, cv.unlimited()...)
 	out = append(out, cv.buffered()...)
 	out = append(out, cv.exemptJumps()...)
+	out = append(out, cv.marginalJumps()...)
 	out = append(out, cv.dry()...)
 	out = append(out, cv.solverNotes()...)
 	out = append(out, cv.neverComputed()...)
@@ -266,20 +268,33 @@ func (cv *coverage) buffered() []string {
 		listOf(items, 6)}
 }
 
-// exemptJumps: the jumps a jump_containment threshold exempts.
-func (cv *coverage) exemptJumps() []string {
+// eachJump calls fn for every usable jump of a reach and event that a
+// jump_containment block selects, with the block.
+func (cv *coverage) eachJump(fn func(ev *solver.EventResult, rr *solver.ReachResult, b *policies.RuleConfig, j solver.Jump)) {
 	cfg := cv.p.Rules["jump_containment"]
 	if cfg == nil {
-		return nil
+		return
 	}
-	var items []string
 	cv.each(func(ev *solver.EventResult, rr *solver.ReachResult) {
 		b := blockFor(cfg, ev.Event, rr.Reach)
+		if b == nil {
+			return
+		}
 		for _, j := range rr.Jumps {
-			if usableJump(j) && exemptJump(b, j) {
-				items = append(items, fmt.Sprintf("reach %q at %s %s (event %q, F1 %s, head loss %s %s)", rr.Reach.Name,
-					numfmt.Num(j.Station), cv.u.Length(), ev.Event.Name, numfmt.Num(j.Froude), numfmt.Num(j.EnergyLoss), cv.u.Length()))
+			if usableJump(j) {
+				fn(ev, rr, b, j)
 			}
+		}
+	})
+}
+
+// exemptJumps: the jumps a jump_containment threshold exempts.
+func (cv *coverage) exemptJumps() []string {
+	var items []string
+	cv.eachJump(func(ev *solver.EventResult, rr *solver.ReachResult, b *policies.RuleConfig, j solver.Jump) {
+		if exemptJump(b, j) {
+			items = append(items, fmt.Sprintf("reach %q at %s %s (event %q, F1 %s, head loss %s %s)", rr.Reach.Name,
+				numfmt.Num(j.Station), cv.u.Length(), ev.Event.Name, numfmt.Num(j.Froude), numfmt.Num(j.EnergyLoss), cv.u.Length()))
 		}
 	})
 	if len(items) == 0 {
@@ -287,6 +302,34 @@ func (cv *coverage) exemptJumps() []string {
 	}
 	return []string{"jump_containment: jumps below the policy's min_froude or min_energy_loss, not required to lie in a basin: " +
 		listOf(items, 6)}
+}
+
+// marginalJumps: the jumps jump_containment passes inside a basin by a
+// margin smaller than the toe's shift for 1 % of the depth below it
+// (toeShift): the pass rests on a toe position the inputs do not fix.
+func (cv *coverage) marginalJumps() []string {
+	var items []string
+	cv.eachJump(func(ev *solver.EventResult, rr *solver.ReachResult, b *policies.RuleConfig, j solver.Jump) {
+		if exemptJump(b, j) {
+			return
+		}
+		jr := clipJump(rr.Reach, j)
+		basin, up, down := bestBasin(rr.Reach, jr.toe, jr.end)
+		if basin == nil || jr.over > 0 || up > 0 || down > 0 {
+			return // not contained: jump_containment reports it
+		}
+		margin := min(-up, -down)
+		if dx, ok := toeShift(rr, j); ok && dx >= margin {
+			items = append(items, fmt.Sprintf("reach %q at %s %s in basin %q (event %q, F1 %s, margin %s %s, toe shift %s %s)",
+				rr.Reach.Name, numfmt.Num(j.Station), cv.u.Length(), basin.Name, ev.Event.Name, numfmt.Num(j.Froude),
+				numfmt.Num(margin), cv.u.Length(), numfmt.Num(dx), cv.u.Length()))
+		}
+	})
+	if len(items) == 0 {
+		return nil
+	}
+	return []string{"jump_containment: jumps inside their basin by less than their toe moves for 1 % more or less depth below it " +
+		"(near critical flow), a pass the tailwater's and the roughness's uncertainty can overturn: " + listOf(items, 6)}
 }
 
 // dry: reaches that carry no discharge in an event.
