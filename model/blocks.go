@@ -297,7 +297,10 @@ func (d *decoder) event(b *hcl.Block) *Event {
 		d.outlet(ev, a, at)
 	}
 	if a.has("return_period") {
-		ev.ReturnPeriod, _ = a.positive("return_period", " years")
+		if rp, ok := a.positive("return_period", " years"); ok &&
+			d.inRange(a.m["return_period"].Expr.Range(), label{attr: "return_period", owner: a.what}, rp, returnPeriodRange) {
+			ev.ReturnPeriod = rp
+		}
 	}
 	ev.Class = a.classWord("class", `"major"`)
 	if at, ok := a.m["entrance"]; ok {

@@ -185,6 +185,16 @@ var (
 		small: "Discharge too small", big: "Discharge too large",
 		why: "a discharge under 0.1 L/s is a trickle a fraction of a millimetre deep, and one over 1,000,000 m³/s is some five times the Amazon's",
 		fix: fixUnits + " (m³/s or ft³/s, not L/s or gal/min)"}
+	// returnPeriodRange bounds an event's return period: 0.1 to
+	// 1,000,000 years, from below the half-year storm of water-quality
+	// design to beyond the 10,000-year and probable-maximum events of dam
+	// safety, which some manuals label 1,000,000 years. Source: common
+	// practice (no published source).
+	returnPeriodRange = valueRange{least: Bound{SI: 0.1, US: 0.1}, most: Bound{SI: 1e6, US: 1e6},
+		unit:  func(Units) string { return " years" },
+		small: "Return period out of range", big: "Return period out of range",
+		why: "design events run from the half-year storm of water-quality design to the 10,000-year and probable-maximum events of dam safety",
+		fix: "Write the return period in years (e.g. 100), not an annual probability or a percentage"}
 	depthRange = valueRange{least: MinLength,
 		unit:  func(u Units) string { return " " + u.Length() },
 		small: "Depth too small", why: whyLength, fix: fixUnits}

@@ -101,8 +101,9 @@ event "e" {
   entrance = { up = EN }
 }
 event "f" {
-  inflow = { up = 1 }
-  outlet = { elevation = Z }
+  inflow        = { up = 1 }
+  outlet        = { elevation = Z }
+  return_period = RP
 }
 `
 
@@ -115,6 +116,7 @@ type magnitudeSlot struct {
 	fill         float64 // a value inside the range in both systems
 	allowNegZero bool    // values ≤ 0 are in range down to lo (side slopes, elevations)
 	loOpen       bool    // lo itself is out of range
+	station      bool    // a station range from 0: lo allows the rounding of a difference (shorter)
 }
 
 var noUpper = Bound{SI: math.Inf(1), US: math.Inf(1)}
@@ -133,12 +135,13 @@ var magnitudeSlots = []magnitudeSlot{
 	{key: "N", lo: Bound{SI: RoughnessFloor, US: RoughnessFloor}, hi: Bound{SI: maxRoughness, US: maxRoughness}, fill: 0.015},
 	{key: "GO", lo: MinDimension, hi: noUpper, fill: 0.3},
 	{key: "CC", lo: Bound{SI: MinContraction, US: MinContraction}, hi: Bound{SI: 1, US: 1}, fill: 0.61},
-	{key: "BS", lo: MinLength, hi: Bound{SI: 400, US: 400}, fill: 20},
+	{key: "BS", lo: MinLength, hi: Bound{SI: 400, US: 400}, fill: 20, station: true},
 	{key: "RAD", lo: MinDimension, hi: noUpper, fill: 30},
 	{key: "RL", lo: MinDimension, hi: noUpper, fill: 40},
 	{key: "RC", lo: MinRoadCoefficient, hi: MaxRoadCoefficient, fill: 1.6},
 	{key: "IK", lo: Bound{SI: inletRanges["K"][0], US: inletRanges["K"][0]}, hi: Bound{SI: inletRanges["K"][1], US: inletRanges["K"][1]}, fill: 0.026},
 	{key: "IM", lo: Bound{SI: inletRanges["M"][0], US: inletRanges["M"][0]}, hi: Bound{SI: inletRanges["M"][1], US: inletRanges["M"][1]}, fill: 1},
+	{key: "RP", lo: returnPeriodRange.least, hi: returnPeriodRange.most, fill: 100},
 	{key: "Q", lo: MinDischarge, hi: MaxDischarge, fill: 3},
 	{key: "Y", lo: MinLength, hi: noUpper, fill: 0.8},
 	{key: "EN", lo: MinLength, hi: noUpper, fill: 0.4},
@@ -225,6 +228,9 @@ func TestMagnitudesRefusedAtTheirAttribute(t *testing.T) {
 		src := magnitudeText(units, i, text)
 		m, diags := Parse("mag.chan.hcl", []byte(src))
 		inRange := (v > lo || v == lo && !s.loOpen) && v <= hi
+		if s.station {
+			inRange = !shorter(0, v, lo) && v <= hi
+		}
 		if inRange {
 			if diags.HasErrors() {
 				t.Fatalf("%s = %s (%s) refused, but it lies in [%g, %g]: %s", s.key, text, units, lo, hi, diags.Error())

@@ -83,7 +83,8 @@ func solveAndCheck(t *testing.T, src string) (*solver.Result, []Finding) {
 
 // TestShortReachKeepsJumpAndFailingSpan: a reach 1 mm long, the shortest
 // accepted, neither swallows the hydraulic jump that forms on it nor
-// hides the overtopping of its own lower section. Source: common practice
+// hides the overtopping of its own lower section, nor does a segment 1 mm
+// long. Source: common practice
 // (no published source): cutting a prismatic reach into pieces of the
 // same section and slope changes nothing physical, so the jump stays
 // where the uncut reach has it (whose M3 curve and sequent depth
@@ -140,6 +141,34 @@ func TestShortReachKeepsJumpAndFailingSpan(t *testing.T) {
 		}
 	}
 	assert.True(t, found, "the overtopping of the 1 mm reach is reported")
+
+	// So does a segment 1 mm long of that section inside the uncut reach.
+	seg := strings.Replace(string(whole), `  slope   = 0.0007
+}`, `  slope   = 0.0007
+  segment {
+    from_station = 100
+    to_station   = 100.001
+    section      = "low"
+  }
+}
+section "low" {
+  shape        = "rectangle"
+  bottom_width = 2.5
+  height       = 1.0
+  roughness    = 0.014
+  lining       = "concrete"
+}`, 1)
+	require.NotEqual(t, string(whole), seg)
+	_, fs = solveAndCheck(t, seg)
+	found = false
+	for _, f := range fs {
+		if f.Rule == "capacity" {
+			found = true
+			assert.Equal(t, 100.0, f.FromStation)
+			assert.InDelta(t, 100.001, f.ToStation, 1e-9)
+		}
+	}
+	assert.True(t, found, "the overtopping of the 1 mm segment is reported")
 }
 
 // degenerateModel is a model drawn from the magnitudes the model language
