@@ -92,6 +92,10 @@ func clipJump(r *model.Reach, j solver.Jump) jumpReach {
 	jr := jumpReach{toe: j.Station, end: j.End()}
 	if l := r.Length; l > 0 && jr.end > l+exceptionTolerance(l) {
 		jr.toe, jr.end, jr.over, jr.next = min(jr.toe, l), l, j.End()-l, r.Downstream
+	} else if l > 0 && jr.end > l {
+		// Within the tolerance of the reach end: the span stops there
+		// (a span never leaves its reach) and nothing runs on below.
+		jr.toe, jr.end = min(jr.toe, l), l
 	}
 	return jr
 }
