@@ -158,10 +158,29 @@ func (c *controls) add(rr *solver.ReachResult, offset, buffer float64) {
 		end := (i == 0 || i == len(pts)-1) && !c.criticalThrough(rr, i)
 		change := (i > 0 && pts[i-1].Station == p.Station) || (i+1 < len(pts) && pts[i+1].Station == p.Station)
 		if end || change {
-			c.at = append(c.at, p.Station+offset)
+			x := p.Station + offset
+			if offset != 0 && c.has(x) {
+				// The same control seen from both sides of a node (a
+				// mild-to-steep break is critical at the end of one reach
+				// and the start of the next): two controls at one station
+				// would each hide the other's buffer edge from
+				// bufferEdgeSpans.
+				continue
+			}
+			c.at = append(c.at, x)
 			c.len = append(c.len, buffer*p.CriticalDepth)
 		}
 	}
+}
+
+// has reports whether a control is already recorded at station x.
+func (c *controls) has(x float64) bool {
+	for _, s := range c.at {
+		if math.Abs(s-x) <= 1e-9*max(1, math.Abs(x)) {
+			return true
+		}
+	}
+	return false
 }
 
 // neighbours adds the controls of the reaches the profile of rr runs on

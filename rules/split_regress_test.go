@@ -3,6 +3,8 @@ package rules
 import (
 	"testing"
 
+	"github.com/chanlint/chanlint/model"
+
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 )
@@ -44,4 +46,27 @@ func TestFroudeNoControlAtNodeOnCriticalSlope(t *testing.T) {
 	assert.Equal(t, 25.0, cut[0].ToStation)
 	assert.Equal(t, 0.0, cut[1].FromStation)
 	assert.InDelta(t, whole[0].ToStation, 25+cut[1].ToStation, 1e-9)
+}
+
+// TestFroudeBreakControlCountedOnce is the case rapid found for
+// TestFindingsIndependentOfUnits after the buffer began to carry through
+// nodes: a mild reach breaking into a steep one is critical at the end of
+// the first and the start of the second, and the two reaches saw the
+// control twice at one station. Each copy hid the other's buffer edge from
+// bufferEdgeSpans, so the stretch between a crossing of F = 0.86 and the
+// buffer edge was reported only where a computed point fell in it (in US
+// units, not in SI).
+func TestFroudeBreakControlCountedOnce(t *testing.T) {
+	pol := baselinePack(t)
+	c := unitCase{shape: 1, width: 0.5029296875, z: 1.875, height: 1, n: 0.0208740234375, lining: "concrete",
+		reaches: 2, lengths: [2]float64{59.9375, 50}, slopes: [2]float64{0.003, 0.01},
+		flows: []float64{30}, outlet: 0, outletDepth: 1}
+	si := ruleFindings(t, c.text(model.SI), pol, "froude_band")
+	us := ruleFindings(t, c.text(model.US), pol, "froude_band")
+	require.Equal(t, len(si), len(us))
+	for i := range si {
+		assert.Equal(t, si[i].Reach, us[i].Reach)
+		assert.InDelta(t, si[i].FromStation, us[i].FromStation*footInMetres, 0.01)
+		assert.InDelta(t, si[i].ToStation, us[i].ToStation*footInMetres, 0.01)
+	}
 }
