@@ -46,6 +46,16 @@ var (
 	// size. A trapezoid narrower at the bottom is a triangle. Source:
 	// common practice (no published source).
 	MinDimension = Bound{SI: 0.01, US: 0.03}
+	// MaxDimension bounds the same dimensions and the depths at the
+	// outlet and entrances from above: 100 km (330,000 ft), beyond the
+	// widest floodplains (the Amazon's reaches about 50 km, from memory).
+	// MaxLength bounds reach lengths and max_spacing: 10,000 km
+	// (33,000,000 ft), a quarter of the Earth's circumference, beyond the
+	// longest canals (about 1,400 km, from memory). Both are slips of the
+	// units or an exponent, not channels. Source: common practice (no
+	// published source).
+	MaxDimension = Bound{SI: 1e5, US: 3.3e5}
+	MaxLength    = Bound{SI: 1e7, US: 3.3e7}
 	// MaxElevation bounds the magnitude of every elevation (inverts, the
 	// outlet level, road crest and shoulder, point elevations): 20,000 m
 	// (66,000 ft), beyond the highest and lowest points of the Earth's
@@ -126,21 +136,35 @@ func (d *decoder) above(rng hcl.Range, summary string, what any, v, most float64
 // Reasons and fixes of the refusals, shared by the attributes of one
 // kind.
 const (
-	whyLength    = "a length or depth under 1 mm is below the tolerance of construction and the resolution of a survey"
-	whyDimension = "a cross-section or opening under 1 cm is smaller than any drain, and Manning's equation does not describe flow that thin"
-	whyRoad      = "a road crest under 1 cm long or wide is no road, and the weir formula does not apply to it"
-	fixUnits     = "Check the units and the decimal point"
+	whyLength       = "a length or depth under 1 mm is below the tolerance of construction and the resolution of a survey"
+	whyDimension    = "a cross-section or opening under 1 cm is smaller than any drain, and Manning's equation does not describe flow that thin"
+	whyBigDimension = "the widest floodplains are some tens of kilometres across (the Amazon's up to about 50 km), and no cross-section, opening or depth is 100 km"
+	whyLongLength   = "a reach of 10,000 km is a quarter of the way round the Earth, and the longest canals are about 1,400 km"
+	whyRoad         = "a road crest under 1 cm long or wide is no road, and the weir formula does not apply to it"
+	fixUnits        = "Check the units and the decimal point"
 )
 
 // length decodes a positive length of at least MinLength (reach length,
 // max_spacing).
 func (a attrSet) length(name, fix string) (float64, bool) {
-	return a.atLeast(name, MinLength, "Length too small", whyLength, fix)
+	v, ok := a.atLeast(name, MinLength, "Length too small", whyLength, fix)
+	return v, ok && a.atMost(name, v, MaxLength, "Length too large", whyLongLength)
 }
 
-// dimension decodes a positive dimension of at least MinDimension.
+// dimension decodes a positive dimension from MinDimension to
+// MaxDimension.
 func (a attrSet) dimension(name, fix string) (float64, bool) {
-	return a.atLeast(name, MinDimension, "Dimension too small", whyDimension, fix)
+	v, ok := a.atLeast(name, MinDimension, "Dimension too small", whyDimension, fix)
+	return v, ok && a.atMost(name, v, MaxDimension, "Dimension too large", whyBigDimension)
+}
+
+// atMost checks a decoded value against the greatest of its range.
+func (a attrSet) atMost(name string, v float64, most Bound, summary, why string) bool {
+	if max := most.In(a.d.m.Units); v > max {
+		a.d.above(a.m[name].Expr.Range(), summary, label{attr: name, owner: a.what}, v, max, a.d.unitSuffix(), why, fixUnits)
+		return false
+	}
+	return true
 }
 
 // atLeast decodes a positive number not under least (in the model's
@@ -177,6 +201,7 @@ type valueRange struct {
 	unit        func(Units) string
 	small, big  string // summaries
 	why, fix    string
+	bigWhy      string // why for a value above the range, when not why
 }
 
 var (
@@ -195,9 +220,9 @@ var (
 		small: "Return period out of range", big: "Return period out of range",
 		why: "design events run from the half-year storm of water-quality design to the 10,000-year and probable-maximum events of dam safety",
 		fix: "Write the return period in years (e.g. 100), not an annual probability or a percentage"}
-	depthRange = valueRange{least: MinLength,
+	depthRange = valueRange{least: MinLength, most: MaxDimension, big: "Depth too large",
 		unit:  func(u Units) string { return " " + u.Length() },
-		small: "Depth too small", why: whyLength, fix: fixUnits}
+		small: "Depth too small", why: whyLength, bigWhy: whyBigDimension, fix: fixUnits}
 )
 
 // inRange checks v against r at rng.
@@ -208,7 +233,11 @@ func (d *decoder) inRange(rng hcl.Range, what any, v float64, r valueRange) bool
 		return false
 	}
 	if most := r.most.In(d.m.Units); most > 0 && v > most {
-		d.above(rng, r.big, what, v, most, unit, r.why, r.fix)
+		why := r.why
+		if r.bigWhy != "" {
+			why = r.bigWhy
+		}
+		d.above(rng, r.big, what, v, most, unit, why, r.fix)
 		return false
 	}
 	return true
@@ -217,8 +246,8 @@ func (d *decoder) inRange(rng hcl.Range, what any, v float64, r valueRange) bool
 // roadRanges are the physical ranges of a road's crest length and width
 // and of its weir coefficient.
 var roadRanges = map[string]valueRange{
-	"length": {least: MinDimension, unit: lengthUnit, small: "Dimension too small", why: whyRoad, fix: fixUnits},
-	"width":  {least: MinDimension, unit: lengthUnit, small: "Dimension too small", why: whyRoad, fix: fixUnits},
+	"length": {least: MinDimension, most: MaxDimension, unit: lengthUnit, small: "Dimension too small", big: "Dimension too large", why: whyRoad, bigWhy: whyBigDimension, fix: fixUnits},
+	"width":  {least: MinDimension, most: MaxDimension, unit: lengthUnit, small: "Dimension too small", big: "Dimension too large", why: whyRoad, bigWhy: whyBigDimension, fix: fixUnits},
 	"coefficient": {least: MinRoadCoefficient, most: MaxRoadCoefficient,
 		unit: func(u Units) string {
 			if u == US {

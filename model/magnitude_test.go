@@ -124,27 +124,27 @@ var noUpper = Bound{SI: math.Inf(1), US: math.Inf(1)}
 // Source: the bounds of model/magnitude.go and section.go (common
 // practice, no published source); the test holds the decoder to them.
 var magnitudeSlots = []magnitudeSlot{
-	{key: "L", lo: MinLength, hi: noUpper, fill: 400},
-	{key: "SP", lo: MinLength, hi: noUpper, fill: 10},
-	{key: "BW", lo: MinDimension, hi: noUpper, fill: 2},
-	{key: "H", lo: MinDimension, hi: noUpper, fill: 1.5},
-	{key: "D", lo: MinDimension, hi: noUpper, fill: 0.6},
+	{key: "L", lo: MinLength, hi: MaxLength, fill: 400},
+	{key: "SP", lo: MinLength, hi: MaxLength, fill: 10},
+	{key: "BW", lo: MinDimension, hi: MaxDimension, fill: 2},
+	{key: "H", lo: MinDimension, hi: MaxDimension, fill: 1.5},
+	{key: "D", lo: MinDimension, hi: MaxDimension, fill: 0.6},
 	// A triangle 1 high is MinDimension wide at the top at z = least/2.
 	{key: "TZ", lo: Bound{SI: MinDimension.SI / 2, US: MinDimension.US / 2}, hi: Bound{SI: MaxSideSlope, US: MaxSideSlope}, fill: 3},
 	{key: "SZ", lo: Bound{}, hi: Bound{SI: MaxSideSlope, US: MaxSideSlope}, fill: 1.5, allowNegZero: true},
 	{key: "N", lo: Bound{SI: RoughnessFloor, US: RoughnessFloor}, hi: Bound{SI: maxRoughness, US: maxRoughness}, fill: 0.015},
-	{key: "GO", lo: MinDimension, hi: noUpper, fill: 0.3},
+	{key: "GO", lo: MinDimension, hi: MaxDimension, fill: 0.3},
 	{key: "CC", lo: Bound{SI: MinContraction, US: MinContraction}, hi: Bound{SI: 1, US: 1}, fill: 0.61},
 	{key: "BS", lo: MinLength, hi: Bound{SI: 400, US: 400}, fill: 20, station: true},
 	{key: "RAD", lo: MinDimension, hi: noUpper, fill: 30},
-	{key: "RL", lo: MinDimension, hi: noUpper, fill: 40},
+	{key: "RL", lo: MinDimension, hi: MaxDimension, fill: 40},
 	{key: "RC", lo: MinRoadCoefficient, hi: MaxRoadCoefficient, fill: 1.6},
 	{key: "IK", lo: Bound{SI: inletRanges["K"][0], US: inletRanges["K"][0]}, hi: Bound{SI: inletRanges["K"][1], US: inletRanges["K"][1]}, fill: 0.026},
 	{key: "IM", lo: Bound{SI: inletRanges["M"][0], US: inletRanges["M"][0]}, hi: Bound{SI: inletRanges["M"][1], US: inletRanges["M"][1]}, fill: 1},
 	{key: "RP", lo: returnPeriodRange.least, hi: returnPeriodRange.most, fill: 100},
 	{key: "Q", lo: MinDischarge, hi: MaxDischarge, fill: 3},
-	{key: "Y", lo: MinLength, hi: noUpper, fill: 0.8},
-	{key: "EN", lo: MinLength, hi: noUpper, fill: 0.4},
+	{key: "Y", lo: MinLength, hi: MaxDimension, fill: 0.8},
+	{key: "EN", lo: MinLength, hi: MaxDimension, fill: 0.4},
 	// The outlet level stands above the culvert's outlet invert, -19999.5
 	// (the lowest elevations accepted are tested in TestRealDesignsAccepted).
 	{key: "Z", lo: Bound{SI: -19999.5, US: -19999.5}, hi: MaxElevation, fill: 100, allowNegZero: true, loOpen: true},

@@ -240,9 +240,13 @@ func (d *decoder) points(s *Section, a attrSet) {
 		d.Errorf(at.Expr.Range(), "Section has no width", "%s all lie at one offset; spread them across the channel.", what)
 		return
 	}
+	width := label{attr: "the width of the points (last offset − first offset)", owner: a.what}
 	if least := MinDimension.In(d.m.Units); last.Offset-first.Offset < least {
-		d.below(at.Expr.Range(), "Section too narrow", label{attr: "the width of the points (last offset − first offset)", owner: a.what},
-			last.Offset-first.Offset, least, d.unitSuffix(), whyDimension, fixUnits+" of the offsets")
+		d.below(at.Expr.Range(), "Section too narrow", width, last.Offset-first.Offset, least, d.unitSuffix(), whyDimension, fixUnits+" of the offsets")
+		return
+	}
+	if most := MaxDimension.In(d.m.Units); last.Offset-first.Offset > most {
+		d.above(at.Expr.Range(), "Section too wide", width, last.Offset-first.Offset, most, d.unitSuffix(), whyBigDimension, fixUnits+" of the offsets")
 		return
 	}
 	low := first.Elevation

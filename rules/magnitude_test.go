@@ -184,25 +184,30 @@ func degenerateModel(t *rapid.T) string {
 	}
 	f := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 	var b strings.Builder
-	b.WriteString("units = \"si\"\n")
+	u := rapid.SampledFrom([]model.Units{model.SI, model.US}).Draw(t, "units")
+	fmt.Fprintf(&b, "units = %q\n", u)
+	// The least length and dimension accepted, and the discharge and
+	// road-coefficient ranges, in the drawn units; the other numbers
+	// are drawn the same in both.
+	mm, cm := model.MinLength.In(u), model.MinDimension.In(u)
 	var height float64
 	section := func(name string) {
 		shape := rapid.SampledFrom([]string{"rectangle", "trapezoid", "triangle", "circle", "points"}).Draw(t, name+"shape")
-		h := logU(0.01, 1000, name+"height")
+		h := logU(cm, 1000, name+"height")
 		height = max(height, h)
 		fmt.Fprintf(&b, "section %q {\n  shape = %q\n  roughness = %s\n", name, shape, f(logU(0.005, 0.3, name+"n")))
 		switch shape {
 		case "rectangle":
-			fmt.Fprintf(&b, "  bottom_width = %s\n  height = %s\n", f(logU(0.01, 1e4, name+"width")), f(h))
+			fmt.Fprintf(&b, "  bottom_width = %s\n  height = %s\n", f(logU(cm, 1e4, name+"width")), f(h))
 		case "trapezoid":
-			fmt.Fprintf(&b, "  bottom_width = %s\n  side_slope = %s\n  height = %s\n", f(logU(0.01, 1e4, name+"width")), f(logU(1e-6, 1000, name+"z")), f(h))
+			fmt.Fprintf(&b, "  bottom_width = %s\n  side_slope = %s\n  height = %s\n", f(logU(cm, 1e4, name+"width")), f(logU(1e-6, 1000, name+"z")), f(h))
 		case "triangle":
-			z := max(logU(1e-3, 1000, name+"z"), 0.01/h)
+			z := max(logU(1e-3, 1000, name+"z"), cm/h)
 			fmt.Fprintf(&b, "  side_slope = %s\n  height = %s\n", f(z), f(h))
 		case "circle":
 			fmt.Fprintf(&b, "  diameter = %s\n", f(h))
 		case "points":
-			w := logU(0.01, 1e4, name+"width")
+			w := logU(cm, 1e4, name+"width")
 			wall := rapid.Float64Range(0, 1).Draw(t, name+"wall") // a near-vertical wall
 			fmt.Fprintf(&b, "  points = [[0, %s], [%s, 0], [%s, 0], [%s, %s]]\n", f(h), f(w*1e-12*wall), f(w*(1-1e-12*wall)), f(w), f(h))
 		}
@@ -213,19 +218,19 @@ func degenerateModel(t *rapid.T) string {
 	n := rapid.IntRange(1, 3).Draw(t, "reaches")
 	var slope, length float64
 	for i := range n {
-		length = logU(0.001, 1e5, fmt.Sprintf("length%d", i))
+		length = logU(mm, 1e5, fmt.Sprintf("length%d", i))
 		slope = rapid.SampledFrom([]float64{0, 1e-9, -1e-9, 1e-5, 0.001, 0.05, 0.5, -0.01}).Draw(t, fmt.Sprintf("slope%d", i))
 		fmt.Fprintf(&b, "reach \"r%d\" {\n  from = \"n%d\"\n  to = \"n%d\"\n  length = %s\n  section = \"s\"\n  slope = %s\n", i, i, i+1, f(length), f(slope))
-		if length >= 0.003 && rapid.Bool().Draw(t, fmt.Sprintf("segment%d", i)) {
+		if length >= 3*mm && rapid.Bool().Draw(t, fmt.Sprintf("segment%d", i)) {
 			// A segment of the other section, 1 mm long or longer,
 			// anywhere on the reach.
-			seg := max(0.001, length*rapid.Float64Range(0, 0.5).Draw(t, fmt.Sprintf("seglen%d", i)))
+			seg := max(mm, length*rapid.Float64Range(0, 0.5).Draw(t, fmt.Sprintf("seglen%d", i)))
 			from := (length - seg) * rapid.Float64Range(0, 1).Draw(t, fmt.Sprintf("segat%d", i))
-			if from < 0.001 {
+			if from < mm {
 				from = 0
 			}
 			to := from + seg
-			if length-to < 0.001 {
+			if length-to < mm {
 				to = length
 			}
 			fmt.Fprintf(&b, "  segment {\n    from_station = %s\n    to_station = %s\n    section = \"t\"\n  }\n", f(from), f(to))
@@ -235,38 +240,38 @@ func degenerateModel(t *rapid.T) string {
 	first := strings.Index(b.String(), "reach \"r0\"")
 	if rapid.Bool().Draw(t, "gate") {
 		fmt.Fprintf(&b, "gate \"g\" {\n  reach = \"r%d\"\n  opening = %s\n  contraction = %s\n}\n", n-1,
-			f(logU(0.01, max(0.011, height), "opening")), f(rapid.Float64Range(0.5, 1).Draw(t, "cc")))
+			f(logU(cm, max(1.1*cm, height), "opening")), f(rapid.Float64Range(0.5, 1).Draw(t, "cc")))
 	}
 	_ = first
 	if rapid.Bool().Draw(t, "bend") {
-		fmt.Fprintf(&b, "bend \"b\" {\n  reach = \"r%d\"\n  from_station = 0\n  to_station = %s\n  radius = %s\n}\n", n-1, f(length), f(logU(0.01, 1e4, "radius")))
+		fmt.Fprintf(&b, "bend \"b\" {\n  reach = \"r%d\"\n  from_station = 0\n  to_station = %s\n  radius = %s\n}\n", n-1, f(length), f(logU(cm, 1e4, "radius")))
 	}
 	if rapid.Bool().Draw(t, "basin") {
-		fmt.Fprintf(&b, "basin \"pad\" {\n  reach = \"r%d\"\n  from_station = 0\n  to_station = %s\n}\n", n-1, f(max(0.001, length*rapid.Float64Range(0, 1).Draw(t, "basin-len"))))
+		fmt.Fprintf(&b, "basin \"pad\" {\n  reach = \"r%d\"\n  from_station = 0\n  to_station = %s\n}\n", n-1, f(max(mm, length*rapid.Float64Range(0, 1).Draw(t, "basin-len"))))
 	}
 	culvert := rapid.Bool().Draw(t, "culvert")
 	last := n - 1
 	if culvert {
 		// A box barrel below the last reach, with explicit coefficients
 		// drawn over their whole accepted ranges.
-		rise := logU(0.01, 20, "rise")
-		fmt.Fprintf(&b, "section \"barrel\" {\n  shape = \"box\"\n  bottom_width = %s\n  height = %s\n  roughness = 0.013\n}\n", f(logU(0.01, 50, "span")), f(rise))
-		bl, bs := logU(0.001, 500, "barrel-length"), rapid.SampledFrom([]float64{0, 1e-9, 0.01, 0.3}).Draw(t, "barrel-slope")
+		rise := logU(cm, 20, "rise")
+		fmt.Fprintf(&b, "section \"barrel\" {\n  shape = \"box\"\n  bottom_width = %s\n  height = %s\n  roughness = 0.013\n}\n", f(logU(cm, 50, "span")), f(rise))
+		bl, bs := logU(mm, 500, "barrel-length"), rapid.SampledFrom([]float64{0, 1e-9, 0.01, 0.3}).Draw(t, "barrel-slope")
 		fmt.Fprintf(&b, "reach \"culv\" {\n  from = \"n%d\"\n  to = \"n%d\"\n  length = %s\n  section = \"barrel\"\n  slope = %s\n}\n", n, n+1, f(bl), f(bs))
 		fmt.Fprintf(&b, "culvert \"c\" {\n  reach = \"culv\"\n  barrels = %d\n  inlet = { form = %d, K = %s, M = %s, c = %s, Y = %s, entrance_loss = %s }\n",
 			rapid.IntRange(1, 100).Draw(t, "barrels"), rapid.IntRange(1, 2).Draw(t, "form"),
 			f(logU(1e-4, 2, "K")), f(logU(0.2, 4, "M")), f(logU(0.003, 0.6, "c")), f(logU(0.05, 3, "Y")), f(rapid.Float64Range(0, 2).Draw(t, "ke")))
 		if rapid.Bool().Draw(t, "road") {
 			fmt.Fprintf(&b, "  road = { crest = %s, length = %s, width = %s, coefficient = %s }\n",
-				f(bl*bs+rise+max(0.001, rise*logU(1e-6, 100, "crest-above"))), f(logU(0.01, 1e4, "road-length")), f(logU(0.01, 1e3, "road-width")), f(rapid.Float64Range(0.8, 2.0).Draw(t, "cr")))
+				f(bl*bs+rise+max(mm, rise*logU(1e-6, 100, "crest-above"))), f(logU(cm, 1e4, "road-length")), f(logU(cm, 1e3, "road-width")), f(rapid.Float64Range(model.MinRoadCoefficient.In(u), model.MaxRoadCoefficient.In(u)).Draw(t, "cr")))
 		}
 		b.WriteString("}\n")
 		slope = 1 // the outlet reach is the barrel: no normal-depth question
 		last = -1
 	}
-	fmt.Fprintf(&b, "event \"e\" {\n  inflow = { \"r0\" = %s }\n", f(logU(1e-4, 1e6, "q")))
+	fmt.Fprintf(&b, "event \"e\" {\n  inflow = { \"r0\" = %s }\n", f(logU(model.MinDischarge.In(u), model.MaxDischarge.In(u), "q")))
 	if rapid.Bool().Draw(t, "entrance") {
-		fmt.Fprintf(&b, "  entrance = { \"r0\" = %s }\n", f(logU(0.001, 1000, "entrance-depth")))
+		fmt.Fprintf(&b, "  entrance = { \"r0\" = %s }\n", f(logU(mm, 1000, "entrance-depth")))
 	}
 	_ = last
 	switch rapid.IntRange(0, 2).Draw(t, "outlet") {
@@ -279,7 +284,7 @@ func degenerateModel(t *rapid.T) string {
 	case 1:
 		b.WriteString("  outlet = { condition = \"critical\" }\n")
 	default:
-		fmt.Fprintf(&b, "  outlet = { depth = %s }\n", f(logU(0.001, 1000, "depth")))
+		fmt.Fprintf(&b, "  outlet = { depth = %s }\n", f(logU(mm, 1000, "depth")))
 	}
 	b.WriteString("}\n")
 	return b.String()
