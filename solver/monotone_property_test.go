@@ -162,3 +162,67 @@ func TestHigherTailwaterMovesJumpUpstream(t *testing.T) {
 		}
 	})
 }
+
+// TestHigherTailwaterMovesGateJumpUpstream: below a sluice gate on a mild
+// slope, the jet rises along an M3 curve and jumps to the subcritical
+// profile from the tailwater. A higher tailwater moves the toe toward the
+// gate, never away from it, and once it submerges the gate (no jump, the
+// flow subcritical from station 0) a higher one keeps it submerged.
+//
+// Source: Chow, Open-Channel Hydraulics (1959), ch. 3 and §10 (from
+// memory), as TestHigherTailwaterMovesJumpUpstream; Henderson, Open
+// Channel Flow (1966), ch. 6 (from memory): a gate is submerged when the
+// tailwater exceeds the sequent depth of the vena contracta.
+func TestHigherTailwaterMovesGateJumpUpstream(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		b := rapid.Float64Range(1, 8).Draw(t, "b")
+		n := rapid.Float64Range(0.012, 0.03).Draw(t, "n")
+		s0 := rapid.Float64Range(0.0002, 0.002).Draw(t, "s0")
+		q := rapid.Float64Range(0.5, 20).Draw(t, "q")
+		length := rapid.Float64Range(50, 600).Draw(t, "length")
+		sec := trapezoid("r", b, 0, n, 1e3)
+		g := NewGeometry(sec, model.SI)
+		yc, err := CriticalDepth(g, q)
+		if err != nil {
+			t.Fatalf("critical depth: %v", err)
+		}
+		yn, err := NormalDepth(g, q, s0)
+		if err != nil {
+			t.Fatalf("normal depth: %v", err)
+		}
+		if !(yn > 1.05*yc) {
+			t.Skip("not clearly mild")
+		}
+		opening := yc * rapid.Float64Range(0.2, 1.2).Draw(t, "opening")
+		tw1 := yn * rapid.Float64Range(0.9, 2.5).Draw(t, "tw")
+		tw2 := tw1 * (1 + rapid.Float64Range(0.001, 0.2).Draw(t, "more"))
+		solve := func(tw float64) *ReachResult {
+			m := buildNet(t, model.SI, []netReach{{name: "r", from: "a", to: "b", length: length, slope: s0, sec: sec, inflow: q,
+				gate: &model.Gate{Opening: opening, Contraction: 0.61}}}, model.Outlet{Kind: model.OutletDepth, Value: tw})
+			res, err := Solve(m, Options{})
+			if err != nil {
+				t.Fatalf("Solve: %v", err)
+			}
+			return res.Events[0].Reaches[0]
+		}
+		low, high := solve(tw1), solve(tw2)
+		if len(low.Jumps) > 1 || len(high.Jumps) > 1 {
+			t.Fatalf("more than one jump below a gate: %v / %v", low.Jumps, high.Jumps)
+		}
+		switch {
+		case len(low.Jumps) == 1 && len(high.Jumps) == 1:
+			if a, b := low.Jumps[0].Station, high.Jumps[0].Station; b > a+1e-6*length {
+				t.Fatalf("tailwater %.6g → %.6g moves the toe away from the gate, %.6g to %.6g (yn %.6g, yc %.6g, opening %.6g)",
+					tw1, tw2, a, b, yn, yc, opening)
+			}
+		case len(low.Jumps) == 0 && len(high.Jumps) == 1:
+			if low.Points[0].Regime == Subcritical {
+				t.Fatalf("tailwater %.6g submerges the gate but %.6g has a jump at %.6g", tw1, tw2, high.Jumps[0].Station)
+			}
+		case len(low.Jumps) == 1 && len(high.Jumps) == 0:
+			if high.Points[0].Regime != Subcritical {
+				t.Fatalf("tailwater %.6g holds a jump at %.6g but %.6g has none and does not submerge the gate", tw1, low.Jumps[0].Station, tw2)
+			}
+		}
+	})
+}
