@@ -2,6 +2,7 @@ package model
 
 import (
 	"fmt"
+	"math"
 	"strings"
 )
 
@@ -122,6 +123,14 @@ func (d *decoder) network() {
 			r.InvertDown = r.Downstream.InvertUp
 		}
 		r.InvertUp = r.InvertDown + r.Slope*r.Length
+		// Slopes and lengths that are each in range can still add up to
+		// a fall no valley has: the derived inverts are elevations too.
+		if most := MaxElevation.In(m.Units); math.Abs(r.InvertUp) > most {
+			d.Errorf(r.At("slope"), "Elevation out of range",
+				"reach %q rises to an upstream invert of %.6g%s (its downstream invert %.6g%s plus slope %g over its length %g%s); elevations lie within ±%g%s: the slopes and lengths of the reaches from the outlet up add to a fall greater than the Earth's relief. %s of the slopes and lengths, or give invert = [upstream, downstream] elevations.",
+				r.Name, r.InvertUp, d.unitSuffix(), r.InvertDown, d.unitSuffix(), r.Slope, r.Length, d.unitSuffix(), most, d.unitSuffix(), fixUnits)
+			return
+		}
 	}
 	d.attachNodeLosses(nodes)
 	m.Network = net
