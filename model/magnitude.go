@@ -130,7 +130,7 @@ func (d *decoder) below(rng hcl.Range, summary string, what any, v, least float6
 
 // above reports a value beyond the greatest of its range at rng.
 func (d *decoder) above(rng hcl.Range, summary string, what any, v, most float64, unit, why, fix string) {
-	d.Errorf(rng, summary, "%s is %g%s; the most accepted is %g%s: %s. %s", what, v, unit, most, unit, why, fix)
+	d.Errorf(rng, summary, "%s is %.6g%s; the most accepted is %g%s: %s. %s", what, v, unit, most, unit, why, fix)
 }
 
 // Reasons and fixes of the refusals, shared by the attributes of one

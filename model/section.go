@@ -86,7 +86,11 @@ func (d *decoder) section(b *hcl.Block) *Section {
 		s.BottomWidth, _ = a.dimension("bottom_width", fix)
 		s.Height, _ = a.dimension("height", fixUnits)
 		if s.Shape == Trapezoid {
-			s.SideSlope, _ = a.sideSlope(false)
+			var zok bool
+			s.SideSlope, zok = a.sideSlope(false)
+			if zok && s.BottomWidth > 0 && s.Height > 0 {
+				d.topWidthAtMost(a, s.BottomWidth+2*s.SideSlope*s.Height, "bottom_width + 2 × side_slope × height")
+			}
 		}
 	case Triangle:
 		z, zok := a.sideSlope(true)
@@ -101,6 +105,9 @@ func (d *decoder) section(b *hcl.Block) *Section {
 				label{attr: "the top width at full height (2 × side_slope × height)", owner: a.what}, 2*z*s.Height, least, d.unitSuffix(), whyDimension,
 				"Check side_slope (the horizontal run per unit rise, e.g. 3 for 3:1) and height")
 			s.SideSlope = 0
+		}
+		if zok && hok {
+			d.topWidthAtMost(a, 2*z*s.Height, "2 × side_slope × height")
 		}
 	case Circle:
 		s.Diameter, _ = a.dimension("diameter", fixUnits)
@@ -355,4 +362,15 @@ func inSourceOrder(m hclsyntax.Attributes) []string {
 	}
 	slices.SortFunc(keys, func(x, y string) int { return m[x].SrcRange.Start.Byte - m[y].SrcRange.Start.Byte })
 	return keys
+}
+
+// topWidthAtMost refuses a trapezoid or triangle whose top width at full
+// height, each of its dimensions in range, is beyond MaxDimension (a side
+// slope of 1000 on a bank 200 m high), at its side_slope.
+func (d *decoder) topWidthAtMost(a attrSet, top float64, formula string) {
+	if most := MaxDimension.In(d.m.Units); top > most {
+		d.above(a.m["side_slope"].Expr.Range(), "Section too wide",
+			label{attr: "the top width at full height (" + formula + ")", owner: a.what}, top, most, d.unitSuffix(), whyBigDimension,
+			"Check side_slope (the horizontal run per unit rise) and height")
+	}
 }

@@ -200,9 +200,10 @@ func degenerateModel(t *rapid.T) string {
 		case "rectangle":
 			fmt.Fprintf(&b, "  bottom_width = %s\n  height = %s\n", f(logU(cm, 1e4, name+"width")), f(h))
 		case "trapezoid":
-			fmt.Fprintf(&b, "  bottom_width = %s\n  side_slope = %s\n  height = %s\n", f(logU(cm, 1e4, name+"width")), f(logU(1e-6, 1000, name+"z")), f(h))
+			z := min(logU(1e-6, 1000, name+"z"), 2e4/h) // top width within MaxDimension
+			fmt.Fprintf(&b, "  bottom_width = %s\n  side_slope = %s\n  height = %s\n", f(logU(cm, 1e4, name+"width")), f(z), f(h))
 		case "triangle":
-			z := max(logU(1e-3, 1000, name+"z"), cm/h)
+			z := max(min(logU(1e-3, 1000, name+"z"), 2e4/h), cm/h)
 			fmt.Fprintf(&b, "  side_slope = %s\n  height = %s\n", f(z), f(h))
 		case "circle":
 			fmt.Fprintf(&b, "  diameter = %s\n", f(h))

@@ -1,6 +1,6 @@
 # Magnitudes beyond any channel: a reach 5e7 m long (longer than the
 # Earth's circumference), a bed 2e5 m wide, a points section 3e5 m across
-# and an outlet 5e5 m deep.
+# a triangle 180 km wide at its top and an outlet 5e5 m deep.
 units = "si"
 section "lined" {
   shape        = "rectangle"
@@ -12,6 +12,12 @@ section "valley" {
   shape     = "points"
   points    = [[0, 5], [150000, 0], [300000, 5]] # want model "Section too wide.*is 300000 m; the most accepted is 100000 m"
   roughness = 0.05
+}
+section "sheet" {
+  shape      = "triangle"
+  side_slope = 900 # want model "Section too wide.*the top width at full height \(2 × side_slope × height\) of section \x22sheet\x22 is 180000 m"
+  height     = 100
+  roughness  = 0.05
 }
 reach "main" {
   from    = "top"
