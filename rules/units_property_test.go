@@ -248,6 +248,15 @@ func TestFindingsIndependentOfUnits(t *testing.T) {
 					t.Fatalf("%v: SI %+v vs US %+v", k, a, b)
 				}
 				tol := tolOf(k.rule)
+				if surcharged(siRes, k.event) {
+					// The slot's magnification carries on past the crown:
+					// rapid found a circle surcharged to twice its diameter
+					// at a junction, whose S1 curve then drowned the steep
+					// reach above up to its head, 0.616 m deep there in SI
+					// and 0.617 m in US (7.4e-4 apart), and the velocity
+					// at the head 9e-4 apart.
+					tol = max(tol, slotTol)
+				}
 				if criticalNear(siRes, k, a.FromStation, a.ToStation) {
 					// Next to a critical-depth control the profile is
 					// singular (dy/dx = (S0 − Sf)/(1 − F²)): the depth
@@ -353,6 +362,24 @@ func borderlineJumpAt(res *solver.Result, k findingKey, from, to float64) bool {
 
 // dimensionless are the rules whose values are Froude numbers.
 var dimensionless = map[string]bool{"froude_band": true, "jump_type": true}
+
+// surcharged reports whether a closed conduit runs full (in the solver's
+// Preissmann slot) anywhere in the event of the SI result.
+func surcharged(res *solver.Result, event string) bool {
+	for _, er := range res.Events {
+		if er.Event.Name != event {
+			continue
+		}
+		for _, rr := range er.Reaches {
+			for i := range rr.Points {
+				if rr.Points[i].Full {
+					return true
+				}
+			}
+		}
+	}
+	return false
+}
 
 // criticalNear reports whether the SI result has a point at critical depth
 // (a control, or flow passing through it), or within 10 % of it, within a
