@@ -79,8 +79,8 @@ var (
 	// broad-crested weir passes 3.09 and a sharp-crested one about 3.33.
 	// The range is about half the lowest to a little above the highest.
 	// Source: common practice (no published source) for the bounds.
-	MinRoadCoefficient = Bound{SI: 0.8, US: 1.5}
-	MaxRoadCoefficient = Bound{SI: 2.0, US: 3.6}
+	MinRoadCoefficient = Bound{SI: 0.8, US: 1.4}
+	MaxRoadCoefficient = Bound{SI: 2.0, US: 3.7}
 )
 
 // inletRanges bound the inlet-control coefficients of an explicit inlet,

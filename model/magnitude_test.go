@@ -371,3 +371,36 @@ basin "pad" {
 		assert.False(t, diags.HasErrors(), "%s: %s", u, diags.Error())
 	}
 }
+
+// TestUSBoundsNoStricter: each bound in US units admits at least what
+// the SI one does, so that converting a valid model to US units never
+// makes it invalid. Source: the international foot is exactly 0.3048 m
+// (NIST SP 811, 2008, appendix B); a discharge scales with the cube of
+// length, a weir coefficient with its square root.
+func TestUSBoundsNoStricter(t *testing.T) {
+	const foot = 0.3048
+	for _, c := range []struct {
+		name  string
+		b     Bound
+		power float64 // of length
+		lower bool    // a least value (else a most)
+	}{
+		{"MinLength", MinLength, 1, true},
+		{"MaxLength", MaxLength, 1, false},
+		{"MinDimension", MinDimension, 1, true},
+		{"MaxDimension", MaxDimension, 1, false},
+		{"MaxElevation", MaxElevation, 1, false},
+		{"MinDischarge", MinDischarge, 3, true},
+		{"MaxDischarge", MaxDischarge, 3, false},
+		{"MinRoadCoefficient", MinRoadCoefficient, 0.5, true},
+		{"MaxRoadCoefficient", MaxRoadCoefficient, 0.5, false},
+	} {
+		us := c.b.US * math.Pow(foot, c.power) // the US bound in SI
+		if c.lower {
+			assert.LessOrEqual(t, us, c.b.SI, "%s: %g in US is %g in SI, stricter than %g", c.name, c.b.US, us, c.b.SI)
+		} else {
+			assert.GreaterOrEqual(t, us, c.b.SI, "%s: %g in US is %g in SI, stricter than %g", c.name, c.b.US, us, c.b.SI)
+		}
+		assert.Less(t, math.Abs(us/c.b.SI-1), 0.2, "%s: the two bounds are the same limit, rounded", c.name)
+	}
+}
