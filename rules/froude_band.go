@@ -219,7 +219,10 @@ func (c *controls) neighbours(rr *solver.ReachResult, buffer float64) {
 		}
 		offset += cur.Reach.Length
 		c.add(down, offset, buffer)
-		if offset > buffer*maxCritical(down) {
+		// The next reach starts at offset + its length, that far beyond
+		// the end of rr (stations of rr run to its length): a short
+		// reach between rr and a control does not end the walk.
+		if offset+down.Reach.Length-rr.Reach.Length > buffer*maxCritical(down) {
 			break
 		}
 		cur = down
