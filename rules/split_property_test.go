@@ -118,17 +118,15 @@ func TestSplittingAReachChangesNoFinding(t *testing.T) {
 		c := drawSplitCase(t)
 		wholeSrc, splitSrc := c.text(false), c.text(true)
 		wholeRes, whole := checkText(t, wholeSrc, pol)
-		_, halves := checkText(t, splitSrc, pol)
+		splitRes, halves := checkText(t, splitSrc, pol)
 		half := c.length / 2
 		ws, hs := spansOf(whole, half), spansOf(halves, half)
 		for k, wp := range ws {
-			if k[0] == "jump_containment" || k[0] == "jump_type" {
-				// About jumps, not spans of points: where a jump stands is
-				// TestHigherTailwaterMovesJumpUpstream's (solver) concern.
-				continue
+			if jumpRules[k[0]] {
+				continue // about jumps, compared by compareJumps
 			}
 			hp := joinAtCut(hs[k], half)
-			if len(wp) != len(hp) && (borderline(whole, k) || borderline(halves, k)) {
+			if len(wp) != len(hp) && (borderline(wholeRes, whole, k) || borderline(splitRes, halves, k)) {
 				continue
 			}
 			if len(wp) != len(hp) {
@@ -164,6 +162,14 @@ func TestSplittingAReachChangesNoFinding(t *testing.T) {
 						// certain; rapid found 0.993 against 0.9975.
 						vtol = 1e-2
 					}
+					if criticalNear(wholeRes, findingKey{k[0], "r", k[1]}, a.from, a.to) {
+						// Next to critical depth (see criticalNear): rapid
+						// found the whole reach with an undular jump 2 cm
+						// below its head (F1 = 1.0099), its S2 stretch
+						// 2.034 m/s, where the cut one drowns the head at
+						// 2.015 m/s.
+						vtol = 1e-2
+					}
 					if fullConduit(wholeRes, k[1]) {
 						// The Preissmann slot magnifies differences (see the
 						// capacity span tolerance), and so does the crown.
@@ -176,11 +182,79 @@ func TestSplittingAReachChangesNoFinding(t *testing.T) {
 			}
 		}
 		for k, hp := range hs {
-			if _, ok := ws[k]; !ok && k[0] != "jump_containment" && k[0] != "jump_type" && !borderline(halves, k) {
+			if _, ok := ws[k]; !ok && !jumpRules[k[0]] && !borderline(splitRes, halves, k) {
 				t.Fatalf("%v: found on the halves only: %v\n%s", k, hp, splitSrc)
 			}
 		}
+		compareJumps(t, wholeRes, splitRes, half, wholeSrc)
 	})
+}
+
+// jumpRules are the rules whose spans are jumps, or notes the solver
+// records with a jump (the solver rule: a jump placed by the
+// horizontal-bed relation on a steep reach, say); compareJumps compares
+// the jumps themselves.
+var jumpRules = map[string]bool{"jump_containment": true, "jump_type": true, "solver": true}
+
+// compareJumps: the jumps of the whole reach and of its halves stand at
+// the same stations, within 1e-6 of the reach and a millimetre plus the
+// toe's shift for 1 % of the depth below it (toeShift): each run within
+// 0.5 % of the depth, not the 0.2 % accuracy, near critical flow. rapid
+// found a jump at F1 ≈ 1.015 on a chute
+// whose normal depth is 0.99·yc, its toe 11 mm below a fine RK4
+// integration of both profiles on the whole reach and 5 mm above it on the
+// cut one, where 1 % of the depth moves it 28 mm.
+func compareJumps(t *rapid.T, whole, split *solver.Result, half float64, src string) {
+	for e, we := range whole.Events {
+		type toe struct {
+			x, tol, f1 float64
+		}
+		var a, b []toe
+		for _, rr := range we.Reaches {
+			for _, j := range rr.Jumps {
+				tol := 1e-3
+				if dx, ok := toeShift(rr, j); ok {
+					tol += dx
+				}
+				a = append(a, toe{j.Station, tol + 1e-6*2*half, j.Froude})
+			}
+		}
+		for _, rr := range split.Events[e].Reaches {
+			off := 0.0
+			if rr.Reach.Name == "r2" {
+				off = half
+			}
+			for _, j := range rr.Jumps {
+				b = append(b, toe{j.Station + off, 0, j.Froude})
+			}
+		}
+		// A jump this close to critical flow may appear in one run only:
+		// its sequent depths lie within about (2/3)·(F1 − 1) ≈ 1.3 % of
+		// critical depth, where the specific force is flat
+		// (dM/dy = A(1 − F²)) and the 0.2 % accuracy of the subcritical
+		// profile decides whether it drowns the supercritical one (rapid:
+		// F1 = 1.0099 at a steep reach's head, drowned in the cut run).
+		const nearCriticalJump = 1.02
+		near := func(ts []toe) bool {
+			for _, x := range ts {
+				if x.f1 < nearCriticalJump {
+					return true
+				}
+			}
+			return false
+		}
+		if len(a) != len(b) {
+			if near(a) || near(b) {
+				continue // a jump at the solver's critical threshold may appear in one run only
+			}
+			t.Fatalf("event %d: %d jumps on the whole reach, %d on the halves: %v / %v\n%s", e, len(a), len(b), a, b, src)
+		}
+		for i := range a {
+			if math.Abs(a[i].x-b[i].x) > a[i].tol {
+				t.Fatalf("event %d: jump toe at %.6f on the whole reach, %.6f on the halves (tolerance %.3g)\n%s", e, a[i].x, b[i].x, a[i].tol, src)
+			}
+		}
+	}
 }
 
 // fullConduit reports whether a closed conduit runs full, or within 2 % of
@@ -202,11 +276,12 @@ func fullConduit(res *solver.Result, event string) bool {
 
 // borderline reports whether a finding of fs on the key's event, of its
 // rule or of the rule that shares its edge (freeboard stops where
-// capacity begins), lies within the solver's 0.2 % of its limit: a span
-// may then appear, vanish or break in two in one run only. rapid found a
+// capacity begins), lies within the solver's 0.2 % of its limit (1 %
+// next to critical depth): a span may then appear, vanish or break in two
+// in one run only. rapid found a
 // normal depth 3.4e-4 m below the top of bank, which one run crossed for
 // 0.35 m and the other did not. A freeboard of 0 is capacity's limit.
-func borderline(fs []Finding, k [2]string) bool {
+func borderline(res *solver.Result, fs []Finding, k [2]string) bool {
 	related := map[string][]string{"freeboard": {"freeboard", "capacity"}, "capacity": {"capacity", "freeboard"}}
 	rules := related[k[0]]
 	if rules == nil {
@@ -216,7 +291,14 @@ func borderline(fs []Finding, k [2]string) bool {
 		if f.Event != k[1] || !f.HasValue || !slices.Contains(rules, f.Rule) {
 			continue
 		}
-		near := math.Abs(f.Value-f.Limit) <= 2e-3*max(math.Abs(f.Limit), 1e-9)
+		rel := 2e-3
+		if criticalNear(res, findingKey{f.Rule, f.Reach, f.Event}, f.FromStation, f.ToStation) {
+			// Next to critical depth the profile is least certain: rapid
+			// found a bed shear 0.8 % above its limit within 0.4 m of a
+			// steep reach's head, reported on one run only.
+			rel = 1e-2
+		}
+		near := math.Abs(f.Value-f.Limit) <= rel*max(math.Abs(f.Limit), 1e-9)
 		if f.Rule == "freeboard" {
 			near = near || math.Abs(f.Value) <= 2e-3*max(1, f.Limit)
 		}
