@@ -117,7 +117,17 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 				ctx.spans = spans
 				for _, s := range spans {
 					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset
-					msg, remedy := superelevationMessage(rr, bend, s, cSub, cSup, u)
+					at := &rr.Points[s.worst]
+					if q, ok := overtopCrossing(rr, s); ok {
+						// The span runs up to where the water surface
+						// reaches the top of bank: there the rise takes all
+						// of it, remaining = −Δy exactly, where the failing
+						// trial nearest that station gives a value that
+						// depends on where the bracketing stopped.
+						dy := bendCoefficient(&q, cSub, cSup) * q.Velocity * q.Velocity * q.TopWidth / (g * bend.Radius)
+						s.value, s.short, s.aux, at = -dy, max(s.short, minimum+dy), math.MaxFloat64, &q
+					}
+					msg, remedy := superelevationMessage(bend, s, at, cSub, cSup, u)
 					msg += overtopsBeside(rr, s, u)
 					f := spanFinding(ev, rr, s, msg, remedy)
 					f.Unit = u.Length()
@@ -161,12 +171,18 @@ func bendCoefficient(p *solver.Point, cSub, cSup float64) float64 {
 	return cSup
 }
 
-func superelevationMessage(rr *solver.ReachResult, bend *model.Bend, s span, cSub, cSup float64, u model.Units) (msg, remedy string) {
+// superelevationMessage words a superelevation span; p is the flow its
+// worst value was measured in (its worst computed point, or the station
+// where the water surface reaches the top of bank). The rise is worked out
+// at p from the formula, not as top − WSE − value: locate may take the
+// value from a trial station between computed points (absorb), and that
+// difference mixed it with the worst computed point's water surface (a
+// rise of 0.029 m printed, the freeboard of that point, where the rise
+// was 0.0001 m, beside an overtopping stretch).
+func superelevationMessage(bend *model.Bend, s span, p *solver.Point, cSub, cSup float64, u model.Units) (msg, remedy string) {
 	lu := u.Length()
-	p := &rr.Points[s.worst]
 	c := bendCoefficient(p, cSub, cSup)
-	top := p.Invert + sectionAt(rr, p).Height
-	dy := top - p.WSE - s.value
+	dy := c * p.Velocity * p.Velocity * p.TopWidth / (u.Gravity() * bend.Radius)
 	rem, lim := numfmt.Pair(s.value, s.limit)
 	msg = fmt.Sprintf("in bend %q (radius %s %s) the outer bank water surface rises %s %s "+
 		"(Δy = C·V²·T/(g·rc), C = %s, V %s %s, T %s %s), leaving %s %s to the top of bank where %s %s is required",
@@ -180,4 +196,29 @@ func superelevationMessage(rr *solver.ReachResult, bend *model.Bend, s span, cSu
 		msg = "the channel overtops here at the outer bank of the bend: " + msg
 	}
 	return msg, remedy
+}
+
+// overtopCrossing is the flow at an end of span s (indices of rr) that
+// locate moved off its computed point toward a neighbouring point where
+// the channel overtops: there the water surface reaches the top of bank.
+// ok is false when no end of s is such an end.
+func overtopCrossing(rr *solver.ReachResult, s span) (solver.Point, bool) {
+	for _, end := range [2]struct {
+		i, from int     // the overtopped neighbour; the computed point the step starts from
+		x       float64 // the span end
+		moved   bool
+	}{{s.first - 1, s.first - 1, s.from, s.from < rr.Points[s.first].Station},
+		{s.last + 1, s.last, s.to, s.to > rr.Points[s.last].Station}} {
+		if end.i < 0 || end.i >= len(rr.Points) || !end.moved {
+			continue
+		}
+		p := &rr.Points[end.i]
+		if !overtopsAt(sectionAt(rr, p), p) {
+			continue
+		}
+		if q, _, ok := rr.Between(end.from, end.x); ok {
+			return q, true
+		}
+	}
+	return solver.Point{}, false
 }

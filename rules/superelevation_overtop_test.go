@@ -1,0 +1,36 @@
+package rules
+
+import (
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// TestSuperelevationBesideOvertopping: the M1 backwater of
+// TestFreeboardBesideOvertoppingBetweenPoints with a bend (radius 2 m) over
+// its upper 40 m. The superelevation span runs up to where the water
+// surface reaches the top of bank, 24.98 m. Its message used to print a
+// rise of 0.029 m (top − WSE of the worst computed point − a value taken
+// at a trial station next to the overtopping), where the rise is 0.0001 m,
+// and a remaining height of −0.000079 m that depended on where the
+// bracketing stopped.
+func TestSuperelevationBesideOvertopping(t *testing.T) {
+	c := splitCase{shape: 0, width: 0.75, z: 1, height: 2.25, n: 0.04, lining: "concrete",
+		length: 50, slope: 0.03, flows: []float64{0.125}, outlet: 1, outletDepth: 3}
+	src := strings.Replace(c.text(false), "event ", "bend \"b\" {\n  reach = \"r\"\n  from_station = 0\n  to_station = 40\n  radius = 2\n}\nevent ", 1)
+	got := ruleFindings(t, src, baselinePack(t), "superelevation")
+	require.Len(t, got, 1)
+	f := got[0]
+	// Source: USACE EM 1110-2-1601 (from memory): Δy = C·V²·T/(g·rc),
+	// C = 0.5 in subcritical flow; at the top of bank V = Q/(b·h) and
+	// T = b (continuity, a rectangle).
+	v := 0.125 / (0.75 * 2.25)
+	dy := 0.5 * v * v * 0.75 / (9.80665 * 2)
+	assert.InDelta(t, -dy, f.Value, 1e-3*dy, "remaining height at the top of bank")
+	assert.InDelta(t, 0.3, f.Limit, 1e-12)
+	assert.Contains(t, f.Message, "rises 0.000105 m")
+	ref := rectBackwater(0.75, 0.04, 0.03, 0.125, 50, 3)
+	assert.InDelta(t, ref.stationOf(2.25), f.ToStation, 0.01)
+}
