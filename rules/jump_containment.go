@@ -134,8 +134,12 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 			if jr.over > 0 {
 				nextDown = jr.over
 				if jr.next != nil {
-					if nb, _, nextDown = bestBasin(jr.next, 0, jr.over); nb != nil && nb.FromStation > exceptionTolerance(0) {
-						nextDown = jr.over // it starts downstream of the node: the roller lands on bare channel
+					var down float64
+					if nb, _, down = bestBasin(jr.next, 0, jr.over); nb != nil && nb.FromStation <= exceptionTolerance(0) {
+						nextDown = down
+					} else {
+						// No basin below, or one that starts downstream of
+						// the node: the roller lands on bare channel.
 						nb = nil
 					}
 				}

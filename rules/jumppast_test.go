@@ -1,0 +1,61 @@
+package rules
+
+import (
+	"os"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// TestRollerPastReachEndIntoBareChannel: a jump whose toe lies in a
+// basin that runs to the end of its reach, and whose roller continues
+// into a reach below with no basin, escapes its protection. The check
+// took the missing basin below for one covering the whole overrun and
+// reported nothing. The model is jump-contained.chan.hcl cut at 12 m, the
+// basin ending there; the jump (toe 8.82 m, length 6.33 m by Peterka's
+// curve, which golden_test.go checks) overruns the node by about 3.15 m.
+// Source: common practice (no published source): cutting the reach
+// changes nothing physical, and bare channel under a roller may scour.
+func TestRollerPastReachEndIntoBareChannel(t *testing.T) {
+	src, err := os.ReadFile("../testdata/rules/jump-contained.chan.hcl")
+	require.NoError(t, err)
+	one := `reach "release" {
+  from    = "gate-house"
+  to      = "river"
+  length  = 200
+  section = "outlet-channel"
+  slope   = 0.0007
+}`
+	two := `reach "release" {
+  from    = "gate-house"
+  to      = "apron-end"
+  length  = 12
+  section = "outlet-channel"
+  slope   = 0.0007
+}
+reach "rest" {
+  from    = "apron-end"
+  to      = "river"
+  length  = 188
+  section = "outlet-channel"
+  slope   = 0.0007
+}`
+	require.Contains(t, string(src), one)
+	cut := strings.Replace(strings.Replace(string(src), one, two, 1), "to_station   = 30", "to_station   = 12", 1)
+	res, fs := solveAndCheck(t, cut)
+	require.Len(t, res.Events[0].Reaches[0].Jumps, 1)
+	j := res.Events[0].Reaches[0].Jumps[0]
+	require.Greater(t, j.End(), 12.0, "the roller overruns the node")
+	var found bool
+	for _, f := range fs {
+		if f.Rule == "jump_containment" {
+			found = true
+			assert.Equal(t, "release", f.Reach)
+			assert.InDelta(t, j.End()-12, f.Value, 1e-9, "the unprotected overrun")
+			assert.Contains(t, f.Message, `into reach "rest"`)
+		}
+	}
+	assert.True(t, found, "the jump escaping its basin into bare channel is reported")
+}
