@@ -508,6 +508,17 @@ func (s *solver) superWalk(w *reachWork, x, y float64, pi int32, atCrit bool) (i
 							first := &w.final[len(w.final)-1]
 							if first.y == p.yc {
 								first.fallback, first.super = true, false
+							} else if first.super && first.piece == pi && !first.fallback {
+								// Supercritical flow that entered within the
+								// force tie of its sequent (a toe a hair
+								// downstream of a node, the reach above
+								// ending a hair short of it): the jump
+								// stands where the run starts, rather than
+								// vanishing between two reaches.
+								if ys := s.subExact(w, pi, first.x); jumpRises(FroudeNumber(p.geo, w.q, first.y), first.y, ys) {
+									s.addJump(w, p, first.x, first.y, ys, "the supercritical flow enters there")
+									w.final = append(w.final, pt{x: first.x, y: ys, piece: pi})
+								}
 							}
 							return s.firstSubAfter(w, first.piece, first.x), false
 						}
