@@ -127,22 +127,11 @@ func checkJumpContainment(ctx *Context, report func(Finding)) {
 			toe, end := jr.toe, jr.end
 			b, up, down := bestBasin(r, toe, end)
 			tol := exceptionTolerance(end)
-			// The part past the reach end must lie in a basin of the reach
-			// below that starts at its station 0.
-			var nb *model.Basin
+			// The part past the reach end must lie in basins of the reaches
+			// below from the node on.
 			nextDown := 0.0
 			if jr.over > 0 {
-				nextDown = jr.over
-				if jr.next != nil {
-					var down float64
-					if nb, _, down = bestBasin(jr.next, 0, jr.over); nb != nil && nb.FromStation <= exceptionTolerance(0) {
-						nextDown = down
-					} else {
-						// No basin below, or one that starts downstream of
-						// the node: the roller lands on bare channel.
-						nb = nil
-					}
-				}
+				nextDown = unprotectedBelow(jr.next, jr.over)
 			}
 			inReach := b != nil && up <= tol && down <= tol
 			if end-toe <= tol && jr.over > 0 {
@@ -223,6 +212,30 @@ func bestBasin(r *model.Reach, toe, end float64) (b *model.Basin, up, down float
 		return nil, 0, 0
 	}
 	return b, b.FromStation - toe, end - b.ToStation
+}
+
+// unprotectedBelow is how much of a roller that runs over past a node
+// into reach next lies in no basin: it must lie in a basin of next that
+// starts at its station 0, and where it runs past next too (a short reach
+// below), that basin must reach next's end and the rest lie in the reaches
+// below in the same way. Beyond the outlet (next nil) nothing protects
+// it. The walk is bounded by maxNodeHops reaches.
+func unprotectedBelow(next *model.Reach, over float64) float64 {
+	for hop := 0; next != nil && over > 0 && hop < maxNodeHops; hop++ {
+		l := next.Length
+		b, _, down := bestBasin(next, 0, min(over, l))
+		switch {
+		case b == nil || b.FromStation > exceptionTolerance(0):
+			return over // bare channel below the node
+		case over <= l+exceptionTolerance(l):
+			return max(down, 0) // the roller ends in next
+		case b.ToStation < l-exceptionTolerance(l):
+			return over - b.ToStation // the basin ends before next does
+		}
+		over -= l
+		next = next.Downstream
+	}
+	return over
 }
 
 // basinAt is the basin of the reach that contains a station, or nil.

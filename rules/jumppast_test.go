@@ -59,3 +59,74 @@ reach "rest" {
 	}
 	assert.True(t, found, "the jump escaping its basin into bare channel is reported")
 }
+
+// TestRollerThroughShortReachIntoBasin: a roller that runs past a basin's
+// node through a reach 1 mm long, wholly in a basin, into a basin of the
+// reach below is protected all along; the check looked one reach down
+// only and reported the 1 mm basin as too short. Where the last basin
+// ends early, the rest is reported. Source: common practice (no
+// published source): cutting the reach changes nothing physical.
+func TestRollerThroughShortReachIntoBasin(t *testing.T) {
+	src, err := os.ReadFile("../testdata/rules/jump-contained.chan.hcl")
+	require.NoError(t, err)
+	one := `reach "release" {
+  from    = "gate-house"
+  to      = "river"
+  length  = 200
+  section = "outlet-channel"
+  slope   = 0.0007
+}`
+	three := `reach "release" {
+  from    = "gate-house"
+  to      = "apron-end"
+  length  = 12
+  section = "outlet-channel"
+  slope   = 0.0007
+}
+reach "mm" {
+  from    = "apron-end"
+  to      = "sill"
+  length  = 0.001
+  section = "outlet-channel"
+  slope   = 0.0007
+}
+reach "rest" {
+  from    = "sill"
+  to      = "river"
+  length  = 187.999
+  section = "outlet-channel"
+  slope   = 0.0007
+}
+basin "mm-pad" {
+  reach        = "mm"
+  from_station = 0
+  to_station   = 0.001
+}
+basin "rest-pad" {
+  reach        = "rest"
+  from_station = 0
+  to_station   = REST
+}`
+	require.Contains(t, string(src), one)
+	cut := strings.Replace(strings.Replace(string(src), one, three, 1), "to_station   = 30", "to_station   = 12", 1)
+	for _, tc := range []struct {
+		rest      string
+		contained bool
+	}{{"10", true}, {"2", false}} {
+		res, fs := solveAndCheck(t, strings.Replace(cut, "REST", tc.rest, 1))
+		require.Len(t, res.Events[0].Reaches[0].Jumps, 1)
+		j := res.Events[0].Reaches[0].Jumps[0]
+		var got []Finding
+		for _, f := range fs {
+			if f.Rule == "jump_containment" {
+				got = append(got, f)
+			}
+		}
+		if tc.contained {
+			assert.Empty(t, got, "rest-pad to %s m holds the roller", tc.rest)
+			continue
+		}
+		require.Len(t, got, 1)
+		assert.InDelta(t, j.End()-12-0.001-2, got[0].Value, 1e-9, "the roller past rest-pad's end")
+	}
+}
