@@ -402,7 +402,18 @@ func TestOneMillimetreReachChangesNoVerdict(t *testing.T) {
 			// A sluice gate at the head releases a jet that may jump.
 			event += "gate \"g\" {\n  reach = \"up\"\n  opening = " + f(height*rapid.Float64Range(0.05, 0.5).Draw(t, "opening")) + "\n}\n"
 		}
-		whole := head + reach("up", "a", "d", length) + event
+		// A basin over a drawn stretch of the channel, cut with it: its
+		// pieces on each reach the stretch touches.
+		hasBasin := rapid.Bool().Draw(t, "basin")
+		bFrom := length * rapid.Float64Range(0, 0.5).Draw(t, "basin-from")
+		bTo := bFrom + length*rapid.Float64Range(0.01, 0.5).Draw(t, "basin-len")
+		basin := func(name, reach string, from, to float64) string {
+			if !hasBasin || to-from < 0.002 {
+				return ""
+			}
+			return "basin \"" + name + "\" {\n  reach = \"" + reach + "\"\n  from_station = " + f(from) + "\n  to_station = " + f(to) + "\n}\n"
+		}
+		whole := head + reach("up", "a", "d", length) + event + basin("b", "up", bFrom, bTo)
 		verdicts := func(src string) (map[string]bool, map[string]bool, []float64) {
 			m, diags := model.Parse("cut.chan.hcl", []byte(src))
 			if diags.HasErrors() {
@@ -440,6 +451,20 @@ func TestOneMillimetreReachChangesNoVerdict(t *testing.T) {
 			}
 		}
 		cutSrc := head + reach("up", "a", "b", cut) + reach("mm", "b", "c", 0.001) + reach("down", "c", "d", length-cut-0.001) + event
+		if hasBasin {
+			// The basin's pieces: on up, over mm whole when it covers the
+			// cut, and on down; a piece under 2 mm is left out, and the
+			// verdicts may then differ, so the cut keeps clear of the
+			// basin's ends.
+			if math.Abs(cut-bFrom) < 0.01 || math.Abs(cut+0.001-bTo) < 0.01 || math.Abs(cut-bTo) < 0.01 || math.Abs(cut+0.001-bFrom) < 0.01 {
+				return
+			}
+			cutSrc += basin("b1", "up", bFrom, min(bTo, cut))
+			if bFrom < cut && bTo > cut+0.001 {
+				cutSrc += "basin \"b2\" {\n  reach = \"mm\"\n  from_station = 0\n  to_station = 0.001\n}\n"
+			}
+			cutSrc += basin("b3", "down", max(bFrom-cut-0.001, 0), bTo-cut-0.001)
+		}
 		b, bn, bj := verdicts(cutSrc)
 		for k := range a {
 			if !b[k] && !bn[k] {
