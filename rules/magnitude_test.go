@@ -413,7 +413,18 @@ func TestOneMillimetreReachChangesNoVerdict(t *testing.T) {
 			}
 			return "basin \"" + name + "\" {\n  reach = \"" + reach + "\"\n  from_station = " + f(from) + "\n  to_station = " + f(to) + "\n}\n"
 		}
-		whole := head + reach("up", "a", "d", length) + event + basin("b", "up", bFrom, bTo)
+		// A bend over another drawn stretch, cut the same way.
+		hasBend := rapid.Bool().Draw(t, "bend")
+		kFrom := length * rapid.Float64Range(0, 0.5).Draw(t, "bend-from")
+		kTo := kFrom + length*rapid.Float64Range(0.01, 0.5).Draw(t, "bend-len")
+		radius := f(width * rapid.Float64Range(0.5, 20).Draw(t, "radius"))
+		bend := func(name, reach string, from, to float64) string {
+			if !hasBend || to-from < 0.002 {
+				return ""
+			}
+			return "bend \"" + name + "\" {\n  reach = \"" + reach + "\"\n  from_station = " + f(from) + "\n  to_station = " + f(to) + "\n  radius = " + radius + "\n}\n"
+		}
+		whole := head + reach("up", "a", "d", length) + event + basin("b", "up", bFrom, bTo) + bend("k", "up", kFrom, kTo)
 		verdicts := func(src string) (map[string]bool, map[string]bool, []float64) {
 			m, diags := model.Parse("cut.chan.hcl", []byte(src))
 			if diags.HasErrors() {
@@ -445,25 +456,39 @@ func TestOneMillimetreReachChangesNoVerdict(t *testing.T) {
 		}
 		a, an, aj := verdicts(whole)
 		if len(aj) > 0 && rapid.Bool().Draw(t, "at-toe") {
-			// Cut where the jump's toe is, the 1 mm reach across it.
-			if toe := aj[0] - 0.001*rapid.Float64Range(0, 1).Draw(t, "toe-offset"); toe > 0.01 && toe < length-0.01 {
+			// Cut where the jump's toe is, the short reach across it.
+			if toe := aj[0] - 0.001*rapid.Float64Range(0, 1).Draw(t, "toe-offset"); toe > 0.01 && toe < length-0.02 {
 				cut = toe
 			}
 		}
-		cutSrc := head + reach("up", "a", "b", cut) + reach("mm", "b", "c", 0.001) + reach("down", "c", "d", length-cut-0.001) + event
+		mm := rapid.SampledFrom([]float64{0.001, 0.001, 0.002, 0.01}).Draw(t, "short")
+		if cut+mm > length-0.005 {
+			cut = length - mm - 0.005
+		}
+		cutSrc := head + reach("up", "a", "b", cut) + reach("mm", "b", "c", mm) + reach("down", "c", "d", length-cut-mm) + event
 		if hasBasin {
 			// The basin's pieces: on up, over mm whole when it covers the
 			// cut, and on down; a piece under 2 mm is left out, and the
 			// verdicts may then differ, so the cut keeps clear of the
 			// basin's ends.
-			if math.Abs(cut-bFrom) < 0.01 || math.Abs(cut+0.001-bTo) < 0.01 || math.Abs(cut-bTo) < 0.01 || math.Abs(cut+0.001-bFrom) < 0.01 {
+			if math.Abs(cut-bFrom) < 0.02 || math.Abs(cut+mm-bTo) < 0.02 || math.Abs(cut-bTo) < 0.02 || math.Abs(cut+mm-bFrom) < 0.02 {
 				return
 			}
 			cutSrc += basin("b1", "up", bFrom, min(bTo, cut))
-			if bFrom < cut && bTo > cut+0.001 {
-				cutSrc += "basin \"b2\" {\n  reach = \"mm\"\n  from_station = 0\n  to_station = 0.001\n}\n"
+			if bFrom < cut && bTo > cut+mm {
+				cutSrc += "basin \"b2\" {\n  reach = \"mm\"\n  from_station = 0\n  to_station = " + f(mm) + "\n}\n"
 			}
-			cutSrc += basin("b3", "down", max(bFrom-cut-0.001, 0), bTo-cut-0.001)
+			cutSrc += basin("b3", "down", max(bFrom-cut-mm, 0), bTo-cut-mm)
+		}
+		if hasBend {
+			if math.Abs(cut-kFrom) < 0.02 || math.Abs(cut+mm-kTo) < 0.02 || math.Abs(cut-kTo) < 0.02 || math.Abs(cut+mm-kFrom) < 0.02 {
+				return
+			}
+			cutSrc += bend("k1", "up", kFrom, min(kTo, cut))
+			if kFrom < cut && kTo > cut+mm {
+				cutSrc += "bend \"k2\" {\n  reach = \"mm\"\n  from_station = 0\n  to_station = " + f(mm) + "\n  radius = " + radius + "\n}\n"
+			}
+			cutSrc += bend("k3", "down", max(kFrom-cut-mm, 0), kTo-cut-mm)
 		}
 		b, bn, bj := verdicts(cutSrc)
 		for k := range a {
