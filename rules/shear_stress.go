@@ -2,6 +2,7 @@ package rules
 
 import (
 	"math"
+	"sort"
 
 	"github.com/chanlint/chanlint/model"
 	"github.com/chanlint/chanlint/model/numfmt"
@@ -138,32 +139,29 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 	su := u.Stress()
 	mean := shearMean(cfg)
 	limits := newLiningLimits(cfg, failAbove)
-	ctx.scanPoints(func(rr *solver.ReachResult, r *run) bool {
-		lim, ok := limits.of(r.sec)
-		if !ok {
-			return true
-		}
-		if mean {
-			return below(gamma*r.maxRSf, lim)
-		}
-		kb := 1.0
-		if r.inBend {
-			kb = 2 // the largest bend factor (bendFactor)
-		}
-		return below(kb*gamma*r.maxDSf, lim)
-	}, higher, func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
+	judge := func(rr *solver.ReachResult, p *solver.Point, v *verdict) bool {
 		lim, ok := limits.at(rr, p)
 		if !ok || p.HydraulicRadius <= 0 {
 			return false
 		}
-		tau, _ := bedShear(gamma, rr.Reach, p, mean)
+		tau, kb := bedShear(gamma, rr.Reach, p, mean)
 		if tau <= lim {
 			v.short = tau - lim // the margin, for locate
 			return false
 		}
 		*v = verdict{value: tau, limit: lim, short: tau - lim}
+		if kb != 1 {
+			// In a bend, a kind of its own: Kb steps the stress up at the
+			// bend's start, so a failing stretch before a bend and one in
+			// it are two spans, each located to where its own criterion is
+			// crossed, not one over a passing stretch between them that no
+			// computed point may show.
+			v.kind = 1
+		}
 		return true
-	}, func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
+	}
+	emitShear := func(ev *solver.EventResult, rr *solver.ReachResult, s span) {
+		s.from, s.to = snapToBends(rr.Reach, s.from), snapToBends(rr.Reach, s.to)
 		p := &rr.Points[s.worst]
 		sec := sectionAt(rr, p)
 		val, lim := numfmt.Pair(s.value, s.limit)
@@ -185,9 +183,127 @@ func checkShearStress(ctx *Context, report func(Finding)) {
 		f.Focus = sec.At("lining") // the limit is the lining's
 		f.Unit = su
 		report(f)
-	})
+	}
+	ctx.scanPointsThen(func(rr *solver.ReachResult, r *run) bool {
+		lim, ok := limits.of(r.sec)
+		if !ok {
+			return true
+		}
+		if mean {
+			return below(gamma*r.maxRSf, lim)
+		}
+		kb := 1.0
+		if r.inBend {
+			kb = 2 // the largest bend factor (bendFactor)
+		}
+		return below(kb*gamma*r.maxDSf, lim)
+	}, higher, judge, func(rr *solver.ReachResult, spans []span) []span {
+		if mean {
+			return spans // no bend factor: the criterion is continuous
+		}
+		return bendEdgeSpans(rr, judge, spans, &ctx.verdict, &ctx.trial)
+	}, emitShear)
 }
 
 // shearMean reports whether the policy compares its limits with the mean
 // boundary shear γ·R·Sf instead of the maximum on the bed.
 func shearMean(cfg *policies.RuleConfig) bool { return cfg.Word("quantity") == "mean" }
+
+// snapToBends puts a span end that locate bracketed to within locateTol of
+// a bend's end exactly on it: where the straight channel and the bend
+// both fail, the two spans meet at the bend end, which the bracketing
+// finds only to its tolerance.
+func snapToBends(r *model.Reach, x float64) float64 {
+	for _, b := range r.Bends {
+		for _, e := range [2]float64{b.FromStation, b.ToStation} {
+			if math.Abs(x-e) <= locateTol(e) {
+				return e
+			}
+		}
+	}
+	return x
+}
+
+// bendEdgeSpans appends to spans the failing stretches next to a bend end
+// that no computed point shows: the bend factor steps the stress at a bend
+// end, so a stretch on one side of it may fail while the computed points
+// on that side pass (the nearest one is beyond the stretch) and the span
+// on the other side, a kind of its own, stops at the end. Each side of
+// every bend end inside the reach is judged 2·locateTol from the end; a
+// failing side that no span covers becomes a span from the end to where
+// its criterion is crossed, bracketed by bisection.
+func bendEdgeSpans(rr *solver.ReachResult, judge judgeFunc, spans []span, v *verdict, trial *solver.Point) []span {
+	pts := rr.Points
+	if len(rr.Reach.Bends) == 0 || len(pts) < 2 {
+		return spans
+	}
+	found := len(spans)
+	coveredAt := func(x float64, kind int) bool {
+		for _, s := range spans[:found] {
+			if s.kind == kind && x >= s.from-locateTol(x) && x <= s.to+locateTol(x) {
+				return true
+			}
+		}
+		return false
+	}
+	for _, b := range rr.Reach.Bends {
+		for _, e := range [2]float64{b.FromStation, b.ToStation} {
+			d := 2 * locateTol(e)
+			i := sort.Search(len(pts), func(j int) bool { return pts[j].Station > e }) - 1
+			if i < 0 || i+1 >= len(pts) {
+				continue
+			}
+			for _, side := range [2]float64{-1, 1} {
+				x := e + side*d
+				if !(x > pts[i].Station && x < pts[i+1].Station) {
+					continue // a computed point lies that close: scan judged it
+				}
+				p, _, ok := rr.Between(i, x)
+				if !ok {
+					continue
+				}
+				*trial = p
+				if !judge(rr, trial, v) {
+					continue
+				}
+				kind, first := v.kind, *v
+				if coveredAt(x, kind) {
+					continue
+				}
+				// Bisect from x away from the end, toward the computed point
+				// on that side, for the crossing.
+				o := i
+				if side > 0 {
+					o = i + 1
+				}
+				fail, pass := x, pts[o].Station
+				worst := first
+				for n := 0; n < locateMaxIter && math.Abs(fail-pass) > locateTol(pass); n++ {
+					m := fail + (pass-fail)/2
+					q, _, ok := rr.Between(i, m)
+					if !ok {
+						break
+					}
+					*trial = q
+					if judge(rr, trial, v) && v.kind == kind {
+						fail = m
+						if v.short > worst.short {
+							worst = *v
+						}
+					} else {
+						pass = m
+					}
+				}
+				s := span{first: o, last: o, worst: o, value: worst.value, limit: worst.limit, short: worst.short,
+					kind: kind, block: reachBlock(rr, &p)}
+				if side > 0 {
+					s.from, s.to = e, max(e, fail)
+				} else {
+					s.from, s.to = min(e, fail), e
+				}
+				spans = append(spans, s)
+			}
+		}
+	}
+	return spans
+}

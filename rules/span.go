@@ -225,13 +225,13 @@ func locate(rr *solver.ReachResult, w worse, judge judgeFunc,
 	for k := range spans {
 		s := &spans[k]
 		if s.first > 0 {
-			if x, worst, ok := crossing(rr, judge, at, v, trial, s.block, s.first-1, false); ok {
+			if x, worst, ok := crossing(rr, judge, at, v, trial, s.block, s.kind, s.first-1, false); ok {
 				s.from = x
 				s.absorb(w, worst)
 			}
 		}
 		if s.last+1 < len(rr.Points) {
-			if x, worst, ok := crossing(rr, judge, at, v, trial, s.block, s.last, true); ok {
+			if x, worst, ok := crossing(rr, judge, at, v, trial, s.block, s.kind, s.last, true); ok {
 				s.to = x
 				s.absorb(w, worst)
 			}
@@ -274,7 +274,7 @@ func (s *span) absorb(w worse, t verdict) {
 // checked, a change of kind) is placed by halving instead. Either way the
 // bracket always holds the change of verdict.
 func crossing(rr *solver.ReachResult, judge judgeFunc,
-	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict, trial *solver.Point, blk *model.Src, i int, failFirst bool) (float64, verdict, bool) {
+	at func(rr *solver.ReachResult, p *solver.Point) *model.Src, v *verdict, trial *solver.Point, blk *model.Src, kind, i int, failFirst bool) (float64, verdict, bool) {
 	var worst verdict
 	a, b := rr.Points[i].Station, rr.Points[i+1].Station
 	if !(b > a) || !finiteNum(a) || !finiteNum(b) {
@@ -330,7 +330,8 @@ func crossing(rr *solver.ReachResult, judge judgeFunc,
 		}
 		*trial = p
 		v.short = math.NaN()
-		failing := judge(rr, trial, v) && v.value*0+v.limit*0+v.short*0+v.aux*0 == 0 && at(rr, trial) == blk
+		v.kind = 0
+		failing := judge(rr, trial, v) && v.value*0+v.limit*0+v.short*0+v.aux*0 == 0 && at(rr, trial) == blk && v.kind == kind
 		m := v.short
 		if failing {
 			worst = *v

@@ -24,12 +24,18 @@ type splitCase struct {
 	flows         []float64
 	outlet        int // 0 normal, 1 depth, 2 critical
 	outletDepth   float64
+	// A bend from bendFrom to bendTo (fractions of the length), cut in
+	// two with the reach where it spans the cut.
+	withBend         bool
+	bendFrom, bendTo float64
+	radius           float64
 }
 
 func drawSplitCase(t *rapid.T) splitCase {
 	u := drawUnitCase(t) // the channels of TestFindingsIndependentOfUnits, one reach
 	return splitCase{shape: u.shape, width: u.width, z: u.z, height: u.height, n: u.n, lining: u.lining,
-		length: u.lengths[0], slope: u.slopes[0], flows: u.flows, outlet: u.outlet, outletDepth: u.outletDepth}
+		length: u.lengths[0], slope: u.slopes[0], flows: u.flows, outlet: u.outlet, outletDepth: u.outletDepth,
+		withBend: u.withBend, bendFrom: u.bendFrom, bendTo: u.bendTo, radius: u.bendRadius}
 }
 
 // text writes the model, as one reach "r" or as "r1" and "r2".
@@ -56,6 +62,21 @@ func (c splitCase) text(split bool) string {
 		reach("r2", "m", "b", c.length/2)
 	} else {
 		reach("r", "a", "b", c.length)
+	}
+	if c.withBend {
+		bend := func(name, reach string, from, to float64) {
+			if to-from > 1e-9*c.length {
+				fmt.Fprintf(&b, "bend %q {\n  reach = %q\n  from_station = %.17g\n  to_station = %.17g\n  radius = %.17g\n}\n",
+					name, reach, from, to, c.radius)
+			}
+		}
+		from, to, half := c.bendFrom*c.length, c.bendTo*c.length, c.length/2
+		if split {
+			bend("b1", "r1", from, min(to, half))
+			bend("b2", "r2", max(from, half)-half, to-half)
+		} else {
+			bend("b", "r", from, to)
+		}
 	}
 	for i, q := range c.flows {
 		fmt.Fprintf(&b, "event \"q%d\" {\n  inflow = { %q = %.17g }\n", i, first, q)
@@ -309,11 +330,16 @@ func borderline(res *solver.Result, fs []Finding, k [2]string) bool {
 	return false
 }
 
-// joinAtCut joins a span ending at the cut with one starting there.
+// inBendText: a shear_stress span in a bend, a kind of its own.
+func inBendText(msg string) bool { return strings.Contains(msg, "in the bend") }
+
+// joinAtCut joins a span ending at the cut with one starting there (of
+// the same kind: a bend that starts at the cut is a span of its own).
 func joinAtCut(ps []cutSpan, half float64) []cutSpan {
 	var out []cutSpan
 	for _, p := range ps {
-		if n := len(out); n > 0 && math.Abs(out[n-1].to-half) < 1e-9*half && math.Abs(p.from-half) < 1e-9*half {
+		if n := len(out); n > 0 && math.Abs(out[n-1].to-half) < 1e-9*half && math.Abs(p.from-half) < 1e-9*half &&
+			inBendText(out[n-1].msg) == inBendText(p.msg) {
 			out[n-1].to = p.to
 			continue
 		}

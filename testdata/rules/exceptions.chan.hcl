@@ -25,7 +25,9 @@ section "cut" {
 # want:deny freeboard q-design 0..2000
 # want max_velocity q-design 0..2000
 # want froude_band q-design 0..2000
-# want shear_stress q-design 0..2000
+# want shear_stress q-design 0..800
+# want shear_stress q-design 800..1000
+# want shear_stress q-design 1000..2000
 reach "interceptor" {
   from    = "fields-inlet"
   to      = "outfall"

@@ -18,10 +18,14 @@ section "cut" {
 # want freeboard q-design 0..6561.679790026246
 # want max_velocity q-design 0..6561.679790026246
 # want froude_band q-design 0..6561.679790026246
-# want shear_stress q-design 0..6561.679790026246
+# want shear_stress q-design 0..2624.6719160104985
+# want shear_stress q-design 2624.6719160104985..3280.839895013123
+# want shear_stress q-design 3280.839895013123..6561.679790026246
 # want capacity q-flood 0..6561.679790026246
 # want max_velocity q-flood 0..6561.679790026246
-# want shear_stress q-flood 0..6561.679790026246
+# want shear_stress q-flood 0..2624.6719160104985
+# want shear_stress q-flood 2624.6719160104985..3280.839895013123
+# want shear_stress q-flood 3280.839895013123..6561.679790026246
 reach "interceptor" {
   from    = "fields-inlet"
   to      = "outfall"
