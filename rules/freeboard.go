@@ -170,6 +170,30 @@ func overtopsAtLocatedEnd(rr *solver.ReachResult, s span) (*model.Section, bool)
 // which no point overtops (inBank) cannot be such a pair, so only the
 // pairs with a point in another run are looked at.
 func overtopEdgeSpans(rr *solver.ReachResult, runs []run, st freeboardSettings, spans []span, trial *solver.Point) []span {
+	return overtopEdges(rr, runs, math.Inf(-1), math.Inf(1), spans, trial, overtopEdge{
+		short: func(p *solver.Point, sec *model.Section) float64 {
+			return max(st.minimum, st.fraction*p.Depth) - (p.Invert + sec.Height - p.WSE)
+		},
+		bank:  func(sec *model.Section) float64 { return max(st.minimum, st.fraction*sec.Height) },
+		block: reachBlock,
+	})
+}
+
+// overtopEdge is what overtopEdges needs of a rule: short, how far a
+// point falls short of its requirement (> 0 fails); bank, the requirement
+// at the top of bank (nothing to find where it is not above 0); block, the
+// block a span answers to.
+type overtopEdge struct {
+	short func(p *solver.Point, sec *model.Section) float64
+	bank  func(sec *model.Section) float64
+	block func(rr *solver.ReachResult, p *solver.Point) *model.Src
+}
+
+// overtopEdges is overtopEdgeSpans for any rule that leaves an
+// overtopped point to capacity and falls short as the water surface
+// nears the top of bank (freeboard, the superelevation of a bend), over
+// the pairs of points with stations in [from, to].
+func overtopEdges(rr *solver.ReachResult, runs []run, from, to float64, spans []span, trial *solver.Point, e overtopEdge) []span {
 	pts := rr.Points
 	found := len(spans)
 	k := 0 // the run of point i; the runs split the points in order
@@ -187,6 +211,9 @@ func overtopEdgeSpans(rr *solver.ReachResult, runs []run, st freeboardSettings, 
 			}
 		}
 		a, b := &pts[i], &pts[i+1]
+		if a.Station < from || b.Station > to {
+			continue
+		}
 		sec := sectionAt(rr, a)
 		if sec == nil || sec.Closed() || sec != sectionAt(rr, b) || !finiteNum(sec.Height) || !(b.Station > a.Station) {
 			continue
@@ -203,10 +230,8 @@ func overtopEdgeSpans(rr *solver.ReachResult, runs []run, st freeboardSettings, 
 		if covered(spans[:found], o) || !usable(q) {
 			continue // a span reaches the passing point: locate moved its end
 		}
-		short := func(p *solver.Point) float64 {
-			return max(st.minimum, st.fraction*p.Depth) - (p.Invert + sec.Height - p.WSE)
-		}
-		if short(q) > 0 || !(max(st.minimum, st.fraction*sec.Height) > 0) {
+		req := e.bank(sec)
+		if e.short(q, sec) > 0 || !(req > 0) {
 			continue // q fails (it would be in a span), or nothing is required at the bank
 		}
 		// top: the station where the water surface reaches the top of bank.
@@ -224,7 +249,7 @@ func overtopEdgeSpans(rr *solver.ReachResult, runs []run, st freeboardSettings, 
 			}
 		}
 		top := dry
-		// meet: where the freeboard meets the requirement, between q and top.
+		// meet: where the point meets the requirement, between q and top.
 		pass, fail := q.Station, top
 		for n := 0; n < locateMaxIter && math.Abs(fail-pass) > locateTol(pass); n++ {
 			x := pass + (fail-pass)/2
@@ -232,7 +257,7 @@ func overtopEdgeSpans(rr *solver.ReachResult, runs []run, st freeboardSettings, 
 			if !ok {
 				break
 			}
-			if short(&p) > 0 {
+			if e.short(&p, sec) > 0 {
 				fail = x
 			} else {
 				pass = x
@@ -240,9 +265,8 @@ func overtopEdgeSpans(rr *solver.ReachResult, runs []run, st freeboardSettings, 
 		}
 		*trial = *q
 		trial.Station = top
-		req := max(st.minimum, st.fraction*sec.Height)
 		spans = append(spans, span{first: o, last: o, worst: o, from: min(pass, top), to: max(pass, top),
-			value: 0, limit: req, short: req, block: reachBlock(rr, trial)})
+			value: 0, limit: req, short: req, block: e.block(rr, trial)})
 	}
 	return spans
 }

@@ -130,3 +130,60 @@ basin "rest-pad" {
 		assert.InDelta(t, j.End()-12-0.001-2, got[0].Value, 1e-9, "the roller past rest-pad's end")
 	}
 }
+
+// TestSuperelevationBeforeOvertopping: in a bend whose straight channel
+// overtops from 282 m on, with computed points only at 131 m (passing by
+// a hair) and beyond the overtopping, the outer bank loses its required
+// margin somewhere between and the superelevation check found nothing,
+// though the same channel cut by a 1 mm reach (another set of computed
+// points) reported it; freeboard finds such a stretch between computed
+// points and so does superelevation now, up to where capacity takes
+// over. Source: common practice (no published source): the rise of the
+// outer bank, Δy = C·V²·T/(g·rc), only adds to what freeboard requires.
+func TestSuperelevationBeforeOvertopping(t *testing.T) {
+	const src = `units = "si"
+section "s" {
+  shape        = "trapezoid"
+  bottom_width = 2.875
+  side_slope   = 0
+  height       = 1.5
+  roughness    = 0.012
+  lining       = "concrete"
+}
+reach "up" {
+  from    = "a"
+  to      = "d"
+  length  = 523.9375
+  section = "s"
+  slope   = 0.002
+}
+event "e" {
+  inflow = { "up" = 0.5 }
+  outlet = { depth = 1.984375 }
+}
+bend "k" {
+  reach        = "up"
+  from_station = 130.984375
+  to_station   = 392.953125
+  radius       = 2.875
+}
+`
+	_, fs := solveAndCheck(t, src)
+	var se, fb, capa *Finding
+	for i := range fs {
+		switch fs[i].Rule {
+		case "superelevation":
+			se = &fs[i]
+		case "freeboard":
+			fb = &fs[i]
+		case "capacity":
+			capa = &fs[i]
+		}
+	}
+	require.NotNil(t, fb)
+	require.NotNil(t, capa)
+	require.NotNil(t, se, "the outer bank's shortfall before the overtopping is reported")
+	assert.InDelta(t, capa.FromStation, se.ToStation, 1e-3, "up to where capacity takes over")
+	assert.GreaterOrEqual(t, se.FromStation, 130.984375)
+	assert.LessOrEqual(t, se.FromStation, fb.FromStation+1e-3, "the rise only adds to the freeboard's requirement")
+}

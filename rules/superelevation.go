@@ -114,9 +114,24 @@ func checkSuperelevation(ctx *Context, report func(Finding)) {
 				atBend := func(*solver.ReachResult, *solver.Point) *model.Src { return &bend.Src }
 				spans := scan(sub, nil, nil, lower, judge, atBend, &ctx.verdict, ctx.spans[:0])
 				locate(sub, lower, judge, atBend, &ctx.verdict, &ctx.trial, spans)
+				for i := range spans {
+					s := &spans[i]
+					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset
+				}
+				// Between a passing point and one where the straight channel
+				// overtops, the outer bank's margin falls to −Δy at the top
+				// of bank with no failing computed point between: as for
+				// freeboard, the stretch from where it meets the minimum.
+				spans = overtopEdges(rr, nil, lo, hi, spans, &ctx.trial, overtopEdge{
+					short: func(p *solver.Point, sec *model.Section) float64 {
+						c := bendCoefficient(p, cSub, cSup)
+						return minimum - (p.Invert + sec.Height - p.WSE - c*p.Velocity*p.Velocity*p.TopWidth/(g*bend.Radius))
+					},
+					bank:  func(*model.Section) float64 { return max(minimum, math.SmallestNonzeroFloat64) },
+					block: atBend,
+				})
 				ctx.spans = spans
 				for _, s := range spans {
-					s.first, s.last, s.worst = s.first+offset, s.last+offset, s.worst+offset
 					at := &rr.Points[s.worst]
 					if q, ok := overtopCrossing(rr, s); ok {
 						// The span runs up to where the water surface
