@@ -388,11 +388,15 @@ func TestOneMillimetreReachChangesNoVerdict(t *testing.T) {
 		q := rapid.Float64Range(0.2, 20).Draw(t, "q")
 		cut := length * rapid.Float64Range(0.01, 0.98).Draw(t, "cut")
 		outlet := `{ condition = "normal" }`
-		if rapid.Bool().Draw(t, "tailwater") {
+		switch rapid.IntRange(0, 2).Draw(t, "outlet") {
+		case 1:
 			outlet = "{ depth = " + f(rapid.Float64Range(0.3, 2.5).Draw(t, "depth")) + " }"
+		case 2:
+			outlet = `{ condition = "critical" }`
 		}
 		head := "units = \"si\"\nsection \"s\" {\n  shape = \"trapezoid\"\n  bottom_width = " + f(width) +
 			"\n  side_slope = " + f(z) + "\n  height = " + f(height) + "\n  roughness = " + f(n) + "\n  lining = \"concrete\"\n}\n"
+
 		reach := func(name, from, to string, l float64) string {
 			return "reach \"" + name + "\" {\n  from = \"" + from + "\"\n  to = \"" + to + "\"\n  length = " + f(l) +
 				"\n  section = \"s\"\n  slope = " + f(slope) + "\n}\n"
@@ -455,6 +459,15 @@ func TestOneMillimetreReachChangesNoVerdict(t *testing.T) {
 			return firm, near, jumps
 		}
 		a, an, aj := verdicts(whole)
+		for _, x := range aj {
+			if x >= length-0.001 {
+				// A jump at the outlet itself: the arriving flow's sequent
+				// depth ties with the tailwater, and whether it jumps there
+				// or leaves supercritical (a solver warning) turns on the
+				// last computed digits; not a verdict a cut can move.
+				return
+			}
+		}
 		if len(aj) > 0 && rapid.Bool().Draw(t, "at-toe") {
 			// Cut where the jump's toe is, the short reach across it.
 			if toe := aj[0] - 0.001*rapid.Float64Range(0, 1).Draw(t, "toe-offset"); toe > 0.01 && toe < length-0.02 {
