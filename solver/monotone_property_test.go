@@ -211,7 +211,14 @@ func TestHigherTailwaterMovesGateJumpUpstream(t *testing.T) {
 		}
 		switch {
 		case len(low.Jumps) == 1 && len(high.Jumps) == 1:
-			if a, b := low.Jumps[0].Station, high.Jumps[0].Station; b > a+1e-6*length {
+			// The toe to its accuracy: a fifth of how far 1 % of the depth
+			// below it moves it (the 0.2 % accuracy of the profile; see
+			// toeShift in rules). Where the tailwater is below normal
+			// depth its M2 curve has all but reached normal depth at the
+			// toe, so the toe hardly moves, and rapid found it 0.17 mm
+			// downstream for 2.3 % more tailwater (the step control's
+			// noise).
+			if a, b := low.Jumps[0].Station, high.Jumps[0].Station; b > a+1e-6*length+0.2*toeMove(low, low.Jumps[0]) {
 				t.Fatalf("tailwater %.6g → %.6g moves the toe away from the gate, %.6g to %.6g (yn %.6g, yc %.6g, opening %.6g)",
 					tw1, tw2, a, b, yn, yc, opening)
 			}
@@ -225,4 +232,34 @@ func TestHigherTailwaterMovesGateJumpUpstream(t *testing.T) {
 			}
 		}
 	})
+}
+
+// toeMove is the first-order shift of a jump's toe for 1 % more or less
+// subcritical depth at the toe, δx = A2·(1 − F2²)·0.01·y2 /
+// |A1·(S0 − Sf1) − A2·(S0 − Sf2)|, from the two points at the toe (0
+// where they are not found).
+//
+// Source: specific force M = Q²/(gA) + A·z̄ equal at the toe (Chow 1959,
+// ch. 3), dM/dy = A(1 − F²), and dy/dx = (S0 − Sf)/(1 − F²) (ch. 9).
+func toeMove(rr *ReachResult, j Jump) float64 {
+	var sup, sub *Point
+	for i := range rr.Points {
+		p := &rr.Points[i]
+		if p.Station == j.Station && p.Depth == j.UpstreamDepth {
+			sup = p
+		}
+		if p.Station == j.Station && p.Depth == j.DownstreamDepth {
+			sub = p
+		}
+	}
+	if sup == nil || sub == nil {
+		return 0
+	}
+	s0 := rr.Reach.Slope
+	dd := sup.Area*(s0-sup.FrictionSlope) - sub.Area*(s0-sub.FrictionSlope)
+	dx := sub.Area * (1 - sub.Froude*sub.Froude) * 0.01 * sub.Depth / math.Abs(dd)
+	if !(dx > 0) || math.IsInf(dx, 0) {
+		return 0
+	}
+	return dx
 }
