@@ -249,13 +249,12 @@ func bendEdgeSpans(rr *solver.ReachResult, judge judgeFunc, spans []span, v *ver
 	for _, b := range rr.Reach.Bends {
 		for _, e := range [2]float64{b.FromStation, b.ToStation} {
 			d := 2 * locateTol(e)
-			i := sort.Search(len(pts), func(j int) bool { return pts[j].Station > e }) - 1
-			if i < 0 || i+1 >= len(pts) {
-				continue
-			}
 			for _, side := range [2]float64{-1, 1} {
 				x := e + side*d
-				if !(x > pts[i].Station && x < pts[i+1].Station) {
+				// The computed points around x (a bend end is often a
+				// computed point itself, judged with the bend's side).
+				i := sort.Search(len(pts), func(j int) bool { return pts[j].Station > x }) - 1
+				if i < 0 || i+1 >= len(pts) || !(x > pts[i].Station && x < pts[i+1].Station) {
 					continue // a computed point lies that close: scan judged it
 				}
 				p, _, ok := rr.Between(i, x)
